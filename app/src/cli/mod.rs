@@ -1,0 +1,63 @@
+//! The command line: headless subcommands for scripting, the window when none is given.
+
+pub mod bodies;
+pub mod check;
+pub mod convert;
+pub mod export;
+pub mod interpret;
+pub mod panel;
+pub mod stats;
+
+use clap::{Parser, Subcommand};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Aggrade: log, interpret and print measured sections in river deposits.
+#[derive(Debug, Parser)]
+#[command(name = "aggrade", version, about, long_about = None)]
+pub struct Cli {
+    /// A project file (.aggrade) or bed-table CSV to open in the window (the demo section when absent).
+    pub file: Option<PathBuf>,
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// Headless subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Validate a project file or bed-table CSV and print a summary.
+    Check(check::CheckArgs),
+    /// Convert between a bed-table CSV and a project file (by extension).
+    Convert(convert::ConvertArgs),
+    /// Interpret a section: channel bodies, stacking, proportions, regimes, candidate boundaries.
+    Interpret(interpret::InterpretArgs),
+    /// Export the interpreted column to PDF or SVG at a true scale.
+    Export(export::ExportArgs),
+    /// Paleocurrent statistics and facies-transition analysis.
+    Stats(stats::StatsArgs),
+    /// Channel-body table and proportion curve for modellers, as CSV.
+    Bodies(bodies::BodiesArgs),
+    /// Correlation panel of a project's sections hung on a datum, to PDF or SVG.
+    Panel(panel::PanelArgs),
+}
+
+/// Run the parsed command line; errors are reported once, here, in plain words.
+pub fn main(cli: Cli) -> ExitCode {
+    let result = match cli.command {
+        Some(Command::Check(a)) => check::run(&a),
+        Some(Command::Convert(a)) => convert::run(&a),
+        Some(Command::Interpret(a)) => interpret::run(&a),
+        Some(Command::Export(a)) => export::run(&a),
+        Some(Command::Stats(a)) => stats::run(&a),
+        Some(Command::Bodies(a)) => bodies::run(&a),
+        Some(Command::Panel(a)) => panel::run(&a),
+        None => crate::gui::run(cli.file),
+    };
+    match result {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(err) => {
+            eprintln!("aggrade: {err:#}");
+            ExitCode::FAILURE
+        }
+    }
+}

@@ -1,0 +1,1 @@
+//! Statistics beyond the rules: paleocurrents, facies transitions, body statistics, curves.

@@ -1,0 +1,1 @@
+//! PDF and SVG writers that translate layout pages item by item.

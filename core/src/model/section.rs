@@ -1,0 +1,242 @@
+//! Sections, beds, named surfaces and review decisions: the record a geologist logs.
+
+use super::grain::GrainSize;
+use super::lithology::Lithology;
+use super::vocab::{Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind};
+use serde::{Deserialize, Serialize};
+
+/// A stable identifier of a bed within its section; survives edits that move or renumber beds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
+pub struct BedId(pub u64);
+
+/// A named surface on a bed boundary (stored on the bed whose base it is).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Surface {
+    /// The geologist's name for it ("SB-2", "Red paleosol top").
+    pub name: String,
+    pub kind: SurfaceKind,
+}
+
+/// One bed (or covered interval) of a measured section.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Bed {
+    pub id: BedId,
+    /// Thickness in metres (> 0). Heights are derived from thicknesses, never stored.
+    pub thickness_m: f64,
+    pub lithology: Lithology,
+    /// Grain size at the base of the bed; `None` for covered intervals and some non-clastic beds.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub grain_base: Option<GrainSize>,
+    /// Grain size at the top of the bed (a different value from the base gives a fining or
+    /// coarsening trend).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub grain_top: Option<GrainSize>,
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub structures: Vec<Structure>,
+    #[serde(default)]
+    pub base_contact: Contact,
+    /// Erosional relief measured at the bed's base, metres.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub base_relief_m: Option<f64>,
+    #[serde(default)]
+    pub paleosol: PaleosolDevelopment,
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub paleosol_features: Vec<PaleosolFeature>,
+    /// Carbonate morphological stage I–VI (Gile et al. 1966; Machette 1985) as 1–6.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub carbonate_stage: Option<u8>,
+    /// A named surface at the base of this bed.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub base_surface: Option<Surface>,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub colour: String,
+    /// Paleocurrent azimuths in degrees, 0 ≤ a ≤ 360.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub paleocurrents_deg: Vec<f64>,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub fossils: String,
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub samples: Vec<String>,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub notes: String,
+}
+
+impl Bed {
+    /// A plain bed with defaults for everything but thickness, lithology and grain size.
+    pub fn new(id: BedId, thickness_m: f64, lithology: Lithology, grain: Option<GrainSize>) -> Self {
+        Bed {
+            id,
+            thickness_m,
+            lithology,
+            grain_base: grain,
+            grain_top: grain,
+            structures: Vec::new(),
+            base_contact: Contact::Sharp,
+            base_relief_m: None,
+            paleosol: PaleosolDevelopment::None,
+            paleosol_features: Vec::new(),
+            carbonate_stage: None,
+            base_surface: None,
+            colour: String::new(),
+            paleocurrents_deg: Vec::new(),
+            fossils: String::new(),
+            samples: Vec::new(),
+            notes: String::new(),
+        }
+    }
+
+    /// True for a covered (unexposed) interval.
+    pub fn is_covered(&self) -> bool {
+        self.lithology == Lithology::Covered
+    }
+
+    /// The coarser of base and top grain size, if any.
+    pub fn coarsest_grain(&self) -> Option<GrainSize> {
+        match (self.grain_base, self.grain_top) {
+            (Some(a), Some(b)) => Some(if a.phi() <= b.phi() { a } else { b }),
+            (a, b) => a.or(b),
+        }
+    }
+}
+
+/// WGS84 coordinates of the section base.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct LatLon {
+    pub lat_deg: f64,
+    pub lon_deg: f64,
+}
+
+/// Review state of a candidate sequence boundary.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ReviewState {
+    #[default]
+    Candidate,
+    Accepted,
+    Rejected,
+}
+
+/// The geologist's decision on the candidate at one bed boundary (the base of `bed`). Kept in
+/// the project so that it survives re-running the rules.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ReviewDecision {
+    /// The bed whose base the boundary is.
+    pub bed: BedId,
+    pub state: ReviewState,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub note: String,
+}
+
+/// A measured section: metadata and beds listed base first.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Section {
+    pub name: String,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub locality: String,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub coordinates: Option<LatLon>,
+    /// Date logged, ISO 8601 (YYYY-MM-DD).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub date_logged: Option<String>,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub logged_by: String,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub notes: String,
+    /// Unit heights and thicknesses are shown in (m or ft); storage is always metres.
+    #[serde(default = "default_display_unit")]
+    pub display_unit: LengthUnit,
+    /// Beds, lowest first.
+    pub beds: Vec<Bed>,
+    /// Decisions on candidate sequence boundaries.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub review: Vec<ReviewDecision>,
+    /// Horizontal position along a correlation panel, metres (when no coordinates are given).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub panel_position_m: Option<f64>,
+}
+
+fn default_display_unit() -> LengthUnit {
+    LengthUnit::Metre
+}
+
+impl Section {
+    /// An empty section.
+    pub fn new(name: impl Into<String>) -> Self {
+        Section {
+            name: name.into(),
+            locality: String::new(),
+            coordinates: None,
+            date_logged: None,
+            logged_by: String::new(),
+            notes: String::new(),
+            display_unit: LengthUnit::Metre,
+            beds: Vec::new(),
+            review: Vec::new(),
+            panel_position_m: None,
+        }
+    }
+
+    /// Height of each bed's base above the section base, metres (same order as `beds`).
+    pub fn base_heights_m(&self) -> Vec<f64> {
+        let mut h = 0.0;
+        self.beds
+            .iter()
+            .map(|b| {
+                let base = h;
+                h += b.thickness_m;
+                base
+            })
+            .collect()
+    }
+
+    /// Total thickness, metres.
+    pub fn total_thickness_m(&self) -> f64 {
+        self.beds.iter().map(|b| b.thickness_m).sum()
+    }
+
+    /// Thickness of exposed (not covered) beds, metres.
+    pub fn exposed_thickness_m(&self) -> f64 {
+        self.beds.iter().filter(|b| !b.is_covered()).map(|b| b.thickness_m).sum()
+    }
+
+    /// An id not yet used by any bed of this section.
+    pub fn next_bed_id(&self) -> BedId {
+        BedId(self.beds.iter().map(|b| b.id.0 + 1).max().unwrap_or(1))
+    }
+
+    /// Index of the bed with this id.
+    pub fn bed_index(&self, id: BedId) -> Option<usize> {
+        self.beds.iter().position(|b| b.id == id)
+    }
+
+    /// The review decision for the boundary at the base of this bed.
+    pub fn decision_for(&self, bed: BedId) -> Option<&ReviewDecision> {
+        self.review.iter().find(|d| d.bed == bed)
+    }
+}
+
+/// A project file's content: one or more sections.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Project {
+    /// File format version; readers migrate older versions forward.
+    pub format_version: u32,
+    pub sections: Vec<Section>,
+}
+
+impl Project {
+    /// The format version this build writes.
+    pub const CURRENT_VERSION: u32 = 1;
+
+    /// A project holding the given sections.
+    pub fn new(sections: Vec<Section>) -> Self {
+        Project { format_version: Self::CURRENT_VERSION, sections }
+    }
+
+    /// Find a section by name (exact, then case-insensitive).
+    pub fn section(&self, name: &str) -> Option<&Section> {
+        self.sections
+            .iter()
+            .find(|s| s.name == name)
+            .or_else(|| self.sections.iter().find(|s| s.name.eq_ignore_ascii_case(name)))
+    }
+}

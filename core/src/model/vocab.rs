@@ -1,0 +1,159 @@
+//! Closed vocabularies of the log: sedimentary structures, basal contacts, paleosol development
+//! and features, and length units.
+
+use super::grain::normalise_term;
+use serde::{Deserialize, Serialize};
+use std::fmt;
+
+macro_rules! vocabulary {
+    ($(#[$meta:meta])* $name:ident { $($(#[$vmeta:meta])* $variant:ident => $text:literal),+ $(,)? }) => {
+        $(#[$meta])*
+        #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
+        #[serde(rename_all = "snake_case")]
+        pub enum $name { $($(#[$vmeta])* $variant),+ }
+
+        impl $name {
+            /// Every term of the vocabulary.
+            pub const ALL: &'static [$name] = &[$($name::$variant),+];
+
+            /// The term as shown to the user.
+            pub fn name(self) -> &'static str {
+                match self { $($name::$variant => $text),+ }
+            }
+
+            /// Case-insensitive parse; spaces, hyphens and underscores are interchangeable.
+            pub fn parse(text: &str) -> Option<Self> {
+                let norm = normalise_term(text);
+                Self::ALL.iter().copied().find(|v| normalise_term(v.name()) == norm)
+            }
+
+            /// All terms joined for "valid values are …" messages.
+            pub fn valid_list() -> String {
+                Self::ALL.iter().map(|v| v.name()).collect::<Vec<_>>().join(", ")
+            }
+        }
+
+        impl fmt::Display for $name {
+            fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result { f.write_str(self.name()) }
+        }
+    };
+}
+
+vocabulary! {
+    /// Sedimentary structures seen in a bed.
+    Structure {
+        TroughCrossBedding => "trough cross-bedding",
+        PlanarCrossBedding => "planar cross-bedding",
+        RippleCrossLamination => "ripple cross-lamination",
+        HorizontalLamination => "horizontal lamination",
+        Massive => "massive",
+        LateralAccretion => "lateral accretion",
+        DownstreamAccretion => "downstream accretion",
+        Imbrication => "imbrication",
+        MudClasts => "mud clasts",
+        BasalLag => "basal lag",
+        RootTraces => "root traces",
+        Slickensides => "slickensides",
+        CarbonateNodules => "carbonate nodules",
+        Mottling => "mottling",
+        DesiccationCracks => "desiccation cracks",
+        Bioturbation => "bioturbation",
+        SoftSedimentDeformation => "soft-sediment deformation",
+    }
+}
+
+vocabulary! {
+    /// Nature of a bed's basal contact.
+    Contact {
+        Sharp => "sharp",
+        Erosional => "erosional",
+        Gradational => "gradational",
+    }
+}
+
+vocabulary! {
+    /// Paleosol degree of development (after Retallack's scale).
+    PaleosolDevelopment {
+        None => "none",
+        Weak => "weak",
+        Moderate => "moderate",
+        Strong => "strong",
+        VeryStrong => "very strong",
+    }
+}
+
+vocabulary! {
+    /// Features that mark a fossil soil.
+    PaleosolFeature {
+        RootTraces => "root traces",
+        Slickensides => "slickensides",
+        CarbonateNodules => "carbonate nodules",
+        Mottling => "mottling",
+        ClayCoatings => "clay coatings",
+        Rhizoliths => "rhizoliths",
+        Gleying => "gleying",
+    }
+}
+
+vocabulary! {
+    /// What kind of surface a named surface is.
+    SurfaceKind {
+        Incision => "incision surface",
+        PaleosolTop => "paleosol top",
+        Other => "other",
+    }
+}
+
+vocabulary! {
+    /// Units a thickness may be entered in.
+    LengthUnit {
+        Metre => "m",
+        Centimetre => "cm",
+        Foot => "ft",
+    }
+}
+
+#[allow(clippy::derivable_impls)]
+impl Default for Contact {
+    fn default() -> Self {
+        Contact::Sharp
+    }
+}
+
+#[allow(clippy::derivable_impls)]
+impl Default for PaleosolDevelopment {
+    fn default() -> Self {
+        PaleosolDevelopment::None
+    }
+}
+
+impl PaleosolDevelopment {
+    /// True for strong and very strong: a long time without deposition at that spot.
+    pub fn is_strong(self) -> bool {
+        self >= PaleosolDevelopment::Strong
+    }
+}
+
+/// Metres in one international foot (1959 agreement; exactly 0.3048 m).
+pub const METRES_PER_FOOT: f64 = 0.3048;
+
+impl LengthUnit {
+    /// Metres in one of this unit.
+    pub fn metres(self) -> f64 {
+        match self {
+            LengthUnit::Metre => 1.0,
+            LengthUnit::Centimetre => 0.01,
+            LengthUnit::Foot => METRES_PER_FOOT,
+        }
+    }
+
+    /// Convert a length in this unit to metres.
+    pub fn to_metres(self, value: f64) -> f64 {
+        value * self.metres()
+    }
+
+    /// Convert a length in metres to this unit.
+    pub fn from_metres(self, metres: f64) -> f64 {
+        metres / self.metres()
+    }
+}
