@@ -24,7 +24,8 @@ pub enum LoadError {
 
 /// Read a project file or bed-table CSV, chosen by extension.
 pub fn load(path: &Path) -> Result<Loaded, LoadError> {
-    let text = std::fs::read_to_string(path).map_err(|source| LoadError::Io { path: path.to_path_buf(), source })?;
+    let text =
+        std::fs::read_to_string(path).map_err(|source| LoadError::Io { path: path.to_path_buf(), source })?;
     let project: Project = serde_json::from_str(&text)
         .map_err(|e| LoadError::Invalid { path: path.to_path_buf(), message: e.to_string() })?;
     Ok(Loaded { project, warnings: Vec::new() })

@@ -87,11 +87,7 @@ impl WentworthClass {
         if !(d_mm.is_finite() && d_mm > 0.0) {
             return None;
         }
-        Self::ALL
-            .iter()
-            .rev()
-            .copied()
-            .find(|c| d_mm >= c.limits_mm().0)
+        Self::ALL.iter().rev().copied().find(|c| d_mm >= c.limits_mm().0)
     }
 
     /// The class of a phi value (same limit convention as [`WentworthClass::from_mm`]).
@@ -222,11 +218,7 @@ impl GrainSize {
             }
             return Err(format!("a diameter must be > 0 mm, got {t:?}"));
         }
-        if let Some(num) = lower
-            .strip_suffix("phi")
-            .or_else(|| lower.strip_suffix('φ'))
-            .and_then(number)
-        {
+        if let Some(num) = lower.strip_suffix("phi").or_else(|| lower.strip_suffix('φ')).and_then(number) {
             if (-12.0..=14.0).contains(&num) {
                 return Ok(Self::Phi(num));
             }
@@ -252,7 +244,11 @@ impl fmt::Display for GrainSize {
 pub(crate) fn fmt_trim(v: f64) -> String {
     let s = format!("{v:.4}");
     let s = s.trim_end_matches('0').trim_end_matches('.');
-    if s == "-0" { "0".to_string() } else { s.to_string() }
+    if s == "-0" {
+        "0".to_string()
+    } else {
+        s.to_string()
+    }
 }
 
 impl From<GrainSize> for String {

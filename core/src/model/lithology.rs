@@ -102,7 +102,9 @@ impl Lithology {
     /// Clastic rocks need a grain size; covered intervals must not have one; the rest may.
     pub fn grain_size_rule(self) -> GrainSizeRule {
         match self.family() {
-            LithologyFamily::Fines | LithologyFamily::Sand | LithologyFamily::Gravel => GrainSizeRule::Required,
+            LithologyFamily::Fines | LithologyFamily::Sand | LithologyFamily::Gravel => {
+                GrainSizeRule::Required
+            }
             LithologyFamily::NonClastic => GrainSizeRule::Optional,
             LithologyFamily::Covered => GrainSizeRule::Forbidden,
         }
