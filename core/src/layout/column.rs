@@ -9,7 +9,9 @@ use super::style::*;
 use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
 use super::text::{fit_size, text, text_up};
 use super::transform::{GrainScale, HeightTransform};
-use crate::model::{Bed, Contact, LengthUnit, Lithology, PaleosolDevelopment, ReviewState, Section, WentworthClass};
+use crate::model::{
+    Bed, Contact, LengthUnit, Lithology, PaleosolDevelopment, ReviewState, Section, WentworthClass,
+};
 use crate::rules::{Interpretation, Regime, Stacking};
 use serde::Serialize;
 
@@ -85,7 +87,19 @@ impl Tracks {
         } else {
             (None, None, None, None, None)
         };
-        Tracks { axis, lithology, structures, paleocurrents, paleosols, storeys, bodies, proportion, regime, boundary_labels, width_mm: x }
+        Tracks {
+            axis,
+            lithology,
+            structures,
+            paleocurrents,
+            paleosols,
+            storeys,
+            bodies,
+            proportion,
+            regime,
+            boundary_labels,
+            width_mm: x,
+        }
     }
 
     /// The grain scale of a segment whose left edge is at `x0_mm`.
@@ -262,7 +276,8 @@ impl<'a> ColumnCtx<'a> {
         }
         let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
         let (xb, xt) = (self.right_x(i, b, g), self.right_x(i, tp, g));
-        let outline = [PtMm { x: xl, y: yb }, PtMm { x: xb, y: yb }, PtMm { x: xt, y: yt }, PtMm { x: xl, y: yt }];
+        let outline =
+            [PtMm { x: xl, y: yb }, PtMm { x: xb, y: yb }, PtMm { x: xt, y: yt }, PtMm { x: xl, y: yt }];
         // Anchor patterns to the section base so they run on across beds and segments.
         fill_bed(bed.lithology, &outline, PtMm { x: xl, y: t.y_mm(0.0) }, out);
         out.push(Item::Polyline {
@@ -304,7 +319,12 @@ impl<'a> ColumnCtx<'a> {
                 let x = xl + ((xb.min(xt) - xl) - w) / 2.0;
                 let y = (yb + yt) / 2.0 + size * 0.35 * 0.353;
                 out.push(Item::Rect {
-                    rect: RectMm { x: x - 0.4, y: y - size * 0.353 * 0.85, w: w + 0.8, h: size * 0.353 * 1.2 },
+                    rect: RectMm {
+                        x: x - 0.4,
+                        y: y - size * 0.353 * 0.85,
+                        w: w + 0.8,
+                        h: size * 0.353 * 1.2,
+                    },
                     fill: Some(Rgba::WHITE),
                     stroke: None,
                 });
@@ -395,7 +415,14 @@ impl<'a> ColumnCtx<'a> {
                         if let Some(size) = fit_size(&candidate, yb - yt - 1.0, SMALL_PT, 4.0) {
                             let w = super::text::width(&candidate, size);
                             let asc = size * 0.353 * 0.76;
-                            text_up(out, x + 1.2 + asc, (yb + yt) / 2.0 + w / 2.0, &candidate, size, BODY_BLUE);
+                            text_up(
+                                out,
+                                x + 1.2 + asc,
+                                (yb + yt) / 2.0 + w / 2.0,
+                                &candidate,
+                                size,
+                                BODY_BLUE,
+                            );
                             break;
                         }
                     }
@@ -412,7 +439,7 @@ impl<'a> ColumnCtx<'a> {
                     let (fill, label) = match r.regime {
                         Regime::Low => (REGIME_LOW, "low"),
                         Regime::High => (REGIME_HIGH, "high"),
-                        Regime::Undetermined => (REGIME_UNDETERMINED, "?"),
+                        Regime::Undetermined => (REGIME_UNDETERMINED, "undetermined"),
                     };
                     out.push(Item::Rect {
                         rect: RectMm { x: x0 + rt.x_mm, y: yt, w: rt.w_mm, h: yb - yt },
@@ -422,7 +449,14 @@ impl<'a> ColumnCtx<'a> {
                     if let Some(size) = fit_size(label, yb - yt - 1.0, SMALL_PT, 4.0) {
                         let w = super::text::width(label, size);
                         let asc = size * 0.353 * 0.76;
-                        text_up(out, x0 + rt.x_mm + rt.w_mm / 2.0 + asc / 2.0, (yb + yt) / 2.0 + w / 2.0, label, size, INK);
+                        text_up(
+                            out,
+                            x0 + rt.x_mm + rt.w_mm / 2.0 + asc / 2.0,
+                            (yb + yt) / 2.0 + w / 2.0,
+                            label,
+                            size,
+                            INK,
+                        );
                     }
                 }
             }
@@ -430,7 +464,15 @@ impl<'a> ColumnCtx<'a> {
         self.draw_boundaries(lo, hi, x0, t, out);
     }
 
-    fn draw_proportion(&self, pt: Track, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+    fn draw_proportion(
+        &self,
+        pt: Track,
+        lo: f64,
+        hi: f64,
+        x0: f64,
+        t: &HeightTransform,
+        out: &mut Vec<Item>,
+    ) {
         let (x_a, x_b) = (x0 + pt.x_mm, x0 + pt.x_mm + pt.w_mm);
         let (y_lo, y_hi) = (t.y_mm(lo), t.y_mm(hi));
         for (x, stroke) in [
@@ -455,7 +497,10 @@ impl<'a> ColumnCtx<'a> {
         let mut run: Vec<PtMm> = Vec::new();
         let flush = |run: &mut Vec<PtMm>, out: &mut Vec<Item>| {
             if run.len() >= 2 {
-                out.push(Item::Polyline { points: std::mem::take(run), stroke: solid(THIN_MM * 2.0, CURVE_GREEN) });
+                out.push(Item::Polyline {
+                    points: std::mem::take(run),
+                    stroke: solid(THIN_MM * 2.0, CURVE_GREEN),
+                });
             }
             run.clear();
         };
@@ -539,12 +584,26 @@ impl<'a> ColumnCtx<'a> {
         let lith = tr.lithology;
         for (line, label) in [(0.0, "lithology"), (1.0, "grain size \u{2192}")] {
             let w = super::text::width(label, TEXT_PT);
-            text(out, x0 + lith.x_mm + (lith.w_mm - w) / 2.0, y_bottom - 3.5 + line * 3.0, label, TEXT_PT, INK);
+            text(
+                out,
+                x0 + lith.x_mm + (lith.w_mm - w) / 2.0,
+                y_bottom - 3.5 + line * 3.0,
+                label,
+                TEXT_PT,
+                INK,
+            );
         }
         if let Some(p) = tr.proportion {
             for (line, label) in [(0.0, "channel-body"), (1.0, "proportion")] {
                 let w = super::text::width(label, SMALL_PT);
-                text(out, x0 + p.x_mm + (p.w_mm - w) / 2.0, y_bottom - 3.2 + line * 2.6, label, SMALL_PT, INK);
+                text(
+                    out,
+                    x0 + p.x_mm + (p.w_mm - w) / 2.0,
+                    y_bottom - 3.2 + line * 2.6,
+                    label,
+                    SMALL_PT,
+                    INK,
+                );
             }
         }
         if let Some(l) = tr.boundary_labels {
@@ -554,7 +613,10 @@ impl<'a> ColumnCtx<'a> {
             }
         }
         out.push(Item::Polyline {
-            points: vec![PtMm { x: x0, y: y_top + TITLE_BAND_MM }, PtMm { x: x0 + tr.width_mm, y: y_top + TITLE_BAND_MM }],
+            points: vec![
+                PtMm { x: x0, y: y_top + TITLE_BAND_MM },
+                PtMm { x: x0 + tr.width_mm, y: y_top + TITLE_BAND_MM },
+            ],
             stroke: solid(HAIR_MM, GREY),
         });
     }
@@ -633,7 +695,16 @@ pub fn paleosol_bar_mm(dev: PaleosolDevelopment) -> f64 {
 /// A vertical bracket at x from yb (base) to yt (top), with end ticks pointing left where the
 /// interval ends inside the segment.
 #[allow(clippy::too_many_arguments)]
-fn bracket(x: f64, yb: f64, yt: f64, tick_base: bool, tick_top: bool, tick: f64, width: f64, out: &mut Vec<Item>) {
+fn bracket(
+    x: f64,
+    yb: f64,
+    yt: f64,
+    tick_base: bool,
+    tick_top: bool,
+    tick: f64,
+    width: f64,
+    out: &mut Vec<Item>,
+) {
     let mut pts = Vec::new();
     if tick_top {
         pts.push(PtMm { x: x - tick, y: yt + width / 2.0 });
@@ -667,7 +738,10 @@ pub fn draw_contact(contact: Contact, xl: f64, xr: f64, y: f64, out: &mut Vec<It
             for k in 0..n {
                 for s in 0..8 {
                     let f = s as f64 / 8.0;
-                    pts.push(PtMm { x: xl + (k as f64 + f) * w, y: y + 0.7 * (f * std::f64::consts::PI).sin() });
+                    pts.push(PtMm {
+                        x: xl + (k as f64 + f) * w,
+                        y: y + 0.7 * (f * std::f64::consts::PI).sin(),
+                    });
                 }
             }
             pts.push(PtMm { x: xr, y });
@@ -678,7 +752,9 @@ pub fn draw_contact(contact: Contact, xl: f64, xr: f64, y: f64, out: &mut Vec<It
 
 /// A tick step (in display units) giving major ticks at least ~8 mm apart.
 pub fn axis_step(mm_per_unit: f64) -> f64 {
-    const STEPS: [f64; 16] = [0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0, 200.0, 500.0, 1000.0, 2000.0, 5000.0, 10000.0];
+    const STEPS: [f64; 16] = [
+        0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0, 200.0, 500.0, 1000.0, 2000.0, 5000.0, 10000.0,
+    ];
     STEPS.iter().copied().find(|s| s * mm_per_unit >= 8.0).unwrap_or(10000.0)
 }
 
@@ -709,7 +785,9 @@ mod tests {
             let opts = LayoutOptions { show_interpretation: show, ..Default::default() };
             let t = Tracks::new(&opts);
             let mut list = vec![t.axis, t.lithology, t.structures, t.paleocurrents, t.paleosols];
-            list.extend([t.storeys, t.bodies, t.proportion, t.regime, t.boundary_labels].into_iter().flatten());
+            list.extend(
+                [t.storeys, t.bodies, t.proportion, t.regime, t.boundary_labels].into_iter().flatten(),
+            );
             assert_eq!(list.len(), if show { 10 } else { 5 });
             for w in list.windows(2) {
                 assert!(w[0].x_mm + w[0].w_mm <= w[1].x_mm + 1e-9, "{w:?}");
