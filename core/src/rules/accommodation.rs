@@ -82,10 +82,11 @@ fn why(column: &Column, bodies: &[ChannelBody], group: &[Stretch], params: &Rule
             let storeys: usize = in_group.iter().map(|b| b.stories).sum();
             let amalgamated: usize = in_group.iter().map(|b| b.amalgamated_bases).sum();
             format!(
-                "{} multi-story channel bod{} ({storeys} storeys, {amalgamated} storey bases on channel sand) and a \
+                "{} multi-story channel bod{} ({storeys} storeys, {amalgamated} storey base{} on channel sand) and a \
                  channel-body proportion of {p} (≥ {:.2}): amalgamated, sand-rich stacking suggests low accommodation",
                 in_group.len(),
                 if in_group.len() == 1 { "y" } else { "ies" },
+                if amalgamated == 1 { "" } else { "s" },
                 params.low_min_proportion
             )
         }

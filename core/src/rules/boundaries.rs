@@ -37,8 +37,8 @@ pub fn candidates(
             sites.entry(first).or_default().body = Some(k);
         }
     }
-    for i in 0..n.saturating_sub(1) {
-        if elements[i] == Element::Paleosol {
+    for (i, el) in elements.iter().enumerate().take(n.saturating_sub(1)) {
+        if *el == Element::Paleosol {
             sites.entry(i + 1).or_default().on_paleosol = true;
         }
     }

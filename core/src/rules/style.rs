@@ -39,8 +39,9 @@ fn evidence(
     if beds.iter().any(|b| b.structures.contains(&Structure::DownstreamAccretion)) {
         braided.push("downstream-accretion surfaces recorded".to_string());
     }
-    let mud_m: f64 =
-        (first..=last).filter(|&i| !is_sand_or_gravel(&section.beds[i])).map(|i| column.thickness_m(i)).sum();
+    let mud_m: f64 = (first..=last)
+        .filter(|&i| !is_sand_or_gravel(&section.beds[i]))
+        .fold(0.0, |sum, i| sum + column.thickness_m(i));
     if body.thickness_m > 0.0 && mud_m < LITTLE_MUD_FRACTION * body.thickness_m {
         braided.push(format!("little mud inside the body ({mud_m:.2} m of drapes)"));
     }
@@ -65,8 +66,7 @@ fn evidence(
         .take_while(|&i| {
             matches!(elements[i], Element::OverbankFines | Element::Paleosol | Element::SplaySand)
         })
-        .map(|i| column.thickness_m(i))
-        .sum();
+        .fold(0.0, |sum, i| sum + column.thickness_m(i));
     if body.thickness_m > 0.0 && overbank_m >= body.thickness_m {
         meandering.push(format!(
             "thick overbank fines above ({overbank_m:.2} m over a {:.2} m body)",
