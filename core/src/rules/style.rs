@@ -2,7 +2,7 @@
 //! little mud) or meandering-like (fining-upward storeys, lateral accretion, thick overbank).
 
 use super::bodies::{body_beds, profile};
-use super::column::{is_sand_or_gravel, Column};
+use super::column::{is_sand_or_gravel, Column, TOL};
 use super::params::RuleParams;
 use super::types::{ChannelBody, Element, FluvialStyle, GrainProfile, Storey, StyleHint};
 use crate::model::{Section, Structure, WentworthClass};
@@ -67,7 +67,7 @@ fn evidence(
             matches!(elements[i], Element::OverbankFines | Element::Paleosol | Element::SplaySand)
         })
         .fold(0.0, |sum, i| sum + column.thickness_m(i));
-    if body.thickness_m > 0.0 && overbank_m >= body.thickness_m {
+    if body.thickness_m > 0.0 && overbank_m >= body.thickness_m - TOL {
         meandering.push(format!(
             "thick overbank fines above ({overbank_m:.2} m over a {:.2} m body)",
             body.thickness_m
