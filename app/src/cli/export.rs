@@ -3,7 +3,7 @@
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::model::Section;
-use aggrade_core::rules::Interpretation;
+use aggrade_core::rules::{interpret, RuleParams};
 use anyhow::{bail, Context};
 use std::path::{Path, PathBuf};
 
@@ -72,25 +72,6 @@ fn pick_section<'a>(file: &Path, sections: &'a [Section], name: Option<&str>) ->
     }
 }
 
-/// The interpretation drawn beside the column. Until the rules engine lands this is an empty
-/// interpretation (column, structures and paleosols only).
-fn interpret(section: &Section) -> Interpretation {
-    Interpretation {
-        section: section.name.clone(),
-        total_thickness_m: section.total_thickness_m(),
-        exposed_thickness_m: section.exposed_thickness_m(),
-        channel_proportion: None,
-        elements: Vec::new(),
-        storeys: Vec::new(),
-        channel_bodies: Vec::new(),
-        interval_proportions: Vec::new(),
-        proportion_curve: Vec::new(),
-        accommodation: Vec::new(),
-        sequence_boundary_candidates: Vec::new(),
-        caution: aggrade_core::REVIEW_CAUTION.to_string(),
-    }
-}
-
 /// Seconds since 1970 for the PDF date: `SOURCE_DATE_EPOCH` when set (reproducible builds
 /// convention), otherwise the clock.
 fn creation_time() -> anyhow::Result<i64> {
@@ -132,7 +113,8 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
         eprintln!("aggrade: warning: {w}");
     }
     let section = pick_section(&args.file, &loaded.project.sections, args.section.as_deref())?;
-    let interp = interpret(section);
+    // Default rule parameters, as `aggrade interpret` uses without --params.
+    let interp = interpret(section, &RuleParams::default());
     let when = creation_time()?;
     let meta = PrintMeta {
         printed_on: iso_date(when),
