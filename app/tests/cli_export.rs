@@ -48,7 +48,17 @@ fn exports_pdf_at_the_chosen_paper_and_is_reproducible() {
     let file = fixture();
     let file = file.to_str().expect("utf-8 path");
     for out in [&a, &b] {
-        let o = aggrade(&["export", file, "--pdf", out.to_str().expect("path"), "--scale", "50", "--paper", "a3", "--landscape"]);
+        let o = aggrade(&[
+            "export",
+            file,
+            "--pdf",
+            out.to_str().expect("path"),
+            "--scale",
+            "50",
+            "--paper",
+            "a3",
+            "--landscape",
+        ]);
         assert!(o.status.success(), "{}", stderr(&o));
     }
     let bytes = std::fs::read(&a).expect("pdf written");
@@ -71,7 +81,9 @@ fn exports_svg_and_letter() {
     let o = aggrade(&["export", file, "--svg", svg.to_str().expect("path"), "--scale", "1:200"]);
     assert!(o.status.success(), "{}", stderr(&o));
     let text = std::fs::read_to_string(&svg).expect("one svg written");
-    assert!(text.starts_with("<?xml") && text.contains("Tarn Gap Bluff") && text.trim_end().ends_with("</svg>"));
+    assert!(
+        text.starts_with("<?xml") && text.contains("Tarn Gap Bluff") && text.trim_end().ends_with("</svg>")
+    );
     // Letter pages, PDF and SVG side by side: the SVG pages are numbered when there are several.
     let pdf = dir.path().join("col.pdf");
     let svg2 = dir.path().join("paged.svg");

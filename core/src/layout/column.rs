@@ -654,7 +654,7 @@ impl<'a> ColumnCtx<'a> {
             let w = super::text::width(label, SMALL_PT);
             text(out, (xa + xb - w) / 2.0, y + 7.8, label, SMALL_PT, GREY);
         }
-        let phi_note = "class midpoints in \u{3c6} = \u{2212}log\u{2082}(d/mm)";
+        let phi_note = "Wentworth classes; \u{3c6} = \u{2212}log\u{2082}(d/mm)";
         if let Some(size) = fit_size(phi_note, g.full_width_mm() + 4.0, 4.5, 3.5) {
             text(out, g.left_mm, y + 10.8, phi_note, size, GREY);
         }
@@ -705,14 +705,21 @@ fn bracket(
     width: f64,
     out: &mut Vec<Item>,
 ) {
+    // Closed ends stop short of the boundary so that stacked intervals read as separate brackets.
+    let inset = width / 2.0 + 0.35;
+    let y_top = if tick_top { yt + inset } else { yt };
+    let y_base = if tick_base { yb - inset } else { yb };
+    if y_base <= y_top {
+        return;
+    }
     let mut pts = Vec::new();
     if tick_top {
-        pts.push(PtMm { x: x - tick, y: yt + width / 2.0 });
+        pts.push(PtMm { x: x - tick, y: y_top });
     }
-    pts.push(PtMm { x, y: yt + if tick_top { width / 2.0 } else { 0.0 } });
-    pts.push(PtMm { x, y: yb - if tick_base { width / 2.0 } else { 0.0 } });
+    pts.push(PtMm { x, y: y_top });
+    pts.push(PtMm { x, y: y_base });
     if tick_base {
-        pts.push(PtMm { x: x - tick, y: yb - width / 2.0 });
+        pts.push(PtMm { x: x - tick, y: y_base });
     }
     out.push(Item::Polyline { points: pts, stroke: solid(width, BODY_BLUE) });
 }
@@ -795,6 +802,31 @@ mod tests {
             let last = list[list.len() - 1];
             assert!(last.x_mm + last.w_mm <= t.width_mm + 1e-9);
         }
+    }
+
+    #[test]
+    fn feet_sections_get_a_feet_axis() {
+        use crate::layout::sample::{sample_interpretation, sample_section};
+        let mut s = sample_section();
+        s.display_unit = LengthUnit::Foot;
+        let i = sample_interpretation(&s);
+        let opts = LayoutOptions::default();
+        let strip = crate::layout::column_strip(&s, &i, &opts);
+        let texts: Vec<(&str, f64)> = strip
+            .items
+            .iter()
+            .filter_map(|it| match it {
+                Item::Text { text, pos, .. } => Some((text.as_str(), pos.y)),
+                _ => None,
+            })
+            .collect();
+        assert!(texts.iter().any(|(t, _)| *t == "height (ft)"));
+        // At 1:100 a foot is 3.048 mm (1 ft = 0.3048 m exactly), so labels every 5 ft (15.24 mm).
+        // The "100" label sits at 100 ft = 30.48 m above the base.
+        let (_, y) = texts.iter().find(|(t, _)| *t == "100").expect("100 ft label");
+        let baseline_offset = 0.8;
+        assert!((strip.heights.height_m(y - baseline_offset) - 30.48).abs() < 1e-9);
+        assert!(!texts.iter().any(|(t, _)| *t == "102"), "no label off the 5 ft grid");
     }
 
     #[test]

@@ -25,9 +25,9 @@ const SEGMENT_GAP_MM: f64 = 6.0;
 const FOOTER_PT: f64 = 6.0;
 /// Shortest column worth putting on a page, mm.
 const MIN_COLUMN_MM: f64 = 30.0;
-/// A segment ends at a bed boundary if one lies in the top 30% of its height (common practice:
+/// A segment ends at a bed boundary if one lies in the top 15% of its height (common practice:
 /// avoid cutting beds); otherwise the bed is cut and continues on the next segment.
-const BREAK_SEARCH_FRACTION: f64 = 0.3;
+const BREAK_SEARCH_FRACTION: f64 = 0.15;
 
 /// One column segment on a page.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -283,9 +283,9 @@ mod tests {
     #[test]
     fn breaks_prefer_bed_tops() {
         let tops = [1.0, 2.0, 9.0, 13.0, 20.0];
-        // Room up to 10 m: bed top at 9 lies in the top 30% (7–10) → break there.
+        // Room up to 10 m: bed top at 9 lies in the top 15% (8.5–10) → break there.
         assert_eq!(break_height(&tops, 0.0, 10.0), 9.0);
-        // Room up to 8 m: no top in 5.6–8 → cut at 8.
+        // Room up to 8 m: no top in 6.8–8 → cut at 8.
         assert_eq!(break_height(&tops, 0.0, 8.0), 8.0);
         assert_eq!(break_height(&tops, 9.0, 13.0), 13.0);
     }
