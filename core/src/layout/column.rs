@@ -71,9 +71,9 @@ impl Tracks {
             x += w + gap;
             t
         };
-        let axis = take(13.0, 1.0);
+        let axis = take(12.0, 1.0);
         let lithology = take(GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 2.0);
-        let structures = take(15.0, 0.5);
+        let structures = take(14.0, 0.5);
         let paleocurrents = take(9.0, 0.5);
         let paleosols = take(6.0, 1.5);
         let (storeys, bodies, proportion, regime, boundary_labels) = if opts.show_interpretation {
@@ -82,7 +82,7 @@ impl Tracks {
                 Some(take(9.0, 1.5)),
                 Some(take(16.0, 1.5)),
                 Some(take(6.5, 0.5)),
-                Some(take(14.0, 0.0)),
+                Some(take(12.0, 0.0)),
             )
         } else {
             (None, None, None, None, None)
@@ -676,7 +676,7 @@ pub fn boundary_style(review: ReviewState, score: f64) -> (Stroke, String, Rgba)
         }
         ReviewState::Accepted => (solid(0.55, BOUNDARY_RED), format!("SB {score:.2}"), BOUNDARY_RED),
         ReviewState::Rejected => {
-            (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), format!("rejected {score:.2}"), REJECTED_GREY)
+            (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), format!("rej. {score:.2}"), REJECTED_GREY)
         }
     }
 }
