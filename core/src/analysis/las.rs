@@ -1,0 +1,1 @@
+//! LAS 2.0 well-log reader.
