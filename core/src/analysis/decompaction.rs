@@ -74,11 +74,20 @@ impl PorosityLaw {
 
 /// Thickness (m) of a layer now between depths `top_m` and `base_m` once moved so that its top
 /// lies at `new_top_m` (0 for the surface).
-pub fn decompact_layer(law: &PorosityLaw, top_m: f64, base_m: f64, new_top_m: f64) -> Result<f64, AnalysisError> {
+pub fn decompact_layer(
+    law: &PorosityLaw,
+    top_m: f64,
+    base_m: f64,
+    new_top_m: f64,
+) -> Result<f64, AnalysisError> {
     law.validate("porosity law")?;
     for (field, v) in [("layer top depth", top_m), ("new top depth", new_top_m)] {
         if !(v.is_finite() && v >= 0.0) {
-            return Err(AnalysisError::OutOfRange { field: field.into(), value: v, valid: "a depth ≥ 0 m".into() });
+            return Err(AnalysisError::OutOfRange {
+                field: field.into(),
+                value: v,
+                valid: "a depth ≥ 0 m".into(),
+            });
         }
     }
     if !(base_m.is_finite() && base_m > top_m) {

@@ -77,16 +77,27 @@ fn upper_continued_fraction(a: f64, x: f64) -> Result<f64, AnalysisError> {
             return Ok((-x + a * x.ln() - ln_gamma(a)).exp() * h);
         }
     }
-    Err(AnalysisError::NoConvergence { what: "incomplete gamma continued fraction".into(), iterations: MAX_ITERATIONS })
+    Err(AnalysisError::NoConvergence {
+        what: "incomplete gamma continued fraction".into(),
+        iterations: MAX_ITERATIONS,
+    })
 }
 
 /// Regularised upper incomplete gamma function Q(a, x) = Γ(a, x)/Γ(a), for a > 0, x ≥ 0.
 pub fn upper_regularized_gamma(a: f64, x: f64) -> Result<f64, AnalysisError> {
     if !(a.is_finite() && a > 0.0) {
-        return Err(AnalysisError::OutOfRange { field: "gamma shape a".into(), value: a, valid: "a must be > 0".into() });
+        return Err(AnalysisError::OutOfRange {
+            field: "gamma shape a".into(),
+            value: a,
+            valid: "a must be > 0".into(),
+        });
     }
-    if !(x >= 0.0) {
-        return Err(AnalysisError::OutOfRange { field: "gamma argument x".into(), value: x, valid: "x must be ≥ 0".into() });
+    if x.is_nan() || x < 0.0 {
+        return Err(AnalysisError::OutOfRange {
+            field: "gamma argument x".into(),
+            value: x,
+            valid: "x must be ≥ 0".into(),
+        });
     }
     if x == 0.0 {
         return Ok(1.0);

@@ -143,7 +143,8 @@ pub fn quasi_independence_expected(
             .map(|i| ((0..m).filter(|&j| j != i).map(|j| a[i] * b[j]).sum::<f64>() - rows[i]).abs())
             .fold(0.0, f64::max);
         if worst <= params.ipf_tolerance {
-            let e = (0..m).map(|i| (0..m).map(|j| if i == j { 0.0 } else { a[i] * b[j] }).collect()).collect();
+            let e =
+                (0..m).map(|i| (0..m).map(|j| if i == j { 0.0 } else { a[i] * b[j] }).collect()).collect();
             return Ok((e, iteration));
         }
     }
@@ -161,7 +162,11 @@ pub fn analyse_counts(
 ) -> Result<TransitionAnalysis, AnalysisError> {
     let m = states.len();
     if m < 2 {
-        return Err(AnalysisError::TooFewValues { what: "facies transition analysis (states)".into(), needed: 2, got: m });
+        return Err(AnalysisError::TooFewValues {
+            what: "facies transition analysis (states)".into(),
+            needed: 2,
+            got: m,
+        });
     }
     if observed.len() != m || observed.iter().any(|r| r.len() != m) {
         return Err(AnalysisError::OutOfRange {
@@ -238,8 +243,12 @@ pub fn analyse_sequence<S: Ord + Clone + ToString>(
 }
 
 /// Lithology transitions of a whole section.
-pub fn analyse_section(section: &Section, params: &TransitionParams) -> Result<TransitionAnalysis, AnalysisError> {
-    let seq: Vec<Option<&'static str>> = lithology_sequence(section).into_iter().map(|l| l.map(Lithology::name)).collect();
+pub fn analyse_section(
+    section: &Section,
+    params: &TransitionParams,
+) -> Result<TransitionAnalysis, AnalysisError> {
+    let seq: Vec<Option<&'static str>> =
+        lithology_sequence(section).into_iter().map(|l| l.map(Lithology::name)).collect();
     analyse_sequence(&seq, params)
 }
 
@@ -294,7 +303,8 @@ mod tests {
 
     #[test]
     fn two_states_have_no_degrees_of_freedom() {
-        let r = analyse_sequence(&[Some("a"), Some("b"), Some("a")], &TransitionParams::default()).expect("valid");
+        let r = analyse_sequence(&[Some("a"), Some("b"), Some("a")], &TransitionParams::default())
+            .expect("valid");
         assert_eq!(r.dof, -1);
         assert_eq!(r.p_value, None);
         assert!(analyse_sequence::<&str>(&[Some("a")], &TransitionParams::default()).is_err());

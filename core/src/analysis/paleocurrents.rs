@@ -113,11 +113,18 @@ fn validate(azimuths_deg: &[f64]) -> Result<(), AnalysisError> {
 }
 
 /// Statistics of a set of azimuths in degrees (0–360). Needs at least two readings.
-pub fn circular_summary(azimuths_deg: &[f64], params: &CircularParams) -> Result<CircularSummary, AnalysisError> {
+pub fn circular_summary(
+    azimuths_deg: &[f64],
+    params: &CircularParams,
+) -> Result<CircularSummary, AnalysisError> {
     validate(azimuths_deg)?;
     let n = azimuths_deg.len();
     if n < 2 {
-        return Err(AnalysisError::TooFewValues { what: "paleocurrent statistics".into(), needed: 2, got: n });
+        return Err(AnalysisError::TooFewValues {
+            what: "paleocurrent statistics".into(),
+            needed: 2,
+            got: n,
+        });
     }
     // Axial data: work on doubled angles so that θ and θ+180° coincide.
     let factor = match params.kind {
@@ -137,7 +144,8 @@ pub fn circular_summary(azimuths_deg: &[f64], params: &CircularParams) -> Result
             m
         }
     });
-    let circular_std_deg = if rbar > 0.0 { (-2.0 * rbar.ln()).sqrt() * 180.0 / PI / factor } else { f64::INFINITY };
+    let circular_std_deg =
+        if rbar > 0.0 { (-2.0 * rbar.ln()).sqrt() * 180.0 / PI / factor } else { f64::INFINITY };
     Ok(CircularSummary {
         kind: params.kind,
         n,
@@ -165,7 +173,8 @@ pub fn per_bed(section: &Section, params: &CircularParams) -> Result<Vec<BedPale
     let mut out = Vec::new();
     for (i, bed) in section.beds.iter().enumerate() {
         if bed.paleocurrents_deg.len() >= 2 {
-            let summary = circular_summary(&bed.paleocurrents_deg, params).map_err(|e| bed_error(section, i, e))?;
+            let summary =
+                circular_summary(&bed.paleocurrents_deg, params).map_err(|e| bed_error(section, i, e))?;
             out.push(BedPaleocurrents { bed_index: i, base_m: bases[i], summary });
         }
     }
@@ -225,7 +234,12 @@ pub struct RoseParams {
 
 impl Default for RoseParams {
     fn default() -> Self {
-        RoseParams { bin_width_deg: 30.0, start_deg: 0.0, scale: PetalScale::Area, kind: DataKind::Directional }
+        RoseParams {
+            bin_width_deg: 30.0,
+            start_deg: 0.0,
+            scale: PetalScale::Area,
+            kind: DataKind::Directional,
+        }
     }
 }
 
@@ -313,6 +327,7 @@ mod tests {
     }
 
     #[test]
+    #[allow(clippy::approx_constant)] // 3.141 is a data value of the worked example, not π.
     fn worked_example_matches_published_values() {
         // Worked example (REFERENCES.md, from a statistics library's docs): z = 1.236,
         // p = 0.3048, R̄ = 0.4972, mean 58.04°.
@@ -358,15 +373,19 @@ mod tests {
     #[test]
     fn rose_bins_count_and_area_scaling() {
         let a = [5.0, 15.0, 25.0, 95.0, 359.0];
-        let count = rose_bins(&a, &RoseParams { bin_width_deg: 90.0, scale: PetalScale::Count, ..Default::default() })
-            .expect("valid");
+        let count = rose_bins(
+            &a,
+            &RoseParams { bin_width_deg: 90.0, scale: PetalScale::Count, ..Default::default() },
+        )
+        .expect("valid");
         assert_eq!(count.bins.iter().map(|b| b.count).collect::<Vec<_>>(), vec![3, 1, 0, 1]);
         assert!((count.bins[1].radius - 1.0 / 3.0).abs() < 1e-12);
         let area = rose_bins(&a, &RoseParams { bin_width_deg: 90.0, ..Default::default() }).expect("valid");
         assert!((area.bins[1].radius - (1.0f64 / 3.0).sqrt()).abs() < 1e-12);
         // Centring a bin on north moves 359° and 5° into the same bin.
         let centred =
-            rose_bins(&a, &RoseParams { bin_width_deg: 90.0, start_deg: -45.0, ..Default::default() }).expect("valid");
+            rose_bins(&a, &RoseParams { bin_width_deg: 90.0, start_deg: -45.0, ..Default::default() })
+                .expect("valid");
         assert_eq!(centred.bins[3].from_deg, 315.0);
         assert_eq!(centred.bins[3].count, 4, "{centred:?}"); // 359, 5, 15, 25 in 315–405
         assert!(rose_bins(&a, &RoseParams { bin_width_deg: 7.0, ..Default::default() }).is_err());
@@ -374,8 +393,11 @@ mod tests {
 
     #[test]
     fn axial_rose_is_symmetric() {
-        let r = rose_bins(&[10.0, 20.0], &RoseParams { bin_width_deg: 90.0, kind: DataKind::Axial, ..Default::default() })
-            .expect("valid");
+        let r = rose_bins(
+            &[10.0, 20.0],
+            &RoseParams { bin_width_deg: 90.0, kind: DataKind::Axial, ..Default::default() },
+        )
+        .expect("valid");
         assert_eq!(r.bins.iter().map(|b| b.count).collect::<Vec<_>>(), vec![2, 0, 2, 0]);
     }
 }
