@@ -56,7 +56,10 @@ except ImportError as e:
 s = json.loads(sys.argv[1]); q = json.loads(sys.argv[2])
 print(json.dumps([[float(np.percentile(v, 100 * qq)) for qq in q] for v in s]))
 "#;
-    let o = python_json(script, &[&serde_json::to_string(&samples).expect("json"), &serde_json::to_string(&qs).expect("json")]);
+    let o = python_json(
+        script,
+        &[&serde_json::to_string(&samples).expect("json"), &serde_json::to_string(&qs).expect("json")],
+    );
     for (i, v) in samples.iter().enumerate() {
         for (j, q) in qs.iter().enumerate() {
             let want = o[i][j].as_f64().expect("number");
@@ -66,11 +69,14 @@ print(json.dumps([[float(np.percentile(v, 100 * qq)) for qq in q] for v in s]))
         }
     }
     // The summary uses the same definition: P10/P50/P90 of the last sample.
-    let bodies: Vec<ChannelBody> = samples[3].iter().scan(0.0, |h, t| {
-        let b = body(*h, *h + t, 1);
-        *h += t + 1.0;
-        Some(b)
-    }).collect();
+    let bodies: Vec<ChannelBody> = samples[3]
+        .iter()
+        .scan(0.0, |h, t| {
+            let b = body(*h, *h + t, 1);
+            *h += t + 1.0;
+            Some(b)
+        })
+        .collect();
     let rows = body_table([("Sable Reach", bodies.as_slice())]);
     let s = thickness_summary(&rows).expect("bodies");
     assert!((s.p10_m - o[3][1].as_f64().expect("n")).abs() < 1e-9);
@@ -86,10 +92,16 @@ fn csv_files_read_back_with_python_csv() {
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join("bodies.csv");
     write_bodies_csv(&rows, std::fs::File::create(&path).expect("create")).expect("write");
-    let curve = vec![CurvePoint { height_m: 1.0, proportion: Some(0.25) }, CurvePoint { height_m: 2.0, proportion: None }];
+    let curve = vec![
+        CurvePoint { height_m: 1.0, proportion: Some(0.25) },
+        CurvePoint { height_m: 2.0, proportion: None },
+    ];
     let curve_path = dir.path().join("curve.csv");
-    write_proportion_curve_csv([("=Sable", curve.as_slice())], std::fs::File::create(&curve_path).expect("create"))
-        .expect("write");
+    write_proportion_curve_csv(
+        [("=Sable", curve.as_slice())],
+        std::fs::File::create(&curve_path).expect("create"),
+    )
+    .expect("write");
     // Python's csv module (standard library) as an independent reader.
     let script = r#"
 import csv, json, sys
@@ -98,7 +110,10 @@ print(json.dumps([list(csv.reader(open(p, newline=""))) for p in sys.argv[1:]]))
     let o = python_json(script, &[&path.to_string_lossy(), &curve_path.to_string_lossy()]);
     let t = &o[0];
     assert_eq!(t[0][0], "section");
-    assert_eq!(t[1][0], "'@Sable Reach", "formula-looking text gets a leading apostrophe (OWASP CSV injection advice)");
+    assert_eq!(
+        t[1][0], "'@Sable Reach",
+        "formula-looking text gets a leading apostrophe (OWASP CSV injection advice)"
+    );
     assert_eq!(t[1][3], "5.500");
     assert_eq!(t[1][5], "multi-story");
     assert_eq!(t[2][5], "single-story");

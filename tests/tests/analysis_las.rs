@@ -65,8 +65,12 @@ fn compare_with_lasio(name: &str) -> LasFile {
         for (i, (a, b)) in ours.values[k].iter().zip(data).enumerate() {
             match (a, b.as_f64()) {
                 (None, None) => {}
-                (Some(x), Some(y)) => assert!((x - y).abs() < 1e-9, "{name} {} #{i}: {x} vs {y}", item.mnemonic),
-                (x, y) => panic!("{name} {} #{i}: NULL position differs: ours {x:?}, lasio {y:?}", item.mnemonic),
+                (Some(x), Some(y)) => {
+                    assert!((x - y).abs() < 1e-9, "{name} {} #{i}: {x} vs {y}", item.mnemonic)
+                }
+                (x, y) => {
+                    panic!("{name} {} #{i}: NULL position differs: ours {x:?}, lasio {y:?}", item.mnemonic)
+                }
             }
         }
     }
@@ -121,7 +125,10 @@ fn error_of(name: &str) -> String {
 #[test]
 fn malformed_files_get_line_numbers_and_expectations() {
     let e = error_of("bad_column_count.las");
-    assert!(e.contains("bad_column_count.las, line 27: expected 3 values (one per ~C curve), found 2"), "{e}");
+    assert!(
+        e.contains("bad_column_count.las, line 27: expected 3 values (one per ~C curve), found 2"),
+        "{e}"
+    );
     // lasio rejects the same file too (it cannot reshape the data into 3 columns).
     let lasio_rejects = Command::new("python3")
         .arg("-c")

@@ -45,7 +45,9 @@ fn davis_data_reproduce_the_reference_values() {
 
     // scipy.stats.power_divergence on the same off-diagonal cells: χ² (Pearson) and G²
     // (log-likelihood) from our expected counts; chi2.sf for the p-value.
-    let obs: Vec<f64> = off_diagonal(&r.observed.iter().map(|row| row.iter().map(|&v| f64::from(v)).collect()).collect::<Vec<Vec<f64>>>());
+    let obs: Vec<f64> = off_diagonal(
+        &r.observed.iter().map(|row| row.iter().map(|&v| f64::from(v)).collect()).collect::<Vec<Vec<f64>>>(),
+    );
     let exp: Vec<f64> = off_diagonal(&r.expected);
     let script = r#"
 import json, sys
@@ -60,7 +62,10 @@ x2 = power_divergence(o, e, lambda_="pearson").statistic
 g2 = power_divergence(o, e, lambda_="log-likelihood").statistic
 print(json.dumps({"chi2": float(x2), "g2": float(g2), "p": float(chi2.sf(x2, 11))}))
 "#;
-    let o = python_json(script, &[&serde_json::to_string(&obs).expect("json"), &serde_json::to_string(&exp).expect("json")]);
+    let o = python_json(
+        script,
+        &[&serde_json::to_string(&obs).expect("json"), &serde_json::to_string(&exp).expect("json")],
+    );
     let num = |k: &str| o[k].as_f64().unwrap_or_else(|| panic!("oracle field {k}"));
     assert!((r.chi_square - num("chi2")).abs() < 1e-9 * num("chi2"), "{} vs {}", r.chi_square, num("chi2"));
     assert!((r.g_square - num("g2")).abs() < 1e-9 * num("g2"), "{} vs {}", r.g_square, num("g2"));
@@ -93,7 +98,10 @@ except ImportError as e:
 d = json.loads(sys.argv[1]); x = json.loads(sys.argv[2])
 print(json.dumps([[float(chi2.sf(xx, dd)) for xx in x] for dd in d]))
 "#;
-    let o = python_json(script, &[&serde_json::to_string(&dofs).expect("json"), &serde_json::to_string(&xs).expect("json")]);
+    let o = python_json(
+        script,
+        &[&serde_json::to_string(&dofs).expect("json"), &serde_json::to_string(&xs).expect("json")],
+    );
     let mut worst_rel: f64 = 0.0;
     for (i, dof) in dofs.iter().enumerate() {
         for (j, x) in xs.iter().enumerate() {

@@ -35,12 +35,19 @@ impl SplitMix {
 /// Seeded datasets: n readings spread ±spread° around a mean (wrapped to 0–360).
 fn datasets() -> Vec<Vec<f64>> {
     let mut rng = SplitMix(20_261_201);
-    [(5, 40.0, 60.0), (8, 350.0, 30.0), (12, 200.0, 170.0), (25, 90.0, 90.0), (60, 10.0, 120.0), (150, 300.0, 180.0)]
-        .iter()
-        .map(|&(n, mean, spread)| {
-            (0..n).map(|_| (mean + (rng.next_f64() * 2.0 - 1.0) * spread).rem_euclid(360.0)).collect()
-        })
-        .collect()
+    [
+        (5, 40.0, 60.0),
+        (8, 350.0, 30.0),
+        (12, 200.0, 170.0),
+        (25, 90.0, 90.0),
+        (60, 10.0, 120.0),
+        (150, 300.0, 180.0),
+    ]
+    .iter()
+    .map(|&(n, mean, spread)| {
+        (0..n).map(|_| (mean + (rng.next_f64() * 2.0 - 1.0) * spread).rem_euclid(360.0)).collect()
+    })
+    .collect()
 }
 
 const SCIPY_ASTROPY: &str = r#"
@@ -114,15 +121,20 @@ fn seeded_datasets_match_scipy_and_astropy() {
         // scipy with high=180 treats the data as axial (angles doubled onto the full circle).
         let axial = CircularParams { kind: DataKind::Axial, ..Default::default() };
         let ax = circular_summary(d, &axial).expect("valid");
-        assert!(angle_diff(ax.mean_azimuth_deg.expect("mean"), num("axial_mean"), 180.0) < 1e-8, "{ax:?} vs {o}");
+        assert!(
+            angle_diff(ax.mean_azimuth_deg.expect("mean"), num("axial_mean"), 180.0) < 1e-8,
+            "{ax:?} vs {o}"
+        );
         assert!((ax.circular_std_deg - num("axial_std")).abs() < 1e-8, "{ax:?} vs {o}");
         // astropy.stats.rayleightest uses the series expansion: same formula, same numbers.
-        let series = CircularParams { rayleigh: RayleighApproximation::SeriesExpansion, ..Default::default() };
+        let series =
+            CircularParams { rayleigh: RayleighApproximation::SeriesExpansion, ..Default::default() };
         let s = circular_summary(d, &series).expect("valid");
         assert!((s.rayleigh_p - num("rayleigh_p").clamp(0.0, 1.0)).abs() < 1e-10, "{s:?} vs {o}");
         // Zar's approximation and the series are different approximations of one tail
         // probability; they agree closely but not exactly.
-        worst_zar_vs_astropy = worst_zar_vs_astropy.max((dir.rayleigh_p - num("rayleigh_p").clamp(0.0, 1.0)).abs());
+        worst_zar_vs_astropy =
+            worst_zar_vs_astropy.max((dir.rayleigh_p - num("rayleigh_p").clamp(0.0, 1.0)).abs());
     }
     assert!(worst_zar_vs_astropy < 0.01, "Zar vs astropy differ by {worst_zar_vs_astropy}");
     eprintln!("largest |p(Zar) − p(astropy)| over the seeded datasets: {worst_zar_vs_astropy:.5}");

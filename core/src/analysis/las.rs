@@ -165,7 +165,8 @@ fn parse_number(token: &str, line: usize, path: &str, what: &str) -> Result<f64,
 /// Read a LAS 2.0 file from disk.
 pub fn read_las(path: &Path) -> Result<LasFile, LasError> {
     let shown = path.display().to_string();
-    let bytes = std::fs::read(path).map_err(|e| LasError::Io { path: shown.clone(), message: e.to_string() })?;
+    let bytes =
+        std::fs::read(path).map_err(|e| LasError::Io { path: shown.clone(), message: e.to_string() })?;
     // LAS files are ASCII by the standard; tolerate stray Latin-1 bytes in descriptions.
     let text = String::from_utf8_lossy(&bytes);
     parse_las(&text, &shown)
@@ -203,7 +204,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
         }
         if let Some(tag) = trimmed.strip_prefix('~') {
             if seen_a {
-                return Err(syntax(line, "the ~A (data) section must be the last section of the file".into()));
+                return Err(syntax(
+                    line,
+                    "the ~A (data) section must be the last section of the file".into(),
+                ));
             }
             part = match tag.chars().next().map(|c| c.to_ascii_uppercase()) {
                 Some('V') => Part::V,
@@ -243,12 +247,18 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     if !seen_v {
         return Err(missing("no ~V (version) section: a LAS file must start with ~V".into()));
     }
-    let find = |items: &[HeaderItem], m: &str| items.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(m)).cloned();
-    let vers = find(&version, "VERS").ok_or_else(|| missing("~V has no VERS line (expected `VERS. 2.0 : …`)".into()))?;
+    let find =
+        |items: &[HeaderItem], m: &str| items.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(m)).cloned();
+    let vers = find(&version, "VERS")
+        .ok_or_else(|| missing("~V has no VERS line (expected `VERS. 2.0 : …`)".into()))?;
     if !matches!(vers.value.as_str(), "2.0" | "2" | "2.00") {
-        return Err(syntax(vers.line, format!("VERS is {:?}; this reader reads LAS version 2.0", vers.value)));
+        return Err(syntax(
+            vers.line,
+            format!("VERS is {:?}; this reader reads LAS version 2.0", vers.value),
+        ));
     }
-    let wrap = find(&version, "WRAP").ok_or_else(|| missing("~V has no WRAP line (expected YES or NO)".into()))?;
+    let wrap =
+        find(&version, "WRAP").ok_or_else(|| missing("~V has no WRAP line (expected YES or NO)".into()))?;
     let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
         "YES" => true,
         "NO" => false,
@@ -275,7 +285,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
         strt.as_ref().map(|s| s.unit.clone()).unwrap_or_default()
     };
     let factor = index_unit_factor(&index_unit).ok_or_else(|| {
-        syntax(index.line, format!("index unit {index_unit:?} is not a length unit; expected M or FT (also F, CM)"))
+        syntax(
+            index.line,
+            format!("index unit {index_unit:?} is not a length unit; expected M or FT (also F, CM)"),
+        )
     })?;
     let null_value = match find(&well, "NULL") {
         Some(n) if !n.value.is_empty() => Some(parse_number(&n.value, n.line, path, "NULL value")?),
@@ -292,7 +305,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
                 if tokens.len() != 1 {
                     return Err(syntax(
                         line,
-                        format!("wrapped data: expected the index value alone on this line, found {} values", tokens.len()),
+                        format!(
+                            "wrapped data: expected the index value alone on this line, found {} values",
+                            tokens.len()
+                        ),
                     ));
                 }
                 record_line = line;
@@ -313,7 +329,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
         if !current.is_empty() {
             return Err(syntax(
                 record_line,
-                format!("wrapped data: the last record has {} values, expected {ncurves} (one per ~C curve)", current.len()),
+                format!(
+                    "wrapped data: the last record has {} values, expected {ncurves} (one per ~C curve)",
+                    current.len()
+                ),
             ));
         }
     } else {
@@ -337,9 +356,8 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     }
     let is_null = |v: f64| null_value.is_some_and(|n| (v - n).abs() <= 1e-9 * n.abs().max(1.0));
     let index_m = rows.iter().map(|r| r[0] * factor).collect();
-    let values = (1..ncurves)
-        .map(|k| rows.iter().map(|r| (!is_null(r[k])).then_some(r[k])).collect())
-        .collect();
+    let values =
+        (1..ncurves).map(|k| rows.iter().map(|r| (!is_null(r[k])).then_some(r[k])).collect()).collect();
     Ok(LasFile {
         version: vers.value,
         wrapped,
@@ -353,7 +371,6 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
         values,
     })
 }
-
 
 #[cfg(test)]
 mod tests {
@@ -393,7 +410,10 @@ mod tests {
         let e = parse_las(&SMALL.replace(" 1.5  -999.25", " 1.5"), "x.las").expect_err("short row");
         assert_eq!(e.to_string(), "x.las, line 14: expected 2 values (one per ~C curve), found 1");
         let e = parse_las(&SMALL.replace("80.5", "8o.5"), "x.las").expect_err("bad number");
-        assert!(e.to_string().contains("line 15") && e.to_string().contains("\"8o.5\" is not a number"), "{e}");
+        assert!(
+            e.to_string().contains("line 15") && e.to_string().contains("\"8o.5\" is not a number"),
+            "{e}"
+        );
         let e = parse_las(&SMALL.replace("WRAP.   NO", "WRAP.   MAYBE"), "x.las").expect_err("wrap");
         assert!(e.to_string().contains("line 3") && e.to_string().contains("expected YES or NO"), "{e}");
         let e = parse_las(SMALL.split("~A").next().unwrap_or(""), "x.las").expect_err("no ~A");

@@ -75,6 +75,11 @@ pub struct TransitionAnalysis {
     /// Upper-tail χ² probability; `None` when dof < 1 (fewer than three states).
     pub p_value: Option<f64>,
     pub iterations: usize,
+    /// Off-diagonal cells with an expected count below 5: when many are, the χ² approximation
+    /// is poor (Cochran's rule of thumb, at most 20 % of cells below 5; from memory).
+    pub small_expected_cells: usize,
+    /// Number of off-diagonal cells, m(m − 1).
+    pub cells: usize,
     /// Transitions more frequent than chance, strongest first.
     pub preferred: Vec<PreferredTransition>,
 }
@@ -148,10 +153,9 @@ pub fn quasi_independence_expected(
             return Ok((e, iteration));
         }
     }
-    Err(AnalysisError::NoConvergence {
-        what: "iterative proportional fitting of expected transitions".into(),
-        iterations: params.ipf_max_iterations,
-    })
+    // Tables with a finite fit converge in tens of iterations; running out means the fit lies
+    // on the boundary (some a_i·b_j → 0), which happens with sparse tables.
+    Err(AnalysisError::SparseTable { what: "the transition table".into() })
 }
 
 /// Run the analysis on an observed count matrix with named states.
@@ -218,7 +222,13 @@ pub fn analyse_counts(
     let dof = (mi - 1) * (mi - 1) - mi;
     let p_value = if dof >= 1 { Some(chi_square_sf(chi_square, dof as f64)?) } else { None };
     let transitions = observed.iter().flatten().sum();
+    let small_expected_cells = (0..m)
+        .flat_map(|i| (0..m).map(move |j| (i, j)))
+        .filter(|&(i, j)| i != j && expected[i][j] < 5.0)
+        .count();
     Ok(TransitionAnalysis {
+        small_expected_cells,
+        cells: m * (m - 1),
         states,
         observed,
         expected,
@@ -308,5 +318,17 @@ mod tests {
         assert_eq!(r.dof, -1);
         assert_eq!(r.p_value, None);
         assert!(analyse_sequence::<&str>(&[Some("a")], &TransitionParams::default()).is_err());
+    }
+
+    #[test]
+    fn a_table_with_no_finite_fit_is_reported_as_sparse() {
+        // c → s → m once each: fitting the margins forces e_cm = 0 and e_cs = 1 with a_c = 0,
+        // which no finite a, b give.
+        let r = analyse_sequence(&[Some("c"), Some("s"), Some("m")], &TransitionParams::default());
+        assert!(matches!(r, Err(AnalysisError::SparseTable { .. })), "{r:?}");
+        // Davis's table is dense: all 20 expected counts are above 5.
+        let states = ["A", "B", "C", "D", "E"].map(String::from).to_vec();
+        let d = analyse_counts(states, davis(), &TransitionParams::default()).expect("valid");
+        assert_eq!((d.cells, d.small_expected_cells), (20, 0), "{:?}", d.expected);
     }
 }

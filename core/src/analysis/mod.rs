@@ -19,6 +19,10 @@ pub enum AnalysisError {
     /// A value outside its valid range.
     #[error("{field}: {value} is not valid; {valid}")]
     OutOfRange { field: String, value: f64, valid: String },
+    /// The expected transition counts have no finite quasi-independence fit: the table is too
+    /// sparse (its zero pattern drives some fitted counts to zero).
+    #[error("{what} has too few transitions for expected counts under quasi-independence (the fit does not converge because some expected counts tend to zero); log more beds or merge states")]
+    SparseTable { what: String },
     /// An iterative solution did not settle.
     #[error("{what}: did not converge after {iterations} iterations")]
     NoConvergence { what: String, iterations: usize },

@@ -1,0 +1,175 @@
+//! End-to-end tests of `aggrade stats` and `aggrade bodies` on the invented Marrow Basin
+//! sections, with the numbers checked against scipy run on the same file.
+
+use std::path::PathBuf;
+use std::process::{Command, Output};
+
+fn data(name: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis").join(name)
+}
+
+fn aggrade(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_aggrade")).args(args).output().expect("the aggrade binary runs")
+}
+
+fn stdout_json(out: &Output) -> serde_json::Value {
+    assert!(out.status.success(), "aggrade failed: {}", String::from_utf8_lossy(&out.stderr));
+    serde_json::from_slice(&out.stdout)
+        .unwrap_or_else(|e| panic!("not JSON ({e}): {}", String::from_utf8_lossy(&out.stdout)))
+}
+
+/// Independent reading of the fixture in Python: paleocurrent statistics with scipy, and the
+/// lithology transitions counted by hand rules (repeats merged, covered intervals break the
+/// chain). A missing python3 or scipy fails the test with a clear message.
+const ORACLE: &str = r#"
+import json, math, sys
+try:
+    import numpy as np
+    from scipy.stats import circmean, circstd, chi2
+except ImportError as e:
+    sys.exit("scipy/numpy are required for this reference check: " + str(e))
+sec = json.load(open(sys.argv[1]))["sections"][0]
+az = [a for b in sec["beds"] for a in b.get("paleocurrents_deg", [])]
+n = len(az); r = np.radians(az)
+R = math.hypot(np.cos(r).sum(), np.sin(r).sum())
+pairs = []; prev = None
+for b in sec["beds"]:
+    lith = b["lithology"]
+    if lith == "covered":
+        prev = None; continue
+    if prev is not None and prev != lith:
+        pairs.append((prev, lith))
+    prev = lith
+states = sorted({s for p in pairs for s in p})
+obs = [[sum(1 for p in pairs if p == (a, b)) for b in states] for a in states]
+print(json.dumps({
+    "n": n,
+    "mean": float(circmean(az, high=360, low=0)),
+    "std": float(circstd(az, high=360, low=0)),
+    "rbar": R / n,
+    # Zar (1999) approximation, written out here from its formula.
+    "p_zar": math.exp(math.sqrt(1 + 4*n + 4*(n*n - R*R)) - (1 + 2*n)),
+    "states": states,
+    "observed": obs,
+}))
+"#;
+
+#[test]
+fn stats_json_matches_scipy_on_the_same_file() {
+    let file = data("kestrel_bluff.aggrade");
+    let out = aggrade(&["stats", file.to_str().expect("utf-8 path"), "--json"]);
+    let v = stdout_json(&out);
+    let py = Command::new("python3")
+        .arg("-c")
+        .arg(ORACLE)
+        .arg(&file)
+        .output()
+        .expect("python3 is required for this check");
+    assert!(
+        py.status.success(),
+        "the Python reference check failed: {}",
+        String::from_utf8_lossy(&py.stderr)
+    );
+    let o: serde_json::Value = serde_json::from_slice(&py.stdout).expect("oracle JSON");
+    let pc = &v["paleocurrents"];
+    let num = |x: &serde_json::Value| x.as_f64().unwrap_or_else(|| panic!("not a number: {x}"));
+    assert_eq!(pc["n"], o["n"]);
+    // scipy.stats.circmean / circstd (degrees, high=360).
+    assert!((num(&pc["mean_azimuth"]) - num(&o["mean"])).abs() < 1e-8, "{pc} vs {o}");
+    assert!((num(&pc["circular_std"]) - num(&o["std"])).abs() < 1e-8);
+    assert!((num(&pc["mean_resultant_length"]) - num(&o["rbar"])).abs() < 1e-12);
+    assert!((num(&pc["rayleigh_z"]) - num(&o["n"]) * num(&o["rbar"]).powi(2)).abs() < 1e-9);
+    assert!((num(&pc["rayleigh_p"]) - num(&o["p_zar"])).abs() < 1e-12);
+    let t = &v["transitions"];
+    assert_eq!(t["states"], o["states"]);
+    assert_eq!(t["observed"], o["observed"]);
+    for key in ["expected", "chi_square", "dof", "p_value"] {
+        assert!(!t[key].is_null(), "transitions.{key} missing: {t}");
+    }
+    // p-value against scipy.stats.chi2.sf on the reported statistic.
+    let chk = Command::new("python3")
+        .arg("-c")
+        .arg("import sys\nfrom scipy.stats import chi2\nprint(repr(float(chi2.sf(float(sys.argv[1]), int(sys.argv[2])))))")
+        .arg(t["chi_square"].to_string())
+        .arg(t["dof"].to_string())
+        .output()
+        .expect("python3 is required for this check");
+    assert!(chk.status.success(), "{}", String::from_utf8_lossy(&chk.stderr));
+    let p: f64 = String::from_utf8_lossy(&chk.stdout).trim().parse().expect("a number from scipy");
+    assert!((num(&t["p_value"]) - p).abs() < 1e-10, "{} vs scipy {p}", t["p_value"]);
+    // One accepted boundary (bed 13, at 24.6 m) splits the section into two intervals.
+    let iv = v["intervals"].as_array().expect("intervals");
+    assert_eq!(iv.len(), 2);
+    assert!((num(&iv[0]["top"]) - 24.6).abs() < 1e-9);
+    assert_eq!(num(&iv[0]["paleocurrents"]["n"]) + num(&iv[1]["paleocurrents"]["n"]), num(&pc["n"]));
+    assert_eq!(v["caution"], aggrade_core_caution());
+}
+
+fn aggrade_core_caution() -> &'static str {
+    aggrade_core::REVIEW_CAUTION
+}
+
+#[test]
+fn stats_text_and_multi_section_json() {
+    let file = data("marrow_basin.aggrade");
+    let path = file.to_str().expect("utf-8 path");
+    let out = aggrade(&["stats", path]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        text.contains("Section \"Kestrel Bluff\"") && text.contains("Section \"Harrow Creek\""),
+        "{text}"
+    );
+    assert!(text.contains("Rayleigh z") && text.contains("chi-square"), "{text}");
+    assert!(text.contains("candidates for expert review"), "{text}");
+    let v = stdout_json(&aggrade(&["stats", path, "--json"]));
+    assert_eq!(v["sections"].as_array().map(Vec::len), Some(2));
+    // Case-insensitive section choice gives the plain one-section object.
+    let h = stdout_json(&aggrade(&["stats", path, "--json", "--section", "harrow creek"]));
+    assert_eq!(h["section"], "Harrow Creek");
+    assert_eq!(h["paleocurrents"]["n"], 5);
+    assert_eq!(h["transitions"]["dof"], 1); // 3 states: (3 − 1)² − 3 = 1
+}
+
+#[test]
+fn stats_reports_bad_input_clearly() {
+    let path = data("marrow_basin.aggrade");
+    let out = aggrade(&["stats", path.to_str().expect("utf-8"), "--section", "Nowhere"]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("no section named \"Nowhere\"") && err.contains("\"Kestrel Bluff\""), "{err}");
+
+    let dir = tempfile::tempdir().expect("temp dir");
+    let bad = dir.path().join("bad_azimuth.aggrade");
+    let text = std::fs::read_to_string(data("kestrel_bluff.aggrade")).expect("fixture");
+    std::fs::write(&bad, text.replacen("200,", "400,", 1)).expect("write");
+    let out = aggrade(&["stats", bad.to_str().expect("utf-8")]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("bad_azimuth.aggrade")
+            && err.contains("bed 2")
+            && err.contains("paleocurrents_deg")
+            && err.contains("between 0 and 360"),
+        "{err}"
+    );
+
+    let out = aggrade(&["stats", "/nonexistent/section.aggrade"]);
+    assert!(!out.status.success());
+    assert!(String::from_utf8_lossy(&out.stderr).contains("/nonexistent/section.aggrade"));
+    let out = aggrade(&["stats", path.to_str().expect("utf-8"), "--bin-width", "7"]);
+    assert!(!out.status.success());
+    assert!(String::from_utf8_lossy(&out.stderr).contains("must divide 360"));
+}
+
+#[test]
+fn bodies_says_plainly_when_the_rules_engine_is_missing() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let csv = dir.path().join("bodies.csv");
+    let file = data("kestrel_bluff.aggrade");
+    let out = aggrade(&["bodies", file.to_str().expect("utf-8"), "--csv", csv.to_str().expect("utf-8")]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("rules engine is not available in this build"), "{err}");
+    assert!(!csv.exists(), "no half-written CSV");
+}
