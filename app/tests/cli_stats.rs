@@ -163,13 +163,81 @@ fn stats_reports_bad_input_clearly() {
 }
 
 #[test]
-fn bodies_says_plainly_when_the_rules_engine_is_missing() {
+fn bodies_csv_and_summary_match_numpy() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let csv = dir.path().join("bodies.csv");
+    let curve = dir.path().join("curve.csv");
+    let file = data("marrow_basin.aggrade");
+    let out = aggrade(&[
+        "bodies",
+        file.to_str().expect("utf-8"),
+        "--csv",
+        csv.to_str().expect("utf-8"),
+        "--curve-csv",
+        curve.to_str().expect("utf-8"),
+        "--burial-depth",
+        "1500",
+    ]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8_lossy(&out.stdout).to_string();
+    // numpy.percentile (default linear method) on the thickness column read back with Python's
+    // csv module must reproduce the printed P10/P50/P90 and mean.
+    let script = r#"
+import csv, json, sys
+try:
+    import numpy as np
+except ImportError as e:
+    sys.exit("numpy is required for this reference check: " + str(e))
+rows = list(csv.DictReader(open(sys.argv[1], newline="")))
+t = [float(r["thickness_m"]) for r in rows]
+curve = list(csv.DictReader(open(sys.argv[2], newline="")))
+print(json.dumps({"n": len(rows), "sections": sorted({r["section"] for r in rows}),
+  "line": "mean %.3f, median %.3f, P10 %.3f, P50 %.3f, P90 %.3f, min %.3f, max %.3f" % (
+      np.mean(t), np.median(t), np.percentile(t, 10), np.percentile(t, 50), np.percentile(t, 90), min(t), max(t)),
+  "curve_points": len(curve)}))
+"#;
+    let py = Command::new("python3")
+        .arg("-c")
+        .arg(script)
+        .arg(&csv)
+        .arg(&curve)
+        .output()
+        .expect("python3 is required");
+    assert!(
+        py.status.success(),
+        "the Python reference check failed: {}",
+        String::from_utf8_lossy(&py.stderr)
+    );
+    let o: serde_json::Value = serde_json::from_slice(&py.stdout).expect("oracle JSON");
+    let line = o["line"].as_str().expect("line");
+    assert!(text.contains(line), "summary differs from numpy: expected {line:?} in\n{text}");
+    assert!(text.contains(&format!("{} channel bodies", o["n"])), "{text}");
+    assert_eq!(o["sections"], serde_json::json!(["Harrow Creek", "Kestrel Bluff"]));
+    assert!(o["curve_points"].as_u64().expect("count") > 10);
+    assert!(text.contains("decompacted from 1500 m burial"), "{text}");
+    assert!(text.contains("candidates for expert review"), "{text}");
+}
+
+#[test]
+fn bodies_reports_bad_input_clearly() {
     let dir = tempfile::tempdir().expect("temp dir");
     let csv = dir.path().join("bodies.csv");
     let file = data("kestrel_bluff.aggrade");
-    let out = aggrade(&["bodies", file.to_str().expect("utf-8"), "--csv", csv.to_str().expect("utf-8")]);
+    let out = aggrade(&[
+        "bodies",
+        file.to_str().expect("utf-8"),
+        "--csv",
+        csv.to_str().expect("utf-8"),
+        "--burial-depth",
+        "-5",
+    ]);
     assert!(!out.status.success());
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert!(err.contains("rules engine is not available in this build"), "{err}");
-    assert!(!csv.exists(), "no half-written CSV");
+    assert!(
+        String::from_utf8_lossy(&out.stderr).contains("--burial-depth -5"),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let out = aggrade(&["bodies", file.to_str().expect("utf-8"), "--csv", "/nonexistent/dir/b.csv"]);
+    assert!(!out.status.success());
+    assert!(String::from_utf8_lossy(&out.stderr).contains("/nonexistent/dir/b.csv: cannot create the file"));
 }

@@ -86,6 +86,31 @@ print(json.dumps([[float(np.percentile(v, 100 * qq)) for qq in q] for v in s]))
 }
 
 #[test]
+fn interval_proportions_agree_with_the_rules_engine() {
+    // Two independent computations of one quantity: the rules engine's proportion per interval
+    // (from bed elements) and ours (from body extents). In this fixture bodies hold no drapes,
+    // so they must agree.
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("data/analysis/marrow_basin.aggrade");
+    let project = aggrade_core::io::load(&path).expect("fixture loads").project;
+    for section in &project.sections {
+        let interp = aggrade_core::rules::interpret(section, &aggrade_core::rules::RuleParams::default());
+        assert!(!interp.channel_bodies.is_empty(), "{}", section.name);
+        for iv in &interp.interval_proportions {
+            let ours = aggrade_core::analysis::bodies::proportion_in_interval(
+                section,
+                &interp.channel_bodies,
+                iv.base_m,
+                iv.top_m,
+            );
+            match (ours, iv.proportion) {
+                (Some(a), Some(b)) => assert!((a - b).abs() < 1e-9, "{}: {a} vs rules {b}", section.name),
+                (a, b) => assert_eq!(a, b),
+            }
+        }
+    }
+}
+
+#[test]
 fn csv_files_read_back_with_python_csv() {
     let bodies = vec![body(2.0, 7.5, 3), body(12.25, 14.0, 1)];
     let rows = body_table([("@Sable Reach", bodies.as_slice())]);

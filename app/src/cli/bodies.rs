@@ -1,7 +1,15 @@
 //! `aggrade bodies`: the channel-body table and proportion curve of a project as CSV, for
-//! reservoir modellers.
+//! reservoir modellers, with a thickness summary (and decompacted proportions on request).
 
-use std::path::PathBuf;
+use aggrade_core::analysis::bodies::{
+    body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
+    write_proportion_curve_csv,
+};
+use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams};
+use aggrade_core::model::Section;
+use aggrade_core::rules::{interpret, Element, Interpretation, RuleParams};
+use anyhow::Context;
+use std::path::{Path, PathBuf};
 
 /// Arguments of `aggrade bodies`.
 #[derive(Debug, clap::Args)]
@@ -14,18 +22,112 @@ pub struct BodiesArgs {
     /// Also write the moving-window channel-body proportion curve here.
     #[arg(long)]
     pub curve_csv: Option<PathBuf>,
+    /// Also write the channel-body proportion of each interval here.
+    #[arg(long)]
+    pub interval_csv: Option<PathBuf>,
     /// Only this section.
     #[arg(long)]
     pub section: Option<String>,
+    /// Depth of the section top below today's surface, metres: also report thicknesses and the
+    /// channel-body proportion decompacted to the time the top was at the surface
+    /// (Sclater & Christie 1980 porosity laws).
+    #[arg(long, allow_negative_numbers = true)]
+    pub burial_depth: Option<f64>,
+}
+
+fn create(path: &Path) -> anyhow::Result<std::io::BufWriter<std::fs::File>> {
+    let f =
+        std::fs::File::create(path).with_context(|| format!("{}: cannot create the file", path.display()))?;
+    Ok(std::io::BufWriter::new(f))
 }
 
 /// Run `aggrade bodies`.
 pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
-    // Read first so that a bad file is reported as such.
-    let _loaded = aggrade_core::io::load(&args.file)?;
-    anyhow::bail!(
-        "{}: the rules engine is not available in this build, so channel bodies cannot be found yet; \
-         `aggrade stats` works without it",
-        args.file.display()
-    )
+    let loaded = aggrade_core::io::load(&args.file)?;
+    for w in &loaded.warnings {
+        eprintln!("aggrade: warning: {w}");
+    }
+    let project = loaded.project;
+    let sections: Vec<&Section> = match &args.section {
+        Some(name) => vec![project.section(name).with_context(|| {
+            format!(
+                "{}: no section named {name:?}; the file holds: {}",
+                args.file.display(),
+                project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ")
+            )
+        })?],
+        None => project.sections.iter().collect(),
+    };
+    if sections.is_empty() {
+        anyhow::bail!("{}: the file holds no sections", args.file.display());
+    }
+    if let Some(d) = args.burial_depth {
+        if !(d.is_finite() && d >= 0.0) {
+            anyhow::bail!("--burial-depth {d}: give the depth of the section top in metres, 0 or more");
+        }
+    }
+    let params = RuleParams::default();
+    let interpretations: Vec<Interpretation> = sections.iter().map(|s| interpret(s, &params)).collect();
+    let rows = body_table(interpretations.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));
+    write_bodies_csv(&rows, create(&args.csv)?).with_context(|| args.csv.display().to_string())?;
+    if let Some(path) = &args.curve_csv {
+        write_proportion_curve_csv(
+            interpretations.iter().map(|i| (i.section.as_str(), i.proportion_curve.as_slice())),
+            create(path)?,
+        )
+        .with_context(|| path.display().to_string())?;
+    }
+    if let Some(path) = &args.interval_csv {
+        write_interval_proportions_csv(
+            interpretations.iter().map(|i| (i.section.as_str(), i.interval_proportions.as_slice())),
+            create(path)?,
+        )
+        .with_context(|| path.display().to_string())?;
+    }
+
+    println!(
+        "{} channel bodies in {} section(s) written to {}",
+        rows.len(),
+        sections.len(),
+        args.csv.display()
+    );
+    match thickness_summary(&rows) {
+        Some(s) => {
+            println!(
+                "thickness (m): mean {:.3}, median {:.3}, P10 {:.3}, P50 {:.3}, P90 {:.3}, min {:.3}, max {:.3}",
+                s.mean_m, s.median_m, s.p10_m, s.p50_m, s.p90_m, s.min_m, s.max_m
+            );
+            println!("stacking: {} multi-story, {} single-story", s.multi_story, s.single_story);
+            println!("(percentiles by linear interpolation between order statistics, as numpy's default)");
+        }
+        None => println!("no channel bodies found"),
+    }
+    for (s, i) in sections.iter().zip(&interpretations) {
+        let whole =
+            i.channel_proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a (nothing exposed)".into());
+        println!("section {:?}: channel-body proportion {whole}", s.name);
+        for iv in &i.interval_proportions {
+            let p = iv.proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
+            println!("  {:.2}–{:.2} m: {p}", iv.base_m, iv.top_m);
+        }
+        if let Some(depth) = args.burial_depth {
+            let flags: Vec<bool> = i.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
+            let d = decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
+                .map_err(|e| anyhow::anyhow!("{}: section {:?}: {e}", args.file.display(), s.name))?;
+            let fmt = |p: Option<f64>| p.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
+            println!(
+                "  decompacted from {depth} m burial: {:.2} m → {:.2} m; channel proportion {} → {}",
+                d.present_thickness_m,
+                d.decompacted_thickness_m,
+                fmt(d.present_channel_proportion),
+                fmt(d.decompacted_channel_proportion)
+            );
+            if !d.not_decompacted.is_empty() {
+                let names: Vec<&str> = d.not_decompacted.iter().map(|l| l.name()).collect();
+                println!("  kept at present thickness (no porosity law): {}", names.join(", "));
+            }
+        }
+    }
+    println!("{}", aggrade_core::REVIEW_CAUTION);
+    Ok(())
 }
