@@ -8,6 +8,11 @@
 //! one line per depth; wrapped data (WRAP YES) put the index alone on a line and the other
 //! values on following lines. Values equal to NULL become `None`. Depths in feet are converted
 //! to metres (1 ft = 0.3048 m exactly).
+//!
+//! Curves are analysis data, not part of the section model. To show them beside a column, keep
+//! them next to the section (e.g. a project-level list of `(section name, Curve)` pairs saved
+//! with the project, or a `curves` field added to `Section` by whoever owns the model), place
+//! them with [`IndexToSection`], and summarise them bed by bed with [`bed_means`].
 
 use crate::model::METRES_PER_FOOT;
 use serde::Serialize;
@@ -111,6 +116,26 @@ impl LasFile {
     pub fn well_item(&self, mnemonic: &str) -> Option<&HeaderItem> {
         self.well.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(mnemonic))
     }
+}
+
+/// Mean of a curve's non-NULL samples within each bed of a section (same order as the beds);
+/// `None` where a bed holds no sample. Samples on a bed boundary count in the bed above,
+/// except at the section top.
+pub fn bed_means(curve: &Curve, section: &crate::model::Section) -> Vec<Option<f64>> {
+    let bases = section.base_heights_m();
+    let top = section.total_thickness_m();
+    section
+        .beds
+        .iter()
+        .zip(&bases)
+        .map(|(bed, &base)| {
+            let bed_top = base + bed.thickness_m;
+            let inside = |h: f64| h >= base && (h < bed_top || (h <= bed_top && bed_top >= top));
+            let vals: Vec<f64> =
+                curve.samples.iter().filter(|(h, _)| inside(*h)).filter_map(|(_, v)| *v).collect();
+            (!vals.is_empty()).then(|| vals.iter().sum::<f64>() / vals.len() as f64)
+        })
+        .collect()
 }
 
 /// Metres per unit of the index, from its unit as written.
@@ -403,6 +428,20 @@ mod tests {
         assert_eq!(c[0].mnemonic, "GR");
         assert_eq!(c[0].unit, "API");
         assert_eq!(c[0].samples, vec![(1.0, Some(45.0)), (0.5, None), (0.0, Some(80.5))]);
+    }
+
+    #[test]
+    fn bed_means_average_samples_inside_each_bed() {
+        use crate::model::{Bed, BedId, Lithology, Section};
+        let f = parse_las(SMALL, "small.las").expect("valid");
+        // Heights 0, 0.5 (NULL), 1.0 with the base at depth 2 m.
+        let c = &f.curves(&IndexToSection { direction: IndexDirection::DepthBelowDatum, zero_m: 2.0 })[0];
+        let mut s = Section::new("Test");
+        s.beds.push(Bed::new(BedId(1), 0.75, Lithology::Mudstone, None));
+        s.beds.push(Bed::new(BedId(2), 0.25, Lithology::Sandstone, None));
+        s.beds.push(Bed::new(BedId(3), 1.0, Lithology::Mudstone, None));
+        // Bed 1 (0–0.75): 80.5 and a NULL; bed 2 (0.75–1.0): none; bed 3 (1.0–2.0): 45.0.
+        assert_eq!(bed_means(c, &s), vec![Some(80.5), None, Some(45.0)]);
     }
 
     #[test]

@@ -10,7 +10,8 @@
  NULL.      -9999           : NULL VALUE
  WELL.      Harrow Creek spectral log  : SECTION NAME
  LOC .      Invented outcrop, Marrow Basin  : LOCATION
- DATE.      2026-08-14        : LOG DATE
+ DATE.      2026-08-14        : LOG DATE: FIELD DAY 3
+ TIME.      13:45:12          : START TIME
 ~CURVE INFORMATION
  DEPT.M                 : DEPTH BELOW SECTION TOP
  GR  .API                 : TOTAL GAMMA RAY
