@@ -42,6 +42,20 @@ for b in sec["beds"]:
     prev = lith
 states = sorted({s for p in pairs for s in p})
 obs = [[sum(1 for p in pairs if p == (a, b)) for b in states] for a in states]
+# Broad families (common practice groupings): mud rocks and siltstone as fines, etc.
+fam = {"claystone": "fines", "mudstone": "fines", "shale": "fines", "siltstone": "fines",
+       "sandstone": "sand", "conglomerate": "gravel", "breccia": "gravel"}
+fpairs = []; prev = None
+for b in sec["beds"]:
+    lith = b["lithology"]
+    if lith == "covered":
+        prev = None; continue
+    f = fam.get(lith, "non-clastic")
+    if prev is not None and prev != f:
+        fpairs.append((prev, f))
+    prev = f
+fstates = sorted({s for p in fpairs for s in p})
+fobs = [[sum(1 for p in fpairs if p == (a, b)) for b in fstates] for a in fstates]
 print(json.dumps({
     "n": n,
     "mean": float(circmean(az, high=360, low=0)),
@@ -51,6 +65,8 @@ print(json.dumps({
     "p_zar": math.exp(math.sqrt(1 + 4*n + 4*(n*n - R*R)) - (1 + 2*n)),
     "states": states,
     "observed": obs,
+    "family_states": fstates,
+    "family_observed": fobs,
 }))
 "#;
 
@@ -103,6 +119,15 @@ fn stats_json_matches_scipy_on_the_same_file() {
     assert!((num(&iv[0]["top"]) - 24.6).abs() < 1e-9);
     assert_eq!(num(&iv[0]["paleocurrents"]["n"]) + num(&iv[1]["paleocurrents"]["n"]), num(&pc["n"]));
     assert_eq!(v["caution"], aggrade_core_caution());
+    // Per-bed statistics: bed 2 holds four readings.
+    assert_eq!(v["beds"][0]["bed_id"], 2);
+    assert_eq!(v["beds"][0]["n"], 4);
+
+    // The same file with lithology families as states.
+    let f =
+        stdout_json(&aggrade(&["stats", file.to_str().expect("utf-8 path"), "--json", "--states", "family"]));
+    assert_eq!(f["transitions"]["states"], o["family_states"]);
+    assert_eq!(f["transitions"]["observed"], o["family_observed"]);
 }
 
 fn aggrade_core_caution() -> &'static str {

@@ -5,10 +5,10 @@ use aggrade_core::analysis::markov::{
     analyse_sequence, lithology_sequence, TransitionAnalysis, TransitionParams,
 };
 use aggrade_core::analysis::paleocurrents::{
-    circular_summary, readings_in_interval, rose_bins, section_readings, CircularParams, CircularSummary,
-    DataKind, RoseParams,
+    circular_summary, per_bed, readings_in_interval, rose_bins, section_readings, CircularParams,
+    CircularSummary, DataKind, RoseParams,
 };
-use aggrade_core::model::{ReviewState, Section};
+use aggrade_core::model::{LithologyFamily, ReviewState, Section};
 use anyhow::Context;
 use serde_json::{json, Value};
 use std::path::PathBuf;
@@ -28,9 +28,39 @@ pub struct StatsArgs {
     /// Treat paleocurrent readings as axes (0–180°) rather than flow directions.
     #[arg(long)]
     pub axial: bool,
+    /// What the transition analysis counts: each lithology, or broad lithology families
+    /// (fines, sand, gravel, non-clastic), which helps short sections with many lithologies.
+    #[arg(long, value_enum, default_value_t = StateKind::Lithology)]
+    pub states: StateKind,
     /// Rose-diagram bin width in degrees (must divide 360).
     #[arg(long, default_value_t = 30.0)]
     pub bin_width: f64,
+}
+
+/// The states of the facies-transition analysis.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum StateKind {
+    Lithology,
+    Family,
+}
+
+/// The state of each bed, `None` for covered intervals (they break the chain).
+fn state_sequence(section: &Section, kind: StateKind) -> Vec<Option<&'static str>> {
+    lithology_sequence(section)
+        .into_iter()
+        .map(|l| {
+            l.map(|l| match kind {
+                StateKind::Lithology => l.name(),
+                StateKind::Family => match l.family() {
+                    LithologyFamily::Fines => "fines",
+                    LithologyFamily::Sand => "sand",
+                    LithologyFamily::Gravel => "gravel",
+                    LithologyFamily::NonClastic => "non-clastic",
+                    LithologyFamily::Covered => "covered",
+                },
+            })
+        })
+        .collect()
 }
 
 /// Statistics of one stretch of section (whole section or an interval).
@@ -42,14 +72,20 @@ struct Stretch {
     transitions: Result<TransitionAnalysis, String>,
 }
 
-fn stretch(section: &Section, base_m: f64, top_m: f64, params: &CircularParams) -> Stretch {
+fn stretch(
+    section: &Section,
+    base_m: f64,
+    top_m: f64,
+    params: &CircularParams,
+    states: StateKind,
+) -> Stretch {
     let bases = section.base_heights_m();
     let readings = readings_in_interval(section, base_m, top_m);
-    let seq: Vec<Option<&'static str>> = lithology_sequence(section)
+    let seq: Vec<Option<&'static str>> = state_sequence(section, states)
         .into_iter()
         .zip(&bases)
         .filter(|(_, h)| **h >= base_m && **h < top_m)
-        .map(|(l, _)| l.map(|l| l.name()))
+        .map(|(l, _)| l)
         .collect();
     Stretch {
         base_m,
@@ -164,6 +200,22 @@ fn section_json(
         "paleocurrents": paleocurrents_json(whole, args, kind),
         "transitions": transitions_json(whole),
         "notes": notes(whole),
+        "states_from": match args.states { StateKind::Lithology => "lithology", StateKind::Family => "lithology family" },
+        "beds": per_bed(section, &CircularParams { kind, ..Default::default() })
+            .unwrap_or_default()
+            .iter()
+            .map(|b| json!({
+                "bed_index": b.bed_index,
+                "bed_id": section.beds[b.bed_index].id.0,
+                "base": b.base_m,
+                "n": b.summary.n,
+                "mean_azimuth": b.summary.mean_azimuth_deg,
+                "mean_resultant_length": b.summary.mean_resultant_length,
+                "circular_std": finite_or_null(b.summary.circular_std_deg),
+                "rayleigh_z": b.summary.rayleigh_z,
+                "rayleigh_p": b.summary.rayleigh_p,
+            }))
+            .collect::<Vec<_>>(),
         "intervals": intervals.iter().map(|s| json!({
             "base": s.base_m,
             "top": s.top_m,
@@ -200,9 +252,7 @@ fn print_stretch(s: &Stretch) {
     }
     match &s.transitions {
         Ok(t) => {
-            println!(
-                "  Facies transitions (embedded Markov chain of lithology; repeats merged, covered intervals break the chain)"
-            );
+            println!("  Facies transitions (embedded Markov chain; repeats merged, covered intervals break the chain)");
             let w = t.states.iter().map(|s| s.len()).max().unwrap_or(4).max(8);
             let header: String = t.states.iter().map(|s| format!(" {s:>w$}")).collect();
             println!("    observed (rows from, columns to)");
@@ -283,7 +333,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
     }
     let mut out = Vec::new();
     for s in &sections {
-        let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params);
+        let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params, args.states);
         let bounds = interval_bounds(s);
         let intervals: Vec<Stretch> = if bounds.len() > 2 {
             bounds
@@ -292,7 +342,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 .map(|(k, w)| {
                     // The top interval includes the section top.
                     let top = if k + 2 == bounds.len() { w[1] + 1e-9 } else { w[1] };
-                    let mut st = stretch(s, w[0], top, &params);
+                    let mut st = stretch(s, w[0], top, &params, args.states);
                     st.top_m = w[1];
                     st
                 })
