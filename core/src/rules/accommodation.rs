@@ -6,7 +6,7 @@
 //! body's base (the stretch below the first body has no body). Neighbouring stretches with the
 //! same call are merged.
 
-use super::column::{proportion_of, Column};
+use super::column::{proportion_of, Column, TOL};
 use super::params::RuleParams;
 use super::types::{ChannelBody, Regime, RegimeInterval, Stacking};
 
@@ -32,7 +32,7 @@ fn call(column: &Column, bodies: &[ChannelBody], s: &mut Stretch, params: &RuleP
     if len_m <= 0.0 {
         return undetermined(s, "the section has no thickness".to_string());
     }
-    if covered > params.max_covered_fraction {
+    if covered > params.max_covered_fraction + TOL {
         let pct = (covered * 100.0).round();
         return undetermined(s, format!("mostly covered ({pct}% of {:.2}–{:.2} m)", s.base_m, s.top_m));
     }
@@ -40,8 +40,8 @@ fn call(column: &Column, bodies: &[ChannelBody], s: &mut Stretch, params: &RuleP
         return undetermined(s, format!("no channel body between {:.2} and {:.2} m", s.base_m, s.top_m));
     };
     match bodies[k].stacking {
-        Stacking::MultiStory if p >= params.low_min_proportion => s.regime = Regime::Low,
-        Stacking::SingleStory if p <= params.high_max_proportion => s.regime = Regime::High,
+        Stacking::MultiStory if p >= params.low_min_proportion - TOL => s.regime = Regime::Low,
+        Stacking::SingleStory if p <= params.high_max_proportion + TOL => s.regime = Regime::High,
         Stacking::MultiStory => undetermined(
             s,
             format!(
@@ -82,10 +82,11 @@ fn why(column: &Column, bodies: &[ChannelBody], group: &[Stretch], params: &Rule
             let storeys: usize = in_group.iter().map(|b| b.stories).sum();
             let amalgamated: usize = in_group.iter().map(|b| b.amalgamated_bases).sum();
             format!(
-                "{} multi-story channel bod{} ({storeys} storeys, {amalgamated} storey bases on channel sand) and a \
+                "{} multi-story channel bod{} ({storeys} storeys, {amalgamated} storey base{} on channel sand) and a \
                  channel-body proportion of {p} (≥ {:.2}): amalgamated, sand-rich stacking suggests low accommodation",
                 in_group.len(),
                 if in_group.len() == 1 { "y" } else { "ies" },
+                if amalgamated == 1 { "" } else { "s" },
                 params.low_min_proportion
             )
         }

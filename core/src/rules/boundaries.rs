@@ -2,7 +2,7 @@
 //! scored from weighted evidence, one candidate per bed boundary.
 
 use super::bodies::{body_beds, grain_at_base, grain_at_top};
-use super::column::Column;
+use super::column::{Column, TOL};
 use super::params::RuleParams;
 use super::types::{BoundaryCandidate, CandidateKind, ChannelBody, Element, Stacking, Storey};
 use crate::model::{Contact, Section};
@@ -37,8 +37,8 @@ pub fn candidates(
             sites.entry(first).or_default().body = Some(k);
         }
     }
-    for i in 0..n.saturating_sub(1) {
-        if elements[i] == Element::Paleosol {
+    for (i, el) in elements.iter().enumerate().take(n.saturating_sub(1)) {
+        if *el == Element::Paleosol {
             sites.entry(i + 1).or_default().on_paleosol = true;
         }
     }
@@ -91,10 +91,10 @@ pub fn candidates(
             let relief_m = above.base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
             if let Some(r) = relief_m.filter(|_| above.base_contact == Contact::Erosional) {
                 let storey_below = storeys.iter().rev().find(|s| s.last_bed < j).map(|s| s.top_m - s.base_m);
-                if r > params.relief_limit_m {
+                if r > params.relief_limit_m + TOL {
                     score += params.weight_relief;
                     evidence.push(format!("erosional relief of {r:.2} m exceeds the {:.2} m relief limit", params.relief_limit_m));
-                } else if let Some(t) = storey_below.filter(|t| r > *t) {
+                } else if let Some(t) = storey_below.filter(|t| r > *t + TOL) {
                     score += params.weight_relief;
                     evidence.push(format!("erosional relief of {r:.2} m exceeds the {t:.2} m storey below"));
                 }
@@ -110,7 +110,7 @@ pub fn candidates(
                     ));
                 } else if let (Some(r), Some(s)) = (relief_m, last_strong[j - 1]) {
                     let depth_m = height_m - column.bounds_m[s + 1];
-                    if depth_m < r {
+                    if depth_m < r - TOL {
                         score += params.weight_on_strong_paleosol;
                         evidence.push(format!(
                             "its {r:.2} m relief reaches a paleosol of {} development {depth_m:.2} m below",
@@ -133,7 +133,7 @@ pub fn candidates(
                 let lower = column.proportion(height_m - w, height_m);
                 let upper = column.proportion(height_m, height_m + w);
                 if let (Some(lo), Some(up)) = (lower, upper) {
-                    if up - lo >= params.proportion_jump_min {
+                    if up - lo >= params.proportion_jump_min - TOL {
                         score += params.weight_proportion_jump;
                         evidence.push(format!(
                             "channel-body proportion rises from {lo:.2} in the {w} m below to {up:.2} in the {w} m above"

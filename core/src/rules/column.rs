@@ -14,6 +14,10 @@ pub(crate) fn usable_thickness_m(bed: &Bed) -> f64 {
     }
 }
 
+/// Allowance on threshold comparisons of lengths (metres) and proportions: rounding left by unit
+/// conversion (e.g. feet to metres) must not flip a call that sits exactly on a threshold.
+pub(crate) const TOL: f64 = 1e-9;
+
 /// Family of a bed's lithology (shorthand).
 pub(crate) fn family(bed: &Bed) -> LithologyFamily {
     bed.lithology.family()

@@ -5,7 +5,7 @@
 //! above it and mud drapes thinner than the drape limit, up to the next erosional base or the
 //! first fines (paleosol, covered interval, non-clastic bed) that end it.
 
-use super::column::{family, is_sand_or_gravel, usable_thickness_m, Column};
+use super::column::{family, is_sand_or_gravel, usable_thickness_m, Column, TOL};
 use super::params::RuleParams;
 use super::types::{Element, Storey};
 use crate::model::{Contact, LithologyFamily, Section};
@@ -88,7 +88,7 @@ pub fn elements_and_storeys(
                     run_m += usable_thickness_m(&beds[j]);
                     j += 1;
                 }
-                if run_m >= params.splay_limit_m {
+                if run_m >= params.splay_limit_m - TOL {
                     open = Some(OpenStorey { first_bed: i, last_sand_bed: j - 1, amalgamated_base: false });
                     drape_m = 0.0;
                 }
@@ -97,7 +97,7 @@ pub fn elements_and_storeys(
             }
         } else if open.is_some()
             && elements[i] == Element::OverbankFines
-            && drape_m + t < params.drape_limit_m
+            && drape_m + t < params.drape_limit_m - TOL
         {
             drape_m += t;
         } else if let Some(o) = open.take() {

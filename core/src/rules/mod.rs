@@ -88,6 +88,7 @@ pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
 impl Interpretation {
     /// Total thickness of channel deposits (storeys, drapes inside them included), metres.
     pub fn channel_thickness_m(&self) -> f64 {
-        self.storeys.iter().map(|s| s.top_m - s.base_m).sum()
+        // A fold from +0.0: an empty float sum would give −0.0.
+        self.storeys.iter().fold(0.0, |sum, s| sum + (s.top_m - s.base_m))
     }
 }

@@ -2,7 +2,7 @@
 //! little mud) or meandering-like (fining-upward storeys, lateral accretion, thick overbank).
 
 use super::bodies::{body_beds, profile};
-use super::column::{is_sand_or_gravel, Column};
+use super::column::{is_sand_or_gravel, Column, TOL};
 use super::params::RuleParams;
 use super::types::{ChannelBody, Element, FluvialStyle, GrainProfile, Storey, StyleHint};
 use crate::model::{Section, Structure, WentworthClass};
@@ -39,8 +39,9 @@ fn evidence(
     if beds.iter().any(|b| b.structures.contains(&Structure::DownstreamAccretion)) {
         braided.push("downstream-accretion surfaces recorded".to_string());
     }
-    let mud_m: f64 =
-        (first..=last).filter(|&i| !is_sand_or_gravel(&section.beds[i])).map(|i| column.thickness_m(i)).sum();
+    let mud_m: f64 = (first..=last)
+        .filter(|&i| !is_sand_or_gravel(&section.beds[i]))
+        .fold(0.0, |sum, i| sum + column.thickness_m(i));
     if body.thickness_m > 0.0 && mud_m < LITTLE_MUD_FRACTION * body.thickness_m {
         braided.push(format!("little mud inside the body ({mud_m:.2} m of drapes)"));
     }
@@ -65,9 +66,8 @@ fn evidence(
         .take_while(|&i| {
             matches!(elements[i], Element::OverbankFines | Element::Paleosol | Element::SplaySand)
         })
-        .map(|i| column.thickness_m(i))
-        .sum();
-    if body.thickness_m > 0.0 && overbank_m >= body.thickness_m {
+        .fold(0.0, |sum, i| sum + column.thickness_m(i));
+    if body.thickness_m > 0.0 && overbank_m >= body.thickness_m - TOL {
         meandering.push(format!(
             "thick overbank fines above ({overbank_m:.2} m over a {:.2} m body)",
             body.thickness_m
