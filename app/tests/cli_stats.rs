@@ -172,9 +172,10 @@ fn stats_reports_bad_input_clearly() {
     assert!(!out.status.success());
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(
+        // The reader names the file, line and field; it finds the bad value before stats does.
         err.contains("bad_azimuth.aggrade")
-            && err.contains("bed 2")
-            && err.contains("paleocurrents_deg")
+            && err.contains("line 24")
+            && err.contains("beds[1].paleocurrents_deg")
             && err.contains("between 0 and 360"),
         "{err}"
     );
