@@ -9,6 +9,7 @@ use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams
 use aggrade_core::model::Section;
 use aggrade_core::rules::{interpret, Element, Interpretation, RuleParams};
 use anyhow::Context;
+use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
 /// Arguments of `aggrade bodies`.
@@ -67,6 +68,7 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
         }
     }
     let params = RuleParams::default();
+    let mut out = String::new();
     let interpretations: Vec<Interpretation> = sections.iter().map(|s| interpret(s, &params)).collect();
     let rows = body_table(interpretations.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));
     write_bodies_csv(&rows, create(&args.csv)?).with_context(|| args.csv.display().to_string())?;
@@ -85,49 +87,55 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
         .with_context(|| path.display().to_string())?;
     }
 
-    println!(
+    writeln!(
+        out,
         "{} channel bodies in {} section(s) written to {}",
         rows.len(),
         sections.len(),
         args.csv.display()
-    );
+    )?;
     match thickness_summary(&rows) {
         Some(s) => {
-            println!(
+            writeln!(
+                out,
                 "thickness (m): mean {:.3}, median {:.3}, P10 {:.3}, P50 {:.3}, P90 {:.3}, min {:.3}, max {:.3}",
                 s.mean_m, s.median_m, s.p10_m, s.p50_m, s.p90_m, s.min_m, s.max_m
-            );
-            println!("stacking: {} multi-story, {} single-story", s.multi_story, s.single_story);
-            println!("(percentiles by linear interpolation between order statistics, as numpy's default)");
+            )?;
+            writeln!(out, "stacking: {} multi-story, {} single-story", s.multi_story, s.single_story)?;
+            writeln!(
+                out,
+                "(percentiles by linear interpolation between order statistics, as numpy's default)"
+            )?;
         }
-        None => println!("no channel bodies found"),
+        None => writeln!(out, "no channel bodies found")?,
     }
     for (s, i) in sections.iter().zip(&interpretations) {
         let whole =
             i.channel_proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a (nothing exposed)".into());
-        println!("section {:?}: channel-body proportion {whole}", s.name);
+        writeln!(out, "section {:?}: channel-body proportion {whole}", s.name)?;
         for iv in &i.interval_proportions {
             let p = iv.proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
-            println!("  {:.2}–{:.2} m: {p}", iv.base_m, iv.top_m);
+            writeln!(out, "  {:.2}–{:.2} m: {p}", iv.base_m, iv.top_m)?;
         }
         if let Some(depth) = args.burial_depth {
             let flags: Vec<bool> = i.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
             let d = decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
                 .map_err(|e| anyhow::anyhow!("{}: section {:?}: {e}", args.file.display(), s.name))?;
             let fmt = |p: Option<f64>| p.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
-            println!(
+            writeln!(
+                out,
                 "  decompacted from {depth} m burial: {:.2} m → {:.2} m; channel proportion {} → {}",
                 d.present_thickness_m,
                 d.decompacted_thickness_m,
                 fmt(d.present_channel_proportion),
                 fmt(d.decompacted_channel_proportion)
-            );
+            )?;
             if !d.not_decompacted.is_empty() {
                 let names: Vec<&str> = d.not_decompacted.iter().map(|l| l.name()).collect();
-                println!("  kept at present thickness (no porosity law): {}", names.join(", "));
+                writeln!(out, "  kept at present thickness (no porosity law): {}", names.join(", "))?;
             }
         }
     }
-    println!("{}", aggrade_core::REVIEW_CAUTION);
-    Ok(())
+    writeln!(out, "{}", aggrade_core::REVIEW_CAUTION)?;
+    super::stats::emit_stdout(&out)
 }

@@ -11,6 +11,7 @@ use aggrade_core::analysis::paleocurrents::{
 use aggrade_core::model::{LithologyFamily, ReviewState, Section};
 use anyhow::Context;
 use serde_json::{json, Value};
+use std::fmt::Write as _;
 use std::path::PathBuf;
 
 /// Arguments of `aggrade stats`.
@@ -226,7 +227,7 @@ fn section_json(
     })
 }
 
-fn print_stretch(s: &Stretch) {
+fn print_stretch(out: &mut String, s: &Stretch) -> std::fmt::Result {
     match &s.paleocurrents {
         Ok(p) => {
             let what = match p.kind {
@@ -237,55 +238,75 @@ fn print_stretch(s: &Stretch) {
                 .mean_azimuth_deg
                 .map(|m| format!("{m:.1}°"))
                 .unwrap_or_else(|| "none (readings cancel)".into());
-            println!("  Paleocurrents ({what}, n = {})", p.n);
-            println!(
+            writeln!(out, "  Paleocurrents ({what}, n = {})", p.n)?;
+            writeln!(
+                out,
                 "    vector mean {mean}, mean resultant length {:.3}, circular s.d. {:.1}°",
                 p.mean_resultant_length, p.circular_std_deg
-            );
-            println!(
+            )?;
+            writeln!(
+                out,
                 "    Rayleigh z = {:.3}, p {} (Zar 1999 approximation)",
                 p.rayleigh_z,
                 fmt_p(p.rayleigh_p)
-            );
+            )?;
         }
-        Err(e) => println!("  Paleocurrents: {e}"),
+        Err(e) => writeln!(out, "  Paleocurrents: {e}")?,
     }
     match &s.transitions {
         Ok(t) => {
-            println!("  Facies transitions (embedded Markov chain; repeats merged, covered intervals break the chain)");
+            writeln!(out, "  Facies transitions (embedded Markov chain; repeats merged, covered intervals break the chain)")?;
             let w = t.states.iter().map(|s| s.len()).max().unwrap_or(4).max(8);
             let header: String = t.states.iter().map(|s| format!(" {s:>w$}")).collect();
-            println!("    observed (rows from, columns to)");
-            println!("    {:w$}{header}", "");
+            writeln!(out, "    observed (rows from, columns to)")?;
+            writeln!(out, "    {:w$}{header}", "")?;
             for (name, row) in t.states.iter().zip(&t.observed) {
                 let cells: String = row.iter().map(|v| format!(" {v:>w$}")).collect();
-                println!("    {name:>w$}{cells}");
+                writeln!(out, "    {name:>w$}{cells}")?;
             }
-            println!("    expected under quasi-independence (iterative proportional fitting)");
-            println!("    {:w$}{header}", "");
+            writeln!(out, "    expected under quasi-independence (iterative proportional fitting)")?;
+            writeln!(out, "    {:w$}{header}", "")?;
             for (name, row) in t.states.iter().zip(&t.expected) {
                 let cells: String = row.iter().map(|v| format!(" {v:>w$.2}")).collect();
-                println!("    {name:>w$}{cells}");
+                writeln!(out, "    {name:>w$}{cells}")?;
             }
             let p = t.p_value.map(fmt_p).unwrap_or_else(|| "n/a (fewer than 3 states)".into());
-            println!("    chi-square = {:.2}, G² = {:.2}, dof = {}, p {p}", t.chi_square, t.g_square, t.dof);
+            writeln!(
+                out,
+                "    chi-square = {:.2}, G² = {:.2}, dof = {}, p {p}",
+                t.chi_square, t.g_square, t.dof
+            )?;
             if t.small_expected_cells * 5 > t.cells {
-                println!(
+                writeln!(
+                out,
                     "    caution: {} of {} expected counts are below 5, so the chi-square p-value is only a rough guide",
                     t.small_expected_cells, t.cells
-                );
+                )?;
             }
             if t.preferred.is_empty() {
-                println!("    no transition stands out from chance");
+                writeln!(out, "    no transition stands out from chance")?;
             }
             for pt in &t.preferred {
-                println!(
+                writeln!(
+                    out,
                     "    more often than chance: {} → {} (observed {}, expected {:.2}, residual {:.2})",
                     pt.from, pt.to, pt.observed, pt.expected, pt.standardised_residual
-                );
+                )?;
             }
         }
-        Err(e) => println!("  Facies transitions: {e}"),
+        Err(e) => writeln!(out, "  Facies transitions: {e}")?,
+    }
+    Ok(())
+}
+
+/// Write a command's output to stdout in one go. A reader that closes the pipe early
+/// (`aggrade stats FILE | head`) is not an error worth a message, and never a panic.
+pub(crate) fn emit_stdout(text: &str) -> anyhow::Result<()> {
+    use std::io::Write;
+    let mut stdout = std::io::stdout().lock();
+    match stdout.write_all(text.as_bytes()).and_then(|()| stdout.flush()) {
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
+        other => Ok(other?),
     }
 }
 
@@ -331,7 +352,8 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
             args.bin_width
         );
     }
-    let mut out = Vec::new();
+    let mut values = Vec::new();
+    let mut out = String::new();
     for s in &sections {
         let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params, args.states);
         let bounds = interval_bounds(s);
@@ -353,32 +375,34 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
         if args.json {
             let mut v = section_json(s, &whole, &intervals, args, kind);
             v["top"] = json!(s.total_thickness_m());
-            out.push(v);
+            values.push(v);
         } else {
-            println!(
+            writeln!(
+                out,
                 "Section {:?}: {:.2} m, {} beds, {} paleocurrent readings",
                 s.name,
                 s.total_thickness_m(),
                 s.beds.len(),
                 section_readings(s).len()
-            );
-            print_stretch(&whole);
+            )?;
+            print_stretch(&mut out, &whole)?;
             for st in &intervals {
-                println!(
+                writeln!(
+                    out,
                     "Interval {:.2}–{:.2} m (between accepted sequence boundaries)",
                     st.base_m, st.top_m
-                );
-                print_stretch(st);
+                )?;
+                print_stretch(&mut out, st)?;
             }
-            println!();
+            writeln!(out)?;
         }
     }
     if args.json {
-        let mut v = if out.len() == 1 { out.remove(0) } else { json!({ "sections": out }) };
+        let mut v = if values.len() == 1 { values.remove(0) } else { json!({ "sections": values }) };
         v["caution"] = json!(aggrade_core::REVIEW_CAUTION);
-        println!("{}", serde_json::to_string_pretty(&v)?);
+        writeln!(out, "{}", serde_json::to_string_pretty(&v)?)?;
     } else {
-        println!("{}", aggrade_core::REVIEW_CAUTION);
+        writeln!(out, "{}", aggrade_core::REVIEW_CAUTION)?;
     }
-    Ok(())
+    emit_stdout(&out)
 }
