@@ -48,6 +48,7 @@ print(json.dumps({
 fn compare_with_lasio(name: &str) -> LasFile {
     let path = fixture(name);
     let ours = read_las(&path).unwrap_or_else(|e| panic!("{name}: {e}"));
+    assert!(ours.warnings.is_empty(), "{name}: {:?}", ours.warnings);
     let path_text = path.to_string_lossy().to_string();
     let theirs = python_json(LASIO_DUMP, &[&path_text]);
     let index = theirs["index_m"].as_array().expect("index list");

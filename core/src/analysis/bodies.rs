@@ -51,6 +51,11 @@ pub fn body_table<'a>(sections: impl IntoIterator<Item = (&'a str, &'a [ChannelB
 
 /// Percentile by linear interpolation between order statistics (numpy's default). `q` in 0–1.
 /// `None` for an empty slice or q outside 0–1. NaN values are ignored.
+///
+/// ```
+/// use aggrade_core::analysis::bodies::percentile_linear;
+/// assert_eq!(percentile_linear(&[1.0, 2.0, 3.0, 4.0], 0.5), Some(2.5));
+/// ```
 pub fn percentile_linear(values: &[f64], q: f64) -> Option<f64> {
     if !(0.0..=1.0).contains(&q) {
         return None;

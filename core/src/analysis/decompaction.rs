@@ -74,6 +74,13 @@ impl PorosityLaw {
 
 /// Thickness (m) of a layer now between depths `top_m` and `base_m` once moved so that its top
 /// lies at `new_top_m` (0 for the surface).
+///
+/// ```
+/// use aggrade_core::analysis::decompaction::{decompact_layer, PorosityLaw};
+/// // A 1 km shale layer from 3–4 km depth restored to the surface.
+/// let t = decompact_layer(&PorosityLaw::SHALE, 3000.0, 4000.0, 0.0).unwrap();
+/// assert!((t - 1575.3).abs() < 0.05);
+/// ```
 pub fn decompact_layer(
     law: &PorosityLaw,
     top_m: f64,

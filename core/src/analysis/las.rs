@@ -69,6 +69,9 @@ pub struct LasFile {
     pub index_m: Vec<f64>,
     /// Values of each non-index curve, in ~C order after the index; NULLs as `None`.
     pub values: Vec<Vec<Option<f64>>>,
+    /// Things that do not stop reading but deserve a look (e.g. STRT not matching the first
+    /// index value), each naming the line.
+    pub warnings: Vec<String>,
 }
 
 /// How the file's index relates to the section's heights.
@@ -138,6 +141,47 @@ pub fn bed_means(curve: &Curve, section: &crate::model::Section) -> Vec<Option<f
         .collect()
 }
 
+/// Compare STRT, STOP and STEP (and their unit) with the data actually present. The tolerance
+/// is half a thousandth of a step or 1e-6, whichever is larger, since headers are often written
+/// with fewer decimals than the data.
+fn header_warnings(path: &str, well: &[HeaderItem], index_unit: &str, rows: &[Vec<f64>]) -> Vec<String> {
+    let mut out = Vec::new();
+    let (Some(first), Some(last)) = (rows.first().map(|r| r[0]), rows.last().map(|r| r[0])) else {
+        return out;
+    };
+    let find = |m: &str| well.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(m));
+    let step_data = if rows.len() > 1 { (last - first) / (rows.len() - 1) as f64 } else { 0.0 };
+    let tol = (step_data.abs() * 5e-4).max(1e-6);
+    for (m, want, what) in [("STRT", first, "the first index value"), ("STOP", last, "the last index value")]
+    {
+        if let Some(item) = find(m) {
+            if !item.unit.is_empty() && !item.unit.eq_ignore_ascii_case(index_unit) {
+                out.push(format!(
+                    "{path}, line {}: {m} is in {:?} but the index curve is in {index_unit:?}",
+                    item.line, item.unit
+                ));
+            } else if let Ok(v) = item.value.parse::<f64>() {
+                if (v - want).abs() > tol {
+                    out.push(format!("{path}, line {}: {m} is {v} but {what} is {want}", item.line));
+                }
+            }
+        }
+    }
+    if let Some(item) = find("STEP") {
+        if let Ok(v) = item.value.parse::<f64>() {
+            // STEP 0 means an irregular spacing (LAS 2.0).
+            let regular = rows.windows(2).all(|w| ((w[1][0] - w[0][0]) - v).abs() <= tol);
+            if v != 0.0 && !regular {
+                out.push(format!(
+                    "{path}, line {}: STEP is {v} but the index values are not spaced by it (use STEP 0 for irregular spacing)",
+                    item.line
+                ));
+            }
+        }
+    }
+    out
+}
+
 /// Metres per unit of the index, from its unit as written.
 fn index_unit_factor(unit: &str) -> Option<f64> {
     match unit.trim().to_ascii_uppercase().as_str() {
@@ -198,6 +242,14 @@ pub fn read_las(path: &Path) -> Result<LasFile, LasError> {
 }
 
 /// Parse LAS 2.0 text; `path` is used in messages only.
+///
+/// ```
+/// use aggrade_core::analysis::las::parse_las;
+/// let text = "~V\n VERS. 2.0 : v\n WRAP. NO : w\n~W\n NULL. -999.25 : n\n~C\n DEPT.FT : d\n GR.API : g\n~A\n 10 55.5\n 11 -999.25\n";
+/// let f = parse_las(text, "demo.las").unwrap();
+/// assert_eq!(f.index_m, vec![3.048, 11.0 * 0.3048]);
+/// assert_eq!(f.values[0], vec![Some(55.5), None]);
+/// ```
 pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     let syntax = |line: usize, message: String| LasError::Syntax { path: path.to_string(), line, message };
     let missing = |message: String| LasError::Missing { path: path.to_string(), message };
@@ -383,7 +435,9 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     let index_m = rows.iter().map(|r| r[0] * factor).collect();
     let values =
         (1..ncurves).map(|k| rows.iter().map(|r| (!is_null(r[k])).then_some(r[k])).collect()).collect();
+    let warnings = header_warnings(path, &well, &index_unit, &rows);
     Ok(LasFile {
+        warnings,
         version: vers.value,
         wrapped,
         well,
@@ -442,6 +496,23 @@ mod tests {
         s.beds.push(Bed::new(BedId(3), 1.0, Lithology::Mudstone, None));
         // Bed 1 (0–0.75): 80.5 and a NULL; bed 2 (0.75–1.0): none; bed 3 (1.0–2.0): 45.0.
         assert_eq!(bed_means(c, &s), vec![Some(80.5), None, Some(45.0)]);
+    }
+
+    #[test]
+    fn header_mismatches_are_warnings() {
+        assert!(parse_las(SMALL, "s.las").expect("valid").warnings.is_empty());
+        let f = parse_las(
+            &SMALL.replace("STOP.M   2.0", "STOP.M   2.5").replace("STEP.M   0.5", "STEP.M   0.25"),
+            "s.las",
+        )
+        .expect("still readable");
+        assert_eq!(f.warnings.len(), 2, "{:?}", f.warnings);
+        assert!(
+            f.warnings[0].starts_with("s.las, line 6: STOP is 2.5 but the last index value is 2"),
+            "{:?}",
+            f.warnings
+        );
+        assert!(f.warnings[1].contains("line 7: STEP is 0.25"), "{:?}", f.warnings);
     }
 
     #[test]

@@ -159,6 +159,15 @@ pub fn quasi_independence_expected(
 }
 
 /// Run the analysis on an observed count matrix with named states.
+///
+/// ```
+/// use aggrade_core::analysis::markov::{analyse_counts, TransitionParams};
+/// let states = vec!["mud".to_string(), "sand".to_string(), "coal".to_string()];
+/// let observed = vec![vec![0, 6, 4], vec![7, 0, 2], vec![3, 3, 0]];
+/// let r = analyse_counts(states, observed, &TransitionParams::default()).unwrap();
+/// assert_eq!(r.dof, 1); // (3 − 1)² − 3
+/// assert_eq!(r.expected[0][0], 0.0); // no self-transitions
+/// ```
 pub fn analyse_counts(
     states: Vec<String>,
     observed: Vec<Vec<u32>>,

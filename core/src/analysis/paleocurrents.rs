@@ -113,6 +113,14 @@ fn validate(azimuths_deg: &[f64]) -> Result<(), AnalysisError> {
 }
 
 /// Statistics of a set of azimuths in degrees (0–360). Needs at least two readings.
+///
+/// ```
+/// use aggrade_core::analysis::paleocurrents::{circular_summary, CircularParams};
+/// // Three ripple foresets dipping roughly south-west.
+/// let s = circular_summary(&[200.0, 220.0, 240.0], &CircularParams::default()).unwrap();
+/// assert!((s.mean_azimuth_deg.unwrap() - 220.0).abs() < 1e-9);
+/// assert!(s.mean_resultant_length > 0.9);
+/// ```
 pub fn circular_summary(
     azimuths_deg: &[f64],
     params: &CircularParams,
@@ -201,6 +209,38 @@ pub fn readings_in_interval(section: &Section, base_m: f64, top_m: f64) -> Vec<f
         .zip(bases)
         .filter(|(_, h)| *h >= base_m && *h < top_m)
         .flat_map(|(b, _)| b.paleocurrents_deg.iter().copied())
+        .collect()
+}
+
+/// Statistics for one interval of a section.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct IntervalPaleocurrents {
+    #[serde(rename = "base")]
+    pub base_m: f64,
+    #[serde(rename = "top")]
+    pub top_m: f64,
+    /// `None` when the interval holds fewer than two readings.
+    pub summary: Option<CircularSummary>,
+}
+
+/// Statistics for each interval between consecutive heights in `bounds_m` (ascending, e.g.
+/// section base, accepted boundaries, section top). A bed belongs to the interval holding its
+/// base; the last interval also takes a bed based exactly at its top.
+pub fn per_interval(
+    section: &Section,
+    bounds_m: &[f64],
+    params: &CircularParams,
+) -> Result<Vec<IntervalPaleocurrents>, AnalysisError> {
+    let n = bounds_m.len();
+    bounds_m
+        .windows(2)
+        .enumerate()
+        .map(|(k, w)| {
+            let top = if k + 2 == n { w[1] + 1e-9 } else { w[1] };
+            let readings = readings_in_interval(section, w[0], top);
+            let summary = if readings.len() >= 2 { Some(circular_summary(&readings, params)?) } else { None };
+            Ok(IntervalPaleocurrents { base_m: w[0], top_m: w[1], summary })
+        })
         .collect()
 }
 
@@ -368,6 +408,24 @@ mod tests {
             circular_summary(&[10.0], &CircularParams::default()),
             Err(AnalysisError::TooFewValues { .. })
         ));
+    }
+
+    #[test]
+    fn intervals_split_readings_by_bed_base() {
+        use crate::model::{Bed, BedId, Lithology};
+        let mut s = Section::new("Test");
+        for (i, pcs) in [vec![10.0, 20.0], vec![], vec![200.0, 210.0, 220.0]].into_iter().enumerate() {
+            let mut b = Bed::new(BedId(i as u64 + 1), 2.0, Lithology::Sandstone, None);
+            b.paleocurrents_deg = pcs;
+            s.beds.push(b);
+        }
+        let r = per_interval(&s, &[0.0, 2.0, 6.0], &CircularParams::default()).expect("valid");
+        assert_eq!(r[0].summary.as_ref().map(|x| x.n), Some(2));
+        assert_eq!(r[1].summary.as_ref().map(|x| x.n), Some(3));
+        assert!((r[1].summary.as_ref().and_then(|x| x.mean_azimuth_deg).expect("mean") - 210.0).abs() < 1e-9);
+        let per = per_bed(&s, &CircularParams::default()).expect("valid");
+        assert_eq!(per.iter().map(|b| b.bed_index).collect::<Vec<_>>(), vec![0, 2]);
+        assert_eq!(per[1].base_m, 4.0);
     }
 
     #[test]
