@@ -3,7 +3,9 @@
 
 use aggrade_core::analysis::gamma::chi_square_sf;
 use aggrade_core::analysis::markov::{analyse_counts, analyse_section, TransitionParams};
+use aggrade_core::analysis::AnalysisError;
 use aggrade_core::model::{Bed, Lithology, Section};
+use proptest::prelude::*;
 use std::process::Command;
 
 /// Run a Python snippet with arguments and parse its JSON output; a missing python3 or scipy
@@ -146,4 +148,32 @@ fn a_section_with_a_covered_interval() {
     assert_eq!(r.observed[1][3], 0, "no transition across the covered interval");
     assert_eq!(r.dof, 5);
     assert!(r.p_value.is_some());
+}
+
+proptest! {
+    /// Either the fit exists and reproduces the observed row and column totals with e_ii = 0
+    /// (the defining property of quasi-independence fitting; Powers & Easterling 1982), or the
+    /// table is reported as too sparse. Never a panic, never a NaN.
+    #[test]
+    fn fitted_margins_equal_observed_margins(cells in prop::collection::vec(0u32..40, 16)) {
+        let m = 4;
+        let observed: Vec<Vec<u32>> = (0..m).map(|i| (0..m).map(|j| if i == j { 0 } else { cells[i * m + j] }).collect()).collect();
+        let states = ["a", "b", "c", "d"].map(String::from).to_vec();
+        match analyse_counts(states, observed.clone(), &TransitionParams::default()) {
+            Ok(r) => {
+                for i in 0..m {
+                    prop_assert_eq!(r.expected[i][i], 0.0);
+                    let ro: f64 = observed[i].iter().map(|&v| f64::from(v)).sum();
+                    let co: f64 = observed.iter().map(|row| f64::from(row[i])).sum();
+                    let re: f64 = r.expected[i].iter().sum();
+                    let ce: f64 = r.expected.iter().map(|row| row[i]).sum();
+                    prop_assert!((ro - re).abs() < 1e-6 && (co - ce).abs() < 1e-6, "{:?}", r.expected);
+                }
+                prop_assert!(r.chi_square.is_finite() && r.chi_square >= 0.0);
+                prop_assert!(r.p_value.is_some_and(|p| (0.0..=1.0).contains(&p)));
+            }
+            Err(AnalysisError::SparseTable { .. }) => {}
+            Err(e) => prop_assert!(false, "unexpected error {e}"),
+        }
+    }
 }

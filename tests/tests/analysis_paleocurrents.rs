@@ -4,6 +4,7 @@
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, rayleigh_p, CircularParams, DataKind, RayleighApproximation,
 };
+use proptest::prelude::*;
 use std::process::Command;
 
 /// Run a Python snippet with arguments and parse its JSON output. The oracle is required:
@@ -138,4 +139,29 @@ fn seeded_datasets_match_scipy_and_astropy() {
     }
     assert!(worst_zar_vs_astropy < 0.01, "Zar vs astropy differ by {worst_zar_vs_astropy}");
     eprintln!("largest |p(Zar) − p(astropy)| over the seeded datasets: {worst_zar_vs_astropy:.5}");
+}
+
+proptest! {
+    /// Rotating every reading by the same angle rotates the mean by that angle and leaves R̄,
+    /// the circular spread and the Rayleigh test unchanged (rotation equivariance of the vector
+    /// mean; Mardia & Jupp 2000, ch. 2).
+    #[test]
+    fn statistics_follow_a_rotation(
+        readings in prop::collection::vec(0.0f64..360.0, 2..40),
+        shift in 0.0f64..360.0,
+    ) {
+        let p = CircularParams::default();
+        let a = circular_summary(&readings, &p).expect("valid");
+        let rotated: Vec<f64> = readings.iter().map(|r| (r + shift).rem_euclid(360.0)).collect();
+        let b = circular_summary(&rotated, &p).expect("valid");
+        prop_assert!((a.mean_resultant_length - b.mean_resultant_length).abs() < 1e-9);
+        prop_assert!((a.rayleigh_p - b.rayleigh_p).abs() < 1e-9);
+        prop_assert!((0.0..=1.0).contains(&a.rayleigh_p));
+        // The mean is only defined well away from a balanced sample.
+        if a.mean_resultant_length > 1e-6 {
+            let ma = a.mean_azimuth_deg.expect("mean");
+            let mb = b.mean_azimuth_deg.expect("mean");
+            prop_assert!(angle_diff(ma + shift, mb, 360.0) < 1e-6, "{ma} + {shift} vs {mb}");
+        }
+    }
 }

@@ -72,6 +72,10 @@ impl PorosityLaw {
     }
 }
 
+/// Deepest depth accepted, metres: far below any sedimentary basin floor (sediment piles reach
+/// roughly 20 km at most; common practice), so larger numbers are typing errors.
+pub const MAX_DEPTH_M: f64 = 50_000.0;
+
 /// Thickness (m) of a layer now between depths `top_m` and `base_m` once moved so that its top
 /// lies at `new_top_m` (0 for the surface).
 ///
@@ -101,7 +105,7 @@ pub fn decompact_layer(
         return Err(AnalysisError::OutOfRange {
             field: "layer base depth".into(),
             value: base_m,
-            valid: format!("a depth greater than the layer top ({top_m} m)"),
+            valid: format!("a depth greater than the layer top ({top_m} m) and at most {MAX_DEPTH_M} m"),
         });
     }
     let solid = law.solid_thickness_m(top_m, base_m);
@@ -315,6 +319,7 @@ mod tests {
         assert!(r.decompacted_channel_proportion.expect("exposed") < 0.4, "{r:?}");
         assert!(r.beds[0].decompacted_thickness_m > r.beds[1].decompacted_thickness_m);
         assert!(decompact_section(&s, -1.0, None, &DecompactionParams::default()).is_err());
+        assert!(decompact_section(&s, 1e300, None, &DecompactionParams::default()).is_err());
         assert!(decompact_section(&s, 1.0, Some(&[true]), &DecompactionParams::default()).is_err());
     }
 }
