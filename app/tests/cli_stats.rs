@@ -60,6 +60,8 @@ print(json.dumps({
     "n": n,
     "mean": float(circmean(az, high=360, low=0)),
     "std": float(circstd(az, high=360, low=0)),
+    "axial_mean": float(circmean(az, high=180, low=0)),
+    "axial_std": float(circstd(az, high=180, low=0)),
     "rbar": R / n,
     # Zar (1999) approximation, written out here from its formula.
     "p_zar": math.exp(math.sqrt(1 + 4*n + 4*(n*n - R*R)) - (1 + 2*n)),
@@ -122,6 +124,12 @@ fn stats_json_matches_scipy_on_the_same_file() {
     // Per-bed statistics: bed 2 holds four readings.
     assert_eq!(v["beds"][0]["bed_id"], 2);
     assert_eq!(v["beds"][0]["n"], 4);
+
+    // Axial reading of the same azimuths: scipy with high=180 doubles the angles.
+    let ax = stdout_json(&aggrade(&["stats", file.to_str().expect("utf-8 path"), "--json", "--axial"]));
+    assert_eq!(ax["paleocurrents"]["kind"], "axial");
+    assert!((num(&ax["paleocurrents"]["mean_azimuth"]) - num(&o["axial_mean"])).abs() < 1e-8);
+    assert!((num(&ax["paleocurrents"]["circular_std"]) - num(&o["axial_std"])).abs() < 1e-8);
 
     // The same file with lithology families as states.
     let f =
