@@ -386,6 +386,23 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 section_readings(s).len()
             )?;
             print_stretch(&mut out, &whole)?;
+            let beds = per_bed(s, &params).unwrap_or_default();
+            if !beds.is_empty() {
+                writeln!(out, "  Paleocurrents per bed (beds with two or more readings)")?;
+            }
+            for b in beds {
+                writeln!(
+                    out,
+                    "    bed {} (id {}, base {:.2} m): n = {}, mean {}, R̄ {:.3}, Rayleigh p {}",
+                    b.bed_index + 1,
+                    s.beds[b.bed_index].id.0,
+                    b.base_m,
+                    b.summary.n,
+                    b.summary.mean_azimuth_deg.map(|m| format!("{m:.1}°")).unwrap_or_else(|| "none".into()),
+                    b.summary.mean_resultant_length,
+                    fmt_p(b.summary.rayleigh_p)
+                )?;
+            }
             for st in &intervals {
                 writeln!(
                     out,

@@ -28,8 +28,10 @@ pub struct TransitionParams {
     /// A transition is listed as "more often than chance" when its standardised residual
     /// (o − e)/√e reaches this value (1.96 ≈ the two-sided 5 % normal point; common practice).
     pub min_standardised_residual: f64,
-    /// … and when it was observed at least this many times.
+    /// … and when it was observed at least this many times …
     pub min_observed: u32,
+    /// … and when observed − expected is at least this many counts.
+    pub min_difference: f64,
 }
 
 impl Default for TransitionParams {
@@ -39,6 +41,7 @@ impl Default for TransitionParams {
             ipf_max_iterations: 10_000,
             min_standardised_residual: 1.96,
             min_observed: 2,
+            min_difference: 1.0,
         }
     }
 }
@@ -206,7 +209,10 @@ pub fn analyse_counts(
             if e > 0.0 {
                 chi_square += (o - e).powi(2) / e;
                 let residual = (o - e) / e.sqrt();
-                if residual >= params.min_standardised_residual && observed[i][j] >= params.min_observed {
+                if residual >= params.min_standardised_residual
+                    && observed[i][j] >= params.min_observed
+                    && o - e >= params.min_difference
+                {
                     preferred.push(PreferredTransition {
                         from: states[i].clone(),
                         to: states[j].clone(),
@@ -308,6 +314,13 @@ mod tests {
         assert!(r.preferred.iter().any(|t| t.from == "A" && t.to == "E"), "{:?}", r.preferred);
         assert!(r.preferred.windows(2).all(|w| w[0].standardised_residual >= w[1].standardised_residual));
         assert!(r.preferred.iter().all(|t| t.standardised_residual >= 1.96));
+        assert!(r.preferred.iter().all(|t| f64::from(t.observed) - t.expected >= 1.0));
+        // A stricter difference threshold keeps only the larger excesses.
+        let strict = TransitionParams { min_difference: 15.0, ..Default::default() };
+        let states = ["A", "B", "C", "D", "E"].map(String::from).to_vec();
+        let s = analyse_counts(states, davis(), &strict).expect("valid");
+        assert!(s.preferred.len() < r.preferred.len());
+        assert!(s.preferred.iter().any(|t| t.from == "A" && t.to == "E"), "52 − 28.02 ≈ 24 ≥ 15");
         assert!(r.p_value.expect("dof 11") < 1e-20);
     }
 
