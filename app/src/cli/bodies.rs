@@ -5,7 +5,7 @@ use aggrade_core::analysis::bodies::{
     body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
     write_proportion_curve_csv,
 };
-use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams};
+use aggrade_core::analysis::decompaction::{decompact_section, write_decompaction_csv, DecompactionParams};
 use aggrade_core::model::Section;
 use aggrade_core::rules::{interpret, Element, Interpretation, RuleParams};
 use anyhow::Context;
@@ -34,6 +34,9 @@ pub struct BodiesArgs {
     /// (Sclater & Christie 1980 porosity laws).
     #[arg(long, allow_negative_numbers = true)]
     pub burial_depth: Option<f64>,
+    /// With --burial-depth: write each bed's present and decompacted thickness here.
+    #[arg(long, requires = "burial_depth")]
+    pub decompacted_csv: Option<PathBuf>,
 }
 
 fn create(path: &Path) -> anyhow::Result<std::io::BufWriter<std::fs::File>> {
@@ -109,6 +112,7 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
         }
         None => writeln!(out, "no channel bodies found")?,
     }
+    let mut decompaction_rows = Vec::new();
     for (s, i) in sections.iter().zip(&interpretations) {
         let whole =
             i.channel_proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a (nothing exposed)".into());
@@ -130,11 +134,24 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
                 fmt(d.present_channel_proportion),
                 fmt(d.decompacted_channel_proportion)
             )?;
+            decompaction_rows.push((*s, d.clone()));
             if !d.not_decompacted.is_empty() {
                 let names: Vec<&str> = d.not_decompacted.iter().map(|l| l.name()).collect();
                 writeln!(out, "  kept at present thickness (no porosity law): {}", names.join(", "))?;
             }
         }
+    }
+    if let Some(path) = &args.decompacted_csv {
+        // One file for all sections: each writer call adds its own header, so keep only the first.
+        let mut bytes = Vec::new();
+        for (k, (s, d)) in decompaction_rows.iter().enumerate() {
+            let mut part = Vec::new();
+            write_decompaction_csv(s, d, &mut part).with_context(|| path.display().to_string())?;
+            let skip =
+                if k == 0 { 0 } else { part.iter().position(|&c| c == b'\n').map_or(part.len(), |p| p + 1) };
+            bytes.extend_from_slice(&part[skip..]);
+        }
+        std::fs::write(path, bytes).with_context(|| format!("{}: cannot write the file", path.display()))?;
     }
     writeln!(out, "{}", aggrade_core::REVIEW_CAUTION)?;
     super::stats::emit_stdout(&out)

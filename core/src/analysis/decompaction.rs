@@ -269,6 +269,37 @@ pub fn decompact_section(
     })
 }
 
+/// Write decompacted bed thicknesses as CSV:
+/// `section,bed,bed_id,lithology,present_thickness_m,decompacted_thickness_m` (4 decimals).
+pub fn write_decompaction_csv<W: std::io::Write>(
+    section: &Section,
+    result: &SectionDecompaction,
+    out: W,
+) -> Result<(), super::bodies::CsvWriteError> {
+    let mut w = csv::Writer::from_writer(out);
+    w.write_record([
+        "section",
+        "bed",
+        "bed_id",
+        "lithology",
+        "present_thickness_m",
+        "decompacted_thickness_m",
+    ])?;
+    for b in &result.beds {
+        let bed = &section.beds[b.bed_index];
+        w.write_record([
+            super::bodies::escape_text_cell(&section.name),
+            (b.bed_index + 1).to_string(),
+            bed.id.0.to_string(),
+            bed.lithology.name().to_string(),
+            format!("{:.4}", b.present_thickness_m),
+            format!("{:.4}", b.decompacted_thickness_m),
+        ])?;
+    }
+    w.flush()?;
+    Ok(())
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
