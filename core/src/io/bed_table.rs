@@ -550,7 +550,7 @@ pub fn write_bed_table(section: &Section) -> String {
     out.push('\n');
     let join = |items: Vec<String>| items.join(";");
     for bed in &section.beds {
-        let grain = |g: Option<GrainSize>| g.map(|g| escape_formula(&g.to_string())).unwrap_or_default();
+        let grain = |g: Option<GrainSize>| g.map(|g| escape_formula(&String::from(g))).unwrap_or_default();
         let cells: [String; 17] = [
             format!("{}", unit.from_metres(bed.thickness_m)),
             bed.lithology.name().to_string(),

@@ -111,6 +111,8 @@ fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Pro
         let exact = |path: &str| lines.get(path).copied();
         p.line = v0.as_deref().and_then(exact).or_else(|| exact(&p.location));
     }
+    // File order reads best; problems without a line (whole-file ones) come first.
+    problems.sort_by_key(|p| p.line);
     problems
 }
 
