@@ -78,14 +78,7 @@ fn rule_params(args: &InterpretArgs) -> anyhow::Result<RuleParams> {
         Some(path) => {
             let text =
                 std::fs::read_to_string(path).with_context(|| format!("{}: cannot read", path.display()))?;
-            serde_json::from_str::<RuleParams>(&text).map_err(|e| {
-                anyhow!(
-                    "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}",
-                    path.display(),
-                    e.line(),
-                    e.column()
-                )
-            })?
+            parse_params(&text, path)?
         }
         None => RuleParams::default(),
     };
@@ -101,6 +94,28 @@ fn rule_params(args: &InterpretArgs) -> anyhow::Result<RuleParams> {
         bail!("invalid rule parameters{source}: {}", problems.join("; "));
     }
     Ok(params)
+}
+
+/// Parse a parameter file, naming the field at fault (serde alone reports only line and column).
+fn parse_params(text: &str, path: &Path) -> anyhow::Result<RuleParams> {
+    let value: serde_json::Value = serde_json::from_str(text).map_err(|e| {
+        anyhow!(
+            "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters",
+            path.display(),
+            e.line(),
+            e.column()
+        )
+    })?;
+    let Some(fields) = value.as_object() else {
+        bail!("{}: valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}", path.display());
+    };
+    for (name, v) in fields {
+        let one = serde_json::Value::Object([(name.clone(), v.clone())].into_iter().collect());
+        if let Err(e) = serde_json::from_value::<RuleParams>(one) {
+            bail!("{}: field {name:?}, value {v}: {e}", path.display());
+        }
+    }
+    serde_json::from_value(value).map_err(|e| anyhow!("{}: {e}", path.display()))
 }
 
 fn stacking_name(s: Stacking) -> &'static str {

@@ -7,7 +7,7 @@ use serde::{Deserialize, Serialize};
 /// Thresholds and weights of the interpretation rules. Every field has a default (see
 /// [`RuleParams::default`]); a partial JSON object fills the rest from the defaults.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-#[serde(default)]
+#[serde(default, deny_unknown_fields)]
 pub struct RuleParams {
     /// Fines thinner than this (summed over consecutive fine beds) inside a channel storey are a
     /// mud drape and do not end the storey or split the body. Default 0.5 m: common practice
