@@ -173,6 +173,14 @@ fn bad_input_fails_with_a_message_not_a_panic() {
     let err = stderr(&o);
     assert!(err.contains("broken.aggrade") && !err.contains("panicked"), "{err}");
 
+    let text = std::fs::read_to_string(fixture("base_level_cycle.aggrade")).expect("fixture");
+    let zero = dir.path().join("zero.aggrade");
+    std::fs::write(&zero, text.replacen("\"thickness_m\": 2.0", "\"thickness_m\": -2.0", 1)).expect("write");
+    let o = aggrade(&["interpret", zero.to_str().expect("utf-8 path")]);
+    assert!(!o.status.success());
+    let err = stderr(&o);
+    assert!(err.contains("zero.aggrade: section \"Harrow Bluff\", bed 2 (id 2): thickness_m is -2"), "{err}");
+
     let path = fixture("base_level_cycle.aggrade");
     let o = aggrade(&["interpret", path.to_str().expect("utf-8 path"), "--window-m", "-2"]);
     assert!(!o.status.success());

@@ -36,6 +36,7 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
         eprintln!("aggrade: warning: {w}");
     }
     let section = choose_section(&loaded.project, &args.file, args.section.as_deref())?;
+    check_lengths(section, &args.file)?;
     let params = rule_params(args)?;
     let result = interpret(section, &params);
     let text = if args.json {
@@ -43,7 +44,7 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
         s.push('\n');
         s
     } else {
-        report(section, &result)
+        report(section, &result, &params)
     };
     let mut out = std::io::stdout().lock();
     out.write_all(text.as_bytes()).and_then(|()| out.flush()).context("writing to standard output")?;
@@ -70,6 +71,22 @@ pub fn choose_section<'a>(
             names()
         ),
     }
+}
+
+/// Refuse lengths the rules cannot use. The readers validate files fully; this guards the rules
+/// against any reader that lets such a value through.
+fn check_lengths(section: &Section, file: &Path) -> anyhow::Result<()> {
+    for (i, bed) in section.beds.iter().enumerate() {
+        let at =
+            || format!("{}: section {:?}, bed {} (id {})", file.display(), section.name, i + 1, bed.id.0);
+        if !(bed.thickness_m.is_finite() && bed.thickness_m > 0.0) {
+            bail!("{}: thickness_m is {}; valid is a number of metres > 0", at(), bed.thickness_m);
+        }
+        if let Some(r) = bed.base_relief_m.filter(|r| !(r.is_finite() && *r >= 0.0)) {
+            bail!("{}: base_relief_m is {r}; valid is a number of metres ≥ 0, or no value", at());
+        }
+    }
+    Ok(())
 }
 
 /// Defaults, then the parameter file, then `--window-m`; every invalid value is reported.
@@ -155,7 +172,7 @@ fn fmt_proportion(p: Option<f64>) -> String {
 }
 
 /// The readable report: bodies, stacking, proportions, regimes, ranked candidates, the caution.
-pub fn report(section: &Section, r: &Interpretation) -> String {
+pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> String {
     let mut s = String::new();
     // Writing to a String cannot fail; the results are ignored for that reason.
     let _ = writeln!(s, "Section {:?}: interpretation", r.section);
@@ -249,9 +266,10 @@ pub fn report(section: &Section, r: &Interpretation) -> String {
     }
     let _ = writeln!(
         s,
-        "\nProportion curve: {} points, every {:.2} m (use --json for the values)",
+        "\nProportion curve: {} points, every {} m in a {} m window (use --json for the values)",
         r.proportion_curve.len(),
-        r.proportion_curve.get(1).map_or(0.0, |p| p.height_m)
+        params.curve_step_m,
+        params.window_m
     );
     let _ = writeln!(s, "\n{}", r.caution);
     s

@@ -90,7 +90,9 @@ pub fn candidates(
             // Erosional relief beyond one channel's scour.
             let relief_m = above.base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
             if let Some(r) = relief_m.filter(|_| above.base_contact == Contact::Erosional) {
-                let storey_below = storeys.iter().rev().find(|s| s.last_bed < j).map(|s| s.top_m - s.base_m);
+                // Storeys are in order, so the last one ending below this bed is found by bisection.
+                let below_count = storeys.partition_point(|s| s.last_bed < j);
+                let storey_below = below_count.checked_sub(1).map(|k| storeys[k].top_m - storeys[k].base_m);
                 if r > params.relief_limit_m + TOL {
                     score += params.weight_relief;
                     evidence.push(format!("erosional relief of {r:.2} m exceeds the {:.2} m relief limit", params.relief_limit_m));
