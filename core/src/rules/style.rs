@@ -5,14 +5,7 @@ use super::bodies::{body_beds, profile};
 use super::column::{is_sand_or_gravel, Column, TOL};
 use super::params::RuleParams;
 use super::types::{ChannelBody, Element, FluvialStyle, GrainProfile, Storey, StyleHint};
-use crate::model::{Section, Structure, WentworthClass};
-
-/// Coarsest grain at or above which a body counts as coarse for the braided-like reading
-/// (common practice: gravelly or very coarse sandy channel fills).
-const COARSE_FROM: WentworthClass = WentworthClass::VeryCoarseSand;
-
-/// Drapes making up less than this share of a body count as "little mud" (common practice).
-const LITTLE_MUD_FRACTION: f64 = 0.05;
+use crate::model::{Section, Structure};
 
 /// Evidence for each style in one body, as sentences.
 fn evidence(
@@ -30,7 +23,7 @@ fn evidence(
     let mut braided = Vec::new();
     let mut meandering = Vec::new();
 
-    if let Some(c) = body.grain_coarsest.filter(|c| c.class() >= COARSE_FROM) {
+    if let Some(c) = body.grain_coarsest.filter(|c| c.class() >= params.braided_min_coarsest) {
         braided.push(format!("coarse-grained: up to {}", c.class().name()));
     }
     if body.profile == GrainProfile::Blocky {
@@ -42,7 +35,7 @@ fn evidence(
     let mud_m: f64 = (first..=last)
         .filter(|&i| !is_sand_or_gravel(&section.beds[i]))
         .fold(0.0, |sum, i| sum + column.thickness_m(i));
-    if body.thickness_m > 0.0 && mud_m < LITTLE_MUD_FRACTION * body.thickness_m {
+    if body.thickness_m > 0.0 && mud_m < params.little_mud_max_fraction * body.thickness_m {
         braided.push(format!("little mud inside the body ({mud_m:.2} m of drapes)"));
     }
 
