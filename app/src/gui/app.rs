@@ -190,6 +190,24 @@ impl AggradeApp {
         self.recovery_offer.is_some()
     }
 
+    /// Screen position of the middle of a bed's top boundary in the last frame drawn.
+    pub fn bed_top_on_screen(&self, bed: aggrade_core::model::BedId) -> Option<egui::Pos2> {
+        let t = self.canvas.last_transform?;
+        let b = self.cache.as_ref()?.strip.bed_boxes.get(self.doc.bed_index(bed)?)?;
+        Some(t.pos(b.rect.x + b.rect.w / 2.0, b.rect.y))
+    }
+
+    /// Screen points per metre of section in the canvas.
+    pub fn points_per_m(&self) -> Option<f32> {
+        let c = self.cache.as_ref()?;
+        Some(self.canvas.zoom * c.strip.heights.mm_per_m as f32)
+    }
+
+    /// Bring a height into view in the canvas.
+    pub fn scroll_canvas_to(&mut self, height_m: f64) {
+        self.canvas.scroll_to_height(height_m);
+    }
+
     /// The recovery file's path.
     pub fn recovery_path(&self) -> &Path {
         self.autosaver.path()
@@ -365,8 +383,11 @@ impl AggradeApp {
     pub fn ui_main(&mut self, ui: &mut egui::Ui) {
         let ctx = ui.ctx().clone();
         if !self.styled {
+            // The first pass only installs fonts and style; drawing starts with the next one.
             theme::apply(&ctx);
             self.styled = true;
+            ctx.request_repaint();
+            return;
         }
         self.handle_input(&ctx);
         self.refresh();

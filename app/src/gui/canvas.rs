@@ -37,6 +37,9 @@ pub struct Canvas {
     pending_scroll_m: Option<f64>,
     /// Shapes reused between frames (avoids reallocating).
     shapes: Vec<Shape>,
+    /// The strip → screen transform of the last frame (for hit tests from outside).
+    pub last_transform: Option<MmToScreen>,
+    fitted: bool,
 }
 
 impl Default for Canvas {
@@ -49,6 +52,8 @@ impl Default for Canvas {
             last_total_m: None,
             pending_scroll_m: None,
             shapes: Vec::new(),
+            last_transform: None,
+            fitted: false,
         }
     }
 }
@@ -104,6 +109,12 @@ impl Canvas {
         let (rect, response) = ui.allocate_exact_size(ui.available_size(), Sense::click_and_drag());
         let painter = ui.painter_at(rect);
         let mm_per_m = strip.heights.mm_per_m;
+        if !self.fitted && strip.width_mm > 0.0 {
+            // First frame: fit the strip's width into the view, and show the top of the section.
+            let avail = rect.width() - RULER_W - 40.0;
+            self.zoom = (avail / strip.width_mm as f32).clamp(1.5, 6.0);
+            self.fitted = true;
+        }
         let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
 
         // Keep the part below a dragged bed still while the section grows or shrinks above it.
@@ -149,6 +160,7 @@ impl Canvas {
             ),
             zoom: self.zoom,
         };
+        self.last_transform = Some(t);
         let points_per_m = self.zoom * mm_per_m as f32;
 
         // Background: paper for the strip.
@@ -187,7 +199,9 @@ impl Canvas {
         // Interaction.
         let pointer = response.hover_pos().or(response.interact_pointer_pos());
         let beds = &doc.section().beds;
-        let grab = pointer.and_then(|p| self.grab_target(p, strip, beds, &t));
+        // A drag grabs what was under the pointer where the button went down.
+        let origin = if response.drag_started() { ui.input(|i| i.pointer.press_origin()) } else { None };
+        let grab = origin.or(pointer).and_then(|p| self.grab_target(p, strip, beds, &t));
         if self.drag.is_none() {
             match grab {
                 Some(DragKind::Top { .. }) => ui.ctx().set_cursor_icon(CursorIcon::ResizeVertical),

@@ -13,8 +13,21 @@ pub const WARN: Color32 = Color32::from_rgb(160, 82, 20);
 pub const ACCEPTED: Color32 = Color32::from_rgb(40, 130, 70);
 pub const REJECTED: Color32 = Color32::from_rgb(150, 150, 150);
 
-/// Apply the palette and spacing to a context.
+/// DejaVu Sans (free licence, shipped in `assets/fonts`): covers φ, →, −, ° and the like, and
+/// matches the printed column's lettering.
+static DEJAVU: &[u8] = include_bytes!("../../../assets/fonts/DejaVuSans.ttf");
+
+/// Apply fonts, palette and spacing to a context (fonts take effect from the next pass).
 pub fn apply(ctx: &egui::Context) {
+    let mut fonts = egui::FontDefinitions::default();
+    fonts.font_data.insert("dejavu".into(), std::sync::Arc::new(egui::FontData::from_static(DEJAVU)));
+    if let Some(f) = fonts.families.get_mut(&egui::FontFamily::Proportional) {
+        f.insert(0, "dejavu".into());
+    }
+    if let Some(f) = fonts.families.get_mut(&egui::FontFamily::Monospace) {
+        f.push("dejavu".into());
+    }
+    ctx.set_fonts(fonts);
     ctx.set_theme(egui::Theme::Light);
     ctx.all_styles_mut(|s| {
         s.spacing.item_spacing = egui::vec2(7.0, 5.0);
