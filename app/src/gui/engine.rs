@@ -157,7 +157,7 @@ pub fn interpret(section: &Section, p: &RuleParams) -> Interpretation {
             if below.paleosol.is_strong() {
                 score += 0.25;
                 kind = CandidateKind::ChannelBaseOnPaleosol;
-                evidence.push(format!("rests on a {} developed paleosol", below.paleosol));
+                evidence.push(format!("rests on a paleosol of {} development", below.paleosol));
             }
             if let (Some(a), Some(b)) = (below.grain_top, beds[bi].grain_base) {
                 let jump = b.class().rank() as i64 - a.class().rank() as i64;
@@ -171,7 +171,7 @@ pub fn interpret(section: &Section, p: &RuleParams) -> Interpretation {
     }
     for k in 0..n.saturating_sub(1) {
         if beds[k].paleosol.is_strong() && elements[k + 1] != Element::ChannelDeposit {
-            let ev = vec![format!("{} developed paleosol capping floodplain fines", beds[k].paleosol)];
+            let ev = vec![format!("paleosol of {} development capping floodplain fines", beds[k].paleosol)];
             cands.push(candidate(section, k + 1, base[k + 1], CandidateKind::PaleosolTop, 0.4, ev));
         }
     }

@@ -121,7 +121,7 @@ impl BedTable {
         let lith = lithology_from_prefix(&self.lithology);
         let grain = grain_from_prefix(&self.grain);
         let preview = format!(
-            "→ {} · {}",
+            "reads as: {} · {}",
             lith.map(|l| l.name()).unwrap_or("?"),
             grain.map(|g| g.to_string()).unwrap_or_else(|| "no grain size".into())
         );
@@ -177,61 +177,63 @@ impl BedTable {
         let unit = s.display_unit;
         let n = s.beds.len();
         let heights = s.base_heights_m();
-        let row_h = 20.0;
-        let header = |ui: &mut egui::Ui| {
-            ui.horizontal(|ui| {
-                let cols =
-                    [("#", 34.0), ("top", 52.0), ("thick.", 52.0), ("lithology", 92.0), ("grain", 0.0)];
-                for (name, w) in cols {
-                    let w: f32 = w;
-                    let r = ui.add_sized(
-                        [w.max(40.0), 16.0],
-                        egui::Label::new(egui::RichText::new(name).small().strong()),
-                    );
-                    let _ = r;
+        let row_h = 22.0;
+        // Column left edges as fractions of the row; numbers are right-aligned to the next edge.
+        let cols = [0.0f32, 0.11, 0.30, 0.48, 0.80, 1.0];
+        let top_label = format!("top ({})", unit.name());
+        let header = ["#", top_label.as_str(), "thick.", "lithology", "grain"];
+        let (hrect, _) = ui.allocate_exact_size(egui::vec2(ui.available_width(), 18.0), egui::Sense::hover());
+        let font = egui::FontId::proportional(11.5);
+        for (k, name) in header.iter().enumerate() {
+            let numeric = (1..=2).contains(&k);
+            let x = if numeric { hrect.left() + cols[k + 1] * hrect.width() - 8.0 } else { hrect.left() + cols[k] * hrect.width() + 4.0 };
+            let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
+            ui.painter().text(egui::pos2(x, hrect.center().y), align, *name, font.clone(), theme::TEXT_DIM);
+        }
+        egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).show_rows(ui, row_h, n, |ui, range| {
+            for row in range {
+                // Top of the section first.
+                let i = n - 1 - row;
+                let b = &s.beds[i];
+                let selected = doc.selected_bed == Some(b.id);
+                let top = heights[i] + b.thickness_m;
+                let grain = match (b.grain_base, b.grain_top) {
+                    (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
+                    (Some(a), _) => short(a),
+                    (None, _) => "—".into(),
+                };
+                let (rect, r) = ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
+                let bg = if selected {
+                    theme::SELECT_FILL
+                } else if r.hovered() {
+                    egui::Color32::from_gray(234)
+                } else if row % 2 == 1 {
+                    egui::Color32::from_gray(241)
+                } else {
+                    egui::Color32::TRANSPARENT
+                };
+                let p = ui.painter();
+                p.rect_filled(rect, 2.0, bg);
+                if selected {
+                    p.rect_filled(egui::Rect::from_min_size(rect.min, egui::vec2(3.0, rect.height())), 0.0, theme::ACCENT);
                 }
-            });
-        };
-        header(ui);
-        egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).show_rows(
-            ui,
-            row_h,
-            n,
-            |ui, range| {
-                for row in range {
-                    // Top of the section first.
-                    let i = n - 1 - row;
-                    let b = &s.beds[i];
-                    let selected = doc.selected_bed == Some(b.id);
-                    let top = heights[i] + b.thickness_m;
-                    let grain = match (b.grain_base, b.grain_top) {
-                        (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
-                        (Some(a), _) => short(a),
-                        (None, _) => "—".into(),
-                    };
-                    let text = format!(
-                        "{:<4} {:>7} {:>7}  {:<13} {}",
-                        i + 1,
-                        show_length(top, unit),
-                        show_length(b.thickness_m, unit),
-                        b.lithology.name(),
-                        grain
-                    );
-                    let r = ui.add_sized(
-                        [ui.available_width(), row_h],
-                        egui::Button::selectable(selected, egui::RichText::new(text).monospace())
-                            .frame_when_inactive(false),
-                    );
-                    let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
-                    if r.clicked() {
-                        out.select = Some(Some(b.id));
-                        out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
-                    }
-                    let id = b.id;
-                    r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
+                let cells = [format!("{}", i + 1), show_length(top, unit), show_length(b.thickness_m, unit), b.lithology.name().to_string(), grain];
+                for (k, text) in cells.into_iter().enumerate() {
+                    let numeric = (1..=2).contains(&k);
+                    let x = if numeric { rect.left() + cols[k + 1] * rect.width() - 8.0 } else { rect.left() + cols[k] * rect.width() + 4.0 };
+                    let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
+                    let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
+                    p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
                 }
-            },
-        );
+                let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
+                if r.clicked() {
+                    out.select = Some(Some(b.id));
+                    out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
+                }
+                let id = b.id;
+                r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
+            }
+        });
     }
 }
 
