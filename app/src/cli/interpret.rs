@@ -1,15 +1,243 @@
-//! `aggrade interpret`.
+//! `aggrade interpret`: run the interpretation rules on one section and print a readable report
+//! or one JSON object.
 
-use std::path::PathBuf;
+use aggrade_core::model::{LengthUnit, Project, Section};
+use aggrade_core::rules::{
+    interpret, CandidateKind, GrainProfile, Interpretation, Regime, RuleParams, Stacking,
+};
+use anyhow::{anyhow, bail, Context};
+use std::fmt::Write as _;
+use std::io::Write as _;
+use std::path::{Path, PathBuf};
 
 /// Arguments of `aggrade interpret`.
 #[derive(Debug, clap::Args)]
 pub struct InterpretArgs {
-    /// Input file.
+    /// Project file (.aggrade) or bed-table CSV.
     pub file: PathBuf,
+    /// Name of the section to interpret (needed when the project holds several).
+    #[arg(long, value_name = "NAME")]
+    pub section: Option<String>,
+    /// Print one JSON object (heights in metres) instead of the readable report.
+    #[arg(long)]
+    pub json: bool,
+    /// Height of the moving window of the channel-body proportion curve, metres (default 10).
+    #[arg(long = "window-m", value_name = "METRES", allow_negative_numbers = true)]
+    pub window_m: Option<f64>,
+    /// Rule parameters as a JSON object; fields left out keep their defaults.
+    #[arg(long, value_name = "FILE")]
+    pub params: Option<PathBuf>,
 }
 
 /// Run `aggrade interpret`.
-pub fn run(_args: &InterpretArgs) -> anyhow::Result<()> {
-    anyhow::bail!("`aggrade interpret` is not built yet")
+pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
+    let loaded = aggrade_core::io::load(&args.file)?;
+    for w in &loaded.warnings {
+        eprintln!("aggrade: warning: {w}");
+    }
+    let section = choose_section(&loaded.project, &args.file, args.section.as_deref())?;
+    let params = rule_params(args)?;
+    let result = interpret(section, &params);
+    let text = if args.json {
+        let mut s = serde_json::to_string_pretty(&result).context("writing the interpretation as JSON")?;
+        s.push('\n');
+        s
+    } else {
+        report(section, &result)
+    };
+    let mut out = std::io::stdout().lock();
+    out.write_all(text.as_bytes()).and_then(|()| out.flush()).context("writing to standard output")?;
+    Ok(())
+}
+
+/// The section named on the command line, or the only one in the project.
+pub fn choose_section<'a>(
+    project: &'a Project,
+    file: &Path,
+    wanted: Option<&str>,
+) -> anyhow::Result<&'a Section> {
+    let names = || project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ");
+    match (wanted, project.sections.as_slice()) {
+        (_, []) => bail!("{}: the project holds no section to interpret", file.display()),
+        (Some(name), _) => project.section(name).ok_or_else(|| {
+            anyhow!("{}: no section named {name:?}; the sections are {}", file.display(), names())
+        }),
+        (None, [only]) => Ok(only),
+        (None, _) => bail!(
+            "{}: the project holds {} sections; choose one with --section NAME (one of {})",
+            file.display(),
+            project.sections.len(),
+            names()
+        ),
+    }
+}
+
+/// Defaults, then the parameter file, then `--window-m`; every invalid value is reported.
+fn rule_params(args: &InterpretArgs) -> anyhow::Result<RuleParams> {
+    let mut params = match &args.params {
+        Some(path) => {
+            let text =
+                std::fs::read_to_string(path).with_context(|| format!("{}: cannot read", path.display()))?;
+            serde_json::from_str::<RuleParams>(&text).map_err(|e| {
+                anyhow!(
+                    "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}",
+                    path.display(),
+                    e.line(),
+                    e.column()
+                )
+            })?
+        }
+        None => RuleParams::default(),
+    };
+    if let Some(w) = args.window_m {
+        params.window_m = w;
+    }
+    let problems = params.problems();
+    if !problems.is_empty() {
+        let source = match (&args.params, args.window_m) {
+            (Some(p), _) => format!(" (from {} and the command line)", p.display()),
+            (None, _) => " (--window-m sets window_m)".to_string(),
+        };
+        bail!("invalid rule parameters{source}: {}", problems.join("; "));
+    }
+    Ok(params)
+}
+
+fn stacking_name(s: Stacking) -> &'static str {
+    match s {
+        Stacking::MultiStory => "multi-story",
+        Stacking::SingleStory => "single-story",
+    }
+}
+
+fn regime_name(r: Regime) -> &'static str {
+    match r {
+        Regime::Low => "low",
+        Regime::High => "high",
+        Regime::Undetermined => "undetermined",
+    }
+}
+
+fn profile_name(p: GrainProfile) -> &'static str {
+    match p {
+        GrainProfile::FiningUpward => "fining-upward",
+        GrainProfile::CoarseningUpward => "coarsening-upward",
+        GrainProfile::Blocky => "blocky",
+        GrainProfile::Unknown => "unknown (no grain sizes)",
+    }
+}
+
+fn kind_name(k: CandidateKind) -> &'static str {
+    match k {
+        CandidateKind::ChannelBodyBase => "channel-body base",
+        CandidateKind::PaleosolTop => "paleosol top",
+        CandidateKind::ChannelBaseOnPaleosol => "channel-body base on a paleosol",
+    }
+}
+
+fn fmt_proportion(p: Option<f64>) -> String {
+    p.map_or("n/a (no exposure)".to_string(), |p| format!("{p:.2}"))
+}
+
+/// The readable report: bodies, stacking, proportions, regimes, ranked candidates, the caution.
+pub fn report(section: &Section, r: &Interpretation) -> String {
+    let mut s = String::new();
+    // Writing to a String cannot fail; the results are ignored for that reason.
+    let _ = writeln!(s, "Section {:?}: interpretation", r.section);
+    if section.display_unit != LengthUnit::Metre {
+        let _ = writeln!(
+            s,
+            "(logged in {}; all heights here are metres above the section base)",
+            section.display_unit
+        );
+    }
+    let _ = writeln!(
+        s,
+        "Thickness {:.2} m, exposed {:.2} m, channel deposits {:.2} m; channel-body proportion {}",
+        r.total_thickness_m,
+        r.exposed_thickness_m,
+        r.channel_thickness_m(),
+        fmt_proportion(r.channel_proportion)
+    );
+
+    let _ = writeln!(s, "\nChannel bodies ({}):", r.channel_bodies.len());
+    if r.channel_bodies.is_empty() {
+        let _ = writeln!(s, "  none");
+    }
+    for (k, b) in r.channel_bodies.iter().enumerate() {
+        let grain = match (b.grain_finest, b.grain_coarsest) {
+            (Some(f), Some(c)) if f == c => format!(", {}", c.class().name()),
+            (Some(f), Some(c)) => format!(", {} to {}", f.class().name(), c.class().name()),
+            _ => String::new(),
+        };
+        let _ = writeln!(
+            s,
+            "  {}. {:.2}–{:.2} m ({:.2} m): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}",
+            k + 1,
+            b.base_m,
+            b.top_m,
+            b.thickness_m,
+            stacking_name(b.stacking),
+            b.stories,
+            if b.stories == 1 { "" } else { "s" },
+            b.amalgamated_bases,
+            if b.amalgamated_bases == 1 { "" } else { "s" },
+            profile_name(b.profile)
+        );
+        if let Some(h) = &b.style_hint {
+            let style = match h.style {
+                aggrade_core::rules::FluvialStyle::BraidedLike => "braided-like",
+                aggrade_core::rules::FluvialStyle::MeanderingLike => "meandering-like",
+            };
+            let _ = writeln!(s, "     style hint: {style} ({})", h.evidence.join("; "));
+        }
+    }
+
+    let _ = writeln!(s, "\nChannel-body proportion by interval:");
+    for iv in &r.interval_proportions {
+        let _ = writeln!(s, "  {:.2}–{:.2} m: {}", iv.base_m, iv.top_m, fmt_proportion(iv.proportion));
+    }
+
+    let _ = writeln!(s, "\nAccommodation regime:");
+    for a in &r.accommodation {
+        let _ = writeln!(s, "  {:.2}–{:.2} m: {} — {}", a.base_m, a.top_m, regime_name(a.regime), a.why);
+    }
+
+    let _ = writeln!(
+        s,
+        "\nCandidate sequence boundaries, highest score first ({}):",
+        r.sequence_boundary_candidates.len()
+    );
+    if r.sequence_boundary_candidates.is_empty() {
+        let _ = writeln!(s, "  none");
+    }
+    for (k, c) in r.sequence_boundary_candidates.iter().enumerate() {
+        let review = match c.review {
+            aggrade_core::model::ReviewState::Candidate => "not yet reviewed",
+            aggrade_core::model::ReviewState::Accepted => "accepted",
+            aggrade_core::model::ReviewState::Rejected => "rejected",
+        };
+        let _ = writeln!(
+            s,
+            "  {}. {:.2} m, score {:.2}, {}, {review}",
+            k + 1,
+            c.height_m,
+            c.score,
+            kind_name(c.kind)
+        );
+        for e in &c.evidence {
+            let _ = writeln!(s, "     - {e}");
+        }
+        if !c.note.is_empty() {
+            let _ = writeln!(s, "     note: {}", c.note);
+        }
+    }
+    let _ = writeln!(
+        s,
+        "\nProportion curve: {} points, every {:.2} m (use --json for the values)",
+        r.proportion_curve.len(),
+        r.proportion_curve.get(1).map_or(0.0, |p| p.height_m)
+    );
+    let _ = writeln!(s, "\n{}", r.caution);
+    s
 }

@@ -1,12 +1,30 @@
-//! Reading and writing files: the project JSON format and the bed-table CSV.
-//!
-//! PLACEHOLDER (to be replaced by the full readers): only plain project JSON is read, with no
-//! validation beyond serde's.
+//! Reading and writing files: the versioned project JSON (`.aggrade`), the bed-table CSV,
+//! validation shared with the app, and atomic saving.
+
+pub mod atomic;
+pub mod bed_table;
+pub mod json_scan;
+pub mod limits;
+pub mod migrate;
+pub mod problem;
+pub mod project_file;
+pub mod project_reader;
+pub mod validate;
+
+pub use atomic::{backup_path, write_atomic, write_bytes_atomic, SaveError};
+pub use bed_table::{read_bed_table, write_bed_table, BedTableRead};
+pub use limits::*;
+pub use migrate::infer_surface_kind;
+pub use problem::Problem;
+pub use project_file::{project_to_json, read_project_text, ProjectRead};
+pub use validate::{check_iso_date, validate_project, validate_section};
 
 use crate::model::Project;
+use std::io::Read;
 use std::path::{Path, PathBuf};
 
-/// A file read successfully, with any warnings (e.g. unknown CSV columns).
+/// A file read successfully, with any warnings (e.g. unknown CSV columns), each a full sentence
+/// naming the file and line.
 #[derive(Debug, Clone)]
 pub struct Loaded {
     pub project: Project,
@@ -16,17 +34,137 @@ pub struct Loaded {
 /// Why a file could not be read.
 #[derive(Debug, thiserror::Error)]
 pub enum LoadError {
-    #[error("{path}: {source}")]
+    /// The file could not be opened or read.
+    #[error("{path}: could not read the file: {source}")]
     Io { path: PathBuf, source: std::io::Error },
-    #[error("{path}: {message}")]
-    Invalid { path: PathBuf, message: String },
+    /// Larger than [`MAX_FILE_BYTES`]; refused before reading.
+    #[error("{path}: the file is {size_bytes} bytes; at most {limit_bytes} bytes are read", path = .path.display())]
+    TooLarge { path: PathBuf, size_bytes: u64, limit_bytes: u64 },
+    /// The extension names no format this build reads.
+    #[error("{path}: unknown file type; use .aggrade or .json (project) or .csv (bed table)", path = .path.display())]
+    UnknownKind { path: PathBuf },
+    /// The content breaks the format; every problem found, in file order.
+    #[error("{}", invalid_message(.path, .problems))]
+    Invalid { path: PathBuf, problems: Vec<Problem> },
 }
 
-/// Read a project file or bed-table CSV, chosen by extension.
+impl LoadError {
+    /// The problems found in the content (empty for I/O and size errors).
+    pub fn problems(&self) -> &[Problem] {
+        match self {
+            LoadError::Invalid { problems, .. } => problems,
+            _ => &[],
+        }
+    }
+}
+
+fn invalid_message(path: &Path, problems: &[Problem]) -> String {
+    let n = problems.len();
+    let shown = &problems[..n.min(MAX_PROBLEMS_LISTED)];
+    let mut msg = format!(
+        "{}: {n} problem{}:\n{}",
+        path.display(),
+        if n == 1 { "" } else { "s" },
+        problem::list(shown)
+    );
+    if n > shown.len() {
+        msg.push_str(&format!("\n  … and {} more", n - shown.len()));
+    }
+    msg
+}
+
+/// The kinds of file [`load`] reads, by extension.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum FileKind {
+    /// `.aggrade` or `.json`.
+    Project,
+    /// `.csv`.
+    BedTable,
+}
+
+impl FileKind {
+    /// The kind of a path by its extension (case-insensitive).
+    pub fn of(path: &Path) -> Option<FileKind> {
+        let ext = path.extension()?.to_str()?.to_ascii_lowercase();
+        match ext.as_str() {
+            "aggrade" | "json" => Some(FileKind::Project),
+            "csv" => Some(FileKind::BedTable),
+            _ => None,
+        }
+    }
+}
+
+/// Read at most [`MAX_FILE_BYTES`] of a file as UTF-8 text; refuses larger files before reading.
+fn read_text(path: &Path) -> Result<String, LoadError> {
+    let io_err = |source| LoadError::Io { path: path.to_path_buf(), source };
+    let file = std::fs::File::open(path).map_err(io_err)?;
+    let size = file.metadata().map_err(io_err)?.len();
+    if size > MAX_FILE_BYTES {
+        return Err(LoadError::TooLarge {
+            path: path.to_path_buf(),
+            size_bytes: size,
+            limit_bytes: MAX_FILE_BYTES,
+        });
+    }
+    let mut bytes = Vec::with_capacity(size as usize);
+    // The size may change under us (or be unknown for special files): never read past the limit.
+    file.take(MAX_FILE_BYTES + 1).read_to_end(&mut bytes).map_err(io_err)?;
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        return Err(LoadError::TooLarge {
+            path: path.to_path_buf(),
+            size_bytes: bytes.len() as u64,
+            limit_bytes: MAX_FILE_BYTES,
+        });
+    }
+    String::from_utf8(bytes).map_err(|e| {
+        let valid = e.utf8_error().valid_up_to();
+        let bytes = e.as_bytes();
+        let line = 1 + bytes[..valid].iter().filter(|&&b| b == b'\n').count();
+        let column = 1 + bytes[..valid].iter().rev().take_while(|&&b| b != b'\n').count();
+        LoadError::Invalid {
+            path: path.to_path_buf(),
+            problems: vec![Problem::new(
+                "",
+                format!(
+                    "not UTF-8 text: invalid byte 0x{:02X} at column {column}; save the file as UTF-8",
+                    bytes.get(valid).copied().unwrap_or(0)
+                ),
+            )
+            .at_line(line)],
+        }
+    })
+}
+
+/// Read a project file (`.aggrade`, `.json`) or a bed-table CSV (`.csv`, one section named after
+/// the file stem), chosen by extension. Everything is validated; every problem is reported.
 pub fn load(path: &Path) -> Result<Loaded, LoadError> {
+    let kind = FileKind::of(path).ok_or_else(|| LoadError::UnknownKind { path: path.to_path_buf() })?;
+    let text = read_text(path)?;
+    let invalid = |problems| LoadError::Invalid { path: path.to_path_buf(), problems };
+    let file = path.display();
+    match kind {
+        FileKind::Project => {
+            let read = read_project_text(&text).map_err(invalid)?;
+            let warnings = read.warnings.iter().map(|w| format!("{file}: {w}")).collect();
+            Ok(Loaded { project: read.project, warnings })
+        }
+        FileKind::BedTable => {
+            let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default();
+            let read = read_bed_table(&text, &stem).map_err(invalid)?;
+            let warnings = read.warnings.iter().map(|w| format!("{file}: {w}")).collect();
+            Ok(Loaded { project: Project::new(vec![read.section]), warnings })
+        }
+    }
+}
+
+/// Save a project atomically as pretty JSON (see [`write_atomic`]); the previous file is kept as
+/// `NAME.bak`. A project that breaks a validation rule is not written (it would not load again).
+pub fn save_project(path: &Path, project: &Project) -> Result<(), SaveError> {
+    let problems = validate_project(project);
+    if !problems.is_empty() {
+        return Err(SaveError::Invalid { path: path.to_path_buf(), problems: problem::list(&problems) });
+    }
     let text =
-        std::fs::read_to_string(path).map_err(|source| LoadError::Io { path: path.to_path_buf(), source })?;
-    let project: Project = serde_json::from_str(&text)
-        .map_err(|e| LoadError::Invalid { path: path.to_path_buf(), message: e.to_string() })?;
-    Ok(Loaded { project, warnings: Vec::new() })
+        project_to_json(project).map_err(|source| SaveError::Encode { path: path.to_path_buf(), source })?;
+    write_bytes_atomic(path, text.as_bytes())
 }

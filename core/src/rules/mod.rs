@@ -1,5 +1,94 @@
 //! Interpretation rules: pure functions of a section plus one documented parameter struct.
+//!
+//! [`interpret`] runs the rule families in order, one file each: elements and storeys
+//! (`elements`), channel bodies (`bodies`), fluvial style (`style`), channel-body proportion
+//! (`proportion`), candidate sequence boundaries (`boundaries`) and accommodation regimes
+//! (`accommodation`). Every threshold is a field of [`RuleParams`]. The work is linear in the
+//! number of beds, plus a binary search per curve point and per candidate.
 
+mod accommodation;
+mod bodies;
+mod boundaries;
+mod column;
+mod elements;
+pub mod params;
+mod proportion;
+mod style;
 pub mod types;
 
+pub use params::RuleParams;
 pub use types::*;
+
+use crate::model::{ReviewState, Section};
+use column::Column;
+
+/// Interpret one section. Deterministic, never panics, and every height is in metres above the
+/// section base whatever unit the thicknesses were entered in.
+///
+/// ```
+/// use aggrade_core::model::{Bed, BedId, Contact, GrainSize, Lithology, Section, WentworthClass};
+/// use aggrade_core::rules::{interpret, RuleParams, Stacking};
+///
+/// let mut s = Section::new("Demo");
+/// let silt = Some(GrainSize::Class(WentworthClass::Silt));
+/// let sand = Some(GrainSize::Class(WentworthClass::MediumSand));
+/// s.beds.push(Bed::new(BedId(1), 4.0, Lithology::Mudstone, silt));
+/// let mut channel = Bed::new(BedId(2), 2.0, Lithology::Sandstone, sand);
+/// channel.base_contact = Contact::Erosional;
+/// s.beds.push(channel);
+/// s.beds.push(Bed::new(BedId(3), 4.0, Lithology::Mudstone, silt));
+///
+/// let result = interpret(&s, &RuleParams::default());
+/// assert_eq!(result.channel_bodies.len(), 1);
+/// assert_eq!(result.channel_bodies[0].stacking, Stacking::SingleStory);
+/// assert_eq!(result.channel_proportion, Some(0.2)); // 2 m of channel sand in 10 m
+/// ```
+pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
+    let column = Column::new(section);
+    let (elements, storeys) = elements::elements_and_storeys(section, &column, params);
+    let column = column.with_elements(&elements);
+    let mut channel_bodies = bodies::channel_bodies(section, &storeys, params);
+    style::add_style_hints(section, &column, &elements, &storeys, &mut channel_bodies, params);
+    let candidates = boundaries::candidates(section, &column, &elements, &storeys, &channel_bodies, params);
+
+    // Intervals for proportions: accepted boundaries; failing those, strong candidates.
+    let accepted: Vec<f64> = section
+        .review
+        .iter()
+        .filter(|d| d.state == ReviewState::Accepted)
+        .filter_map(|d| section.bed_index(d.bed))
+        .map(|i| column.bounds_m[i])
+        .collect();
+    let cuts = if accepted.is_empty() {
+        candidates
+            .iter()
+            .filter(|c| c.review != ReviewState::Rejected && c.score > params.boundary_interval_min_score)
+            .map(|c| c.height_m)
+            .collect()
+    } else {
+        accepted
+    };
+
+    Interpretation {
+        section: section.name.clone(),
+        total_thickness_m: column.total_m(),
+        exposed_thickness_m: column.exposed_total_m(),
+        channel_proportion: column::proportion_of(column.channel_total_m(), column.exposed_total_m()),
+        interval_proportions: proportion::interval_proportions(&column, &cuts),
+        proportion_curve: proportion::proportion_curve(&column, params),
+        accommodation: accommodation::regimes(&column, &channel_bodies, params),
+        sequence_boundary_candidates: candidates,
+        elements,
+        storeys,
+        channel_bodies,
+        caution: crate::REVIEW_CAUTION.to_string(),
+    }
+}
+
+impl Interpretation {
+    /// Total thickness of channel deposits (storeys, drapes inside them included), metres.
+    pub fn channel_thickness_m(&self) -> f64 {
+        // A fold from +0.0: an empty float sum would give −0.0.
+        self.storeys.iter().fold(0.0, |sum, s| sum + (s.top_m - s.base_m))
+    }
+}

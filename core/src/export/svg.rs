@@ -1,0 +1,184 @@
+//! SVG writer: translates one layout page item by item into an SVG document in millimetres.
+//!
+//! No drawing decision lives here; text uses the same embedded font family name (DejaVu Sans)
+//! and the same left-anchored positions as the PDF.
+
+use crate::layout::{Anchor, Item, Page, PtMm, Rgba, Stroke};
+use std::fmt::Write;
+
+/// Round to 3 decimals (µm) and drop trailing zeros, so output is compact and stable.
+fn n(v: f64) -> String {
+    if !v.is_finite() {
+        return "0".into();
+    }
+    let s = format!("{v:.3}");
+    let s = s.trim_end_matches('0').trim_end_matches('.');
+    if s == "-0" {
+        "0".into()
+    } else {
+        s.to_string()
+    }
+}
+
+fn rgb(c: Rgba) -> String {
+    format!("#{:02x}{:02x}{:02x}", c.0, c.1, c.2)
+}
+
+fn escape(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for ch in s.chars() {
+        match ch {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&apos;"),
+            c if (c as u32) < 0x20 && c != '\t' && c != '\n' => {}
+            c => out.push(c),
+        }
+    }
+    out
+}
+
+fn paint(fill: &Option<Rgba>, stroke: &Option<Stroke>) -> String {
+    let mut a = String::new();
+    match fill {
+        Some(c) if c.3 > 0 => {
+            let _ = write!(a, " fill=\"{}\"", rgb(*c));
+            if c.3 < 255 {
+                let _ = write!(a, " fill-opacity=\"{}\"", n(f64::from(c.3) / 255.0));
+            }
+        }
+        _ => a.push_str(" fill=\"none\""),
+    }
+    if let Some(s) = stroke.as_ref().filter(|s| s.color.3 > 0 && s.width_mm > 0.0) {
+        a.push_str(&stroke_attrs(s));
+    }
+    a
+}
+
+fn stroke_attrs(s: &Stroke) -> String {
+    let mut a = format!(" stroke=\"{}\" stroke-width=\"{}\"", rgb(s.color), n(s.width_mm));
+    if s.color.3 < 255 {
+        let _ = write!(a, " stroke-opacity=\"{}\"", n(f64::from(s.color.3) / 255.0));
+    }
+    if s.dash_mm.iter().any(|d| *d > 0.0) {
+        let d: Vec<String> = s.dash_mm.iter().map(|d| n(d.max(0.0))).collect();
+        let _ = write!(a, " stroke-dasharray=\"{}\"", d.join(" "));
+    }
+    a
+}
+
+fn points(pts: &[PtMm]) -> String {
+    pts.iter().map(|p| format!("{},{}", n(p.x), n(p.y))).collect::<Vec<_>>().join(" ")
+}
+
+/// Write one page as an SVG document whose user unit is 1 mm.
+pub fn write_svg(page: &Page) -> String {
+    let mut s = String::with_capacity(page.items.len() * 80 + 512);
+    let (w, h) = (n(page.width_mm), n(page.height_mm));
+    let _ = writeln!(s, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>");
+    let _ = writeln!(
+        s,
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}mm\" height=\"{h}mm\" viewBox=\"0 0 {w} {h}\" \
+         font-family=\"DejaVu Sans, sans-serif\" stroke-linecap=\"butt\" stroke-linejoin=\"miter\">"
+    );
+    let _ = writeln!(s, "<rect x=\"0\" y=\"0\" width=\"{w}\" height=\"{h}\" fill=\"#ffffff\"/>");
+    for item in &page.items {
+        match item {
+            Item::Rect { rect, fill, stroke } => {
+                let _ = writeln!(
+                    s,
+                    "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\"{}/>",
+                    n(rect.x),
+                    n(rect.y),
+                    n(rect.w.max(0.0)),
+                    n(rect.h.max(0.0)),
+                    paint(fill, stroke)
+                );
+            }
+            Item::Polygon { points: pts, fill, stroke } => {
+                let _ = writeln!(s, "<polygon points=\"{}\"{}/>", points(pts), paint(fill, stroke));
+            }
+            Item::Polyline { points: pts, stroke } => {
+                let _ = writeln!(s, "<polyline points=\"{}\" fill=\"none\"{}/>", points(pts), stroke_attrs(stroke));
+            }
+            Item::Circle { center, radius_mm, fill, stroke } => {
+                let _ = writeln!(
+                    s,
+                    "<circle cx=\"{}\" cy=\"{}\" r=\"{}\"{}/>",
+                    n(center.x),
+                    n(center.y),
+                    n(radius_mm.max(0.0)),
+                    paint(fill, stroke)
+                );
+            }
+            Item::Text { pos, text, size_pt, color, anchor, rotation_deg } => {
+                let anchor = match anchor {
+                    Anchor::Start => "start",
+                    Anchor::Middle => "middle",
+                    Anchor::End => "end",
+                };
+                // Font size in user units (mm): 1 pt = 25.4/72 mm.
+                let size_mm = size_pt * 25.4 / 72.0;
+                let rot = if *rotation_deg != 0.0 {
+                    // SVG rotates clockwise on screen; ours is counter-clockwise on the page.
+                    format!(" transform=\"rotate({} {} {})\"", n(-rotation_deg), n(pos.x), n(pos.y))
+                } else {
+                    String::new()
+                };
+                let _ = writeln!(
+                    s,
+                    "<text x=\"{}\" y=\"{}\" font-size=\"{}\" fill=\"{}\" text-anchor=\"{anchor}\"{rot}>{}</text>",
+                    n(pos.x),
+                    n(pos.y),
+                    n(size_mm),
+                    rgb(*color),
+                    escape(text)
+                );
+            }
+        }
+    }
+    s.push_str("</svg>\n");
+    s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::layout::RectMm;
+
+    #[test]
+    fn escapes_and_rounds() {
+        assert_eq!(n(1.23456), "1.235");
+        assert_eq!(n(2.0), "2");
+        assert_eq!(n(-0.0001), "0");
+        assert_eq!(escape("a<b & \"c\""), "a&lt;b &amp; &quot;c&quot;");
+        let page = Page {
+            width_mm: 210.0,
+            height_mm: 297.0,
+            items: vec![
+                Item::Rect {
+                    rect: RectMm { x: 1.0, y: 2.0, w: 3.0, h: 4.0 },
+                    fill: Some(Rgba::BLACK),
+                    stroke: None,
+                },
+                Item::Text {
+                    pos: PtMm { x: 5.0, y: 6.0 },
+                    text: "φ < 2".into(),
+                    size_pt: 7.2,
+                    color: Rgba::BLACK,
+                    anchor: Anchor::Start,
+                    rotation_deg: 90.0,
+                },
+            ],
+            segments: Vec::new(),
+        };
+        let svg = write_svg(&page);
+        assert!(svg.contains("<rect x=\"1\" y=\"2\" width=\"3\" height=\"4\" fill=\"#000000\"/>"), "{svg}");
+        assert!(svg.contains(">φ &lt; 2</text>"));
+        assert!(svg.contains("rotate(-90 5 6)"));
+        // 7.2 pt = 2.54 mm.
+        assert!(svg.contains("font-size=\"2.54\""));
+    }
+}

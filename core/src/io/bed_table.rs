@@ -1,0 +1,641 @@
+//! The bed-table CSV: one row per bed, lowest bed first, a header row naming the columns in any
+//! order. Read with every bad cell reported by line and column; written so that it reads back
+//! to the same beds, with formula-looking text cells escaped.
+//!
+//! Columns (header names are case-insensitive; spaces and hyphens count as underscores):
+//! - exactly one of `thickness_m`, `thickness_cm`, `thickness_ft` (required, > 0);
+//! - `lithology` (required): one of the lithology vocabulary;
+//! - `grain` or `grain_base` / `grain_top`: a Wentworth class name (`fine sand`, `fine_sand`) or a
+//!   number with `mm` or `phi`; empty for covered intervals, optional for non-clastic rocks,
+//!   required for clastic ones. When only one of base/top is filled the other takes its value;
+//! - `base_contact` (sharp when empty, erosional, gradational); `base_relief_m` (≥ 0);
+//! - `structures`, `paleosol_features`, `samples`: lists separated by `;`;
+//! - `paleosol` (none when empty, weak, moderate, strong, very strong); `carbonate_stage` (1–6 or
+//!   I–VI);
+//! - `paleocurrents`: azimuths in degrees (0–360) separated by `;`;
+//! - `surface`: name of a surface at the bed's base; `surface_kind` (optional): its kind, else
+//!   inferred by [`infer_surface_kind`];
+//! - `colour` (or `color`), `fossils`, `notes`: free text.
+//!
+//! There is no header block: the section takes its name from the caller (the file stem) and its
+//! display unit from the thickness column (ft for `thickness_ft`, cm for `thickness_cm`).
+//!
+//! Text cells starting with `=`, `+`, `-`, `@`, tab or carriage return are written with a leading
+//! `'` so that spreadsheets do not run them as formulas (OWASP "CSV Injection" guidance); the
+//! reader removes that `'` again.
+
+use super::limits::{MAX_BEDS_PER_SECTION, MAX_STRING_CHARS};
+use super::migrate::infer_surface_kind;
+use super::problem::Problem;
+use super::validate::validate_section;
+use crate::model::grain::normalise_term;
+use crate::model::{
+    Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section,
+    Structure, Surface, SurfaceKind,
+};
+use std::collections::HashMap;
+
+/// Thickness columns and their units.
+pub const THICKNESS_COLUMNS: [(&str, LengthUnit); 3] = [
+    ("thickness_m", LengthUnit::Metre),
+    ("thickness_cm", LengthUnit::Centimetre),
+    ("thickness_ft", LengthUnit::Foot),
+];
+
+/// Every column the reader understands (besides the alias `color` for `colour`).
+pub const KNOWN_COLUMNS: [&str; 20] = [
+    "thickness_m",
+    "thickness_cm",
+    "thickness_ft",
+    "lithology",
+    "grain",
+    "grain_base",
+    "grain_top",
+    "base_contact",
+    "base_relief_m",
+    "structures",
+    "paleosol",
+    "paleosol_features",
+    "carbonate_stage",
+    "paleocurrents",
+    "surface",
+    "surface_kind",
+    "colour",
+    "fossils",
+    "samples",
+    "notes",
+];
+
+/// A bed table read successfully.
+#[derive(Debug, Clone)]
+pub struct BedTableRead {
+    pub section: Section,
+    /// Warnings (unknown columns), with line 1.
+    pub warnings: Vec<Problem>,
+}
+
+/// Characters that make a spreadsheet treat a cell as a formula (OWASP CSV injection guidance).
+const FORMULA_STARTS: [char; 6] = ['=', '+', '-', '@', '\t', '\r'];
+
+/// Escape a text cell that a spreadsheet would run as a formula.
+pub fn escape_formula(text: &str) -> String {
+    if text.starts_with(FORMULA_STARTS) {
+        format!("'{text}")
+    } else {
+        text.to_string()
+    }
+}
+
+/// Undo [`escape_formula`]: drop a `'` that precedes a formula character.
+pub fn unescape_formula(text: &str) -> &str {
+    match text.strip_prefix('\'') {
+        Some(rest) if rest.starts_with(FORMULA_STARTS) => rest,
+        _ => text,
+    }
+}
+
+/// Where each column sits in a row.
+struct Columns {
+    index: HashMap<&'static str, usize>,
+    thickness: (&'static str, LengthUnit),
+}
+
+impl Columns {
+    fn cell<'r>(&self, record: &'r csv::StringRecord, name: &str) -> Option<&'r str> {
+        self.index.get(name).and_then(|&i| record.get(i)).map(|c| unescape_formula(c.trim()))
+    }
+}
+
+fn map_header(header: &csv::StringRecord) -> Result<(Columns, Vec<Problem>), Vec<Problem>> {
+    let mut problems = Vec::new();
+    let mut warnings = Vec::new();
+    let mut index: HashMap<&'static str, usize> = HashMap::new();
+    for (i, raw) in header.iter().enumerate() {
+        let name = normalise_term(raw.trim_start_matches('\u{feff}'));
+        let name = if name == "color" { "colour".to_string() } else { name };
+        match KNOWN_COLUMNS.iter().find(|k| **k == name) {
+            Some(known) => {
+                if index.insert(known, i).is_some() {
+                    problems.push(
+                        Problem::new(format!("column {known}"), "appears twice in the header; keep one")
+                            .at_line(1),
+                    );
+                }
+            }
+            None if name.is_empty() => warnings.push(
+                Problem::new(format!("column {}", i + 1), "has no name in the header; its cells are ignored")
+                    .at_line(1),
+            ),
+            None => warnings.push(
+                Problem::new(
+                    format!("column {raw:?}"),
+                    format!("unknown column, ignored (known columns: {})", KNOWN_COLUMNS.join(", ")),
+                )
+                .at_line(1),
+            ),
+        }
+    }
+    let present: Vec<(&'static str, LengthUnit)> =
+        THICKNESS_COLUMNS.iter().copied().filter(|(n, _)| index.contains_key(n)).collect();
+    let thickness = match present.as_slice() {
+        [one] => Some(*one),
+        [] => {
+            problems.push(
+                Problem::new(
+                    "column thickness_m",
+                    "a thickness column is required: exactly one of thickness_m, thickness_cm, thickness_ft",
+                )
+                .at_line(1),
+            );
+            None
+        }
+        many => {
+            let names: Vec<&str> = many.iter().map(|(n, _)| *n).collect();
+            problems.push(
+                Problem::new(
+                    format!("column {}", names.join(", ")),
+                    "more than one thickness column; keep exactly one of thickness_m, thickness_cm, thickness_ft",
+                )
+                .at_line(1),
+            );
+            None
+        }
+    };
+    if !index.contains_key("lithology") {
+        problems.push(
+            Problem::new(
+                "column lithology",
+                format!(
+                    "the lithology column is required (values: {})",
+                    Lithology::ALL.map(|l| l.name()).join(", ")
+                ),
+            )
+            .at_line(1),
+        );
+    }
+    if index.contains_key("grain") && (index.contains_key("grain_base") || index.contains_key("grain_top")) {
+        problems.push(
+            Problem::new("column grain", "use either grain, or grain_base and grain_top, not both")
+                .at_line(1),
+        );
+    }
+    match thickness {
+        Some(thickness) if problems.is_empty() => Ok((Columns { index, thickness }, warnings)),
+        _ => Err(problems),
+    }
+}
+
+/// Collects one row's problems.
+struct Row<'a> {
+    line: usize,
+    problems: &'a mut Vec<Problem>,
+}
+
+impl Row<'_> {
+    fn bad(&mut self, column: &str, message: String) {
+        self.problems.push(Problem::new(format!("column {column}"), message).at_line(self.line));
+    }
+
+    fn number(&mut self, column: &str, cell: &str, what: &str) -> Option<f64> {
+        match cell.parse::<f64>() {
+            Ok(v) if v.is_finite() => Some(v),
+            _ => {
+                self.bad(column, format!("{cell:?} is not a number; expected {what}"));
+                None
+            }
+        }
+    }
+
+    fn grain(&mut self, column: &str, cell: Option<&str>) -> Option<GrainSize> {
+        let cell = cell.filter(|c| !c.is_empty())?;
+        match GrainSize::parse(cell) {
+            Ok(g) => Some(g),
+            Err(e) => {
+                self.bad(column, e);
+                None
+            }
+        }
+    }
+
+    fn list<T>(
+        &mut self,
+        column: &str,
+        cell: Option<&str>,
+        parse: impl Fn(&str) -> Option<T>,
+        valid: &str,
+    ) -> Vec<T> {
+        let mut out = Vec::new();
+        for item in cell.unwrap_or("").split(';').map(str::trim).filter(|s| !s.is_empty()) {
+            match parse(item) {
+                Some(v) => out.push(v),
+                None => self.bad(column, format!("{item:?} is not known; valid values are {valid}")),
+            }
+        }
+        out
+    }
+}
+
+fn parse_stage(text: &str) -> Option<u8> {
+    let roman = ["I", "II", "III", "IV", "V", "VI"];
+    if let Some(i) = roman.iter().position(|r| r.eq_ignore_ascii_case(text)) {
+        return Some(i as u8 + 1);
+    }
+    text.parse::<u8>().ok().filter(|s| (1..=6).contains(s))
+}
+
+/// Read a bed-table CSV. `section_name` names the section (callers pass the file stem).
+/// Every bad cell is reported with its line (header = line 1), column, value and what is valid.
+pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Vec<Problem>> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    let mut reader = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(text.as_bytes());
+    let mut records = reader.records();
+    let header = match records.next() {
+        Some(Ok(h)) => h,
+        Some(Err(e)) => return Err(vec![Problem::new("header", format!("unreadable CSV: {e}")).at_line(1)]),
+        None => {
+            return Err(vec![Problem::new(
+                "",
+                "the file is empty; a bed table needs a header row (e.g. thickness_m,lithology,grain) and one row per bed",
+            )
+            .at_line(1)])
+        }
+    };
+    let (columns, warnings) = map_header(&header)?;
+    let mut problems = Vec::new();
+    let mut section = Section::new(section_name);
+    section.display_unit = columns.thickness.1;
+    let mut lines: Vec<usize> = Vec::new();
+    let mut surface_kinds: Vec<Option<SurfaceKind>> = Vec::new();
+    for record in records {
+        let record = match record {
+            Ok(r) => r,
+            Err(e) => {
+                let line = e.position().map(|p| p.line() as usize).unwrap_or(0);
+                problems.push(Problem::new("", format!("unreadable CSV row: {e}")).at_line(line));
+                break;
+            }
+        };
+        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        if record.iter().all(|c| c.trim().is_empty()) {
+            continue;
+        }
+        if section.beds.len() >= MAX_BEDS_PER_SECTION {
+            problems.push(
+                Problem::new("", format!("more than {MAX_BEDS_PER_SECTION} bed rows; at most {MAX_BEDS_PER_SECTION} per section"))
+                    .at_line(line),
+            );
+            break;
+        }
+        let before = problems.len();
+        let mut row = Row { line, problems: &mut problems };
+        if record.len() > header.len() && record.iter().skip(header.len()).any(|c| !c.trim().is_empty()) {
+            row.bad(
+                &format!("{}", header.len() + 1),
+                format!("the row has {} cells but the header names {} columns", record.len(), header.len()),
+            );
+        }
+        for (i, cell) in record.iter().enumerate() {
+            if cell.chars().count() > MAX_STRING_CHARS {
+                let name = header.get(i).unwrap_or("?").to_string();
+                row.bad(&name, format!("text of more than {MAX_STRING_CHARS} characters"));
+            }
+        }
+        let (tcol, unit) = columns.thickness;
+        let thickness_m = match columns.cell(&record, tcol).unwrap_or("") {
+            "" => {
+                row.bad(tcol, format!("required: a thickness in {} > 0", unit.name()));
+                None
+            }
+            cell => row.number(tcol, cell, &format!("a thickness in {} > 0", unit.name())).and_then(|v| {
+                if v > 0.0 {
+                    Some(unit.to_metres(v))
+                } else {
+                    row.bad(tcol, format!("must be > 0, got {cell}"));
+                    None
+                }
+            }),
+        };
+        let lithology = match columns.cell(&record, "lithology").unwrap_or("") {
+            "" => {
+                row.bad(
+                    "lithology",
+                    format!("required; valid values are {}", Lithology::ALL.map(|l| l.name()).join(", ")),
+                );
+                None
+            }
+            cell => Lithology::parse(cell).or_else(|| {
+                row.bad(
+                    "lithology",
+                    format!(
+                        "{cell:?} is not known; valid values are {}",
+                        Lithology::ALL.map(|l| l.name()).join(", ")
+                    ),
+                );
+                None
+            }),
+        };
+        let (mut grain_base, mut grain_top) = if columns.index.contains_key("grain") {
+            let g = row.grain("grain", columns.cell(&record, "grain"));
+            (g, g)
+        } else {
+            (
+                row.grain("grain_base", columns.cell(&record, "grain_base")),
+                row.grain("grain_top", columns.cell(&record, "grain_top")),
+            )
+        };
+        if grain_base.is_none() {
+            grain_base = grain_top;
+        }
+        if grain_top.is_none() {
+            grain_top = grain_base;
+        }
+        let base_contact = match columns.cell(&record, "base_contact").unwrap_or("") {
+            "" => Contact::Sharp,
+            cell => Contact::parse(cell).unwrap_or_else(|| {
+                row.bad(
+                    "base_contact",
+                    format!("{cell:?} is not known; valid values are {}", Contact::valid_list()),
+                );
+                Contact::Sharp
+            }),
+        };
+        let base_relief_m = match columns.cell(&record, "base_relief_m").unwrap_or("") {
+            "" => None,
+            cell => row.number("base_relief_m", cell, "a relief in m ≥ 0").and_then(|v| {
+                if v >= 0.0 {
+                    Some(v)
+                } else {
+                    row.bad("base_relief_m", format!("must be ≥ 0, got {cell}"));
+                    None
+                }
+            }),
+        };
+        let structures = row.list(
+            "structures",
+            columns.cell(&record, "structures"),
+            Structure::parse,
+            &Structure::valid_list(),
+        );
+        let paleosol = match columns.cell(&record, "paleosol").unwrap_or("") {
+            "" => PaleosolDevelopment::None,
+            cell => PaleosolDevelopment::parse(cell).unwrap_or_else(|| {
+                row.bad(
+                    "paleosol",
+                    format!("{cell:?} is not known; valid values are {}", PaleosolDevelopment::valid_list()),
+                );
+                PaleosolDevelopment::None
+            }),
+        };
+        let paleosol_features = row.list(
+            "paleosol_features",
+            columns.cell(&record, "paleosol_features"),
+            PaleosolFeature::parse,
+            &PaleosolFeature::valid_list(),
+        );
+        let carbonate_stage = match columns.cell(&record, "carbonate_stage").unwrap_or("") {
+            "" => None,
+            cell => parse_stage(cell).or_else(|| {
+                row.bad("carbonate_stage", format!("{cell:?} is not a carbonate stage; use 1–6 or I–VI"));
+                None
+            }),
+        };
+        let mut paleocurrents_deg = Vec::new();
+        for item in columns.cell(&record, "paleocurrents").unwrap_or("").split(';').map(str::trim) {
+            if item.is_empty() {
+                continue;
+            }
+            if let Some(a) = row.number("paleocurrents", item, "azimuths in degrees 0–360 separated by ;") {
+                if (0.0..=360.0).contains(&a) {
+                    paleocurrents_deg.push(a);
+                } else {
+                    row.bad("paleocurrents", format!("azimuth {item} is outside 0–360 degrees"));
+                }
+            }
+        }
+        let surface_name = columns.cell(&record, "surface").unwrap_or("").to_string();
+        let surface_kind = match columns.cell(&record, "surface_kind").unwrap_or("") {
+            "" => None,
+            cell => match SurfaceKind::parse(cell) {
+                Some(k) if !surface_name.is_empty() => Some(k),
+                Some(_) => {
+                    row.bad("surface_kind", "given without a surface name in the surface column".to_string());
+                    None
+                }
+                None => {
+                    row.bad(
+                        "surface_kind",
+                        format!("{cell:?} is not known; valid values are {}", SurfaceKind::valid_list()),
+                    );
+                    None
+                }
+            },
+        };
+        let text = |name: &str| columns.cell(&record, name).unwrap_or("").to_string();
+        let samples: Vec<String> = text("samples")
+            .split(';')
+            .map(|s| unescape_formula(s.trim()).to_string())
+            .filter(|s| !s.is_empty())
+            .collect();
+        let (Some(thickness_m), Some(lithology)) = (thickness_m, lithology) else { continue };
+        if problems.len() > before {
+            continue;
+        }
+        let id = BedId(section.beds.len() as u64 + 1);
+        let mut bed = Bed::new(id, thickness_m, lithology, None);
+        bed.grain_base = grain_base;
+        bed.grain_top = grain_top;
+        bed.structures = structures;
+        bed.base_contact = base_contact;
+        bed.base_relief_m = base_relief_m;
+        bed.paleosol = paleosol;
+        bed.paleosol_features = paleosol_features;
+        bed.carbonate_stage = carbonate_stage;
+        bed.paleocurrents_deg = paleocurrents_deg;
+        if !surface_name.is_empty() {
+            bed.base_surface = Some(Surface { name: surface_name, kind: SurfaceKind::Other });
+        }
+        bed.colour = text("colour");
+        bed.fossils = text("fossils");
+        bed.samples = samples;
+        bed.notes = text("notes");
+        section.beds.push(bed);
+        lines.push(line);
+        surface_kinds.push(surface_kind);
+    }
+    if problems.is_empty() && section.beds.is_empty() {
+        problems.push(
+            Problem::new("", "no bed rows after the header; add one row per bed, lowest first").at_line(2),
+        );
+    }
+    let mut below: Option<PaleosolDevelopment> = None;
+    for (bed, kind) in section.beds.iter_mut().zip(&surface_kinds) {
+        let contact = bed.base_contact;
+        if let Some(surface) = bed.base_surface.as_mut() {
+            surface.kind = kind.unwrap_or_else(|| infer_surface_kind(contact, below));
+        }
+        below = Some(bed.paleosol);
+    }
+    // Rules that need the whole bed (grain required for clastics, forbidden when covered …),
+    // checked on the rows that parsed, so one pass reports every problem.
+    problems.extend(
+        validate_section(&section)
+            .into_iter()
+            .map(|p| csv_location(p, &lines, columns.thickness.0, columns.index.contains_key("grain"))),
+    );
+    problems.sort_by_key(|p| p.line);
+    // A single `grain` column stands for base and top: one problem, not two.
+    problems.dedup();
+    if problems.is_empty() {
+        Ok(BedTableRead { section, warnings })
+    } else {
+        Err(problems)
+    }
+}
+
+/// Turn a section-relative problem (`beds[3].grain_base`) into a CSV one (line, column).
+fn csv_location(p: Problem, lines: &[usize], thickness_column: &str, single_grain: bool) -> Problem {
+    let Some(rest) = p.location.strip_prefix("beds[") else { return p };
+    let Some((index, field)) = rest.split_once("].") else { return p };
+    let Ok(i) = index.parse::<usize>() else { return p };
+    let field = field.split(['[', '.']).next().unwrap_or(field);
+    let column = match field {
+        "thickness_m" => thickness_column,
+        "grain_base" | "grain_top" if single_grain => "grain",
+        "paleocurrents_deg" => "paleocurrents",
+        "base_surface" => "surface",
+        other => other,
+    };
+    let mut out = Problem::new(format!("column {column}"), p.message);
+    out.line = lines.get(i).copied();
+    out
+}
+
+/// Quote a CSV cell when needed (RFC 4180: comma, quote, line break; and edge spaces).
+fn quote(cell: &str) -> String {
+    if cell.contains([',', '"', '\n', '\r']) || cell.starts_with(' ') || cell.ends_with(' ') {
+        format!("\"{}\"", cell.replace('"', "\"\""))
+    } else {
+        cell.to_string()
+    }
+}
+
+/// Write a section's beds as a bed-table CSV that [`read_bed_table`] reads back to the same
+/// beds (ids are renumbered from 1). Thickness is written in the section's display unit.
+pub fn write_bed_table(section: &Section) -> String {
+    let (tcol, unit) = THICKNESS_COLUMNS
+        .iter()
+        .copied()
+        .find(|(_, u)| *u == section.display_unit)
+        .unwrap_or(THICKNESS_COLUMNS[0]);
+    let header = [
+        tcol,
+        "lithology",
+        "grain_base",
+        "grain_top",
+        "base_contact",
+        "base_relief_m",
+        "structures",
+        "paleosol",
+        "paleosol_features",
+        "carbonate_stage",
+        "paleocurrents",
+        "surface",
+        "surface_kind",
+        "colour",
+        "fossils",
+        "samples",
+        "notes",
+    ];
+    let mut out = header.join(",");
+    out.push('\n');
+    let join = |items: Vec<String>| items.join(";");
+    for bed in &section.beds {
+        let grain = |g: Option<GrainSize>| g.map(|g| escape_formula(&g.to_string())).unwrap_or_default();
+        let cells: [String; 17] = [
+            format!("{}", unit.from_metres(bed.thickness_m)),
+            bed.lithology.name().to_string(),
+            grain(bed.grain_base),
+            grain(bed.grain_top),
+            bed.base_contact.name().to_string(),
+            bed.base_relief_m.map(|r| format!("{r}")).unwrap_or_default(),
+            join(bed.structures.iter().map(|s| s.name().to_string()).collect()),
+            bed.paleosol.name().to_string(),
+            join(bed.paleosol_features.iter().map(|s| s.name().to_string()).collect()),
+            bed.carbonate_stage.map(|s| s.to_string()).unwrap_or_default(),
+            join(bed.paleocurrents_deg.iter().map(|a| format!("{a}")).collect()),
+            bed.base_surface.as_ref().map(|s| escape_formula(&s.name)).unwrap_or_default(),
+            bed.base_surface.as_ref().map(|s| s.kind.name().to_string()).unwrap_or_default(),
+            escape_formula(&bed.colour),
+            escape_formula(&bed.fossils),
+            join(bed.samples.iter().map(|s| escape_formula(s)).collect()),
+            escape_formula(&bed.notes),
+        ];
+        out.push_str(&cells.iter().map(|c| quote(c)).collect::<Vec<_>>().join(","));
+        out.push('\n');
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::model::WentworthClass;
+
+    const TABLE: &str = "\
+Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,paleocurrents,surface,notes,weather
+3,mudstone,silt,clay,,,moderate,,,,sunny
+10,sandstone,coarse sand,fine_sand,erosional,trough cross-bedding; lateral accretion,,120;135,SB-1,\"fines up, 2 storeys\",
+2,covered,,,,,,,,'=1+1,
+";
+
+    #[test]
+    fn reads_a_table_in_feet_with_an_unknown_column() {
+        let read = read_bed_table(TABLE, "Pell Butte").expect("valid table");
+        let s = &read.section;
+        assert_eq!(s.beds.len(), 3);
+        assert_eq!(s.display_unit, LengthUnit::Foot);
+        // 1 ft = 0.3048 m exactly (1959 international yard and pound agreement).
+        assert_eq!(s.beds[1].thickness_m, 10.0 * 0.3048);
+        assert_eq!(s.beds[1].grain_top, Some(GrainSize::Class(WentworthClass::FineSand)));
+        assert_eq!(s.beds[1].paleocurrents_deg, vec![120.0, 135.0]);
+        assert_eq!(s.beds[1].structures, vec![Structure::TroughCrossBedding, Structure::LateralAccretion]);
+        assert_eq!(s.beds[1].base_surface.as_ref().map(|x| x.kind), Some(SurfaceKind::Incision));
+        assert_eq!(s.beds[1].notes, "fines up, 2 storeys");
+        assert_eq!(s.beds[2].notes, "=1+1");
+        assert_eq!(read.warnings.len(), 1);
+        assert!(read.warnings[0].to_string().contains("weather"), "{}", read.warnings[0]);
+    }
+
+    #[test]
+    fn written_table_reads_back_and_escapes_formulas() {
+        let read = read_bed_table(TABLE, "Pell Butte").expect("valid table");
+        let text = write_bed_table(&read.section);
+        assert!(text.contains(",'=1+1\n"), "{text}");
+        let again = read_bed_table(&text, "Pell Butte").expect("reads back");
+        assert_eq!(again.section.beds.len(), 3);
+        for (a, b) in read.section.beds.iter().zip(&again.section.beds) {
+            assert!((a.thickness_m - b.thickness_m).abs() < 1e-12);
+            let mut b = b.clone();
+            b.thickness_m = a.thickness_m;
+            assert_eq!(a, &b);
+        }
+        assert!(again.warnings.is_empty());
+    }
+
+    #[test]
+    fn reports_lines_and_columns() {
+        let text = "thickness_m,lithology,grain\n1,sandstone,fine sand\n-1,sandston,gravelish\n2,mudstone,\n";
+        let problems = read_bed_table(text, "x").expect_err("refused");
+        let got: Vec<(Option<usize>, &str)> =
+            problems.iter().map(|p| (p.line, p.location.as_str())).collect();
+        assert_eq!(
+            got,
+            [
+                (Some(3), "column thickness_m"),
+                (Some(3), "column lithology"),
+                (Some(3), "column grain"),
+                (Some(4), "column grain"),
+            ]
+        );
+    }
+}

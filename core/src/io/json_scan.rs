@@ -1,0 +1,262 @@
+//! A light pass over JSON text that needs no parse tree: it enforces the nesting, array-length
+//! and string-length limits before a parser allocates anything, and finds the line on which a
+//! JSON path's value starts (for error messages).
+
+use super::limits::{MAX_ARRAY_ITEMS, MAX_JSON_DEPTH, MAX_STRING_CHARS};
+use super::problem::Problem;
+use std::collections::{HashMap, HashSet};
+
+/// One open container while scanning.
+struct Frame {
+    is_array: bool,
+    /// Items seen so far (arrays).
+    count: usize,
+    /// The key whose value comes next, or came last (objects).
+    key: String,
+    awaiting_key: bool,
+}
+
+/// What the scan visits: each value's path (when asked for) and line.
+struct Scanner<'a> {
+    bytes: &'a [u8],
+    pos: usize,
+    line: usize,
+    stack: Vec<Frame>,
+}
+
+impl<'a> Scanner<'a> {
+    fn new(text: &'a str) -> Self {
+        Scanner { bytes: text.as_bytes(), pos: 0, line: 1, stack: Vec::new() }
+    }
+
+    /// The path of the container stack, e.g. `sections[0].beds[3].thickness_m`.
+    fn path(&self) -> String {
+        let mut out = String::new();
+        for frame in &self.stack {
+            if frame.is_array {
+                out.push_str(&format!("[{}]", frame.count.saturating_sub(1)));
+            } else {
+                if !out.is_empty() {
+                    out.push('.');
+                }
+                out.push_str(&frame.key);
+            }
+        }
+        out
+    }
+
+    /// Note the start of a value; errors when an array grows past its limit.
+    fn value_start(&mut self) -> Result<(), Problem> {
+        if let Some(top) = self.stack.last_mut() {
+            if top.is_array {
+                top.count += 1;
+                if top.count > MAX_ARRAY_ITEMS {
+                    let path = {
+                        let mut p = self.path();
+                        // Name the array, not the item past the limit.
+                        if let Some(i) = p.rfind('[') {
+                            p.truncate(i);
+                        }
+                        p
+                    };
+                    return Err(Problem::new(
+                        path,
+                        format!(
+                            "more than {MAX_ARRAY_ITEMS} items; this build reads at most {MAX_ARRAY_ITEMS}"
+                        ),
+                    )
+                    .at_line(self.line));
+                }
+            }
+        }
+        Ok(())
+    }
+
+    /// Walk the whole text, calling `visit(path_fn, line)` at the start of each value. Stops
+    /// quietly at malformed input (the JSON parser reports that) and with an error at a limit.
+    fn run(&mut self, mut visit: impl FnMut(&Self, usize)) -> Result<(), Problem> {
+        while self.pos < self.bytes.len() {
+            let b = self.bytes[self.pos];
+            match b {
+                b'\n' => {
+                    self.line += 1;
+                    self.pos += 1;
+                }
+                b' ' | b'\t' | b'\r' => self.pos += 1,
+                b'{' | b'[' => {
+                    self.value_start()?;
+                    visit(self, self.line);
+                    if self.stack.len() >= MAX_JSON_DEPTH {
+                        return Err(Problem::new(
+                            self.path(),
+                            format!("nested more than {MAX_JSON_DEPTH} levels deep; a project nests 6"),
+                        )
+                        .at_line(self.line));
+                    }
+                    self.stack.push(Frame {
+                        is_array: b == b'[',
+                        count: 0,
+                        key: String::new(),
+                        awaiting_key: b == b'{',
+                    });
+                    self.pos += 1;
+                }
+                b'}' | b']' => {
+                    self.stack.pop();
+                    self.pos += 1;
+                }
+                b',' => {
+                    if let Some(top) = self.stack.last_mut() {
+                        if !top.is_array {
+                            top.awaiting_key = true;
+                        }
+                    }
+                    self.pos += 1;
+                }
+                b':' => {
+                    if let Some(top) = self.stack.last_mut() {
+                        top.awaiting_key = false;
+                    }
+                    self.pos += 1;
+                }
+                b'"' => {
+                    let start_line = self.line;
+                    let start = self.pos + 1;
+                    let mut i = start;
+                    let mut chars = 0usize;
+                    while i < self.bytes.len() && self.bytes[i] != b'"' {
+                        match self.bytes[i] {
+                            b'\\' => i += 2,
+                            b'\n' => {
+                                self.line += 1;
+                                i += 1
+                            }
+                            _ => i += 1,
+                        }
+                        chars += 1;
+                    }
+                    let end = i.min(self.bytes.len());
+                    self.pos = end + 1;
+                    let is_key = self.stack.last().is_some_and(|f| !f.is_array && f.awaiting_key);
+                    if is_key {
+                        let key = String::from_utf8_lossy(&self.bytes[start..end]).into_owned();
+                        if let Some(top) = self.stack.last_mut() {
+                            top.key = key;
+                        }
+                    } else {
+                        self.value_start()?;
+                        visit(self, start_line);
+                        if chars > MAX_STRING_CHARS {
+                            return Err(Problem::new(
+                                self.path(),
+                                format!("text of {chars} characters; at most {MAX_STRING_CHARS} allowed"),
+                            )
+                            .at_line(start_line));
+                        }
+                    }
+                }
+                _ => {
+                    // Number or literal: runs to the next delimiter.
+                    self.value_start()?;
+                    visit(self, self.line);
+                    while self.pos < self.bytes.len()
+                        && !matches!(
+                            self.bytes[self.pos],
+                            b',' | b']' | b'}' | b' ' | b'\n' | b'\r' | b'\t' | b'"'
+                        )
+                    {
+                        self.pos += 1;
+                    }
+                    if self.pos < self.bytes.len() && self.bytes[self.pos] == b'"' {
+                        // Malformed; leave it to the parser.
+                        return Ok(());
+                    }
+                }
+            }
+        }
+        Ok(())
+    }
+}
+
+/// Enforce [`MAX_JSON_DEPTH`], [`MAX_ARRAY_ITEMS`] and [`MAX_STRING_CHARS`] without building a tree.
+pub fn check_limits(text: &str) -> Result<(), Problem> {
+    Scanner::new(text).run(|_, _| {})
+}
+
+/// The line each wanted path's value starts on. A path absent from the text falls back to its
+/// nearest ancestor that is present (a bed's line when its field is missing).
+pub fn lines_of(text: &str, wanted: &[&str]) -> HashMap<String, usize> {
+    // Every ancestor of a wanted path is wanted too, for the fallback.
+    let mut want: HashSet<String> = HashSet::new();
+    for w in wanted {
+        let mut p = w.to_string();
+        loop {
+            want.insert(p.clone());
+            match p.rfind(['.', '[']) {
+                Some(i) => p.truncate(i),
+                None => break,
+            }
+        }
+    }
+    let mut found: HashMap<String, usize> = HashMap::new();
+    let mut scanner = Scanner::new(text);
+    // Limits were checked before; a limit error here only ends the search early.
+    let _ = scanner.run(|s, line| {
+        let p = s.path();
+        if want.contains(&p) {
+            found.entry(p).or_insert(line);
+        }
+    });
+    let mut out = HashMap::new();
+    for w in wanted {
+        let mut p = w.to_string();
+        loop {
+            if let Some(line) = found.get(&p) {
+                out.insert(w.to_string(), *line);
+                break;
+            }
+            match p.rfind(['.', '[']) {
+                Some(i) => p.truncate(i),
+                None => break,
+            }
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const TEXT: &str = "{\n  \"sections\": [\n    {\n      \"name\": \"A\",\n      \"beds\": [\n        {\"thickness_m\": 1.0},\n        {\n          \"thickness_m\": -2\n        }\n      ]\n    }\n  ]\n}\n";
+
+    #[test]
+    fn finds_lines_of_paths_and_falls_back_to_ancestors() {
+        let lines = lines_of(
+            TEXT,
+            &["sections[0].name", "sections[0].beds[1].thickness_m", "sections[0].beds[0].lithology"],
+        );
+        assert_eq!(lines.get("sections[0].name"), Some(&4));
+        assert_eq!(lines.get("sections[0].beds[1].thickness_m"), Some(&8));
+        // Missing field: the bed's own line.
+        assert_eq!(lines.get("sections[0].beds[0].lithology"), Some(&6));
+    }
+
+    #[test]
+    fn refuses_deep_nesting_and_long_arrays() {
+        let deep = "[".repeat(MAX_JSON_DEPTH + 5);
+        let err = check_limits(&deep).expect_err("deep nesting must be refused");
+        assert!(err.message.contains("nested"), "{err}");
+        let long = format!("{{\"a\": [{}0]}}", "0,".repeat(MAX_ARRAY_ITEMS));
+        let err = check_limits(&long).expect_err("long array must be refused");
+        assert_eq!(err.location, "a");
+        assert!(check_limits(TEXT).is_ok());
+    }
+
+    #[test]
+    fn refuses_long_strings() {
+        let text = format!("{{\"notes\": \"{}\"}}", "x".repeat(MAX_STRING_CHARS + 1));
+        let err = check_limits(&text).expect_err("long text must be refused");
+        assert_eq!(err.location, "notes");
+    }
+}

@@ -1,0 +1,187 @@
+//! The project file (`.aggrade`): versioned JSON, read with every problem reported by path and
+//! line, migrated from older versions, and written as pretty, deterministic JSON.
+
+use super::json_scan;
+use super::migrate;
+use super::problem::Problem;
+use super::project_reader::read_project;
+use super::validate::validate_project;
+use crate::model::Project;
+use serde_json::Value;
+
+/// A project read from text, with warnings; or every problem found.
+#[derive(Debug, Clone)]
+pub struct ProjectRead {
+    pub project: Project,
+    /// Warnings (unknown fields, migration notes), with lines where known.
+    pub warnings: Vec<Problem>,
+}
+
+/// Read project JSON text: limits, syntax, version and migration, fields, then validation.
+/// Every problem carries the line its value starts on, where it can be found.
+pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
+    json_scan::check_limits(text).map_err(|p| vec![p])?;
+    let mut root: Value = serde_json::from_str(text).map_err(|e| {
+        let what = match e.classify() {
+            serde_json::error::Category::Eof => "the file ends too soon (truncated?)",
+            serde_json::error::Category::Syntax => "not valid JSON",
+            _ => "not readable JSON",
+        };
+        // serde_json's message ends with "at line L column C"; we give the line ourselves.
+        let msg = e.to_string();
+        let msg = msg.split(" at line ").next().unwrap_or(&msg).to_string();
+        vec![Problem::new("", format!("{what}: {msg} (column {})", e.column())).at_line(e.line())]
+    })?;
+    let mut warnings = Vec::new();
+    let version = match root.get("format_version") {
+        None => 0,
+        Some(v) => match v.as_u64() {
+            Some(n) if n <= u64::from(Project::CURRENT_VERSION) => n as u32,
+            Some(n) => {
+                return Err(with_lines(
+                    text,
+                    vec![Problem::new(
+                        "format_version",
+                        format!(
+                            "{n} is newer than this build reads (0–{}); update Aggrade to open it",
+                            Project::CURRENT_VERSION
+                        ),
+                    )],
+                    false,
+                ))
+            }
+            None => {
+                return Err(with_lines(
+                    text,
+                    vec![Problem::new(
+                        "format_version",
+                        format!("must be a whole number 0–{}, got {v}", Project::CURRENT_VERSION),
+                    )],
+                    false,
+                ))
+            }
+        },
+    };
+    let migrated = version < Project::CURRENT_VERSION;
+    let mut problems = Vec::new();
+    if version == 0 {
+        problems.extend(migrate::v0_to_v1(&mut root));
+        warnings.push(Problem::new(
+            "format_version",
+            format!("read a version 0 file; saving writes version {}", Project::CURRENT_VERSION),
+        ));
+    }
+    let (project, read_problems, read_warnings) = read_project(&root);
+    problems.extend(read_problems);
+    warnings.extend(read_warnings);
+    if let Some(project) = &project {
+        problems.extend(validate_project(project));
+    }
+    match project {
+        Some(project) if problems.is_empty() => {
+            Ok(ProjectRead { project, warnings: with_lines(text, warnings, migrated) })
+        }
+        _ => Err(with_lines(text, problems, migrated)),
+    }
+}
+
+/// Attach line numbers to problems located by JSON path.
+fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Problem> {
+    let wanted: Vec<String> = problems
+        .iter()
+        .filter(|p| p.line.is_none() && !p.location.is_empty())
+        .flat_map(|p| {
+            let mut paths = vec![p.location.clone()];
+            if migrated {
+                if let Some(v0) = v0_path(&p.location) {
+                    paths.push(v0);
+                }
+            }
+            paths
+        })
+        .collect();
+    if wanted.is_empty() {
+        return problems;
+    }
+    let refs: Vec<&str> = wanted.iter().map(String::as_str).collect();
+    let lines = json_scan::lines_of(text, &refs);
+    for p in problems.iter_mut().filter(|p| p.line.is_none()) {
+        let v0 = if migrated { v0_path(&p.location) } else { None };
+        // Prefer the exact v0 field over the v1 path's nearest ancestor.
+        let exact = |path: &str| lines.get(path).copied();
+        p.line = v0.as_deref().and_then(exact).or_else(|| exact(&p.location));
+    }
+    problems
+}
+
+/// The v0 path of a v1 path whose last field was renamed (`…beds[3].thickness_m` → `…thickness`).
+fn v0_path(path: &str) -> Option<String> {
+    let (head, last) = match path.rfind('.') {
+        Some(i) => (&path[..=i], &path[i + 1..]),
+        None => ("", path),
+    };
+    // Strip an index on the last field (`paleocurrents_deg[2]`).
+    let (field, index) = match last.find('[') {
+        Some(i) => (&last[..i], &last[i..]),
+        None => (last, ""),
+    };
+    migrate::v0_field_name(field).map(|v0| format!("{head}{v0}{index}"))
+}
+
+/// The project as pretty JSON (two-space indent, fields in declaration order, newline at end):
+/// the same project always gives the same bytes.
+pub fn project_to_json(project: &Project) -> Result<String, serde_json::Error> {
+    let mut text = serde_json::to_string_pretty(project)?;
+    text.push('\n');
+    Ok(text)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn problems_carry_lines() {
+        let text = r#"{
+  "format_version": 1,
+  "sections": [
+    {
+      "name": "Halloway Bluff",
+      "beds": [
+        {"id": 1, "thickness_m": 1.5, "lithology": "sandstone", "grain_base": "fine sand", "grain_top": "fine sand"},
+        {"id": 2, "thickness_m": -1.2, "lithology": "mudstone", "grain_base": "silt", "grain_top": "silt"}
+      ]
+    }
+  ]
+}"#;
+        let problems = read_project_text(text).expect_err("negative thickness refused");
+        assert_eq!(problems.len(), 1);
+        assert_eq!(problems[0].line, Some(8));
+        assert_eq!(problems[0].location, "sections[0].beds[1].thickness_m");
+        assert!(problems[0].message.contains("-1.2"), "{}", problems[0]);
+    }
+
+    #[test]
+    fn truncated_json_names_the_line() {
+        let problems =
+            read_project_text("{\n \"format_version\": 1,\n \"sections\": [\n").expect_err("refused");
+        assert_eq!(problems.len(), 1);
+        assert!(problems[0].message.contains("ends too soon"), "{}", problems[0]);
+        assert!(problems[0].line.is_some());
+    }
+
+    #[test]
+    fn newer_versions_are_refused() {
+        let problems = read_project_text(r#"{"format_version": 7, "sections": []}"#).expect_err("refused");
+        assert!(problems[0].message.contains("newer"), "{}", problems[0]);
+    }
+
+    #[test]
+    fn v0_problem_lines_point_at_v0_fields() {
+        let text = "{\"sections\": [{\"name\": \"A\", \"beds\": [\n{\"lithology\": \"sandstone\",\n \"grain\": \"fine sand\",\n \"thickness\": -3}]}]}";
+        let problems = read_project_text(text).expect_err("refused");
+        assert_eq!(problems.len(), 1, "{problems:?}");
+        assert_eq!(problems[0].location, "sections[0].beds[0].thickness_m");
+        assert_eq!(problems[0].line, Some(4));
+    }
+}

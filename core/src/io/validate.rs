@@ -1,0 +1,311 @@
+//! Validation of sections and projects: every rule a loaded or edited section must satisfy, each
+//! broken rule reported as a [`Problem`] with its path and what would be valid.
+
+use super::limits::{MAX_BEDS_PER_SECTION, MAX_SECTIONS, MAX_STRING_CHARS};
+use super::problem::Problem;
+use crate::model::{GrainSize, GrainSizeRule, Project, Section};
+use std::collections::HashMap;
+
+/// Largest thickness (or erosional relief) accepted for one bed, metres. No single bed of a
+/// measured section approaches a kilometre; larger values are typing or unit mistakes.
+pub const MAX_BED_THICKNESS_M: f64 = 1_000.0;
+
+/// Largest panel position accepted, metres (|x| ≤ 10,000 km).
+pub const MAX_PANEL_POSITION_M: f64 = 1.0e7;
+
+/// Every problem in one section. Locations are relative to the section (`beds[3].thickness_m`).
+pub fn validate_section(section: &Section) -> Vec<Problem> {
+    let mut out = Vec::new();
+    if section.name.trim().is_empty() {
+        out.push(Problem::new("name", "must not be empty"));
+    }
+    for (field, text) in [
+        ("name", &section.name),
+        ("locality", &section.locality),
+        ("logged_by", &section.logged_by),
+        ("notes", &section.notes),
+    ] {
+        check_text(&mut out, field, text);
+    }
+    if let Some(c) = section.coordinates {
+        if !(c.lat_deg.is_finite() && (-90.0..=90.0).contains(&c.lat_deg)) {
+            out.push(Problem::new(
+                "coordinates.lat_deg",
+                format!("must lie between -90 and 90, got {}", c.lat_deg),
+            ));
+        }
+        if !(c.lon_deg.is_finite() && (-180.0..=180.0).contains(&c.lon_deg)) {
+            out.push(Problem::new(
+                "coordinates.lon_deg",
+                format!("must lie between -180 and 180, got {}", c.lon_deg),
+            ));
+        }
+    }
+    if let Some(date) = &section.date_logged {
+        if let Err(why) = check_iso_date(date) {
+            out.push(Problem::new(
+                "date_logged",
+                format!("{why}, got {date:?}; write YYYY-MM-DD, e.g. 2026-07-14"),
+            ));
+        }
+    }
+    if let Some(x) = section.panel_position_m {
+        if !(x.is_finite() && x.abs() <= MAX_PANEL_POSITION_M) {
+            out.push(Problem::new(
+                "panel_position_m",
+                format!("must be a finite number of metres within ±{MAX_PANEL_POSITION_M}, got {x}"),
+            ));
+        }
+    }
+    if section.beds.len() > MAX_BEDS_PER_SECTION {
+        out.push(Problem::new(
+            "beds",
+            format!("{} beds; at most {MAX_BEDS_PER_SECTION} per section", section.beds.len()),
+        ));
+        return out;
+    }
+    let mut first_with_id: HashMap<u64, usize> = HashMap::new();
+    for (i, bed) in section.beds.iter().enumerate() {
+        let at = |field: &str| format!("beds[{i}].{field}");
+        if let Some(first) = first_with_id.get(&bed.id.0) {
+            out.push(Problem::new(
+                at("id"),
+                format!("{} is also the id of beds[{first}]; bed ids must be unique", bed.id.0),
+            ));
+        } else {
+            first_with_id.insert(bed.id.0, i);
+        }
+        let t = bed.thickness_m;
+        if !(t.is_finite() && t > 0.0 && t <= MAX_BED_THICKNESS_M) {
+            out.push(Problem::new(
+                at("thickness_m"),
+                format!("must be > 0 and ≤ {MAX_BED_THICKNESS_M} m, got {t}"),
+            ));
+        }
+        let litho = bed.lithology;
+        for (field, grain) in [("grain_base", bed.grain_base), ("grain_top", bed.grain_top)] {
+            match (litho.grain_size_rule(), grain) {
+                (GrainSizeRule::Required, None) => out.push(Problem::new(
+                    at(field),
+                    format!(
+                        "required for {litho}: a Wentworth class (e.g. \"fine sand\") or a size such as 0.3mm or 1.7phi"
+                    ),
+                )),
+                (GrainSizeRule::Forbidden, Some(g)) => out.push(Problem::new(
+                    at(field),
+                    format!("must be empty for a {litho} interval (nothing exposed to size), got {g}"),
+                )),
+                (_, Some(GrainSize::Phi(p))) if !(p.is_finite() && (-12.0..=14.0).contains(&p)) => {
+                    out.push(Problem::new(at(field), format!("phi must lie between -12 and 14, got {p}")))
+                }
+                _ => {}
+            }
+        }
+        if let Some(r) = bed.base_relief_m {
+            if !(r.is_finite() && (0.0..=MAX_BED_THICKNESS_M).contains(&r)) {
+                out.push(Problem::new(
+                    at("base_relief_m"),
+                    format!("must be ≥ 0 and ≤ {MAX_BED_THICKNESS_M} m, got {r}"),
+                ));
+            }
+        }
+        for (k, a) in bed.paleocurrents_deg.iter().enumerate() {
+            if !(a.is_finite() && (0.0..=360.0).contains(a)) {
+                out.push(Problem::new(
+                    format!("beds[{i}].paleocurrents_deg[{k}]"),
+                    format!("an azimuth must lie between 0 and 360 degrees, got {a}"),
+                ));
+            }
+        }
+        if let Some(stage) = bed.carbonate_stage {
+            if !(1..=6).contains(&stage) {
+                out.push(Problem::new(
+                    at("carbonate_stage"),
+                    format!("must be a carbonate stage 1–6 (I–VI), got {stage}"),
+                ));
+            }
+        }
+        if let Some(surface) = &bed.base_surface {
+            if surface.name.trim().is_empty() {
+                out.push(Problem::new(at("base_surface.name"), "must not be empty"));
+            }
+            check_text(&mut out, &at("base_surface.name"), &surface.name);
+        }
+        for (field, text) in [("colour", &bed.colour), ("fossils", &bed.fossils), ("notes", &bed.notes)] {
+            check_text(&mut out, &at(field), text);
+        }
+        for (k, s) in bed.samples.iter().enumerate() {
+            check_text(&mut out, &format!("beds[{i}].samples[{k}]"), s);
+        }
+    }
+    let mut decided: HashMap<u64, usize> = HashMap::new();
+    for (k, d) in section.review.iter().enumerate() {
+        if section.bed_index(d.bed).is_none() {
+            out.push(Problem::new(
+                format!("review[{k}].bed"),
+                format!("refers to bed id {}, which is not in this section", d.bed.0),
+            ));
+        }
+        if let Some(first) = decided.get(&d.bed.0) {
+            out.push(Problem::new(
+                format!("review[{k}].bed"),
+                format!("bed id {} already has a decision in review[{first}]; keep one", d.bed.0),
+            ));
+        } else {
+            decided.insert(d.bed.0, k);
+        }
+        check_text(&mut out, &format!("review[{k}].note"), &d.note);
+    }
+    out
+}
+
+/// Every problem in a project, located from its root (`sections[2].beds[0].thickness_m`).
+pub fn validate_project(project: &Project) -> Vec<Problem> {
+    let mut out = Vec::new();
+    if project.format_version != Project::CURRENT_VERSION {
+        out.push(Problem::new(
+            "format_version",
+            format!("must be {} after reading, got {}", Project::CURRENT_VERSION, project.format_version),
+        ));
+    }
+    if project.sections.len() > MAX_SECTIONS {
+        out.push(Problem::new(
+            "sections",
+            format!("{} sections; at most {MAX_SECTIONS} per project", project.sections.len()),
+        ));
+        return out;
+    }
+    let mut names: HashMap<String, usize> = HashMap::new();
+    for (i, section) in project.sections.iter().enumerate() {
+        let prefix = format!("sections[{i}].");
+        out.extend(validate_section(section).into_iter().map(|p| p.prefixed(&prefix)));
+        let key = section.name.trim().to_lowercase();
+        if key.is_empty() {
+            continue;
+        }
+        if let Some(first) = names.get(&key) {
+            out.push(Problem::new(
+                format!("sections[{i}].name"),
+                format!(
+                    "{:?} is also the name of sections[{first}]; section names must be unique (ignoring case)",
+                    section.name
+                ),
+            ));
+        } else {
+            names.insert(key, i);
+        }
+    }
+    out
+}
+
+fn check_text(out: &mut Vec<Problem>, location: &str, text: &str) {
+    let n = text.chars().count();
+    if n > MAX_STRING_CHARS {
+        out.push(Problem::new(
+            location,
+            format!("text of {n} characters; at most {MAX_STRING_CHARS} allowed"),
+        ));
+    }
+}
+
+/// Check an ISO 8601 calendar date `YYYY-MM-DD` (proleptic Gregorian, years 1000–9999).
+pub fn check_iso_date(text: &str) -> Result<(), String> {
+    let parts: Vec<&str> = text.split('-').collect();
+    let digits = |s: &str, n: usize| s.len() == n && s.bytes().all(|b| b.is_ascii_digit());
+    if parts.len() != 3 || !digits(parts[0], 4) || !digits(parts[1], 2) || !digits(parts[2], 2) {
+        return Err("not a date in the form YYYY-MM-DD".to_string());
+    }
+    let (year, month, day): (u32, u32, u32) = match (parts[0].parse(), parts[1].parse(), parts[2].parse()) {
+        (Ok(y), Ok(m), Ok(d)) => (y, m, d),
+        _ => return Err("not a date in the form YYYY-MM-DD".to_string()),
+    };
+    if year < 1000 {
+        return Err("year must be 1000 or later".to_string());
+    }
+    if !(1..=12).contains(&month) {
+        return Err("month must be 01–12".to_string());
+    }
+    let leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
+    let days = match month {
+        2 if leap => 29,
+        2 => 28,
+        4 | 6 | 9 | 11 => 30,
+        _ => 31,
+    };
+    if !(1..=days).contains(&day) {
+        return Err(format!("day must be 01–{days} for that month"));
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::model::{Bed, BedId, Lithology, ReviewDecision, ReviewState, WentworthClass};
+
+    fn sand(id: u64, t: f64) -> Bed {
+        Bed::new(BedId(id), t, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)))
+    }
+
+    #[test]
+    fn a_valid_section_has_no_problems() {
+        let mut s = Section::new("Corrie Wash");
+        s.beds = vec![sand(1, 1.0), Bed::new(BedId(2), 0.5, Lithology::Covered, None)];
+        s.date_logged = Some("2024-02-29".into());
+        assert_eq!(validate_section(&s), vec![]);
+    }
+
+    #[test]
+    fn reports_every_problem_with_its_path() {
+        let mut s = Section::new("  ");
+        let mut b = sand(1, -1.2);
+        b.paleocurrents_deg = vec![10.0, 361.0];
+        b.carbonate_stage = Some(7);
+        b.base_relief_m = Some(-0.1);
+        let mut covered = Bed::new(BedId(1), 1.0, Lithology::Covered, None);
+        covered.grain_top = Some(GrainSize::Class(WentworthClass::Silt));
+        let mut mud = Bed::new(BedId(3), 1.0, Lithology::Mudstone, None);
+        mud.grain_top = Some(GrainSize::Phi(f64::NAN));
+        s.beds = vec![b, covered, mud];
+        s.review = vec![ReviewDecision { bed: BedId(9), state: ReviewState::Accepted, note: String::new() }];
+        s.date_logged = Some("2023-02-29".into());
+        let locations: Vec<String> = validate_section(&s).into_iter().map(|p| p.location).collect();
+        for expected in [
+            "name",
+            "date_logged",
+            "beds[0].thickness_m",
+            "beds[0].base_relief_m",
+            "beds[0].paleocurrents_deg[1]",
+            "beds[0].carbonate_stage",
+            "beds[1].id",
+            "beds[1].grain_top",
+            "beds[2].grain_base",
+            "beds[2].grain_top",
+            "review[0].bed",
+        ] {
+            assert!(locations.iter().any(|l| l == expected), "{expected} missing from {locations:?}");
+        }
+        assert_eq!(locations.len(), 11, "{locations:?}");
+    }
+
+    #[test]
+    fn iso_dates() {
+        // Gregorian leap-year rule (common practice): 2000 leap, 1900 not.
+        assert!(check_iso_date("2000-02-29").is_ok());
+        assert!(check_iso_date("1900-02-29").is_err());
+        assert!(check_iso_date("2026-13-01").is_err());
+        assert!(check_iso_date("2026-4-01").is_err());
+        assert!(check_iso_date("2026-04-31").is_err());
+    }
+
+    #[test]
+    fn duplicate_section_names_ignoring_case() {
+        let mut a = Section::new("Pell Butte");
+        a.beds = vec![sand(1, 1.0)];
+        let mut b = a.clone();
+        b.name = "pell butte".into();
+        let problems = validate_project(&Project::new(vec![a, b]));
+        assert_eq!(problems.len(), 1, "{problems:?}");
+        assert_eq!(problems[0].location, "sections[1].name");
+    }
+}

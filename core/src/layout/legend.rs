@@ -1,0 +1,224 @@
+//! The legend: only the patterns, lines and symbols a printout actually uses.
+
+use super::column::{boundary_style, draw_contact, paleosol_bar_mm, ColumnCtx};
+use super::items::{Item, PtMm, RectMm};
+use super::patterns::fill_bed;
+use super::style::*;
+use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
+use super::text::{fit_size, text};
+use crate::model::{Contact, Lithology, PaleosolDevelopment, ReviewState, Structure};
+use crate::rules::{Regime, Stacking};
+use serde::Serialize;
+
+/// One line of the legend.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+pub enum LegendEntry {
+    Lithology(Lithology),
+    Contact(Contact),
+    Structure(Structure),
+    PaleocurrentArrow,
+    PaleocurrentRose,
+    Paleosol(PaleosolDevelopment),
+    Storey,
+    Body(Stacking),
+    ProportionCurve,
+    IntervalProportion,
+    Regime(Regime),
+    Boundary(ReviewState),
+}
+
+/// Width of one legend column, mm.
+pub const LEGEND_COLUMN_MM: f64 = 50.0;
+/// Height of one legend row, mm.
+pub const LEGEND_ROW_MM: f64 = 5.0;
+
+impl LegendEntry {
+    /// Order in the legend: rock first, then lines and symbols, then interpretation.
+    pub fn sort_key(self) -> (u8, usize) {
+        match self {
+            LegendEntry::Lithology(l) => (0, l as usize),
+            LegendEntry::Contact(c) => (1, c as usize),
+            LegendEntry::Structure(s) => (2, s as usize),
+            LegendEntry::PaleocurrentArrow => (3, 0),
+            LegendEntry::PaleocurrentRose => (3, 1),
+            LegendEntry::Paleosol(d) => (4, d as usize),
+            LegendEntry::Storey => (5, 0),
+            LegendEntry::Body(b) => (6, b as usize),
+            LegendEntry::ProportionCurve => (7, 0),
+            LegendEntry::IntervalProportion => (7, 1),
+            LegendEntry::Regime(r) => (8, r as usize),
+            LegendEntry::Boundary(b) => (9, b as usize),
+        }
+    }
+
+    /// The words printed beside the swatch.
+    pub fn label(self) -> String {
+        match self {
+            LegendEntry::Lithology(Lithology::Covered) => "covered (no exposure)".into(),
+            LegendEntry::Lithology(l) => l.name().into(),
+            LegendEntry::Contact(c) => format!("{} contact", c.name()),
+            LegendEntry::Structure(s) => s.name().into(),
+            LegendEntry::PaleocurrentArrow => "paleocurrent (north up)".into(),
+            LegendEntry::PaleocurrentRose => "paleocurrent rose, 30\u{b0} sectors".into(),
+            LegendEntry::Paleosol(d) => format!("paleosol, {}", d.name()),
+            LegendEntry::Storey => "storey".into(),
+            LegendEntry::Body(Stacking::MultiStory) => "channel body, multi-story".into(),
+            LegendEntry::Body(Stacking::SingleStory) => "channel body, single-story".into(),
+            LegendEntry::ProportionCurve => "channel-body proportion (window)".into(),
+            LegendEntry::IntervalProportion => "proportion per interval".into(),
+            LegendEntry::Regime(Regime::Low) => "low accommodation".into(),
+            LegendEntry::Regime(Regime::High) => "high accommodation".into(),
+            LegendEntry::Regime(Regime::Undetermined) => "accommodation undetermined".into(),
+            LegendEntry::Boundary(ReviewState::Candidate) => "seq. boundary candidate, score".into(),
+            LegendEntry::Boundary(ReviewState::Accepted) => "seq. boundary, accepted".into(),
+            LegendEntry::Boundary(ReviewState::Rejected) => "candidate rejected".into(),
+        }
+    }
+}
+
+/// The entries a column uses, sorted and without repeats.
+pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
+    let mut v = Vec::new();
+    for (i, bed) in ctx.section.beds.iter().enumerate() {
+        if !(bed.thickness_m.is_finite() && bed.thickness_m > 0.0) {
+            continue;
+        }
+        v.push(LegendEntry::Lithology(bed.lithology));
+        if i > 0 {
+            v.push(LegendEntry::Contact(bed.base_contact));
+        }
+        v.extend(bed.structures.iter().map(|s| LegendEntry::Structure(*s)));
+        let n = bed.paleocurrents_deg.iter().filter(|a| a.is_finite()).count();
+        if n >= 4 {
+            v.push(LegendEntry::PaleocurrentRose);
+        } else if n > 0 {
+            v.push(LegendEntry::PaleocurrentArrow);
+        }
+        if bed.paleosol != PaleosolDevelopment::None {
+            v.push(LegendEntry::Paleosol(bed.paleosol));
+        }
+    }
+    if ctx.opts.show_interpretation {
+        let it = ctx.interp;
+        if !it.storeys.is_empty() {
+            v.push(LegendEntry::Storey);
+        }
+        v.extend(it.channel_bodies.iter().map(|b| LegendEntry::Body(b.stacking)));
+        if it.proportion_curve.iter().any(|p| p.proportion.is_some()) {
+            v.push(LegendEntry::ProportionCurve);
+        }
+        if it.interval_proportions.iter().any(|p| p.proportion.is_some()) {
+            v.push(LegendEntry::IntervalProportion);
+        }
+        v.extend(it.accommodation.iter().map(|r| LegendEntry::Regime(r.regime)));
+        v.extend(
+            it.sequence_boundary_candidates
+                .iter()
+                .filter(|c| ctx.opts.show_rejected || c.review != ReviewState::Rejected)
+                .map(|c| LegendEntry::Boundary(c.review)),
+        );
+    }
+    v.sort_by_key(|e| e.sort_key());
+    v.dedup();
+    v
+}
+
+/// Height (mm) the legend takes in a given width.
+pub fn legend_height_mm(n_entries: usize, width_mm: f64) -> f64 {
+    if n_entries == 0 {
+        return 0.0;
+    }
+    let cols = ((width_mm / LEGEND_COLUMN_MM).floor() as usize).max(1);
+    let rows = n_entries.div_ceil(cols);
+    6.0 + rows as f64 * LEGEND_ROW_MM
+}
+
+/// Draw the legend with its top-left at (x, y), flowing down columns; returns its height.
+pub fn draw_legend(entries: &[LegendEntry], x: f64, y: f64, width_mm: f64, out: &mut Vec<Item>) -> f64 {
+    if entries.is_empty() {
+        return 0.0;
+    }
+    text(out, x, y + 3.0, "Legend", TEXT_PT + 0.5, INK);
+    let cols = ((width_mm / LEGEND_COLUMN_MM).floor() as usize).max(1);
+    let rows = entries.len().div_ceil(cols);
+    for (k, e) in entries.iter().enumerate() {
+        let (col, row) = (k / rows, k % rows);
+        let sx = x + col as f64 * LEGEND_COLUMN_MM;
+        let sy = y + 6.0 + row as f64 * LEGEND_ROW_MM;
+        draw_swatch(*e, RectMm { x: sx, y: sy, w: 9.0, h: 3.8 }, out);
+        let label = e.label();
+        let size = fit_size(&label, LEGEND_COLUMN_MM - 12.0, SMALL_PT + 0.5, 4.0).unwrap_or(4.0);
+        text(out, sx + 11.0, sy + 2.9, &label, size, INK);
+    }
+    legend_height_mm(entries.len(), width_mm)
+}
+
+fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
+    let mid = PtMm { x: r.x + r.w / 2.0, y: r.y + r.h / 2.0 };
+    match e {
+        LegendEntry::Lithology(l) => {
+            let outline = [
+                PtMm { x: r.x, y: r.y + r.h },
+                PtMm { x: r.x + r.w, y: r.y + r.h },
+                PtMm { x: r.x + r.w, y: r.y },
+                PtMm { x: r.x, y: r.y },
+            ];
+            fill_bed(l, &outline, PtMm { x: r.x, y: r.y }, out);
+            out.push(Item::Rect { rect: r, fill: None, stroke: Some(solid(THIN_MM, INK)) });
+        }
+        LegendEntry::Contact(c) => draw_contact(c, r.x, r.x + r.w, mid.y, out),
+        LegendEntry::Structure(s) => structure_symbol(s, mid, 3.6, out),
+        LegendEntry::PaleocurrentArrow => paleocurrent_arrow(mid, 45.0, 3.6, INK, out),
+        LegendEntry::PaleocurrentRose => paleocurrent_rose(mid, &[20.0, 35.0, 50.0, 55.0, 80.0, 110.0], 1.9, out),
+        LegendEntry::Paleosol(d) => out.push(Item::Rect {
+            rect: RectMm { x: r.x + 0.5, y: r.y, w: paleosol_bar_mm(d), h: r.h },
+            fill: Some(PALEOSOL_BROWN),
+            stroke: None,
+        }),
+        LegendEntry::Storey | LegendEntry::Body(_) => {
+            let (w, label) = match e {
+                LegendEntry::Storey => (THIN_MM, None),
+                LegendEntry::Body(Stacking::MultiStory) => (LINE_MM * 1.4, Some("MS")),
+                _ => (LINE_MM * 1.4, Some("SS")),
+            };
+            let x = r.x + 2.5;
+            out.push(Item::Polyline {
+                points: vec![
+                    PtMm { x: x - 1.2, y: r.y },
+                    PtMm { x, y: r.y },
+                    PtMm { x, y: r.y + r.h },
+                    PtMm { x: x - 1.2, y: r.y + r.h },
+                ],
+                stroke: solid(w, BODY_BLUE),
+            });
+            if let Some(l) = label {
+                text(out, x + 1.2, r.y + 2.9, l, SMALL_PT, BODY_BLUE);
+            }
+        }
+        LegendEntry::ProportionCurve => out.push(Item::Polyline {
+            points: vec![
+                PtMm { x: r.x + 2.0, y: r.y + r.h },
+                PtMm { x: r.x + 6.0, y: r.y + r.h * 0.5 },
+                PtMm { x: r.x + 4.0, y: r.y },
+            ],
+            stroke: solid(THIN_MM * 2.0, CURVE_GREEN),
+        }),
+        LegendEntry::IntervalProportion => out.push(Item::Polyline {
+            points: vec![PtMm { x: mid.x, y: r.y }, PtMm { x: mid.x, y: r.y + r.h }],
+            stroke: dashed(THIN_MM * 1.5, super::items::Rgba(120, 170, 140, 255), &[1.2, 0.6]),
+        }),
+        LegendEntry::Regime(g) => out.push(Item::Rect {
+            rect: r,
+            fill: Some(match g {
+                Regime::Low => REGIME_LOW,
+                Regime::High => REGIME_HIGH,
+                Regime::Undetermined => REGIME_UNDETERMINED,
+            }),
+            stroke: Some(solid(HAIR_MM, GREY)),
+        }),
+        LegendEntry::Boundary(state) => {
+            let (stroke, _, _) = boundary_style(state, 0.0);
+            out.push(Item::Polyline { points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + r.w, y: mid.y }], stroke });
+        }
+    }
+}

@@ -1,0 +1,150 @@
+//! Accommodation regime intervals: low where bodies are amalgamated and the channel-body
+//! proportion is high, high where single-story bodies sit isolated in thick fines, undetermined
+//! where the evidence is thin or mixed. Each call explains itself in words.
+//!
+//! The section is cut at channel-body bases: each stretch runs from one body's base to the next
+//! body's base (the stretch below the first body has no body). Neighbouring stretches with the
+//! same call are merged.
+
+use super::column::{proportion_of, Column, TOL};
+use super::params::RuleParams;
+use super::types::{ChannelBody, Regime, RegimeInterval, Stacking};
+
+/// One stretch with its first call and, when undetermined, why.
+struct Stretch {
+    base_m: f64,
+    top_m: f64,
+    body: Option<usize>,
+    regime: Regime,
+    reasons: Vec<String>,
+}
+
+/// The first call for one stretch, before neighbours are merged.
+fn call(column: &Column, bodies: &[ChannelBody], s: &mut Stretch, params: &RuleParams) {
+    let len_m = s.top_m - s.base_m;
+    let (channel_m, exposed_m) = column.window_m(s.base_m, s.top_m);
+    let covered = if len_m > 0.0 { 1.0 - exposed_m / len_m } else { 1.0 };
+    let proportion = proportion_of(channel_m, exposed_m);
+    let undetermined = |s: &mut Stretch, why: String| {
+        s.regime = Regime::Undetermined;
+        s.reasons.push(why);
+    };
+    if len_m <= 0.0 {
+        return undetermined(s, "the section has no thickness".to_string());
+    }
+    if covered > params.max_covered_fraction + TOL {
+        let pct = (covered * 100.0).round();
+        return undetermined(s, format!("mostly covered ({pct}% of {:.2}–{:.2} m)", s.base_m, s.top_m));
+    }
+    let (Some(k), Some(p)) = (s.body, proportion) else {
+        return undetermined(s, format!("no channel body between {:.2} and {:.2} m", s.base_m, s.top_m));
+    };
+    match bodies[k].stacking {
+        Stacking::MultiStory if p >= params.low_min_proportion - TOL => s.regime = Regime::Low,
+        Stacking::SingleStory if p <= params.high_max_proportion + TOL => s.regime = Regime::High,
+        Stacking::MultiStory => undetermined(
+            s,
+            format!(
+                "multi-story body at {:.2} m but channel-body proportion only {p:.2} (low accommodation needs ≥ {:.2})",
+                s.base_m, params.low_min_proportion
+            ),
+        ),
+        Stacking::SingleStory => undetermined(
+            s,
+            format!(
+                "single-story body at {:.2} m but channel-body proportion {p:.2} (high accommodation needs ≤ {:.2})",
+                s.base_m, params.high_max_proportion
+            ),
+        ),
+    }
+}
+
+/// Merge neighbours with the same regime.
+fn merge(stretches: Vec<Vec<Stretch>>) -> Vec<Vec<Stretch>> {
+    let mut out: Vec<Vec<Stretch>> = Vec::new();
+    for group in stretches {
+        match out.last_mut() {
+            Some(last) if last[0].regime == group[0].regime => last.extend(group),
+            _ => out.push(group),
+        }
+    }
+    out
+}
+
+/// The reasoning for a merged group, in words.
+fn why(column: &Column, bodies: &[ChannelBody], group: &[Stretch], params: &RuleParams) -> String {
+    let base = group[0].base_m;
+    let top = group[group.len() - 1].top_m;
+    let p = column.proportion(base, top).map_or("none (no exposure)".to_string(), |p| format!("{p:.2}"));
+    let in_group: Vec<&ChannelBody> = group.iter().filter_map(|s| s.body.map(|k| &bodies[k])).collect();
+    match group[0].regime {
+        Regime::Low => {
+            let storeys: usize = in_group.iter().map(|b| b.stories).sum();
+            let amalgamated: usize = in_group.iter().map(|b| b.amalgamated_bases).sum();
+            format!(
+                "{} multi-story channel bod{} ({storeys} storeys, {amalgamated} storey base{} on channel sand) and a \
+                 channel-body proportion of {p} (≥ {:.2}): amalgamated, sand-rich stacking suggests low accommodation",
+                in_group.len(),
+                if in_group.len() == 1 { "y" } else { "ies" },
+                if amalgamated == 1 { "" } else { "s" },
+                params.low_min_proportion
+            )
+        }
+        Regime::High => format!(
+            "{} single-story channel bodies isolated in floodplain fines and a channel-body proportion of {p} \
+             (≤ {:.2}): suggests high accommodation",
+            in_group.len(),
+            params.high_max_proportion
+        ),
+        Regime::Undetermined => {
+            let mut reasons: Vec<&str> = Vec::new();
+            for r in group.iter().flat_map(|s| s.reasons.iter()) {
+                if !reasons.contains(&r.as_str()) {
+                    reasons.push(r);
+                }
+            }
+            format!("evidence too thin or mixed to call a regime: {}", reasons.join("; "))
+        }
+    }
+}
+
+/// Regime intervals covering the whole section, base first.
+pub fn regimes(column: &Column, bodies: &[ChannelBody], params: &RuleParams) -> Vec<RegimeInterval> {
+    let total = column.total_m();
+    let mut cuts: Vec<(f64, Option<usize>)> = Vec::with_capacity(bodies.len() + 1);
+    if bodies.first().is_none_or(|b| b.base_m > 0.0) {
+        cuts.push((0.0, None));
+    }
+    cuts.extend(bodies.iter().enumerate().map(|(k, b)| (b.base_m, Some(k))));
+    let mut stretches: Vec<Vec<Stretch>> = Vec::with_capacity(cuts.len());
+    for (i, &(base_m, body)) in cuts.iter().enumerate() {
+        let top_m = cuts.get(i + 1).map_or(total, |c| c.0);
+        let mut s = Stretch { base_m, top_m, body, regime: Regime::Undetermined, reasons: Vec::new() };
+        call(column, bodies, &mut s, params);
+        stretches.push(vec![s]);
+    }
+    let mut groups = merge(stretches);
+    // One isolated body may be a local avulsion: a high call needs several in a row.
+    for g in &mut groups {
+        if g[0].regime == Regime::High && g.len() < params.high_min_isolated_bodies {
+            let n = g.len();
+            for s in g.iter_mut() {
+                s.regime = Regime::Undetermined;
+            }
+            g[0].reasons.push(format!(
+                "only {n} isolated single-story bod{} (high accommodation needs {} in a row)",
+                if n == 1 { "y" } else { "ies" },
+                params.high_min_isolated_bodies
+            ));
+        }
+    }
+    merge(groups)
+        .iter()
+        .map(|g| RegimeInterval {
+            base_m: g[0].base_m,
+            top_m: g[g.len() - 1].top_m,
+            regime: g[0].regime,
+            why: why(column, bodies, g, params),
+        })
+        .collect()
+}

@@ -1,0 +1,170 @@
+//! Candidate sequence boundaries: every erosional channel-body base and every paleosol top,
+//! scored from weighted evidence, one candidate per bed boundary.
+
+use super::bodies::{body_beds, grain_at_base, grain_at_top};
+use super::column::{Column, TOL};
+use super::params::RuleParams;
+use super::types::{BoundaryCandidate, CandidateKind, ChannelBody, Element, Stacking, Storey};
+use crate::model::{Contact, Section};
+use std::collections::BTreeMap;
+
+/// What sits at one bed boundary.
+#[derive(Default)]
+struct Site {
+    /// Index of the channel body whose erosional base this is.
+    body: Option<usize>,
+    /// The bed below is a paleosol.
+    on_paleosol: bool,
+}
+
+/// Score and explain every candidate; sorted by score (highest first), ties by height.
+pub fn candidates(
+    section: &Section,
+    column: &Column,
+    elements: &[Element],
+    storeys: &[Storey],
+    bodies: &[ChannelBody],
+    params: &RuleParams,
+) -> Vec<BoundaryCandidate> {
+    let beds = &section.beds;
+    let n = beds.len();
+    let is_strong_soil = |i: usize| elements[i] == Element::Paleosol && beds[i].paleosol.is_strong();
+
+    let mut sites: BTreeMap<usize, Site> = BTreeMap::new();
+    for (k, body) in bodies.iter().enumerate() {
+        let (first, _) = body_beds(body, storeys);
+        if beds[first].base_contact == Contact::Erosional {
+            sites.entry(first).or_default().body = Some(k);
+        }
+    }
+    for (i, el) in elements.iter().enumerate().take(n.saturating_sub(1)) {
+        if *el == Element::Paleosol {
+            sites.entry(i + 1).or_default().on_paleosol = true;
+        }
+    }
+
+    // Index of the highest strongly developed paleosol at or below each bed, for truncation checks
+    // in constant time.
+    let mut last_strong: Vec<Option<usize>> = Vec::with_capacity(n);
+    for i in 0..n {
+        let prev = if i > 0 { last_strong[i - 1] } else { None };
+        last_strong.push(if is_strong_soil(i) { Some(i) } else { prev });
+    }
+
+    let mut out: Vec<BoundaryCandidate> = sites
+        .into_iter()
+        .filter(|(j, _)| *j > 0 && *j < n)
+        .map(|(j, site)| {
+            let height_m = column.bounds_m[j];
+            let above = &beds[j];
+            let below = &beds[j - 1];
+            let mut evidence = Vec::new();
+            let mut score = 0.0;
+
+            if let Some(k) = site.body {
+                let body = &bodies[k];
+                if body.stacking == Stacking::MultiStory {
+                    score += params.weight_multistory_base;
+                    evidence.push(format!("base of a multi-story (amalgamated) channel body of {} storeys", body.stories));
+                } else {
+                    evidence.push("erosional base of a single-story channel body".to_string());
+                }
+            }
+            if site.on_paleosol && !is_strong_soil(j - 1) {
+                evidence.push(format!("top of a paleosol of {} development", below.paleosol.name()));
+            }
+
+            // Abrupt upward jump in grain size, counted in Wentworth classes.
+            if let (Some(up), Some(down)) = (grain_at_base(above), grain_at_top(below)) {
+                let jump = up.class().rank() as i64 - down.class().rank() as i64;
+                if jump >= params.grain_jump_min_classes as i64 && jump > 0 {
+                    score += params.weight_grain_jump;
+                    evidence.push(format!(
+                        "grain size jumps up {jump} Wentworth classes, from {} to {}",
+                        down.class().name(),
+                        up.class().name()
+                    ));
+                }
+            }
+
+            // Erosional relief beyond one channel's scour.
+            let relief_m = above.base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
+            if let Some(r) = relief_m.filter(|_| above.base_contact == Contact::Erosional) {
+                let storey_below = storeys.iter().rev().find(|s| s.last_bed < j).map(|s| s.top_m - s.base_m);
+                if r > params.relief_limit_m + TOL {
+                    score += params.weight_relief;
+                    evidence.push(format!("erosional relief of {r:.2} m exceeds the {:.2} m relief limit", params.relief_limit_m));
+                } else if let Some(t) = storey_below.filter(|t| r > *t + TOL) {
+                    score += params.weight_relief;
+                    evidence.push(format!("erosional relief of {r:.2} m exceeds the {t:.2} m storey below"));
+                }
+            }
+
+            // A channel base on, or cutting into, a strongly developed paleosol.
+            if site.body.is_some() {
+                if is_strong_soil(j - 1) {
+                    score += params.weight_on_strong_paleosol;
+                    evidence.push(format!(
+                        "erodes directly into a paleosol of {} development",
+                        below.paleosol.name()
+                    ));
+                } else if let (Some(r), Some(s)) = (relief_m, last_strong[j - 1]) {
+                    let depth_m = height_m - column.bounds_m[s + 1];
+                    if depth_m < r - TOL {
+                        score += params.weight_on_strong_paleosol;
+                        evidence.push(format!(
+                            "its {r:.2} m relief reaches a paleosol of {} development {depth_m:.2} m below",
+                            beds[s].paleosol.name()
+                        ));
+                    }
+                }
+            } else if is_strong_soil(j - 1) {
+                // Interfluve equivalent: a mature soil on floodplain fines, not cut by a channel here.
+                score += params.weight_interfluve_paleosol;
+                evidence.push(format!(
+                    "paleosol of {} development caps floodplain fines (possible interfluve equivalent)",
+                    below.paleosol.name()
+                ));
+            }
+
+            // Basinward shift in stacking: more channel deposits above than below.
+            let w = params.boundary_window_m;
+            if w.is_finite() && w > 0.0 && height_m > 0.0 {
+                let lower = column.proportion(height_m - w, height_m);
+                let upper = column.proportion(height_m, height_m + w);
+                if let (Some(lo), Some(up)) = (lower, upper) {
+                    if up - lo >= params.proportion_jump_min - TOL {
+                        score += params.weight_proportion_jump;
+                        evidence.push(format!(
+                            "channel-body proportion rises from {lo:.2} in the {w} m below to {up:.2} in the {w} m above"
+                        ));
+                    }
+                }
+            }
+
+            let kind = match (site.body.is_some(), site.on_paleosol) {
+                (true, true) => CandidateKind::ChannelBaseOnPaleosol,
+                (true, false) => CandidateKind::ChannelBodyBase,
+                _ => CandidateKind::PaleosolTop,
+            };
+            let decision = section.decision_for(above.id);
+            BoundaryCandidate {
+                height_m,
+                bed_index: j,
+                bed_id: above.id,
+                kind,
+                score: if score.is_nan() { 0.0 } else { score.clamp(0.0, 1.0) },
+                evidence,
+                review: decision.map(|d| d.state).unwrap_or_default(),
+                note: decision.map(|d| d.note.clone()).unwrap_or_default(),
+            }
+        })
+        .collect();
+    out.sort_by(|a, b| {
+        b.score
+            .total_cmp(&a.score)
+            .then(a.height_m.total_cmp(&b.height_m))
+            .then(a.bed_index.cmp(&b.bed_index))
+    });
+    out
+}

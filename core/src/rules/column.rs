@@ -1,0 +1,180 @@
+//! Bed heights and prefix sums of channel-deposit and exposed thickness, so that any window's
+//! channel-body proportion costs a binary search instead of a scan.
+
+use super::types::Element;
+use crate::model::{Bed, LithologyFamily, Section};
+
+/// Thickness the rules use for a bed: negative, zero or non-finite thicknesses (which the readers
+/// reject) count as zero so that the rules never panic or loop on bad data.
+pub(crate) fn usable_thickness_m(bed: &Bed) -> f64 {
+    if bed.thickness_m.is_finite() && bed.thickness_m > 0.0 {
+        bed.thickness_m
+    } else {
+        0.0
+    }
+}
+
+/// Allowance on threshold comparisons of lengths (metres) and proportions: rounding left by unit
+/// conversion (e.g. feet to metres) must not flip a call that sits exactly on a threshold.
+pub(crate) const TOL: f64 = 1e-9;
+
+/// Family of a bed's lithology (shorthand).
+pub(crate) fn family(bed: &Bed) -> LithologyFamily {
+    bed.lithology.family()
+}
+
+/// True for sandstone, conglomerate and breccia.
+pub(crate) fn is_sand_or_gravel(bed: &Bed) -> bool {
+    matches!(family(bed), LithologyFamily::Sand | LithologyFamily::Gravel)
+}
+
+/// Bed boundaries and cumulative thicknesses of one section.
+#[derive(Debug, Clone)]
+pub(crate) struct Column {
+    /// Heights of bed boundaries, metres: `bounds_m[i]` is the base of bed i, `bounds_m[n]` the top.
+    pub bounds_m: Vec<f64>,
+    /// Channel-deposit thickness below each boundary (same indexing as `bounds_m`).
+    channel_cum_m: Vec<f64>,
+    /// Exposed (not covered) thickness below each boundary.
+    exposed_cum_m: Vec<f64>,
+}
+
+impl Column {
+    /// Boundaries only; the sums are filled by [`Column::with_elements`].
+    pub fn new(section: &Section) -> Self {
+        let mut bounds_m = Vec::with_capacity(section.beds.len() + 1);
+        let mut h = 0.0;
+        bounds_m.push(h);
+        for bed in &section.beds {
+            h += usable_thickness_m(bed);
+            bounds_m.push(h);
+        }
+        Column { bounds_m, channel_cum_m: Vec::new(), exposed_cum_m: Vec::new() }
+    }
+
+    /// Fill the prefix sums from each bed's element.
+    pub fn with_elements(mut self, elements: &[Element]) -> Self {
+        let n = self.bounds_m.len() - 1;
+        let mut channel = Vec::with_capacity(n + 1);
+        let mut exposed = Vec::with_capacity(n + 1);
+        let (mut c, mut e) = (0.0, 0.0);
+        channel.push(c);
+        exposed.push(e);
+        for (i, el) in elements.iter().enumerate().take(n) {
+            let t = self.bounds_m[i + 1] - self.bounds_m[i];
+            if *el != Element::Covered {
+                e += t;
+            }
+            if *el == Element::ChannelDeposit {
+                c += t;
+            }
+            channel.push(c);
+            exposed.push(e);
+        }
+        // Fewer elements than beds cannot happen from `interpret`; pad so lookups stay in range.
+        while channel.len() < n + 1 {
+            channel.push(c);
+            exposed.push(e);
+        }
+        self.channel_cum_m = channel;
+        self.exposed_cum_m = exposed;
+        self
+    }
+
+    /// Total height of the section, metres.
+    pub fn total_m(&self) -> f64 {
+        self.bounds_m.last().copied().unwrap_or(0.0)
+    }
+
+    /// Thickness of bed `i`, metres.
+    pub fn thickness_m(&self, i: usize) -> f64 {
+        self.bounds_m[i + 1] - self.bounds_m[i]
+    }
+
+    /// Channel-deposit thickness over the whole section.
+    pub fn channel_total_m(&self) -> f64 {
+        self.channel_cum_m.last().copied().unwrap_or(0.0)
+    }
+
+    /// Exposed thickness over the whole section.
+    pub fn exposed_total_m(&self) -> f64 {
+        self.exposed_cum_m.last().copied().unwrap_or(0.0)
+    }
+
+    /// Cumulative value of `cum` at height `h` (linear inside a bed).
+    fn cum_at(&self, cum: &[f64], h_m: f64) -> f64 {
+        let h = if h_m.is_nan() { 0.0 } else { h_m.clamp(0.0, self.total_m()) };
+        // Number of beds whose top is at or below h: they count in full.
+        let k = self.bounds_m[1..].partition_point(|&top| top <= h);
+        if k + 1 >= self.bounds_m.len() {
+            return cum[k];
+        }
+        let t = self.thickness_m(k);
+        let part = if t > 0.0 { (h - self.bounds_m[k]).clamp(0.0, t) / t } else { 0.0 };
+        cum[k] + (cum[k + 1] - cum[k]) * part
+    }
+
+    /// Channel-deposit and exposed thickness between two heights (clipped to the section).
+    pub fn window_m(&self, base_m: f64, top_m: f64) -> (f64, f64) {
+        let c = self.cum_at(&self.channel_cum_m, top_m) - self.cum_at(&self.channel_cum_m, base_m);
+        let e = self.cum_at(&self.exposed_cum_m, top_m) - self.cum_at(&self.exposed_cum_m, base_m);
+        (c.max(0.0), e.max(0.0))
+    }
+
+    /// Channel-body proportion between two heights; `None` when that stretch has no exposure.
+    pub fn proportion(&self, base_m: f64, top_m: f64) -> Option<f64> {
+        let (c, e) = self.window_m(base_m, top_m);
+        proportion_of(c, e)
+    }
+}
+
+/// Channel thickness over exposed thickness in 0–1; `None` without exposure. Exposure below a
+/// nanometre is treated as none, so rounding left over from subtraction never divides.
+pub(crate) fn proportion_of(channel_m: f64, exposed_m: f64) -> Option<f64> {
+    if exposed_m > 1e-9 {
+        Some((channel_m / exposed_m).clamp(0.0, 1.0))
+    } else {
+        None
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::model::{BedId, Lithology};
+
+    fn section(beds: &[(f64, Lithology)]) -> Section {
+        let mut s = Section::new("t");
+        for (i, (t, l)) in beds.iter().enumerate() {
+            s.beds.push(Bed::new(BedId(i as u64 + 1), *t, *l, None));
+        }
+        s
+    }
+
+    #[test]
+    fn window_sums_interpolate_inside_beds() {
+        // 0–2 channel, 2–5 covered, 5–6 fines. Window 1–5.5: channel 1, exposed 1 + 0.5.
+        let s =
+            section(&[(2.0, Lithology::Sandstone), (3.0, Lithology::Covered), (1.0, Lithology::Mudstone)]);
+        let col = Column::new(&s).with_elements(&[
+            Element::ChannelDeposit,
+            Element::Covered,
+            Element::OverbankFines,
+        ]);
+        let (c, e) = col.window_m(1.0, 5.5);
+        assert!((c - 1.0).abs() < 1e-12 && (e - 1.5).abs() < 1e-12, "{c} {e}");
+        assert_eq!(col.proportion(2.0, 5.0), None);
+        assert_eq!(col.proportion(-10.0, 100.0), Some(2.0 / 3.0));
+    }
+
+    #[test]
+    fn bad_thicknesses_count_as_zero() {
+        let s = section(&[
+            (f64::NAN, Lithology::Sandstone),
+            (-1.0, Lithology::Mudstone),
+            (1.0, Lithology::Mudstone),
+        ]);
+        let col = Column::new(&s);
+        assert_eq!(col.bounds_m, vec![0.0, 0.0, 0.0, 1.0]);
+    }
+}

@@ -1,0 +1,182 @@
+//! `RuleParams`: every threshold and weight the interpretation rules use, with its default and
+//! where that default comes from.
+
+use crate::model::PaleosolDevelopment;
+use serde::{Deserialize, Serialize};
+
+/// Thresholds and weights of the interpretation rules. Every field has a default (see
+/// [`RuleParams::default`]); a partial JSON object fills the rest from the defaults.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct RuleParams {
+    /// Fines thinner than this (summed over consecutive fine beds) inside a channel storey are a
+    /// mud drape and do not end the storey or split the body. Default 0.5 m: common practice
+    /// (drapes on bar and dune foresets are centimetres to decimetres thick).
+    pub drape_limit_m: f64,
+    /// A sharp- or gradational-based sand (run of sand beds) thinner than this inside fines is a
+    /// crevasse-splay or sheet sand, not a channel. Default 1.0 m: common practice ("roughly < 1 m");
+    /// Burns et al. 2017 report splay sands of ~2.1 m near the channel thinning to ~0.8 m, so the
+    /// default catches distal splays and leaves thick proximal ones to the geologist.
+    pub splay_limit_m: f64,
+    /// Fines with at least this paleosol development are `paleosol` elements. Default weak:
+    /// common practice (any recorded soil development marks a paleosol).
+    pub paleosol_min_development: PaleosolDevelopment,
+    /// Height of the moving window of the proportion curve, metres. Default 10 m: common practice
+    /// (several storey thicknesses).
+    pub window_m: f64,
+    /// Spacing of the points of the proportion curve, metres. Default 0.5 m: common practice.
+    pub curve_step_m: f64,
+    /// With no accepted boundary, candidates scoring above this split the section into
+    /// intervals for proportions. Default 0.5: common practice (half of the full evidence).
+    pub boundary_interval_min_score: f64,
+    /// Grain size at the base of the bed above a boundary coarser than the top of the bed below
+    /// by at least this many Wentworth classes counts as an abrupt upward jump. Default 4 classes
+    /// (e.g. silt to coarse sand, fine sand to pebble): common practice, chosen to exceed the
+    /// usual mud-to-fine-sand step at any channel base.
+    pub grain_jump_min_classes: usize,
+    /// Erosional relief larger than this (or than the storey below) counts as evidence of
+    /// incision beyond one channel's scour. Default 3 m: common practice.
+    pub relief_limit_m: f64,
+    /// Height of the windows above and below a boundary compared for a jump in channel-body
+    /// proportion, metres. Default 10 m: common practice (same as the curve window).
+    pub boundary_window_m: f64,
+    /// The proportion in the window above must exceed the one below by at least this. Default
+    /// 0.3: common practice.
+    pub proportion_jump_min: f64,
+    /// Weight of "base of a multi-story body". Defaults of the channel-base weights sum to 1, so
+    /// a base with every item scores 1 (our choice).
+    pub weight_multistory_base: f64,
+    /// Weight of "abrupt upward jump in grain size".
+    pub weight_grain_jump: f64,
+    /// Weight of "erosional relief larger than the storey below or the relief limit".
+    pub weight_relief: f64,
+    /// Weight of "sits on or truncates a strongly developed paleosol".
+    pub weight_on_strong_paleosol: f64,
+    /// Weight of "channel-body proportion above clearly exceeds the one below".
+    pub weight_proportion_jump: f64,
+    /// Weight of "strongly developed paleosol capping floodplain fines" (interfluve
+    /// equivalent; Kraus 1999: thick, well developed paleosols form during stability at
+    /// unconformities).
+    pub weight_interfluve_paleosol: f64,
+    /// A stretch is called low accommodation when its bodies are multi-story and its
+    /// channel-body proportion is at least this. Default 0.5: Allen 1978 (connectedness rises
+    /// sharply above ~50 % channel deposits; from memory).
+    pub low_min_proportion: f64,
+    /// A stretch is called high accommodation when its bodies are single-story and its
+    /// proportion is at most this. Default 0.3: Larue & Hovadik 2006 (connectivity falls steeply
+    /// below ~30 % net-to-gross, i.e. bodies become isolated).
+    pub high_max_proportion: f64,
+    /// A high-accommodation call needs at least this many isolated bodies in a row. Default 2:
+    /// common practice (one isolated body may be a local avulsion).
+    pub high_min_isolated_bodies: usize,
+    /// A stretch more than this fraction covered is undetermined. Default 0.5: common practice.
+    pub max_covered_fraction: f64,
+    /// Grain-size change (phi) between the base and the top of a body or storey needed to call it
+    /// fining- or coarsening-upward; less is blocky. Default 1 phi (one Wentworth sand class):
+    /// common practice.
+    pub profile_min_phi_change: f64,
+    /// A style hint needs at least this many evidence items, and more than the other style.
+    /// Default 2: common practice.
+    pub style_min_evidence: usize,
+}
+
+impl Default for RuleParams {
+    fn default() -> Self {
+        RuleParams {
+            drape_limit_m: 0.5,
+            splay_limit_m: 1.0,
+            paleosol_min_development: PaleosolDevelopment::Weak,
+            window_m: 10.0,
+            curve_step_m: 0.5,
+            boundary_interval_min_score: 0.5,
+            grain_jump_min_classes: 4,
+            relief_limit_m: 3.0,
+            boundary_window_m: 10.0,
+            proportion_jump_min: 0.3,
+            weight_multistory_base: 0.2,
+            weight_grain_jump: 0.2,
+            weight_relief: 0.15,
+            weight_on_strong_paleosol: 0.25,
+            weight_proportion_jump: 0.2,
+            weight_interfluve_paleosol: 0.25,
+            low_min_proportion: 0.5,
+            high_max_proportion: 0.3,
+            high_min_isolated_bodies: 2,
+            max_covered_fraction: 0.5,
+            profile_min_phi_change: 1.0,
+            style_min_evidence: 2,
+        }
+    }
+}
+
+/// Most curve points produced, whatever the section height and step (keeps memory bounded).
+pub const MAX_CURVE_POINTS: usize = 1_000_000;
+
+impl RuleParams {
+    /// Every problem with the parameters, as "field: got value; valid is …" sentences.
+    pub fn problems(&self) -> Vec<String> {
+        let mut out = Vec::new();
+        let positive = [
+            ("drape_limit_m", self.drape_limit_m),
+            ("splay_limit_m", self.splay_limit_m),
+            ("window_m", self.window_m),
+            ("curve_step_m", self.curve_step_m),
+            ("boundary_window_m", self.boundary_window_m),
+        ];
+        for (name, v) in positive {
+            if !(v.is_finite() && v > 0.0) {
+                out.push(format!("{name}: got {v}; valid is a number of metres > 0"));
+            }
+        }
+        let non_negative = [
+            ("relief_limit_m", self.relief_limit_m),
+            ("profile_min_phi_change", self.profile_min_phi_change),
+            ("weight_multistory_base", self.weight_multistory_base),
+            ("weight_grain_jump", self.weight_grain_jump),
+            ("weight_relief", self.weight_relief),
+            ("weight_on_strong_paleosol", self.weight_on_strong_paleosol),
+            ("weight_proportion_jump", self.weight_proportion_jump),
+            ("weight_interfluve_paleosol", self.weight_interfluve_paleosol),
+        ];
+        for (name, v) in non_negative {
+            if !(v.is_finite() && v >= 0.0) {
+                out.push(format!("{name}: got {v}; valid is a number ≥ 0"));
+            }
+        }
+        let fractions = [
+            ("boundary_interval_min_score", self.boundary_interval_min_score),
+            ("proportion_jump_min", self.proportion_jump_min),
+            ("low_min_proportion", self.low_min_proportion),
+            ("high_max_proportion", self.high_max_proportion),
+            ("max_covered_fraction", self.max_covered_fraction),
+        ];
+        for (name, v) in fractions {
+            if !(v.is_finite() && (0.0..=1.0).contains(&v)) {
+                out.push(format!("{name}: got {v}; valid is a number from 0 to 1"));
+            }
+        }
+        out
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn defaults_are_valid_and_partial_json_fills_from_defaults() {
+        assert!(RuleParams::default().problems().is_empty());
+        let p: RuleParams = serde_json::from_str(r#"{"window_m": 20.0}"#).expect("partial params parse");
+        assert_eq!(p.window_m, 20.0);
+        assert_eq!(p.drape_limit_m, RuleParams::default().drape_limit_m);
+    }
+
+    #[test]
+    fn bad_values_are_named() {
+        let p = RuleParams { curve_step_m: 0.0, low_min_proportion: 1.5, ..RuleParams::default() };
+        let problems = p.problems();
+        assert_eq!(problems.len(), 2, "{problems:?}");
+        assert!(problems[0].starts_with("curve_step_m: got 0"), "{problems:?}");
+        assert!(problems[1].starts_with("low_min_proportion: got 1.5"), "{problems:?}");
+    }
+}

@@ -1,0 +1,223 @@
+//! Printed columns checked by independent PDF readers (pypdf and pdfplumber from PyPI): paper
+//! sizes, true vertical scale, searchable text, reproducible bytes.
+
+use aggrade_core::export::{write_pdf, PdfInfo};
+use aggrade_core::layout::sample::{sample_interpretation, sample_section};
+use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::model::{Bed, BedId, GrainSize, Lithology, Section, WentworthClass};
+use aggrade_core::rules::Interpretation;
+use serde_json::Value;
+use std::path::Path;
+use std::process::Command;
+
+/// Run a probe script from tests/data/export on a file; fails clearly if Python or a library is missing.
+fn probe(script: &str, file: &Path) -> Value {
+    let script = Path::new(env!("CARGO_MANIFEST_DIR")).join("data/export").join(script);
+    let out = Command::new("python3")
+        .arg(&script)
+        .arg(file)
+        .output()
+        .unwrap_or_else(|e| panic!("cannot run python3 (needed as the independent PDF reader): {e}"));
+    assert!(
+        out.status.success(),
+        "{} failed: {}",
+        script.display(),
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("probe prints JSON")
+}
+
+fn pdf_of(section: &Section, interp: &Interpretation, opts: &LayoutOptions) -> (Vec<u8>, tempfile::TempDir) {
+    let meta = PrintMeta { printed_on: "2026-12-01".into(), subtitle: String::new() };
+    let p = pages(section, interp, opts, &meta);
+    let info = PdfInfo { title: section.name.clone(), author: String::new(), creation_date: 1_790_000_000 };
+    (write_pdf(&p, &info), tempfile::tempdir().expect("temp dir"))
+}
+
+fn probe_pdf(bytes: &[u8], dir: &tempfile::TempDir) -> Value {
+    let path = dir.path().join("out.pdf");
+    std::fs::write(&path, bytes).expect("write pdf");
+    probe("pdf_probe.py", &path)
+}
+
+/// An empty interpretation for sections where only the drawing matters.
+fn no_interp(section: &Section) -> Interpretation {
+    Interpretation {
+        section: section.name.clone(),
+        total_thickness_m: section.total_thickness_m(),
+        exposed_thickness_m: section.exposed_thickness_m(),
+        channel_proportion: None,
+        elements: Vec::new(),
+        storeys: Vec::new(),
+        channel_bodies: Vec::new(),
+        interval_proportions: Vec::new(),
+        proportion_curve: Vec::new(),
+        accommodation: Vec::new(),
+        sequence_boundary_candidates: Vec::new(),
+        caution: aggrade_core::REVIEW_CAUTION.into(),
+    }
+}
+
+#[test]
+fn paper_sizes_follow_iso_216_and_ansi() {
+    let s = sample_section();
+    let i = sample_interpretation(&s);
+    // ISO 216: A4 210 × 297 mm, A3 297 × 420 mm; ANSI Letter 8.5 × 11 in. In PDF points
+    // (1/72 in): A4 595.276 × 841.890, A3 841.890 × 1190.551, Letter 612 × 792 (REFERENCES.md).
+    let cases = [
+        (Paper::A4, Orientation::Portrait, 595.276, 841.890),
+        (Paper::A4, Orientation::Landscape, 841.890, 595.276),
+        (Paper::A3, Orientation::Portrait, 841.890, 1190.551),
+        (Paper::Letter, Orientation::Portrait, 612.0, 792.0),
+        (Paper::Letter, Orientation::Landscape, 792.0, 612.0),
+    ];
+    for (paper, orientation, w_pt, h_pt) in cases {
+        let opts = LayoutOptions { paper, orientation, ..Default::default() };
+        let (pdf, dir) = pdf_of(&s, &i, &opts);
+        let v = probe_pdf(&pdf, &dir);
+        let sizes = v["pypdf"]["pages"].as_array().expect("pages");
+        assert!(!sizes.is_empty());
+        for size in sizes {
+            let (w, h) = (size[0].as_f64().expect("w"), size[1].as_f64().expect("h"));
+            assert!((w - w_pt).abs() < 0.01 && (h - h_pt).abs() < 0.01, "{paper:?} {orientation:?}: {w} × {h} pt");
+        }
+    }
+}
+
+/// Fill colour of a bed in the PDF, as pdfplumber reports it (0–1 floats).
+fn tint(lith: Lithology) -> Vec<f64> {
+    let c = aggrade_core::layout::style::lithology_tint(lith);
+    [c.0, c.1, c.2].iter().map(|v| (f64::from(*v) / 255.0 * 10000.0).round() / 10000.0).collect()
+}
+
+/// The drawn height (pt) of every filled shape in a colour, as pdfplumber measures it.
+fn filled_heights(page: &Value, colour: &[f64]) -> Vec<f64> {
+    let mut v = Vec::new();
+    for kind in ["rects", "curves"] {
+        for s in page[kind].as_array().expect("shapes") {
+            let c: Vec<f64> =
+                s["fill_colour"].as_array().map(|a| a.iter().filter_map(Value::as_f64).collect()).unwrap_or_default();
+            if s["fill"].as_bool() == Some(true)
+                && c.len() == 3
+                && c.iter().zip(colour).all(|(a, b)| (a - b).abs() < 0.003)
+            {
+                v.push(s["bottom"].as_f64().expect("bottom") - s["top"].as_f64().expect("top"));
+            }
+        }
+    }
+    v
+}
+
+#[test]
+fn beds_are_drawn_at_true_scale() {
+    // A 2 m sandstone between mudstones; at 1:S it must be 2000/S mm tall (±0.1 mm).
+    // 1 mm = 72/25.4 pt (1 in = 25.4 mm exactly; 1 pt = 1/72 in): 2 m at 1:50 is 113.386 pt.
+    let mut s = Section::new("Scale check");
+    let mud = Some(GrainSize::Class(WentworthClass::Clay));
+    s.beds = vec![
+        Bed::new(BedId(1), 1.0, Lithology::Mudstone, mud),
+        Bed::new(BedId(2), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand))),
+        Bed::new(BedId(3), 0.7, Lithology::Mudstone, mud),
+    ];
+    let i = no_interp(&s);
+    for scale in [20.0, 50.0, 100.0, 200.0, 500.0, 137.0] {
+        let opts = LayoutOptions { scale_denominator: scale, ..Default::default() };
+        let (pdf, dir) = pdf_of(&s, &i, &opts);
+        let v = probe_pdf(&pdf, &dir);
+        let page = &v["pages"][0];
+        let heights = filled_heights(page, &tint(Lithology::Sandstone));
+        // The legend swatch is also sandstone-coloured (3.8 mm tall); the bed is the tallest.
+        let bed_pt = heights.iter().copied().fold(0.0, f64::max);
+        let expected_pt = 2.0 * 1000.0 / scale * 72.0 / 25.4;
+        if scale == 50.0 {
+            assert!((expected_pt - 113.386).abs() < 0.001, "worked value from REFERENCES.md");
+        }
+        assert!(
+            (bed_pt - expected_pt).abs() <= 0.1 * 72.0 / 25.4,
+            "1:{scale}: sandstone drawn {bed_pt:.3} pt tall, expected {expected_pt:.3} pt ({heights:?})"
+        );
+        // The thicker-than-legend mudstone bed below: 1 m.
+        let mud_pt = filled_heights(page, &tint(Lithology::Mudstone));
+        let one_m = 1000.0 / scale * 72.0 / 25.4;
+        if one_m > 12.0 {
+            assert!(mud_pt.iter().any(|h| (h - one_m).abs() <= 0.2835), "1:{scale}: no 1 m mudstone in {mud_pt:?}");
+        }
+    }
+}
+
+#[test]
+fn text_is_embedded_and_searchable() {
+    let s = sample_section();
+    let i = sample_interpretation(&s);
+    let (pdf, dir) = pdf_of(&s, &i, &LayoutOptions::default());
+    let v = probe_pdf(&pdf, &dir);
+    let all: String = v["pages"].as_array().expect("pages").iter().map(|p| p["chars"].as_str().unwrap_or("")).collect();
+    let first = v["pages"][0]["text"].as_str().expect("text");
+    for needle in ["Tarn Gap Bluff", "scale 1:100", "Legend", "sandstone", "page 1 of"] {
+        assert!(first.contains(needle), "{needle:?} not found by pdfplumber in page 1 text:\n{first}");
+    }
+    // Axis labels at 1 m steps (1:100 → 10 mm per m) are findable.
+    for label in ["10", "20", "30"] {
+        assert!(all.contains(label), "axis label {label}");
+    }
+    // φ and the minus sign come out as themselves, not "?" (font embedded with a Unicode map).
+    assert!(all.contains('φ'), "φ missing from extracted text");
+    assert!(all.contains('−'), "U+2212 minus missing from extracted text");
+    assert!(!all.contains('?') || s.name.contains('?') || all.contains("SB?"), "no replacement marks");
+    // The caution is on every page (pypdf's own text extraction, a second reader).
+    let caution_start = "Interpretations are candidates for expert review";
+    for (k, t) in v["pypdf"]["text"].as_array().expect("pypdf text").iter().enumerate() {
+        let t = t.as_str().unwrap_or("").replace('\n', " ");
+        assert!(t.contains(caution_start), "page {} lacks the caution: {t}", k + 1);
+    }
+}
+
+#[test]
+fn same_input_same_bytes() {
+    let s = sample_section();
+    let i = sample_interpretation(&s);
+    let (a, _d1) = pdf_of(&s, &i, &LayoutOptions::default());
+    let (b, _d2) = pdf_of(&s, &i, &LayoutOptions::default());
+    assert!(a.len() > 1000);
+    assert!(a == b, "two exports of the same section differ");
+    assert!(a.starts_with(b"%PDF-"));
+}
+
+#[test]
+fn long_section_continues_over_pages_with_every_bed() {
+    let (s, i) = aggrade_core::layout::sample::generated_section(400);
+    let opts = LayoutOptions { scale_denominator: 100.0, ..Default::default() };
+    let meta = PrintMeta::default();
+    let p = pages(&s, &i, &opts, &meta);
+    assert!(p.len() > 3, "{} pages", p.len());
+    // Heights covered by the segments join up from 0 to the top without gaps or overlaps.
+    let segs: Vec<_> = p.iter().flat_map(|pg| pg.segments.iter()).collect();
+    assert_eq!(segs[0].base_m, 0.0);
+    for w in segs.windows(2) {
+        assert_eq!(w[0].top_m, w[1].base_m);
+    }
+    assert!((segs[segs.len() - 1].top_m - s.total_thickness_m()).abs() < 1e-9);
+    // Every bed is drawn; a bed drawn twice must straddle a segment boundary.
+    let mut seen = vec![0usize; s.beds.len()];
+    for seg in &segs {
+        for b in &seg.bed_boxes {
+            seen[b.bed_index] += 1;
+        }
+    }
+    let bases = s.base_heights_m();
+    for (k, n) in seen.iter().enumerate() {
+        assert!(*n >= 1, "bed {k} dropped");
+        if *n > 1 {
+            let top = bases[k] + s.beds[k].thickness_m;
+            assert!(segs.iter().any(|g| g.top_m > bases[k] && g.top_m < top), "bed {k} duplicated");
+        }
+    }
+    let (pdf, dir) = {
+        let info = PdfInfo { title: s.name.clone(), author: String::new(), creation_date: 0 };
+        (write_pdf(&p, &info), tempfile::tempdir().expect("dir"))
+    };
+    let v = probe_pdf(&pdf, &dir);
+    assert_eq!(v["pages"].as_array().expect("pages").len(), p.len());
+    let last = v["pages"][p.len() - 1]["text"].as_str().expect("text");
+    assert!(last.contains(&format!("page {} of {}", p.len(), p.len())), "{last}");
+}
