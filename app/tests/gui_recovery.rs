@@ -10,7 +10,7 @@ use aggrade::gui::document::Document;
 use aggrade::gui::files::ScriptedDialogs;
 use aggrade::gui::recovery::{find_recovery, DATA_DIR_ENV};
 use aggrade::gui::{recovery, AggradeApp, AppConfig};
-use aggrade_core::model::{GrainSize, Lithology, Project, ReviewState, Section, WentworthClass};
+use aggrade_core::model::{Contact, GrainSize, Lithology, Project, ReviewState, Section, WentworthClass};
 use egui::Key;
 use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
@@ -44,7 +44,7 @@ fn child_session() {
     h.run();
     h.get_by(|n| n.placeholder() == Some("thickness (m)")).focus();
     h.run();
-    for (t, l, g) in [("2.5", "mu", "si"), ("1.2", "sa", "c"), ("0.3", "mu", "cl"), ("3", "sa", "vc")] {
+    for (t, l, g) in [("2.5", "mu", "si"), ("1.2", "sa", "c"), ("80cm", "mu", "cl"), ("3", "sa", "vc")] {
         for (text, key) in [(t, Key::Tab), (l, Key::Tab), (g, Key::Enter)] {
             h.get_by(|n| n.is_focused()).type_text(text);
             h.run();
@@ -52,6 +52,17 @@ fn child_session() {
             h.run();
         }
     }
+    // Make the base of the top sandstone erosional in the inspector: a channel base to review.
+    h.get_by_label("Bed").click();
+    h.run();
+    h.get_by_label("Basal contact").click();
+    h.run();
+    h.get_by_label("erosional").click();
+    h.run();
+    let top = h.state().doc.section().beds[3].clone();
+    assert_eq!(top.base_contact, Contact::Erosional, "inspector edit not applied: {top:?}");
+    h.get_by_label("Review").click();
+    h.run();
     // Accept the strongest candidate through the review panel.
     h.get_all_by_label("Accept").next().expect("an Accept button").click();
     h.run();
@@ -130,10 +141,11 @@ fn killed_session_is_recovered_with_every_edit() {
         vec![
             (2.5, Lithology::Mudstone, Some(GrainSize::Class(Silt))),
             (1.2, Lithology::Sandstone, Some(GrainSize::Class(CoarseSand))),
-            (0.3, Lithology::Mudstone, Some(GrainSize::Class(Clay))),
+            (0.8, Lithology::Mudstone, Some(GrainSize::Class(Clay))),
             (3.0, Lithology::Sandstone, Some(GrainSize::Class(VeryCoarseSand))),
         ]
     );
+    assert_eq!(s.beds[3].base_contact, Contact::Erosional, "the inspector edit was recovered");
     assert_eq!(s.review.len(), 1, "the review decision was recovered");
     assert_eq!(s.review[0].state, ReviewState::Accepted);
     assert!(h.state().doc.dirty);

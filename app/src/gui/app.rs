@@ -193,14 +193,15 @@ impl AggradeApp {
     /// Screen position of the middle of a bed's top boundary in the last frame drawn.
     pub fn bed_top_on_screen(&self, bed: aggrade_core::model::BedId) -> Option<egui::Pos2> {
         let t = self.canvas.last_transform?;
-        let b = self.cache.as_ref()?.strip.bed_boxes.get(self.doc.bed_index(bed)?)?;
+        let i = self.doc.bed_index(bed)?;
+        let b = self.cache.as_ref()?.strip.bed_boxes.iter().find(|b| b.bed_index == i)?;
         Some(t.pos(b.rect.x + b.rect.w / 2.0, b.rect.y))
     }
 
     /// Screen points per metre of section in the canvas.
     pub fn points_per_m(&self) -> Option<f32> {
         let c = self.cache.as_ref()?;
-        Some(self.canvas.zoom * c.strip.heights.mm_per_m as f32)
+        Some(self.canvas.zoom * c.strip.heights.mm_per_m() as f32)
     }
 
     /// Bring a height into view in the canvas.
@@ -706,7 +707,7 @@ impl AggradeApp {
         }
         if let (Some(dlg), Some(cache)) = (self.export.as_mut(), self.cache.as_ref()) {
             let section = self.doc.section().clone();
-            match dlg.ui(ctx, &section, &cache.interp, self.dialogs.as_mut()) {
+            match dlg.ui(ctx, &section, self.doc.revision, &cache.interp, self.dialogs.as_mut()) {
                 super::export_dialog::Outcome::Open => {}
                 super::export_dialog::Outcome::Closed => self.export = None,
                 super::export_dialog::Outcome::Done(msg) => {

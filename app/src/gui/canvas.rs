@@ -79,11 +79,17 @@ pub fn ruler_step(points_per_unit: f32, min_pt: f32) -> f64 {
     2000.0
 }
 
-/// Index of the bed box containing strip y (mm); boxes come in bed order, base first.
-fn bed_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
+/// Position in `strip.bed_boxes` of the box containing strip y (mm); boxes come base first, so
+/// their y falls as the index grows.
+fn box_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
     let i = strip.bed_boxes.partition_point(|b| b.rect.y > y_mm);
     let b = strip.bed_boxes.get(i)?;
     (y_mm <= b.rect.y + b.rect.h).then_some(i)
+}
+
+/// Index in the section of the bed drawn at strip y (mm).
+fn bed_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
+    box_at_y(strip, y_mm).map(|k| strip.bed_boxes[k].bed_index)
 }
 
 impl Canvas {
@@ -108,7 +114,7 @@ impl Canvas {
     ) {
         let (rect, response) = ui.allocate_exact_size(ui.available_size(), Sense::click_and_drag());
         let painter = ui.painter_at(rect);
-        let mm_per_m = strip.heights.mm_per_m;
+        let mm_per_m = strip.heights.mm_per_m();
         if !self.fitted && strip.width_mm > 0.0 {
             // First frame: fit the strip's width into the view, and show the top of the section.
             let avail = rect.width() - RULER_W - 40.0;
@@ -118,7 +124,7 @@ impl Canvas {
         let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
 
         // Keep the part below a dragged bed still while the section grows or shrinks above it.
-        let total = strip.heights.top_height_m;
+        let total = doc.section().total_thickness_m();
         if let (Some(last), Some(DragKind::Top { .. })) = (self.last_total_m, self.drag) {
             self.top_mm += (total - last) * mm_per_m;
         }
@@ -179,7 +185,7 @@ impl Canvas {
 
         // Selection.
         let sel_index = doc.selected_bed.and_then(|id| doc.bed_index(id));
-        if let Some(b) = sel_index.and_then(|i| strip.bed_boxes.get(i)) {
+        if let Some(b) = sel_index.and_then(|i| strip.bed_boxes.iter().find(|b| b.bed_index == i)) {
             let r = Rect::from_min_max(
                 t.pos(b.rect.x, b.rect.y),
                 t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h),
@@ -194,7 +200,7 @@ impl Canvas {
         }
 
         self.draw_header(&painter, rect, strip, &t);
-        self.draw_ruler(&painter, rect, doc.section().display_unit, strip, &t);
+        self.draw_ruler(&painter, rect, doc.section().display_unit, total, strip, &t);
 
         // Interaction.
         let pointer = response.hover_pos().or(response.interact_pointer_pos());
@@ -267,8 +273,9 @@ impl Canvas {
     fn grab_target(&self, p: Pos2, strip: &Strip, beds: &[Bed], t: &MmToScreen) -> Option<DragKind> {
         let y = t.y_mm(p.y);
         let x = t.x_mm(p.x);
-        let i = bed_at_y(strip, y)?;
-        let b = strip.bed_boxes.get(i)?;
+        let k = box_at_y(strip, y)?;
+        let b = strip.bed_boxes.get(k)?;
+        let i = b.bed_index;
         let top_screen = t.pos(0.0, b.rect.y).y;
         let base_screen = t.pos(0.0, b.rect.y + b.rect.h).y;
         let right = t.pos(b.rect.x + b.rect.w, 0.0).x;
@@ -278,8 +285,8 @@ impl Canvas {
             let bed = beds.get(i)?;
             return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
         }
-        if in_column && (p.y - base_screen).abs() <= GRAB_PT && i > 0 {
-            let bed = beds.get(i - 1)?;
+        if in_column && (p.y - base_screen).abs() <= GRAB_PT && k > 0 {
+            let bed = beds.get(strip.bed_boxes[k - 1].bed_index)?;
             return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
         }
         let bed = beds.get(i)?;
@@ -297,7 +304,7 @@ impl Canvas {
         let font = egui::FontId::proportional(10.5);
         let mut last_x = f32::NEG_INFINITY;
         for c in WentworthClass::ALL {
-            let x = t.pos(strip.grain_scale.x_mm(c.midpoint_phi()), 0.0).x;
+            let x = t.pos(strip.grain_scale.class_centre_x_mm(c), 0.0).x;
             painter.line_segment(
                 [Pos2::new(x, bar.bottom() - 5.0), Pos2::new(x, bar.bottom())],
                 egui::Stroke::new(1.0, theme::TEXT_DIM),
@@ -327,6 +334,7 @@ impl Canvas {
         painter: &egui::Painter,
         rect: Rect,
         unit: LengthUnit,
+        total_m: f64,
         strip: &Strip,
         t: &MmToScreen,
     ) {
@@ -337,11 +345,11 @@ impl Canvas {
         painter.rect_filled(bar, 0.0, theme::PANEL_BG);
         painter.line_segment([bar.right_top(), bar.right_bottom()], egui::Stroke::new(1.0, theme::RULE_LINE));
         let unit_m = unit.metres();
-        let points_per_unit = (strip.heights.mm_per_m * unit_m) as f32 * t.zoom;
+        let points_per_unit = (strip.heights.mm_per_m() * unit_m) as f32 * t.zoom;
         let step = ruler_step(points_per_unit, 36.0);
         let h_top = strip.heights.height_m(t.y_mm(bar.top())) / unit_m;
         let h_bot = strip.heights.height_m(t.y_mm(bar.bottom())) / unit_m;
-        let total_u = strip.heights.top_height_m / unit_m;
+        let total_u = total_m / unit_m;
         let first = (h_bot.max(0.0) / step).floor() as i64;
         let last = (h_top.min(total_u) / step).ceil() as i64;
         let font = egui::FontId::monospace(10.5);

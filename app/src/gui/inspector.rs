@@ -19,8 +19,10 @@ pub struct Inspector {
     problem: Option<String>,
 }
 
+/// A labelled drop-down (the label is tied to it for screen readers and tests).
 fn combo<T: Copy + PartialEq>(
     ui: &mut egui::Ui,
+    label: egui::Id,
     id: &str,
     value: &mut T,
     all: &[T],
@@ -37,6 +39,7 @@ fn combo<T: Copy + PartialEq>(
             }
         })
         .response
+        .labelled_by(label)
         .on_hover_text(tip);
     changed
 }
@@ -96,8 +99,8 @@ impl Inspector {
                 }
                 ui.end_row();
 
-                ui.label("Lithology");
-                combo(ui, "lith", &mut bed.lithology, &Lithology::ALL, |l| l.name(), "Rock type of the bed");
+                let label = ui.label("Lithology").id;
+                combo(ui, label, "lith", &mut bed.lithology, &Lithology::ALL, |l| l.name(), "Rock type of the bed");
                 ui.end_row();
 
                 for (label, buf, is_top) in [("Grain at base", 0, false), ("Grain at top", 1, true)] {
@@ -124,8 +127,8 @@ impl Inspector {
                     ui.end_row();
                 }
 
-                ui.label("Basal contact");
-                combo(ui, "contact", &mut bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
+                let label = ui.label("Basal contact").id;
+                combo(ui, label, "contact", &mut bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
                 ui.end_row();
 
                 ui.label("Erosional relief");
@@ -144,8 +147,8 @@ impl Inspector {
                 });
                 ui.end_row();
 
-                ui.label("Paleosol");
-                combo(ui, "paleosol", &mut bed.paleosol, PaleosolDevelopment::ALL, |p| p.name(), "Degree of paleosol development");
+                let label = ui.label("Paleosol").id;
+                combo(ui, label, "paleosol", &mut bed.paleosol, PaleosolDevelopment::ALL, |p| p.name(), "Degree of paleosol development");
                 ui.end_row();
 
                 ui.label("Carbonate stage");
@@ -244,8 +247,8 @@ impl Inspector {
                         }
                     });
                     ui.horizontal(|ui| {
-                        ui.label("Kind");
-                        combo(ui, "surface_kind", &mut s.kind, SurfaceKind::ALL, |k| k.name(), "What kind of surface it is");
+                        let label = ui.label("Kind").id;
+                        combo(ui, label, "surface_kind", &mut s.kind, SurfaceKind::ALL, |k| k.name(), "What kind of surface it is");
                     });
                 }
             });

@@ -27,7 +27,7 @@ pub fn run(file: Option<PathBuf>) -> anyhow::Result<()> {
     let has_display =
         ["DISPLAY", "WAYLAND_DISPLAY"].iter().any(|v| std::env::var_os(v).is_some_and(|x| !x.is_empty()));
     if !has_display {
-        let out = std::env::temp_dir().join("aggrade-column.svg");
+        let out = std::env::temp_dir().join("aggrade-column.pdf");
         headless_fallback(file.as_deref(), &out)?;
         println!("No display found: wrote the interpreted column to {}", out.display());
         return Ok(());
@@ -56,8 +56,8 @@ pub fn run(file: Option<PathBuf>) -> anyhow::Result<()> {
     .map_err(|e| anyhow::anyhow!("cannot open the window: {e}"))
 }
 
-/// Without a display: interpret the file (or the demo) and write its column to `out`.
-/// Writes SVG through the window's stand-in layout until the core's layout and PDF writer land.
+/// Without a display: interpret the file (or the demo) and write its interpreted column as a
+/// PDF to `out` at 1:100 on A4.
 pub fn headless_fallback(file: Option<&Path>, out: &Path) -> anyhow::Result<()> {
     let project = match file {
         Some(p) => files::open(p).map_err(|e| anyhow::anyhow!(e))?.0,
@@ -68,8 +68,11 @@ pub fn headless_fallback(file: Option<&Path>, out: &Path) -> anyhow::Result<()> 
     };
     let section = project.sections.first().context("the project holds no section")?;
     let interp = engine::interpret(section, &engine::RuleParams::default());
-    let strip = engine::column_strip(section, &interp, &engine::LayoutOptions::default());
-    std::fs::write(out, engine::strip_svg(&strip))
-        .with_context(|| format!("cannot write {}", out.display()))?;
+    let now = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.as_secs() as i64)
+        .unwrap_or(0);
+    export_dialog::export_to(out, section, &interp, &engine::LayoutOptions::default(), now)
+        .map_err(|e| anyhow::anyhow!(e))?;
     Ok(())
 }

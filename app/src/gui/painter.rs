@@ -1,6 +1,7 @@
 //! Draws layout items (millimetres, y down) as egui shapes, only those in the visible range.
 
 use aggrade_core::layout::{Anchor, Item, PtMm, Rgba, Stroke};
+use egui::epaint::{Mesh, Vertex, WHITE_UV};
 use egui::{Color32, Pos2, Shape};
 
 /// Millimetres on the strip → screen points.
@@ -42,16 +43,8 @@ pub struct ItemIndex {
 
 /// The vertical extent of an item in mm.
 fn y_range(item: &Item) -> (f64, f64) {
-    let span = |pts: &[PtMm]| {
-        pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.y), hi.max(p.y)))
-    };
-    match item {
-        Item::Rect { rect, .. } => (rect.y, rect.y + rect.h),
-        Item::Polygon { points, .. } | Item::Polyline { points, .. } => span(points),
-        Item::Circle { center, radius_mm, .. } => (center.y - radius_mm, center.y + radius_mm),
-        // Text sits on its baseline; allow its height above it.
-        Item::Text { pos, size_pt, .. } => (pos.y - size_pt * 0.3528 * 1.2, pos.y + size_pt * 0.1),
-    }
+    let b = item.bounds();
+    (b.y, b.y + b.h)
 }
 
 impl ItemIndex {
@@ -116,6 +109,84 @@ fn line(points: Vec<Pos2>, s: &Stroke, zoom: f32, out: &mut Vec<Shape>) {
     }
 }
 
+/// Twice the signed area of a polygon (positive when counter-clockwise in y-down screen space).
+fn signed_area2(p: &[Pos2]) -> f32 {
+    let mut a = 0.0;
+    for i in 0..p.len() {
+        let (u, v) = (p[i], p[(i + 1) % p.len()]);
+        a += u.x * v.y - v.x * u.y;
+    }
+    a
+}
+
+/// Triangles of a simple polygon by ear clipping (bed outlines with scalloped bases are concave).
+pub fn triangulate(points: &[Pos2]) -> Vec<[usize; 3]> {
+    let n = points.len();
+    if n < 3 {
+        return Vec::new();
+    }
+    let orient = signed_area2(points).signum();
+    let cross = |a: Pos2, b: Pos2, c: Pos2| (b.x - a.x) * (c.y - a.y) - (b.y - a.y) * (c.x - a.x);
+    let mut idx: Vec<usize> = (0..n).collect();
+    let mut tris = Vec::with_capacity(n - 2);
+    let mut guard = 0;
+    while idx.len() > 3 && guard < n * n {
+        guard += 1;
+        let m = idx.len();
+        let mut clipped = false;
+        for k in 0..m {
+            let (ia, ib, ic) = (idx[(k + m - 1) % m], idx[k], idx[(k + 1) % m]);
+            let (a, b, c) = (points[ia], points[ib], points[ic]);
+            let turn = cross(a, b, c) * orient;
+            if turn <= 0.0 {
+                continue;
+            }
+            let inside = idx.iter().any(|&j| {
+                if j == ia || j == ib || j == ic {
+                    return false;
+                }
+                let p = points[j];
+                cross(a, b, p) * orient >= 0.0
+                    && cross(b, c, p) * orient >= 0.0
+                    && cross(c, a, p) * orient >= 0.0
+            });
+            if !inside {
+                tris.push([ia, ib, ic]);
+                idx.remove(k);
+                clipped = true;
+                break;
+            }
+        }
+        if !clipped {
+            break;
+        }
+    }
+    if idx.len() == 3 {
+        tris.push([idx[0], idx[1], idx[2]]);
+    } else if idx.len() > 3 {
+        // Degenerate (self-touching) remainder: fan it rather than drop it.
+        for k in 1..idx.len() - 1 {
+            tris.push([idx[0], idx[k], idx[k + 1]]);
+        }
+    }
+    tris
+}
+
+fn fill_polygon(pts: &[Pos2], c: Color32, out: &mut Vec<Shape>) {
+    if pts.len() <= 4 {
+        out.push(Shape::convex_polygon(pts.to_vec(), c, egui::Stroke::NONE));
+        return;
+    }
+    let mut mesh = Mesh::default();
+    for p in pts {
+        mesh.vertices.push(Vertex { pos: *p, uv: WHITE_UV, color: c });
+    }
+    for t in triangulate(pts) {
+        mesh.add_triangle(t[0] as u32, t[1] as u32, t[2] as u32);
+    }
+    out.push(Shape::mesh(mesh));
+}
+
 /// Shapes for the given items.
 pub fn shapes(items: &[Item], which: &[u32], t: &MmToScreen, out: &mut Vec<Shape>) {
     for &i in which {
@@ -134,7 +205,7 @@ pub fn shapes(items: &[Item], which: &[u32], t: &MmToScreen, out: &mut Vec<Shape
             Item::Polygon { points, fill, stroke: s } => {
                 let pts: Vec<Pos2> = points.iter().map(|p| t.pt(*p)).collect();
                 if let Some(f) = fill {
-                    out.push(Shape::convex_polygon(pts.clone(), color(*f), egui::Stroke::NONE));
+                    fill_polygon(&pts, color(*f), out);
                 }
                 if let Some(s) = s {
                     let mut closed = pts;
@@ -196,6 +267,17 @@ mod tests {
         assert_eq!(idx.visible(0.0, 5.0), vec![0, 2]);
         assert_eq!(idx.visible(290.0, 310.0), vec![2, 3]);
         assert_eq!(idx.visible(550.0, 590.0), Vec::<u32>::new());
+    }
+
+    #[test]
+    fn ear_clipping_covers_a_concave_outline_exactly() {
+        // An L shape of area 3 (three unit squares); triangles must add up to it.
+        let l = [(0.0, 0.0), (2.0, 0.0), (2.0, 1.0), (1.0, 1.0), (1.0, 2.0), (0.0, 2.0)]
+            .map(|(x, y)| Pos2::new(x, y));
+        let tris = triangulate(&l);
+        assert_eq!(tris.len(), 4);
+        let area: f32 = tris.iter().map(|t| signed_area2(&[l[t[0]], l[t[1]], l[t[2]]]).abs() / 2.0).sum();
+        assert!((area - 3.0).abs() < 1e-5, "{area}");
     }
 
     #[test]

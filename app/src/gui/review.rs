@@ -6,7 +6,7 @@ use super::document::{Document, Edit};
 use super::engine::RuleParams;
 use super::table::show_length;
 use super::theme;
-use aggrade_core::model::ReviewState;
+use aggrade_core::model::{PaleosolDevelopment, ReviewState};
 use aggrade_core::rules::{CandidateKind, Interpretation};
 
 fn kind_name(k: CandidateKind) -> &'static str {
@@ -123,6 +123,11 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
     });
 }
 
+/// A paleosol development term in its serialised form.
+fn paleosol_term(text: &str) -> Option<PaleosolDevelopment> {
+    serde_json::from_value(serde_json::Value::String(text.to_string())).ok()
+}
+
 /// Edit any parameter struct field by field through its serde form: numbers as drag values,
 /// switches as check boxes. Returns true when something changed.
 pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
@@ -135,6 +140,18 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
         for (name, value) in map.iter_mut() {
             let label = name.replace('_', " ");
             match value {
+                serde_json::Value::Number(n) if n.is_u64() => {
+                    let mut v = n.as_u64().unwrap_or(0);
+                    ui.label(label);
+                    let r = ui
+                        .add(egui::DragValue::new(&mut v).speed(0.1).range(0..=100))
+                        .on_hover_text(format!("Rule parameter `{name}`"));
+                    if r.changed() {
+                        *value = serde_json::Value::Number(v.into());
+                        changed = true;
+                    }
+                    ui.end_row();
+                }
                 serde_json::Value::Number(n) => {
                     let mut v = n.as_f64().unwrap_or(0.0);
                     ui.label(label);
@@ -147,6 +164,25 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
                             changed = true;
                         }
                     }
+                    ui.end_row();
+                }
+                serde_json::Value::String(text) if paleosol_term(text).is_some() => {
+                    ui.label(label);
+                    let current = paleosol_term(text).map(|p| p.name()).unwrap_or("?");
+                    egui::ComboBox::from_id_salt(name.as_str())
+                        .selected_text(current)
+                        .show_ui(ui, |ui| {
+                            for p in PaleosolDevelopment::ALL {
+                                if let Ok(serde_json::Value::String(v)) = serde_json::to_value(p) {
+                                    if ui.selectable_label(*text == v, p.name()).clicked() {
+                                        *text = v;
+                                        changed = true;
+                                    }
+                                }
+                            }
+                        })
+                        .response
+                        .on_hover_text(format!("Rule parameter `{name}`"));
                     ui.end_row();
                 }
                 serde_json::Value::Bool(b) => {

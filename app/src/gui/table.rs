@@ -186,54 +186,79 @@ impl BedTable {
         let font = egui::FontId::proportional(11.5);
         for (k, name) in header.iter().enumerate() {
             let numeric = (1..=2).contains(&k);
-            let x = if numeric { hrect.left() + cols[k + 1] * hrect.width() - 8.0 } else { hrect.left() + cols[k] * hrect.width() + 4.0 };
+            let x = if numeric {
+                hrect.left() + cols[k + 1] * hrect.width() - 8.0
+            } else {
+                hrect.left() + cols[k] * hrect.width() + 4.0
+            };
             let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
             ui.painter().text(egui::pos2(x, hrect.center().y), align, *name, font.clone(), theme::TEXT_DIM);
         }
-        egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).show_rows(ui, row_h, n, |ui, range| {
-            for row in range {
-                // Top of the section first.
-                let i = n - 1 - row;
-                let b = &s.beds[i];
-                let selected = doc.selected_bed == Some(b.id);
-                let top = heights[i] + b.thickness_m;
-                let grain = match (b.grain_base, b.grain_top) {
-                    (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
-                    (Some(a), _) => short(a),
-                    (None, _) => "—".into(),
-                };
-                let (rect, r) = ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
-                let bg = if selected {
-                    theme::SELECT_FILL
-                } else if r.hovered() {
-                    egui::Color32::from_gray(234)
-                } else if row % 2 == 1 {
-                    egui::Color32::from_gray(241)
-                } else {
-                    egui::Color32::TRANSPARENT
-                };
-                let p = ui.painter();
-                p.rect_filled(rect, 2.0, bg);
-                if selected {
-                    p.rect_filled(egui::Rect::from_min_size(rect.min, egui::vec2(3.0, rect.height())), 0.0, theme::ACCENT);
+        egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).show_rows(
+            ui,
+            row_h,
+            n,
+            |ui, range| {
+                for row in range {
+                    // Top of the section first.
+                    let i = n - 1 - row;
+                    let b = &s.beds[i];
+                    let selected = doc.selected_bed == Some(b.id);
+                    let top = heights[i] + b.thickness_m;
+                    let grain = match (b.grain_base, b.grain_top) {
+                        (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
+                        (Some(a), _) => short(a),
+                        (None, _) => "—".into(),
+                    };
+                    let (rect, r) =
+                        ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
+                    let bg = if selected {
+                        theme::SELECT_FILL
+                    } else if r.hovered() {
+                        egui::Color32::from_gray(234)
+                    } else if row % 2 == 1 {
+                        egui::Color32::from_gray(241)
+                    } else {
+                        egui::Color32::TRANSPARENT
+                    };
+                    let p = ui.painter();
+                    p.rect_filled(rect, 2.0, bg);
+                    if selected {
+                        p.rect_filled(
+                            egui::Rect::from_min_size(rect.min, egui::vec2(3.0, rect.height())),
+                            0.0,
+                            theme::ACCENT,
+                        );
+                    }
+                    let cells = [
+                        format!("{}", i + 1),
+                        show_length(top, unit),
+                        show_length(b.thickness_m, unit),
+                        b.lithology.name().to_string(),
+                        grain,
+                    ];
+                    for (k, text) in cells.into_iter().enumerate() {
+                        let numeric = (1..=2).contains(&k);
+                        let x = if numeric {
+                            rect.left() + cols[k + 1] * rect.width() - 8.0
+                        } else {
+                            rect.left() + cols[k] * rect.width() + 4.0
+                        };
+                        let align =
+                            if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
+                        let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
+                        p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
+                    }
+                    let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
+                    if r.clicked() {
+                        out.select = Some(Some(b.id));
+                        out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
+                    }
+                    let id = b.id;
+                    r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
                 }
-                let cells = [format!("{}", i + 1), show_length(top, unit), show_length(b.thickness_m, unit), b.lithology.name().to_string(), grain];
-                for (k, text) in cells.into_iter().enumerate() {
-                    let numeric = (1..=2).contains(&k);
-                    let x = if numeric { rect.left() + cols[k + 1] * rect.width() - 8.0 } else { rect.left() + cols[k] * rect.width() + 4.0 };
-                    let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
-                    let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
-                    p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
-                }
-                let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
-                if r.clicked() {
-                    out.select = Some(Some(b.id));
-                    out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
-                }
-                let id = b.id;
-                r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
-            }
-        });
+            },
+        );
     }
 }
 
