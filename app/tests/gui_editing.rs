@@ -217,3 +217,73 @@ fn closing_with_unsaved_changes_asks_first() {
     assert!(h.query_by_label("Save changes?").is_none());
     assert!(h.state().doc.dirty, "nothing was lost or saved");
 }
+
+#[test]
+fn clicking_the_column_selects_the_bed_at_that_height() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    let beds = h.state().doc.section().beds.clone();
+    let n = beds.len();
+    let target = beds[n - 2].clone();
+    let top = h.state().bed_top_on_screen(target.id).expect("bed drawn");
+    let ppm = h.state().points_per_m().expect("laid out");
+    // Inside the bed, clear of its grab zones; once on the column, once out on the tracks.
+    let inside = top + egui::vec2(-2.0, (target.thickness_m as f32 * ppm / 2.0).max(6.0));
+    for pos in [inside, inside + egui::vec2(180.0, 0.0)] {
+        h.state_mut().doc.selected_bed = None;
+        h.hover_at(pos);
+        h.run();
+        h.event(egui::Event::PointerButton {
+            pos,
+            button: egui::PointerButton::Primary,
+            pressed: true,
+            modifiers: Modifiers::NONE,
+        });
+        h.run();
+        h.event(egui::Event::PointerButton {
+            pos,
+            button: egui::PointerButton::Primary,
+            pressed: false,
+            modifiers: Modifiers::NONE,
+        });
+        h.run();
+        assert_eq!(h.state().doc.selected_bed, Some(target.id), "click at {pos:?}");
+    }
+}
+
+#[test]
+fn a_5000_bed_section_draws_only_what_is_visible_while_scrolling_and_zooming() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let path = data.path().join("long.aggrade");
+    aggrade::gui::files::save(&path, &Project::new(vec![demo::long_section(5_000)])).expect("written");
+    let mut h = harness(app(Some(path), data.path(), vec![]));
+    h.run();
+    assert_eq!(h.state().doc.section().beds.len(), 5_000);
+    let centre = egui::pos2(700.0, 450.0);
+    h.hover_at(centre);
+    h.run();
+    for k in 0..20 {
+        h.event(egui::Event::MouseWheel {
+            unit: egui::MouseWheelUnit::Point,
+            delta: egui::vec2(0.0, -400.0),
+            modifiers: Modifiers::NONE,
+            phase: egui::TouchPhase::Move,
+            source: egui::MouseWheelSource::Wheel,
+        });
+        if k % 5 == 0 {
+            h.key_press(Key::Minus);
+        }
+        h.run();
+        let (drawn, total) = h.state().drawn_items();
+        assert!(drawn > 0, "nothing drawn at step {k}");
+        assert!(drawn * 20 < total, "step {k}: drew {drawn} of {total} items");
+    }
+    // Zoomed far out the whole column fits; culling still holds items to the view.
+    for _ in 0..6 {
+        h.key_press(Key::Plus);
+        h.run();
+    }
+    let (drawn, total) = h.state().drawn_items();
+    assert!(drawn > 0 && drawn < total, "{drawn} of {total}");
+}

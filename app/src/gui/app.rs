@@ -204,6 +204,11 @@ impl AggradeApp {
         Some(self.canvas.zoom * c.strip.heights.mm_per_m() as f32)
     }
 
+    /// Items drawn in the last frame, and items in the whole laid-out column.
+    pub fn drawn_items(&self) -> (usize, usize) {
+        (self.canvas.last_drawn_items, self.cache.as_ref().map(|c| c.strip.items.len()).unwrap_or(0))
+    }
+
     /// Bring a height into view in the canvas.
     pub fn scroll_canvas_to(&mut self, height_m: f64) {
         self.canvas.scroll_to_height(height_m);

@@ -37,6 +37,8 @@ pub struct Canvas {
     pending_scroll_m: Option<f64>,
     /// Shapes reused between frames (avoids reallocating).
     shapes: Vec<Shape>,
+    /// How many layout items the last frame drew (culling keeps this to the visible range).
+    pub last_drawn_items: usize,
     /// The strip → screen transform of the last frame (for hit tests from outside).
     pub last_transform: Option<MmToScreen>,
     fitted: bool,
@@ -52,6 +54,7 @@ impl Default for Canvas {
             last_total_m: None,
             pending_scroll_m: None,
             shapes: Vec::new(),
+            last_drawn_items: 0,
             last_transform: None,
             fitted: false,
         }
@@ -178,6 +181,7 @@ impl Canvas {
         let lo = self.top_mm - 5.0;
         let hi = self.top_mm + view_h_mm + 5.0;
         let which = index.visible(lo, hi);
+        self.last_drawn_items = which.len();
         self.shapes.clear();
         painter::shapes(&strip.items, &which, &t, &mut self.shapes);
         painter.extend(self.shapes.drain(..));

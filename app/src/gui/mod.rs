@@ -34,7 +34,7 @@ pub fn run(file: Option<PathBuf>) -> anyhow::Result<()> {
     }
     let options = eframe::NativeOptions {
         viewport: egui::ViewportBuilder::default()
-            .with_inner_size([1400.0, 880.0])
+            .with_inner_size([1400.0, 900.0])
             .with_min_inner_size([900.0, 560.0])
             .with_app_id("aggrade"),
         ..Default::default()

@@ -2,6 +2,7 @@
 //! histogram of channel-body thicknesses.
 
 use super::document::Document;
+use super::theme;
 use aggrade_core::rules::Interpretation;
 use egui_plot::{Bar, BarChart, Legend, Line, Plot, PlotPoints};
 
@@ -33,7 +34,9 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation) {
         .x_axis_label("proportion")
         .y_axis_label("height (m)")
         .allow_scroll(false)
-        .show(ui, |p| p.line(Line::new("proportion", PlotPoints::from(curve))));
+        .show(ui, |p| {
+            p.line(Line::new("proportion", PlotPoints::from(curve)).color(theme::ACCENT).width(1.5))
+        });
     ui.label("Grain size vs height");
     let s = doc.section();
     let base = s.base_heights_m();
@@ -49,7 +52,9 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation) {
         .x_axis_label("phi (coarser to the left)")
         .y_axis_label("height (m)")
         .allow_scroll(false)
-        .show(ui, |p| p.line(Line::new("grain size (φ)", PlotPoints::from(pts))));
+        .show(ui, |p| {
+            p.line(Line::new("grain size (φ)", PlotPoints::from(pts)).color(theme::WARN).width(1.2))
+        });
     ui.label("Channel-body thicknesses");
     let th: Vec<f64> = interp.channel_bodies.iter().map(|b| b.thickness_m).collect();
     let (w, bins) = histogram(&th);
@@ -60,7 +65,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation) {
         .x_axis_label("thickness (m)")
         .y_axis_label("bodies")
         .allow_scroll(false)
-        .show(ui, |p| p.bar_chart(BarChart::new("bodies", bars)));
+        .show(ui, |p| p.bar_chart(BarChart::new("bodies", bars).color(theme::ACCENT)));
 }
 
 #[cfg(test)]

@@ -9,6 +9,9 @@ use super::theme;
 use aggrade_core::model::{PaleosolDevelopment, ReviewState};
 use aggrade_core::rules::{CandidateKind, Interpretation};
 
+/// How many candidates are listed at a time.
+const REVIEW_PAGE: usize = 25;
+
 fn kind_name(k: CandidateKind) -> &'static str {
     match k {
         CandidateKind::ChannelBodyBase => "channel-body base",
@@ -38,8 +41,12 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
     if interp.sequence_boundary_candidates.is_empty() {
         ui.label("No candidates: no erosional channel-body base or strongly developed paleosol was found.");
     }
+    // Long sections can have hundreds of candidates: list the best ones, more on request.
+    let shown_id = egui::Id::unique("review_shown");
+    let shown = ui.data(|d| d.get_temp::<usize>(shown_id)).unwrap_or(REVIEW_PAGE);
+    let total = interp.sequence_boundary_candidates.len();
     egui::ScrollArea::vertical().id_salt("review_list").show(ui, |ui| {
-        for (rank, c) in interp.sequence_boundary_candidates.iter().enumerate() {
+        for (rank, c) in interp.sequence_boundary_candidates.iter().enumerate().take(shown) {
             let (badge, colour) = match c.review {
                 ReviewState::Candidate => ("open", theme::WARN),
                 ReviewState::Accepted => ("accepted", theme::ACCEPTED),
@@ -62,12 +69,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                         ui.label(egui::RichText::new(badge).color(colour).strong());
                     });
                 });
-                ui.add(
-                    egui::ProgressBar::new(c.score as f32)
-                        .desired_height(8.0)
-                        .text(format!("score {:.2}", c.score)),
-                )
-                .on_hover_text("Weighted evidence, 0–1");
+                score_bar(ui, c.score);
                 for e in &c.evidence {
                     ui.label(format!("• {e}"));
                 }
@@ -120,6 +122,33 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
             });
             ui.add_space(4.0);
         }
+        if total > shown {
+            let more = ui
+                .button(format!(
+                    "Show {} more of {} candidates",
+                    REVIEW_PAGE.min(total - shown),
+                    total - shown
+                ))
+                .on_hover_text("List further, lower-scoring candidates");
+            if more.clicked() {
+                ui.data_mut(|d| d.insert_temp(shown_id, shown + REVIEW_PAGE));
+            }
+        }
+    });
+}
+
+/// The score as a number and a thin bar.
+fn score_bar(ui: &mut egui::Ui, score: f64) {
+    ui.horizontal(|ui| {
+        ui.label(egui::RichText::new(format!("score {score:.2}")).small().strong());
+        let (rect, r) =
+            ui.allocate_exact_size(egui::vec2(ui.available_width().min(200.0), 6.0), egui::Sense::hover());
+        let p = ui.painter();
+        p.rect_filled(rect, 3.0, egui::Color32::from_gray(225));
+        let mut fill = rect;
+        fill.set_width(rect.width() * score.clamp(0.0, 1.0) as f32);
+        p.rect_filled(fill, 3.0, theme::ACCENT);
+        r.on_hover_text("Weighted evidence, 0–1");
     });
 }
 

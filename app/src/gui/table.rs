@@ -85,7 +85,7 @@ impl BedTable {
                 egui::TextEdit::singleline(&mut self.thickness)
                     .id_salt("entry_thickness")
                     .hint_text(format!("thickness ({})", unit.name()))
-                    .desired_width(w * 0.26),
+                    .desired_width(w * 0.31),
             );
             let r = r.on_hover_text("Thickness in the section's unit; add cm, m or ft to type another unit");
             if self.focus_thickness {
@@ -98,7 +98,7 @@ impl BedTable {
                     egui::TextEdit::singleline(&mut self.lithology)
                         .id_salt("entry_lithology")
                         .hint_text("lithology")
-                        .desired_width(w * 0.30),
+                        .desired_width(w * 0.27),
                 )
                 .on_hover_text(
                     "First letters of a lithology: sa = sandstone, mu = mudstone, co = conglomerate…",
@@ -109,7 +109,7 @@ impl BedTable {
                     egui::TextEdit::singleline(&mut self.grain)
                         .id_salt("entry_grain")
                         .hint_text("grain")
-                        .desired_width(w * 0.22),
+                        .desired_width(w * 0.18),
                 )
                 .on_hover_text("Grain size: vf, f, m, c, vc, si, cl, gr, pb…, a class name, or 0.3mm / 2phi");
             enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));

@@ -3,7 +3,8 @@
 use egui::Color32;
 
 pub const ACCENT: Color32 = Color32::from_rgb(22, 120, 128);
-pub const SELECT_FILL: Color32 = Color32::from_rgba_premultiplied(22, 120, 128, 40);
+/// The accent at about 16 % opacity (premultiplied).
+pub const SELECT_FILL: Color32 = Color32::from_rgba_premultiplied(3, 19, 20, 40);
 pub const CANVAS_BG: Color32 = Color32::from_rgb(226, 229, 231);
 pub const PANEL_BG: Color32 = Color32::from_rgb(246, 246, 244);
 pub const RULE_LINE: Color32 = Color32::from_rgb(200, 203, 206);
@@ -33,6 +34,7 @@ pub fn apply(ctx: &egui::Context) {
         s.spacing.item_spacing = egui::vec2(7.0, 5.0);
         s.spacing.button_padding = egui::vec2(7.0, 3.0);
         s.visuals.selection.bg_fill = ACCENT;
+        s.visuals.selection.stroke = egui::Stroke::new(1.0, Color32::WHITE);
         s.visuals.hyperlink_color = ACCENT;
         s.visuals.panel_fill = PANEL_BG;
         s.visuals.window_corner_radius = egui::CornerRadius::same(6);
