@@ -287,3 +287,80 @@ fn a_5000_bed_section_draws_only_what_is_visible_while_scrolling_and_zooming() {
     let (drawn, total) = h.state().drawn_items();
     assert!(drawn > 0 && drawn < total, "{drawn} of {total}");
 }
+
+#[test]
+fn dragging_a_beds_right_edge_snaps_its_grain_size_to_a_wentworth_class() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    // The topmost sandstone with one grain size base to top, in view at start.
+    let beds = h.state().doc.section().beds.clone();
+    let bed = beds
+        .iter()
+        .rev()
+        .find(|b| b.lithology == Lithology::Sandstone && b.thickness_m > 0.3)
+        .expect("a sandstone")
+        .clone();
+    let base = h.state().doc.section().base_heights_m()[h.state().doc.bed_index(bed.id).expect("index")];
+    h.state_mut().scroll_canvas_to(base + bed.thickness_m / 2.0);
+    h.run();
+    let r = h.state().bed_rect_on_screen(bed.id).expect("drawn");
+    // Grab the right edge of the bed's box half-way up (the box spans the wider of base and top).
+    let start = egui::pos2(r.right(), r.center().y);
+    for (class, expect) in
+        [(WentworthClass::Pebble, WentworthClass::Pebble), (WentworthClass::Silt, WentworthClass::Silt)]
+    {
+        let r = h.state().bed_rect_on_screen(bed.id).expect("drawn");
+        let start = egui::pos2(r.right(), start.y);
+        let x = h.state().class_x_on_screen(class).expect("scale");
+        h.hover_at(start);
+        h.run();
+        h.drag_at(start);
+        h.run();
+        for k in 1..=4 {
+            h.hover_at(egui::pos2(start.x + (x - start.x) * k as f32 / 4.0, start.y));
+            h.run();
+        }
+        h.drop_at(egui::pos2(x, start.y));
+        h.run();
+        let now = h.state().doc.section().beds.iter().find(|b| b.id == bed.id).expect("still there").clone();
+        assert_eq!(now.grain_base, Some(GrainSize::Class(expect)), "drag to {class:?}");
+        assert_eq!(now.grain_top, Some(GrainSize::Class(expect)));
+    }
+}
+
+#[test]
+fn right_click_menu_splits_and_deletes_beds() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    let n = h.state().doc.section().beds.len();
+    let bed = h.state().doc.section().beds[n - 1].clone();
+    let r = h.state().bed_rect_on_screen(bed.id).expect("drawn");
+    let pos = egui::pos2(r.center().x, r.center().y);
+    let total = h.state().doc.section().total_thickness_m();
+    h.hover_at(pos);
+    h.run();
+    h.event(egui::Event::PointerButton {
+        pos,
+        button: egui::PointerButton::Secondary,
+        pressed: true,
+        modifiers: Modifiers::NONE,
+    });
+    h.event(egui::Event::PointerButton {
+        pos,
+        button: egui::PointerButton::Secondary,
+        pressed: false,
+        modifiers: Modifiers::NONE,
+    });
+    h.run();
+    h.get_by_label("Split in two").click();
+    h.run();
+    let s = h.state().doc.section();
+    assert_eq!(s.beds.len(), n + 1);
+    assert!((s.beds[n - 1].thickness_m - bed.thickness_m / 2.0).abs() < 1e-12);
+    assert!((s.total_thickness_m() - total).abs() < 1e-9, "splitting keeps the section's thickness");
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    assert_eq!(h.state().doc.section().beds.len(), n, "undo joins the halves again");
+}

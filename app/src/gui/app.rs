@@ -198,6 +198,23 @@ impl AggradeApp {
         Some(t.pos(b.rect.x + b.rect.w / 2.0, b.rect.y))
     }
 
+    /// Screen rectangle of a bed's box in the last frame drawn.
+    pub fn bed_rect_on_screen(&self, bed: aggrade_core::model::BedId) -> Option<egui::Rect> {
+        let t = self.canvas.last_transform?;
+        let i = self.doc.bed_index(bed)?;
+        let b = self.cache.as_ref()?.strip.bed_boxes.iter().find(|b| b.bed_index == i)?;
+        Some(egui::Rect::from_min_max(
+            t.pos(b.rect.x, b.rect.y),
+            t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h),
+        ))
+    }
+
+    /// Screen x of the middle of a Wentworth class on the column's grain-size scale.
+    pub fn class_x_on_screen(&self, class: aggrade_core::model::WentworthClass) -> Option<f32> {
+        let t = self.canvas.last_transform?;
+        Some(t.pos(self.cache.as_ref()?.strip.grain_scale.class_centre_x_mm(class), 0.0).x)
+    }
+
     /// Screen points per metre of section in the canvas.
     pub fn points_per_m(&self) -> Option<f32> {
         let c = self.cache.as_ref()?;
