@@ -236,10 +236,13 @@ pub fn shapes(items: &[Item], which: &[u32], t: &MmToScreen, out: &mut Vec<Shape
 pub fn texts(items: &[Item], which: &[u32], t: &MmToScreen, painter: &egui::Painter) {
     for &i in which {
         if let Some(Item::Text { pos, text, size_pt, color: c, anchor, .. }) = items.get(i as usize) {
-            let size = (*size_pt as f32 * 0.3528 * t.zoom).clamp(6.0, 28.0);
-            if size * 1.0 < 6.5 && t.zoom < 1.0 {
+            // Text height in points at this zoom (1 pt of type = 0.3528 mm); too small to read is
+            // left out rather than drawn as a smudge.
+            let raw = *size_pt as f32 * 0.3528 * t.zoom;
+            if raw < 3.5 {
                 continue;
             }
+            let size = raw.clamp(6.0, 28.0);
             let align = match anchor {
                 Anchor::Start => egui::Align2::LEFT_BOTTOM,
                 Anchor::Middle => egui::Align2::CENTER_BOTTOM,
