@@ -19,16 +19,10 @@ pub enum Outcome {
 }
 
 /// Dialog state.
-#[derive(Debug)]
+#[derive(Debug, Default)]
 pub struct ExportDialog {
     pub options: LayoutOptions,
     preview: Option<(LayoutOptions, u64, Vec<Page>)>,
-}
-
-impl Default for ExportDialog {
-    fn default() -> Self {
-        ExportDialog { options: LayoutOptions::default(), preview: None }
-    }
 }
 
 /// A civil date (YYYY-MM-DD, UTC) from seconds since 1970 (days-from-civil inverse, proleptic
