@@ -364,3 +364,40 @@ fn right_click_menu_splits_and_deletes_beds() {
     h.run();
     assert_eq!(h.state().doc.section().beds.len(), n, "undo joins the halves again");
 }
+
+#[derive(Debug)]
+struct Dropped(PathBuf);
+
+impl egui::DroppedFile for Dropped {
+    fn path(&self) -> &Path {
+        &self.0
+    }
+    fn bytes(&self) -> Result<Vec<u8>, String> {
+        std::fs::read(&self.0).map_err(|e| e.to_string())
+    }
+}
+
+#[test]
+fn dropping_a_csv_imports_it_and_dropping_a_project_opens_it() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let samples = Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections");
+    let mut a = app(None, data.path(), vec![]);
+    a.doc = Document::new(Project::new(vec![Section::new("Scratch")]), None);
+    let mut h = harness(a);
+    h.run();
+    let csv = samples.join("sedge_creek.csv");
+    let expected = aggrade_core::io::load(&csv).expect("sample readable").project.sections[0].clone();
+    h.input_mut().dropped_files.push(std::sync::Arc::new(Dropped(csv)));
+    h.run();
+    assert_eq!(h.state().doc.project.sections.len(), 2, "the CSV became a second section");
+    assert_eq!(h.state().doc.section().beds, expected.beds);
+    // Dropping a project onto unsaved work asks first; "Don't save" opens it.
+    let project = samples.join("demo.aggrade");
+    h.input_mut().dropped_files.push(std::sync::Arc::new(Dropped(project.clone())));
+    h.run();
+    h.get_by_label("Don't save").click();
+    h.run();
+    let expected = aggrade_core::io::load(&project).expect("demo readable").project;
+    assert_eq!(h.state().doc.project, expected);
+    assert_eq!(h.state().doc.path.as_deref(), Some(project.as_path()));
+}
