@@ -401,3 +401,27 @@ fn dropping_a_csv_imports_it_and_dropping_a_project_opens_it() {
     assert_eq!(h.state().doc.project, expected);
     assert_eq!(h.state().doc.path.as_deref(), Some(project.as_path()));
 }
+
+#[test]
+fn arrow_keys_move_the_selection_and_delete_removes_the_bed() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    let beds = h.state().doc.section().beds.clone();
+    let n = beds.len();
+    h.key_press(Key::ArrowUp);
+    h.run();
+    assert_eq!(h.state().doc.selected_bed, Some(beds[n - 1].id), "first press selects the top bed");
+    h.key_press(Key::ArrowDown);
+    h.key_press(Key::ArrowDown);
+    h.run();
+    assert_eq!(h.state().doc.selected_bed, Some(beds[n - 3].id));
+    h.key_press(Key::Delete);
+    h.run();
+    let ids: Vec<_> = h.state().doc.section().beds.iter().map(|b| b.id).collect();
+    assert_eq!(ids.len(), n - 1);
+    assert!(!ids.contains(&beds[n - 3].id));
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    assert_eq!(h.state().doc.section().beds, beds, "undo restores the deleted bed in place");
+}

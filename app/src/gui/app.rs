@@ -416,7 +416,7 @@ impl AggradeApp {
         self.refresh();
 
         let mut actions = Actions::default();
-        self.menu_bar(ui, &ctx);
+        self.menu_bar(ui, &ctx, &mut actions);
         self.status_bar(ui);
         self.left_panel(ui, &mut actions);
         self.right_panel(ui, &mut actions);
@@ -469,6 +469,34 @@ impl AggradeApp {
                 self.guard(Pending::Open(p), ctx);
             }
         }
+        // Bed navigation and deletion from the keyboard when no text field has the focus.
+        if ctx.memory(|m| m.focused().is_none()) && self.confirm.is_none() && self.message.is_none() {
+            let (up, down, del) = ctx.input_mut(|i| {
+                (
+                    i.consume_key(Modifiers::NONE, Key::ArrowUp),
+                    i.consume_key(Modifiers::NONE, Key::ArrowDown),
+                    i.consume_key(Modifiers::NONE, Key::Delete),
+                )
+            });
+            let n = self.doc.section().beds.len();
+            let current = self.doc.selected_bed.and_then(|id| self.doc.bed_index(id));
+            let target = match (up, down, current) {
+                (true, _, Some(i)) => Some((i + 1).min(n.saturating_sub(1))),
+                (_, true, Some(i)) => Some(i.saturating_sub(1)),
+                (true, _, None) | (_, true, None) if n > 0 => Some(n - 1),
+                _ => None,
+            };
+            if let Some(i) = target {
+                let bed = &self.doc.section().beds[i];
+                let (id, mid) = (bed.id, self.doc.section().base_heights_m()[i] + bed.thickness_m / 2.0);
+                self.doc.selected_bed = Some(id);
+                self.canvas.scroll_to_height(mid);
+            }
+            if let (true, Some(id)) = (del, self.doc.selected_bed) {
+                self.apply(Edit::DeleteBed { bed: id });
+                self.status = "Bed deleted (Ctrl+Z brings it back)".into();
+            }
+        }
         for cmd in Command::WITH_SHORTCUTS {
             if let Some(sc) = cmd.shortcut() {
                 if ctx.input_mut(|i| i.consume_shortcut(&sc)) {
@@ -501,7 +529,7 @@ impl AggradeApp {
         }
     }
 
-    fn menu_bar(&mut self, ui: &mut egui::Ui, ctx: &egui::Context) {
+    fn menu_bar(&mut self, ui: &mut egui::Ui, ctx: &egui::Context, actions: &mut Actions) {
         egui::Panel::top("menu").show(ui, |ui| {
             egui::MenuBar::new().ui(ui, |ui| {
                 ui.menu_button("File", |ui| {
@@ -562,6 +590,13 @@ impl AggradeApp {
                     let (u, r) = (self.doc.can_undo(), self.doc.can_redo());
                     self.menu_item(ui, ctx, "Undo", Command::Undo, u, "Take back the last change");
                     self.menu_item(ui, ctx, "Redo", Command::Redo, r, "Do the undone change again");
+                    ui.separator();
+                    ui.label(
+                        egui::RichText::new("Selected bed (↑ ↓ to move, Del to delete)")
+                            .small()
+                            .color(theme::TEXT_DIM),
+                    );
+                    canvas::bed_menu(ui, &self.doc, self.doc.selected_bed, actions);
                 });
                 ui.menu_button("View", |ui| {
                     self.menu_item(

@@ -418,7 +418,7 @@ pub fn new_bed() -> Bed {
 /// The right-click menu of a bed (also used by the table).
 pub fn bed_menu(ui: &mut egui::Ui, doc: &Document, bed: Option<BedId>, out: &mut Actions) {
     let Some(bed) = bed else {
-        ui.label("No bed here");
+        ui.label("No bed selected");
         return;
     };
     let Some(i) = doc.bed_index(bed) else { return };
