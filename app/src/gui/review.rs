@@ -64,11 +64,11 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                         out.scroll_to_height_m = Some(c.height_m);
                         out.select = Some(Some(c.bed_id));
                     }
-                    ui.label(egui::RichText::new(kind_name(c.kind)).color(theme::TEXT_DIM));
                     ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
                         ui.label(egui::RichText::new(badge).color(colour).strong());
                     });
                 });
+                ui.label(egui::RichText::new(kind_name(c.kind)).color(theme::TEXT_DIM));
                 score_bar(ui, c.score);
                 for e in &c.evidence {
                     ui.label(format!("• {e}"));
