@@ -309,3 +309,26 @@ fn an_invalid_project_is_not_saved() {
     assert!(err.to_string().contains("beds[0].thickness_m"), "{err}");
     assert!(!path.exists());
 }
+
+#[test]
+fn unknown_fields_in_a_valid_file_are_warnings_with_lines() {
+    let text = r#"{
+  "format_version": 1,
+  "sections": [
+    {
+      "name": "Pell Butte",
+      "weather": "hot",
+      "beds": [
+        {"id": 1, "thickness_m": 1.0, "lithology": "coal",
+         "colr": "black"}
+      ]
+    }
+  ]
+}"#;
+    let read = read_project_text(text).expect("valid with warnings");
+    let shown: Vec<String> = read.warnings.iter().map(|w| w.to_string()).collect();
+    assert_eq!(shown.len(), 2, "{shown:?}");
+    assert!(shown[0].starts_with("line 6: sections[0].weather: unknown field"), "{shown:?}");
+    assert!(shown[1].starts_with("line 9: sections[0].beds[0].colr: unknown field"), "{shown:?}");
+    assert!(shown[1].contains("colour"), "known fields listed: {shown:?}");
+}

@@ -20,6 +20,10 @@
 //! There is no header block: the section takes its name from the caller (the file stem) and its
 //! display unit from the thickness column (ft for `thickness_ft`, cm for `thickness_cm`).
 //!
+//! Cells are trimmed of surrounding spaces, and `;` separates list items, so a note with edge
+//! spaces or a sample name containing `;` does not survive a CSV round trip (the project file
+//! keeps both).
+//!
 //! Text cells starting with `=`, `+`, `-`, `@`, tab or carriage return are written with a leading
 //! `'` so that spreadsheets do not run them as formulas (OWASP "CSV Injection" guidance); the
 //! reader removes that `'` again.

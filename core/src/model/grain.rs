@@ -139,7 +139,11 @@ impl WentworthClass {
     /// Parse a class name: case-insensitive, spaces, underscores or hyphens between words.
     pub fn parse(text: &str) -> Option<Self> {
         let norm = normalise_term(text);
-        Self::ALL.iter().copied().find(|c| normalise_term(c.name()) == norm)
+        // Names are lower-case words joined by single spaces: compare without allocating.
+        Self::ALL
+            .iter()
+            .copied()
+            .find(|c| c.name().bytes().map(|b| if b == b' ' { b'_' } else { b }).eq(norm.bytes()))
     }
 
     /// True for sand and coarser (very fine sand … boulder).
