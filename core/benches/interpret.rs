@@ -55,6 +55,10 @@ fn bench_interpret(c: &mut Criterion) {
     let params = RuleParams::default();
     c.bench_function("interpret 10,000 beds", |b| {
         b.iter(|| interpret(black_box(&section), black_box(&params)))
+    }); // Four times the beds should take about four times as long: a check that nothing is quadratic.
+    let large = generated_section(40_000);
+    c.bench_function("interpret 40,000 beds", |b| {
+        b.iter(|| interpret(black_box(&large), black_box(&params)))
     });
 }
 

@@ -51,6 +51,13 @@ pub fn candidates(
         last_strong.push(if is_strong_soil(i) { Some(i) } else { prev });
     }
 
+    // The first decision recorded for a bed wins, as in `Section::decision_for`; one map instead
+    // of a search per candidate.
+    let mut decisions = BTreeMap::new();
+    for d in &section.review {
+        decisions.entry(d.bed).or_insert(d);
+    }
+
     let mut out: Vec<BoundaryCandidate> = sites
         .into_iter()
         .filter(|(j, _)| *j > 0 && *j < n)
@@ -149,7 +156,7 @@ pub fn candidates(
                 (true, false) => CandidateKind::ChannelBodyBase,
                 _ => CandidateKind::PaleosolTop,
             };
-            let decision = section.decision_for(above.id);
+            let decision = decisions.get(&above.id).copied();
             BoundaryCandidate {
                 height_m,
                 bed_index: j,
