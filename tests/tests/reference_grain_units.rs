@@ -44,6 +44,8 @@ fn wentworth_1922_class_limits_in_mm() {
 }
 
 #[test]
+// −3.3219 is the published worked value for 10 mm (= −log2 10), written as printed.
+#[allow(clippy::approx_constant)]
 fn krumbein_1934_phi_worked_conversions() {
     // Krumbein (1934): φ = −log2(d / 1 mm). Worked values computed from that formula
     // (0.0625 → 4, 0.25 → 2, 2 → −1, 64 → −6, 256 → −8, 1/256 → 8; others to 4 decimals).
