@@ -268,7 +268,27 @@ pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
     // printpdf fills the trailer ID from a process-wide counter; drop it (it is optional for
     // unencrypted files) so that the same input gives the same bytes.
     lo.trailer.remove(b"ID");
-    lo.compress();
+    // Deflate every stream, spread over the available cores: lopdf compresses at its best
+    // (slowest) level one stream at a time, which dominated the time for long sections. Each
+    // stream's bytes are the same as compressing in sequence.
+    let mut streams: Vec<_> = lo
+        .objects
+        .values_mut()
+        .filter_map(|o| o.as_stream_mut().ok())
+        .filter(|s| s.allows_compression)
+        .collect();
+    let threads = std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1).clamp(1, 8);
+    let per = streams.len().div_ceil(threads).max(1);
+    std::thread::scope(|scope| {
+        for chunk in streams.chunks_mut(per) {
+            scope.spawn(move || {
+                for stream in chunk.iter_mut() {
+                    // A stream that fails to deflate stays uncompressed (still a valid PDF).
+                    let _ = stream.compress();
+                }
+            });
+        }
+    });
     let mut bytes = Vec::new();
     if lo.save_to(&mut bytes).is_err() {
         // Writing to memory cannot fail short of allocation failure; fall back to printpdf's
