@@ -268,9 +268,10 @@ pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
     // printpdf fills the trailer ID from a process-wide counter; drop it (it is optional for
     // unencrypted files) so that the same input gives the same bytes.
     lo.trailer.remove(b"ID");
-    // Deflate every stream, spread over the available cores: lopdf compresses at its best
-    // (slowest) level one stream at a time, which dominated the time for long sections. Each
-    // stream's bytes are the same as compressing in sequence.
+    // Deflate every stream, spread over the available cores, at zlib's fast level: lopdf's own
+    // `compress` uses the slowest level, which dominated the time for long sections (about
+    // 2.5 s of 3.4 s for 10,000 beds) for a few per cent smaller files. Each stream's bytes are
+    // the same as compressing in sequence.
     let mut streams: Vec<_> = lo
         .objects
         .values_mut()
@@ -283,8 +284,7 @@ pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
         for chunk in streams.chunks_mut(per) {
             scope.spawn(move || {
                 for stream in chunk.iter_mut() {
-                    // A stream that fails to deflate stays uncompressed (still a valid PDF).
-                    let _ = stream.compress();
+                    deflate_fast(stream);
                 }
             });
         }
@@ -296,4 +296,24 @@ pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
         return doc.save(&opts, &mut warnings);
     }
     bytes
+}
+
+/// Deflate one stream's content at zlib's fast level and mark it FlateDecode. A stream that
+/// already has a filter, or that would not shrink, or that fails to deflate is left as it is
+/// (still a valid PDF).
+fn deflate_fast(stream: &mut lopdf::Stream) {
+    use std::io::Write;
+    if stream.dict.get(b"Filter").is_ok() {
+        return;
+    }
+    let mut encoder = flate2::write::ZlibEncoder::new(Vec::new(), flate2::Compression::fast());
+    if encoder.write_all(&stream.content).is_err() {
+        return;
+    }
+    if let Ok(compressed) = encoder.finish() {
+        if compressed.len() + 19 < stream.content.len() {
+            stream.dict.set("Filter", "FlateDecode");
+            stream.set_content(compressed);
+        }
+    }
 }
