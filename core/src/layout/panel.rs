@@ -241,6 +241,9 @@ pub struct PanelOptions {
     pub min_gap_mm: f64,
     /// Printed at the top; empty gives "Correlation panel".
     pub title: String,
+    /// Candidate sequence boundaries scoring below this are left off the panel (accepted ones
+    /// are always drawn); by default the score above which the rules cut proportion intervals.
+    pub min_candidate_score: f64,
 }
 
 impl Default for PanelOptions {
@@ -251,6 +254,7 @@ impl Default for PanelOptions {
             horizontal_scale_denominator: None,
             min_gap_mm: 10.0,
             title: String::new(),
+            min_candidate_score: crate::rules::RuleParams::default().boundary_interval_min_score,
         }
     }
 }
@@ -490,13 +494,17 @@ pub fn panel_layout(
                 .to_string(),
         );
     }
-    for &k in &widened_gaps {
-        let (a, b) = (positions.order[k], positions.order[k + 1]);
+    if !widened_gaps.is_empty() {
+        let list: Vec<String> = widened_gaps
+            .iter()
+            .map(|&k| {
+                let (a, b) = (positions.order[k], positions.order[k + 1]);
+                format!("{} \u{2013} {} ({})", sections[a].name, sections[b].name, fmt_distance(deltas[k]))
+            })
+            .collect();
         notes.push(format!(
-            "Gap {} \u{2013} {} ({}) widened to {min_gap:.0} mm: not to horizontal scale (n.t.s.).",
-            sections[a].name,
-            sections[b].name,
-            fmt_distance(deltas[k])
+            "Gaps widened to the {min_gap:.0} mm minimum, NOT to horizontal scale (n.t.s.): {}.",
+            list.join("; ")
         ));
     }
     let panel_w = columns_w + gaps.iter().sum::<f64>();
@@ -511,7 +519,7 @@ pub fn panel_layout(
         entries.extend(
             it.sequence_boundary_candidates
                 .iter()
-                .filter(|c| opts.layout.show_rejected || c.review != ReviewState::Rejected)
+                .filter(|c| shown(c, opts))
                 .map(|c| LegendEntry::Boundary(c.review)),
         );
     }
@@ -570,12 +578,13 @@ pub fn panel_layout(
         + 4.0
         + margin;
     let mut enlarged = page_w > paper_w + 1e-9 && paper.is_some();
-    let need_h = fixed_h + notes_budget(&notes) + NOTE_LINE_MM * 2.0 + above_mm + below_mm;
+    let need_h = fixed_h + notes_budget(&notes) + above_mm + below_mm;
     let page_h = match paper {
         Some(_) if need_h <= paper_h => paper_h,
+        // Room for the note that says the page was enlarged.
         Some(_) => {
             enlarged = true;
-            need_h
+            need_h + 2.0 * NOTE_LINE_MM + 2.0
         }
         None => need_h,
     };
@@ -592,7 +601,8 @@ pub fn panel_layout(
     let mut items: Vec<Item> = Vec::new();
     // Header.
     let y_header = margin;
-    draw_header(opts, meta, &positions, sections, denominator, margin, page_w, header_h, &mut items);
+    let hz = (denominator, widened_gaps.len(), deltas.len());
+    draw_header(opts, meta, &positions, sections, hz, margin, page_w, header_h, &mut items);
     let mut y = y_header + header_h;
     draw_legend(&entries, margin, y, usable_w, &mut items);
     y += legend_h;
@@ -621,16 +631,7 @@ pub fn panel_layout(
         ctx.draw_titles(x, y_titles, &mut items);
         draw_strip_titles(x + tracks.width_mm, y_titles, &mut items);
         ctx.draw_range(0.0, ctx.total_m, x, &heights_t, &mut items, &mut boxes);
-        draw_strip(
-            &ctx,
-            &markers[i].0,
-            &opts.datum,
-            datum_h[i].is_some(),
-            opts.layout.show_rejected,
-            x,
-            &heights_t,
-            &mut items,
-        );
+        draw_strip(&ctx, &markers[i].0, &opts.datum, datum_h[i].is_some(), opts, x, &heights_t, &mut items);
         ctx.draw_scale(x, y_scale, &mut items);
         let distance = positions.distance_m[i] - d0;
         draw_head(
@@ -815,7 +816,7 @@ fn draw_header(
     meta: &PrintMeta,
     positions: &Positions,
     sections: &[Section],
-    denominator: Option<f64>,
+    (denominator, widened, n_gaps): (Option<f64>, usize, usize),
     m: f64,
     page_w: f64,
     header_h: f64,
@@ -835,14 +836,27 @@ fn draw_header(
         }
     };
     text(out, m, m + 10.5, &datum, TEXT_PT + 1.0, DATUM_BLUE);
-    let h_line = match denominator {
-        Some(h) => {
-            format!("horizontal scale {} (gaps between columns; column widths show grain size)", fmt_scale(h))
-        }
-        None => "horizontal: columns in file order, NOT to scale".to_string(),
+    let (h_line, h_colour) = match denominator {
+        Some(h) if widened == 0 || n_gaps == 0 => (
+            format!(
+                "horizontal scale {} (gaps between columns; column widths show grain size)",
+                fmt_scale(h)
+            ),
+            INK,
+        ),
+        Some(_) if widened == n_gaps => (
+            "horizontal: NOT to scale (every gap widened to the minimum; distances above the columns)"
+                .to_string(),
+            FLAG_ORANGE,
+        ),
+        Some(h) => (
+            format!("horizontal scale {} (gaps between columns) except gaps marked n.t.s.", fmt_scale(h)),
+            FLAG_ORANGE,
+        ),
+        None => ("horizontal: columns in file order, NOT to scale".to_string(), FLAG_ORANGE),
     };
     let hw = width(&h_line, TEXT_PT);
-    text(out, right - hw, m + 10.5, &h_line, TEXT_PT, if denominator.is_some() { INK } else { FLAG_ORANGE });
+    text(out, right - hw, m + 10.5, &h_line, TEXT_PT, h_colour);
     let first = positions.order.first().map(|&i| sections[i].name.as_str()).unwrap_or("");
     let source = match positions.source {
         PositionSource::PanelPosition => {
@@ -855,11 +869,12 @@ fn draw_header(
         PositionSource::FileOrder => "positions: none given, file order".to_string(),
     };
     let mut facts = vec![source];
+    facts.push(format!("boundary candidates scoring below {:.2} not drawn", opts.min_candidate_score));
     if !meta.printed_on.is_empty() {
         facts.push(format!("printed {}", meta.printed_on));
     }
     text(out, m, m + 14.5, &facts.join("  \u{b7}  "), SMALL_PT + 0.5, GREY);
-    if let Some(h) = denominator {
+    if let (Some(h), true) = (denominator, widened < n_gaps) {
         draw_distance_bar(h, right, m + 15.5, out);
     }
     if !meta.subtitle.is_empty() {
@@ -1010,7 +1025,7 @@ fn draw_strip(
     markers: &[Marker],
     datum: &Datum,
     has_datum: bool,
-    show_rejected: bool,
+    opts: &PanelOptions,
     x0: f64,
     t: &HeightTransform,
     out: &mut Vec<Item>,
@@ -1051,7 +1066,7 @@ fn draw_strip(
         .sequence_boundary_candidates
         .iter()
         .filter(|c| c.height_m.is_finite())
-        .filter(|c| show_rejected || c.review != ReviewState::Rejected)
+        .filter(|c| shown(c, opts))
         .collect();
     cands.sort_by(|a, b| a.height_m.total_cmp(&b.height_m));
     for c in cands {
@@ -1085,6 +1100,18 @@ fn draw_strip(
     for ((_, s, colour), y) in labels.iter().zip(placed) {
         let size = fit_size(s, STRIP_MM - 4.8, SMALL_PT - 0.5, 3.2).unwrap_or(3.2);
         text(out, lx, y + 0.7, s, size, *colour);
+    }
+}
+
+/// Whether a boundary candidate is drawn: accepted always; rejected only on request; others
+/// when they score at least the panel's minimum.
+fn shown(c: &crate::rules::BoundaryCandidate, opts: &PanelOptions) -> bool {
+    match c.review {
+        ReviewState::Accepted => true,
+        ReviewState::Rejected => opts.layout.show_rejected,
+        ReviewState::Candidate => {
+            c.score >= opts.min_candidate_score || !opts.min_candidate_score.is_finite()
+        }
     }
 }
 
@@ -1208,7 +1235,7 @@ mod tests {
         let o = PanelOptions { horizontal_scale_denominator: Some(100_000.0), ..opts("base") };
         let l = panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).expect("panel");
         assert_eq!(l.horizontal.widened_gaps, vec![0, 1]);
-        assert!(l.notes.iter().any(|n| n.contains("not to horizontal scale")));
+        assert!(l.notes.iter().any(|n| n.contains("NOT to horizontal scale")));
     }
 
     #[test]
