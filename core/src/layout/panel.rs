@@ -478,7 +478,12 @@ pub fn panel_layout(
                     // Tall single page: the largest scale at which no gap needs widening.
                     let smallest = deltas.iter().copied().filter(|d| *d > 0.0).fold(f64::INFINITY, f64::min);
                     let want = if smallest.is_finite() { smallest * 1000.0 / min_gap } else { 1e4 };
-                    ROUND_DENOMINATORS.iter().copied().find(|&h| h >= want).unwrap_or(2e7)
+                    ROUND_DENOMINATORS
+                        .iter()
+                        .rev()
+                        .copied()
+                        .find(|&h| h <= want)
+                        .unwrap_or(ROUND_DENOMINATORS[0])
                 }
             };
             (Some(h), gaps_for(h))
@@ -802,7 +807,7 @@ pub fn fmt_scale(denominator: f64) -> String {
     let digits = n.to_string();
     let mut out = String::new();
     for (k, ch) in digits.chars().enumerate() {
-        if k > 0 && (digits.len() - k) % 3 == 0 {
+        if k > 0 && (digits.len() - k).is_multiple_of(3) {
             out.push('\u{2009}');
         }
         out.push(ch);
@@ -1314,6 +1319,12 @@ mod tests {
         let l = panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).expect("panel");
         assert!(l.page_enlarged && l.page.height_mm > 900.0);
         assert!((l.page.width_mm - 420.0).abs() < 1e-9);
+        // Tall single page: the round horizontal scale at which the closest pair (300 m) gets
+        // at least the 10 mm minimum: 1:25 000 (300 m → 12 mm, 500 m → 20 mm; computed).
+        o.layout.paper = Paper::TallSingle;
+        let l = panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).expect("panel");
+        assert_eq!(l.horizontal.denominator, Some(25_000.0));
+        assert!(l.horizontal.widened_gaps.is_empty());
         let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
         assert!(!l.page_enlarged);
         assert_eq!((l.page.width_mm, l.page.height_mm), (420.0, 297.0));
