@@ -1104,7 +1104,8 @@ fn draw_strip(
     let lx = xs + 4.6;
     for ((_, s, colour), y) in labels.iter().zip(placed) {
         let size = fit_size(s, STRIP_MM - 4.8, SMALL_PT - 0.5, 3.2).unwrap_or(3.2);
-        text(out, lx, y + 0.7, s, size, *colour);
+        // Baseline below the level, so the text hangs under the line it names rather than on it.
+        text(out, lx, y + 1.8, s, size, *colour);
     }
 }
 
