@@ -9,11 +9,31 @@ use std::collections::{HashMap, HashSet};
 /// One open container while scanning.
 struct Frame {
     is_array: bool,
+    /// What the container is in a project file (for the unknown-field check).
+    role: Role,
     /// Items seen so far (arrays).
     count: usize,
     /// The key whose value comes next, or came last (objects).
     key: String,
     awaiting_key: bool,
+}
+
+/// The role of a container in a project file, as far as the unknown-field check needs it.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Role {
+    Root,
+    Sections,
+    Section,
+    Beds,
+    Bed,
+    Other,
+}
+
+/// Known field names of the project root, a section and a bed.
+pub struct KnownFields<'a> {
+    pub project: &'a [&'a str],
+    pub section: &'a [&'a str],
+    pub bed: &'a [&'a str],
 }
 
 /// What the scan visits: each value's path (when asked for) and line.
@@ -22,11 +42,21 @@ struct Scanner<'a> {
     pos: usize,
     line: usize,
     stack: Vec<Frame>,
+    known: Option<&'a KnownFields<'a>>,
+    /// Fields not in `known`: (path, line).
+    unknown: Vec<(String, usize)>,
 }
 
 impl<'a> Scanner<'a> {
     fn new(text: &'a str) -> Self {
-        Scanner { bytes: text.as_bytes(), pos: 0, line: 1, stack: Vec::new() }
+        Scanner {
+            bytes: text.as_bytes(),
+            pos: 0,
+            line: 1,
+            stack: Vec::new(),
+            known: None,
+            unknown: Vec::new(),
+        }
     }
 
     /// The path of the container stack, e.g. `sections[0].beds[3].thickness_m`.
@@ -93,8 +123,19 @@ impl<'a> Scanner<'a> {
                         )
                         .at_line(self.line));
                     }
+                    let role = match self.stack.last() {
+                        None => Role::Root,
+                        Some(f) => match (f.role, f.is_array, f.key.as_str()) {
+                            (Role::Root, false, "sections") => Role::Sections,
+                            (Role::Sections, true, _) => Role::Section,
+                            (Role::Section, false, "beds") => Role::Beds,
+                            (Role::Beds, true, _) => Role::Bed,
+                            _ => Role::Other,
+                        },
+                    };
                     self.stack.push(Frame {
                         is_array: b == b'[',
+                        role,
                         count: 0,
                         key: String::new(),
                         awaiting_key: b == b'{',
@@ -139,9 +180,21 @@ impl<'a> Scanner<'a> {
                     self.pos = end + 1;
                     let is_key = self.stack.last().is_some_and(|f| !f.is_array && f.awaiting_key);
                     if is_key {
-                        let key = String::from_utf8_lossy(&self.bytes[start..end]).into_owned();
+                        let key = String::from_utf8_lossy(&self.bytes[start..end]);
                         if let Some(top) = self.stack.last_mut() {
-                            top.key = key;
+                            top.key.clear();
+                            top.key.push_str(&key);
+                        }
+                        if let (Some(known), Some(top)) = (self.known, self.stack.last()) {
+                            let list = match top.role {
+                                Role::Root => known.project,
+                                Role::Section => known.section,
+                                Role::Bed => known.bed,
+                                _ => &[],
+                            };
+                            if !list.is_empty() && !list.contains(&key.as_ref()) {
+                                self.unknown.push((self.path(), start_line));
+                            }
                         }
                     } else {
                         self.value_start()?;
@@ -181,6 +234,15 @@ impl<'a> Scanner<'a> {
 /// Enforce [`MAX_JSON_DEPTH`], [`MAX_ARRAY_ITEMS`] and [`MAX_STRING_CHARS`] without building a tree.
 pub fn check_limits(text: &str) -> Result<(), Problem> {
     Scanner::new(text).run(|_, _| {})
+}
+
+/// Like [`check_limits`], and also list the fields of the root, sections and beds that are not
+/// in `known`, as (path, line).
+pub fn check_limits_and_fields(text: &str, known: &KnownFields) -> Result<Vec<(String, usize)>, Problem> {
+    let mut scanner = Scanner::new(text);
+    scanner.known = Some(known);
+    scanner.run(|_, _| {})?;
+    Ok(scanner.unknown)
 }
 
 /// The line each wanted path's value starts on. A path absent from the text falls back to its
@@ -251,6 +313,19 @@ mod tests {
         let err = check_limits(&long).expect_err("long array must be refused");
         assert_eq!(err.location, "a");
         assert!(check_limits(TEXT).is_ok());
+    }
+
+    #[test]
+    fn lists_unknown_fields_of_sections_and_beds() {
+        let known = KnownFields { project: &["sections"], section: &["name", "beds"], bed: &["id"] };
+        let unknown = check_limits_and_fields(TEXT, &known).expect("within limits");
+        assert_eq!(
+            unknown,
+            [
+                ("sections[0].beds[0].thickness_m".to_string(), 6),
+                ("sections[0].beds[1].thickness_m".to_string(), 8)
+            ]
+        );
     }
 
     #[test]

@@ -4,7 +4,7 @@
 use super::json_scan;
 use super::migrate;
 use super::problem::Problem;
-use super::project_reader::read_project;
+use super::project_reader::{self, read_project};
 use super::validate::validate_project;
 use crate::model::Project;
 use serde_json::Value;
@@ -20,7 +20,33 @@ pub struct ProjectRead {
 /// Read project JSON text: limits, syntax, version and migration, fields, then validation.
 /// Every problem carries the line its value starts on, where it can be found.
 pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
-    json_scan::check_limits(text).map_err(|p| vec![p])?;
+    // A byte-order mark (written by some Windows editors) is not JSON; skip it.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    let (project_names, section_names, bed_names) = project_reader::known_field_names();
+    let known = json_scan::KnownFields { project: &project_names, section: &section_names, bed: &bed_names };
+    let unknown = json_scan::check_limits_and_fields(text, &known).map_err(|p| vec![p])?;
+    // Fast path: a valid current-version file deserialises directly, without a JSON tree (about a
+    // third of the time). Anything else takes the slow path below, which names every problem.
+    if let Ok(project) = serde_json::from_str::<Project>(text) {
+        if project.format_version == Project::CURRENT_VERSION && validate_project(&project).is_empty() {
+            let warnings = unknown
+                .into_iter()
+                .map(|(path, line)| {
+                    let role = if path.contains(".beds[") {
+                        "bed"
+                    } else if path.starts_with("sections[") {
+                        "section"
+                    } else {
+                        "project"
+                    };
+                    let known = project_reader::known_list(role);
+                    Problem::new(path, format!("unknown field, ignored (known fields: {known})"))
+                        .at_line(line)
+                })
+                .collect();
+            return Ok(ProjectRead { project, warnings });
+        }
+    }
     let mut root: Value = serde_json::from_str(text).map_err(|e| {
         let what = match e.classify() {
             serde_json::error::Category::Eof => "the file ends too soon (truncated?)",
@@ -30,7 +56,17 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
         // serde_json's message ends with "at line L column C"; we give the line ourselves.
         let msg = e.to_string();
         let msg = msg.split(" at line ").next().unwrap_or(&msg).to_string();
-        vec![Problem::new("", format!("{what}: {msg} (column {})", e.column())).at_line(e.line())]
+        let hint = match text
+            .lines()
+            .nth(e.line().saturating_sub(1))
+            .and_then(|l| l.get(e.column().saturating_sub(1)..))
+        {
+            Some(rest) if ["NaN", "Infinity", "-Infinity", "inf"].iter().any(|w| rest.starts_with(w)) => {
+                "; JSON has no NaN or Infinity: write a finite number"
+            }
+            _ => "",
+        };
+        vec![Problem::new("", format!("{what}: {msg} (column {}){hint}", e.column())).at_line(e.line())]
     })?;
     let mut warnings = Vec::new();
     let version = match root.get("format_version") {
@@ -100,9 +136,6 @@ fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Pro
             paths
         })
         .collect();
-    if wanted.is_empty() {
-        return problems;
-    }
     let refs: Vec<&str> = wanted.iter().map(String::as_str).collect();
     let lines = json_scan::lines_of(text, &refs);
     for p in problems.iter_mut().filter(|p| p.line.is_none()) {
@@ -111,6 +144,11 @@ fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Pro
         let exact = |path: &str| lines.get(path).copied();
         p.line = v0.as_deref().and_then(exact).or_else(|| exact(&p.location));
     }
+    for p in problems.iter_mut().filter(|p| p.line.is_none() && p.location.is_empty()) {
+        p.line = Some(1); // The root value.
+    }
+    // File order reads best.
+    problems.sort_by_key(|p| p.line);
     problems
 }
 

@@ -7,6 +7,7 @@ use crate::model::{
     ReviewDecision, Section, Structure, Surface,
 };
 use serde::de::DeserializeOwned;
+use serde::Deserialize;
 use serde_json::{Map, Value};
 
 /// How a field is checked before the whole object is deserialised.
@@ -62,14 +63,28 @@ const BED_FIELDS: &[(&str, Kind)] = &[
     ("notes", Kind::Optional(check::<String>)),
 ];
 
-/// Check an object's fields against a table; unknown fields become warnings.
-fn check_fields(
-    obj: &Map<String, Value>,
-    path: &str,
-    table: &[(&str, Kind)],
-    problems: &mut Vec<Problem>,
-    warnings: &mut Vec<Problem>,
-) {
+/// The field names of a table.
+fn names(table: &[(&'static str, Kind)]) -> Vec<&'static str> {
+    table.iter().map(|(n, _)| *n).collect()
+}
+
+/// Known field names of the project root, sections and beds (for the scanner's check).
+pub fn known_field_names() -> (Vec<&'static str>, Vec<&'static str>, Vec<&'static str>) {
+    (names(PROJECT_FIELDS), names(SECTION_FIELDS), names(BED_FIELDS))
+}
+
+/// Known fields as a sentence tail for warnings.
+pub fn known_list(role: &str) -> String {
+    let table = match role {
+        "bed" => BED_FIELDS,
+        "section" => SECTION_FIELDS,
+        _ => PROJECT_FIELDS,
+    };
+    names(table).join(", ")
+}
+
+/// Check an object's fields against a table, one by one, so that every bad field is named.
+fn field_problems(obj: &Map<String, Value>, path: &str, table: &[(&str, Kind)], problems: &mut Vec<Problem>) {
     let at = |field: &str| if path.is_empty() { field.to_string() } else { format!("{path}.{field}") };
     for (name, kind) in table {
         let value = obj.get(*name);
@@ -92,12 +107,32 @@ fn check_fields(
             (Kind::Optional(_) | Kind::List(_), None) => {}
         }
     }
+}
+
+/// Fields not in the table become warnings (they would be dropped on the next save).
+fn unknown_fields(obj: &Map<String, Value>, path: &str, table: &[(&str, Kind)], warnings: &mut Vec<Problem>) {
+    if obj.keys().all(|k| table.iter().any(|(n, _)| n == k)) {
+        return;
+    }
+    let at = |field: &str| if path.is_empty() { field.to_string() } else { format!("{path}.{field}") };
     let mut unknown: Vec<&String> = obj.keys().filter(|k| !table.iter().any(|(n, _)| n == k)).collect();
     unknown.sort();
     for key in unknown {
         let valid = table.iter().map(|(n, _)| *n).collect::<Vec<_>>().join(", ");
         warnings.push(Problem::new(at(key), format!("unknown field, ignored (known fields: {valid})")));
     }
+}
+
+/// Check an object's fields against a table; unknown fields become warnings.
+fn check_fields(
+    obj: &Map<String, Value>,
+    path: &str,
+    table: &[(&str, Kind)],
+    problems: &mut Vec<Problem>,
+    warnings: &mut Vec<Problem>,
+) {
+    field_problems(obj, path, table, problems);
+    unknown_fields(obj, path, table, warnings);
 }
 
 /// A short description of a JSON value's type for messages.
@@ -167,17 +202,27 @@ pub fn read_project(root: &Value) -> (Option<Project>, Vec<Problem>, Vec<Problem
                 ));
                 continue;
             };
-            let bed_before = problems.len();
-            check_fields(bobj, &bpath, BED_FIELDS, &mut problems, &mut warnings);
-            if problems.len() == bed_before {
-                if let Some(bed) = build(bv, &bpath, &mut problems) {
-                    beds.push(bed);
+            unknown_fields(bobj, &bpath, BED_FIELDS, &mut warnings);
+            // The whole bed at once is the fast path; only a bed that fails is checked field by
+            // field, to name every bad field.
+            match crate::model::Bed::deserialize(bv) {
+                Ok(bed) => beds.push(bed),
+                Err(e) => {
+                    let bed_before = problems.len();
+                    field_problems(bobj, &bpath, BED_FIELDS, &mut problems);
+                    if problems.len() == bed_before {
+                        problems.push(Problem::new(&bpath, e.to_string()));
+                    }
                 }
             }
         }
         if problems.len() == before {
             // Deserialise the section without its beds (already built) to keep one copy.
-            let mut shallow = sobj.clone();
+            let mut shallow: Map<String, Value> = sobj
+                .iter()
+                .filter(|(k, _)| k.as_str() != "beds")
+                .map(|(k, v)| (k.clone(), v.clone()))
+                .collect();
             shallow.insert("beds".into(), Value::Array(Vec::new()));
             if let Some(mut section) = build::<Section>(&Value::Object(shallow), &path, &mut problems) {
                 section.beds = beds;

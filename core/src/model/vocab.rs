@@ -24,7 +24,11 @@ macro_rules! vocabulary {
             /// Case-insensitive parse; spaces, hyphens and underscores are interchangeable.
             pub fn parse(text: &str) -> Option<Self> {
                 let norm = normalise_term(text);
-                Self::ALL.iter().copied().find(|v| normalise_term(v.name()) == norm)
+                // Terms are lower-case words joined by single spaces or hyphens: compare without
+                // allocating (the same result as normalising both sides).
+                Self::ALL.iter().copied().find(|v| {
+                    v.name().bytes().map(|b| if b == b' ' || b == b'-' { b'_' } else { b }).eq(norm.bytes())
+                })
             }
 
             /// All terms joined for "valid values are …" messages.
@@ -155,5 +159,25 @@ impl LengthUnit {
     /// Convert a length in metres to this unit.
     pub fn from_metres(self, metres: f64) -> f64 {
         metres / self.metres()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn every_term_parses_in_any_spelling() {
+        for s in Structure::ALL {
+            assert_eq!(Structure::parse(s.name()), Some(*s));
+            assert_eq!(Structure::parse(&s.name().to_uppercase().replace(' ', "_")), Some(*s));
+            assert_eq!(Structure::parse(&format!("  {}  ", s.name().replace('-', " "))), Some(*s));
+        }
+        for k in SurfaceKind::ALL {
+            assert_eq!(SurfaceKind::parse(&k.name().replace(' ', "-")), Some(*k));
+        }
+        assert_eq!(PaleosolDevelopment::parse("Very_Strong"), Some(PaleosolDevelopment::VeryStrong));
+        assert_eq!(Structure::parse("trough"), None);
+        assert_eq!(Contact::parse(""), None);
     }
 }

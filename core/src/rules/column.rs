@@ -101,24 +101,65 @@ impl Column {
         self.exposed_cum_m.last().copied().unwrap_or(0.0)
     }
 
-    /// Cumulative value of `cum` at height `h` (linear inside a bed).
-    fn cum_at(&self, cum: &[f64], h_m: f64) -> f64 {
-        let h = if h_m.is_nan() { 0.0 } else { h_m.clamp(0.0, self.total_m()) };
-        // Number of beds whose top is at or below h: they count in full.
-        let k = self.bounds_m[1..].partition_point(|&top| top <= h);
+    /// Clamp a height into the section (NaN to the base).
+    fn clamp_m(&self, h_m: f64) -> f64 {
+        if h_m.is_nan() {
+            0.0
+        } else {
+            h_m.clamp(0.0, self.total_m())
+        }
+    }
+
+    /// Number of beds whose top is at or below `h` (they count in full below h), by bisection.
+    fn beds_below(&self, h: f64) -> usize {
+        self.bounds_m[1..].partition_point(|&top| top <= h)
+    }
+
+    /// Same as [`Column::beds_below`], walking up from a count known to be no higher: used by
+    /// sweeps whose heights only rise, so that a whole sweep costs one pass over the beds.
+    fn beds_below_from(&self, mut k: usize, h: f64) -> usize {
+        let n = self.bounds_m.len() - 1;
+        while k < n && self.bounds_m[k + 1] <= h {
+            k += 1;
+        }
+        k
+    }
+
+    /// Channel and exposed thickness below height `h` (already clamped), `k` beds lying fully
+    /// below it; linear inside the bed that `h` cuts.
+    fn sums_at(&self, k: usize, h: f64) -> (f64, f64) {
+        let (c, e) = (&self.channel_cum_m, &self.exposed_cum_m);
         if k + 1 >= self.bounds_m.len() {
-            return cum[k];
+            return (c[k], e[k]);
         }
         let t = self.thickness_m(k);
         let part = if t > 0.0 { (h - self.bounds_m[k]).clamp(0.0, t) / t } else { 0.0 };
-        cum[k] + (cum[k + 1] - cum[k]) * part
+        (c[k] + (c[k + 1] - c[k]) * part, e[k] + (e[k + 1] - e[k]) * part)
     }
 
     /// Channel-deposit and exposed thickness between two heights (clipped to the section).
     pub fn window_m(&self, base_m: f64, top_m: f64) -> (f64, f64) {
-        let c = self.cum_at(&self.channel_cum_m, top_m) - self.cum_at(&self.channel_cum_m, base_m);
-        let e = self.cum_at(&self.exposed_cum_m, top_m) - self.cum_at(&self.exposed_cum_m, base_m);
-        (c.max(0.0), e.max(0.0))
+        let (a, b) = (self.clamp_m(base_m), self.clamp_m(top_m));
+        let (ca, ea) = self.sums_at(self.beds_below(a), a);
+        let (cb, eb) = self.sums_at(self.beds_below(b), b);
+        ((cb - ca).max(0.0), (eb - ea).max(0.0))
+    }
+
+    /// Proportions in windows `[h − half, h + half]` for rising heights `h`, in one upward sweep
+    /// (linear in beds plus points, no search per point).
+    pub fn sweep_proportions(&self, heights_m: impl Iterator<Item = f64>, half_m: f64) -> Vec<Option<f64>> {
+        let (mut ka, mut kb) = (0, 0);
+        heights_m
+            .map(|h| {
+                let (a, b) = (self.clamp_m(h - half_m), self.clamp_m(h + half_m));
+                // Heights are meant to rise; fall back to bisection if one does not.
+                ka = if a >= self.bounds_m[ka] { self.beds_below_from(ka, a) } else { self.beds_below(a) };
+                kb = if b >= self.bounds_m[kb] { self.beds_below_from(kb, b) } else { self.beds_below(b) };
+                let (ca, ea) = self.sums_at(ka, a);
+                let (cb, eb) = self.sums_at(kb, b);
+                proportion_of((cb - ca).max(0.0), (eb - ea).max(0.0))
+            })
+            .collect()
     }
 
     /// Channel-body proportion between two heights; `None` when that stretch has no exposure.
@@ -165,6 +206,24 @@ mod tests {
         assert!((c - 1.0).abs() < 1e-12 && (e - 1.5).abs() < 1e-12, "{c} {e}");
         assert_eq!(col.proportion(2.0, 5.0), None);
         assert_eq!(col.proportion(-10.0, 100.0), Some(2.0 / 3.0));
+    }
+
+    #[test]
+    fn sweep_agrees_with_separate_windows_even_when_heights_fall() {
+        let s = section(&[
+            (2.0, Lithology::Sandstone),
+            (3.0, Lithology::Covered),
+            (1.0, Lithology::Mudstone),
+            (4.0, Lithology::Sandstone),
+        ]);
+        let els =
+            [Element::ChannelDeposit, Element::Covered, Element::OverbankFines, Element::ChannelDeposit];
+        let col = Column::new(&s).with_elements(&els);
+        let heights = [0.0, 0.7, 2.0, 4.9, 5.0, 9.5, 3.0, 1.0, 10.0, 12.0];
+        let swept = col.sweep_proportions(heights.iter().copied(), 1.5);
+        for (h, p) in heights.iter().zip(swept) {
+            assert_eq!(p, col.proportion(h - 1.5, h + 1.5), "at {h} m");
+        }
     }
 
     #[test]

@@ -52,13 +52,24 @@ pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
     let candidates = boundaries::candidates(section, &column, &elements, &storeys, &channel_bodies, params);
 
     // Intervals for proportions: accepted boundaries; failing those, strong candidates.
-    let accepted: Vec<f64> = section
-        .review
-        .iter()
-        .filter(|d| d.state == ReviewState::Accepted)
-        .filter_map(|d| section.bed_index(d.bed))
-        .map(|i| column.bounds_m[i])
+    // The first decision recorded for a bed counts, as in `Section::decision_for`.
+    let mut first_decision = std::collections::BTreeMap::new();
+    for d in &section.review {
+        first_decision.entry(d.bed).or_insert(d.state);
+    }
+    let accepted_ids: std::collections::BTreeSet<_> = first_decision
+        .into_iter()
+        .filter(|(_, state)| *state == ReviewState::Accepted)
+        .map(|(bed, _)| bed)
         .collect();
+    let accepted: Vec<f64> = if accepted_ids.is_empty() {
+        Vec::new()
+    } else {
+        (0..section.beds.len())
+            .filter(|&i| accepted_ids.contains(&section.beds[i].id))
+            .map(|i| column.bounds_m[i])
+            .collect()
+    };
     let cuts = if accepted.is_empty() {
         candidates
             .iter()

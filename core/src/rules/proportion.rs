@@ -7,7 +7,7 @@ use super::types::{CurvePoint, IntervalProportion};
 
 /// The proportion in a window of `window_m` centred on heights 0, step, 2·step … up to the
 /// section top; the window is clipped to the section. Empty when the step or window is not a
-/// positive number. Each point costs two binary searches, so the whole curve is O(m log n).
+/// positive number. One upward sweep: linear in beds plus points.
 pub fn proportion_curve(column: &Column, params: &RuleParams) -> Vec<CurvePoint> {
     let step = params.curve_step_m;
     let half = params.window_m / 2.0;
@@ -18,12 +18,10 @@ pub fn proportion_curve(column: &Column, params: &RuleParams) -> Vec<CurvePoint>
     // The small allowance keeps a top that is a whole number of steps (up to rounding) on the grid.
     let steps = ((total / step) + 1e-9).floor();
     let count = if steps.is_finite() && steps >= 0.0 { (steps as usize).saturating_add(1) } else { 1 };
-    (0..count.min(MAX_CURVE_POINTS))
-        .map(|k| {
-            let h = k as f64 * step;
-            CurvePoint { height_m: h, proportion: column.proportion(h - half, h + half) }
-        })
-        .collect()
+    let count = count.min(MAX_CURVE_POINTS);
+    let heights = (0..count).map(|k| k as f64 * step);
+    let proportions = column.sweep_proportions(heights.clone(), half);
+    heights.zip(proportions).map(|(height_m, proportion)| CurvePoint { height_m, proportion }).collect()
 }
 
 /// Proportions of the intervals that the cut heights split the section into (cuts outside the
