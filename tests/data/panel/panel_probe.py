@@ -1,0 +1,53 @@
+"""Read a correlation-panel PDF with independent libraries (pypdf, pdfplumber from PyPI) and print
+its page sizes, text and drawn shapes (with fill and stroke colours and points) as JSON.
+
+Usage: python3 panel_probe.py FILE.pdf
+Exits 3 with a message if a library is missing, so the calling test fails clearly.
+"""
+import json
+import sys
+
+try:
+    import pdfplumber
+    import pypdf
+except ImportError as e:  # the test must fail, not skip
+    print(f"missing Python reference library: {e}; install with pip install -r scripts/requirements-test.txt",
+          file=sys.stderr)
+    sys.exit(3)
+
+
+def colour(c):
+    if c is None:
+        return None
+    if isinstance(c, (int, float)):
+        return [float(c)]
+    return [round(float(v), 4) for v in c]
+
+
+def shape(o):
+    return {
+        "x0": o["x0"], "x1": o["x1"], "top": o["top"], "bottom": o["bottom"],
+        "fill": bool(o.get("fill")), "stroke": bool(o.get("stroke")),
+        "fill_colour": colour(o.get("non_stroking_color")),
+        "stroke_colour": colour(o.get("stroking_color")),
+        # Points with y measured from the page top, as "top"/"bottom" are.
+        "pts": [[float(x), float(y)] for (x, y) in (o.get("pts") or [])],
+    }
+
+
+path = sys.argv[1]
+reader = pypdf.PdfReader(path)
+out = {"pypdf": {"pages": [[float(p.mediabox.width), float(p.mediabox.height)] for p in reader.pages],
+                 "text": [p.extract_text() for p in reader.pages]}}
+pages = []
+with pdfplumber.open(path) as pdf:
+    for p in pdf.pages:
+        pages.append({
+            "width": float(p.width), "height": float(p.height),
+            "chars": "".join(c["text"] for c in p.chars),
+            "rects": [shape(r) for r in p.rects],
+            "curves": [shape(c) for c in p.curves],
+            "lines": [shape(l) for l in p.lines],
+        })
+out["pages"] = pages
+json.dump(out, sys.stdout)

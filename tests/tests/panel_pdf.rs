@@ -1,0 +1,226 @@
+//! The correlation panel checked in its PDF by independent readers (pypdf and pdfplumber from
+//! PyPI): paper size, true vertical scale in every column, the datum at one height across the
+//! columns, tie lines ending at the right heights, and the caution in the footer.
+
+use aggrade_core::export::{write_pdf, PdfInfo};
+use aggrade_core::layout::panel::{panel_layout, Datum, PanelLayout, PanelOptions, DATUM_BLUE, TIE_VIOLET};
+use aggrade_core::layout::style::lithology_tint;
+use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta, Rgba};
+use aggrade_core::model::{
+    Bed, BedId, GrainSize, Lithology, Project, Section, Surface, SurfaceKind, WentworthClass,
+};
+use aggrade_core::rules::{interpret, RuleParams};
+use serde_json::Value;
+use std::path::Path;
+use std::process::Command;
+
+/// 1 mm in PDF points: 72/25.4 (1 in = 25.4 mm exactly; 1 pt = 1/72 in).
+const PT_PER_MM: f64 = 72.0 / 25.4;
+
+fn probe(file: &Path) -> Value {
+    let script = Path::new(env!("CARGO_MANIFEST_DIR")).join("data/panel/panel_probe.py");
+    let out = Command::new("python3")
+        .arg(&script)
+        .arg(file)
+        .output()
+        .unwrap_or_else(|e| panic!("cannot run python3 (needed as the independent PDF reader): {e}"));
+    assert!(out.status.success(), "{} failed: {}", script.display(), String::from_utf8_lossy(&out.stderr));
+    serde_json::from_slice(&out.stdout).expect("probe prints JSON")
+}
+
+/// A section of mudstone with one conglomerate bed (a colour nothing else on the page uses in a
+/// tall shape) whose base carries `base_name` and whose top carries `top_name`.
+fn section(
+    name: &str,
+    below_m: f64,
+    cgl_m: f64,
+    above_m: f64,
+    base_name: Option<&str>,
+    top_name: Option<&str>,
+    pos_m: f64,
+) -> Section {
+    let mut s = Section::new(name);
+    let mud = Some(GrainSize::Class(WentworthClass::Silt));
+    let surface = |n: Option<&str>| n.map(|n| Surface { name: n.to_string(), kind: SurfaceKind::Other });
+    s.beds.push(Bed::new(BedId(1), below_m, Lithology::Mudstone, mud));
+    let mut c =
+        Bed::new(BedId(2), cgl_m, Lithology::Conglomerate, Some(GrainSize::Class(WentworthClass::Pebble)));
+    c.base_surface = surface(base_name);
+    s.beds.push(c);
+    let mut top = Bed::new(BedId(3), above_m, Lithology::Mudstone, mud);
+    top.base_surface = surface(top_name);
+    s.beds.push(top);
+    s.panel_position_m = Some(pos_m);
+    s
+}
+
+fn project() -> Project {
+    Project::new(vec![
+        section("Ash Draw", 3.0, 2.0, 4.0, Some("SB-1"), Some("T-1"), 0.0),
+        section("Birch Cut", 1.5, 3.0, 1.0, Some("SB-1"), Some("T-1"), 400.0),
+        // No SB-1 here: hung on its base and flagged.
+        section("Cinder Knoll", 5.0, 1.0, 2.0, None, None, 900.0),
+    ])
+}
+
+fn layout_and_pdf(p: &Project, scale: f64) -> (PanelLayout, Value) {
+    let interps: Vec<_> = p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect();
+    let opts = PanelOptions {
+        datum: Datum::parse("SB-1"),
+        layout: LayoutOptions {
+            scale_denominator: scale,
+            paper: Paper::A3,
+            orientation: Orientation::Landscape,
+            ..LayoutOptions::default()
+        },
+        ..PanelOptions::default()
+    };
+    let meta = PrintMeta { printed_on: "2026-12-01".into(), subtitle: String::new() };
+    let layout = panel_layout(p, &interps, &opts, &meta).expect("panel lays out");
+    let bytes = write_pdf(
+        std::slice::from_ref(&layout.page),
+        &PdfInfo { title: "panel".into(), author: String::new(), creation_date: 1_790_000_000 },
+    );
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("panel.pdf");
+    std::fs::write(&path, bytes).expect("write pdf");
+    let v = probe(&path);
+    (layout, v)
+}
+
+fn rgb(c: Rgba) -> [f64; 3] {
+    [c.0, c.1, c.2].map(|v| (f64::from(v) / 255.0 * 10000.0).round() / 10000.0)
+}
+
+fn colour_is(v: &Value, c: [f64; 3]) -> bool {
+    let got: Vec<f64> =
+        v.as_array().map(|a| a.iter().filter_map(Value::as_f64).collect()).unwrap_or_default();
+    got.len() == 3 && got.iter().zip(c).all(|(a, b)| (a - b).abs() < 0.003)
+}
+
+fn f(v: &Value, key: &str) -> f64 {
+    v[key].as_f64().unwrap_or_else(|| panic!("{key} missing in {v}"))
+}
+
+/// Filled shapes of a colour taller than `min_pt`: (x0, top, bottom) in pt from the page top.
+fn fills(page: &Value, colour: Rgba, min_pt: f64) -> Vec<(f64, f64, f64)> {
+    let mut v = Vec::new();
+    for kind in ["rects", "curves"] {
+        for s in page[kind].as_array().expect("shapes") {
+            if s["fill"].as_bool() == Some(true) && colour_is(&s["fill_colour"], rgb(colour)) {
+                let (top, bottom) = (f(s, "top"), f(s, "bottom"));
+                if bottom - top > min_pt {
+                    v.push((f(s, "x0"), top, bottom));
+                }
+            }
+        }
+    }
+    v.sort_by(|a, b| a.0.total_cmp(&b.0));
+    v
+}
+
+/// Stroked paths of a colour, as their point lists (pt, y from the page top).
+fn strokes(page: &Value, colour: Rgba) -> Vec<Vec<(f64, f64)>> {
+    let mut v = Vec::new();
+    for kind in ["lines", "curves", "rects"] {
+        for s in page[kind].as_array().expect("shapes") {
+            if s["stroke"].as_bool() == Some(true) && colour_is(&s["stroke_colour"], rgb(colour)) {
+                let pts = s["pts"].as_array().expect("pts");
+                v.push(pts.iter().map(|p| (p[0].as_f64().expect("x"), p[1].as_f64().expect("y"))).collect());
+            }
+        }
+    }
+    v
+}
+
+#[test]
+fn a3_landscape_panel_at_true_vertical_scale() {
+    let (layout, v) = layout_and_pdf(&project(), 100.0);
+    // ISO 216: A3 is 297 × 420 mm = 841.890 × 1190.551 pt; landscape puts the long side across.
+    let size = &v["pypdf"]["pages"][0];
+    assert_eq!(v["pypdf"]["pages"].as_array().map(Vec::len), Some(1), "one page");
+    assert!((size[0].as_f64().expect("w") - 1190.551).abs() < 0.01, "{size}");
+    assert!((size[1].as_f64().expect("h") - 841.890).abs() < 0.01, "{size}");
+    assert!(!layout.page_enlarged);
+
+    let page = &v["pages"][0];
+    // One conglomerate fill per column, taller than the legend swatch (3.8 mm ≈ 10.8 pt).
+    let cgl = fills(page, lithology_tint(Lithology::Conglomerate), 15.0);
+    assert_eq!(cgl.len(), 3, "{cgl:?}");
+    // True scale: a bed of t m is t·1000/N mm tall at 1:N (common practice; REFERENCES "Units and
+    // paper"), ±0.1 mm. Columns left to right are Ash Draw (2 m), Birch Cut (3 m), Cinder Knoll (1 m).
+    for ((_, top, bottom), t_m) in cgl.iter().zip([2.0, 3.0, 1.0]) {
+        let mm = (bottom - top) / PT_PER_MM;
+        assert!((mm - t_m * 1000.0 / 100.0).abs() <= 0.1, "{t_m} m bed drawn {mm:.3} mm tall");
+    }
+    // The datum (SB-1, the base of the conglomerate in Ash Draw and Birch Cut) sits at one y in
+    // both columns and on the blue datum line.
+    let (ya, yb) = (cgl[0].2, cgl[1].2);
+    assert!((ya - yb).abs() < 0.05, "SB-1 at {ya} pt and {yb} pt");
+    // Lines longer than 30 mm: the key's 9 mm swatch is left out.
+    let datum_lines: Vec<_> = strokes(page, DATUM_BLUE)
+        .into_iter()
+        .filter(|l| {
+            l.iter().map(|p| p.0).fold(f64::MIN, f64::max) - l.iter().map(|p| p.0).fold(f64::MAX, f64::min)
+                > 30.0 * PT_PER_MM
+        })
+        .collect();
+    assert!(!datum_lines.is_empty(), "a datum line is drawn");
+    for line in &datum_lines {
+        for (_, y) in line {
+            assert!((y - ya).abs() < 0.05, "datum line at {y} pt, SB-1 at {ya} pt");
+        }
+    }
+    // Cinder Knoll lacks SB-1: its base (mudstone below the conglomerate: 5 m = 50 mm) is on the
+    // datum, and the page says it is not correlated.
+    let base_c = cgl[2].2 + 5.0 * 10.0 * PT_PER_MM;
+    assert!((base_c - ya).abs() < 0.1, "Cinder Knoll base at {base_c} pt, datum at {ya} pt");
+    let chars = page["chars"].as_str().expect("chars");
+    assert!(chars.contains("NO SB-1: hung on base"), "flag above the column");
+    assert!(chars.contains("Cinder Knoll: has no SB-1"), "note on the page");
+    assert!(chars.contains("vertical scale 1:100"));
+    assert!(chars.contains("Interpretations are candidates for expert review"), "caution in the footer");
+
+    // Tie line T-1 joins the top of the conglomerate in Ash Draw to that in Birch Cut; SB-1 joins
+    // their bases (both drawn in the tie colour, dashed).
+    let ties = strokes(page, TIE_VIOLET);
+    let ends: Vec<((f64, f64), (f64, f64))> = ties
+        .iter()
+        .filter(|p| p.len() == 2)
+        .map(|p| if p[0].0 <= p[1].0 { (p[0], p[1]) } else { (p[1], p[0]) })
+        .collect();
+    let (a_top, b_top) = (cgl[0].1, cgl[1].1);
+    assert!(
+        ends.iter().any(|(l, r)| (l.1 - a_top).abs() < 0.05
+            && (r.1 - b_top).abs() < 0.05
+            && l.0 > cgl[0].0
+            && r.0 < cgl[1].0),
+        "T-1 tie from {a_top} pt to {b_top} pt not found among {ends:?}"
+    );
+    assert!(ends.iter().any(|(l, r)| (l.1 - ya).abs() < 0.05 && (r.1 - yb).abs() < 0.05), "SB-1 tie");
+    // No tie reaches Cinder Knoll (it has neither name).
+    assert!(ends.iter().all(|(_, r)| r.0 < cgl[2].0), "{ends:?}");
+    assert_eq!(layout.ties.len(), 2);
+}
+
+#[test]
+fn vertical_scale_holds_at_other_scales() {
+    // 1:50 and 1:200 (the page is lengthened at 1:50 when needed; the scale never changes).
+    for scale in [50.0, 200.0] {
+        let (layout, v) = layout_and_pdf(&project(), scale);
+        let page = &v["pages"][0];
+        let cgl = fills(
+            page,
+            lithology_tint(Lithology::Conglomerate),
+            15.0_f64.min(1000.0 / scale * PT_PER_MM * 0.9),
+        );
+        assert_eq!(cgl.len(), 3, "1:{scale}: {cgl:?}");
+        for ((_, top, bottom), t_m) in cgl.iter().zip([2.0, 3.0, 1.0]) {
+            let mm = (bottom - top) / PT_PER_MM;
+            assert!((mm - t_m * 1000.0 / scale).abs() <= 0.1, "1:{scale}: {t_m} m bed drawn {mm:.3} mm");
+        }
+        // The page is as the layout says (pypdf), in whole: mm × 72/25.4.
+        let size = &v["pypdf"]["pages"][0];
+        assert!((size[1].as_f64().expect("h") - layout.page.height_mm * PT_PER_MM).abs() < 0.01);
+    }
+}
