@@ -137,10 +137,12 @@ fn save_and_reopen_gives_the_same_project() {
     h.state_mut().apply(Edit::SetThickness { bed: id, thickness_m: 7.25 });
     h.run();
     assert!(h.state().doc.dirty);
+    assert!(h.state().title().starts_with("● "), "unsaved mark: {}", h.state().title());
     h.key_press_modifiers(Modifiers::COMMAND, Key::S);
     h.run();
     assert!(out.exists(), "file written");
     assert!(!h.state().doc.dirty, "clean after saving");
+    assert_eq!(h.state().title(), "saved.aggrade — Aggrade");
     let saved = h.state().doc.project.clone();
     let reopened = app(Some(out.clone()), data.path(), vec![]);
     assert!(reopened.message.is_none(), "{:?}", reopened.message);
