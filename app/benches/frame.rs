@@ -27,6 +27,13 @@ fn input(t: f64) -> egui::RawInput {
     }
 }
 
+/// One frame: build the UI, then tessellate what it painted (textures are not uploaded here).
+fn frame_once(ctx: &egui::Context, app: &mut AggradeApp, t: f64) -> Vec<egui::ClippedPrimitive> {
+    let mut out = ctx.run_ui(input(t), |ui| app.ui_main(ui));
+    out.textures_delta.clear();
+    ctx.tessellate(std::mem::take(&mut out.shapes), out.pixels_per_point)
+}
+
 fn frame(c: &mut Criterion) {
     let data = tempfile::tempdir().expect("temp dir");
     let mut app = app_with(5_000, data.path());
@@ -35,14 +42,12 @@ fn frame(c: &mut Criterion) {
     // Warm up: fonts, first layout.
     for _ in 0..3 {
         t += 0.016;
-        let out = ctx.run_ui(input(t), |ui| app.ui_main(ui));
-        let _ = ctx.tessellate(out.shapes, out.pixels_per_point);
+        let _ = frame_once(&ctx, &mut app, t);
     }
     c.bench_function("frame_5000_beds_scrolling", |b| {
         b.iter(|| {
             t += 0.016;
-            let out = ctx.run_ui(input(t), |ui| app.ui_main(ui));
-            ctx.tessellate(out.shapes, out.pixels_per_point)
+            frame_once(&ctx, &mut app, t)
         })
     });
     let first = app.doc.section().beds[10].id;
@@ -52,8 +57,7 @@ fn frame(c: &mut Criterion) {
             k += 1;
             app.apply(Edit::SetThickness { bed: first, thickness_m: 1.0 + (k % 7) as f64 * 0.1 });
             t += 0.016;
-            let out = ctx.run_ui(input(t), |ui| app.ui_main(ui));
-            ctx.tessellate(out.shapes, out.pixels_per_point)
+            frame_once(&ctx, &mut app, t)
         })
     });
 }

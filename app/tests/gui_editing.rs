@@ -137,10 +137,12 @@ fn save_and_reopen_gives_the_same_project() {
     h.state_mut().apply(Edit::SetThickness { bed: id, thickness_m: 7.25 });
     h.run();
     assert!(h.state().doc.dirty);
+    assert!(h.state().title().starts_with("● "), "unsaved mark: {}", h.state().title());
     h.key_press_modifiers(Modifiers::COMMAND, Key::S);
     h.run();
     assert!(out.exists(), "file written");
     assert!(!h.state().doc.dirty, "clean after saving");
+    assert_eq!(h.state().title(), "saved.aggrade — Aggrade");
     let saved = h.state().doc.project.clone();
     let reopened = app(Some(out.clone()), data.path(), vec![]);
     assert!(reopened.message.is_none(), "{:?}", reopened.message);
@@ -424,4 +426,22 @@ fn arrow_keys_move_the_selection_and_delete_removes_the_bed() {
     h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
     h.run();
     assert_eq!(h.state().doc.section().beds, beds, "undo restores the deleted bed in place");
+}
+
+#[test]
+fn looking_at_every_bed_in_the_inspector_changes_nothing() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    h.get_by_label("Bed").click();
+    h.run();
+    let before = h.state().doc.project.clone();
+    let ids: Vec<_> = before.sections[0].beds.iter().map(|b| b.id).collect();
+    for id in ids {
+        h.state_mut().doc.selected_bed = Some(id);
+        h.run();
+    }
+    assert!(!h.state().doc.dirty, "showing a bed must not edit it");
+    assert!(!h.state().doc.can_undo());
+    assert_eq!(h.state().doc.project, before);
 }

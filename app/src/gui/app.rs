@@ -398,7 +398,8 @@ impl AggradeApp {
         }
     }
 
-    fn title(&self) -> String {
+    /// The window title: file name with a mark while there are unsaved changes.
+    pub fn title(&self) -> String {
         format!("{}{} — Aggrade", if self.doc.dirty { "● " } else { "" }, self.doc.display_name())
     }
 

@@ -88,10 +88,11 @@ impl Inspector {
         });
         egui::ScrollArea::vertical().id_salt("inspector_scroll").show(ui, |ui| {
             egui::Grid::new("bed_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
-                ui.label("Thickness");
+                let lab = ui.label("Thickness").id;
                 let mut t = unit.from_metres(bed.thickness_m);
                 let r = ui
-                    .add(egui::DragValue::new(&mut t).speed(0.01).range(0.001..=10_000.0).suffix(format!(" {}", unit.name())))
+                    .add(egui::DragValue::new(&mut t).speed(0.01).range(0.001..=f64::MAX).clamp_existing_to_range(false).suffix(format!(" {}", unit.name())))
+                    .labelled_by(lab)
                     .on_hover_text("Bed thickness; drag or click to type");
                 if r.changed() {
                     bed.thickness_m = unit.to_metres(t);
@@ -131,15 +132,15 @@ impl Inspector {
                 combo(ui, label, "contact", &mut bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
                 ui.end_row();
 
-                ui.label("Erosional relief");
+                let lab = ui.label("Erosional relief").id;
                 let mut has = bed.base_relief_m.is_some();
                 ui.horizontal(|ui| {
-                    if ui.checkbox(&mut has, "").on_hover_text("Relief measured at the base").changed() {
+                    if ui.checkbox(&mut has, "").labelled_by(lab).on_hover_text("Relief measured at the base").changed() {
                         bed.base_relief_m = has.then_some(0.1);
                     }
                     if let Some(r) = bed.base_relief_m.as_mut() {
                         let mut v = unit.from_metres(*r);
-                        if ui.add(egui::DragValue::new(&mut v).speed(0.01).range(0.0..=1000.0).suffix(format!(" {}", unit.name()))).changed() {
+                        if ui.add(egui::DragValue::new(&mut v).speed(0.01).range(0.0..=f64::MAX).clamp_existing_to_range(false).suffix(format!(" {}", unit.name()))).labelled_by(lab).changed() {
                             *r = unit.to_metres(v);
                             text_field = Some("relief");
                         }
@@ -151,14 +152,16 @@ impl Inspector {
                 combo(ui, label, "paleosol", &mut bed.paleosol, PaleosolDevelopment::ALL, |p| p.name(), "Degree of paleosol development");
                 ui.end_row();
 
-                ui.label("Carbonate stage");
+                let lab = ui.label("Carbonate stage").id;
                 ui.horizontal(|ui| {
                     let mut has = bed.carbonate_stage.is_some();
-                    if ui.checkbox(&mut has, "").on_hover_text("Carbonate morphological stage I–VI").changed() {
+                    if ui.checkbox(&mut has, "").labelled_by(lab).on_hover_text("Carbonate morphological stage I–VI").changed() {
                         bed.carbonate_stage = has.then_some(1);
                     }
                     if let Some(s) = bed.carbonate_stage.as_mut() {
-                        ui.add(egui::Slider::new(s, 1..=6).custom_formatter(|v, _| roman(v as u8).to_string()));
+                        ui.add(egui::Slider::new(s, 1..=6).custom_formatter(|v, _| roman(v as u8).to_string()))
+                            .labelled_by(lab)
+                            .on_hover_text("Carbonate morphological stage, I to VI");
                     }
                 });
                 ui.end_row();

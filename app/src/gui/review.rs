@@ -173,7 +173,12 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
                     let mut v = n.as_u64().unwrap_or(0);
                     ui.label(label);
                     let r = ui
-                        .add(egui::DragValue::new(&mut v).speed(0.1).range(0..=100))
+                        .add(
+                            egui::DragValue::new(&mut v)
+                                .speed(0.1)
+                                .range(0..=100)
+                                .clamp_existing_to_range(false),
+                        )
                         .on_hover_text(format!("Rule parameter `{name}`"));
                     if r.changed() {
                         *value = serde_json::Value::Number(v.into());
@@ -185,7 +190,12 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
                     let mut v = n.as_f64().unwrap_or(0.0);
                     ui.label(label);
                     let r = ui
-                        .add(egui::DragValue::new(&mut v).speed(0.01).range(0.0..=10_000.0))
+                        .add(
+                            egui::DragValue::new(&mut v)
+                                .speed(0.01)
+                                .range(0.0..=f64::MAX)
+                                .clamp_existing_to_range(false),
+                        )
                         .on_hover_text(format!("Rule parameter `{name}`"));
                     if r.changed() {
                         if let Some(num) = serde_json::Number::from_f64(v) {
