@@ -235,7 +235,8 @@ pub fn shapes(items: &[Item], which: &[u32], t: &MmToScreen, out: &mut Vec<Shape
 /// Text items are drawn through the painter (they need the font system).
 pub fn texts(items: &[Item], which: &[u32], t: &MmToScreen, painter: &egui::Painter) {
     for &i in which {
-        if let Some(Item::Text { pos, text, size_pt, color: c, anchor, .. }) = items.get(i as usize) {
+        if let Some(Item::Text { pos, text, size_pt, color: c, anchor, rotation_deg }) = items.get(i as usize)
+        {
             // Text height in points at this zoom (1 pt of type = 0.3528 mm); too small to read is
             // left out rather than drawn as a smudge.
             let raw = *size_pt as f32 * 0.3528 * t.zoom;
@@ -248,9 +249,34 @@ pub fn texts(items: &[Item], which: &[u32], t: &MmToScreen, painter: &egui::Pain
                 Anchor::Middle => egui::Align2::CENTER_BOTTOM,
                 Anchor::End => egui::Align2::RIGHT_BOTTOM,
             };
+            if rotation_deg.abs() > 1e-6 {
+                rotated_text(painter, t.pt(*pos), text, size, color(*c), *rotation_deg);
+                continue;
+            }
             painter.text(t.pt(*pos), align, text, egui::FontId::proportional(size), color(*c));
         }
     }
+}
+
+/// Text turned about its baseline start, as the layout asks (degrees counter-clockwise on the
+/// page, so 90 reads bottom to top). The layout only rotates start-anchored labels.
+fn rotated_text(
+    painter: &egui::Painter,
+    baseline_start: egui::Pos2,
+    text: &str,
+    size: f32,
+    c: egui::Color32,
+    deg: f64,
+) {
+    let galley = painter.layout_no_wrap(text.to_string(), egui::FontId::proportional(size), c);
+    // Screen y runs down, so a counter-clockwise turn on the page is a negative egui angle.
+    let angle = -(deg.to_radians() as f32);
+    // The galley is placed by its top-left corner; the baseline sits about 0.8 of the row
+    // height below it. Turn that offset with the text.
+    let up = -0.8 * galley.size().y;
+    let (sin, cos) = angle.sin_cos();
+    let top_left = baseline_start + egui::vec2(-up * sin, up * cos);
+    painter.add(egui::epaint::TextShape::new(top_left, galley, c).with_angle(angle));
 }
 
 #[cfg(test)]
