@@ -6,7 +6,6 @@ use aggrade_core::analysis::bodies::{
     write_proportion_curve_csv,
 };
 use aggrade_core::analysis::decompaction::{decompact_section, write_decompaction_csv, DecompactionParams};
-use aggrade_core::model::Section;
 use aggrade_core::rules::{interpret, Element, Interpretation, RuleParams};
 use anyhow::Context;
 use std::fmt::Write as _;
@@ -47,24 +46,8 @@ fn create(path: &Path) -> anyhow::Result<std::io::BufWriter<std::fs::File>> {
 
 /// Run `aggrade bodies`.
 pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
-    let loaded = aggrade_core::io::load(&args.file)?;
-    for w in &loaded.warnings {
-        eprintln!("aggrade: warning: {w}");
-    }
-    let project = loaded.project;
-    let sections: Vec<&Section> = match &args.section {
-        Some(name) => vec![project.section(name).with_context(|| {
-            format!(
-                "{}: no section named {name:?}; the file holds: {}",
-                args.file.display(),
-                project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ")
-            )
-        })?],
-        None => project.sections.iter().collect(),
-    };
-    if sections.is_empty() {
-        anyhow::bail!("{}: the file holds no sections", args.file.display());
-    }
+    let project = super::load_input(&args.file)?;
+    let sections = super::named_or_all(&project, &args.file, args.section.as_deref())?;
     if let Some(d) = args.burial_depth {
         if !(d.is_finite() && d >= 0.0) {
             anyhow::bail!("--burial-depth {d}: give the depth of the section top in metres, 0 or more");

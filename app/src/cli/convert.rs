@@ -38,13 +38,15 @@ pub fn run(args: &ConvertArgs) -> anyhow::Result<()> {
     match out_kind {
         FileKind::Project => {
             let project = match &args.section {
-                Some(name) => Project::new(vec![pick_section(&project, Some(name), &args.file)?.clone()]),
+                Some(name) => {
+                    Project::new(vec![super::one_section(&project, &args.file, Some(name))?.clone()])
+                }
                 None => project,
             };
             io::save_project(&args.output, &project).map_err(|e| anyhow::anyhow!("{e}"))?;
         }
         FileKind::BedTable => {
-            let section = pick_section(&project, args.section.as_deref(), &args.file)?;
+            let section = super::one_section(&project, &args.file, args.section.as_deref())?;
             io::write_bytes_atomic(&args.output, io::write_bed_table(section).as_bytes())
                 .map_err(|e| anyhow::anyhow!("{e}"))?;
             if !section.locality.is_empty() || section.coordinates.is_some() || !section.review.is_empty() {
@@ -58,30 +60,6 @@ pub fn run(args: &ConvertArgs) -> anyhow::Result<()> {
     }
     eprintln!("wrote {}", args.output.display());
     Ok(())
-}
-
-/// The section to convert: the named one, or the only one; else an error listing the names.
-fn pick_section<'p>(
-    project: &'p Project,
-    name: Option<&str>,
-    path: &std::path::Path,
-) -> anyhow::Result<&'p aggrade_core::model::Section> {
-    let names = || project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ");
-    match name {
-        Some(name) => project.section(name).with_context(|| {
-            format!("{}: no section named {name:?}; sections are {}", path.display(), names())
-        }),
-        None => match project.sections.as_slice() {
-            [one] => Ok(one),
-            [] => bail!("{}: the project has no sections", path.display()),
-            _ => bail!(
-                "{}: the project has {} sections; choose one with --section NAME ({})",
-                path.display(),
-                project.sections.len(),
-                names()
-            ),
-        },
-    }
 }
 
 fn same_file(a: &std::path::Path, b: &std::path::Path) -> bool {

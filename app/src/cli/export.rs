@@ -2,10 +2,9 @@
 
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
-use aggrade_core::model::Section;
 use aggrade_core::rules::{interpret, RuleParams};
 use anyhow::{bail, Context};
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 /// Arguments of `aggrade export`.
 #[derive(Debug, clap::Args)]
@@ -48,30 +47,6 @@ fn parse_scale(text: &str) -> anyhow::Result<f64> {
     }
 }
 
-/// Choose the section to print.
-fn pick_section<'a>(file: &Path, sections: &'a [Section], name: Option<&str>) -> anyhow::Result<&'a Section> {
-    let names = || sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ");
-    match name {
-        Some(n) => sections
-            .iter()
-            .find(|s| s.name == n)
-            .or_else(|| sections.iter().find(|s| s.name.eq_ignore_ascii_case(n)))
-            .with_context(|| {
-                format!("{}: no section named {n:?}; the file holds {}", file.display(), names())
-            }),
-        None => match sections {
-            [] => bail!("{}: the file holds no sections", file.display()),
-            [only] => Ok(only),
-            _ => bail!(
-                "{}: the file holds {} sections ({}); choose one with --section NAME",
-                file.display(),
-                sections.len(),
-                names()
-            ),
-        },
-    }
-}
-
 /// Seconds since 1970 for the PDF date: `SOURCE_DATE_EPOCH` when set (reproducible builds
 /// convention), otherwise the clock.
 fn creation_time() -> anyhow::Result<i64> {
@@ -88,36 +63,19 @@ fn creation_time() -> anyhow::Result<i64> {
     Ok(i64::try_from(now).unwrap_or(0))
 }
 
-/// YYYY-MM-DD of a Unix time (proleptic Gregorian calendar, UTC; days-from-civil inverse).
-fn iso_date(unix_s: i64) -> String {
-    let z = unix_s.div_euclid(86_400) + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02}")
-}
-
 /// Run `aggrade export`.
 pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
     if args.pdf.is_none() && args.svg.is_none() {
         bail!("nothing to write: give --pdf OUT.pdf and/or --svg OUT.svg");
     }
     let scale = parse_scale(&args.scale)?;
-    let loaded = aggrade_core::io::load(&args.file)?;
-    for w in &loaded.warnings {
-        eprintln!("aggrade: warning: {w}");
-    }
-    let section = pick_section(&args.file, &loaded.project.sections, args.section.as_deref())?;
+    let project = super::load_input(&args.file)?;
+    let section = super::one_section(&project, &args.file, args.section.as_deref())?;
     // Default rule parameters, as `aggrade interpret` uses without --params.
     let interp = interpret(section, &RuleParams::default());
     let when = creation_time()?;
     let meta = PrintMeta {
-        printed_on: iso_date(when),
+        printed_on: aggrade_core::export::civil_date(when),
         subtitle: args.file.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default(),
     };
     let orientation = if args.landscape { Orientation::Landscape } else { Orientation::Portrait };
@@ -187,15 +145,5 @@ mod tests {
             let e = parse_scale(bad).expect_err(bad).to_string();
             assert!(e.contains("--scale") && e.contains("> 0"), "{e}");
         }
-    }
-
-    #[test]
-    fn dates_from_unix_time() {
-        // 1970-01-01 is day 0; 2000-03-01 is 951868800 s (leap-year handling); 2026-12-01 is
-        // 1796083200 s (computed with Python's datetime, an independent implementation).
-        assert_eq!(iso_date(0), "1970-01-01");
-        assert_eq!(iso_date(951_868_800), "2000-03-01");
-        assert_eq!(iso_date(1_796_083_200), "2026-12-01");
-        assert_eq!(iso_date(1_796_083_200 - 1), "2026-11-30");
     }
 }

@@ -1,7 +1,7 @@
 //! `aggrade interpret`: run the interpretation rules on one section and print a readable report
 //! or one JSON object.
 
-use aggrade_core::model::{LengthUnit, Project, Section};
+use aggrade_core::model::{LengthUnit, Section};
 use aggrade_core::rules::{
     interpret, CandidateKind, GrainProfile, Interpretation, Regime, RuleParams, Stacking,
 };
@@ -31,11 +31,8 @@ pub struct InterpretArgs {
 
 /// Run `aggrade interpret`.
 pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
-    let loaded = aggrade_core::io::load(&args.file)?;
-    for w in &loaded.warnings {
-        eprintln!("aggrade: warning: {w}");
-    }
-    let section = choose_section(&loaded.project, &args.file, args.section.as_deref())?;
+    let project = super::load_input(&args.file)?;
+    let section = super::one_section(&project, &args.file, args.section.as_deref())?;
     check_lengths(section, &args.file)?;
     let params = rule_params(args)?;
     let result = interpret(section, &params);
@@ -49,28 +46,6 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
     let mut out = std::io::stdout().lock();
     out.write_all(text.as_bytes()).and_then(|()| out.flush()).context("writing to standard output")?;
     Ok(())
-}
-
-/// The section named on the command line, or the only one in the project.
-pub fn choose_section<'a>(
-    project: &'a Project,
-    file: &Path,
-    wanted: Option<&str>,
-) -> anyhow::Result<&'a Section> {
-    let names = || project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ");
-    match (wanted, project.sections.as_slice()) {
-        (_, []) => bail!("{}: the project holds no section to interpret", file.display()),
-        (Some(name), _) => project.section(name).ok_or_else(|| {
-            anyhow!("{}: no section named {name:?}; the sections are {}", file.display(), names())
-        }),
-        (None, [only]) => Ok(only),
-        (None, _) => bail!(
-            "{}: the project holds {} sections; choose one with --section NAME (one of {})",
-            file.display(),
-            project.sections.len(),
-            names()
-        ),
-    }
 }
 
 /// Refuse lengths the rules cannot use. The readers validate files fully; this guards the rules

@@ -8,8 +8,10 @@ pub mod interpret;
 pub mod panel;
 pub mod stats;
 
+use aggrade_core::model::{Project, Section};
+use anyhow::bail;
 use clap::{Parser, Subcommand};
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 /// Aggrade: log, interpret and print measured sections in river deposits.
@@ -60,4 +62,63 @@ pub fn main(cli: Cli) -> ExitCode {
             ExitCode::FAILURE
         }
     }
+}
+
+/// Read a project file or bed-table CSV for a command, reporting the reader's warnings on stderr.
+pub fn load_input(file: &Path) -> anyhow::Result<Project> {
+    let loaded = aggrade_core::io::load(file).map_err(|e| anyhow::anyhow!("{e}"))?;
+    for w in &loaded.warnings {
+        eprintln!("aggrade: warning: {w}");
+    }
+    Ok(loaded.project)
+}
+
+/// Section names, quoted and joined, for error messages.
+fn section_names(project: &Project) -> String {
+    project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ")
+}
+
+/// The section a single-section command works on: the named one, or the only one; otherwise an
+/// error listing the names.
+pub fn one_section<'a>(
+    project: &'a Project,
+    file: &Path,
+    wanted: Option<&str>,
+) -> anyhow::Result<&'a Section> {
+    match (wanted, project.sections.as_slice()) {
+        (_, []) => bail!("{}: the file holds no sections", file.display()),
+        (Some(name), _) => named(project, file, name),
+        (None, [only]) => Ok(only),
+        (None, _) => bail!(
+            "{}: the file holds {} sections; choose one with --section NAME (one of {})",
+            file.display(),
+            project.sections.len(),
+            section_names(project)
+        ),
+    }
+}
+
+/// The sections a command works on: the named one, or all of them.
+pub fn named_or_all<'a>(
+    project: &'a Project,
+    file: &Path,
+    wanted: Option<&str>,
+) -> anyhow::Result<Vec<&'a Section>> {
+    if project.sections.is_empty() {
+        bail!("{}: the file holds no sections", file.display());
+    }
+    match wanted {
+        Some(name) => Ok(vec![named(project, file, name)?]),
+        None => Ok(project.sections.iter().collect()),
+    }
+}
+
+fn named<'a>(project: &'a Project, file: &Path, name: &str) -> anyhow::Result<&'a Section> {
+    project.section(name).ok_or_else(|| {
+        anyhow::anyhow!(
+            "{}: no section named {name:?}; the file holds {}",
+            file.display(),
+            section_names(project)
+        )
+    })
 }

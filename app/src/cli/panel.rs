@@ -63,11 +63,7 @@ pub fn run(args: &PanelArgs) -> anyhow::Result<()> {
     }
     let paper = Paper::parse(&args.paper)
         .ok_or_else(|| anyhow!("--paper {:?}: valid are a4, a3, letter, tall", args.paper))?;
-    let loaded = aggrade_core::io::load(&args.file)?;
-    for w in &loaded.warnings {
-        eprintln!("aggrade: warning: {w}");
-    }
-    let project = &loaded.project;
+    let project = &super::load_input(&args.file)?;
     let params = RuleParams::default();
     let interps: Vec<Interpretation> = project.sections.iter().map(|s| interpret(s, &params)).collect();
     let opts = PanelOptions {

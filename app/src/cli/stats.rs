@@ -9,7 +9,6 @@ use aggrade_core::analysis::paleocurrents::{
     CircularSummary, DataKind, RoseParams,
 };
 use aggrade_core::model::{LithologyFamily, ReviewState, Section};
-use anyhow::Context;
 use serde_json::{json, Value};
 use std::fmt::Write as _;
 use std::path::PathBuf;
@@ -312,24 +311,8 @@ pub(crate) fn emit_stdout(text: &str) -> anyhow::Result<()> {
 
 /// Run `aggrade stats`.
 pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
-    let loaded = aggrade_core::io::load(&args.file)?;
-    for w in &loaded.warnings {
-        eprintln!("aggrade: warning: {w}");
-    }
-    let project = loaded.project;
-    let sections: Vec<&Section> = match &args.section {
-        Some(name) => vec![project.section(name).with_context(|| {
-            format!(
-                "{}: no section named {name:?}; the file holds: {}",
-                args.file.display(),
-                project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ")
-            )
-        })?],
-        None => project.sections.iter().collect(),
-    };
-    if sections.is_empty() {
-        anyhow::bail!("{}: the file holds no sections", args.file.display());
-    }
+    let project = super::load_input(&args.file)?;
+    let sections = super::named_or_all(&project, &args.file, args.section.as_deref())?;
     let kind = if args.axial { DataKind::Axial } else { DataKind::Directional };
     let params = CircularParams { kind, ..Default::default() };
     // Fail early, naming the bed, on readings outside 0–360°.

@@ -25,21 +25,6 @@ pub struct ExportDialog {
     preview: Option<(LayoutOptions, u64, Vec<Page>)>,
 }
 
-/// A civil date (YYYY-MM-DD, UTC) from seconds since 1970 (days-from-civil inverse, proleptic
-/// Gregorian calendar).
-pub fn civil_date(secs: i64) -> String {
-    let z = secs.div_euclid(86_400) + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02}")
-}
-
 /// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension.
 pub fn export_to(
     path: &Path,
@@ -48,7 +33,7 @@ pub fn export_to(
     opts: &LayoutOptions,
     now_secs: i64,
 ) -> Result<String, String> {
-    let meta = PrintMeta { printed_on: civil_date(now_secs), subtitle: String::new() };
+    let meta = PrintMeta { printed_on: aggrade_core::export::civil_date(now_secs), subtitle: String::new() };
     let pages = pages(section, interp, opts, &meta);
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
     let bytes = if is_svg {
@@ -177,18 +162,5 @@ impl ExportDialog {
             return Outcome::Closed;
         }
         outcome
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn civil_dates() {
-        // 1970-01-01 is day 0 of the Unix epoch; 951 782 400 s is 2000-02-29 (leap day).
-        assert_eq!(civil_date(0), "1970-01-01");
-        assert_eq!(civil_date(951_782_400), "2000-02-29");
-        assert_eq!(civil_date(-86_400), "1969-12-31");
     }
 }
