@@ -18,12 +18,7 @@ fn probe(script: &str, file: &Path) -> Value {
         .arg(file)
         .output()
         .unwrap_or_else(|e| panic!("cannot run python3 (needed as the independent PDF reader): {e}"));
-    assert!(
-        out.status.success(),
-        "{} failed: {}",
-        script.display(),
-        String::from_utf8_lossy(&out.stderr)
-    );
+    assert!(out.status.success(), "{} failed: {}", script.display(), String::from_utf8_lossy(&out.stderr));
     serde_json::from_slice(&out.stdout).expect("probe prints JSON")
 }
 
@@ -79,7 +74,10 @@ fn paper_sizes_follow_iso_216_and_ansi() {
         assert!(!sizes.is_empty());
         for size in sizes {
             let (w, h) = (size[0].as_f64().expect("w"), size[1].as_f64().expect("h"));
-            assert!((w - w_pt).abs() < 0.01 && (h - h_pt).abs() < 0.01, "{paper:?} {orientation:?}: {w} × {h} pt");
+            assert!(
+                (w - w_pt).abs() < 0.01 && (h - h_pt).abs() < 0.01,
+                "{paper:?} {orientation:?}: {w} × {h} pt"
+            );
         }
     }
 }
@@ -95,8 +93,10 @@ fn filled_heights(page: &Value, colour: &[f64]) -> Vec<f64> {
     let mut v = Vec::new();
     for kind in ["rects", "curves"] {
         for s in page[kind].as_array().expect("shapes") {
-            let c: Vec<f64> =
-                s["fill_colour"].as_array().map(|a| a.iter().filter_map(Value::as_f64).collect()).unwrap_or_default();
+            let c: Vec<f64> = s["fill_colour"]
+                .as_array()
+                .map(|a| a.iter().filter_map(Value::as_f64).collect())
+                .unwrap_or_default();
             if s["fill"].as_bool() == Some(true)
                 && c.len() == 3
                 && c.iter().zip(colour).all(|(a, b)| (a - b).abs() < 0.003)
@@ -140,7 +140,10 @@ fn beds_are_drawn_at_true_scale() {
         let mud_pt = filled_heights(page, &tint(Lithology::Mudstone));
         let one_m = 1000.0 / scale * 72.0 / 25.4;
         if one_m > 12.0 {
-            assert!(mud_pt.iter().any(|h| (h - one_m).abs() <= 0.2835), "1:{scale}: no 1 m mudstone in {mud_pt:?}");
+            assert!(
+                mud_pt.iter().any(|h| (h - one_m).abs() <= 0.2835),
+                "1:{scale}: no 1 m mudstone in {mud_pt:?}"
+            );
         }
     }
 }
@@ -151,7 +154,8 @@ fn text_is_embedded_and_searchable() {
     let i = sample_interpretation(&s);
     let (pdf, dir) = pdf_of(&s, &i, &LayoutOptions::default());
     let v = probe_pdf(&pdf, &dir);
-    let all: String = v["pages"].as_array().expect("pages").iter().map(|p| p["chars"].as_str().unwrap_or("")).collect();
+    let all: String =
+        v["pages"].as_array().expect("pages").iter().map(|p| p["chars"].as_str().unwrap_or("")).collect();
     let first = v["pages"][0]["text"].as_str().expect("text");
     for needle in ["Tarn Gap Bluff", "scale 1:100", "Legend", "sandstone", "page 1 of"] {
         assert!(first.contains(needle), "{needle:?} not found by pdfplumber in page 1 text:\n{first}");
@@ -181,6 +185,13 @@ fn same_input_same_bytes() {
     assert!(a.len() > 1000);
     assert!(a == b, "two exports of the same section differ");
     assert!(a.starts_with(b"%PDF-"));
+    // For looking at the output by eye: AGGRADE_PREVIEW_DIR=/some/dir keeps a copy.
+    if let Some(dir) = std::env::var_os("AGGRADE_PREVIEW_DIR") {
+        std::fs::write(Path::new(&dir).join("sample-a4.pdf"), &a).expect("write preview");
+        let opts = LayoutOptions { paper: Paper::TallSingle, scale_denominator: 50.0, ..Default::default() };
+        let (t, _d) = pdf_of(&s, &i, &opts);
+        std::fs::write(Path::new(&dir).join("sample-tall-50.pdf"), &t).expect("write preview");
+    }
 }
 
 #[test]
@@ -220,4 +231,19 @@ fn long_section_continues_over_pages_with_every_bed() {
     assert_eq!(v["pages"].as_array().expect("pages").len(), p.len());
     let last = v["pages"][p.len() - 1]["text"].as_str().expect("text");
     assert!(last.contains(&format!("page {} of {}", p.len(), p.len())), "{last}");
+}
+
+#[test]
+fn sample_fixture_is_the_demo_section() {
+    // tests/data/export/tarn_gap.aggrade is the invented demo section as a project file, used by
+    // the command-line tests; regenerate with UPDATE_FIXTURES=1 when the demo changes.
+    let project = aggrade_core::model::Project::new(vec![sample_section()]);
+    let json = serde_json::to_string_pretty(&project).expect("serialises");
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("data/export/tarn_gap.aggrade");
+    if std::env::var_os("UPDATE_FIXTURES").is_some() {
+        std::fs::write(&path, &json).expect("write fixture");
+    }
+    let on_disk = std::fs::read_to_string(&path).expect("fixture present (UPDATE_FIXTURES=1 writes it)");
+    let back: aggrade_core::model::Project = serde_json::from_str(&on_disk).expect("fixture parses");
+    assert_eq!(back, project, "fixture differs from the demo section");
 }

@@ -3,7 +3,9 @@
 //! module as an independent reader of what we write.
 
 use aggrade_core::io::{self, read_bed_table, write_bed_table, Problem};
-use aggrade_core::model::{Contact, GrainSize, LengthUnit, Lithology, Structure, SurfaceKind, WentworthClass};
+use aggrade_core::model::{
+    Contact, GrainSize, LengthUnit, Lithology, Structure, SurfaceKind, WentworthClass,
+};
 use std::process::Command;
 
 fn problems(text: &str) -> Vec<Problem> {
@@ -69,7 +71,11 @@ fn surface_kind_from_paleosol_below_and_from_its_column() {
 
 #[test]
 fn bad_thickness() {
-    let p = only_problem("thickness_m,lithology,grain\n1,sandstone,fine sand\n-1.5,mudstone,silt\n", 3, "thickness_m");
+    let p = only_problem(
+        "thickness_m,lithology,grain\n1,sandstone,fine sand\n-1.5,mudstone,silt\n",
+        3,
+        "thickness_m",
+    );
     assert!(p.message.contains("> 0") && p.message.contains("-1.5"), "{p}");
     let p = only_problem("thickness_cm,lithology,grain\nabc,mudstone,silt\n", 2, "thickness_cm");
     assert!(p.message.contains("\"abc\"") && p.message.contains("number"), "{p}");
@@ -82,13 +88,21 @@ fn bad_thickness() {
 
 #[test]
 fn unknown_lithology() {
-    let p = only_problem("thickness_m,lithology,grain\n1,sandstone,fine sand\n1,sandstne,fine sand\n", 3, "lithology");
+    let p = only_problem(
+        "thickness_m,lithology,grain\n1,sandstone,fine sand\n1,sandstne,fine sand\n",
+        3,
+        "lithology",
+    );
     assert!(p.message.contains("sandstne") && p.message.contains("claystone, mudstone"), "{p}");
 }
 
 #[test]
 fn unknown_grain_size() {
-    let p = only_problem("thickness_m,lithology,grain_base,grain_top\n1,sandstone,gravelish,fine sand\n", 2, "grain_base");
+    let p = only_problem(
+        "thickness_m,lithology,grain_base,grain_top\n1,sandstone,gravelish,fine sand\n",
+        2,
+        "grain_base",
+    );
     assert!(p.message.contains("gravelish") && p.message.contains("very fine sand"), "{p}");
     // A clastic bed needs a grain size; a covered one must have none.
     only_problem("thickness_m,lithology,grain\n1,mudstone,\n", 2, "grain");
@@ -97,7 +111,11 @@ fn unknown_grain_size() {
 
 #[test]
 fn bad_azimuth() {
-    let p = only_problem("thickness_m,lithology,grain,paleocurrents\n1,sandstone,fine sand,10;400;20\n", 2, "paleocurrents");
+    let p = only_problem(
+        "thickness_m,lithology,grain,paleocurrents\n1,sandstone,fine sand,10;400;20\n",
+        2,
+        "paleocurrents",
+    );
     assert!(p.message.contains("400") && p.message.contains("0–360"), "{p}");
     only_problem("thickness_m,lithology,grain,paleocurrents\n1,sandstone,fine sand,NE\n", 2, "paleocurrents");
 }
@@ -112,7 +130,11 @@ fn missing_required_column() {
 
 #[test]
 fn two_thickness_columns() {
-    let p = only_problem("thickness_m,lithology,thickness_ft,grain\n1,sandstone,3.3,fine sand\n", 1, "thickness_m, thickness_ft");
+    let p = only_problem(
+        "thickness_m,lithology,thickness_ft,grain\n1,sandstone,3.3,fine sand\n",
+        1,
+        "thickness_m, thickness_ft",
+    );
     assert!(p.message.contains("exactly one"), "{p}");
 }
 
@@ -129,7 +151,9 @@ fn other_vocabularies_name_what_is_valid() {
     for (column, value, valid) in cases {
         let extra = if column == "surface_kind" { ",surface" } else { "" };
         let extra_cell = if column == "surface_kind" { ",S" } else { "" };
-        let text = format!("thickness_m,lithology,grain,{column}{extra}\n1,sandstone,fine sand,{value}{extra_cell}\n");
+        let text = format!(
+            "thickness_m,lithology,grain,{column}{extra}\n1,sandstone,fine sand,{value}{extra_cell}\n"
+        );
         let p = only_problem(&text, 2, column);
         assert!(p.message.contains(valid), "{column}: {p}");
     }
@@ -145,7 +169,8 @@ fn every_bad_row_is_reported() {
 #[test]
 fn quoted_multiline_cells_keep_line_numbers_right() {
     // A quoted note spanning two lines: the next row starts on line 4 (RFC 4180 quoting).
-    let text = "thickness_m,lithology,grain,notes\n1,sandstone,fine sand,\"first\nsecond\"\n-1,mudstone,silt,\n";
+    let text =
+        "thickness_m,lithology,grain,notes\n1,sandstone,fine sand,\"first\nsecond\"\n-1,mudstone,silt,\n";
     let p = only_problem(text, 4, "thickness_m");
     assert!(p.message.contains("-1"));
 }
@@ -154,7 +179,8 @@ fn quoted_multiline_cells_keep_line_numbers_right() {
 fn unknown_columns_are_warnings_not_dropped_silently() {
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join("Sedge Creek.csv");
-    std::fs::write(&path, "thickness_m,lithology,grain,Weather,\n1,sandstone,fine sand,hot,\n").expect("write");
+    std::fs::write(&path, "thickness_m,lithology,grain,Weather,\n1,sandstone,fine sand,hot,\n")
+        .expect("write");
     let loaded = io::load(&path).expect("valid with warnings");
     assert_eq!(loaded.project.sections[0].name, "Sedge Creek", "the section takes the file stem");
     assert_eq!(loaded.warnings.len(), 2, "{:?}", loaded.warnings);
@@ -166,7 +192,8 @@ fn unknown_columns_are_warnings_not_dropped_silently() {
 fn load_names_the_file_in_errors() {
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join("pell.csv");
-    std::fs::write(&path, "thickness_ft,lithology,grain\n1,sandstone,fine sand\n2,sandstone,huge\n").expect("write");
+    std::fs::write(&path, "thickness_ft,lithology,grain\n1,sandstone,fine sand\n2,sandstone,huge\n")
+        .expect("write");
     let err = io::load(&path).expect_err("refused").to_string();
     assert!(err.contains("pell.csv") && err.contains("line 3") && err.contains("column grain"), "{err}");
     assert!(err.contains("\"huge\""), "the value is named: {err}");

@@ -44,6 +44,8 @@ fn wentworth_1922_class_limits_in_mm() {
 }
 
 #[test]
+// −3.3219 is the published worked value for 10 mm (= −log2 10), written as printed.
+#[allow(clippy::approx_constant)]
 fn krumbein_1934_phi_worked_conversions() {
     // Krumbein (1934): φ = −log2(d / 1 mm). Worked values computed from that formula
     // (0.0625 → 4, 0.25 → 2, 2 → −1, 64 → −6, 256 → −8, 1/256 → 8; others to 4 decimals).
@@ -104,13 +106,21 @@ fn class_boundaries_belong_to_the_coarser_class() {
         assert_eq!(WentworthClass::from_mm(d), Some(class), "{d} mm");
         assert_eq!(WentworthClass::from_phi(mm_to_phi(d)), Some(class), "phi {}", mm_to_phi(d));
         // Just below the limit: the finer class.
-        assert_eq!(WentworthClass::from_mm(d * 0.999), Some(WentworthClass::from_rank(class.rank() - 1)), "{d} mm − 0.1%");
+        assert_eq!(
+            WentworthClass::from_mm(d * 0.999),
+            Some(WentworthClass::from_rank(class.rank() - 1)),
+            "{d} mm − 0.1%"
+        );
     }
     // Worked: 0.18 mm (φ 2.4739) is fine sand (1/8–1/4 mm); 0.3 mm (φ 1.737) medium sand;
     // 10 mm pebble; 100 mm cobble (Wentworth 1922 limits).
-    for (text, class) in
-        [("0.18mm", FineSand), ("0.3 mm", MediumSand), ("10mm", Pebble), ("100mm", Cobble), ("2.4739phi", FineSand)]
-    {
+    for (text, class) in [
+        ("0.18mm", FineSand),
+        ("0.3 mm", MediumSand),
+        ("10mm", Pebble),
+        ("100mm", Cobble),
+        ("2.4739phi", FineSand),
+    ] {
         assert_eq!(GrainSize::parse(text).map(|g| g.class()), Ok(class), "{text}");
     }
 }

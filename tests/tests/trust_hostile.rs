@@ -1,4 +1,5 @@
-//! Hostile and broken input: every file in `tests/data/bad/` and a few generated at test time
+//! Hostile and broken input: every file in `tests/data/regressions/hostile/` (cases beyond the
+//! reader's own corpus in `tests/data/bad/`, which `io_hostile.rs` pins file for file) and a few generated at test time
 //! (deep nesting, ten million beds claimed, a 200 MB file, a device that never ends) gives a clear
 //! error naming the file, line and field, or a safe result; never a panic, and never more memory
 //! or time than the limits in `aggrade_core::io::limits` allow.
@@ -9,7 +10,7 @@ use std::path::{Path, PathBuf};
 use std::process::Command;
 
 fn bad(name: &str) -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("data/bad").join(name)
+    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("data/regressions/hostile").join(name)
 }
 
 /// Load a file that must be refused; return the message, after checking that it names the file.
@@ -34,12 +35,12 @@ fn assert_has(msg: &str, parts: &[&str]) {
 #[test]
 fn every_committed_bad_file_is_refused_with_line_field_and_what_is_valid() {
     let cases: &[(&str, &[&str])] = &[
-        ("truncated.aggrade", &["line 35", "ends too soon"]),
+        ("trust_truncated.aggrade", &["line 35", "ends too soon"]),
         (
-            "wrong_types.aggrade",
+            "trust_wrong_types.aggrade",
             &[
                 "4 problems",
-                "line 11: sections[0].beds[0].thickness_m: invalid type: string \"three\", expected a number",
+                "line 11: sections[0].beds[0].thickness_m: invalid type: string \"three\", expected f64",
                 "line 26: sections[0].beds[1].lithology",
                 "line 50: sections[0].beds[2].paleocurrents_deg: must be a list",
                 "line 66: sections[1].beds: must be a list",
@@ -57,7 +58,7 @@ fn every_committed_bad_file_is_refused_with_line_field_and_what_is_valid() {
         ("nan_literal.aggrade", &["line 11", "not valid JSON"]),
         ("number_out_of_range.aggrade", &["line 11", "number out of range"]),
         ("version_not_a_number.aggrade", &["line 2: format_version: must be a whole number 0–1"]),
-        ("bed_id_out_of_range.aggrade", &["line 45: sections[0].beds[2].id", "`-3`, expected a whole number ≥ 0"]),
+        ("bed_id_out_of_range.aggrade", &["line 45: sections[0].beds[2].id", "`-3`, expected u64"]),
         // "Caf" then byte 0xE9: column 27 of line 2 (26 bytes precede it).
         ("bad_utf8.aggrade", &["line 2", "not UTF-8", "0xE9", "column 27", "save the file as UTF-8"]),
         ("bad_utf8.csv", &["line 3", "not UTF-8", "0xE9", "column 22"]),
@@ -82,20 +83,20 @@ fn every_committed_bad_file_is_refused_with_line_field_and_what_is_valid() {
     }
 }
 
-/// Every file in the folder is covered by a case above or by the formula test below, so a new
-/// bad file cannot be added and silently left untested.
+/// Every file in the folder is used by a test here, so a new bad file cannot be added and
+/// silently left untested.
 #[test]
 fn no_bad_file_goes_untested() {
-    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("data/bad");
+    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("data/regressions/hostile");
     let mut names: Vec<String> = std::fs::read_dir(&dir)
-        .expect("tests/data/bad exists")
+        .expect("tests/data/regressions/hostile exists")
         .filter_map(Result::ok)
         .map(|e| e.file_name().to_string_lossy().into_owned())
         .collect();
     names.sort();
     let source = include_str!("trust_hostile.rs");
     for name in names {
-        assert!(source.contains(&format!("\"{name}\"")), "tests/data/bad/{name} is not used by any test");
+        assert!(source.contains(&format!("\"{name}\"")), "tests/data/regressions/hostile/{name} is not used by any test");
     }
 }
 

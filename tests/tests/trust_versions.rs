@@ -46,16 +46,35 @@ fn every_version_fixture_opens() {
 }
 
 /// The version 0 file (feet and centimetres, old field names) and the version 1 file written
-/// from it save to the same bytes: migration keeps every value. (Compared as saved text: a grain
-/// size given in mm is held as exact phi in memory but saved to 4 decimals of phi, e.g. 0.2 mm
-/// → 2.3219 phi, 0.2000 mm again to 4 significant figures.)
+/// from it hold the same project, and the version 1 file saves back byte for byte: migration
+/// keeps every value.
 #[test]
 fn version_0_migrates_to_the_same_project_as_its_version_1_save() {
-    let v0 = aggrade_core::io::project_to_json(&open("v0_corrie_sedge.aggrade")).expect("encodes");
+    let v0 = open("v0_corrie_sedge.aggrade");
+    let v1 = open("v1_corrie_sedge.aggrade");
+    assert_eq!(v0, v1);
     let v1_text = std::fs::read_to_string(fixture("v1_corrie_sedge.aggrade")).expect("readable");
-    assert_eq!(v0, v1_text);
-    let v1 = aggrade_core::io::project_to_json(&open("v1_corrie_sedge.aggrade")).expect("encodes");
-    assert_eq!(v1, v1_text);
+    assert_eq!(aggrade_core::io::project_to_json(&v1).expect("encodes"), v1_text);
+}
+
+/// Early version 1 files stored a grain size given in mm as phi to 4 decimals (2.3219 for
+/// 0.2 mm); they still open, and differ from the exact value only in that rounding.
+#[test]
+fn early_version_1_files_with_rounded_phi_still_open() {
+    let exact = open("v1_corrie_sedge.aggrade");
+    let rounded = open("v1_corrie_sedge_phi4.aggrade");
+    let g = |p: &aggrade_core::model::Project| p.sections[1].beds[1].grain_base.expect("grain").phi();
+    // -log2(0.2) = 2.321928… (Krumbein 1934); the early file holds it to 4 decimals.
+    assert!((g(&exact) - 2.321_928_094_887_362).abs() < 1e-15);
+    assert!((g(&rounded) - 2.3219).abs() < 1e-12);
+    let mut rounded = rounded;
+    for bed in &mut rounded.sections[1].beds {
+        bed.grain_base = bed.grain_base.map(|_| exact.sections[1].beds[1].grain_base.expect("grain"));
+        bed.grain_top = bed.grain_top.map(|_| exact.sections[1].beds[1].grain_top.expect("grain"));
+    }
+    // Sedge Creek bed 1 is silt (a class, not phi): put its class back after the overwrite.
+    rounded.sections[1].beds[0] = exact.sections[1].beds[0].clone();
+    assert_eq!(rounded, exact);
 }
 
 /// Unit conversion of the version 0 thicknesses, checked against the definitions.

@@ -35,9 +35,10 @@ pub fn summary(path: &std::path::Path, project: &aggrade_core::model::Project) -
     );
     for s in &project.sections {
         out.push_str(&format!(
-            "  {}: {} beds, {:.2} m total, {:.2} m exposed\n",
+            "  {}: {} bed{}, {:.2} m total, {:.2} m exposed\n",
             s.name,
             s.beds.len(),
+            if s.beds.len() == 1 { "" } else { "s" },
             s.total_thickness_m(),
             s.exposed_thickness_m()
         ));

@@ -36,6 +36,7 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
         eprintln!("aggrade: warning: {w}");
     }
     let section = choose_section(&loaded.project, &args.file, args.section.as_deref())?;
+    check_lengths(section, &args.file)?;
     let params = rule_params(args)?;
     let result = interpret(section, &params);
     let text = if args.json {
@@ -43,7 +44,7 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
         s.push('\n');
         s
     } else {
-        report(section, &result)
+        report(section, &result, &params)
     };
     let mut out = std::io::stdout().lock();
     out.write_all(text.as_bytes()).and_then(|()| out.flush()).context("writing to standard output")?;
@@ -72,20 +73,29 @@ pub fn choose_section<'a>(
     }
 }
 
+/// Refuse lengths the rules cannot use. The readers validate files fully; this guards the rules
+/// against any reader that lets such a value through.
+fn check_lengths(section: &Section, file: &Path) -> anyhow::Result<()> {
+    for (i, bed) in section.beds.iter().enumerate() {
+        let at =
+            || format!("{}: section {:?}, bed {} (id {})", file.display(), section.name, i + 1, bed.id.0);
+        if !(bed.thickness_m.is_finite() && bed.thickness_m > 0.0) {
+            bail!("{}: thickness_m is {}; valid is a number of metres > 0", at(), bed.thickness_m);
+        }
+        if let Some(r) = bed.base_relief_m.filter(|r| !(r.is_finite() && *r >= 0.0)) {
+            bail!("{}: base_relief_m is {r}; valid is a number of metres ≥ 0, or no value", at());
+        }
+    }
+    Ok(())
+}
+
 /// Defaults, then the parameter file, then `--window-m`; every invalid value is reported.
 fn rule_params(args: &InterpretArgs) -> anyhow::Result<RuleParams> {
     let mut params = match &args.params {
         Some(path) => {
             let text =
                 std::fs::read_to_string(path).with_context(|| format!("{}: cannot read", path.display()))?;
-            serde_json::from_str::<RuleParams>(&text).map_err(|e| {
-                anyhow!(
-                    "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}",
-                    path.display(),
-                    e.line(),
-                    e.column()
-                )
-            })?
+            parse_params(&text, path)?
         }
         None => RuleParams::default(),
     };
@@ -101,6 +111,28 @@ fn rule_params(args: &InterpretArgs) -> anyhow::Result<RuleParams> {
         bail!("invalid rule parameters{source}: {}", problems.join("; "));
     }
     Ok(params)
+}
+
+/// Parse a parameter file, naming the field at fault (serde alone reports only line and column).
+fn parse_params(text: &str, path: &Path) -> anyhow::Result<RuleParams> {
+    let value: serde_json::Value = serde_json::from_str(text).map_err(|e| {
+        anyhow!(
+            "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters",
+            path.display(),
+            e.line(),
+            e.column()
+        )
+    })?;
+    let Some(fields) = value.as_object() else {
+        bail!("{}: valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}", path.display());
+    };
+    for (name, v) in fields {
+        let one = serde_json::Value::Object([(name.clone(), v.clone())].into_iter().collect());
+        if let Err(e) = serde_json::from_value::<RuleParams>(one) {
+            bail!("{}: field {name:?}, value {v}: {e}", path.display());
+        }
+    }
+    serde_json::from_value(value).map_err(|e| anyhow!("{}: {e}", path.display()))
 }
 
 fn stacking_name(s: Stacking) -> &'static str {
@@ -140,7 +172,7 @@ fn fmt_proportion(p: Option<f64>) -> String {
 }
 
 /// The readable report: bodies, stacking, proportions, regimes, ranked candidates, the caution.
-pub fn report(section: &Section, r: &Interpretation) -> String {
+pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> String {
     let mut s = String::new();
     // Writing to a String cannot fail; the results are ignored for that reason.
     let _ = writeln!(s, "Section {:?}: interpretation", r.section);
@@ -234,9 +266,10 @@ pub fn report(section: &Section, r: &Interpretation) -> String {
     }
     let _ = writeln!(
         s,
-        "\nProportion curve: {} points, every {:.2} m (use --json for the values)",
+        "\nProportion curve: {} points, every {} m in a {} m window (use --json for the values)",
         r.proportion_curve.len(),
-        r.proportion_curve.get(1).map_or(0.0, |p| p.height_m)
+        params.curve_step_m,
+        params.window_m
     );
     let _ = writeln!(s, "\n{}", r.caution);
     s

@@ -1,15 +1,425 @@
-//! `aggrade stats`.
+//! `aggrade stats`: paleocurrent statistics and facies-transition analysis per section, and per
+//! interval between accepted sequence boundaries.
 
+use aggrade_core::analysis::markov::{
+    analyse_sequence, lithology_sequence, TransitionAnalysis, TransitionParams,
+};
+use aggrade_core::analysis::paleocurrents::{
+    circular_summary, per_bed, readings_in_interval, rose_bins, section_readings, CircularParams,
+    CircularSummary, DataKind, RoseParams,
+};
+use aggrade_core::model::{LithologyFamily, ReviewState, Section};
+use anyhow::Context;
+use serde_json::{json, Value};
+use std::fmt::Write as _;
 use std::path::PathBuf;
 
 /// Arguments of `aggrade stats`.
 #[derive(Debug, clap::Args)]
 pub struct StatsArgs {
-    /// Input file.
+    /// Project file (.aggrade) or bed-table CSV.
     pub file: PathBuf,
+    /// Only this section (by name; case-insensitive match is tried second).
+    #[arg(long)]
+    pub section: Option<String>,
+    /// Print JSON instead of text. One section gives one object with "paleocurrents" and
+    /// "transitions"; several give {"sections": [...]}. Azimuths and circular_std in degrees.
+    #[arg(long)]
+    pub json: bool,
+    /// Treat paleocurrent readings as axes (0–180°) rather than flow directions.
+    #[arg(long)]
+    pub axial: bool,
+    /// What the transition analysis counts: each lithology, or broad lithology families
+    /// (fines, sand, gravel, non-clastic), which helps short sections with many lithologies.
+    #[arg(long, value_enum, default_value_t = StateKind::Lithology)]
+    pub states: StateKind,
+    /// Rose-diagram bin width in degrees (must divide 360).
+    #[arg(long, default_value_t = 30.0)]
+    pub bin_width: f64,
+}
+
+/// The states of the facies-transition analysis.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum StateKind {
+    Lithology,
+    Family,
+}
+
+/// The state of each bed, `None` for covered intervals (they break the chain).
+fn state_sequence(section: &Section, kind: StateKind) -> Vec<Option<&'static str>> {
+    lithology_sequence(section)
+        .into_iter()
+        .map(|l| {
+            l.map(|l| match kind {
+                StateKind::Lithology => l.name(),
+                StateKind::Family => match l.family() {
+                    LithologyFamily::Fines => "fines",
+                    LithologyFamily::Sand => "sand",
+                    LithologyFamily::Gravel => "gravel",
+                    LithologyFamily::NonClastic => "non-clastic",
+                    LithologyFamily::Covered => "covered",
+                },
+            })
+        })
+        .collect()
+}
+
+/// Statistics of one stretch of section (whole section or an interval).
+struct Stretch {
+    base_m: f64,
+    top_m: f64,
+    paleocurrents: Result<CircularSummary, String>,
+    readings: Vec<f64>,
+    transitions: Result<TransitionAnalysis, String>,
+}
+
+fn stretch(
+    section: &Section,
+    base_m: f64,
+    top_m: f64,
+    params: &CircularParams,
+    states: StateKind,
+) -> Stretch {
+    let bases = section.base_heights_m();
+    let readings = readings_in_interval(section, base_m, top_m);
+    let seq: Vec<Option<&'static str>> = state_sequence(section, states)
+        .into_iter()
+        .zip(&bases)
+        .filter(|(_, h)| **h >= base_m && **h < top_m)
+        .map(|(l, _)| l)
+        .collect();
+    Stretch {
+        base_m,
+        top_m,
+        paleocurrents: circular_summary(&readings, params).map_err(|e| e.to_string()),
+        readings,
+        transitions: analyse_sequence(&seq, &TransitionParams::default()).map_err(|e| e.to_string()),
+    }
+}
+
+/// Heights of accepted boundaries, section base and top included, ascending.
+fn interval_bounds(section: &Section) -> Vec<f64> {
+    let bases = section.base_heights_m();
+    let mut cuts: Vec<f64> = section
+        .review
+        .iter()
+        .filter(|d| d.state == ReviewState::Accepted)
+        .filter_map(|d| section.bed_index(d.bed).map(|i| bases[i]))
+        .filter(|h| *h > 0.0)
+        .collect();
+    cuts.sort_by(f64::total_cmp);
+    cuts.dedup();
+    let mut bounds = vec![0.0];
+    bounds.extend(cuts);
+    bounds.push(section.total_thickness_m());
+    bounds
+}
+
+fn paleocurrents_json(s: &Stretch, args: &StatsArgs, kind: DataKind) -> Value {
+    match &s.paleocurrents {
+        Ok(p) => {
+            let rose = rose_bins(
+                &s.readings,
+                &RoseParams { bin_width_deg: args.bin_width, kind, ..Default::default() },
+            )
+            .ok()
+            .map(|r| serde_json::to_value(r).unwrap_or(Value::Null));
+            json!({
+                "kind": p.kind,
+                "n": p.n,
+                "mean_azimuth": p.mean_azimuth_deg,
+                "mean_resultant_length": p.mean_resultant_length,
+                "circular_std": finite_or_null(p.circular_std_deg),
+                "rayleigh_z": p.rayleigh_z,
+                "rayleigh_p": p.rayleigh_p,
+                "rayleigh_p_method": "Zar 1999",
+                "rose": rose,
+            })
+        }
+        Err(_) => Value::Null,
+    }
+}
+
+/// A p-value as "= 0.0123" or "< 0.0001".
+fn fmt_p(p: f64) -> String {
+    if p < 1e-4 {
+        "< 0.0001".into()
+    } else {
+        format!("= {p:.4}")
+    }
+}
+
+fn finite_or_null(v: f64) -> Value {
+    if v.is_finite() {
+        json!(v)
+    } else {
+        Value::Null
+    }
+}
+
+fn transitions_json(s: &Stretch) -> Value {
+    match &s.transitions {
+        Ok(t) => json!({
+            "states": t.states,
+            "observed": t.observed,
+            "expected": t.expected,
+            "difference": t.difference,
+            "transitions": t.transitions,
+            "chi_square": t.chi_square,
+            "g_square": t.g_square,
+            "dof": t.dof,
+            "p_value": t.p_value,
+            "small_expected_cells": t.small_expected_cells,
+            "preferred": t.preferred,
+        }),
+        Err(_) => Value::Null,
+    }
+}
+
+fn notes(s: &Stretch) -> Vec<String> {
+    let mut n = Vec::new();
+    if let Err(e) = &s.paleocurrents {
+        n.push(format!("paleocurrents: {e}"));
+    }
+    if let Err(e) = &s.transitions {
+        n.push(format!("transitions: {e}"));
+    }
+    n
+}
+
+fn section_json(
+    section: &Section,
+    whole: &Stretch,
+    intervals: &[Stretch],
+    args: &StatsArgs,
+    kind: DataKind,
+) -> Value {
+    json!({
+        "section": section.name,
+        "base": whole.base_m,
+        "top": whole.top_m,
+        "paleocurrents": paleocurrents_json(whole, args, kind),
+        "transitions": transitions_json(whole),
+        "notes": notes(whole),
+        "states_from": match args.states { StateKind::Lithology => "lithology", StateKind::Family => "lithology family" },
+        "beds": per_bed(section, &CircularParams { kind, ..Default::default() })
+            .unwrap_or_default()
+            .iter()
+            .map(|b| json!({
+                "bed_index": b.bed_index,
+                "bed_id": section.beds[b.bed_index].id.0,
+                "base": b.base_m,
+                "n": b.summary.n,
+                "mean_azimuth": b.summary.mean_azimuth_deg,
+                "mean_resultant_length": b.summary.mean_resultant_length,
+                "circular_std": finite_or_null(b.summary.circular_std_deg),
+                "rayleigh_z": b.summary.rayleigh_z,
+                "rayleigh_p": b.summary.rayleigh_p,
+            }))
+            .collect::<Vec<_>>(),
+        "intervals": intervals.iter().map(|s| json!({
+            "base": s.base_m,
+            "top": s.top_m,
+            "paleocurrents": paleocurrents_json(s, args, kind),
+            "transitions": transitions_json(s),
+            "notes": notes(s),
+        })).collect::<Vec<_>>(),
+    })
+}
+
+fn print_stretch(out: &mut String, s: &Stretch) -> std::fmt::Result {
+    match &s.paleocurrents {
+        Ok(p) => {
+            let what = match p.kind {
+                DataKind::Directional => "flow azimuths",
+                DataKind::Axial => "axes",
+            };
+            let mean = p
+                .mean_azimuth_deg
+                .map(|m| format!("{m:.1}°"))
+                .unwrap_or_else(|| "none (readings cancel)".into());
+            writeln!(out, "  Paleocurrents ({what}, n = {})", p.n)?;
+            writeln!(
+                out,
+                "    vector mean {mean}, mean resultant length {:.3}, circular s.d. {:.1}°",
+                p.mean_resultant_length, p.circular_std_deg
+            )?;
+            writeln!(
+                out,
+                "    Rayleigh z = {:.3}, p {} (Zar 1999 approximation)",
+                p.rayleigh_z,
+                fmt_p(p.rayleigh_p)
+            )?;
+        }
+        Err(e) => writeln!(out, "  Paleocurrents: {e}")?,
+    }
+    match &s.transitions {
+        Ok(t) => {
+            writeln!(out, "  Facies transitions (embedded Markov chain; repeats merged, covered intervals break the chain)")?;
+            let w = t.states.iter().map(|s| s.len()).max().unwrap_or(4).max(8);
+            let header: String = t.states.iter().map(|s| format!(" {s:>w$}")).collect();
+            writeln!(out, "    observed (rows from, columns to)")?;
+            writeln!(out, "    {:w$}{header}", "")?;
+            for (name, row) in t.states.iter().zip(&t.observed) {
+                let cells: String = row.iter().map(|v| format!(" {v:>w$}")).collect();
+                writeln!(out, "    {name:>w$}{cells}")?;
+            }
+            writeln!(out, "    expected under quasi-independence (iterative proportional fitting)")?;
+            writeln!(out, "    {:w$}{header}", "")?;
+            for (name, row) in t.states.iter().zip(&t.expected) {
+                let cells: String = row.iter().map(|v| format!(" {v:>w$.2}")).collect();
+                writeln!(out, "    {name:>w$}{cells}")?;
+            }
+            let p = t.p_value.map(fmt_p).unwrap_or_else(|| "n/a (fewer than 3 states)".into());
+            writeln!(
+                out,
+                "    chi-square = {:.2}, G² = {:.2}, dof = {}, p {p}",
+                t.chi_square, t.g_square, t.dof
+            )?;
+            if t.small_expected_cells * 5 > t.cells {
+                writeln!(
+                out,
+                    "    caution: {} of {} expected counts are below 5, so the chi-square p-value is only a rough guide",
+                    t.small_expected_cells, t.cells
+                )?;
+            }
+            if t.preferred.is_empty() {
+                writeln!(out, "    no transition stands out from chance")?;
+            }
+            for pt in &t.preferred {
+                writeln!(
+                    out,
+                    "    more often than chance: {} → {} (observed {}, expected {:.2}, residual {:.2})",
+                    pt.from, pt.to, pt.observed, pt.expected, pt.standardised_residual
+                )?;
+            }
+        }
+        Err(e) => writeln!(out, "  Facies transitions: {e}")?,
+    }
+    Ok(())
+}
+
+/// Write a command's output to stdout in one go. A reader that closes the pipe early
+/// (`aggrade stats FILE | head`) is not an error worth a message, and never a panic.
+pub(crate) fn emit_stdout(text: &str) -> anyhow::Result<()> {
+    use std::io::Write;
+    let mut stdout = std::io::stdout().lock();
+    match stdout.write_all(text.as_bytes()).and_then(|()| stdout.flush()) {
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
+        other => Ok(other?),
+    }
 }
 
 /// Run `aggrade stats`.
-pub fn run(_args: &StatsArgs) -> anyhow::Result<()> {
-    anyhow::bail!("`aggrade stats` is not built yet")
+pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
+    let loaded = aggrade_core::io::load(&args.file)?;
+    for w in &loaded.warnings {
+        eprintln!("aggrade: warning: {w}");
+    }
+    let project = loaded.project;
+    let sections: Vec<&Section> = match &args.section {
+        Some(name) => vec![project.section(name).with_context(|| {
+            format!(
+                "{}: no section named {name:?}; the file holds: {}",
+                args.file.display(),
+                project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ")
+            )
+        })?],
+        None => project.sections.iter().collect(),
+    };
+    if sections.is_empty() {
+        anyhow::bail!("{}: the file holds no sections", args.file.display());
+    }
+    let kind = if args.axial { DataKind::Axial } else { DataKind::Directional };
+    let params = CircularParams { kind, ..Default::default() };
+    // Fail early, naming the bed, on readings outside 0–360°.
+    for s in &sections {
+        for (i, b) in s.beds.iter().enumerate() {
+            if let Some(a) = b.paleocurrents_deg.iter().find(|a| !(0.0..=360.0).contains(*a)) {
+                anyhow::bail!(
+                    "{}: section {:?}, bed {} (id {}), field paleocurrents_deg: {a} is not an azimuth; valid values lie between 0 and 360 degrees",
+                    args.file.display(),
+                    s.name,
+                    i + 1,
+                    b.id.0
+                );
+            }
+        }
+    }
+    if !(args.bin_width > 0.0 && (360.0 / args.bin_width - (360.0 / args.bin_width).round()).abs() < 1e-9) {
+        anyhow::bail!(
+            "--bin-width {}: the bin width must divide 360 degrees into whole bins (e.g. 10, 15, 30, 45)",
+            args.bin_width
+        );
+    }
+    let mut values = Vec::new();
+    let mut out = String::new();
+    for s in &sections {
+        let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params, args.states);
+        let bounds = interval_bounds(s);
+        let intervals: Vec<Stretch> = if bounds.len() > 2 {
+            bounds
+                .windows(2)
+                .enumerate()
+                .map(|(k, w)| {
+                    // The top interval includes the section top.
+                    let top = if k + 2 == bounds.len() { w[1] + 1e-9 } else { w[1] };
+                    let mut st = stretch(s, w[0], top, &params, args.states);
+                    st.top_m = w[1];
+                    st
+                })
+                .collect()
+        } else {
+            Vec::new()
+        };
+        if args.json {
+            let mut v = section_json(s, &whole, &intervals, args, kind);
+            v["top"] = json!(s.total_thickness_m());
+            values.push(v);
+        } else {
+            writeln!(
+                out,
+                "Section {:?}: {:.2} m, {} beds, {} paleocurrent readings",
+                s.name,
+                s.total_thickness_m(),
+                s.beds.len(),
+                section_readings(s).len()
+            )?;
+            print_stretch(&mut out, &whole)?;
+            let beds = per_bed(s, &params).unwrap_or_default();
+            if !beds.is_empty() {
+                writeln!(out, "  Paleocurrents per bed (beds with two or more readings)")?;
+            }
+            for b in beds {
+                writeln!(
+                    out,
+                    "    bed {} (id {}, base {:.2} m): n = {}, mean {}, R̄ {:.3}, Rayleigh p {}",
+                    b.bed_index + 1,
+                    s.beds[b.bed_index].id.0,
+                    b.base_m,
+                    b.summary.n,
+                    b.summary.mean_azimuth_deg.map(|m| format!("{m:.1}°")).unwrap_or_else(|| "none".into()),
+                    b.summary.mean_resultant_length,
+                    fmt_p(b.summary.rayleigh_p)
+                )?;
+            }
+            for st in &intervals {
+                writeln!(
+                    out,
+                    "Interval {:.2}–{:.2} m (between accepted sequence boundaries)",
+                    st.base_m, st.top_m
+                )?;
+                print_stretch(&mut out, st)?;
+            }
+            writeln!(out)?;
+        }
+    }
+    if args.json {
+        let mut v = if values.len() == 1 { values.remove(0) } else { json!({ "sections": values }) };
+        v["caution"] = json!(aggrade_core::REVIEW_CAUTION);
+        writeln!(out, "{}", serde_json::to_string_pretty(&v)?)?;
+    } else {
+        writeln!(out, "{}", aggrade_core::REVIEW_CAUTION)?;
+    }
+    emit_stdout(&out)
 }

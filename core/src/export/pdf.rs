@@ -117,7 +117,11 @@ impl PageWriter {
 
     fn polygon(&mut self, points: Vec<LinePoint>, mode: PaintMode) {
         self.ops.push(Op::DrawPolygon {
-            polygon: Polygon { rings: vec![PolygonRing { points }], mode, winding_order: WindingOrder::NonZero },
+            polygon: Polygon {
+                rings: vec![PolygonRing { points }],
+                mode,
+                winding_order: WindingOrder::NonZero,
+            },
         });
     }
 
@@ -155,7 +159,7 @@ impl PageWriter {
             }
             Item::Circle { center, radius_mm, fill, stroke } => {
                 let r = *radius_mm;
-                if !(r > 0.0) {
+                if r.is_nan() || r <= 0.0 {
                     return;
                 }
                 let Some(mode) = self.paint(fill, stroke) else { return };
@@ -181,7 +185,7 @@ impl PageWriter {
                 self.polygon(pts, mode);
             }
             Item::Text { pos, text, size_pt, color: c, anchor, rotation_deg } => {
-                if text.is_empty() || !visible(c) || !(*size_pt > 0.0) {
+                if text.is_empty() || !visible(c) || size_pt.is_nan() || *size_pt <= 0.0 {
                     return;
                 }
                 let w = text_width_mm(text, *size_pt);
@@ -199,7 +203,14 @@ impl PageWriter {
                 self.ops.push(Op::StartTextSection);
                 self.ops.push(Op::SetFont { font: self.font.clone(), size: Pt(*size_pt as f32) });
                 self.ops.push(Op::SetTextMatrix {
-                    matrix: TextMatrix::Raw([cos as f32, sin as f32, -sin as f32, cos as f32, at.x.0, at.y.0]),
+                    matrix: TextMatrix::Raw([
+                        cos as f32,
+                        sin as f32,
+                        -sin as f32,
+                        cos as f32,
+                        at.x.0,
+                        at.y.0,
+                    ]),
                 });
                 self.ops.push(Op::ShowText { items: vec![TextItem::Text(text.clone())] });
                 self.ops.push(Op::EndTextSection);

@@ -101,7 +101,12 @@ pub fn write_svg(page: &Page) -> String {
                 let _ = writeln!(s, "<polygon points=\"{}\"{}/>", points(pts), paint(fill, stroke));
             }
             Item::Polyline { points: pts, stroke } => {
-                let _ = writeln!(s, "<polyline points=\"{}\" fill=\"none\"{}/>", points(pts), stroke_attrs(stroke));
+                let _ = writeln!(
+                    s,
+                    "<polyline points=\"{}\" fill=\"none\"{}/>",
+                    points(pts),
+                    stroke_attrs(stroke)
+                );
             }
             Item::Circle { center, radius_mm, fill, stroke } => {
                 let _ = writeln!(

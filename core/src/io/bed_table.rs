@@ -260,6 +260,14 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             .at_line(1)])
         }
     };
+    if let Some(line) = unclosed_quote_line(text) {
+        return Err(vec![Problem::new(
+            "",
+            "a quoted cell opened here is never closed, so the rest of the file would be read as one cell; \
+             add the closing \" (write \"\" for a quote mark inside a quoted cell)",
+        )
+        .at_line(line)]);
+    }
     let (columns, warnings) = map_header(&header)?;
     let mut problems = Vec::new();
     let mut section = Section::new(section_name);
@@ -513,6 +521,31 @@ fn csv_location(p: Problem, lines: &[usize], thickness_column: &str, single_grai
     out
 }
 
+/// The line of a quoted cell that is still open at the end of the text (RFC 4180 quoting: a
+/// quote at the start of a cell opens it, `""` inside is a quote mark, `"` closes it).
+fn unclosed_quote_line(text: &str) -> Option<usize> {
+    let mut line = 1;
+    let mut opened_at = None;
+    let mut at_cell_start = true;
+    let mut chars = text.chars().peekable();
+    while let Some(c) = chars.next() {
+        if c == '\n' {
+            line += 1;
+        }
+        match (opened_at, c) {
+            (Some(_), '"') if chars.peek() == Some(&'"') => {
+                chars.next();
+            }
+            (Some(_), '"') => opened_at = None,
+            (Some(_), _) => {}
+            (None, '"') if at_cell_start => opened_at = Some(line),
+            (None, _) => {}
+        }
+        at_cell_start = opened_at.is_none() && (c == ',' || c == '\n' || c == '\r');
+    }
+    opened_at
+}
+
 /// Quote a CSV cell when needed (RFC 4180: comma, quote, line break; and edge spaces).
 fn quote(cell: &str) -> String {
     if cell.contains([',', '"', '\n', '\r']) || cell.starts_with(' ') || cell.ends_with(' ') {
@@ -553,7 +586,7 @@ pub fn write_bed_table(section: &Section) -> String {
     out.push('\n');
     let join = |items: Vec<String>| items.join(";");
     for bed in &section.beds {
-        let grain = |g: Option<GrainSize>| g.map(|g| escape_formula(&g.to_string())).unwrap_or_default();
+        let grain = |g: Option<GrainSize>| g.map(|g| escape_formula(&String::from(g))).unwrap_or_default();
         let cells: [String; 17] = [
             format!("{}", unit.from_metres(bed.thickness_m)),
             bed.lithology.name().to_string(),

@@ -20,6 +20,8 @@ pub struct ProjectRead {
 /// Read project JSON text: limits, syntax, version and migration, fields, then validation.
 /// Every problem carries the line its value starts on, where it can be found.
 pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
+    // A byte-order mark (written by some Windows editors) is not JSON; skip it.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     json_scan::check_limits(text).map_err(|p| vec![p])?;
     let mut root: Value = serde_json::from_str(text).map_err(|e| {
         let what = match e.classify() {
@@ -30,7 +32,17 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
         // serde_json's message ends with "at line L column C"; we give the line ourselves.
         let msg = e.to_string();
         let msg = msg.split(" at line ").next().unwrap_or(&msg).to_string();
-        vec![Problem::new("", format!("{what}: {msg} (column {})", e.column())).at_line(e.line())]
+        let hint = match text
+            .lines()
+            .nth(e.line().saturating_sub(1))
+            .and_then(|l| l.get(e.column().saturating_sub(1)..))
+        {
+            Some(rest) if ["NaN", "Infinity", "-Infinity", "inf"].iter().any(|w| rest.starts_with(w)) => {
+                "; JSON has no NaN or Infinity: write a finite number"
+            }
+            _ => "",
+        };
+        vec![Problem::new("", format!("{what}: {msg} (column {}){hint}", e.column())).at_line(e.line())]
     })?;
     let mut warnings = Vec::new();
     let version = match root.get("format_version") {
@@ -100,9 +112,6 @@ fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Pro
             paths
         })
         .collect();
-    if wanted.is_empty() {
-        return problems;
-    }
     let refs: Vec<&str> = wanted.iter().map(String::as_str).collect();
     let lines = json_scan::lines_of(text, &refs);
     for p in problems.iter_mut().filter(|p| p.line.is_none()) {
@@ -111,6 +120,11 @@ fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Pro
         let exact = |path: &str| lines.get(path).copied();
         p.line = v0.as_deref().and_then(exact).or_else(|| exact(&p.location));
     }
+    for p in problems.iter_mut().filter(|p| p.line.is_none() && p.location.is_empty()) {
+        p.line = Some(1); // The root value.
+    }
+    // File order reads best.
+    problems.sort_by_key(|p| p.line);
     problems
 }
 

@@ -19,18 +19,7 @@ enum Kind {
 }
 
 fn check<T: DeserializeOwned>(v: &Value) -> Result<(), String> {
-    T::deserialize(v).map(|_| ()).map_err(|e| plain(&e.to_string()))
-}
-
-/// serde's message with Rust type names put in words a geologist reads ("expected f64" →
-/// "expected a number").
-fn plain(message: &str) -> String {
-    message
-        .replace("expected f64", "expected a number")
-        .replace("expected u64", "expected a whole number ≥ 0")
-        .replace("expected u32", "expected a whole number ≥ 0")
-        .replace("expected u8", "expected a whole number 0–255")
-        .replace("integer `", "the whole number `")
+    T::deserialize(v).map(|_| ()).map_err(|e| e.to_string())
 }
 
 fn string_list(v: &Value) -> Result<(), String> {
@@ -128,7 +117,7 @@ fn build<T: DeserializeOwned>(v: &Value, path: &str, problems: &mut Vec<Problem>
     match T::deserialize(v) {
         Ok(t) => Some(t),
         Err(e) => {
-            problems.push(Problem::new(path, plain(&e.to_string())));
+            problems.push(Problem::new(path, e.to_string()));
             None
         }
     }

@@ -31,13 +31,13 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         if !(c.lat_deg.is_finite() && (-90.0..=90.0).contains(&c.lat_deg)) {
             out.push(Problem::new(
                 "coordinates.lat_deg",
-                format!("must lie between -90 and 90, got {}", shown(c.lat_deg)),
+                format!("must lie between -90 and 90, got {}", show(c.lat_deg)),
             ));
         }
         if !(c.lon_deg.is_finite() && (-180.0..=180.0).contains(&c.lon_deg)) {
             out.push(Problem::new(
                 "coordinates.lon_deg",
-                format!("must lie between -180 and 180, got {}", shown(c.lon_deg)),
+                format!("must lie between -180 and 180, got {}", show(c.lon_deg)),
             ));
         }
     }
@@ -53,7 +53,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         if !(x.is_finite() && x.abs() <= MAX_PANEL_POSITION_M) {
             out.push(Problem::new(
                 "panel_position_m",
-                format!("must be a finite number of metres within ±{MAX_PANEL_POSITION_M}, got {}", shown(x)),
+                format!("must be a finite number of metres within ±{MAX_PANEL_POSITION_M}, got {}", show(x)),
             ));
         }
     }
@@ -79,7 +79,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         if !(t.is_finite() && t > 0.0 && t <= MAX_BED_THICKNESS_M) {
             out.push(Problem::new(
                 at("thickness_m"),
-                format!("must be > 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", shown(t)),
+                format!("must be > 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(t)),
             ));
         }
         let litho = bed.lithology;
@@ -96,7 +96,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
                     format!("must be empty for a {litho} interval (nothing exposed to size), got {g}"),
                 )),
                 (_, Some(GrainSize::Phi(p))) if !(p.is_finite() && (-12.0..=14.0).contains(&p)) => {
-                    out.push(Problem::new(at(field), format!("phi must lie between -12 and 14, got {}", shown(p))))
+                    out.push(Problem::new(at(field), format!("phi must lie between -12 and 14, got {}", show(p))))
                 }
                 _ => {}
             }
@@ -105,7 +105,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
             if !(r.is_finite() && (0.0..=MAX_BED_THICKNESS_M).contains(&r)) {
                 out.push(Problem::new(
                     at("base_relief_m"),
-                    format!("must be ≥ 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", shown(r)),
+                    format!("must be ≥ 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(r)),
                 ));
             }
         }
@@ -113,7 +113,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
             if !(a.is_finite() && (0.0..=360.0).contains(a)) {
                 out.push(Problem::new(
                     format!("beds[{i}].paleocurrents_deg[{k}]"),
-                    format!("an azimuth must lie between 0 and 360 degrees, got {}", shown(*a)),
+                    format!("an azimuth must lie between 0 and 360 degrees, got {}", show(*a)),
                 ));
             }
         }
@@ -198,6 +198,15 @@ pub fn validate_project(project: &Project) -> Vec<Problem> {
     out
 }
 
+/// A number as a person would type it; very large or small ones in exponent form (1e300).
+pub(crate) fn show(v: f64) -> String {
+    if v.is_finite() && v != 0.0 && !(1e-6..1e9).contains(&v.abs()) {
+        format!("{v:e}")
+    } else {
+        format!("{v}")
+    }
+}
+
 fn check_text(out: &mut Vec<Problem>, location: &str, text: &str) {
     let n = text.chars().count();
     if n > MAX_STRING_CHARS {
@@ -236,16 +245,6 @@ pub fn check_iso_date(text: &str) -> Result<(), String> {
         return Err(format!("day must be 01–{days} for that month"));
     }
     Ok(())
-}
-
-/// A number as a message shows it: plain for everyday magnitudes, in exponent form for huge or
-/// tiny ones (so `1e300` does not print as a 301-digit line).
-pub(crate) fn shown(x: f64) -> String {
-    if x == 0.0 || !x.is_finite() || (1e-6..1e15).contains(&x.abs()) {
-        format!("{x}")
-    } else {
-        format!("{x:e}")
-    }
 }
 
 #[cfg(test)]

@@ -9,7 +9,9 @@ use super::style::*;
 use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
 use super::text::{fit_size, text, text_up};
 use super::transform::{GrainScale, HeightTransform};
-use crate::model::{Bed, Contact, LengthUnit, Lithology, PaleosolDevelopment, ReviewState, Section, WentworthClass};
+use crate::model::{
+    Bed, Contact, LengthUnit, Lithology, PaleosolDevelopment, ReviewState, Section, WentworthClass,
+};
 use crate::rules::{Interpretation, Regime, Stacking};
 use serde::Serialize;
 
@@ -69,9 +71,9 @@ impl Tracks {
             x += w + gap;
             t
         };
-        let axis = take(13.0, 1.0);
+        let axis = take(12.0, 1.0);
         let lithology = take(GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 2.0);
-        let structures = take(15.0, 0.5);
+        let structures = take(14.0, 0.5);
         let paleocurrents = take(9.0, 0.5);
         let paleosols = take(6.0, 1.5);
         let (storeys, bodies, proportion, regime, boundary_labels) = if opts.show_interpretation {
@@ -80,12 +82,24 @@ impl Tracks {
                 Some(take(9.0, 1.5)),
                 Some(take(16.0, 1.5)),
                 Some(take(6.5, 0.5)),
-                Some(take(14.0, 0.0)),
+                Some(take(12.0, 0.0)),
             )
         } else {
             (None, None, None, None, None)
         };
-        Tracks { axis, lithology, structures, paleocurrents, paleosols, storeys, bodies, proportion, regime, boundary_labels, width_mm: x }
+        Tracks {
+            axis,
+            lithology,
+            structures,
+            paleocurrents,
+            paleosols,
+            storeys,
+            bodies,
+            proportion,
+            regime,
+            boundary_labels,
+            width_mm: x,
+        }
     }
 
     /// The grain scale of a segment whose left edge is at `x0_mm`.
@@ -262,7 +276,8 @@ impl<'a> ColumnCtx<'a> {
         }
         let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
         let (xb, xt) = (self.right_x(i, b, g), self.right_x(i, tp, g));
-        let outline = [PtMm { x: xl, y: yb }, PtMm { x: xb, y: yb }, PtMm { x: xt, y: yt }, PtMm { x: xl, y: yt }];
+        let outline =
+            [PtMm { x: xl, y: yb }, PtMm { x: xb, y: yb }, PtMm { x: xt, y: yt }, PtMm { x: xl, y: yt }];
         // Anchor patterns to the section base so they run on across beds and segments.
         fill_bed(bed.lithology, &outline, PtMm { x: xl, y: t.y_mm(0.0) }, out);
         out.push(Item::Polyline {
@@ -304,7 +319,12 @@ impl<'a> ColumnCtx<'a> {
                 let x = xl + ((xb.min(xt) - xl) - w) / 2.0;
                 let y = (yb + yt) / 2.0 + size * 0.35 * 0.353;
                 out.push(Item::Rect {
-                    rect: RectMm { x: x - 0.4, y: y - size * 0.353 * 0.85, w: w + 0.8, h: size * 0.353 * 1.2 },
+                    rect: RectMm {
+                        x: x - 0.4,
+                        y: y - size * 0.353 * 0.85,
+                        w: w + 0.8,
+                        h: size * 0.353 * 1.2,
+                    },
                     fill: Some(Rgba::WHITE),
                     stroke: None,
                 });
@@ -395,7 +415,14 @@ impl<'a> ColumnCtx<'a> {
                         if let Some(size) = fit_size(&candidate, yb - yt - 1.0, SMALL_PT, 4.0) {
                             let w = super::text::width(&candidate, size);
                             let asc = size * 0.353 * 0.76;
-                            text_up(out, x + 1.2 + asc, (yb + yt) / 2.0 + w / 2.0, &candidate, size, BODY_BLUE);
+                            text_up(
+                                out,
+                                x + 1.2 + asc,
+                                (yb + yt) / 2.0 + w / 2.0,
+                                &candidate,
+                                size,
+                                BODY_BLUE,
+                            );
                             break;
                         }
                     }
@@ -412,7 +439,7 @@ impl<'a> ColumnCtx<'a> {
                     let (fill, label) = match r.regime {
                         Regime::Low => (REGIME_LOW, "low"),
                         Regime::High => (REGIME_HIGH, "high"),
-                        Regime::Undetermined => (REGIME_UNDETERMINED, "?"),
+                        Regime::Undetermined => (REGIME_UNDETERMINED, "undetermined"),
                     };
                     out.push(Item::Rect {
                         rect: RectMm { x: x0 + rt.x_mm, y: yt, w: rt.w_mm, h: yb - yt },
@@ -422,7 +449,14 @@ impl<'a> ColumnCtx<'a> {
                     if let Some(size) = fit_size(label, yb - yt - 1.0, SMALL_PT, 4.0) {
                         let w = super::text::width(label, size);
                         let asc = size * 0.353 * 0.76;
-                        text_up(out, x0 + rt.x_mm + rt.w_mm / 2.0 + asc / 2.0, (yb + yt) / 2.0 + w / 2.0, label, size, INK);
+                        text_up(
+                            out,
+                            x0 + rt.x_mm + rt.w_mm / 2.0 + asc / 2.0,
+                            (yb + yt) / 2.0 + w / 2.0,
+                            label,
+                            size,
+                            INK,
+                        );
                     }
                 }
             }
@@ -430,7 +464,15 @@ impl<'a> ColumnCtx<'a> {
         self.draw_boundaries(lo, hi, x0, t, out);
     }
 
-    fn draw_proportion(&self, pt: Track, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+    fn draw_proportion(
+        &self,
+        pt: Track,
+        lo: f64,
+        hi: f64,
+        x0: f64,
+        t: &HeightTransform,
+        out: &mut Vec<Item>,
+    ) {
         let (x_a, x_b) = (x0 + pt.x_mm, x0 + pt.x_mm + pt.w_mm);
         let (y_lo, y_hi) = (t.y_mm(lo), t.y_mm(hi));
         for (x, stroke) in [
@@ -455,7 +497,10 @@ impl<'a> ColumnCtx<'a> {
         let mut run: Vec<PtMm> = Vec::new();
         let flush = |run: &mut Vec<PtMm>, out: &mut Vec<Item>| {
             if run.len() >= 2 {
-                out.push(Item::Polyline { points: std::mem::take(run), stroke: solid(THIN_MM * 2.0, CURVE_GREEN) });
+                out.push(Item::Polyline {
+                    points: std::mem::take(run),
+                    stroke: solid(THIN_MM * 2.0, CURVE_GREEN),
+                });
             }
             run.clear();
         };
@@ -539,12 +584,26 @@ impl<'a> ColumnCtx<'a> {
         let lith = tr.lithology;
         for (line, label) in [(0.0, "lithology"), (1.0, "grain size \u{2192}")] {
             let w = super::text::width(label, TEXT_PT);
-            text(out, x0 + lith.x_mm + (lith.w_mm - w) / 2.0, y_bottom - 3.5 + line * 3.0, label, TEXT_PT, INK);
+            text(
+                out,
+                x0 + lith.x_mm + (lith.w_mm - w) / 2.0,
+                y_bottom - 3.5 + line * 3.0,
+                label,
+                TEXT_PT,
+                INK,
+            );
         }
         if let Some(p) = tr.proportion {
             for (line, label) in [(0.0, "channel-body"), (1.0, "proportion")] {
                 let w = super::text::width(label, SMALL_PT);
-                text(out, x0 + p.x_mm + (p.w_mm - w) / 2.0, y_bottom - 3.2 + line * 2.6, label, SMALL_PT, INK);
+                text(
+                    out,
+                    x0 + p.x_mm + (p.w_mm - w) / 2.0,
+                    y_bottom - 3.2 + line * 2.6,
+                    label,
+                    SMALL_PT,
+                    INK,
+                );
             }
         }
         if let Some(l) = tr.boundary_labels {
@@ -554,7 +613,10 @@ impl<'a> ColumnCtx<'a> {
             }
         }
         out.push(Item::Polyline {
-            points: vec![PtMm { x: x0, y: y_top + TITLE_BAND_MM }, PtMm { x: x0 + tr.width_mm, y: y_top + TITLE_BAND_MM }],
+            points: vec![
+                PtMm { x: x0, y: y_top + TITLE_BAND_MM },
+                PtMm { x: x0 + tr.width_mm, y: y_top + TITLE_BAND_MM },
+            ],
             stroke: solid(HAIR_MM, GREY),
         });
     }
@@ -592,7 +654,7 @@ impl<'a> ColumnCtx<'a> {
             let w = super::text::width(label, SMALL_PT);
             text(out, (xa + xb - w) / 2.0, y + 7.8, label, SMALL_PT, GREY);
         }
-        let phi_note = "class midpoints in \u{3c6} = \u{2212}log\u{2082}(d/mm)";
+        let phi_note = "Wentworth classes; \u{3c6} = \u{2212}log\u{2082}(d/mm)";
         if let Some(size) = fit_size(phi_note, g.full_width_mm() + 4.0, 4.5, 3.5) {
             text(out, g.left_mm, y + 10.8, phi_note, size, GREY);
         }
@@ -614,7 +676,7 @@ pub fn boundary_style(review: ReviewState, score: f64) -> (Stroke, String, Rgba)
         }
         ReviewState::Accepted => (solid(0.55, BOUNDARY_RED), format!("SB {score:.2}"), BOUNDARY_RED),
         ReviewState::Rejected => {
-            (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), format!("rejected {score:.2}"), REJECTED_GREY)
+            (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), format!("rej. {score:.2}"), REJECTED_GREY)
         }
     }
 }
@@ -633,15 +695,31 @@ pub fn paleosol_bar_mm(dev: PaleosolDevelopment) -> f64 {
 /// A vertical bracket at x from yb (base) to yt (top), with end ticks pointing left where the
 /// interval ends inside the segment.
 #[allow(clippy::too_many_arguments)]
-fn bracket(x: f64, yb: f64, yt: f64, tick_base: bool, tick_top: bool, tick: f64, width: f64, out: &mut Vec<Item>) {
+fn bracket(
+    x: f64,
+    yb: f64,
+    yt: f64,
+    tick_base: bool,
+    tick_top: bool,
+    tick: f64,
+    width: f64,
+    out: &mut Vec<Item>,
+) {
+    // Closed ends stop short of the boundary so that stacked intervals read as separate brackets.
+    let inset = width / 2.0 + 0.35;
+    let y_top = if tick_top { yt + inset } else { yt };
+    let y_base = if tick_base { yb - inset } else { yb };
+    if y_base <= y_top {
+        return;
+    }
     let mut pts = Vec::new();
     if tick_top {
-        pts.push(PtMm { x: x - tick, y: yt + width / 2.0 });
+        pts.push(PtMm { x: x - tick, y: y_top });
     }
-    pts.push(PtMm { x, y: yt + if tick_top { width / 2.0 } else { 0.0 } });
-    pts.push(PtMm { x, y: yb - if tick_base { width / 2.0 } else { 0.0 } });
+    pts.push(PtMm { x, y: y_top });
+    pts.push(PtMm { x, y: y_base });
     if tick_base {
-        pts.push(PtMm { x: x - tick, y: yb - width / 2.0 });
+        pts.push(PtMm { x: x - tick, y: y_base });
     }
     out.push(Item::Polyline { points: pts, stroke: solid(width, BODY_BLUE) });
 }
@@ -667,7 +745,10 @@ pub fn draw_contact(contact: Contact, xl: f64, xr: f64, y: f64, out: &mut Vec<It
             for k in 0..n {
                 for s in 0..8 {
                     let f = s as f64 / 8.0;
-                    pts.push(PtMm { x: xl + (k as f64 + f) * w, y: y + 0.7 * (f * std::f64::consts::PI).sin() });
+                    pts.push(PtMm {
+                        x: xl + (k as f64 + f) * w,
+                        y: y + 0.7 * (f * std::f64::consts::PI).sin(),
+                    });
                 }
             }
             pts.push(PtMm { x: xr, y });
@@ -678,7 +759,9 @@ pub fn draw_contact(contact: Contact, xl: f64, xr: f64, y: f64, out: &mut Vec<It
 
 /// A tick step (in display units) giving major ticks at least ~8 mm apart.
 pub fn axis_step(mm_per_unit: f64) -> f64 {
-    const STEPS: [f64; 16] = [0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0, 200.0, 500.0, 1000.0, 2000.0, 5000.0, 10000.0];
+    const STEPS: [f64; 16] = [
+        0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0, 200.0, 500.0, 1000.0, 2000.0, 5000.0, 10000.0,
+    ];
     STEPS.iter().copied().find(|s| s * mm_per_unit >= 8.0).unwrap_or(10000.0)
 }
 
@@ -709,7 +792,9 @@ mod tests {
             let opts = LayoutOptions { show_interpretation: show, ..Default::default() };
             let t = Tracks::new(&opts);
             let mut list = vec![t.axis, t.lithology, t.structures, t.paleocurrents, t.paleosols];
-            list.extend([t.storeys, t.bodies, t.proportion, t.regime, t.boundary_labels].into_iter().flatten());
+            list.extend(
+                [t.storeys, t.bodies, t.proportion, t.regime, t.boundary_labels].into_iter().flatten(),
+            );
             assert_eq!(list.len(), if show { 10 } else { 5 });
             for w in list.windows(2) {
                 assert!(w[0].x_mm + w[0].w_mm <= w[1].x_mm + 1e-9, "{w:?}");
@@ -717,6 +802,31 @@ mod tests {
             let last = list[list.len() - 1];
             assert!(last.x_mm + last.w_mm <= t.width_mm + 1e-9);
         }
+    }
+
+    #[test]
+    fn feet_sections_get_a_feet_axis() {
+        use crate::layout::sample::{sample_interpretation, sample_section};
+        let mut s = sample_section();
+        s.display_unit = LengthUnit::Foot;
+        let i = sample_interpretation(&s);
+        let opts = LayoutOptions::default();
+        let strip = crate::layout::column_strip(&s, &i, &opts);
+        let texts: Vec<(&str, f64)> = strip
+            .items
+            .iter()
+            .filter_map(|it| match it {
+                Item::Text { text, pos, .. } => Some((text.as_str(), pos.y)),
+                _ => None,
+            })
+            .collect();
+        assert!(texts.iter().any(|(t, _)| *t == "height (ft)"));
+        // At 1:100 a foot is 3.048 mm (1 ft = 0.3048 m exactly), so labels every 5 ft (15.24 mm).
+        // The "100" label sits at 100 ft = 30.48 m above the base.
+        let (_, y) = texts.iter().find(|(t, _)| *t == "100").expect("100 ft label");
+        let baseline_offset = 0.8;
+        assert!((strip.heights.height_m(y - baseline_offset) - 30.48).abs() < 1e-9);
+        assert!(!texts.iter().any(|(t, _)| *t == "102"), "no label off the 5 ft grid");
     }
 
     #[test]

@@ -50,13 +50,36 @@ pub enum Anchor {
 /// One drawing primitive.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub enum Item {
-    Rect { rect: RectMm, fill: Option<Rgba>, stroke: Option<Stroke> },
-    Polygon { points: Vec<PtMm>, fill: Option<Rgba>, stroke: Option<Stroke> },
-    Polyline { points: Vec<PtMm>, stroke: Stroke },
-    Circle { center: PtMm, radius_mm: f64, fill: Option<Rgba>, stroke: Option<Stroke> },
+    Rect {
+        rect: RectMm,
+        fill: Option<Rgba>,
+        stroke: Option<Stroke>,
+    },
+    Polygon {
+        points: Vec<PtMm>,
+        fill: Option<Rgba>,
+        stroke: Option<Stroke>,
+    },
+    Polyline {
+        points: Vec<PtMm>,
+        stroke: Stroke,
+    },
+    Circle {
+        center: PtMm,
+        radius_mm: f64,
+        fill: Option<Rgba>,
+        stroke: Option<Stroke>,
+    },
     /// Text in the embedded font (DejaVu Sans). `pos` is on the baseline; `rotation_deg` turns
     /// the text counter-clockwise as seen on the page (90 reads bottom to top) about `pos`.
-    Text { pos: PtMm, text: String, size_pt: f64, color: Rgba, anchor: Anchor, rotation_deg: f64 },
+    Text {
+        pos: PtMm,
+        text: String,
+        size_pt: f64,
+        color: Rgba,
+        anchor: Anchor,
+        rotation_deg: f64,
+    },
 }
 
 impl Stroke {
@@ -117,7 +140,12 @@ impl Item {
                 let a = rotation_deg.to_radians();
                 let (c, s) = (a.cos(), a.sin());
                 let corners = [(start, -desc), (start + w, -desc), (start + w, asc), (start, asc)];
-                of(corners.iter().map(|&(u, v)| PtMm { x: pos.x + u * c - v * s, y: pos.y - (u * s + v * c) }), 0.0)
+                of(
+                    corners
+                        .iter()
+                        .map(|&(u, v)| PtMm { x: pos.x + u * c - v * s, y: pos.y - (u * s + v * c) }),
+                    0.0,
+                )
             }
         }
     }

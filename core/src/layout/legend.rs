@@ -28,9 +28,9 @@ pub enum LegendEntry {
 }
 
 /// Width of one legend column, mm.
-pub const LEGEND_COLUMN_MM: f64 = 50.0;
+pub const LEGEND_COLUMN_MM: f64 = 46.0;
 /// Height of one legend row, mm.
-pub const LEGEND_ROW_MM: f64 = 5.0;
+pub const LEGEND_ROW_MM: f64 = 4.4;
 
 impl LegendEntry {
     /// Order in the legend: rock first, then lines and symbols, then interpretation.
@@ -145,10 +145,10 @@ pub fn draw_legend(entries: &[LegendEntry], x: f64, y: f64, width_mm: f64, out: 
         let (col, row) = (k / rows, k % rows);
         let sx = x + col as f64 * LEGEND_COLUMN_MM;
         let sy = y + 6.0 + row as f64 * LEGEND_ROW_MM;
-        draw_swatch(*e, RectMm { x: sx, y: sy, w: 9.0, h: 3.8 }, out);
+        draw_swatch(*e, RectMm { x: sx, y: sy, w: 8.0, h: 3.4 }, out);
         let label = e.label();
-        let size = fit_size(&label, LEGEND_COLUMN_MM - 12.0, SMALL_PT + 0.5, 4.0).unwrap_or(4.0);
-        text(out, sx + 11.0, sy + 2.9, &label, size, INK);
+        let size = fit_size(&label, LEGEND_COLUMN_MM - 11.0, SMALL_PT + 0.5, 4.0).unwrap_or(4.0);
+        text(out, sx + 10.0, sy + 2.7, &label, size, INK);
     }
     legend_height_mm(entries.len(), width_mm)
 }
@@ -169,7 +169,9 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
         LegendEntry::Contact(c) => draw_contact(c, r.x, r.x + r.w, mid.y, out),
         LegendEntry::Structure(s) => structure_symbol(s, mid, 3.6, out),
         LegendEntry::PaleocurrentArrow => paleocurrent_arrow(mid, 45.0, 3.6, INK, out),
-        LegendEntry::PaleocurrentRose => paleocurrent_rose(mid, &[20.0, 35.0, 50.0, 55.0, 80.0, 110.0], 1.9, out),
+        LegendEntry::PaleocurrentRose => {
+            paleocurrent_rose(mid, &[20.0, 35.0, 50.0, 55.0, 80.0, 110.0], 1.9, out)
+        }
         LegendEntry::Paleosol(d) => out.push(Item::Rect {
             rect: RectMm { x: r.x + 0.5, y: r.y, w: paleosol_bar_mm(d), h: r.h },
             fill: Some(PALEOSOL_BROWN),
@@ -218,7 +220,63 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
         }),
         LegendEntry::Boundary(state) => {
             let (stroke, _, _) = boundary_style(state, 0.0);
-            out.push(Item::Polyline { points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + r.w, y: mid.y }], stroke });
+            out.push(Item::Polyline {
+                points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + r.w, y: mid.y }],
+                stroke,
+            });
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::layout::sample::{sample_interpretation, sample_section};
+    use crate::layout::LayoutOptions;
+    use crate::model::{Bed, BedId, Contact, GrainSize, Section, WentworthClass};
+
+    #[test]
+    fn legend_lists_exactly_the_used_lithologies() {
+        let mut s = Section::new("Two rocks");
+        let mut b2 =
+            Bed::new(BedId(2), 1.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)));
+        b2.base_contact = Contact::Erosional;
+        b2.structures = vec![Structure::TroughCrossBedding];
+        s.beds = vec![
+            Bed::new(BedId(1), 2.0, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Clay))),
+            b2,
+        ];
+        let interp = sample_interpretation(&sample_section());
+        let opts = LayoutOptions { show_interpretation: false, ..Default::default() };
+        let ctx = ColumnCtx::new(&s, &interp, &opts);
+        assert_eq!(
+            legend_entries(&ctx),
+            vec![
+                LegendEntry::Lithology(Lithology::Mudstone),
+                LegendEntry::Lithology(Lithology::Sandstone),
+                LegendEntry::Contact(Contact::Erosional),
+                LegendEntry::Structure(Structure::TroughCrossBedding),
+            ]
+        );
+        // The demo section: every lithology it uses, and no other.
+        let demo = sample_section();
+        let interp = sample_interpretation(&demo);
+        let opts = LayoutOptions::default();
+        let ctx = ColumnCtx::new(&demo, &interp, &opts);
+        let entries = legend_entries(&ctx);
+        let mut used: Vec<Lithology> = demo.beds.iter().map(|b| b.lithology).collect();
+        used.sort();
+        used.dedup();
+        let listed: Vec<Lithology> = entries
+            .iter()
+            .filter_map(|e| if let LegendEntry::Lithology(l) = e { Some(*l) } else { None })
+            .collect();
+        assert_eq!(listed, used);
+        // Rejected candidates are hidden by default, so not in the legend.
+        assert!(entries.contains(&LegendEntry::Boundary(ReviewState::Accepted)));
+        assert!(!entries.contains(&LegendEntry::Boundary(ReviewState::Rejected)));
+        let shown = LayoutOptions { show_rejected: true, ..Default::default() };
+        let ctx = ColumnCtx::new(&demo, &interp, &shown);
+        assert!(legend_entries(&ctx).contains(&LegendEntry::Boundary(ReviewState::Rejected)));
     }
 }

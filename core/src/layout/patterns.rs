@@ -29,7 +29,12 @@ impl PatternCtx<'_> {
     /// at `anchor` (and every `on + off` along the line), clipped to the outline. `off == 0` draws
     /// a solid line.
     fn dashed_line(&mut self, anchor: PtMm, dir: PtMm, on: f64, off: f64, width_mm: f64, color: Rgba) {
-        let reach = (self.clip.max.x - self.clip.min.x) + (self.clip.max.y - self.clip.min.y) + 10.0;
+        // Long enough to cross the outline from wherever the anchor lies.
+        let reach = (self.clip.max.x - self.clip.min.x)
+            + (self.clip.max.y - self.clip.min.y)
+            + (anchor.x - self.clip.min.x).abs()
+            + (anchor.y - self.clip.min.y).abs()
+            + 10.0;
         let p = PtMm { x: anchor.x - dir.x * reach, y: anchor.y - dir.y * reach };
         let q = PtMm { x: anchor.x + dir.x * reach, y: anchor.y + dir.y * reach };
         let Some((t0, t1)) = self.clip.clip_params(p, q) else { return };
@@ -176,22 +181,19 @@ impl PatternCtx<'_> {
         }
     }
 
-    fn hatch(&mut self, spacing: f64, slope_dir: PtMm, color: Rgba, width_mm: f64) {
-        // Lines perpendicular-spaced `spacing` apart along the x axis (direction given).
-        let span = (self.clip.max.x - self.clip.min.x) + (self.clip.max.y - self.clip.min.y);
-        let k0 = ((self.clip.min.x - self.origin.x - span) / spacing).floor() as i64;
-        let k1 = ((self.clip.max.x - self.origin.x + span) / spacing).ceil() as i64;
-        let ymid = self.origin.y;
+    /// Parallel lines in direction `dir` (not horizontal), `spacing` apart along x, on a grid
+    /// anchored at the pattern origin.
+    fn hatch(&mut self, spacing: f64, dir: PtMm, color: Rgba, width_mm: f64) {
+        // x where line k crosses height y: origin.x + k·spacing + (y − origin.y)·dir.x/dir.y.
+        let run = dir.x / dir.y;
+        let ymid = (self.clip.min.y + self.clip.max.y) / 2.0;
+        let shift = (ymid - self.origin.y) * run;
+        let half_h = (self.clip.max.y - self.clip.min.y) / 2.0 * run.abs();
+        let k0 = ((self.clip.min.x - half_h - self.origin.x - shift) / spacing).floor() as i64;
+        let k1 = ((self.clip.max.x + half_h - self.origin.x - shift) / spacing).ceil() as i64;
         for k in k0..=k1 {
-            let anchor = PtMm { x: self.origin.x + k as f64 * spacing, y: ymid };
-            // Skip lines that cannot reach the outline (cheap bounding test along the slope).
-            let t_lo = (self.clip.min.y - ymid) / slope_dir.y;
-            let t_hi = (self.clip.max.y - ymid) / slope_dir.y;
-            let (xa, xb) = (anchor.x + slope_dir.x * t_lo, anchor.x + slope_dir.x * t_hi);
-            if xa.max(xb) < self.clip.min.x || xa.min(xb) > self.clip.max.x {
-                continue;
-            }
-            self.dashed_line(anchor, slope_dir, 1.0, 0.0, width_mm, color);
+            let anchor = PtMm { x: self.origin.x + k as f64 * spacing + shift, y: ymid };
+            self.dashed_line(anchor, dir, 1.0, 0.0, width_mm, color);
         }
     }
 }
@@ -292,9 +294,13 @@ mod tests {
     fn every_mark_stays_inside_the_bed() {
         let o = outline();
         let clip = ConvexClip::new(&o).expect("area");
-        for lith in Lithology::ALL {
+        // Patterns are anchored to the section base, which may lie far below the bed.
+        for (lith, origin) in Lithology::ALL
+            .iter()
+            .flat_map(|l| [(*l, PtMm { x: 3.3, y: 1.7 }), (*l, PtMm { x: 10.0, y: 950.0 })])
+        {
             let mut out = Vec::new();
-            fill_bed(lith, &o, PtMm { x: 3.3, y: 1.7 }, &mut out);
+            fill_bed(lith, &o, origin, &mut out);
             assert!(matches!(out[0], Item::Polygon { fill: Some(_), .. }), "{lith}: tint first");
             if lith != Lithology::Coal {
                 assert!(

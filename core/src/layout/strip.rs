@@ -41,7 +41,10 @@ impl ColumnStrip {
         self.bed_boxes
             .iter()
             .find(|b| {
-                y_mm >= b.rect.y && y_mm <= b.rect.y + b.rect.h && x_mm >= b.rect.x && x_mm <= b.rect.x + b.rect.w
+                y_mm >= b.rect.y
+                    && y_mm <= b.rect.y + b.rect.h
+                    && x_mm >= b.rect.x
+                    && x_mm <= b.rect.x + b.rect.w
             })
             .map(|b| b.bed_index)
     }
@@ -66,5 +69,88 @@ pub fn column_strip(section: &Section, interp: &Interpretation, opts: &LayoutOpt
         heights,
         bed_boxes,
         grain_scale: ctx.tracks.grain_scale(0.0),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::layout::items::Item;
+    use crate::layout::sample::{sample_interpretation, sample_section};
+    use crate::model::{Bed, BedId, GrainSize, Lithology, WentworthClass};
+
+    #[test]
+    fn strip_places_every_bed_at_its_height() {
+        let s = sample_section();
+        let i = sample_interpretation(&s);
+        for scale in [20.0, 100.0, 500.0] {
+            let opts = LayoutOptions { scale_denominator: scale, ..Default::default() };
+            let strip = column_strip(&s, &i, &opts);
+            assert_eq!(strip.bed_boxes.len(), s.beds.len());
+            let bases = s.base_heights_m();
+            for (k, b) in strip.bed_boxes.iter().enumerate() {
+                assert_eq!(b.bed_index, k, "boxes in bed order");
+                let top = bases[k] + s.beds[k].thickness_m;
+                // The box spans the bed's base to top: y is down, heights are up.
+                assert!((b.rect.y - strip.heights.y_mm(top)).abs() < 1e-9);
+                assert!((b.rect.h - s.beds[k].thickness_m * 1000.0 / scale).abs() < 1e-9);
+                assert!((strip.heights.height_m(b.rect.y + b.rect.h) - bases[k]).abs() < 1e-9);
+            }
+            let total_mm = s.total_thickness_m() * 1000.0 / scale;
+            assert!(strip.height_mm > total_mm && strip.height_mm < total_mm + 60.0);
+            assert!(strip.items.len() > s.beds.len() * 3);
+            // Picking: the middle of a bed's box finds that bed.
+            let b = strip.bed_boxes[4].rect;
+            assert_eq!(strip.bed_at(b.x + 1.0, b.y + b.h / 2.0), Some(4));
+            // Only items overlapping a window are returned, and all of those that do.
+            let (y0, y1) = (b.y, b.y + b.h);
+            let visible = strip.items_in_y(y0, y1).count();
+            assert!(visible > 0 && visible < strip.items.len());
+        }
+    }
+
+    #[test]
+    fn box_width_grows_with_grain_class() {
+        let mut s = Section::new("Coarsening");
+        s.beds = WentworthClass::ALL
+            .iter()
+            .enumerate()
+            .map(|(k, c)| {
+                Bed::new(BedId(k as u64 + 1), 1.0, Lithology::Sandstone, Some(GrainSize::Class(*c)))
+            })
+            .collect();
+        let i = sample_interpretation(&sample_section());
+        let strip = column_strip(&s, &i, &LayoutOptions::default());
+        for w in strip.bed_boxes.windows(2) {
+            assert!(w[1].rect.w > w[0].rect.w, "{:?} then {:?}", w[0], w[1]);
+        }
+        // Each box's right edge is where the grain scale puts that class's midpoint.
+        for (b, c) in strip.bed_boxes.iter().zip(WentworthClass::ALL) {
+            assert!((b.rect.x + b.rect.w - strip.grain_scale.class_centre_x_mm(c)).abs() < 1e-9);
+            assert_eq!(strip.grain_scale.class_at(b.rect.x + b.rect.w), c);
+        }
+    }
+
+    #[test]
+    fn empty_and_odd_sections_do_not_panic() {
+        let i = sample_interpretation(&sample_section());
+        let empty = Section::new("");
+        let strip = column_strip(&empty, &i, &LayoutOptions::default());
+        assert!(strip.bed_boxes.is_empty());
+        let mut odd = Section::new("odd");
+        let mut b = Bed::new(BedId(1), f64::NAN, Lithology::Sandstone, None);
+        b.paleocurrents_deg = vec![f64::NAN, 400.0, -20.0, 10.0, 11.0];
+        odd.beds = vec![
+            b,
+            Bed::new(BedId(2), -1.0, Lithology::Coal, None),
+            Bed::new(BedId(3), 1.0, Lithology::Tuff, None),
+        ];
+        let opts = LayoutOptions { scale_denominator: 0.0, ..Default::default() };
+        let strip = column_strip(&odd, &i, &opts);
+        assert!(strip.items.iter().all(|it| {
+            let b = it.bounds();
+            b.x.is_finite() && b.y.is_finite() && b.w.is_finite() && b.h.is_finite()
+        }));
+        assert!(matches!(strip.items.first(), Some(Item::Text { .. })));
     }
 }

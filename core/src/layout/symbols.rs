@@ -108,13 +108,23 @@ pub fn structure_symbol(s: Structure, centre: PtMm, size_mm: f64, out: &mut Vec<
         }
         Structure::Imbrication => {
             for x in [-0.3, 0.0, 0.3] {
-                f.shape(&[(x - 0.18, 0.2), (x + 0.02, -0.25), (x + 0.16, -0.17), (x - 0.04, 0.28)], None, out);
+                f.shape(
+                    &[(x - 0.18, 0.2), (x + 0.02, -0.25), (x + 0.16, -0.17), (x - 0.04, 0.28)],
+                    None,
+                    out,
+                );
             }
         }
         Structure::MudClasts => {
             for (x, y) in [(-0.25, -0.15), (0.2, 0.0), (-0.1, 0.25)] {
                 f.shape(
-                    &[(x - 0.18, y), (x - 0.05, y - 0.08), (x + 0.17, y - 0.05), (x + 0.12, y + 0.07), (x - 0.1, y + 0.08)],
+                    &[
+                        (x - 0.18, y),
+                        (x - 0.05, y - 0.08),
+                        (x + 0.17, y - 0.05),
+                        (x + 0.12, y + 0.07),
+                        (x - 0.1, y + 0.08),
+                    ],
                     Some(INK),
                     out,
                 );
@@ -203,7 +213,12 @@ pub fn paleocurrent_rose(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out
         let k = ((a.rem_euclid(360.0)) / ROSE_SECTOR_DEG).floor() as usize;
         counts[k.min(sectors - 1)] += 1;
     }
-    out.push(Item::Circle { center: centre, radius_mm, fill: None, stroke: Some(solid(THIN_MM * 0.7, Rgba(130, 130, 130, 255))) });
+    out.push(Item::Circle {
+        center: centre,
+        radius_mm,
+        fill: None,
+        stroke: Some(solid(THIN_MM * 0.7, Rgba(130, 130, 130, 255))),
+    });
     let max = counts.iter().copied().max().unwrap_or(0).max(1) as f64;
     for (k, &n) in counts.iter().enumerate() {
         if n == 0 {
@@ -215,7 +230,11 @@ pub fn paleocurrent_rose(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out
             let az = (k as f64 * ROSE_SECTOR_DEG + ROSE_SECTOR_DEG * step as f64 / 4.0).to_radians();
             pts.push(PtMm { x: centre.x + r * az.sin(), y: centre.y - r * az.cos() });
         }
-        out.push(Item::Polygon { points: pts, fill: Some(Rgba(90, 90, 90, 255)), stroke: Some(solid(THIN_MM * 0.7, INK)) });
+        out.push(Item::Polygon {
+            points: pts,
+            fill: Some(Rgba(90, 90, 90, 255)),
+            stroke: Some(solid(THIN_MM * 0.7, INK)),
+        });
     }
 }
 
@@ -238,7 +257,10 @@ mod tests {
                     _ => vec![],
                 };
                 for p in pts {
-                    assert!((p.x - 50.0).abs() <= 2.0 + 1e-9 && (p.y - 50.0).abs() <= 2.0 + 1e-9, "{s}: {p:?}");
+                    assert!(
+                        (p.x - 50.0).abs() <= 2.0 + 1e-9 && (p.y - 50.0).abs() <= 2.0 + 1e-9,
+                        "{s}: {p:?}"
+                    );
                 }
             }
             let sig = format!("{out:?}");
@@ -269,7 +291,9 @@ mod tests {
         let wedges: Vec<&Item> = out.iter().filter(|i| matches!(i, Item::Polygon { .. })).collect();
         assert_eq!(wedges.len(), 2);
         let reach = |it: &Item| match it {
-            Item::Polygon { points, .. } => points.iter().map(|p| (p.x * p.x + p.y * p.y).sqrt()).fold(0.0, f64::max),
+            Item::Polygon { points, .. } => {
+                points.iter().map(|p| (p.x * p.x + p.y * p.y).sqrt()).fold(0.0, f64::max)
+            }
             _ => 0.0,
         };
         assert!((reach(wedges[0]) - 3.0).abs() < 1e-9);

@@ -251,9 +251,14 @@ pub(crate) fn fmt_trim(v: f64) -> String {
     }
 }
 
+/// The stored text form: a class name, or phi with every digit needed to read back the same
+/// number (display uses 4 decimals; storing those would change a value on every save).
 impl From<GrainSize> for String {
     fn from(g: GrainSize) -> String {
-        g.to_string()
+        match g {
+            GrainSize::Class(c) => c.name().to_string(),
+            GrainSize::Phi(p) => format!("{p}phi"),
+        }
     }
 }
 
@@ -277,6 +282,13 @@ mod tests {
         assert!(GrainSize::parse("gravelish").is_err());
         assert!(GrainSize::parse("0mm").is_err());
         assert!(GrainSize::parse("NaNphi").is_err());
+    }
+
+    #[test]
+    fn stored_text_keeps_every_digit() {
+        let g = GrainSize::parse("0.2mm").expect("valid");
+        assert_eq!(GrainSize::parse(&String::from(g)), Ok(g));
+        assert_eq!(String::from(GrainSize::Phi(-1.0)), "-1phi");
     }
 
     #[test]

@@ -148,3 +148,59 @@ pub fn regimes(column: &Column, bodies: &[ChannelBody], params: &RuleParams) -> 
         })
         .collect()
 }
+
+#[cfg(test)]
+mod tests {
+    use crate::model::{Bed, BedId, Contact, GrainSize, Lithology, Section, WentworthClass};
+    use crate::rules::{interpret, Regime, RuleParams};
+
+    fn section(spec: &[(f64, Lithology, bool)]) -> Section {
+        let mut s = Section::new("t");
+        for (i, &(t, lith, erosional)) in spec.iter().enumerate() {
+            let grain = (lith != Lithology::Covered).then_some(GrainSize::Class(WentworthClass::MediumSand));
+            let mut b = Bed::new(BedId(i as u64 + 1), t, lith, grain);
+            if erosional {
+                b.base_contact = Contact::Erosional;
+            }
+            s.beds.push(b);
+        }
+        s
+    }
+
+    #[test]
+    fn mostly_covered_stretch_is_undetermined_and_says_why() {
+        // Multi-story body 1–5 m, then 10 m covered and 1 m mud: stretch 1–17 m is 10/16 = 63 %
+        // covered (> 50 %), so no low call despite the amalgamated body.
+        use Lithology::{Covered, Mudstone, Sandstone};
+        let s = section(&[
+            (1.0, Mudstone, false),
+            (2.0, Sandstone, true),
+            (2.0, Sandstone, true),
+            (10.0, Covered, false),
+            (2.0, Mudstone, false),
+        ]);
+        let r = interpret(&s, &RuleParams::default());
+        assert_eq!(r.accommodation.len(), 1, "{:?}", r.accommodation);
+        assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
+        assert!(
+            r.accommodation[0].why.contains("mostly covered (63% of 1.00–17.00 m)"),
+            "{}",
+            r.accommodation[0].why
+        );
+    }
+
+    #[test]
+    fn multi_story_body_in_thick_fines_is_mixed_evidence() {
+        // Two storeys 1–3 m then 8 m of mud: proportion 2/10 = 0.2 < 0.5 → undetermined.
+        use Lithology::{Mudstone, Sandstone};
+        let s = section(&[
+            (1.0, Mudstone, false),
+            (1.0, Sandstone, true),
+            (1.0, Sandstone, true),
+            (8.0, Mudstone, false),
+        ]);
+        let r = interpret(&s, &RuleParams::default());
+        assert!(r.accommodation.iter().all(|a| a.regime == Regime::Undetermined));
+        assert!(r.accommodation[0].why.contains("proportion only 0.20"), "{}", r.accommodation[0].why);
+    }
+}

@@ -90,7 +90,9 @@ pub fn candidates(
             // Erosional relief beyond one channel's scour.
             let relief_m = above.base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
             if let Some(r) = relief_m.filter(|_| above.base_contact == Contact::Erosional) {
-                let storey_below = storeys.iter().rev().find(|s| s.last_bed < j).map(|s| s.top_m - s.base_m);
+                // Storeys are in order, so the last one ending below this bed is found by bisection.
+                let below_count = storeys.partition_point(|s| s.last_bed < j);
+                let storey_below = below_count.checked_sub(1).map(|k| storeys[k].top_m - storeys[k].base_m);
                 if r > params.relief_limit_m + TOL {
                     score += params.weight_relief;
                     evidence.push(format!("erosional relief of {r:.2} m exceeds the {:.2} m relief limit", params.relief_limit_m));
@@ -167,4 +169,86 @@ pub fn candidates(
             .then(a.bed_index.cmp(&b.bed_index))
     });
     out
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::model::{
+        Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, Section, WentworthClass,
+    };
+    use crate::rules::{interpret, CandidateKind, RuleParams};
+
+    fn section(beds: Vec<Bed>) -> Section {
+        let mut s = Section::new("t");
+        for (i, mut b) in beds.into_iter().enumerate() {
+            b.id = BedId(i as u64 + 1);
+            s.beds.push(b);
+        }
+        s
+    }
+
+    fn mud(t: f64, dev: PaleosolDevelopment) -> Bed {
+        let mut b = Bed::new(BedId(0), t, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Silt)));
+        b.paleosol = dev;
+        b
+    }
+
+    #[test]
+    fn relief_reaching_a_strong_paleosol_counts_as_truncating_it() {
+        // mud 0–3 | strong paleosol 3–4 | mud 4–4.5 | channel 4.5–6.5 (erosional, 1 m relief).
+        // The paleosol top lies 0.5 m below the channel base, within the 1 m relief: truncated.
+        // Its own top (4 m) is overlain by mud: an interfluve-type candidate of its own.
+        let mut channel =
+            Bed::new(BedId(0), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
+        channel.base_contact = Contact::Erosional;
+        channel.base_relief_m = Some(1.0);
+        let s = section(vec![
+            mud(3.0, PaleosolDevelopment::None),
+            mud(1.0, PaleosolDevelopment::Strong),
+            mud(0.5, PaleosolDevelopment::None),
+            channel,
+            mud(3.0, PaleosolDevelopment::None),
+        ]);
+        // The proportion jump (0 below, 2/5.5 above) is weighed elsewhere; leave it out here.
+        let p = RuleParams { weight_proportion_jump: 0.0, ..RuleParams::default() };
+        let r = interpret(&s, &p);
+        let at = |h: f64| r.sequence_boundary_candidates.iter().find(|c| (c.height_m - h).abs() < 1e-9);
+        let base = at(4.5).expect("channel-base candidate");
+        assert_eq!(base.kind, CandidateKind::ChannelBodyBase);
+        assert!(base
+            .evidence
+            .iter()
+            .any(|e| e.contains("relief reaches a paleosol of strong development 0.50 m below")));
+        let top = at(4.0).expect("paleosol-top candidate");
+        assert_eq!(top.kind, CandidateKind::PaleosolTop);
+        assert!((top.score - p.weight_interfluve_paleosol).abs() < 1e-12, "{top:?}");
+
+        // With 0.4 m of relief the channel does not reach the paleosol.
+        let mut shallow = s.clone();
+        shallow.beds[3].base_relief_m = Some(0.4);
+        let r = interpret(&shallow, &p);
+        let base = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 3).expect("candidate");
+        assert!(base.evidence.iter().all(|e| !e.contains("relief reaches")), "{base:?}");
+    }
+
+    #[test]
+    fn equal_scores_are_ordered_by_height() {
+        // Two identical isolated channels in 20 m of mud each: the 10 m windows see 0 below and
+        // 2/10 = 0.2 above both bases (< 0.3, no jump), so both score 0; the lower comes first.
+        let channel = || {
+            let mut b = Bed::new(
+                BedId(0),
+                2.0,
+                Lithology::Sandstone,
+                Some(GrainSize::Class(WentworthClass::MediumSand)),
+            );
+            b.base_contact = Contact::Erosional;
+            b
+        };
+        let none = PaleosolDevelopment::None;
+        let s = section(vec![mud(20.0, none), channel(), mud(20.0, none), channel(), mud(20.0, none)]);
+        let r = interpret(&s, &RuleParams::default());
+        let heights: Vec<f64> = r.sequence_boundary_candidates.iter().map(|c| c.height_m).collect();
+        assert_eq!(heights, vec![20.0, 42.0]);
+    }
 }

@@ -1,13 +1,13 @@
 //! `RuleParams`: every threshold and weight the interpretation rules use, with its default and
 //! where that default comes from.
 
-use crate::model::PaleosolDevelopment;
+use crate::model::{PaleosolDevelopment, WentworthClass};
 use serde::{Deserialize, Serialize};
 
 /// Thresholds and weights of the interpretation rules. Every field has a default (see
 /// [`RuleParams::default`]); a partial JSON object fills the rest from the defaults.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-#[serde(default)]
+#[serde(default, deny_unknown_fields)]
 pub struct RuleParams {
     /// Fines thinner than this (summed over consecutive fine beds) inside a channel storey are a
     /// mud drape and do not end the storey or split the body. Default 0.5 m: common practice
@@ -75,6 +75,13 @@ pub struct RuleParams {
     /// fining- or coarsening-upward; less is blocky. Default 1 phi (one Wentworth sand class):
     /// common practice.
     pub profile_min_phi_change: f64,
+    /// A body whose coarsest grain is at least this class counts as coarse-grained, evidence for
+    /// a braided-like style. Default very coarse sand: common practice (gravelly or very coarse
+    /// sandy channel fills).
+    pub braided_min_coarsest: WentworthClass,
+    /// Mud drapes making up less than this share of a body's thickness count as "little mud",
+    /// evidence for a braided-like style. Default 0.05: common practice.
+    pub little_mud_max_fraction: f64,
     /// A style hint needs at least this many evidence items, and more than the other style.
     /// Default 2: common practice.
     pub style_min_evidence: usize,
@@ -104,6 +111,8 @@ impl Default for RuleParams {
             high_min_isolated_bodies: 2,
             max_covered_fraction: 0.5,
             profile_min_phi_change: 1.0,
+            braided_min_coarsest: WentworthClass::VeryCoarseSand,
+            little_mud_max_fraction: 0.05,
             style_min_evidence: 2,
         }
     }
@@ -149,6 +158,7 @@ impl RuleParams {
             ("low_min_proportion", self.low_min_proportion),
             ("high_max_proportion", self.high_max_proportion),
             ("max_covered_fraction", self.max_covered_fraction),
+            ("little_mud_max_fraction", self.little_mud_max_fraction),
         ];
         for (name, v) in fractions {
             if !(v.is_finite() && (0.0..=1.0).contains(&v)) {

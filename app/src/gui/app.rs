@@ -1,0 +1,843 @@
+//! `AggradeApp`: the window. Panels draw from the document and queue actions; every edit is
+//! applied here, in one place, where undo, dirty tracking and autosave hook in.
+
+use super::actions::Actions;
+use super::canvas::{self, Canvas};
+use super::document::{Document, Edit};
+use super::engine::{self, LayoutOptions, RuleParams, Strip};
+use super::export_dialog::ExportDialog;
+use super::files::{self, FileDialogs, SaveKind};
+use super::inspector::Inspector;
+use super::painter::ItemIndex;
+use super::recovery::{self, Autosaver, Recovery};
+use super::table::BedTable;
+use super::{demo, plots, review, theme};
+use aggrade_core::model::{LengthUnit, Project, Section};
+use aggrade_core::rules::Interpretation;
+use egui::{Key, KeyboardShortcut, Modifiers};
+use std::path::{Path, PathBuf};
+
+/// How the window starts.
+pub struct AppConfig {
+    /// File to open (the demo section when `None`).
+    pub file: Option<PathBuf>,
+    /// Where the recovery file is kept.
+    pub data_dir: PathBuf,
+    /// File pickers (the system's, or scripted in tests).
+    pub dialogs: Box<dyn FileDialogs>,
+    /// Recently opened files (from the window's saved state).
+    pub recent: Vec<PathBuf>,
+}
+
+/// Right-hand panel tabs.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Tab {
+    Inspector,
+    Review,
+    Plots,
+    Section,
+}
+
+/// Something that discards unsaved work and therefore asks first.
+#[derive(Debug, Clone, PartialEq)]
+enum Pending {
+    New,
+    Open(PathBuf),
+    Quit,
+}
+
+/// Menu commands and their shortcuts: one list drives both.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Command {
+    New,
+    Open,
+    ImportCsv,
+    Save,
+    SaveAs,
+    Export,
+    Quit,
+    Undo,
+    Redo,
+    ZoomIn,
+    ZoomOut,
+}
+
+impl Command {
+    /// The keyboard shortcut, if any.
+    pub fn shortcut(self) -> Option<KeyboardShortcut> {
+        let c = Modifiers::COMMAND;
+        let cs = Modifiers::COMMAND | Modifiers::SHIFT;
+        Some(match self {
+            Command::New => KeyboardShortcut::new(c, Key::N),
+            Command::Open => KeyboardShortcut::new(c, Key::O),
+            Command::Save => KeyboardShortcut::new(c, Key::S),
+            Command::SaveAs => KeyboardShortcut::new(cs, Key::S),
+            Command::Export => KeyboardShortcut::new(c, Key::E),
+            Command::Quit => KeyboardShortcut::new(c, Key::Q),
+            Command::Redo => KeyboardShortcut::new(cs, Key::Z),
+            Command::Undo => KeyboardShortcut::new(c, Key::Z),
+            Command::ImportCsv | Command::ZoomIn | Command::ZoomOut => return None,
+        })
+    }
+    /// Shortcuts in the order they must be tested (Ctrl+Shift+Z before Ctrl+Z).
+    const WITH_SHORTCUTS: [Command; 8] = [
+        Command::SaveAs,
+        Command::Redo,
+        Command::New,
+        Command::Open,
+        Command::Save,
+        Command::Export,
+        Command::Quit,
+        Command::Undo,
+    ];
+}
+
+struct Cache {
+    key: (u64, usize, RuleParams, LayoutOptions),
+    interp: Interpretation,
+    strip: Strip,
+    index: ItemIndex,
+}
+
+/// The window's state.
+pub struct AggradeApp {
+    pub doc: Document,
+    pub params: RuleParams,
+    pub layout: LayoutOptions,
+    pub tab: Tab,
+    pub recent: Vec<PathBuf>,
+    /// A message in a dialog (title, text).
+    pub message: Option<(String, String)>,
+    /// Last status line.
+    pub status: String,
+    canvas: Canvas,
+    table: BedTable,
+    inspector: Inspector,
+    export: Option<ExportDialog>,
+    cache: Option<Cache>,
+    dialogs: Box<dyn FileDialogs>,
+    autosaver: Autosaver,
+    recovery_offer: Option<Recovery>,
+    confirm: Option<Pending>,
+    allow_close: bool,
+    last_title: String,
+    styled: bool,
+}
+
+impl AggradeApp {
+    /// Build the window state: open the file (or the demo) and look for work left by a crash.
+    pub fn new(config: AppConfig) -> Self {
+        let mut message = None;
+        let mut status = String::from("Ready");
+        let doc = match &config.file {
+            Some(path) => match files::open(path) {
+                Ok((project, warnings)) => {
+                    if !warnings.is_empty() {
+                        message = Some(("Opened with warnings".to_string(), warnings.join("\n")));
+                    }
+                    status = format!("Opened {}", path.display());
+                    Document::new(project, Some(path.clone()))
+                }
+                Err(e) => {
+                    message = Some(("Could not open the file".to_string(), e));
+                    Document::new(demo::demo_project(), None)
+                }
+            },
+            None => match demo::demo_file().map(|p| files::open(&p)) {
+                Some(Ok((project, _))) => Document::new(project, None),
+                _ => Document::new(demo::demo_project(), None),
+            },
+        };
+        let recovery_offer = match recovery::find_recovery(&config.data_dir) {
+            Some(Ok(r)) => Some(r),
+            Some(Err(e)) => {
+                message = Some(("Recovery file damaged".into(), e));
+                None
+            }
+            None => None,
+        };
+        AggradeApp {
+            doc,
+            params: RuleParams::default(),
+            layout: LayoutOptions::default(),
+            tab: Tab::Review,
+            recent: config.recent,
+            message,
+            status,
+            canvas: Canvas::default(),
+            table: BedTable::default(),
+            inspector: Inspector::default(),
+            export: None,
+            cache: None,
+            dialogs: config.dialogs,
+            autosaver: Autosaver::new(&config.data_dir),
+            recovery_offer,
+            confirm: None,
+            allow_close: false,
+            last_title: String::new(),
+            styled: false,
+        }
+    }
+
+    /// The current interpretation (computed on demand).
+    pub fn interpretation(&mut self) -> &Interpretation {
+        self.refresh();
+        &self.cache.as_ref().expect("refreshed above").interp
+    }
+
+    /// Is a recovery offer showing?
+    pub fn recovery_pending(&self) -> bool {
+        self.recovery_offer.is_some()
+    }
+
+    /// Screen position of the middle of a bed's top boundary in the last frame drawn.
+    pub fn bed_top_on_screen(&self, bed: aggrade_core::model::BedId) -> Option<egui::Pos2> {
+        let t = self.canvas.last_transform?;
+        let i = self.doc.bed_index(bed)?;
+        let b = self.cache.as_ref()?.strip.bed_boxes.iter().find(|b| b.bed_index == i)?;
+        Some(t.pos(b.rect.x + b.rect.w / 2.0, b.rect.y))
+    }
+
+    /// Screen rectangle of a bed's box in the last frame drawn.
+    pub fn bed_rect_on_screen(&self, bed: aggrade_core::model::BedId) -> Option<egui::Rect> {
+        let t = self.canvas.last_transform?;
+        let i = self.doc.bed_index(bed)?;
+        let b = self.cache.as_ref()?.strip.bed_boxes.iter().find(|b| b.bed_index == i)?;
+        Some(egui::Rect::from_min_max(
+            t.pos(b.rect.x, b.rect.y),
+            t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h),
+        ))
+    }
+
+    /// Screen x of the middle of a Wentworth class on the column's grain-size scale.
+    pub fn class_x_on_screen(&self, class: aggrade_core::model::WentworthClass) -> Option<f32> {
+        let t = self.canvas.last_transform?;
+        Some(t.pos(self.cache.as_ref()?.strip.grain_scale.class_centre_x_mm(class), 0.0).x)
+    }
+
+    /// Screen points per metre of section in the canvas.
+    pub fn points_per_m(&self) -> Option<f32> {
+        let c = self.cache.as_ref()?;
+        Some(self.canvas.zoom * c.strip.heights.mm_per_m() as f32)
+    }
+
+    /// Items drawn in the last frame, and items in the whole laid-out column.
+    pub fn drawn_items(&self) -> (usize, usize) {
+        (self.canvas.last_drawn_items, self.cache.as_ref().map(|c| c.strip.items.len()).unwrap_or(0))
+    }
+
+    /// Bring a height into view in the canvas.
+    pub fn scroll_canvas_to(&mut self, height_m: f64) {
+        self.canvas.scroll_to_height(height_m);
+    }
+
+    /// The recovery file's path.
+    pub fn recovery_path(&self) -> &Path {
+        self.autosaver.path()
+    }
+
+    fn refresh(&mut self) {
+        let key = (self.doc.revision, self.doc.selected_section, self.params.clone(), self.layout.clone());
+        if self.cache.as_ref().is_some_and(|c| c.key == key) {
+            return;
+        }
+        let section = self.doc.section();
+        let interp = engine::interpret(section, &self.params);
+        let strip = engine::column_strip(section, &interp, &self.layout);
+        let index = ItemIndex::build(&strip.items, strip.height_mm);
+        self.cache = Some(Cache { key, interp, strip, index });
+    }
+
+    /// Apply one edit now (used by scripted runs and tests as well as the panels).
+    pub fn apply(&mut self, edit: Edit) {
+        if let Err(e) = self.doc.apply(edit) {
+            self.status = format!("Not changed: {e}");
+        }
+    }
+
+    fn apply_actions(&mut self, actions: Actions) {
+        for (edit, gesture) in actions.edits {
+            if let Err(e) = self.doc.apply_in_gesture(edit, gesture) {
+                self.status = format!("Not changed: {e}");
+            }
+        }
+        if actions.end_gesture {
+            self.doc.end_gesture();
+        }
+        if let Some(sel) = actions.select {
+            self.doc.selected_bed = sel;
+        }
+        if let Some(h) = actions.scroll_to_height_m {
+            self.canvas.scroll_to_height(h);
+        }
+    }
+
+    /// Run a menu command or shortcut.
+    pub fn run_command(&mut self, ctx: &egui::Context, cmd: Command) {
+        match cmd {
+            Command::New => self.guard(Pending::New, ctx),
+            Command::Open => {
+                if let Some(p) = self.dialogs.pick_open() {
+                    self.guard(Pending::Open(p), ctx);
+                }
+            }
+            Command::ImportCsv => {
+                if let Some(p) = self.dialogs.pick_csv() {
+                    self.import(&p);
+                }
+            }
+            Command::Save => {
+                self.save(false);
+            }
+            Command::SaveAs => {
+                self.save(true);
+            }
+            Command::Export => self.export = Some(ExportDialog::default()),
+            Command::Quit => ctx.send_viewport_cmd(egui::ViewportCommand::Close),
+            Command::Undo => {
+                if !self.doc.undo() {
+                    self.status = "Nothing to undo".into();
+                }
+            }
+            Command::Redo => {
+                if !self.doc.redo() {
+                    self.status = "Nothing to redo".into();
+                }
+            }
+            Command::ZoomIn => self.canvas.zoom *= 1.25,
+            Command::ZoomOut => self.canvas.zoom /= 1.25,
+        }
+    }
+
+    fn guard(&mut self, action: Pending, ctx: &egui::Context) {
+        if self.doc.dirty {
+            self.confirm = Some(action);
+        } else {
+            self.proceed(action, ctx);
+        }
+    }
+
+    fn proceed(&mut self, action: Pending, ctx: &egui::Context) {
+        match action {
+            Pending::New => {
+                self.doc = Document::new(Project::new(vec![Section::new("New section")]), None);
+                self.autosaver.clear();
+                self.status = "New project".into();
+            }
+            Pending::Open(p) => self.open_path(&p),
+            Pending::Quit => {
+                self.autosaver.clear();
+                self.allow_close = true;
+                ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+            }
+        }
+    }
+
+    /// Open a project or bed table, replacing the document; bad files give a dialog.
+    pub fn open_path(&mut self, path: &Path) {
+        match files::open(path) {
+            Ok((project, warnings)) => {
+                let is_project = path.extension().is_some_and(|e| e == "aggrade" || e == "json");
+                self.doc = Document::new(project, is_project.then(|| path.to_path_buf()));
+                self.autosaver.clear();
+                files::push_recent(&mut self.recent, path);
+                self.status = format!("Opened {}", path.display());
+                if !warnings.is_empty() {
+                    self.message = Some(("Opened with warnings".into(), warnings.join("\n")));
+                }
+            }
+            Err(e) => self.message = Some(("Could not open the file".into(), e)),
+        }
+    }
+
+    /// Import a bed table as a new section of the open project.
+    pub fn import(&mut self, path: &Path) {
+        match files::open(path) {
+            Ok((project, warnings)) => {
+                for mut s in project.sections {
+                    while self.doc.project.sections.iter().any(|x| x.name == s.name) {
+                        s.name.push_str(" (imported)");
+                    }
+                    self.apply(Edit::AddSection { section: s });
+                }
+                self.status = format!("Imported {}", path.display());
+                if !warnings.is_empty() {
+                    self.message = Some(("Imported with warnings".into(), warnings.join("\n")));
+                }
+            }
+            Err(e) => self.message = Some(("Could not import the file".into(), e)),
+        }
+    }
+
+    /// Save (asking where when new or `as_new`). Returns true when written.
+    pub fn save(&mut self, as_new: bool) -> bool {
+        let path = match (&self.doc.path, as_new) {
+            (Some(p), false) => Some(p.clone()),
+            _ => {
+                let name = self.doc.section().name.clone();
+                self.dialogs.pick_save(SaveKind::Project, &name)
+            }
+        };
+        let Some(mut path) = path else { return false };
+        if path.extension().is_none() {
+            path.set_extension("aggrade");
+        }
+        match files::save(&path, &self.doc.project) {
+            Ok(()) => {
+                self.doc.mark_saved(path.clone());
+                self.autosaver.clear();
+                files::push_recent(&mut self.recent, &path);
+                self.status = format!("Saved {}", path.display());
+                true
+            }
+            Err(e) => {
+                self.message =
+                    Some(("Could not save".into(), format!("{e}\nYour work is still open and unsaved.")));
+                false
+            }
+        }
+    }
+
+    fn title(&self) -> String {
+        format!("{}{} — Aggrade", if self.doc.dirty { "● " } else { "" }, self.doc.display_name())
+    }
+
+    /// Draw the whole window (eframe calls this; tests call it through a harness).
+    pub fn ui_main(&mut self, ui: &mut egui::Ui) {
+        let ctx = ui.ctx().clone();
+        if !self.styled {
+            // The first pass only installs fonts and style; drawing starts with the next one.
+            theme::apply(&ctx);
+            self.styled = true;
+            ctx.request_repaint();
+            return;
+        }
+        self.handle_input(&ctx);
+        self.refresh();
+
+        let mut actions = Actions::default();
+        self.menu_bar(ui, &ctx, &mut actions);
+        self.status_bar(ui);
+        self.left_panel(ui, &mut actions);
+        self.right_panel(ui, &mut actions);
+        egui::CentralPanel::default().frame(egui::Frame::NONE).show(ui, |ui| {
+            if let Some(c) = self.cache.as_mut() {
+                self.canvas.ui(ui, &self.doc, &c.strip, &mut c.index, &mut actions);
+            }
+        });
+        self.apply_actions(actions);
+        self.dialogs_ui(&ctx);
+
+        // Autosave unsaved changes; a failure is reported, never fatal.
+        let now = ctx.input(|i| i.time);
+        if let Err(e) = self.autosaver.tick(&self.doc, now) {
+            self.status = format!("Autosave failed: {e}");
+        }
+        if self.doc.dirty {
+            ctx.request_repaint_after(recovery::AUTOSAVE_INTERVAL);
+        }
+
+        // Closing with unsaved changes asks first.
+        if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close {
+            if self.doc.dirty {
+                ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
+                self.confirm = Some(Pending::Quit);
+            } else {
+                self.autosaver.clear();
+            }
+        }
+        let title = self.title();
+        if title != self.last_title {
+            ctx.send_viewport_cmd(egui::ViewportCommand::Title(title.clone()));
+            self.last_title = title;
+        }
+    }
+
+    fn handle_input(&mut self, ctx: &egui::Context) {
+        let dropped: Vec<PathBuf> = ctx.input(|i| {
+            i.raw
+                .dropped_files
+                .iter()
+                .map(|f| f.path().to_path_buf())
+                .filter(|p| !p.as_os_str().is_empty())
+                .collect()
+        });
+        for p in dropped {
+            if p.extension().is_some_and(|e| e.eq_ignore_ascii_case("csv")) {
+                self.import(&p);
+            } else {
+                self.guard(Pending::Open(p), ctx);
+            }
+        }
+        // Bed navigation and deletion from the keyboard when no text field has the focus.
+        if ctx.memory(|m| m.focused().is_none()) && self.confirm.is_none() && self.message.is_none() {
+            let (up, down, del) = ctx.input_mut(|i| {
+                (
+                    i.consume_key(Modifiers::NONE, Key::ArrowUp),
+                    i.consume_key(Modifiers::NONE, Key::ArrowDown),
+                    i.consume_key(Modifiers::NONE, Key::Delete),
+                )
+            });
+            let n = self.doc.section().beds.len();
+            let current = self.doc.selected_bed.and_then(|id| self.doc.bed_index(id));
+            let target = match (up, down, current) {
+                (true, _, Some(i)) => Some((i + 1).min(n.saturating_sub(1))),
+                (_, true, Some(i)) => Some(i.saturating_sub(1)),
+                (true, _, None) | (_, true, None) if n > 0 => Some(n - 1),
+                _ => None,
+            };
+            if let Some(i) = target {
+                let bed = &self.doc.section().beds[i];
+                let (id, mid) = (bed.id, self.doc.section().base_heights_m()[i] + bed.thickness_m / 2.0);
+                self.doc.selected_bed = Some(id);
+                self.canvas.scroll_to_height(mid);
+            }
+            if let (true, Some(id)) = (del, self.doc.selected_bed) {
+                self.apply(Edit::DeleteBed { bed: id });
+                self.status = "Bed deleted (Ctrl+Z brings it back)".into();
+            }
+        }
+        for cmd in Command::WITH_SHORTCUTS {
+            if let Some(sc) = cmd.shortcut() {
+                if ctx.input_mut(|i| i.consume_shortcut(&sc)) {
+                    self.run_command(ctx, cmd);
+                }
+            }
+        }
+    }
+
+    fn menu_item(
+        &mut self,
+        ui: &mut egui::Ui,
+        ctx: &egui::Context,
+        label: &str,
+        cmd: Command,
+        enabled: bool,
+        tip: &str,
+    ) {
+        let mut b = egui::Button::new(label);
+        if let Some(sc) = cmd.shortcut() {
+            b = b.shortcut_text(ctx.format_shortcut(&sc));
+        } else if cmd == Command::ZoomIn {
+            b = b.shortcut_text("+");
+        } else if cmd == Command::ZoomOut {
+            b = b.shortcut_text("−");
+        }
+        if ui.add_enabled(enabled, b).on_hover_text(tip).clicked() {
+            self.run_command(ctx, cmd);
+            ui.close();
+        }
+    }
+
+    fn menu_bar(&mut self, ui: &mut egui::Ui, ctx: &egui::Context, actions: &mut Actions) {
+        egui::Panel::top("menu").show(ui, |ui| {
+            egui::MenuBar::new().ui(ui, |ui| {
+                ui.menu_button("File", |ui| {
+                    self.menu_item(ui, ctx, "New project", Command::New, true, "Start an empty project");
+                    self.menu_item(ui, ctx, "Open…", Command::Open, true, "Open a project or bed-table CSV");
+                    ui.menu_button("Open recent", |ui| {
+                        if self.recent.is_empty() {
+                            ui.label("No recent files");
+                        }
+                        for p in self.recent.clone() {
+                            if ui
+                                .button(p.display().to_string())
+                                .on_hover_text("Open this file again")
+                                .clicked()
+                            {
+                                self.guard(Pending::Open(p), ctx);
+                                ui.close();
+                            }
+                        }
+                    });
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Import bed table (CSV)…",
+                        Command::ImportCsv,
+                        true,
+                        "Add a CSV bed table as a new section",
+                    );
+                    ui.separator();
+                    self.menu_item(ui, ctx, "Save", Command::Save, true, "Save the project");
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Save as…",
+                        Command::SaveAs,
+                        true,
+                        "Save the project under a new name",
+                    );
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Export column…",
+                        Command::Export,
+                        true,
+                        "Print the interpreted column at a true scale",
+                    );
+                    ui.separator();
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Quit",
+                        Command::Quit,
+                        true,
+                        "Close Aggrade (asks about unsaved work)",
+                    );
+                });
+                ui.menu_button("Edit", |ui| {
+                    let (u, r) = (self.doc.can_undo(), self.doc.can_redo());
+                    self.menu_item(ui, ctx, "Undo", Command::Undo, u, "Take back the last change");
+                    self.menu_item(ui, ctx, "Redo", Command::Redo, r, "Do the undone change again");
+                    ui.separator();
+                    ui.label(
+                        egui::RichText::new("Selected bed (↑ ↓ to move, Del to delete)")
+                            .small()
+                            .color(theme::TEXT_DIM),
+                    );
+                    canvas::bed_menu(ui, &self.doc, self.doc.selected_bed, actions);
+                });
+                ui.menu_button("View", |ui| {
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Zoom in",
+                        Command::ZoomIn,
+                        true,
+                        "Enlarge the column (also Ctrl+wheel)",
+                    );
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Zoom out",
+                        Command::ZoomOut,
+                        true,
+                        "Shrink the column (also Ctrl+wheel)",
+                    );
+                    ui.checkbox(&mut self.layout.show_rejected, "Show rejected boundaries")
+                        .on_hover_text("Draw boundaries you rejected, greyed");
+                });
+                ui.menu_button("Section", |ui| {
+                    let names: Vec<String> =
+                        self.doc.project.sections.iter().map(|s| s.name.clone()).collect();
+                    for (i, n) in names.iter().enumerate() {
+                        if ui
+                            .radio(self.doc.selected_section == i, n)
+                            .on_hover_text("Show this section")
+                            .clicked()
+                        {
+                            self.doc.select_section(i);
+                            ui.close();
+                        }
+                    }
+                    ui.separator();
+                    if ui
+                        .button("Add empty section")
+                        .on_hover_text("Start a new section in this project")
+                        .clicked()
+                    {
+                        let mut k = self.doc.project.sections.len() + 1;
+                        while self.doc.project.sections.iter().any(|s| s.name == format!("Section {k}")) {
+                            k += 1;
+                        }
+                        self.apply(Edit::AddSection { section: Section::new(format!("Section {k}")) });
+                        ui.close();
+                    }
+                });
+                ui.separator();
+                ui.label(egui::RichText::new(&self.doc.section().name).strong());
+                ui.label(
+                    egui::RichText::new(format!("{} beds", self.doc.section().beds.len()))
+                        .color(theme::TEXT_DIM),
+                );
+            });
+        });
+    }
+
+    fn status_bar(&mut self, ui: &mut egui::Ui) {
+        egui::Panel::bottom("status").show(ui, |ui| {
+            ui.horizontal(|ui| {
+                ui.label(&self.status);
+                ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
+                    ui.label(egui::RichText::new(aggrade_core::REVIEW_CAUTION).small().color(theme::WARN));
+                });
+            });
+        });
+    }
+
+    fn left_panel(&mut self, ui: &mut egui::Ui, actions: &mut Actions) {
+        egui::Panel::left("beds").resizable(true).default_size(370.0).show(ui, |ui| {
+            ui.add_space(4.0);
+            self.table.ui(ui, &self.doc, actions);
+        });
+    }
+
+    fn right_panel(&mut self, ui: &mut egui::Ui, actions: &mut Actions) {
+        egui::Panel::right("side").resizable(true).default_size(360.0).show(ui, |ui| {
+            ui.add_space(4.0);
+            ui.horizontal(|ui| {
+                for (t, name, tip) in [
+                    (Tab::Inspector, "Bed", "Every field of the selected bed"),
+                    (Tab::Review, "Review", "Candidate sequence boundaries and rule settings"),
+                    (Tab::Plots, "Plots", "Proportion, grain size and body thickness plots"),
+                    (Tab::Section, "Section", "Section details and units"),
+                ] {
+                    ui.selectable_value(&mut self.tab, t, name).on_hover_text(tip);
+                }
+            });
+            ui.separator();
+            let Some(cache) = self.cache.as_ref() else { return };
+            match self.tab {
+                Tab::Inspector => self.inspector.ui(ui, &self.doc, actions),
+                Tab::Review => {
+                    egui::CollapsingHeader::new("Rule parameters").show(ui, |ui| {
+                        review::params_ui(ui, &mut self.params);
+                    });
+                    review::ui(ui, &self.doc, &cache.interp, actions);
+                }
+                Tab::Plots => plots::ui(ui, &self.doc, &cache.interp),
+                Tab::Section => section_ui(ui, &self.doc, actions),
+            }
+        });
+    }
+
+    fn dialogs_ui(&mut self, ctx: &egui::Context) {
+        if let Some(rec) = self.recovery_offer.clone() {
+            egui::Modal::new(egui::Id::unique("recovery")).show(ctx, |ui| {
+                ui.heading("Restore unsaved work?");
+                let n: usize = rec.project.sections.iter().map(|s| s.beds.len()).sum();
+                ui.label(format!(
+                    "Aggrade did not close normally last time. Unsaved work was kept ({} sections, {n} beds{}).",
+                    rec.project.sections.len(),
+                    rec.original_path.as_ref().map(|p| format!(", from {}", p.display())).unwrap_or_default()
+                ));
+                ui.horizontal(|ui| {
+                    if ui.button("Restore").on_hover_text("Open the kept work; save it to keep it").clicked() {
+                        let mut doc = Document::new(rec.project.clone(), rec.original_path.clone());
+                        doc.dirty = true;
+                        doc.revision = rec.revision + 1;
+                        self.doc = doc;
+                        self.recovery_offer = None;
+                        self.status = "Restored unsaved work; save to keep it".into();
+                    }
+                    if ui.button("Discard").on_hover_text("Delete the kept work").clicked() {
+                        self.autosaver.clear();
+                        self.recovery_offer = None;
+                    }
+                });
+            });
+        }
+        if let Some(action) = self.confirm.clone() {
+            egui::Modal::new(egui::Id::unique("confirm")).show(ctx, |ui| {
+                ui.heading("Save changes?");
+                ui.label(format!("{} has unsaved changes.", self.doc.display_name()));
+                ui.horizontal(|ui| {
+                    if ui.button("Save").on_hover_text("Save, then continue").clicked() {
+                        self.confirm = None;
+                        if self.save(false) {
+                            self.proceed(action.clone(), ctx);
+                        }
+                    }
+                    if ui.button("Don't save").on_hover_text("Continue and lose the changes").clicked() {
+                        self.confirm = None;
+                        self.autosaver.clear();
+                        self.proceed(action.clone(), ctx);
+                    }
+                    if ui.button("Cancel").on_hover_text("Go back to the project").clicked() {
+                        self.confirm = None;
+                    }
+                });
+            });
+        }
+        if let Some((title, text)) = self.message.clone() {
+            egui::Modal::new(egui::Id::unique("message")).show(ctx, |ui| {
+                ui.set_max_width(560.0);
+                ui.heading(title);
+                egui::ScrollArea::vertical().max_height(300.0).show(ui, |ui| {
+                    ui.label(text);
+                });
+                if ui.button("OK").on_hover_text("Close this message").clicked() {
+                    self.message = None;
+                }
+            });
+        }
+        if let (Some(dlg), Some(cache)) = (self.export.as_mut(), self.cache.as_ref()) {
+            let section = self.doc.section().clone();
+            match dlg.ui(ctx, &section, self.doc.revision, &cache.interp, self.dialogs.as_mut()) {
+                super::export_dialog::Outcome::Open => {}
+                super::export_dialog::Outcome::Closed => self.export = None,
+                super::export_dialog::Outcome::Done(msg) => {
+                    self.status = msg;
+                    self.export = None;
+                }
+                super::export_dialog::Outcome::Failed(msg) => {
+                    self.message = Some(("Could not export".into(), msg));
+                }
+            }
+        }
+    }
+}
+
+fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+    let s = doc.section();
+    let (mut name, mut locality, mut logged_by, mut notes) =
+        (s.name.clone(), s.locality.clone(), s.logged_by.clone(), s.notes.clone());
+    let mut changed = false;
+    egui::Grid::new("section_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
+        ui.label("Name");
+        changed |= ui.text_edit_singleline(&mut name).on_hover_text("The section's name").changed();
+        ui.end_row();
+        ui.label("Locality");
+        changed |=
+            ui.text_edit_singleline(&mut locality).on_hover_text("Where the section was measured").changed();
+        ui.end_row();
+        ui.label("Logged by");
+        changed |= ui.text_edit_singleline(&mut logged_by).on_hover_text("Who measured it").changed();
+        ui.end_row();
+        ui.label("Units");
+        ui.horizontal(|ui| {
+            for u in LengthUnit::ALL {
+                if ui
+                    .selectable_label(s.display_unit == *u, u.name())
+                    .on_hover_text("Show and type thicknesses in this unit")
+                    .clicked()
+                {
+                    out.edit(Edit::SetDisplayUnit { unit: *u });
+                }
+            }
+        });
+        ui.end_row();
+    });
+    ui.label("Notes");
+    changed |= ui
+        .add(egui::TextEdit::multiline(&mut notes).desired_width(f32::INFINITY))
+        .on_hover_text("Notes on the section")
+        .changed();
+    if changed {
+        let g = super::actions::gesture_key(("section", doc.selected_section));
+        out.edit_in(Edit::SetSectionInfo { name, locality, logged_by, notes }, g);
+    }
+    ui.separator();
+    ui.label(format!(
+        "Total thickness {:.2} m · exposed {:.2} m · {} beds",
+        s.total_thickness_m(),
+        s.exposed_thickness_m(),
+        s.beds.len()
+    ));
+}
+
+/// Used by the canvas menu and exposed for tests.
+pub use canvas::new_bed;
+
+impl eframe::App for AggradeApp {
+    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
+        self.ui_main(ui);
+    }
+
+    fn save(&mut self, storage: &mut dyn eframe::Storage) {
+        if let Ok(json) = serde_json::to_string(&self.recent) {
+            storage.set_string("aggrade.recent", json);
+        }
+    }
+}

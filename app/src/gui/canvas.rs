@@ -1,0 +1,473 @@
+//! The column canvas: draws the laid-out strip with zoom, pan and a height ruler; click selects a
+//! bed, dragging a bed's top changes its thickness, dragging its right edge sets its grain size,
+//! and a right-click menu inserts, splits, merges and deletes beds.
+
+use super::actions::{gesture_key, Actions};
+use super::document::{Document, Edit};
+use super::engine::Strip;
+use super::painter::{self, ItemIndex, MmToScreen};
+use super::theme;
+use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+use egui::{Color32, CursorIcon, Pos2, Rect, Sense, Shape, Vec2};
+
+/// Width of the height ruler on the left, points.
+const RULER_W: f32 = 58.0;
+/// Height of the grain-size scale header, points.
+const HEADER_H: f32 = 24.0;
+/// How close (points) the pointer must be to a boundary or edge to grab it.
+const GRAB_PT: f32 = 5.0;
+
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum DragKind {
+    Top { bed: BedId, t0_m: f64, start_y: f32, gesture: u64 },
+    Grain { bed: BedId, gesture: u64 },
+    Pan,
+}
+
+/// View state of the canvas (kept between frames).
+#[derive(Debug)]
+pub struct Canvas {
+    /// Screen points per strip millimetre.
+    pub zoom: f32,
+    /// Strip y (mm) shown at the top of the view.
+    pub top_mm: f64,
+    drag: Option<DragKind>,
+    context_bed: Option<BedId>,
+    last_total_m: Option<f64>,
+    pending_scroll_m: Option<f64>,
+    /// Shapes reused between frames (avoids reallocating).
+    shapes: Vec<Shape>,
+    /// How many layout items the last frame drew (culling keeps this to the visible range).
+    pub last_drawn_items: usize,
+    /// The strip → screen transform of the last frame (for hit tests from outside).
+    pub last_transform: Option<MmToScreen>,
+    fitted: bool,
+}
+
+impl Default for Canvas {
+    fn default() -> Self {
+        Canvas {
+            zoom: 2.5,
+            top_mm: 0.0,
+            drag: None,
+            context_bed: None,
+            last_total_m: None,
+            pending_scroll_m: None,
+            shapes: Vec::new(),
+            last_drawn_items: 0,
+            last_transform: None,
+            fitted: false,
+        }
+    }
+}
+
+/// Snap step for dragged thicknesses: 1, 5 or 10 cm depending on how many points a metre spans.
+pub fn snap_step_m(points_per_m: f32) -> f64 {
+    if points_per_m >= 300.0 {
+        0.01
+    } else if points_per_m >= 60.0 {
+        0.05
+    } else {
+        0.10
+    }
+}
+
+/// A "nice" ruler step (in display units) so labels are at least `min_pt` apart.
+pub fn ruler_step(points_per_unit: f32, min_pt: f32) -> f64 {
+    for s in [0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0, 200.0, 500.0, 1000.0] {
+        if s as f32 * points_per_unit >= min_pt {
+            return s;
+        }
+    }
+    2000.0
+}
+
+/// Position in `strip.bed_boxes` of the box containing strip y (mm); boxes come base first, so
+/// their y falls as the index grows.
+fn box_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
+    let i = strip.bed_boxes.partition_point(|b| b.rect.y > y_mm);
+    let b = strip.bed_boxes.get(i)?;
+    (y_mm <= b.rect.y + b.rect.h).then_some(i)
+}
+
+/// Index in the section of the bed drawn at strip y (mm).
+fn bed_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
+    box_at_y(strip, y_mm).map(|k| strip.bed_boxes[k].bed_index)
+}
+
+impl Canvas {
+    /// Ask to bring a height into view on the next frame.
+    pub fn scroll_to_height(&mut self, height_m: f64) {
+        self.pending_scroll_m = Some(height_m);
+    }
+
+    /// Is a drag on a bed in progress?
+    pub fn dragging_bed(&self) -> bool {
+        matches!(self.drag, Some(DragKind::Top { .. } | DragKind::Grain { .. }))
+    }
+
+    /// Draw the canvas and collect what the user did.
+    pub fn ui(
+        &mut self,
+        ui: &mut egui::Ui,
+        doc: &Document,
+        strip: &Strip,
+        index: &mut ItemIndex,
+        out: &mut Actions,
+    ) {
+        let (rect, response) = ui.allocate_exact_size(ui.available_size(), Sense::click_and_drag());
+        let painter = ui.painter_at(rect);
+        let mm_per_m = strip.heights.mm_per_m();
+        if !self.fitted && strip.width_mm > 0.0 {
+            // First frame: fit the strip's width into the view, and show the top of the section.
+            let avail = rect.width() - RULER_W - 40.0;
+            self.zoom = (avail / strip.width_mm as f32).clamp(1.5, 6.0);
+            self.fitted = true;
+        }
+        let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
+
+        // Keep the part below a dragged bed still while the section grows or shrinks above it.
+        let total = doc.section().total_thickness_m();
+        if let (Some(last), Some(DragKind::Top { .. })) = (self.last_total_m, self.drag) {
+            self.top_mm += (total - last) * mm_per_m;
+        }
+        self.last_total_m = Some(total);
+        if let Some(h) = self.pending_scroll_m.take() {
+            self.top_mm = strip.heights.y_mm(h) - view_h_mm / 2.0;
+        }
+
+        // Zoom (ctrl+wheel, pinch, +/- keys) about the pointer; wheel pans.
+        let hovered = response.hovered() || response.contains_pointer();
+        let typing = ui.memory(|m| m.focused().is_some());
+        let (mut zoom_f, scroll) = ui.input(|i| (i.zoom_delta(), i.smooth_scroll_delta()));
+        if !typing {
+            ui.input(|i| {
+                if i.key_pressed(egui::Key::Plus) || i.key_pressed(egui::Key::Equals) {
+                    zoom_f *= 1.25;
+                }
+                if i.key_pressed(egui::Key::Minus) {
+                    zoom_f /= 1.25;
+                }
+            });
+        }
+        if zoom_f != 1.0 {
+            let anchor_y = response.hover_pos().map(|p| p.y).unwrap_or(rect.center().y);
+            let anchor_mm = self.top_mm + ((anchor_y - rect.top() - HEADER_H) / self.zoom) as f64;
+            self.zoom = (self.zoom * zoom_f).clamp(0.02, 60.0);
+            self.top_mm = anchor_mm - ((anchor_y - rect.top() - HEADER_H) / self.zoom) as f64;
+        } else if hovered && scroll.y != 0.0 {
+            self.top_mm -= (scroll.y / self.zoom) as f64;
+        }
+        let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
+        self.top_mm =
+            self.top_mm.clamp(-view_h_mm * 0.5, (strip.height_mm - view_h_mm * 0.5).max(-view_h_mm * 0.5));
+
+        let t = MmToScreen {
+            origin: Pos2::new(
+                rect.left() + RULER_W + 14.0,
+                rect.top() + HEADER_H - self.top_mm as f32 * self.zoom,
+            ),
+            zoom: self.zoom,
+        };
+        self.last_transform = Some(t);
+        let points_per_m = self.zoom * mm_per_m as f32;
+
+        // Background: paper for the strip.
+        painter.rect_filled(rect, 0.0, theme::CANVAS_BG);
+        let paper = Rect::from_min_max(t.pos(-4.0, -2.0), t.pos(strip.width_mm + 4.0, strip.height_mm));
+        painter.rect_filled(paper.intersect(rect), 0.0, Color32::WHITE);
+
+        // Items in the visible range, with a margin so lines crossing the edge are not cut short.
+        let lo = self.top_mm - 5.0;
+        let hi = self.top_mm + view_h_mm + 5.0;
+        let which = index.visible(lo, hi);
+        self.last_drawn_items = which.len();
+        self.shapes.clear();
+        painter::shapes(&strip.items, &which, &t, &mut self.shapes);
+        painter.extend(self.shapes.drain(..));
+        painter::texts(&strip.items, &which, &t, &painter);
+
+        // Selection.
+        let sel_index = doc.selected_bed.and_then(|id| doc.bed_index(id));
+        if let Some(b) = sel_index.and_then(|i| strip.bed_boxes.iter().find(|b| b.bed_index == i)) {
+            let r = Rect::from_min_max(
+                t.pos(b.rect.x, b.rect.y),
+                t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h),
+            );
+            painter.rect_filled(r, 0.0, theme::SELECT_FILL);
+            painter.rect_stroke(
+                r.expand(1.0),
+                1.0,
+                egui::Stroke::new(2.0, theme::ACCENT),
+                egui::StrokeKind::Outside,
+            );
+        }
+
+        self.draw_header(&painter, rect, strip, &t);
+        self.draw_ruler(&painter, rect, doc.section().display_unit, total, strip, &t);
+
+        // Interaction.
+        let pointer = response.hover_pos().or(response.interact_pointer_pos());
+        let beds = &doc.section().beds;
+        // A drag grabs what was under the pointer where the button went down.
+        let origin = if response.drag_started() { ui.input(|i| i.pointer.press_origin()) } else { None };
+        let grab = origin.or(pointer).and_then(|p| self.grab_target(p, strip, beds, &t));
+        if self.drag.is_none() {
+            match grab {
+                Some(DragKind::Top { .. }) => ui.ctx().set_cursor_icon(CursorIcon::ResizeVertical),
+                Some(DragKind::Grain { .. }) => ui.ctx().set_cursor_icon(CursorIcon::ResizeHorizontal),
+                _ => {}
+            }
+        }
+        if response.drag_started() {
+            self.drag = Some(grab.unwrap_or(DragKind::Pan));
+            if let Some(DragKind::Top { bed, .. } | DragKind::Grain { bed, .. }) = self.drag {
+                out.select = Some(Some(bed));
+            }
+        }
+        if response.dragged() {
+            match self.drag {
+                Some(DragKind::Pan) => self.top_mm -= (response.drag_delta().y / self.zoom) as f64,
+                Some(DragKind::Top { bed, t0_m, start_y, gesture }) => {
+                    ui.ctx().set_cursor_icon(CursorIcon::ResizeVertical);
+                    if let Some(p) = pointer {
+                        let step = snap_step_m(points_per_m);
+                        let raw = t0_m - ((p.y - start_y) / points_per_m) as f64;
+                        let snapped = ((raw / step).round() * step).max(step);
+                        let current = doc.section().bed_index(bed).map(|i| beds[i].thickness_m);
+                        if current.is_some_and(|c| (c - snapped).abs() > 1e-9) {
+                            out.edit_in(Edit::SetThickness { bed, thickness_m: snapped }, gesture);
+                        }
+                    }
+                }
+                Some(DragKind::Grain { bed, gesture }) => {
+                    ui.ctx().set_cursor_icon(CursorIcon::ResizeHorizontal);
+                    if let (Some(p), Some(i)) = (pointer, doc.section().bed_index(bed)) {
+                        let class = strip.grain_scale.class_at(t.x_mm(p.x));
+                        let g = Some(GrainSize::Class(class));
+                        if beds[i].grain_base != g || beds[i].grain_top != g {
+                            out.edit_in(Edit::SetGrain { bed, base: g, top: g }, gesture);
+                        }
+                    }
+                }
+                None => {}
+            }
+        }
+        if response.drag_stopped() {
+            self.drag = None;
+            out.end_gesture = true;
+        }
+        if response.clicked() {
+            let hit =
+                pointer.and_then(|p| bed_at_y(strip, t.y_mm(p.y))).and_then(|i| beds.get(i)).map(|b| b.id);
+            out.select = Some(hit);
+        }
+        if response.secondary_clicked() {
+            self.context_bed =
+                pointer.and_then(|p| bed_at_y(strip, t.y_mm(p.y))).and_then(|i| beds.get(i)).map(|b| b.id);
+            if self.context_bed.is_some() {
+                out.select = Some(self.context_bed);
+            }
+        }
+        let context_bed = self.context_bed;
+        response.context_menu(|ui| bed_menu(ui, doc, context_bed, out));
+    }
+
+    /// What a drag starting at `p` would move.
+    fn grab_target(&self, p: Pos2, strip: &Strip, beds: &[Bed], t: &MmToScreen) -> Option<DragKind> {
+        let y = t.y_mm(p.y);
+        let x = t.x_mm(p.x);
+        let k = box_at_y(strip, y)?;
+        let b = strip.bed_boxes.get(k)?;
+        let i = b.bed_index;
+        let top_screen = t.pos(0.0, b.rect.y).y;
+        let base_screen = t.pos(0.0, b.rect.y + b.rect.h).y;
+        let right = t.pos(b.rect.x + b.rect.w, 0.0).x;
+        let in_column = x >= -1.0 && p.x <= right + GRAB_PT;
+        let gesture = gesture_key(("canvas", i, p.x.to_bits(), p.y.to_bits()));
+        if in_column && (p.y - top_screen).abs() <= GRAB_PT {
+            let bed = beds.get(i)?;
+            return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
+        }
+        if in_column && (p.y - base_screen).abs() <= GRAB_PT && k > 0 {
+            let bed = beds.get(strip.bed_boxes[k - 1].bed_index)?;
+            return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
+        }
+        let bed = beds.get(i)?;
+        if (p.x - right).abs() <= GRAB_PT && !bed.is_covered() {
+            return Some(DragKind::Grain { bed: bed.id, gesture });
+        }
+        None
+    }
+
+    fn draw_header(&self, painter: &egui::Painter, rect: Rect, strip: &Strip, t: &MmToScreen) {
+        let bar = Rect::from_min_size(rect.min, Vec2::new(rect.width(), HEADER_H));
+        painter.rect_filled(bar, 0.0, theme::PANEL_BG);
+        painter
+            .line_segment([bar.left_bottom(), bar.right_bottom()], egui::Stroke::new(1.0, theme::RULE_LINE));
+        let font = egui::FontId::proportional(10.5);
+        let mut last_x = f32::NEG_INFINITY;
+        for c in WentworthClass::ALL {
+            let x = t.pos(strip.grain_scale.class_centre_x_mm(c), 0.0).x;
+            painter.line_segment(
+                [Pos2::new(x, bar.bottom() - 5.0), Pos2::new(x, bar.bottom())],
+                egui::Stroke::new(1.0, theme::TEXT_DIM),
+            );
+            if x - last_x > 16.0 && x < rect.right() - 6.0 {
+                painter.text(
+                    Pos2::new(x, bar.bottom() - 6.0),
+                    egui::Align2::CENTER_BOTTOM,
+                    c.short_label(),
+                    font.clone(),
+                    theme::TEXT_DIM,
+                );
+                last_x = x;
+            }
+        }
+        painter.text(
+            Pos2::new(rect.left() + 6.0, bar.center().y),
+            egui::Align2::LEFT_CENTER,
+            "grain size",
+            egui::FontId::proportional(10.0),
+            theme::TEXT_DIM,
+        );
+    }
+
+    fn draw_ruler(
+        &self,
+        painter: &egui::Painter,
+        rect: Rect,
+        unit: LengthUnit,
+        total_m: f64,
+        strip: &Strip,
+        t: &MmToScreen,
+    ) {
+        let bar = Rect::from_min_max(
+            Pos2::new(rect.left(), rect.top() + HEADER_H),
+            Pos2::new(rect.left() + RULER_W, rect.bottom()),
+        );
+        painter.rect_filled(bar, 0.0, theme::PANEL_BG);
+        painter.line_segment([bar.right_top(), bar.right_bottom()], egui::Stroke::new(1.0, theme::RULE_LINE));
+        let unit_m = unit.metres();
+        let points_per_unit = (strip.heights.mm_per_m() * unit_m) as f32 * t.zoom;
+        let step = ruler_step(points_per_unit, 36.0);
+        let h_top = strip.heights.height_m(t.y_mm(bar.top())) / unit_m;
+        let h_bot = strip.heights.height_m(t.y_mm(bar.bottom())) / unit_m;
+        let total_u = total_m / unit_m;
+        let first = (h_bot.max(0.0) / step).floor() as i64;
+        let last = (h_top.min(total_u) / step).ceil() as i64;
+        let font = egui::FontId::monospace(10.5);
+        let decimals = if step < 0.1 {
+            2
+        } else if step < 1.0 {
+            1
+        } else {
+            0
+        };
+        for k in first..=last.min(first + 400) {
+            let h_u = k as f64 * step;
+            if h_u < -1e-9 || h_u > total_u + 1e-9 {
+                continue;
+            }
+            let y = t.pos(0.0, strip.heights.y_mm(h_u * unit_m)).y;
+            if y < bar.top() || y > bar.bottom() {
+                continue;
+            }
+            painter.line_segment(
+                [Pos2::new(bar.right() - 7.0, y), Pos2::new(bar.right(), y)],
+                egui::Stroke::new(1.0, theme::TEXT_DIM),
+            );
+            let label = format!("{h_u:.decimals$}");
+            painter.text(
+                Pos2::new(bar.right() - 10.0, y),
+                egui::Align2::RIGHT_CENTER,
+                label,
+                font.clone(),
+                theme::TEXT,
+            );
+        }
+        let minor = step / 5.0;
+        let first_minor = (h_bot.max(0.0) / minor).floor() as i64;
+        let last_minor = (h_top.min(total_u) / minor).ceil() as i64;
+        if last_minor - first_minor < 2000 {
+            for k in first_minor..=last_minor {
+                let y = t.pos(0.0, strip.heights.y_mm(k as f64 * minor * unit_m)).y;
+                if y >= bar.top() && y <= bar.bottom() && k as f64 * minor <= total_u + 1e-9 {
+                    painter.line_segment(
+                        [Pos2::new(bar.right() - 3.5, y), Pos2::new(bar.right(), y)],
+                        egui::Stroke::new(1.0, theme::RULE_LINE),
+                    );
+                }
+            }
+        }
+        painter.text(
+            Pos2::new(bar.left() + 5.0, bar.top() + 4.0),
+            egui::Align2::LEFT_TOP,
+            unit.name(),
+            egui::FontId::proportional(10.0),
+            theme::TEXT_DIM,
+        );
+    }
+}
+
+/// A plain new bed for the insert commands.
+pub fn new_bed() -> Bed {
+    Bed::new(BedId(0), 0.5, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Silt)))
+}
+
+/// The right-click menu of a bed (also used by the table).
+pub fn bed_menu(ui: &mut egui::Ui, doc: &Document, bed: Option<BedId>, out: &mut Actions) {
+    let Some(bed) = bed else {
+        ui.label("No bed selected");
+        return;
+    };
+    let Some(i) = doc.bed_index(bed) else { return };
+    let n = doc.section().beds.len();
+    if ui.button("Insert bed above").on_hover_text("Add a 0.5 m bed directly above this one").clicked() {
+        out.edit(Edit::InsertBed { index: i + 1, bed: new_bed() });
+        ui.close();
+    }
+    if ui.button("Insert bed below").on_hover_text("Add a 0.5 m bed directly below this one").clicked() {
+        out.edit(Edit::InsertBed { index: i, bed: new_bed() });
+        ui.close();
+    }
+    if ui.button("Split in two").on_hover_text("Cut this bed into two halves of equal thickness").clicked() {
+        out.edit(Edit::SplitBed { bed });
+        ui.close();
+    }
+    let can_merge = i + 1 < n;
+    if ui
+        .add_enabled(can_merge, egui::Button::new("Merge with bed above"))
+        .on_hover_text("Join this bed and the one above into one bed")
+        .clicked()
+    {
+        out.edit(Edit::MergeWithAbove { bed });
+        ui.close();
+    }
+    ui.separator();
+    if ui.button("Delete bed").on_hover_text("Remove this bed (Ctrl+Z brings it back)").clicked() {
+        out.edit(Edit::DeleteBed { bed });
+        ui.close();
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn snap_steps_follow_zoom() {
+        assert_eq!(snap_step_m(1000.0), 0.01);
+        assert_eq!(snap_step_m(100.0), 0.05);
+        assert_eq!(snap_step_m(10.0), 0.10);
+    }
+
+    #[test]
+    fn ruler_steps_keep_labels_apart() {
+        for ppu in [0.5f32, 3.0, 20.0, 150.0, 2000.0] {
+            let s = ruler_step(ppu, 36.0);
+            assert!(s as f32 * ppu >= 36.0, "{ppu}: {s}");
+        }
+        assert_eq!(ruler_step(20.0, 36.0), 2.0);
+    }
+}

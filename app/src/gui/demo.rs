@@ -1,0 +1,128 @@
+//! An invented demo section (the "Brackenford Draw" section in the imaginary Ulvane Flats) used
+//! when no file is given and `sample_sections/demo.aggrade` cannot be read. Demo data only.
+
+use aggrade_core::model::{
+    Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, PaleosolFeature, Project, Section,
+    Structure, Surface, SurfaceKind, WentworthClass,
+};
+
+/// The demo project file shipped with the program, if present.
+pub fn demo_file() -> Option<std::path::PathBuf> {
+    let p = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/demo.aggrade");
+    p.exists().then_some(p)
+}
+
+fn bed(t: f64, l: Lithology, base: WentworthClass, top: WentworthClass) -> Bed {
+    let mut b = Bed::new(BedId(0), t, l, Some(GrainSize::Class(base)));
+    b.grain_top = Some(GrainSize::Class(top));
+    b
+}
+
+/// One invented section with a base-level cycle: a paleosol cut by amalgamated channels, then
+/// isolated channels in floodplain fines, capped by a strong paleosol and a second incision.
+pub fn demo_section() -> Section {
+    use Lithology::*;
+    use WentworthClass::*;
+    let mut s = Section::new("Brackenford Draw");
+    s.locality = "Ulvane Flats (invented demo area)".into();
+    s.logged_by = "Demo".into();
+    s.date_logged = Some("2026-06-14".into());
+    let mut beds = Vec::new();
+    let fines = |t: f64, soil: PaleosolDevelopment| {
+        let mut b = bed(t, Mudstone, Clay, Clay);
+        b.paleosol = soil;
+        if soil != PaleosolDevelopment::None {
+            b.paleosol_features = vec![PaleosolFeature::RootTraces, PaleosolFeature::Mottling];
+            b.colour = "pale red mottled".into();
+        }
+        if soil.is_strong() {
+            b.paleosol_features.push(PaleosolFeature::CarbonateNodules);
+            b.paleosol_features.push(PaleosolFeature::Slickensides);
+            b.carbonate_stage = Some(3);
+        }
+        b
+    };
+    beds.push(fines(3.2, PaleosolDevelopment::Weak));
+    beds.push(fines(2.1, PaleosolDevelopment::VeryStrong));
+    // Amalgamated coarse channels over the incision.
+    for (k, (t, lo, hi)) in
+        [(2.4, Pebble, CoarseSand), (2.0, VeryCoarseSand, MediumSand), (1.8, CoarseSand, MediumSand)]
+            .into_iter()
+            .enumerate()
+    {
+        let mut b = bed(t, if k == 0 { Conglomerate } else { Sandstone }, lo, hi);
+        b.base_contact = Contact::Erosional;
+        b.base_relief_m = Some(if k == 0 { 1.4 } else { 0.4 });
+        b.structures = vec![Structure::TroughCrossBedding, Structure::DownstreamAccretion];
+        if k == 0 {
+            b.structures.push(Structure::BasalLag);
+            b.base_surface = Some(Surface { name: "SB-1".into(), kind: SurfaceKind::Incision });
+        } else {
+            b.structures.push(Structure::MudClasts);
+        }
+        b.paleocurrents_deg = vec![212.0, 198.0, 225.0, 205.0];
+        beds.push(b);
+        if k == 1 {
+            beds.push(bed(0.2, Mudstone, Silt, Silt));
+        }
+    }
+    beds.push(fines(4.5, PaleosolDevelopment::Weak));
+    let mut splay = bed(0.6, Sandstone, FineSand, VeryFineSand);
+    splay.structures = vec![Structure::RippleCrossLamination];
+    beds.push(splay);
+    beds.push(fines(3.8, PaleosolDevelopment::Moderate));
+    // Isolated fining-upward channels in thick fines.
+    for (t, fines_t) in [(3.6, 5.2), (2.8, 6.1)] {
+        let mut b = bed(t, Sandstone, MediumSand, VeryFineSand);
+        b.base_contact = Contact::Erosional;
+        b.structures = vec![
+            Structure::LateralAccretion,
+            Structure::TroughCrossBedding,
+            Structure::RippleCrossLamination,
+        ];
+        b.paleocurrents_deg = vec![140.0, 155.0, 122.0];
+        beds.push(b);
+        beds.push(bed(0.9, Siltstone, Silt, Silt));
+        beds.push(fines(fines_t, PaleosolDevelopment::Weak));
+    }
+    beds.push(fines(2.4, PaleosolDevelopment::Strong));
+    let mut b = bed(3.1, Conglomerate, Cobble, CoarseSand);
+    b.base_contact = Contact::Erosional;
+    b.base_relief_m = Some(2.2);
+    b.base_surface = Some(Surface { name: "SB-2".into(), kind: SurfaceKind::Incision });
+    b.structures = vec![Structure::Imbrication, Structure::BasalLag];
+    beds.push(b);
+    let mut b = bed(2.6, Sandstone, CoarseSand, MediumSand);
+    b.base_contact = Contact::Erosional;
+    b.structures = vec![Structure::TroughCrossBedding, Structure::DownstreamAccretion];
+    beds.push(b);
+    beds.push(bed(1.5, Covered, Clay, Clay));
+    if let Some(last) = beds.last_mut() {
+        last.grain_base = None;
+        last.grain_top = None;
+    }
+    beds.push(fines(2.0, PaleosolDevelopment::None));
+    for (i, b) in beds.iter_mut().enumerate() {
+        b.id = BedId(i as u64 + 1);
+    }
+    s.beds = beds;
+    s
+}
+
+/// The demo as a project.
+pub fn demo_project() -> Project {
+    Project::new(vec![demo_section()])
+}
+
+/// A long generated section (for the frame benchmark and scrolling tests): repeating cycles.
+pub fn long_section(n_beds: usize) -> Section {
+    let base = demo_section();
+    let mut s = Section::new("Generated long section");
+    for i in 0..n_beds {
+        let mut b = base.beds[i % base.beds.len()].clone();
+        b.id = BedId(i as u64 + 1);
+        b.base_surface = None;
+        s.beds.push(b);
+    }
+    s
+}

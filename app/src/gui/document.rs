@@ -1,0 +1,473 @@
+//! The open document and the one place every edit is applied: undo/redo by snapshots, merged
+//! gestures (a drag or a typed value is one undo step), dirty tracking and a revision counter
+//! that caches and the autosave watch.
+
+use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Project, ReviewDecision, ReviewState, Section};
+use std::path::PathBuf;
+
+/// How many undo steps are kept (older ones are dropped first).
+pub const UNDO_LIMIT: usize = 200;
+
+/// One change to the document. Every panel, menu and shortcut edits through these values only.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Edit {
+    /// Set a bed's thickness (metres); beds above move with it since heights are derived.
+    SetThickness { bed: BedId, thickness_m: f64 },
+    /// Set grain size at base and top.
+    SetGrain { bed: BedId, base: Option<GrainSize>, top: Option<GrainSize> },
+    /// Replace every field of a bed (the inspector and the table edit a copy, then send it).
+    ReplaceBed { bed: Bed },
+    /// Insert a bed at this index of the base-first bed list (its id is assigned here).
+    InsertBed { index: usize, bed: Bed },
+    /// Remove a bed.
+    DeleteBed { bed: BedId },
+    /// Cut a bed into two equal halves.
+    SplitBed { bed: BedId },
+    /// Join a bed with the one above it (thicknesses add up; the lower bed's fields are kept).
+    MergeWithAbove { bed: BedId },
+    /// Record the geologist's decision on the candidate boundary at the base of `bed`.
+    SetReview { bed: BedId, state: ReviewState, note: String },
+    /// Change the unit thicknesses are shown and typed in.
+    SetDisplayUnit { unit: LengthUnit },
+    /// Change the section's descriptive fields.
+    SetSectionInfo { name: String, locality: String, logged_by: String, notes: String },
+    /// Add a new empty section and select it.
+    AddSection { section: Section },
+    /// Replace the whole project (an import into the open document).
+    ReplaceProject { project: Project },
+}
+
+/// Why an edit was refused; shown to the user as is.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct EditError(pub String);
+
+impl std::fmt::Display for EditError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.0)
+    }
+}
+
+#[derive(Debug, Clone)]
+struct Snapshot {
+    project: Project,
+    selected_section: usize,
+    selected_bed: Option<BedId>,
+}
+
+/// The project being edited, where it lives on disk, and what is selected.
+#[derive(Debug, Clone)]
+pub struct Document {
+    pub project: Project,
+    /// Where the project was opened from or last saved to (`None` for a new document).
+    pub path: Option<PathBuf>,
+    /// Changed since the last save or open.
+    pub dirty: bool,
+    pub selected_section: usize,
+    pub selected_bed: Option<BedId>,
+    /// Grows with every change to the project; caches and autosave compare it.
+    pub revision: u64,
+    undo: Vec<Snapshot>,
+    redo: Vec<Snapshot>,
+    /// The gesture the newest undo step belongs to, while it is still open.
+    open_gesture: Option<u64>,
+}
+
+impl Document {
+    /// A document over a project, clean.
+    pub fn new(project: Project, path: Option<PathBuf>) -> Self {
+        let mut project = project;
+        if project.sections.is_empty() {
+            project.sections.push(Section::new("Section 1"));
+        }
+        Document {
+            project,
+            path,
+            dirty: false,
+            selected_section: 0,
+            selected_bed: None,
+            revision: 0,
+            undo: Vec::new(),
+            redo: Vec::new(),
+            open_gesture: None,
+        }
+    }
+
+    /// The selected section.
+    pub fn section(&self) -> &Section {
+        let i = self.selected_section.min(self.project.sections.len().saturating_sub(1));
+        &self.project.sections[i]
+    }
+
+    fn section_mut(&mut self) -> &mut Section {
+        let i = self.selected_section.min(self.project.sections.len().saturating_sub(1));
+        &mut self.project.sections[i]
+    }
+
+    /// The selected bed, if it still exists.
+    pub fn selected(&self) -> Option<&Bed> {
+        let id = self.selected_bed?;
+        self.section().beds.iter().find(|b| b.id == id)
+    }
+
+    /// File name for the title bar.
+    pub fn display_name(&self) -> String {
+        self.path
+            .as_ref()
+            .and_then(|p| p.file_name())
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| "Untitled".to_string())
+    }
+
+    /// Apply an edit as its own undo step.
+    pub fn apply(&mut self, edit: Edit) -> Result<(), EditError> {
+        self.open_gesture = None;
+        self.apply_in_gesture(edit, None)
+    }
+
+    /// Apply an edit; consecutive edits with the same `gesture` (a drag, typing into one field)
+    /// share one undo step until [`Document::end_gesture`] or an edit of another gesture.
+    pub fn apply_in_gesture(&mut self, edit: Edit, gesture: Option<u64>) -> Result<(), EditError> {
+        let before = Snapshot {
+            project: self.project.clone(),
+            selected_section: self.selected_section,
+            selected_bed: self.selected_bed,
+        };
+        let mut work = self.clone_state();
+        work.run(edit)?;
+        let merge = gesture.is_some() && gesture == self.open_gesture && !self.undo.is_empty();
+        if !merge {
+            self.undo.push(before);
+            if self.undo.len() > UNDO_LIMIT {
+                self.undo.remove(0);
+            }
+        }
+        self.project = work.project;
+        self.selected_section = work.selected_section;
+        self.selected_bed = work.selected_bed;
+        self.open_gesture = gesture;
+        self.redo.clear();
+        self.dirty = true;
+        self.revision += 1;
+        Ok(())
+    }
+
+    /// Close the open gesture so the next edit starts a new undo step.
+    pub fn end_gesture(&mut self) {
+        self.open_gesture = None;
+    }
+
+    /// Whether there is something to undo / redo.
+    pub fn can_undo(&self) -> bool {
+        !self.undo.is_empty()
+    }
+    pub fn can_redo(&self) -> bool {
+        !self.redo.is_empty()
+    }
+
+    /// Step back one edit (or one gesture).
+    pub fn undo(&mut self) -> bool {
+        let Some(prev) = self.undo.pop() else { return false };
+        let now = self.snapshot();
+        self.redo.push(now);
+        self.restore(prev);
+        true
+    }
+
+    /// Redo the last undone step.
+    pub fn redo(&mut self) -> bool {
+        let Some(next) = self.redo.pop() else { return false };
+        let now = self.snapshot();
+        self.undo.push(now);
+        self.restore(next);
+        true
+    }
+
+    /// The project was written to `path`: clean from now on.
+    pub fn mark_saved(&mut self, path: PathBuf) {
+        self.path = Some(path);
+        self.dirty = false;
+    }
+
+    fn snapshot(&self) -> Snapshot {
+        Snapshot {
+            project: self.project.clone(),
+            selected_section: self.selected_section,
+            selected_bed: self.selected_bed,
+        }
+    }
+
+    fn restore(&mut self, s: Snapshot) {
+        self.project = s.project;
+        self.selected_section = s.selected_section.min(self.project.sections.len().saturating_sub(1));
+        self.selected_bed = s.selected_bed;
+        self.open_gesture = None;
+        self.dirty = true;
+        self.revision += 1;
+    }
+
+    fn clone_state(&self) -> Work {
+        Work {
+            project: self.project.clone(),
+            selected_section: self.selected_section,
+            selected_bed: self.selected_bed,
+        }
+    }
+
+    /// Index (base-first) of a bed in the selected section.
+    pub fn bed_index(&self, id: BedId) -> Option<usize> {
+        self.section().bed_index(id)
+    }
+
+    /// Select a section by index.
+    pub fn select_section(&mut self, index: usize) {
+        if index < self.project.sections.len() {
+            self.selected_section = index;
+            self.selected_bed = None;
+            self.revision += 1;
+        }
+    }
+
+    #[doc(hidden)]
+    pub fn section_mut_for_tests(&mut self) -> &mut Section {
+        self.section_mut()
+    }
+}
+
+/// A working copy an edit runs on; it replaces the document only when the edit succeeds.
+struct Work {
+    project: Project,
+    selected_section: usize,
+    selected_bed: Option<BedId>,
+}
+
+fn check_thickness(t: f64) -> Result<(), EditError> {
+    if t.is_finite() && t > 0.0 {
+        Ok(())
+    } else {
+        Err(EditError(format!("thickness must be a number greater than 0 m, got {t}")))
+    }
+}
+
+impl Work {
+    fn section(&mut self) -> &mut Section {
+        let i = self.selected_section.min(self.project.sections.len().saturating_sub(1));
+        &mut self.project.sections[i]
+    }
+
+    fn index_of(&mut self, id: BedId) -> Result<usize, EditError> {
+        self.section().bed_index(id).ok_or_else(|| EditError(format!("bed {} no longer exists", id.0)))
+    }
+
+    fn run(&mut self, edit: Edit) -> Result<(), EditError> {
+        match edit {
+            Edit::SetThickness { bed, thickness_m } => {
+                check_thickness(thickness_m)?;
+                let i = self.index_of(bed)?;
+                self.section().beds[i].thickness_m = thickness_m;
+            }
+            Edit::SetGrain { bed, base, top } => {
+                let i = self.index_of(bed)?;
+                let b = &mut self.section().beds[i];
+                b.grain_base = base;
+                b.grain_top = top;
+            }
+            Edit::ReplaceBed { bed } => {
+                check_thickness(bed.thickness_m)?;
+                let i = self.index_of(bed.id)?;
+                self.section().beds[i] = bed;
+            }
+            Edit::InsertBed { index, mut bed } => {
+                check_thickness(bed.thickness_m)?;
+                let s = self.section();
+                bed.id = s.next_bed_id();
+                let at = index.min(s.beds.len());
+                let id = bed.id;
+                s.beds.insert(at, bed);
+                self.selected_bed = Some(id);
+            }
+            Edit::DeleteBed { bed } => {
+                let i = self.index_of(bed)?;
+                let s = self.section();
+                s.beds.remove(i);
+                s.review.retain(|d| d.bed != bed);
+                self.selected_bed = s.beds.get(i.min(s.beds.len().saturating_sub(1))).map(|b| b.id);
+            }
+            Edit::SplitBed { bed } => {
+                let i = self.index_of(bed)?;
+                let s = self.section();
+                let mut upper = s.beds[i].clone();
+                let half = s.beds[i].thickness_m / 2.0;
+                upper.id = s.next_bed_id();
+                // The new upper half has a conformable base and no named surface of its own.
+                upper.base_surface = None;
+                upper.base_contact = aggrade_core::model::Contact::Sharp;
+                upper.base_relief_m = None;
+                s.beds[i].thickness_m = half;
+                upper.thickness_m = half;
+                s.beds.insert(i + 1, upper);
+            }
+            Edit::MergeWithAbove { bed } => {
+                let i = self.index_of(bed)?;
+                let s = self.section();
+                if i + 1 >= s.beds.len() {
+                    return Err(EditError("the top bed has no bed above it to merge with".into()));
+                }
+                let above = s.beds.remove(i + 1);
+                let b = &mut s.beds[i];
+                b.thickness_m += above.thickness_m;
+                b.grain_top = above.grain_top.or(b.grain_top);
+                s.review.retain(|d| d.bed != above.id);
+                self.selected_bed = Some(bed);
+            }
+            Edit::SetReview { bed, state, note } => {
+                self.index_of(bed)?;
+                let s = self.section();
+                s.review.retain(|d| d.bed != bed);
+                if state != ReviewState::Candidate || !note.is_empty() {
+                    s.review.push(ReviewDecision { bed, state, note });
+                    s.review.sort_by_key(|d| d.bed);
+                }
+            }
+            Edit::SetDisplayUnit { unit } => self.section().display_unit = unit,
+            Edit::SetSectionInfo { name, locality, logged_by, notes } => {
+                if name.trim().is_empty() {
+                    return Err(EditError("a section needs a name".into()));
+                }
+                let clash = self
+                    .project
+                    .sections
+                    .iter()
+                    .enumerate()
+                    .any(|(i, s)| i != self.selected_section && s.name == name);
+                if clash {
+                    return Err(EditError(format!("another section is already named {name:?}")));
+                }
+                let s = self.section();
+                s.name = name;
+                s.locality = locality;
+                s.logged_by = logged_by;
+                s.notes = notes;
+            }
+            Edit::AddSection { section } => {
+                if self.project.sections.iter().any(|s| s.name == section.name) {
+                    return Err(EditError(format!("a section named {:?} exists already", section.name)));
+                }
+                self.project.sections.push(section);
+                self.selected_section = self.project.sections.len() - 1;
+                self.selected_bed = None;
+            }
+            Edit::ReplaceProject { project } => {
+                if project.sections.is_empty() {
+                    return Err(EditError("the imported project holds no section".into()));
+                }
+                self.project = project;
+                self.selected_section = 0;
+                self.selected_bed = None;
+            }
+        }
+        Ok(())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use aggrade_core::model::{Lithology, WentworthClass};
+
+    fn doc_with_beds(n: usize) -> Document {
+        let mut s = Section::new("Test");
+        for i in 0..n {
+            let g = Some(GrainSize::Class(WentworthClass::FineSand));
+            s.beds.push(Bed::new(BedId(i as u64 + 1), 1.0 + i as f64, Lithology::Sandstone, g));
+        }
+        Document::new(Project::new(vec![s]), None)
+    }
+
+    #[test]
+    fn thickness_change_moves_beds_above_and_undoes() {
+        let mut d = doc_with_beds(3);
+        assert_eq!(d.section().base_heights_m(), vec![0.0, 1.0, 3.0]);
+        d.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 0.5 }).expect("valid edit");
+        assert_eq!(d.section().base_heights_m(), vec![0.0, 0.5, 2.5]);
+        assert!(d.dirty);
+        assert!(d.undo());
+        assert_eq!(d.section().base_heights_m(), vec![0.0, 1.0, 3.0]);
+        assert!(d.redo());
+        assert_eq!(d.section().beds[0].thickness_m, 0.5);
+    }
+
+    #[test]
+    fn a_drag_is_one_undo_step() {
+        let mut d = doc_with_beds(2);
+        for t in [1.1, 1.2, 1.3, 1.4] {
+            d.apply_in_gesture(Edit::SetThickness { bed: BedId(2), thickness_m: t }, Some(7)).expect("valid");
+        }
+        d.end_gesture();
+        d.apply_in_gesture(Edit::SetThickness { bed: BedId(2), thickness_m: 5.0 }, Some(7)).expect("valid");
+        assert!(d.undo());
+        assert_eq!(d.section().beds[1].thickness_m, 1.4);
+        assert!(d.undo());
+        assert_eq!(d.section().beds[1].thickness_m, 2.0);
+        assert!(!d.can_undo());
+    }
+
+    #[test]
+    fn bad_thickness_is_refused_and_changes_nothing() {
+        let mut d = doc_with_beds(1);
+        for bad in [0.0, -2.0, f64::NAN, f64::INFINITY] {
+            let err = d.apply(Edit::SetThickness { bed: BedId(1), thickness_m: bad });
+            assert!(err.is_err(), "{bad} accepted");
+        }
+        assert!(!d.dirty);
+        assert!(!d.can_undo());
+        assert_eq!(d.revision, 0);
+    }
+
+    #[test]
+    fn split_and_merge_keep_total_thickness() {
+        let mut d = doc_with_beds(3);
+        let total = d.section().total_thickness_m();
+        d.apply(Edit::SplitBed { bed: BedId(2) }).expect("split");
+        assert_eq!(d.section().beds.len(), 4);
+        assert_eq!(d.section().beds[1].thickness_m, 1.0);
+        assert_eq!(d.section().beds[2].thickness_m, 1.0);
+        assert!((d.section().total_thickness_m() - total).abs() < 1e-12);
+        d.apply(Edit::MergeWithAbove { bed: BedId(2) }).expect("merge");
+        assert_eq!(d.section().beds.len(), 3);
+        assert!((d.section().total_thickness_m() - total).abs() < 1e-12);
+        let top = d.section().beds[2].id;
+        assert!(d.apply(Edit::MergeWithAbove { bed: top }).is_err());
+    }
+
+    #[test]
+    fn insert_assigns_fresh_id_and_selects() {
+        let mut d = doc_with_beds(2);
+        let bed = Bed::new(BedId(1), 0.3, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Clay)));
+        d.apply(Edit::InsertBed { index: 2, bed }).expect("insert");
+        assert_eq!(d.section().beds[2].id, BedId(3));
+        assert_eq!(d.selected_bed, Some(BedId(3)));
+    }
+
+    #[test]
+    fn review_decision_is_kept_by_bed_id_and_deleted_with_the_bed() {
+        let mut d = doc_with_beds(3);
+        d.apply(Edit::SetReview { bed: BedId(2), state: ReviewState::Accepted, note: "clear scour".into() })
+            .expect("review");
+        assert_eq!(d.section().decision_for(BedId(2)).map(|r| r.state), Some(ReviewState::Accepted));
+        d.apply(Edit::SetReview { bed: BedId(2), state: ReviewState::Rejected, note: String::new() })
+            .expect("review");
+        assert_eq!(d.section().review.len(), 1);
+        d.apply(Edit::DeleteBed { bed: BedId(2) }).expect("delete");
+        assert!(d.section().review.is_empty());
+    }
+
+    #[test]
+    fn new_edit_after_undo_clears_redo() {
+        let mut d = doc_with_beds(1);
+        d.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 2.0 }).expect("valid");
+        d.undo();
+        assert!(d.can_redo());
+        d.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 3.0 }).expect("valid");
+        assert!(!d.can_redo());
+    }
+}

@@ -1,0 +1,194 @@
+//! The export dialog: scale, paper and orientation, a preview of page 1, and writing PDF or SVG
+//! through the core's page layout and writers (the same items the screen draws).
+
+use super::files::{FileDialogs, SaveKind};
+use super::painter::{self, ItemIndex, MmToScreen};
+use aggrade_core::export::pdf::{write_pdf, PdfInfo};
+use aggrade_core::export::svg::write_svg;
+use aggrade_core::layout::{pages, LayoutOptions, Orientation, Page, Paper, PrintMeta};
+use aggrade_core::model::Section;
+use aggrade_core::rules::Interpretation;
+use std::path::Path;
+
+/// What happened in the dialog this frame.
+pub enum Outcome {
+    Open,
+    Closed,
+    Done(String),
+    Failed(String),
+}
+
+/// Dialog state.
+#[derive(Debug, Default)]
+pub struct ExportDialog {
+    pub options: LayoutOptions,
+    preview: Option<(LayoutOptions, u64, Vec<Page>)>,
+}
+
+/// A civil date (YYYY-MM-DD, UTC) from seconds since 1970 (days-from-civil inverse, proleptic
+/// Gregorian calendar).
+pub fn civil_date(secs: i64) -> String {
+    let z = secs.div_euclid(86_400) + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z - era * 146_097;
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension.
+pub fn export_to(
+    path: &Path,
+    section: &Section,
+    interp: &Interpretation,
+    opts: &LayoutOptions,
+    now_secs: i64,
+) -> Result<String, String> {
+    let meta = PrintMeta { printed_on: civil_date(now_secs), subtitle: String::new() };
+    let pages = pages(section, interp, opts, &meta);
+    let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
+    let bytes = if is_svg {
+        pages.first().map(write_svg).ok_or("nothing to export: the section has no beds")?.into_bytes()
+    } else {
+        let info = PdfInfo {
+            title: section.name.clone(),
+            author: section.logged_by.clone(),
+            creation_date: now_secs,
+        };
+        write_pdf(&pages, &info)
+    };
+    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| e.to_string())?;
+    Ok(format!(
+        "Exported {} page(s) at {} to {}",
+        if is_svg { 1 } else { pages.len() },
+        opts.scale_label(),
+        path.display()
+    ))
+}
+
+impl ExportDialog {
+    /// Draw the dialog.
+    pub fn ui(
+        &mut self,
+        ctx: &egui::Context,
+        section: &Section,
+        revision: u64,
+        interp: &Interpretation,
+        dialogs: &mut dyn FileDialogs,
+    ) -> Outcome {
+        let mut outcome = Outcome::Open;
+        let mut open = true;
+        egui::Window::new("Export column").open(&mut open).collapsible(false).resizable(false).show(
+            ctx,
+            |ui| {
+                let o = &mut self.options;
+                ui.horizontal(|ui| {
+                    ui.label("Scale 1 :");
+                    egui::ComboBox::from_id_salt("scale")
+                        .selected_text(format!("{}", o.scale_denominator))
+                        .show_ui(ui, |ui| {
+                            for s in [10.0, 20.0, 50.0, 100.0, 200.0, 500.0] {
+                                ui.selectable_value(&mut o.scale_denominator, s, format!("{s}"));
+                            }
+                        });
+                    ui.add(egui::DragValue::new(&mut o.scale_denominator).range(1.0..=100_000.0).speed(1.0))
+                        .on_hover_text("Any scale 1:N");
+                });
+                ui.horizontal(|ui| {
+                    ui.label("Paper");
+                    egui::ComboBox::from_id_salt("paper").selected_text(o.paper.name()).show_ui(ui, |ui| {
+                        for p in [Paper::A4, Paper::A3, Paper::Letter, Paper::TallSingle] {
+                            ui.selectable_value(&mut o.paper, p, p.name());
+                        }
+                    });
+                    let mut landscape = o.orientation == Orientation::Landscape;
+                    if ui
+                        .checkbox(&mut landscape, "Landscape")
+                        .on_hover_text("Turn the page sideways")
+                        .changed()
+                    {
+                        o.orientation =
+                            if landscape { Orientation::Landscape } else { Orientation::Portrait };
+                    }
+                });
+                ui.checkbox(&mut o.show_rejected, "Show rejected boundaries")
+                    .on_hover_text("Print the boundaries you rejected, greyed");
+                let stale =
+                    self.preview.as_ref().is_none_or(|(po, rev, _)| *po != self.options || *rev != revision);
+                if stale {
+                    let meta = PrintMeta::default();
+                    self.preview =
+                        Some((self.options.clone(), revision, pages(section, interp, &self.options, &meta)));
+                }
+                let Some((_, _, pages)) = self.preview.as_ref() else { return };
+                ui.label(format!(
+                    "{} page(s) at {} · preview of page 1",
+                    pages.len(),
+                    self.options.scale_label()
+                ));
+                if let Some(page) = pages.first() {
+                    let zoom = (340.0 / page.height_mm as f32).min(260.0 / page.width_mm as f32);
+                    let (rect, _) = ui.allocate_exact_size(
+                        egui::vec2(page.width_mm as f32 * zoom, page.height_mm as f32 * zoom),
+                        egui::Sense::hover(),
+                    );
+                    let p = ui.painter_at(rect);
+                    p.rect_filled(rect, 0.0, egui::Color32::WHITE);
+                    p.rect_stroke(
+                        rect,
+                        0.0,
+                        egui::Stroke::new(1.0, egui::Color32::GRAY),
+                        egui::StrokeKind::Outside,
+                    );
+                    let t = MmToScreen { origin: rect.min, zoom };
+                    let mut idx = ItemIndex::build(&page.items, page.height_mm);
+                    let which = idx.visible(0.0, page.height_mm);
+                    let mut shapes = Vec::new();
+                    painter::shapes(&page.items, &which, &t, &mut shapes);
+                    p.extend(shapes);
+                    painter::texts(&page.items, &which, &t, &p);
+                }
+                ui.horizontal(|ui| {
+                    let now = std::time::SystemTime::now()
+                        .duration_since(std::time::UNIX_EPOCH)
+                        .map(|d| d.as_secs() as i64)
+                        .unwrap_or(0);
+                    for (label, kind, tip) in [
+                        ("Export PDF…", SaveKind::Pdf, "Write every page as a PDF at the chosen scale"),
+                        ("Export SVG…", SaveKind::Svg, "Write page 1 as an SVG drawing"),
+                    ] {
+                        if ui.button(label).on_hover_text(tip).clicked() {
+                            if let Some(path) = dialogs.pick_save(kind, &section.name) {
+                                outcome = match export_to(&path, section, interp, &self.options, now) {
+                                    Ok(msg) => Outcome::Done(msg),
+                                    Err(e) => Outcome::Failed(e),
+                                };
+                            }
+                        }
+                    }
+                });
+            },
+        );
+        if !open {
+            return Outcome::Closed;
+        }
+        outcome
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn civil_dates() {
+        // 1970-01-01 is day 0 of the Unix epoch; 951 782 400 s is 2000-02-29 (leap day).
+        assert_eq!(civil_date(0), "1970-01-01");
+        assert_eq!(civil_date(951_782_400), "2000-02-29");
+        assert_eq!(civil_date(-86_400), "1969-12-31");
+    }
+}

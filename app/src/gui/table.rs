@@ -1,0 +1,299 @@
+//! The bed table with a keyboard entry row: type a thickness, the first letters of a lithology
+//! and of a grain size, Tab across, Enter adds the bed above the selected one (or on top).
+
+use super::actions::Actions;
+use super::document::{Document, Edit};
+use super::theme;
+use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+
+/// Text typed into the entry row.
+#[derive(Debug, Default)]
+pub struct BedTable {
+    pub thickness: String,
+    pub lithology: String,
+    pub grain: String,
+    focus_thickness: bool,
+    /// Last problem with the entry row, shown under it.
+    pub problem: Option<String>,
+}
+
+/// The lithology whose name starts with the typed letters (first in vocabulary order).
+pub fn lithology_from_prefix(text: &str) -> Option<Lithology> {
+    let t = text.trim().to_lowercase();
+    if t.is_empty() {
+        return None;
+    }
+    Lithology::parse(&t).or_else(|| Lithology::ALL.iter().copied().find(|l| l.name().starts_with(&t)))
+}
+
+/// A grain size from a short label (`vf`, `m`), a class-name prefix, or a value with mm / phi.
+pub fn grain_from_prefix(text: &str) -> Option<GrainSize> {
+    let t = text.trim().to_lowercase();
+    if t.is_empty() {
+        return None;
+    }
+    if let Some(c) = WentworthClass::ALL.iter().copied().find(|c| c.short_label() == t) {
+        return Some(GrainSize::Class(c));
+    }
+    if let Ok(g) = GrainSize::parse(&t) {
+        return Some(g);
+    }
+    WentworthClass::ALL.iter().copied().find(|c| c.name().starts_with(&t)).map(GrainSize::Class)
+}
+
+/// Parse a thickness typed in the section's unit (a trailing m, cm or ft overrides it).
+pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
+    let t = text.trim().replace(',', ".");
+    let (num, unit) = if let Some(n) = t.strip_suffix("cm") {
+        (n, LengthUnit::Centimetre)
+    } else if let Some(n) = t.strip_suffix("ft") {
+        (n, LengthUnit::Foot)
+    } else if let Some(n) = t.strip_suffix('m') {
+        (n, LengthUnit::Metre)
+    } else {
+        (t.as_str(), unit)
+    };
+    match num.trim().parse::<f64>() {
+        Ok(v) if v.is_finite() && v > 0.0 => Ok(unit.to_metres(v)),
+        _ => Err(format!("thickness {text:?} is not a number greater than 0 (e.g. 1.25, 40cm, 3ft)")),
+    }
+}
+
+/// A number in the section's display unit, without trailing zeros.
+pub fn show_length(m: f64, unit: LengthUnit) -> String {
+    let v = unit.from_metres(m);
+    let s = format!("{v:.3}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
+impl BedTable {
+    /// Draw the entry row and the table.
+    pub fn ui(&mut self, ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+        let unit = doc.section().display_unit;
+        ui.horizontal(|ui| {
+            ui.strong("New bed");
+            ui.label(
+                egui::RichText::new("Tab across · Enter adds above the selection")
+                    .small()
+                    .color(theme::TEXT_DIM),
+            );
+        });
+        let mut enter = false;
+        ui.horizontal(|ui| {
+            let w = ui.available_width();
+            let r = ui.add(
+                egui::TextEdit::singleline(&mut self.thickness)
+                    .id_salt("entry_thickness")
+                    .hint_text(format!("thickness ({})", unit.name()))
+                    .desired_width(w * 0.31),
+            );
+            let r = r.on_hover_text("Thickness in the section's unit; add cm, m or ft to type another unit");
+            if self.focus_thickness {
+                r.request_focus();
+                self.focus_thickness = false;
+            }
+            enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
+            let r = ui
+                .add(
+                    egui::TextEdit::singleline(&mut self.lithology)
+                        .id_salt("entry_lithology")
+                        .hint_text("lithology")
+                        .desired_width(w * 0.27),
+                )
+                .on_hover_text(
+                    "First letters of a lithology: sa = sandstone, mu = mudstone, co = conglomerate…",
+                );
+            enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
+            let r = ui
+                .add(
+                    egui::TextEdit::singleline(&mut self.grain)
+                        .id_salt("entry_grain")
+                        .hint_text("grain")
+                        .desired_width(w * 0.18),
+                )
+                .on_hover_text("Grain size: vf, f, m, c, vc, si, cl, gr, pb…, a class name, or 0.3mm / 2phi");
+            enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
+            if ui.button("Add").on_hover_text("Add this bed above the selected bed (Enter)").clicked() {
+                enter = true;
+            }
+        });
+        // Live reading of what was typed.
+        let lith = lithology_from_prefix(&self.lithology);
+        let grain = grain_from_prefix(&self.grain);
+        let preview = format!(
+            "reads as: {} · {}",
+            lith.map(|l| l.name()).unwrap_or("?"),
+            grain.map(|g| g.to_string()).unwrap_or_else(|| "no grain size".into())
+        );
+        ui.label(egui::RichText::new(preview).small().color(theme::TEXT_DIM));
+        if enter {
+            self.commit(doc, out);
+        }
+        if let Some(p) = &self.problem {
+            ui.colored_label(theme::WARN, p);
+        }
+        ui.separator();
+        self.table(ui, doc, out);
+    }
+
+    fn commit(&mut self, doc: &Document, out: &mut Actions) {
+        let unit = doc.section().display_unit;
+        let thickness = match parse_thickness(&self.thickness, unit) {
+            Ok(t) => t,
+            Err(e) => {
+                self.problem = Some(e);
+                return;
+            }
+        };
+        let Some(lith) = lithology_from_prefix(&self.lithology) else {
+            self.problem = Some(format!(
+                "lithology {:?} is not known; valid: {}",
+                self.lithology,
+                Lithology::ALL.map(|l| l.name()).join(", ")
+            ));
+            return;
+        };
+        let grain = if lith == Lithology::Covered { None } else { grain_from_prefix(&self.grain) };
+        if grain.is_none() && !self.grain.trim().is_empty() && lith != Lithology::Covered {
+            self.problem =
+                Some(format!("grain size {:?} is not known (try vf, f, m, c, 0.3mm, 2phi)", self.grain));
+            return;
+        }
+        let index = doc
+            .selected_bed
+            .and_then(|id| doc.bed_index(id))
+            .map(|i| i + 1)
+            .unwrap_or(doc.section().beds.len());
+        out.edit(Edit::InsertBed { index, bed: Bed::new(BedId(0), thickness, lith, grain) });
+        self.thickness.clear();
+        self.lithology.clear();
+        self.grain.clear();
+        self.problem = None;
+        self.focus_thickness = true;
+    }
+
+    fn table(&mut self, ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+        let s = doc.section();
+        let unit = s.display_unit;
+        let n = s.beds.len();
+        let heights = s.base_heights_m();
+        let row_h = 22.0;
+        // Column left edges as fractions of the row; numbers are right-aligned to the next edge.
+        let cols = [0.0f32, 0.11, 0.30, 0.48, 0.80, 1.0];
+        let top_label = format!("top ({})", unit.name());
+        let header = ["#", top_label.as_str(), "thick.", "lithology", "grain"];
+        let (hrect, _) = ui.allocate_exact_size(egui::vec2(ui.available_width(), 18.0), egui::Sense::hover());
+        let font = egui::FontId::proportional(11.5);
+        for (k, name) in header.iter().enumerate() {
+            let numeric = (1..=2).contains(&k);
+            let x = if numeric {
+                hrect.left() + cols[k + 1] * hrect.width() - 8.0
+            } else {
+                hrect.left() + cols[k] * hrect.width() + 4.0
+            };
+            let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
+            ui.painter().text(egui::pos2(x, hrect.center().y), align, *name, font.clone(), theme::TEXT_DIM);
+        }
+        egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).show_rows(
+            ui,
+            row_h,
+            n,
+            |ui, range| {
+                for row in range {
+                    // Top of the section first.
+                    let i = n - 1 - row;
+                    let b = &s.beds[i];
+                    let selected = doc.selected_bed == Some(b.id);
+                    let top = heights[i] + b.thickness_m;
+                    let grain = match (b.grain_base, b.grain_top) {
+                        (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
+                        (Some(a), _) => short(a),
+                        (None, _) => "—".into(),
+                    };
+                    let (rect, r) =
+                        ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
+                    let bg = if selected {
+                        theme::SELECT_FILL
+                    } else if r.hovered() {
+                        egui::Color32::from_gray(234)
+                    } else if row % 2 == 1 {
+                        egui::Color32::from_gray(241)
+                    } else {
+                        egui::Color32::TRANSPARENT
+                    };
+                    let p = ui.painter();
+                    p.rect_filled(rect, 2.0, bg);
+                    if selected {
+                        p.rect_filled(
+                            egui::Rect::from_min_size(rect.min, egui::vec2(3.0, rect.height())),
+                            0.0,
+                            theme::ACCENT,
+                        );
+                    }
+                    let cells = [
+                        format!("{}", i + 1),
+                        show_length(top, unit),
+                        show_length(b.thickness_m, unit),
+                        b.lithology.name().to_string(),
+                        grain,
+                    ];
+                    for (k, text) in cells.into_iter().enumerate() {
+                        let numeric = (1..=2).contains(&k);
+                        let x = if numeric {
+                            rect.left() + cols[k + 1] * rect.width() - 8.0
+                        } else {
+                            rect.left() + cols[k] * rect.width() + 4.0
+                        };
+                        let align =
+                            if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
+                        let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
+                        p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
+                    }
+                    let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
+                    if r.clicked() {
+                        out.select = Some(Some(b.id));
+                        out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
+                    }
+                    let id = b.id;
+                    r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
+                }
+            },
+        );
+    }
+}
+
+fn short(g: GrainSize) -> String {
+    match g {
+        GrainSize::Class(c) => c.short_label().to_string(),
+        GrainSize::Phi(p) => format!("{p:.1}φ"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn first_letters_pick_vocabulary_terms() {
+        assert_eq!(lithology_from_prefix("sa"), Some(Lithology::Sandstone));
+        assert_eq!(lithology_from_prefix("Mud"), Some(Lithology::Mudstone));
+        assert_eq!(lithology_from_prefix("co"), Some(Lithology::Conglomerate));
+        assert_eq!(lithology_from_prefix("xyz"), None);
+        assert_eq!(grain_from_prefix("vf"), Some(GrainSize::Class(WentworthClass::VeryFineSand)));
+        assert_eq!(grain_from_prefix("m"), Some(GrainSize::Class(WentworthClass::MediumSand)));
+        assert_eq!(grain_from_prefix("peb"), Some(GrainSize::Class(WentworthClass::Pebble)));
+        // 0.25 mm is φ 2 by Krumbein (1934): φ = −log2(d / 1 mm).
+        assert_eq!(grain_from_prefix("0.25mm"), Some(GrainSize::Phi(2.0)));
+    }
+
+    #[test]
+    fn thickness_units() {
+        assert_eq!(parse_thickness("1.5", LengthUnit::Metre), Ok(1.5));
+        assert_eq!(parse_thickness("40cm", LengthUnit::Metre), Ok(0.4));
+        // 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959).
+        assert!((parse_thickness("10", LengthUnit::Foot).expect("ok") - 3.048).abs() < 1e-12);
+        assert!(parse_thickness("-1", LengthUnit::Metre).is_err());
+        assert!(parse_thickness("abc", LengthUnit::Metre).is_err());
+        assert_eq!(show_length(0.3048, LengthUnit::Foot), "1");
+    }
+}

@@ -1,0 +1,233 @@
+//! End-to-end tests of `aggrade interpret`: the real binary on fixture files, its JSON contract,
+//! the readable report, section choice and bad input.
+
+use serde_json::Value;
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn fixture(name: &str) -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/rules").join(name)
+}
+
+fn aggrade(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_aggrade")).args(args).output().expect("the aggrade binary runs")
+}
+
+fn stdout(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+fn json_of(args: &[&str]) -> Value {
+    let o = aggrade(args);
+    assert!(o.status.success(), "aggrade {args:?} failed: {}", stderr(&o));
+    serde_json::from_str(&stdout(&o)).expect("stdout is one JSON object")
+}
+
+fn num(v: &Value) -> f64 {
+    v.as_f64().unwrap_or_else(|| panic!("expected a number, got {v}"))
+}
+
+fn close(a: f64, b: f64) -> bool {
+    (a - b).abs() < 1e-9
+}
+
+#[test]
+fn json_follows_the_contract_on_the_cycle_fixture() {
+    // Expected values are worked by hand in tests/tests/rules_handworked.rs (same fixture).
+    let path = fixture("base_level_cycle.aggrade");
+    let v = json_of(&["interpret", path.to_str().expect("utf-8 path"), "--json"]);
+    assert_eq!(v["section"], "Harrow Bluff");
+    assert!(close(num(&v["total_thickness"]), 48.0) && close(num(&v["exposed_thickness"]), 48.0));
+    // 8 + 1.5 + 1.5 + 6 = 17 m of channel deposits in 48 m.
+    assert!(close(num(&v["channel_proportion"]), 17.0 / 48.0));
+
+    let bodies = v["channel_bodies"].as_array().expect("channel_bodies array");
+    let got: Vec<(f64, f64, u64, &str)> = bodies
+        .iter()
+        .map(|b| {
+            (
+                num(&b["base"]),
+                num(&b["top"]),
+                b["stories"].as_u64().unwrap_or(0),
+                b["stacking"].as_str().unwrap_or(""),
+            )
+        })
+        .collect();
+    assert_eq!(
+        got,
+        vec![
+            (5.0, 13.0, 3, "multi-story"),
+            (19.0, 20.5, 1, "single-story"),
+            (32.0, 33.5, 1, "single-story"),
+            (40.0, 46.0, 2, "multi-story")
+        ]
+    );
+
+    let cands = v["sequence_boundary_candidates"].as_array().expect("candidates array");
+    assert_eq!(cands.len(), 5);
+    assert!(close(num(&cands[0]["height"]), 5.0) && close(num(&cands[0]["score"]), 1.0));
+    assert!(close(num(&cands[1]["height"]), 40.0));
+    assert_eq!(cands[0]["kind"], "channel_base_on_paleosol");
+    assert_eq!(cands[0]["evidence"].as_array().map(Vec::len), Some(5));
+    let scores: Vec<f64> = cands.iter().map(|c| num(&c["score"])).collect();
+    assert!(scores.windows(2).all(|w| w[0] >= w[1]), "sorted by score: {scores:?}");
+
+    let regimes: Vec<&str> = v["accommodation"]
+        .as_array()
+        .expect("accommodation")
+        .iter()
+        .map(|a| a["regime"].as_str().unwrap_or(""))
+        .collect();
+    assert_eq!(regimes, vec!["undetermined", "low", "high", "low"]);
+    assert!(v["accommodation"][1]["why"].as_str().is_some_and(|w| w.contains("multi-story")));
+
+    // Curve every 0.5 m from 0 to 48 m: 97 points. At 10 m the 10 m window is 5–15 m:
+    // channel 5–13 = 8 m → 0.8.
+    let curve = v["proportion_curve"].as_array().expect("proportion_curve");
+    assert_eq!(curve.len(), 97);
+    assert!(close(num(&curve[20]["height"]), 10.0) && close(num(&curve[20]["proportion"]), 0.8));
+    assert_eq!(v["caution"], aggrade_core::REVIEW_CAUTION);
+}
+
+#[test]
+fn window_option_changes_the_curve() {
+    // With a 20 m window the point at 10 m sees 0–20 m: channel 5–13 (8) + 19–20 (1) = 9 → 0.45.
+    let path = fixture("base_level_cycle.aggrade");
+    let v = json_of(&["interpret", path.to_str().expect("utf-8 path"), "--json", "--window-m", "20"]);
+    let p = &v["proportion_curve"][20];
+    assert!(close(num(&p["height"]), 10.0) && close(num(&p["proportion"]), 0.45), "{p}");
+}
+
+#[test]
+fn readable_report_names_bodies_candidates_and_the_caution() {
+    let path = fixture("base_level_cycle.aggrade");
+    let o = aggrade(&["interpret", path.to_str().expect("utf-8 path")]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    for needle in [
+        "Channel bodies (4)",
+        "5.00–13.00 m (8.00 m): multi-story, 3 storeys",
+        "19.00–40.00 m: high",
+        "1. 5.00 m, score 1.00, channel-body base on a paleosol",
+        "erodes directly into a paleosol of strong development",
+        aggrade_core::REVIEW_CAUTION,
+    ] {
+        assert!(text.contains(needle), "report lacks {needle:?}:\n{text}");
+    }
+}
+
+/// The cycle fixture's section plus a second one, written to a temporary project file.
+fn two_section_project(dir: &Path) -> PathBuf {
+    let text = std::fs::read_to_string(fixture("base_level_cycle.aggrade")).expect("fixture");
+    let mut v: Value = serde_json::from_str(&text).expect("fixture parses");
+    let mut second = v["sections"][0].clone();
+    second["name"] = Value::from("Corran Gap");
+    second["beds"] = Value::Array(second["beds"].as_array().expect("beds")[..3].to_vec());
+    v["sections"].as_array_mut().expect("sections").push(second);
+    let path = dir.join("two.aggrade");
+    std::fs::write(&path, v.to_string()).expect("write temp project");
+    path
+}
+
+#[test]
+fn several_sections_need_a_section_name() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = two_section_project(dir.path());
+    let p = path.to_str().expect("utf-8 path");
+
+    let o = aggrade(&["interpret", p, "--json"]);
+    assert!(!o.status.success());
+    let err = stderr(&o);
+    assert!(
+        err.contains("--section") && err.contains("\"Harrow Bluff\"") && err.contains("\"Corran Gap\""),
+        "{err}"
+    );
+
+    // Beds 0–3 mudstone, 3–5 strong paleosol, 5–7 conglomerate: one single-story body.
+    let v = json_of(&["interpret", p, "--json", "--section", "corran gap"]);
+    assert_eq!(v["section"], "Corran Gap");
+    assert!(close(num(&v["total_thickness"]), 7.0));
+    assert_eq!(v["channel_bodies"][0]["stacking"], "single-story");
+
+    let o = aggrade(&["interpret", p, "--section", "Nowhere"]);
+    assert!(!o.status.success());
+    assert!(stderr(&o).contains("no section named \"Nowhere\""), "{}", stderr(&o));
+}
+
+#[test]
+fn bad_input_fails_with_a_message_not_a_panic() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let missing = dir.path().join("missing.aggrade");
+    let o = aggrade(&["interpret", missing.to_str().expect("utf-8 path")]);
+    assert!(!o.status.success());
+    assert!(stderr(&o).contains("missing.aggrade"), "{}", stderr(&o));
+
+    let broken = dir.path().join("broken.aggrade");
+    std::fs::write(&broken, "{\"format_version\": 1, \"sections\": [ {\"name\": 3} ]}").expect("write");
+    let o = aggrade(&["interpret", broken.to_str().expect("utf-8 path")]);
+    assert!(!o.status.success());
+    let err = stderr(&o);
+    assert!(err.contains("broken.aggrade") && !err.contains("panicked"), "{err}");
+
+    let text = std::fs::read_to_string(fixture("base_level_cycle.aggrade")).expect("fixture");
+    let zero = dir.path().join("zero.aggrade");
+    std::fs::write(&zero, text.replacen("\"thickness_m\": 2.0", "\"thickness_m\": -2.0", 1)).expect("write");
+    let o = aggrade(&["interpret", zero.to_str().expect("utf-8 path")]);
+    assert!(!o.status.success());
+    let err = stderr(&o);
+    assert!(err.contains("zero.aggrade: section \"Harrow Bluff\", bed 2 (id 2): thickness_m is -2"), "{err}");
+
+    let path = fixture("base_level_cycle.aggrade");
+    let o = aggrade(&["interpret", path.to_str().expect("utf-8 path"), "--window-m", "-2"]);
+    assert!(!o.status.success());
+    assert!(stderr(&o).contains("window_m: got -2"), "{}", stderr(&o));
+
+    let params = dir.path().join("params.json");
+    std::fs::write(&params, "{\"drape_limit_m\": \"thin\"}").expect("write");
+    let o = aggrade(&[
+        "interpret",
+        path.to_str().expect("utf-8 path"),
+        "--params",
+        params.to_str().expect("utf-8"),
+    ]);
+    assert!(!o.status.success());
+    let err = stderr(&o);
+    assert!(err.contains("params.json: field \"drape_limit_m\", value \"thin\""), "{err}");
+
+    std::fs::write(&params, "{\"drape_limt_m\": 0.3}").expect("write");
+    let o = aggrade(&[
+        "interpret",
+        path.to_str().expect("utf-8 path"),
+        "--params",
+        params.to_str().expect("utf-8"),
+    ]);
+    assert!(!o.status.success());
+    let err = stderr(&o);
+    assert!(
+        err.contains("drape_limt_m") && err.contains("drape_limit_m"),
+        "unknown field named with the valid ones: {err}"
+    );
+}
+
+#[test]
+fn a_parameter_file_changes_the_rules() {
+    // With a 0.1 m drape limit the 0.2 m drape at 11.0–11.2 m splits the lower body: 5–11 m
+    // (2 storeys) and 11.2–13 m (1 storey).
+    let dir = tempfile::tempdir().expect("temp dir");
+    let params = dir.path().join("params.json");
+    std::fs::write(&params, "{\"drape_limit_m\": 0.1}").expect("write");
+    let path = fixture("base_level_cycle.aggrade");
+    let v = json_of(&[
+        "interpret",
+        path.to_str().expect("utf-8 path"),
+        "--json",
+        "--params",
+        params.to_str().expect("utf-8"),
+    ]);
+    let b = &v["channel_bodies"];
+    assert!(close(num(&b[0]["top"]), 11.0) && close(num(&b[1]["base"]), 11.2), "{b}");
+}

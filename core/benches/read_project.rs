@@ -1,0 +1,61 @@
+//! Reading a generated 10,000-bed project file (target: under 50 ms), plus validation alone and
+//! the bed-table CSV reader on the same beds.
+
+use aggrade_core::io::{project_to_json, read_bed_table, read_project_text, validate_project, write_bed_table};
+use aggrade_core::model::{
+    Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, Project, Section, Structure, Surface, SurfaceKind,
+    WentworthClass,
+};
+use criterion::{criterion_group, criterion_main, Criterion};
+use std::hint::black_box;
+
+/// A 10,000-bed section cycling through channel sand, splay sand and paleosol mudstone beds.
+fn generated_project(beds: usize) -> Project {
+    let mut s = Section::new("Generated");
+    s.locality = "bench".into();
+    for i in 0..beds {
+        let id = BedId(i as u64 + 1);
+        let bed = match i % 4 {
+            0 => {
+                let mut b =
+                    Bed::new(id, 2.5, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::CoarseSand)));
+                b.grain_top = Some(GrainSize::Phi(2.4739));
+                b.base_contact = Contact::Erosional;
+                b.base_relief_m = Some(0.4);
+                b.structures = vec![Structure::TroughCrossBedding, Structure::MudClasts];
+                b.paleocurrents_deg = vec![12.0, 40.5, 355.0];
+                b.base_surface = Some(Surface { name: format!("S-{i}"), kind: SurfaceKind::Incision });
+                b.notes = "scoured base with mud-clast lag".into();
+                b
+            }
+            1 => Bed::new(id, 0.6, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand))),
+            2 => {
+                let mut b = Bed::new(id, 3.1, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Clay)));
+                b.paleosol = PaleosolDevelopment::Moderate;
+                b.carbonate_stage = Some(2);
+                b.colour = "red-brown".into();
+                b
+            }
+            _ => Bed::new(id, 1.2, Lithology::Covered, None),
+        };
+        s.beds.push(bed);
+    }
+    Project::new(vec![s])
+}
+
+fn bench(c: &mut Criterion) {
+    let project = generated_project(10_000);
+    let json = project_to_json(&project).expect("encode");
+    eprintln!("10,000-bed project: {} bytes of JSON", json.len());
+    c.bench_function("read_project_10000_beds", |b| {
+        b.iter(|| read_project_text(black_box(&json)).expect("valid"))
+    });
+    c.bench_function("validate_project_10000_beds", |b| b.iter(|| validate_project(black_box(&project))));
+    let csv = write_bed_table(&project.sections[0]);
+    c.bench_function("read_bed_table_10000_rows", |b| {
+        b.iter(|| read_bed_table(black_box(&csv), "Generated").expect("valid"))
+    });
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);
