@@ -50,20 +50,14 @@ res="$out/results.md"
     echo
 } > "$res"
 export_works=yes
-"$bin" export "$out/beds_1000.aggrade" --help >/dev/null 2>&1 || true
-if ! "$bin" export "$out/beds_1000.aggrade" -o "$out/probe.pdf" >/dev/null 2>&1 &&
-   ! "$bin" export "$out/beds_1000.aggrade" "$out/probe.pdf" >/dev/null 2>&1; then
+if ! "$bin" export "$out/beds_1000.aggrade" --pdf "$out/probe.pdf" >/dev/null 2>&1; then
     export_works=no
-    echo "aggrade export does not run on this build; skipped" | tee -a "$res"
+    echo "aggrade export --pdf does not run on this build; skipped" | tee -a "$res"
 fi
-export_cmd() {
-    # Both argument shapes seen so far; the first that worked in the probe is used.
-    if "$bin" export "$1" -o "$2" >/dev/null 2>&1; then echo "$bin export $1 -o $2"; else echo "$bin export $1 $2"; fi
-}
 for n in 1000 10000 100000; do
     f="$out/beds_$n.aggrade"
     cmds=("$bin check $f" "$bin interpret --json $f")
-    [ "$export_works" = yes ] && cmds+=("$(export_cmd "$f" "$out/beds_$n.pdf")")
+    [ "$export_works" = yes ] && cmds+=("$bin export $f --pdf $out/beds_$n.pdf")
     if command -v hyperfine >/dev/null; then
         nice -n 19 hyperfine --warmup 1 --runs "$([ "$n" -eq 100000 ] && echo 3 || echo 5)" -N \
             --export-markdown "$out/hf_$n.md" --output=null "${cmds[@]}"

@@ -89,7 +89,9 @@ fn file_is_always_a_complete_old_or_new_version_after_sigkill_during_saves() {
     assert!(status.success(), "the first save failed");
 
     let iterations = match std::env::var("AGGRADE_KILL_ITERATIONS") {
-        Ok(v) => v.parse::<usize>().unwrap_or_else(|_| panic!("AGGRADE_KILL_ITERATIONS={v:?} is not a count")),
+        Ok(v) => {
+            v.parse::<usize>().unwrap_or_else(|_| panic!("AGGRADE_KILL_ITERATIONS={v:?} is not a count"))
+        }
         Err(_) => DEFAULT_ITERATIONS,
     };
     let seed = 0x5EED_A66D_u64;
@@ -118,7 +120,11 @@ fn file_is_always_a_complete_old_or_new_version_after_sigkill_during_saves() {
         for path in [&output, &backup] {
             if !path.exists() {
                 // The backup appears with the first save that replaces the file, and then stays.
-                assert!(path == &backup && !backup_seen, "iteration {i} (seed {seed:#x}): {} is gone", path.display());
+                assert!(
+                    path == &backup && !backup_seen,
+                    "iteration {i} (seed {seed:#x}): {} is gone",
+                    path.display()
+                );
                 continue;
             }
             backup_seen |= path == &backup;
@@ -140,5 +146,8 @@ fn file_is_always_a_complete_old_or_new_version_after_sigkill_during_saves() {
          ({killed_with_temp_file} left a half-written temporary file), {finished} finished first"
     );
     // The test proves something only if kills really landed inside saves.
-    assert!(killed_running >= iterations / 4, "only {killed_running} of {iterations} kills hit a running save");
+    assert!(
+        killed_running >= iterations / 4,
+        "only {killed_running} of {iterations} kills hit a running save"
+    );
 }

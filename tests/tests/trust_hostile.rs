@@ -96,7 +96,10 @@ fn no_bad_file_goes_untested() {
     names.sort();
     let source = include_str!("trust_hostile.rs");
     for name in names {
-        assert!(source.contains(&format!("\"{name}\"")), "tests/data/regressions/hostile/{name} is not used by any test");
+        assert!(
+            source.contains(&format!("\"{name}\"")),
+            "tests/data/regressions/hostile/{name} is not used by any test"
+        );
     }
 }
 
@@ -183,7 +186,10 @@ fn formula_cells_are_exported_escaped_after_a_project_round_trip() {
     for row in &rows[1..] {
         for (name, cell) in header.iter().zip(row) {
             if text_columns.contains(&name.as_str()) && !cell.is_empty() {
-                assert!(!cell.starts_with(['=', '+', '-', '@', '\t', '\r']), "{name} cell {cell:?} is not escaped");
+                assert!(
+                    !cell.starts_with(['=', '+', '-', '@', '\t', '\r']),
+                    "{name} cell {cell:?} is not escaped"
+                );
                 if cell.starts_with('\'') {
                     escaped += 1;
                 }

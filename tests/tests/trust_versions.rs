@@ -87,7 +87,12 @@ fn version_0_thicknesses_convert_exactly() {
     let expected_m = [3.048, 1.9812, 0.762, 1.2192];
     assert_eq!(corrie.len(), expected_m.len());
     for (bed, want) in corrie.iter().zip(expected_m) {
-        assert!((bed.thickness_m - want).abs() < 1e-12, "bed {:?}: {} m, want {want} m", bed.id, bed.thickness_m);
+        assert!(
+            (bed.thickness_m - want).abs() < 1e-12,
+            "bed {:?}: {} m, want {want} m",
+            bed.id,
+            bed.thickness_m
+        );
     }
     // 1 cm = 0.01 m (SI): 45 cm and 80 cm.
     let sedge = &p.sections[1].beds;
