@@ -59,11 +59,28 @@ pub fn write_atomic(path: &Path, write: impl FnOnce(&mut File) -> io::Result<()>
         file.sync_all().map_err(err("sync the temporary file to disk"))?;
         drop(file);
         if path.is_file() {
-            fs::copy(path, backup_path(path)).map_err(err("keep the previous file as a backup"))?;
+            keep_backup(path).map_err(err("keep the previous file as a backup"))?;
         }
         fs::rename(&tmp, path).map_err(err("replace the file with the new version"))?;
         sync_parent(path);
         Ok(())
+    })();
+    if result.is_err() && tmp.is_file() {
+        let _ = fs::remove_file(&tmp);
+    }
+    result
+}
+
+/// Copy the file to [`backup_path`] atomically too: a plain copy killed halfway would leave a
+/// truncated backup in place of a good one. The copy goes to a temporary name first, is synced,
+/// then renamed over the old backup.
+fn keep_backup(path: &Path) -> io::Result<()> {
+    let backup = backup_path(path);
+    let tmp = temp_path(&backup);
+    let result = (|| {
+        fs::copy(path, &tmp)?;
+        File::open(&tmp)?.sync_all()?;
+        fs::rename(&tmp, &backup)
     })();
     if result.is_err() && tmp.is_file() {
         let _ = fs::remove_file(&tmp);

@@ -278,6 +278,8 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
     section.display_unit = columns.thickness.1;
     let mut lines: Vec<usize> = Vec::new();
     let mut surface_kinds: Vec<Option<SurfaceKind>> = Vec::new();
+    // Rows with problems count too: otherwise a file of bad rows collects problems without bound.
+    let mut data_rows = 0usize;
     for record in records {
         let record = match record {
             Ok(r) => r,
@@ -291,13 +293,14 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         if record.iter().all(|c| c.trim().is_empty()) {
             continue;
         }
-        if section.beds.len() >= MAX_BEDS_PER_SECTION {
+        if data_rows >= MAX_BEDS_PER_SECTION {
             problems.push(
                 Problem::new("", format!("more than {MAX_BEDS_PER_SECTION} bed rows; at most {MAX_BEDS_PER_SECTION} per section"))
                     .at_line(line),
             );
             break;
         }
+        data_rows += 1;
         let before = problems.len();
         let mut row = Row { line, problems: &mut problems };
         if record.len() > header.len() && record.iter().skip(header.len()).any(|c| !c.trim().is_empty()) {

@@ -164,7 +164,23 @@ pub fn save_project(path: &Path, project: &Project) -> Result<(), SaveError> {
     if !problems.is_empty() {
         return Err(SaveError::Invalid { path: path.to_path_buf(), problems: problem::list(&problems) });
     }
-    let text =
-        project_to_json(project).map_err(|source| SaveError::Encode { path: path.to_path_buf(), source })?;
+    let encode_err = |source| SaveError::Encode { path: path.to_path_buf(), source };
+    let mut text = project_to_json(project).map_err(encode_err)?;
+    // A file over the read limit would save but never open again: write compact JSON instead
+    // (about 0.55 of the pretty size for bed lists), and refuse when even that is too large.
+    if text.len() as u64 > MAX_FILE_BYTES {
+        text = serde_json::to_string(project).map_err(encode_err)?;
+        text.push('\n');
+        if text.len() as u64 > MAX_FILE_BYTES {
+            return Err(SaveError::Invalid {
+                path: path.to_path_buf(),
+                problems: format!(
+                    "  the file would be {} bytes, more than the {MAX_FILE_BYTES} bytes a project file may \
+                     have, so it could not be opened again; move some sections to another project",
+                    text.len()
+                ),
+            });
+        }
+    }
     write_bytes_atomic(path, text.as_bytes())
 }
