@@ -567,25 +567,11 @@ pub fn write_bed_table(section: &Section) -> String {
         .copied()
         .find(|(_, u)| *u == section.display_unit)
         .unwrap_or(THICKNESS_COLUMNS[0]);
-    let header = [
-        tcol,
-        "lithology",
-        "grain_base",
-        "grain_top",
-        "base_contact",
-        "base_relief_m",
-        "structures",
-        "paleosol",
-        "paleosol_features",
-        "carbonate_stage",
-        "paleocurrents",
-        "surface",
-        "surface_kind",
-        "colour",
-        "fossils",
-        "samples",
-        "notes",
-    ];
+    // The known columns in their order, with the one thickness column this section uses and the
+    // base/top grain pair rather than the single `grain` shorthand.
+    let header: Vec<&str> = std::iter::once(tcol)
+        .chain(KNOWN_COLUMNS.iter().copied().filter(|c| !c.starts_with("thickness_") && *c != "grain"))
+        .collect();
     let mut out = header.join(",");
     out.push('\n');
     let join = |items: Vec<String>| items.join(";");
