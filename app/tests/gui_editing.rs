@@ -295,13 +295,15 @@ fn dragging_a_beds_right_edge_snaps_its_grain_size_to_a_wentworth_class() {
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(app(None, data.path(), vec![]));
     h.run();
-    // The topmost sandstone with one grain size base to top, in view at start.
+    // The topmost bed with one grain size base to top.
     let beds = h.state().doc.section().beds.clone();
     let bed = beds
         .iter()
         .rev()
-        .find(|b| b.lithology == Lithology::Sandstone && b.thickness_m > 0.3)
-        .expect("a sandstone")
+        .find(|b| {
+            !b.is_covered() && b.thickness_m > 0.3 && b.grain_base.is_some() && b.grain_base == b.grain_top
+        })
+        .expect("a bed of one grain size")
         .clone();
     let base = h.state().doc.section().base_heights_m()[h.state().doc.bed_index(bed.id).expect("index")];
     h.state_mut().scroll_canvas_to(base + bed.thickness_m / 2.0);
@@ -329,6 +331,62 @@ fn dragging_a_beds_right_edge_snaps_its_grain_size_to_a_wentworth_class() {
         assert_eq!(now.grain_base, Some(GrainSize::Class(expect)), "drag to {class:?}");
         assert_eq!(now.grain_top, Some(GrainSize::Class(expect)));
     }
+}
+
+#[test]
+fn dragging_a_graded_beds_edge_keeps_it_fining_upward() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    // The topmost fining-upward sandstone (coarser at its base than at its top; sand classes are
+    // one phi wide, so its edge runs between the two classes' marks on the scale).
+    let sand = WentworthClass::VeryFineSand..=WentworthClass::VeryCoarseSand;
+    let beds = h.state().doc.section().beds.clone();
+    let bed = beds
+        .iter()
+        .rev()
+        .find(|b| {
+            b.thickness_m > 0.5
+                && matches!((b.grain_base, b.grain_top), (Some(x), Some(y))
+                    if x.class() > y.class() && sand.contains(&x.class()) && sand.contains(&y.class()))
+        })
+        .expect("a fining-upward bed in the demo")
+        .clone();
+    let (base0, top0) = (bed.grain_base.expect("base").class(), bed.grain_top.expect("top").class());
+    let base = h.state().doc.section().base_heights_m()[h.state().doc.bed_index(bed.id).expect("index")];
+    h.state_mut().scroll_canvas_to(base + bed.thickness_m / 2.0);
+    h.run();
+    let r = h.state().bed_rect_on_screen(bed.id).expect("drawn");
+    // The right edge half-way up lies between the base and top classes; grab it there and drag
+    // two class steps coarser.
+    let (xb, xt) = (
+        h.state().class_x_on_screen(base0).expect("scale"),
+        h.state().class_x_on_screen(top0).expect("scale"),
+    );
+    let step = (h.state().class_x_on_screen(WentworthClass::Pebble).expect("scale")
+        - h.state().class_x_on_screen(WentworthClass::Granule).expect("scale"))
+    .abs();
+    let start = egui::pos2((xb + xt) / 2.0, r.center().y);
+    h.hover_at(start);
+    h.run();
+    h.drag_at(start);
+    h.run();
+    for k in 1..=4 {
+        h.hover_at(egui::pos2(start.x + 2.0 * step * k as f32 / 4.0, start.y));
+        h.run();
+    }
+    h.drop_at(egui::pos2(start.x + 2.0 * step, start.y));
+    h.run();
+    let now = h.state().doc.section().beds.iter().find(|b| b.id == bed.id).expect("still there").clone();
+    let (b1, t1) = (now.grain_base.expect("base").class(), now.grain_top.expect("top").class());
+    assert!(b1 > base0 && t1 > top0, "both ends coarser: {base0:?}/{top0:?} -> {b1:?}/{t1:?}");
+    assert_eq!(b1.rank() - t1.rank(), base0.rank() - top0.rank(), "the fining-upward step is kept");
+    // One drag is one undo step.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    assert!(!h.state().doc.can_undo(), "the drag was more than one undo step");
+    let back = h.state().doc.section().beds.iter().find(|b| b.id == bed.id).expect("still there").clone();
+    assert_eq!((back.grain_base, back.grain_top), (bed.grain_base, bed.grain_top));
 }
 
 #[test]

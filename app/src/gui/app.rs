@@ -93,10 +93,40 @@ impl Command {
 }
 
 struct Cache {
-    key: (u64, usize, RuleParams, LayoutOptions),
+    /// What the interpretation was computed from: document revision, section, rule parameters.
+    rules_key: (u64, usize, RuleParams),
     interp: Interpretation,
+    /// What the strip was laid out from, besides the interpretation.
+    layout_key: LayoutOptions,
     strip: Strip,
+    /// The heights (m) the strip holds items for; `None` = the whole section.
+    window_m: Option<(f64, f64)>,
     index: ItemIndex,
+}
+
+impl Cache {
+    /// Does the laid-out window hold every height in the canvas's view (strip y, mm)?
+    fn covers(&self, view_y_mm: Option<(f64, f64)>) -> bool {
+        match (self.window_m, view_y_mm) {
+            (None, _) | (_, None) => true,
+            (Some((lo, hi)), Some((y0, y1))) => {
+                let h = &self.strip.heights;
+                let (top, base) = (h.height_m(y0), h.height_m(y1));
+                base >= lo - 1e-9 && top <= hi + 1e-9
+            }
+        }
+    }
+
+    /// Heights to lay out for a view: the view and one view's height above and below it, so
+    /// scrolling rebuilds the layout only now and then; `None` when that is the whole section.
+    fn window_for(&self, view_y_mm: Option<(f64, f64)>, total_m: f64) -> Option<(f64, f64)> {
+        let (y0, y1) = view_y_mm?;
+        let h = &self.strip.heights;
+        let span_mm = (y1 - y0).max(1.0);
+        let hi = h.height_m(y0 - span_mm);
+        let lo = h.height_m(y1 + span_mm);
+        (lo > 0.0 || hi < total_m).then_some((lo, hi))
+    }
 }
 
 /// The window's state.
@@ -236,16 +266,32 @@ impl AggradeApp {
         self.autosaver.path()
     }
 
+    /// Bring the interpretation and the laid-out column up to date: the rules re-run when the
+    /// section or the parameters changed; the layout is rebuilt for the heights around the view
+    /// (a long section is never laid out whole while editing or scrolling).
     fn refresh(&mut self) {
-        let key = (self.doc.revision, self.doc.selected_section, self.params.clone(), self.layout.clone());
-        if self.cache.as_ref().is_some_and(|c| c.key == key) {
-            return;
-        }
+        let rules_key = (self.doc.revision, self.doc.selected_section, self.params.clone());
+        let view = self.canvas.view_y_mm();
         let section = self.doc.section();
-        let interp = engine::interpret(section, &self.params);
-        let strip = engine::column_strip(section, &interp, &self.layout);
+        let total_m = section.total_thickness_m();
+        let (interp, window_m) = match self.cache.take() {
+            Some(c) if c.rules_key == rules_key => {
+                if c.layout_key == self.layout && c.covers(view) {
+                    self.cache = Some(c);
+                    return;
+                }
+                let w = c.window_for(view, total_m);
+                (c.interp, w)
+            }
+            old => {
+                let w = old.as_ref().and_then(|c| c.window_for(view, total_m));
+                (engine::interpret(section, &self.params), w)
+            }
+        };
+        let strip = engine::column_strip_window(section, &interp, &self.layout, window_m);
         let index = ItemIndex::build(&strip.items, strip.height_mm);
-        self.cache = Some(Cache { key, interp, strip, index });
+        self.cache =
+            Some(Cache { rules_key, interp, layout_key: self.layout.clone(), strip, window_m, index });
     }
 
     /// Apply one edit now (used by scripted runs and tests as well as the panels).
@@ -424,6 +470,10 @@ impl AggradeApp {
         egui::CentralPanel::default().frame(egui::Frame::NONE).show(ui, |ui| {
             if let Some(c) = self.cache.as_mut() {
                 self.canvas.ui(ui, &self.doc, &c.strip, &mut c.index, &mut actions);
+                // Scrolled or zoomed past the laid-out heights: lay out around the new view next frame.
+                if !c.covers(self.canvas.view_y_mm()) {
+                    ui.ctx().request_repaint();
+                }
             }
         });
         self.apply_actions(actions);

@@ -20,8 +20,54 @@ const GRAB_PT: f32 = 5.0;
 #[derive(Debug, Clone, Copy, PartialEq)]
 enum DragKind {
     Top { bed: BedId, t0_m: f64, start_y: f32, gesture: u64 },
-    Grain { bed: BedId, gesture: u64 },
+    Grain { bed: BedId, end: GrainEnd, start: WentworthClass, gesture: u64 },
     Pan,
+}
+
+/// Which grain size a drag on a bed's right edge changes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum GrainEnd {
+    /// The grain size at the base (the lower third of a sloping edge was grabbed).
+    Base,
+    /// The grain size at the top (the upper third of a sloping edge was grabbed).
+    Top,
+    /// Both: a uniform bed is set to the class under the pointer; a graded bed is shifted by the
+    /// classes moved, so its fining or coarsening upward is kept.
+    Both,
+}
+
+/// Which end a grab at `frac_from_base` (0 = base, 1 = top) of a bed's edge takes.
+pub fn grain_end_at(bed: &Bed, frac_from_base: f64) -> GrainEnd {
+    let graded = bed.grain_base.map(|g| g.class()) != bed.grain_top.map(|g| g.class());
+    match frac_from_base {
+        f if graded && f < 1.0 / 3.0 => GrainEnd::Base,
+        f if graded && f > 2.0 / 3.0 => GrainEnd::Top,
+        _ => GrainEnd::Both,
+    }
+}
+
+/// Grain sizes (base, top) after dragging the edge from class `start` to class `now`.
+pub fn dragged_grain(
+    base: Option<GrainSize>,
+    top: Option<GrainSize>,
+    end: GrainEnd,
+    start: WentworthClass,
+    now: WentworthClass,
+) -> (Option<GrainSize>, Option<GrainSize>) {
+    let set = Some(GrainSize::Class(now));
+    let shift = |g: Option<GrainSize>| {
+        let rank =
+            g.map(|g| g.class()).unwrap_or(start).rank() as i64 + now.rank() as i64 - start.rank() as i64;
+        Some(GrainSize::Class(WentworthClass::from_rank(rank.max(0) as usize)))
+    };
+    let uniform = base.map(|g| g.class()) == top.map(|g| g.class());
+    match end {
+        GrainEnd::Base => (set, top),
+        GrainEnd::Top => (base, set),
+        GrainEnd::Both if uniform => (set, set),
+        GrainEnd::Both if now == start => (base, top),
+        GrainEnd::Both => (shift(base), shift(top)),
+    }
 }
 
 /// View state of the canvas (kept between frames).
@@ -35,12 +81,16 @@ pub struct Canvas {
     context_bed: Option<BedId>,
     last_total_m: Option<f64>,
     pending_scroll_m: Option<f64>,
+    /// Grain sizes (base, top) of the bed being grain-dragged, as they were when grabbed.
+    grain_from: Option<(Option<GrainSize>, Option<GrainSize>)>,
     /// Shapes reused between frames (avoids reallocating).
     shapes: Vec<Shape>,
     /// How many layout items the last frame drew (culling keeps this to the visible range).
     pub last_drawn_items: usize,
     /// The strip → screen transform of the last frame (for hit tests from outside).
     pub last_transform: Option<MmToScreen>,
+    /// Height of the last frame's view, strip mm.
+    last_view_h_mm: Option<f64>,
     fitted: bool,
 }
 
@@ -53,9 +103,11 @@ impl Default for Canvas {
             context_bed: None,
             last_total_m: None,
             pending_scroll_m: None,
+            grain_from: None,
             shapes: Vec::new(),
             last_drawn_items: 0,
             last_transform: None,
+            last_view_h_mm: None,
             fitted: false,
         }
     }
@@ -99,6 +151,11 @@ impl Canvas {
     /// Ask to bring a height into view on the next frame.
     pub fn scroll_to_height(&mut self, height_m: f64) {
         self.pending_scroll_m = Some(height_m);
+    }
+
+    /// The strip y range (mm, top first) the last frame showed; `None` before the first frame.
+    pub fn view_y_mm(&self) -> Option<(f64, f64)> {
+        self.last_view_h_mm.map(|h| (self.top_mm, self.top_mm + h))
     }
 
     /// Is a drag on a bed in progress?
@@ -161,6 +218,7 @@ impl Canvas {
         let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
         self.top_mm =
             self.top_mm.clamp(-view_h_mm * 0.5, (strip.height_mm - view_h_mm * 0.5).max(-view_h_mm * 0.5));
+        self.last_view_h_mm = Some(view_h_mm);
 
         let t = MmToScreen {
             origin: Pos2::new(
@@ -221,6 +279,13 @@ impl Canvas {
         }
         if response.drag_started() {
             self.drag = Some(grab.unwrap_or(DragKind::Pan));
+            // A grain drag works from the grain sizes the bed had when it was grabbed.
+            self.grain_from = match self.drag {
+                Some(DragKind::Grain { bed, .. }) => {
+                    doc.section().bed_index(bed).map(|i| (beds[i].grain_base, beds[i].grain_top))
+                }
+                _ => None,
+            };
             if let Some(DragKind::Top { bed, .. } | DragKind::Grain { bed, .. }) = self.drag {
                 out.select = Some(Some(bed));
             }
@@ -240,13 +305,19 @@ impl Canvas {
                         }
                     }
                 }
-                Some(DragKind::Grain { bed, gesture }) => {
+                Some(DragKind::Grain { bed, end, start, gesture }) => {
                     ui.ctx().set_cursor_icon(CursorIcon::ResizeHorizontal);
                     if let (Some(p), Some(i)) = (pointer, doc.section().bed_index(bed)) {
                         let class = strip.grain_scale.class_at(t.x_mm(p.x));
-                        let g = Some(GrainSize::Class(class));
-                        if beds[i].grain_base != g || beds[i].grain_top != g {
-                            out.edit_in(Edit::SetGrain { bed, base: g, top: g }, gesture);
+                        let b = &beds[i];
+                        let (base, top) = match self.grain_from {
+                            Some((from_base, from_top)) => {
+                                dragged_grain(from_base, from_top, end, start, class)
+                            }
+                            None => (b.grain_base, b.grain_top),
+                        };
+                        if b.grain_base != base || b.grain_top != top {
+                            out.edit_in(Edit::SetGrain { bed, base, top }, gesture);
                         }
                     }
                 }
@@ -294,8 +365,20 @@ impl Canvas {
             return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
         }
         let bed = beds.get(i)?;
-        if (p.x - right).abs() <= GRAB_PT && !bed.is_covered() {
-            return Some(DragKind::Grain { bed: bed.id, gesture });
+        // The right edge at the pointer's height (a graded bed's edge slopes from base to top).
+        let frac_from_base =
+            (((base_screen - p.y) / (base_screen - top_screen).max(1.0)) as f64).clamp(0.0, 1.0);
+        let edge = match (bed.grain_base, bed.grain_top) {
+            (Some(gb), Some(gt)) => {
+                let (xb, xt) = (strip.grain_scale.x_mm(gb.phi()), strip.grain_scale.x_mm(gt.phi()));
+                t.pos(xb + (xt - xb) * frac_from_base, 0.0).x
+            }
+            _ => right,
+        };
+        if (p.x - edge).abs() <= GRAB_PT && !bed.is_covered() {
+            let end = grain_end_at(bed, frac_from_base);
+            let start = strip.grain_scale.class_at(x);
+            return Some(DragKind::Grain { bed: bed.id, end, start, gesture });
         }
         None
     }
@@ -454,6 +537,46 @@ pub fn bed_menu(ui: &mut egui::Ui, doc: &Document, bed: Option<BedId>, out: &mut
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    fn class(c: WentworthClass) -> Option<GrainSize> {
+        Some(GrainSize::Class(c))
+    }
+
+    #[test]
+    fn grain_drag_keeps_a_fining_upward_profile() {
+        use WentworthClass::*;
+        let mut bed = Bed::new(BedId(1), 2.0, Lithology::Sandstone, class(CoarseSand));
+        bed.grain_top = class(FineSand);
+        // A graded bed: the thirds of its edge pick the end; the middle moves both.
+        assert_eq!(grain_end_at(&bed, 0.1), GrainEnd::Base);
+        assert_eq!(grain_end_at(&bed, 0.5), GrainEnd::Both);
+        assert_eq!(grain_end_at(&bed, 0.9), GrainEnd::Top);
+        let (b, t) = (bed.grain_base, bed.grain_top);
+        // Middle grab moved one class coarser: both ends shift, still fining upward.
+        assert_eq!(
+            dragged_grain(b, t, GrainEnd::Both, MediumSand, CoarseSand),
+            (class(VeryCoarseSand), class(MediumSand))
+        );
+        // No class moved: nothing changes (no flattening on a click-drag in place).
+        assert_eq!(dragged_grain(b, t, GrainEnd::Both, MediumSand, MediumSand), (b, t));
+        // The top third sets only the top, the base third only the base.
+        assert_eq!(dragged_grain(b, t, GrainEnd::Top, FineSand, VeryFineSand), (b, class(VeryFineSand)));
+        assert_eq!(dragged_grain(b, t, GrainEnd::Base, CoarseSand, Granule), (class(Granule), t));
+        // Shifting past the end of the scale clamps instead of wrapping.
+        assert_eq!(dragged_grain(b, t, GrainEnd::Both, MediumSand, Clay).0, class(Silt));
+        assert_eq!(dragged_grain(b, t, GrainEnd::Both, MediumSand, Clay).1, class(Clay));
+    }
+
+    #[test]
+    fn grain_drag_on_a_uniform_bed_sets_both_ends() {
+        use WentworthClass::*;
+        let bed = Bed::new(BedId(1), 2.0, Lithology::Sandstone, class(MediumSand));
+        for f in [0.05, 0.5, 0.95] {
+            assert_eq!(grain_end_at(&bed, f), GrainEnd::Both);
+        }
+        let (b, t) = (bed.grain_base, bed.grain_top);
+        assert_eq!(dragged_grain(b, t, GrainEnd::Both, MediumSand, Pebble), (class(Pebble), class(Pebble)));
+    }
 
     #[test]
     fn snap_steps_follow_zoom() {

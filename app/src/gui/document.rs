@@ -127,15 +127,16 @@ impl Document {
     /// Apply an edit; consecutive edits with the same `gesture` (a drag, typing into one field)
     /// share one undo step until [`Document::end_gesture`] or an edit of another gesture.
     pub fn apply_in_gesture(&mut self, edit: Edit, gesture: Option<u64>) -> Result<(), EditError> {
-        let before = Snapshot {
+        // Steps of one gesture (a drag) merge into one undo step: only the first keeps a snapshot.
+        let merge = gesture.is_some() && gesture == self.open_gesture && !self.undo.is_empty();
+        let before = (!merge).then(|| Snapshot {
             project: self.project.clone(),
             selected_section: self.selected_section,
             selected_bed: self.selected_bed,
-        };
+        });
         let mut work = self.clone_state();
         work.run(edit)?;
-        let merge = gesture.is_some() && gesture == self.open_gesture && !self.undo.is_empty();
-        if !merge {
+        if let Some(before) = before {
             self.undo.push(before);
             if self.undo.len() > UNDO_LIMIT {
                 self.undo.remove(0);

@@ -26,5 +26,5 @@ pub use legend::{legend_entries, LegendEntry};
 pub use options::{LayoutOptions, Orientation, Paper, PrintMeta};
 pub use page::{pages, Page, PageSegment};
 pub use panel::{panel_layout, panel_pages, Datum, PanelError, PanelLayout, PanelOptions};
-pub use strip::{column_strip, ColumnStrip};
+pub use strip::{column_strip, column_strip_window, ColumnStrip};
 pub use transform::{GrainScale, HeightTransform};

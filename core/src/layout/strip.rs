@@ -52,15 +52,34 @@ impl ColumnStrip {
 
 /// Lay the whole column out as one strip at the options' scale.
 pub fn column_strip(section: &Section, interp: &Interpretation, opts: &LayoutOptions) -> ColumnStrip {
+    column_strip_window(section, interp, opts, None)
+}
+
+/// The same strip, with only the heights in `window_m` (lo, hi; metres) drawn: coordinates,
+/// size, titles and scale are those of the whole strip, so a window's items are exactly the
+/// whole strip's items for those heights. The screen lays out a few views' worth around what it
+/// shows, so a long section costs no more per edit than a short one.
+pub fn column_strip_window(
+    section: &Section,
+    interp: &Interpretation,
+    opts: &LayoutOptions,
+    window_m: Option<(f64, f64)>,
+) -> ColumnStrip {
     let ctx = ColumnCtx::new(section, interp, opts);
     let column_h = ctx.total_m * 1000.0 / opts.scale();
     let y_col_top = TITLE_BAND_MM + PAD_MM;
     let y_base = y_col_top + column_h;
     let heights = HeightTransform::new(y_base, 0.0, opts.scale());
+    let (lo, hi) = match window_m {
+        Some((lo, hi)) => (lo.max(0.0), hi.min(ctx.total_m)),
+        None => (0.0, ctx.total_m),
+    };
     let mut items = Vec::new();
     let mut bed_boxes = Vec::new();
     ctx.draw_titles(0.0, 0.0, &mut items);
-    ctx.draw_range(0.0, ctx.total_m, 0.0, &heights, &mut items, &mut bed_boxes);
+    if lo < hi || ctx.total_m == 0.0 {
+        ctx.draw_range(lo, hi, 0.0, &heights, &mut items, &mut bed_boxes);
+    }
     ctx.draw_scale(0.0, y_base + PAD_MM, &mut items);
     ColumnStrip {
         width_mm: ctx.tracks.width_mm,
@@ -107,6 +126,33 @@ mod tests {
             let visible = strip.items_in_y(y0, y1).count();
             assert!(visible > 0 && visible < strip.items.len());
         }
+    }
+
+    #[test]
+    fn a_window_holds_the_whole_strips_beds_for_its_heights() {
+        let s = sample_section();
+        let i = sample_interpretation(&s);
+        let opts = LayoutOptions::default();
+        let whole = column_strip(&s, &i, &opts);
+        let bases = s.base_heights_m();
+        let (lo, hi) = (bases[3] + 0.01, bases[6] + 0.01);
+        let part = column_strip_window(&s, &i, &opts, Some((lo, hi)));
+        assert_eq!(
+            (part.width_mm, part.height_mm, &part.heights),
+            (whole.width_mm, whole.height_mm, &whole.heights)
+        );
+        // Beds 3..=6 overlap the window; those wholly inside have the whole strip's boxes (the
+        // two at the edges are clipped to the window, as on a page).
+        let idx: Vec<usize> = part.bed_boxes.iter().map(|b| b.bed_index).collect();
+        assert_eq!(idx, vec![3, 4, 5, 6]);
+        for b in &part.bed_boxes[1..3] {
+            let w = whole.bed_boxes.iter().find(|x| x.bed_index == b.bed_index).expect("in whole strip");
+            assert!((b.rect.y - w.rect.y).abs() < 1e-9 && (b.rect.h - w.rect.h).abs() < 1e-9);
+        }
+        assert!(part.items.len() < whole.items.len());
+        // A window past the top draws no beds but keeps titles and scale.
+        let past = column_strip_window(&s, &i, &opts, Some((1e6, 2e6)));
+        assert!(past.bed_boxes.is_empty() && !past.items.is_empty());
     }
 
     #[test]
