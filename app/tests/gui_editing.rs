@@ -390,6 +390,29 @@ fn dragging_a_graded_beds_edge_keeps_it_fining_upward() {
 }
 
 #[test]
+fn a_long_section_scrolls_to_a_picked_boundary_in_column_and_table() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let file = data.path().join("long.aggrade");
+    aggrade::gui::files::save(&file, &Project::new(vec![demo::long_section(800)])).expect("saved");
+    let mut h = harness(app(Some(file), data.path(), vec![]));
+    h.run();
+    let (drawn, laid_out) = h.state().drawn_items();
+    assert!(drawn > 0 && drawn < laid_out, "only the visible part is drawn: {drawn} of {laid_out}");
+    // Pick a bed near the base, far below the view, as the review list does.
+    let n = h.state().doc.section().beds.len();
+    let bed = h.state().doc.section().beds[5].clone();
+    let mid = h.state().doc.section().base_heights_m()[5] + bed.thickness_m / 2.0;
+    h.state_mut().doc.selected_bed = Some(bed.id);
+    h.state_mut().scroll_canvas_to(mid);
+    h.run();
+    // The column shows it (laid out around the new view) and the table shows its row.
+    let r = h.state().bed_rect_on_screen(bed.id).expect("the bed is laid out and drawn");
+    assert!(r.top() > 0.0 && r.bottom() < 900.0, "in the window: {r:?}");
+    let row = n - 1 - 5;
+    assert!(h.state().table_rows_shown().contains(&row), "row {row} in {:?}", h.state().table_rows_shown());
+}
+
+#[test]
 fn right_click_menu_splits_and_deletes_beds() {
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(app(None, data.path(), vec![]));

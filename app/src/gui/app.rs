@@ -251,7 +251,12 @@ impl AggradeApp {
         Some(self.canvas.zoom * c.strip.heights.mm_per_m() as f32)
     }
 
-    /// Items drawn in the last frame, and items in the whole laid-out column.
+    /// Rows of the bed table shown in the last frame (0 = the top bed).
+    pub fn table_rows_shown(&self) -> std::ops::Range<usize> {
+        self.table.rows_shown()
+    }
+
+    /// Items drawn in the last frame, and items in the laid-out part of the column.
     pub fn drawn_items(&self) -> (usize, usize) {
         (self.canvas.last_drawn_items, self.cache.as_ref().map(|c| c.strip.items.len()).unwrap_or(0))
     }

@@ -15,6 +15,24 @@ pub struct BedTable {
     focus_thickness: bool,
     /// Last problem with the entry row, shown under it.
     pub problem: Option<String>,
+    /// The selection the table last showed: a selection made elsewhere (canvas, review list)
+    /// scrolls the table to its row.
+    last_selected: Option<BedId>,
+    /// Rows shown in the last frame.
+    visible_rows: std::ops::Range<usize>,
+}
+
+impl BedTable {
+    /// Rows (0 = top of the section) the table showed in the last frame.
+    pub fn rows_shown(&self) -> std::ops::Range<usize> {
+        self.visible_rows.clone()
+    }
+}
+
+/// Scroll offset (points) that puts `row` a few rows below the top of the table, if it is not
+/// among the rows shown; `None` when it is already in view.
+pub fn follow_offset(row: usize, visible: &std::ops::Range<usize>, row_pitch: f32) -> Option<f32> {
+    (!visible.contains(&row)).then(|| (row.saturating_sub(3) as f32 * row_pitch).max(0.0))
 }
 
 /// The lithology whose name starts with the typed letters (first in vocabulary order).
@@ -194,71 +212,80 @@ impl BedTable {
             let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
             ui.painter().text(egui::pos2(x, hrect.center().y), align, *name, font.clone(), theme::TEXT_DIM);
         }
-        egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).show_rows(
-            ui,
-            row_h,
-            n,
-            |ui, range| {
-                for row in range {
-                    // Top of the section first.
-                    let i = n - 1 - row;
-                    let b = &s.beds[i];
-                    let selected = doc.selected_bed == Some(b.id);
-                    let top = heights[i] + b.thickness_m;
-                    let grain = match (b.grain_base, b.grain_top) {
-                        (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
-                        (Some(a), _) => short(a),
-                        (None, _) => "—".into(),
-                    };
-                    let (rect, r) =
-                        ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
-                    let bg = if selected {
-                        theme::SELECT_FILL
-                    } else if r.hovered() {
-                        egui::Color32::from_gray(234)
-                    } else if row % 2 == 1 {
-                        egui::Color32::from_gray(241)
-                    } else {
-                        egui::Color32::TRANSPARENT
-                    };
-                    let p = ui.painter();
-                    p.rect_filled(rect, 2.0, bg);
-                    if selected {
-                        p.rect_filled(
-                            egui::Rect::from_min_size(rect.min, egui::vec2(3.0, rect.height())),
-                            0.0,
-                            theme::ACCENT,
-                        );
-                    }
-                    let cells = [
-                        format!("{}", i + 1),
-                        show_length(top, unit),
-                        show_length(b.thickness_m, unit),
-                        b.lithology.name().to_string(),
-                        grain,
-                    ];
-                    for (k, text) in cells.into_iter().enumerate() {
-                        let numeric = (1..=2).contains(&k);
-                        let x = if numeric {
-                            rect.left() + cols[k + 1] * rect.width() - 8.0
-                        } else {
-                            rect.left() + cols[k] * rect.width() + 4.0
-                        };
-                        let align =
-                            if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
-                        let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
-                        p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
-                    }
-                    let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
-                    if r.clicked() {
-                        out.select = Some(Some(b.id));
-                        out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
-                    }
-                    let id = b.id;
-                    r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
+        let mut area =
+            egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).animated(false);
+        if doc.selected_bed != self.last_selected {
+            self.last_selected = doc.selected_bed;
+            let row = doc.selected_bed.and_then(|id| doc.bed_index(id)).map(|i| n - 1 - i);
+            let pitch = row_h + ui.spacing().item_spacing.y;
+            if let Some(offset) = row.and_then(|r| follow_offset(r, &self.visible_rows, pitch)) {
+                // Never past the end (the area would spring back over several frames).
+                let max = (n as f32 * pitch - ui.available_height()).max(0.0);
+                area = area.vertical_scroll_offset(offset.min(max));
+            }
+        }
+        area.show_rows(ui, row_h, n, |ui, range| {
+            self.visible_rows = range.clone();
+            for row in range {
+                // Top of the section first.
+                let i = n - 1 - row;
+                let b = &s.beds[i];
+                let selected = doc.selected_bed == Some(b.id);
+                let top = heights[i] + b.thickness_m;
+                let grain = match (b.grain_base, b.grain_top) {
+                    (Some(a), Some(t)) if a != t => format!("{} → {}", short(a), short(t)),
+                    (Some(a), _) => short(a),
+                    (None, _) => "—".into(),
+                };
+                let (rect, r) =
+                    ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
+                let bg = if selected {
+                    theme::SELECT_FILL
+                } else if r.hovered() {
+                    egui::Color32::from_gray(234)
+                } else if row % 2 == 1 {
+                    egui::Color32::from_gray(241)
+                } else {
+                    egui::Color32::TRANSPARENT
+                };
+                let p = ui.painter();
+                p.rect_filled(rect, 2.0, bg);
+                if selected {
+                    p.rect_filled(
+                        egui::Rect::from_min_size(rect.min, egui::vec2(3.0, rect.height())),
+                        0.0,
+                        theme::ACCENT,
+                    );
                 }
-            },
-        );
+                let cells = [
+                    format!("{}", i + 1),
+                    show_length(top, unit),
+                    show_length(b.thickness_m, unit),
+                    b.lithology.name().to_string(),
+                    grain,
+                ];
+                for (k, text) in cells.into_iter().enumerate() {
+                    let numeric = (1..=2).contains(&k);
+                    let x = if numeric {
+                        rect.left() + cols[k + 1] * rect.width() - 8.0
+                    } else {
+                        rect.left() + cols[k] * rect.width() + 4.0
+                    };
+                    let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
+                    let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
+                    p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
+                }
+                let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
+                if r.clicked() {
+                    // Selected here: the row is in view already, so the table stays put.
+                    self.last_selected = Some(b.id);
+                    out.select = Some(Some(b.id));
+                    out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
+                }
+                let id = b.id;
+                r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
+            }
+        });
     }
 }
 
@@ -284,6 +311,13 @@ mod tests {
         assert_eq!(grain_from_prefix("peb"), Some(GrainSize::Class(WentworthClass::Pebble)));
         // 0.25 mm is φ 2 by Krumbein (1934): φ = −log2(d / 1 mm).
         assert_eq!(grain_from_prefix("0.25mm"), Some(GrainSize::Phi(2.0)));
+    }
+
+    #[test]
+    fn table_follows_a_selection_only_when_its_row_is_out_of_view() {
+        assert_eq!(follow_offset(12, &(10..30), 24.0), None);
+        assert_eq!(follow_offset(100, &(10..30), 24.0), Some(97.0 * 24.0));
+        assert_eq!(follow_offset(1, &(10..30), 24.0), Some(0.0));
     }
 
     #[test]
