@@ -45,7 +45,7 @@ pub enum StateKind {
 }
 
 /// The state of each bed, `None` for covered intervals (they break the chain).
-fn state_sequence(section: &Section, kind: StateKind) -> Vec<Option<&'static str>> {
+pub fn state_sequence(section: &Section, kind: StateKind) -> Vec<Option<&'static str>> {
     lithology_sequence(section)
         .into_iter()
         .map(|l| {
@@ -97,7 +97,7 @@ fn stretch(
 }
 
 /// Heights of accepted boundaries, section base and top included, ascending.
-fn interval_bounds(section: &Section) -> Vec<f64> {
+pub fn interval_bounds(section: &Section) -> Vec<f64> {
     let bases = section.base_heights_m();
     let mut cuts: Vec<f64> = section
         .review

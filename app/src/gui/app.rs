@@ -11,6 +11,7 @@ use super::inspector::Inspector;
 use super::painter::ItemIndex;
 use super::recovery::{self, Autosaver, Recovery};
 use super::table::BedTable;
+use super::views_common::Views;
 use super::{demo, plots, review, theme};
 use aggrade_core::model::{LengthUnit, Project, Section};
 use aggrade_core::rules::Interpretation;
@@ -60,6 +61,9 @@ pub enum Command {
     Redo,
     ZoomIn,
     ZoomOut,
+    PanelView,
+    StatsView,
+    BodiesView,
 }
 
 impl Command {
@@ -76,11 +80,17 @@ impl Command {
             Command::Quit => KeyboardShortcut::new(c, Key::Q),
             Command::Redo => KeyboardShortcut::new(cs, Key::Z),
             Command::Undo => KeyboardShortcut::new(c, Key::Z),
+            Command::PanelView => KeyboardShortcut::new(cs, Key::P),
+            Command::StatsView => KeyboardShortcut::new(cs, Key::T),
+            Command::BodiesView => KeyboardShortcut::new(cs, Key::B),
             Command::ImportCsv | Command::ZoomIn | Command::ZoomOut => return None,
         })
     }
     /// Shortcuts in the order they must be tested (Ctrl+Shift+Z before Ctrl+Z).
-    const WITH_SHORTCUTS: [Command; 8] = [
+    const WITH_SHORTCUTS: [Command; 11] = [
+        Command::PanelView,
+        Command::StatsView,
+        Command::BodiesView,
         Command::SaveAs,
         Command::Redo,
         Command::New,
@@ -140,6 +150,8 @@ pub struct AggradeApp {
     pub message: Option<(String, String)>,
     /// Last status line.
     pub status: String,
+    /// The correlation panel, statistics and channel-body windows.
+    pub views: Views,
     canvas: Canvas,
     table: BedTable,
     inspector: Inspector,
@@ -194,6 +206,7 @@ impl AggradeApp {
             recent: config.recent,
             message,
             status,
+            views: Views::default(),
             canvas: Canvas::default(),
             table: BedTable::default(),
             inspector: Inspector::default(),
@@ -357,6 +370,9 @@ impl AggradeApp {
             }
             Command::ZoomIn => self.canvas.zoom *= 1.25,
             Command::ZoomOut => self.canvas.zoom /= 1.25,
+            Command::PanelView => self.views.panel.open = !self.views.panel.open,
+            Command::StatsView => self.views.stats.open = !self.views.stats.open,
+            Command::BodiesView => self.views.bodies.open = !self.views.bodies.open,
         }
     }
 
@@ -482,6 +498,7 @@ impl AggradeApp {
             }
         });
         self.apply_actions(actions);
+        self.views_ui(&ctx);
         self.dialogs_ui(&ctx);
 
         // Autosave unsaved changes; a failure is reported, never fatal.
@@ -673,6 +690,31 @@ impl AggradeApp {
                     );
                     ui.checkbox(&mut self.layout.show_rejected, "Show rejected boundaries")
                         .on_hover_text("Draw boundaries you rejected, greyed");
+                    ui.separator();
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Correlation panel",
+                        Command::PanelView,
+                        true,
+                        "All sections side by side, hung on a datum, with tie lines",
+                    );
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Statistics",
+                        Command::StatsView,
+                        true,
+                        "Paleocurrents, rose diagram and facies transitions",
+                    );
+                    self.menu_item(
+                        ui,
+                        ctx,
+                        "Channel bodies",
+                        Command::BodiesView,
+                        true,
+                        "Channel bodies of every section, thickness summary, CSV export",
+                    );
                 });
                 ui.menu_button("Section", |ui| {
                     let names: Vec<String> =
@@ -756,6 +798,20 @@ impl AggradeApp {
                 Tab::Section => section_ui(ui, &self.doc, actions),
             }
         });
+    }
+
+    fn views_ui(&mut self, ctx: &egui::Context) {
+        let now = std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_secs() as i64)
+            .unwrap_or(0);
+        let out = self.views.ui(ctx, &self.doc, &self.params, self.dialogs.as_mut(), now);
+        if let Some(s) = out.status {
+            self.status = s;
+        }
+        if out.error.is_some() {
+            self.message = out.error;
+        }
     }
 
     fn dialogs_ui(&mut self, ctx: &egui::Context) {

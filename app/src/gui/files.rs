@@ -9,6 +9,8 @@ pub enum SaveKind {
     Project,
     Pdf,
     Svg,
+    /// A table of numbers (CSV).
+    Csv,
 }
 
 /// The file pickers the window uses.
@@ -40,6 +42,7 @@ impl FileDialogs for SystemDialogs {
             SaveKind::Project => ("Aggrade project", "aggrade"),
             SaveKind::Pdf => ("PDF", "pdf"),
             SaveKind::Svg => ("SVG", "svg"),
+            SaveKind::Csv => ("CSV table", "csv"),
         };
         rfd::FileDialog::new()
             .add_filter(name, &[ext])

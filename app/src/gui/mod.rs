@@ -15,6 +15,10 @@ pub mod recovery;
 pub mod review;
 pub mod table;
 pub mod theme;
+pub mod views_bodies;
+pub mod views_common;
+pub mod views_panel;
+pub mod views_stats;
 
 use anyhow::Context as _;
 use std::path::{Path, PathBuf};

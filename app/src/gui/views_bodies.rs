@@ -1,0 +1,418 @@
+//! Channel-body statistics view: every body of every section, the thickness summary with
+//! P10/P50/P90, proportions, decompacted thicknesses for a burial depth, and CSV export.
+
+use super::files::SaveKind;
+use super::theme;
+use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use aggrade_core::analysis::bodies::{
+    body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
+    write_proportion_curve_csv, BodyRow, ThicknessSummary,
+};
+use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams, SectionDecompaction};
+use aggrade_core::model::{GrainSize, Project};
+use aggrade_core::rules::{ChannelBody, Element, Interpretation, Stacking};
+
+/// Default burial depth offered, m (a round figure to start from; the user types the real one).
+pub const DEFAULT_BURIAL_DEPTH_M: f64 = 1000.0;
+
+/// Decompacted thickness (m) of a body: the restored thicknesses of the beds of its storeys.
+pub fn body_decompacted_thickness_m(
+    interp: &Interpretation,
+    body: &ChannelBody,
+    d: &SectionDecompaction,
+) -> f64 {
+    let mut beds: Vec<usize> = body
+        .storey_indices
+        .iter()
+        .filter_map(|&k| interp.storeys.get(k))
+        .flat_map(|s| s.first_bed..=s.last_bed)
+        .collect();
+    beds.sort_unstable();
+    beds.dedup();
+    beds.iter().filter_map(|&i| d.beds.get(i)).map(|b| b.decompacted_thickness_m).sum()
+}
+
+/// Decompaction of one section, for the view.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SectionLine {
+    pub name: String,
+    pub channel_proportion: Option<f64>,
+    /// (base m, top m, proportion) of each interval.
+    pub intervals: Vec<(f64, f64, Option<f64>)>,
+    /// `None` when decompaction is off; `Err` with the reason when it failed.
+    pub decompaction: Option<Result<SectionDecompaction, String>>,
+}
+
+/// Everything the view shows.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BodiesResult {
+    pub rows: Vec<BodyRow>,
+    pub summary: Option<ThicknessSummary>,
+    /// Decompacted thickness of each row (same order), when decompaction is on and worked.
+    pub decompacted_m: Vec<Option<f64>>,
+    pub decompacted_summary: Option<ThicknessSummary>,
+    pub sections: Vec<SectionLine>,
+}
+
+/// Compute the table, the summaries and (with a burial depth) the decompacted thicknesses.
+pub fn compute(project: &Project, interps: &[Interpretation], burial_depth_m: Option<f64>) -> BodiesResult {
+    let rows = body_table(interps.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));
+    let mut decompacted_m = Vec::with_capacity(rows.len());
+    let mut sections = Vec::new();
+    for (s, it) in project.sections.iter().zip(interps) {
+        let decompaction = burial_depth_m.map(|depth| {
+            let flags: Vec<bool> = it.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
+            decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
+                .map_err(|e| e.to_string())
+        });
+        // The body table lists a section's bodies by base height (a stable sort): follow it.
+        let mut bodies: Vec<&ChannelBody> = it.channel_bodies.iter().collect();
+        bodies.sort_by(|a, b| a.base_m.total_cmp(&b.base_m));
+        for b in bodies {
+            decompacted_m.push(match &decompaction {
+                Some(Ok(d)) => Some(body_decompacted_thickness_m(it, b, d)),
+                _ => None,
+            });
+        }
+        sections.push(SectionLine {
+            name: s.name.clone(),
+            channel_proportion: it.channel_proportion,
+            intervals: it.interval_proportions.iter().map(|p| (p.base_m, p.top_m, p.proportion)).collect(),
+            decompaction,
+        });
+    }
+    let decompacted_summary = if decompacted_m.iter().all(Option::is_some) && !rows.is_empty() {
+        let restored: Vec<BodyRow> = rows
+            .iter()
+            .zip(&decompacted_m)
+            .map(|(r, d)| BodyRow { thickness_m: d.unwrap_or(r.thickness_m), ..r.clone() })
+            .collect();
+        thickness_summary(&restored)
+    } else {
+        None
+    };
+    let summary = thickness_summary(&rows);
+    BodiesResult { rows, summary, decompacted_m, decompacted_summary, sections }
+}
+
+fn grain(g: Option<GrainSize>) -> String {
+    g.map(|g| g.to_string()).unwrap_or_else(|| "–".into())
+}
+
+/// The cells of one table row as shown.
+pub fn row_cells(r: &BodyRow, decompacted_m: Option<f64>) -> Vec<String> {
+    let mut cells = vec![
+        r.section.clone(),
+        format!("{:.2}", r.base_m),
+        format!("{:.2}", r.top_m),
+        format!("{:.2}", r.thickness_m),
+        r.storeys.to_string(),
+        match r.stacking {
+            Stacking::MultiStory => "multi-story".into(),
+            Stacking::SingleStory => "single-story".into(),
+        },
+        format!("{} – {}", grain(r.grain_finest), grain(r.grain_coarsest)),
+    ];
+    if let Some(d) = decompacted_m {
+        cells.push(format!("{d:.2}"));
+    }
+    cells
+}
+
+/// Which CSV to write.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BodiesCsv {
+    Bodies,
+    ProportionCurve,
+    IntervalProportions,
+}
+
+/// Write one of the view's CSV files to `path`.
+pub fn export_csv(
+    path: &std::path::Path,
+    which: BodiesCsv,
+    rows: &[BodyRow],
+    interps: &[Interpretation],
+) -> Result<String, String> {
+    let mut bytes = Vec::new();
+    let what = match which {
+        BodiesCsv::Bodies => {
+            write_bodies_csv(rows, &mut bytes).map_err(|e| e.to_string())?;
+            format!("{} channel bodies", rows.len())
+        }
+        BodiesCsv::ProportionCurve => {
+            write_proportion_curve_csv(
+                interps.iter().map(|i| (i.section.as_str(), i.proportion_curve.as_slice())),
+                &mut bytes,
+            )
+            .map_err(|e| e.to_string())?;
+            "the proportion curve".to_string()
+        }
+        BodiesCsv::IntervalProportions => {
+            write_interval_proportions_csv(
+                interps.iter().map(|i| (i.section.as_str(), i.interval_proportions.as_slice())),
+                &mut bytes,
+            )
+            .map_err(|e| e.to_string())?;
+            "proportions by interval".to_string()
+        }
+    };
+    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| format!("{}: {e}", path.display()))?;
+    Ok(format!("Wrote {what} to {}", path.display()))
+}
+
+/// The channel-body window.
+pub struct BodiesView {
+    pub open: bool,
+    /// Decompact to the time the top of each section was at the surface.
+    pub decompact: bool,
+    /// Present depth of each section's top, m.
+    pub burial_depth_m: f64,
+    cache: Option<((u64, Option<u64>), BodiesResult)>,
+    /// How many times the table was computed (stays put while nothing changes).
+    pub computations: u64,
+}
+
+impl Default for BodiesView {
+    fn default() -> Self {
+        BodiesView {
+            open: false,
+            decompact: false,
+            burial_depth_m: DEFAULT_BURIAL_DEPTH_M,
+            cache: None,
+            computations: 0,
+        }
+    }
+}
+
+impl BodiesView {
+    /// The numbers shown (after a frame has been drawn).
+    pub fn result(&self) -> Option<&BodiesResult> {
+        self.cache.as_ref().map(|c| &c.1)
+    }
+
+    fn depth(&self) -> Option<f64> {
+        self.decompact.then_some(self.burial_depth_m)
+    }
+
+    fn refresh(&mut self, v: &ViewCtx) {
+        let key = (v.generation, self.depth().map(f64::to_bits));
+        if self.cache.as_ref().is_some_and(|c| c.0 == key) {
+            return;
+        }
+        self.computations += 1;
+        self.cache = Some((key, compute(v.project, v.interps, self.depth())));
+    }
+
+    /// Draw the window.
+    pub fn window(&mut self, ctx: &egui::Context, v: &mut ViewCtx, out: &mut ViewsOutcome) {
+        self.refresh(v);
+        let mut open = self.open;
+        egui::Window::new("Channel bodies")
+            .open(&mut open)
+            .default_pos([200.0, 100.0])
+            .default_size([900.0, 680.0])
+            .resizable(true)
+            .show(ctx, |ui| {
+                egui::ScrollArea::vertical().id_salt("bodies_scroll").show(ui, |ui| self.body(ui, v, out));
+            });
+        self.open = open;
+    }
+
+    fn body(&mut self, ui: &mut egui::Ui, v: &mut ViewCtx, out: &mut ViewsOutcome) {
+        ui.horizontal(|ui| {
+            ui.checkbox(&mut self.decompact, "Decompact")
+                .on_hover_text("Restore thicknesses to when each section's top was at the surface");
+            let lab = ui.label("burial depth of the section top").id;
+            ui.add_enabled(
+                self.decompact,
+                egui::DragValue::new(&mut self.burial_depth_m).range(0.0..=50_000.0).speed(10.0).suffix(" m"),
+            )
+            .labelled_by(lab)
+            .on_hover_text("Present depth of the section top, m (Sclater & Christie 1980 porosity laws)");
+        });
+        let Some((_, r)) = self.cache.as_ref() else { return };
+        ui.horizontal(|ui| {
+            for (label, which, tip) in [
+                ("Export bodies CSV…", BodiesCsv::Bodies, "Every body of every section, one row each"),
+                (
+                    "Export proportion curve CSV…",
+                    BodiesCsv::ProportionCurve,
+                    "The moving-window channel-body proportion of every section",
+                ),
+                (
+                    "Export interval proportions CSV…",
+                    BodiesCsv::IntervalProportions,
+                    "Channel-body proportion of each interval of every section",
+                ),
+            ] {
+                if ui.button(label).on_hover_text(tip).clicked() {
+                    let name = match which {
+                        BodiesCsv::Bodies => "channel-bodies",
+                        BodiesCsv::ProportionCurve => "proportion-curve",
+                        BodiesCsv::IntervalProportions => "interval-proportions",
+                    };
+                    if let Some(path) = v.dialogs.pick_save(SaveKind::Csv, name) {
+                        match export_csv(&path, which, &r.rows, v.interps) {
+                            Ok(msg) => out.status = Some(msg),
+                            Err(e) => out.error = Some(("Could not write the CSV".into(), e)),
+                        }
+                    }
+                }
+            }
+        });
+        ui.add_space(4.0);
+        ui.heading("Summary");
+        let summary_rows: Vec<Vec<String>> =
+            [("present", &r.summary), ("decompacted", &r.decompacted_summary)]
+                .into_iter()
+                .filter_map(|(what, s)| s.as_ref().map(|s| (what, s)))
+                .map(|(what, s)| {
+                    vec![
+                        what.to_string(),
+                        s.count.to_string(),
+                        format!("{} / {}", s.multi_story, s.single_story),
+                        format!("{:.2}", s.mean_m),
+                        format!("{:.2}", s.median_m),
+                        format!("{:.2}", s.p10_m),
+                        format!("{:.2}", s.p50_m),
+                        format!("{:.2}", s.p90_m),
+                        format!("{:.2}–{:.2}", s.min_m, s.max_m),
+                    ]
+                })
+                .collect();
+        if summary_rows.is_empty() {
+            ui.label("No channel bodies found.");
+        } else {
+            text_table(
+                ui,
+                "bodies_summary",
+                &["thickness (m)", "count", "multi / single", "mean", "median", "P10", "P50", "P90", "range"],
+                &summary_rows,
+            );
+            ui.label(
+                egui::RichText::new(
+                    "Percentiles by linear interpolation between order statistics (numpy's default).",
+                )
+                .small()
+                .color(theme::TEXT_DIM),
+            );
+        }
+        ui.add_space(4.0);
+        ui.heading("Proportions");
+        let mut rows = Vec::new();
+        for s in &r.sections {
+            let mut row = vec![s.name.clone(), "whole section".into(), fmt_proportion(s.channel_proportion)];
+            match &s.decompaction {
+                Some(Ok(d)) => row.push(format!(
+                    "{} ({:.2} → {:.2} m)",
+                    fmt_proportion(d.decompacted_channel_proportion),
+                    d.present_thickness_m,
+                    d.decompacted_thickness_m
+                )),
+                Some(Err(e)) => row.push(e.clone()),
+                None => {}
+            }
+            rows.push(row);
+            for (base, top, p) in &s.intervals {
+                rows.push(vec![String::new(), format!("{base:.2}–{top:.2} m"), fmt_proportion(*p)]);
+            }
+        }
+        let mut header = vec!["section", "interval", "channel proportion"];
+        if self.decompact {
+            header.push("decompacted");
+        }
+        text_table(ui, "bodies_proportions", &header, &rows);
+        for s in &r.sections {
+            if let Some(Ok(d)) = &s.decompaction {
+                if !d.not_decompacted.is_empty() {
+                    let names: Vec<&str> = d.not_decompacted.iter().map(|l| l.name()).collect();
+                    ui.label(
+                        egui::RichText::new(format!(
+                            "{}: kept at present thickness (no porosity law): {}",
+                            s.name,
+                            names.join(", ")
+                        ))
+                        .small()
+                        .color(theme::WARN),
+                    );
+                }
+            }
+        }
+        ui.add_space(4.0);
+        ui.heading(format!("Channel bodies ({})", r.rows.len()));
+        let mut header = vec![
+            "section",
+            "base (m)",
+            "top (m)",
+            "thickness (m)",
+            "storeys",
+            "stacking",
+            "grain (finest – coarsest)",
+        ];
+        if r.decompacted_m.iter().any(Option::is_some) {
+            header.push("decompacted (m)");
+        }
+        let rows: Vec<Vec<String>> =
+            r.rows.iter().zip(&r.decompacted_m).map(|(b, d)| row_cells(b, *d)).collect();
+        text_table(ui, "bodies_table", &header, &rows);
+        ui.add_space(6.0);
+        caution(ui);
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::gui::demo::demo_project;
+    use aggrade_core::rules::{interpret, RuleParams};
+
+    fn demo() -> (Project, Vec<Interpretation>) {
+        let p = demo_project();
+        let i = p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect();
+        (p, i)
+    }
+
+    #[test]
+    fn at_no_burial_decompacted_bodies_keep_their_thickness() {
+        // Decompacting from 0 m to 0 m changes nothing (identity of the method), so each body's
+        // restored thickness is the sum of its beds: its own thickness.
+        let (p, i) = demo();
+        let r = compute(&p, &i, Some(0.0));
+        assert!(!r.rows.is_empty(), "the demo holds channel bodies");
+        for (row, d) in r.rows.iter().zip(&r.decompacted_m) {
+            let d = d.expect("decompacted");
+            assert!(
+                (d - row.thickness_m).abs() < 1e-9,
+                "{} at {}: {d} vs {}",
+                row.section,
+                row.base_m,
+                row.thickness_m
+            );
+        }
+        assert_eq!(r.decompacted_summary.as_ref().map(|s| s.count), r.summary.as_ref().map(|s| s.count));
+    }
+
+    #[test]
+    fn buried_bodies_were_thicker_when_deposited() {
+        let (p, i) = demo();
+        let r = compute(&p, &i, Some(2000.0));
+        for (row, d) in r.rows.iter().zip(&r.decompacted_m) {
+            assert!(d.expect("decompacted") > row.thickness_m, "porosity lost with burial is given back");
+        }
+        let off = compute(&p, &i, None);
+        assert!(off.decompacted_m.iter().all(Option::is_none) && off.decompacted_summary.is_none());
+        assert_eq!(off.rows, r.rows, "the table itself does not depend on decompaction");
+    }
+
+    #[test]
+    fn row_cells_show_stacking_and_grain_range() {
+        let (p, i) = demo();
+        let r = compute(&p, &i, None);
+        let cells = row_cells(&r.rows[0], None);
+        assert_eq!(cells.len(), 7);
+        assert_eq!(cells[0], r.rows[0].section);
+        assert!(cells[5] == "multi-story" || cells[5] == "single-story");
+        assert_eq!(row_cells(&r.rows[0], Some(1.234))[7], "1.23");
+    }
+}

@@ -1,0 +1,509 @@
+//! Correlation panel view: the project's sections side by side from the core's panel layout,
+//! drawn by the same painter as the column (so screen and print agree), with zoom and pan, a
+//! datum picker, tie lines, proportions and export to PDF or SVG.
+
+use super::files::SaveKind;
+use super::painter::{self, ItemIndex, MmToScreen};
+use super::theme;
+use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
+use aggrade_core::layout::panel::{panel_layout, section_markers, Datum, PanelLayout, PanelOptions};
+use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::model::Project;
+use std::path::Path;
+
+/// A level the panel can hang on, as offered in the datum picker.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DatumChoice {
+    pub datum: Datum,
+    /// As shown in the picker.
+    pub label: String,
+}
+
+/// The datums a project offers: the section base, then every named surface and accepted
+/// boundary (by name, each once, sorted), saying how many sections have it.
+pub fn datum_choices(project: &Project) -> Vec<DatumChoice> {
+    let mut named: std::collections::BTreeMap<String, (usize, bool, Option<String>)> = Default::default();
+    for s in &project.sections {
+        for m in section_markers(s).0 {
+            let e = named.entry(m.name.clone()).or_insert((0, false, None));
+            e.0 += 1;
+            e.1 |= m.accepted;
+            if m.unnamed {
+                e.2 = Some(format!("accepted boundary, {} at {:.2} m", s.name, m.height_m));
+            }
+        }
+    }
+    let mut out = vec![DatumChoice { datum: Datum::Base, label: "Section base".into() }];
+    for (name, (count, accepted, unnamed)) in named {
+        let label = match unnamed {
+            Some(text) => text,
+            None => {
+                let acc = if accepted { ", accepted boundary" } else { "" };
+                let secs = if count == 1 { "1 section".to_string() } else { format!("{count} sections") };
+                format!("{name} ({secs}{acc})")
+            }
+        };
+        out.push(DatumChoice { datum: Datum::Named(name), label });
+    }
+    out
+}
+
+/// The panel's choices, the same as `aggrade panel` takes.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PanelChoices {
+    pub datum: Datum,
+    /// Vertical scale denominator N of 1:N.
+    pub scale_denominator: f64,
+    /// Horizontal scale denominator of the gaps; `None` picks a round value that fits.
+    pub horizontal_scale_denominator: Option<f64>,
+    pub paper: Paper,
+    pub landscape: bool,
+    /// Empty gives "Correlation panel".
+    pub title: String,
+    /// Date printed in the header (empty: none).
+    pub printed_on: String,
+}
+
+impl Default for PanelChoices {
+    /// Hung on the base, 1:500 on A3 landscape (four or five columns of a few tens of metres fit
+    /// on one sheet), horizontal scale chosen to fit.
+    fn default() -> Self {
+        PanelChoices {
+            datum: Datum::Base,
+            scale_denominator: 500.0,
+            horizontal_scale_denominator: None,
+            paper: Paper::A3,
+            landscape: true,
+            title: String::new(),
+            printed_on: String::new(),
+        }
+    }
+}
+
+impl PanelChoices {
+    /// The core's panel options for these choices (as `aggrade panel` builds them).
+    pub fn options(&self) -> PanelOptions {
+        PanelOptions {
+            datum: self.datum.clone(),
+            layout: LayoutOptions {
+                scale_denominator: self.scale_denominator,
+                paper: self.paper,
+                orientation: if self.landscape { Orientation::Landscape } else { Orientation::Portrait },
+                ..LayoutOptions::default()
+            },
+            horizontal_scale_denominator: self.horizontal_scale_denominator,
+            title: self.title.clone(),
+            ..PanelOptions::default()
+        }
+    }
+
+    /// Header lines under the title: the document's name and the date, if any.
+    pub fn meta(&self, doc_name: &str) -> PrintMeta {
+        PrintMeta { printed_on: self.printed_on.trim().to_string(), subtitle: doc_name.to_string() }
+    }
+}
+
+struct PanelCache {
+    key: (u64, PanelChoices, String),
+    layout: Result<PanelLayout, String>,
+    index: ItemIndex,
+    choices: Vec<DatumChoice>,
+}
+
+/// The correlation panel window.
+pub struct PanelView {
+    pub open: bool,
+    pub choices: PanelChoices,
+    /// Screen points per millimetre of page.
+    pub zoom: f32,
+    /// Offset of the page's top-left corner from the view's top-left corner, points.
+    pub pan: egui::Vec2,
+    fit_pending: bool,
+    cache: Option<PanelCache>,
+    /// Items drawn in the last frame.
+    pub last_drawn_items: usize,
+    /// How many times the panel was laid out (stays put while nothing changes).
+    pub layouts_made: u64,
+}
+
+impl Default for PanelView {
+    fn default() -> Self {
+        PanelView {
+            open: false,
+            choices: PanelChoices::default(),
+            zoom: 1.0,
+            pan: egui::Vec2::ZERO,
+            fit_pending: true,
+            cache: None,
+            last_drawn_items: 0,
+            layouts_made: 0,
+        }
+    }
+}
+
+/// Write a laid-out panel to `path`: SVG when the name ends in .svg, else PDF.
+pub fn export_panel(path: &Path, layout: &PanelLayout, title: &str, now_secs: i64) -> Result<String, String> {
+    let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
+    let bytes = if is_svg {
+        write_svg(&layout.page).into_bytes()
+    } else {
+        let info = PdfInfo {
+            title: if title.is_empty() { "Correlation panel".into() } else { title.to_string() },
+            author: String::new(),
+            creation_date: now_secs,
+        };
+        write_pdf(std::slice::from_ref(&layout.page), &info)
+    };
+    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| format!("{}: {e}", path.display()))?;
+    Ok(format!(
+        "Exported the correlation panel ({} columns, {:.0} × {:.0} mm) to {}",
+        layout.columns.len(),
+        layout.page.width_mm,
+        layout.page.height_mm,
+        path.display()
+    ))
+}
+
+impl PanelView {
+    /// The current layout (after a frame has been drawn).
+    pub fn layout(&self) -> Option<&Result<PanelLayout, String>> {
+        self.cache.as_ref().map(|c| &c.layout)
+    }
+
+    fn refresh(&mut self, v: &ViewCtx) {
+        let key = (v.generation, self.choices.clone(), v.doc_name.clone());
+        if self.cache.as_ref().is_some_and(|c| c.key == key) {
+            return;
+        }
+        let choices = datum_choices(v.project);
+        let layout =
+            panel_layout(v.project, v.interps, &self.choices.options(), &self.choices.meta(&v.doc_name))
+                .map_err(|e| e.to_string());
+        let index = match &layout {
+            Ok(l) => ItemIndex::build(&l.page.items, l.page.height_mm),
+            Err(_) => ItemIndex::default(),
+        };
+        let page_changed = match (self.cache.as_ref().map(|c| &c.layout), &layout) {
+            (Some(Ok(a)), Ok(b)) => {
+                (a.page.width_mm, a.page.height_mm) != (b.page.width_mm, b.page.height_mm)
+            }
+            _ => true,
+        };
+        self.fit_pending |= page_changed;
+        self.layouts_made += 1;
+        self.cache = Some(PanelCache { key, layout, index, choices });
+    }
+
+    /// Draw the window.
+    pub fn window(&mut self, ctx: &egui::Context, v: &mut ViewCtx, out: &mut ViewsOutcome) {
+        self.refresh(v);
+        let mut open = self.open;
+        egui::Window::new("Correlation panel")
+            .open(&mut open)
+            .default_pos([120.0, 60.0])
+            .default_size([1100.0, 760.0])
+            .resizable(true)
+            .vscroll(false)
+            .show(ctx, |ui| {
+                egui::Panel::left("panel_view_controls").resizable(true).default_size(370.0).show(ui, |ui| {
+                    egui::ScrollArea::vertical().id_salt("panel_view_side").show(ui, |ui| {
+                        self.controls(ui, v, out);
+                    });
+                });
+                egui::CentralPanel::default().show(ui, |ui| self.canvas(ui));
+            });
+        self.open = open;
+    }
+
+    fn controls(&mut self, ui: &mut egui::Ui, v: &mut ViewCtx, out: &mut ViewsOutcome) {
+        let Some(cache) = self.cache.as_ref() else { return };
+        let c = &mut self.choices;
+        let hang = ui.heading("Hang on").id;
+        let current = cache
+            .choices
+            .iter()
+            .find(|d| d.datum == c.datum)
+            .map(|d| d.label.clone())
+            .unwrap_or_else(|| c.datum.label());
+        egui::ComboBox::from_id_salt("panel_datum")
+            .selected_text(current)
+            .width(260.0)
+            .show_ui(ui, |ui| {
+                for d in &cache.choices {
+                    ui.selectable_value(&mut c.datum, d.datum.clone(), &d.label)
+                        .on_hover_text("Line the sections up on this level");
+                }
+            })
+            .response
+            .labelled_by(hang)
+            .on_hover_text("Datum: the section base, a named surface or an accepted boundary");
+        ui.add_space(4.0);
+        egui::Grid::new("panel_options").num_columns(2).spacing([8.0, 4.0]).show(ui, |ui| {
+            let lab = ui.label("Vertical scale 1 :").id;
+            ui.add(egui::DragValue::new(&mut c.scale_denominator).range(1.0..=100_000.0).speed(5.0))
+                .labelled_by(lab)
+                .on_hover_text("The true vertical scale of every column, 1:N");
+            ui.end_row();
+            ui.label("Horizontal scale");
+            ui.horizontal(|ui| {
+                let mut auto = c.horizontal_scale_denominator.is_none();
+                if ui
+                    .checkbox(&mut auto, "fit")
+                    .on_hover_text("Pick a round scale that fits the paper")
+                    .changed()
+                {
+                    c.horizontal_scale_denominator = if auto { None } else { Some(25_000.0) };
+                }
+                if let Some(h) = c.horizontal_scale_denominator.as_mut() {
+                    let lab = ui.label("1 :").id;
+                    ui.add(egui::DragValue::new(h).range(10.0..=1e8).speed(100.0))
+                        .labelled_by(lab)
+                        .on_hover_text("Scale of the gaps between columns, 1:N of the distance");
+                }
+            });
+            ui.end_row();
+            let lab = ui.label("Paper").id;
+            ui.horizontal(|ui| {
+                egui::ComboBox::from_id_salt("panel_paper")
+                    .selected_text(c.paper.name())
+                    .show_ui(ui, |ui| {
+                        for p in [Paper::A4, Paper::A3, Paper::Letter, Paper::TallSingle] {
+                            ui.selectable_value(&mut c.paper, p, p.name());
+                        }
+                    })
+                    .response
+                    .labelled_by(lab);
+                ui.checkbox(&mut c.landscape, "Landscape").on_hover_text("Turn the page sideways");
+            });
+            ui.end_row();
+            let lab = ui.label("Title").id;
+            ui.text_edit_singleline(&mut c.title)
+                .labelled_by(lab)
+                .on_hover_text("Printed at the top (empty: Correlation panel)");
+            ui.end_row();
+            let lab = ui.label("Date printed").id;
+            ui.add(egui::TextEdit::singleline(&mut c.printed_on).hint_text("e.g. 2026-12-01"))
+                .labelled_by(lab)
+                .on_hover_text("Printed in the header; empty prints none");
+            ui.end_row();
+        });
+        ui.horizontal(|ui| {
+            let layout = cache.layout.as_ref().ok();
+            for (label, kind, tip) in [
+                ("Export panel PDF…", SaveKind::Pdf, "Write the panel as a one-page PDF, as drawn here"),
+                ("Export panel SVG…", SaveKind::Svg, "Write the panel as an SVG drawing, as drawn here"),
+            ] {
+                if ui.add_enabled(layout.is_some(), egui::Button::new(label)).on_hover_text(tip).clicked() {
+                    if let (Some(l), Some(path)) = (layout, v.dialogs.pick_save(kind, "correlation-panel")) {
+                        match export_panel(&path, l, &c.title, v.now_secs) {
+                            Ok(msg) => out.status = Some(msg),
+                            Err(e) => out.error = Some(("Could not export the panel".into(), e)),
+                        }
+                    }
+                }
+            }
+        });
+        ui.horizontal(|ui| {
+            if ui.button("Fit").on_hover_text("Show the whole page").clicked() {
+                self.fit_pending = true;
+            }
+            if ui.button("+").on_hover_text("Zoom in (also Ctrl+wheel)").clicked() {
+                self.zoom *= 1.25;
+            }
+            if ui.button("−").on_hover_text("Zoom out (also Ctrl+wheel)").clicked() {
+                self.zoom /= 1.25;
+            }
+        });
+        ui.separator();
+        let layout = match &cache.layout {
+            Ok(l) => l,
+            Err(e) => {
+                ui.colored_label(theme::WARN, e);
+                return;
+            }
+        };
+        for n in &layout.notes {
+            ui.label(egui::RichText::new(n).small().color(theme::WARN));
+        }
+        ui.label(match layout.horizontal.denominator {
+            Some(h) => format!("Gaps at 1:{h:.0} of the distance between sections"),
+            None => "Columns in file order, not spaced by distance".into(),
+        });
+        ui.add_space(4.0);
+        ui.label(egui::RichText::new("Sections (left to right)").strong());
+        let rows: Vec<Vec<String>> = layout
+            .columns
+            .iter()
+            .map(|col| {
+                vec![
+                    col.name.clone(),
+                    format!("{:.0}", col.distance_m),
+                    col.datum_height_m.map(|h| format!("{h:.2}")).unwrap_or_else(|| "none (base)".into()),
+                    fmt_proportion(col.channel_proportion),
+                ]
+            })
+            .collect();
+        text_table(
+            ui,
+            "panel_sections",
+            &["section", "position (m)", "datum at (m)", "channel proportion"],
+            &rows,
+        );
+        ui.add_space(4.0);
+        ui.label(egui::RichText::new("Proportion per interval").strong());
+        let rows: Vec<Vec<String>> = layout
+            .columns
+            .iter()
+            .flat_map(|col| {
+                v.interps.get(col.section_index).into_iter().flat_map(move |it| {
+                    it.interval_proportions.iter().map(move |iv| {
+                        vec![
+                            col.name.clone(),
+                            format!("{:.2}–{:.2}", iv.base_m, iv.top_m),
+                            fmt_proportion(iv.proportion),
+                        ]
+                    })
+                })
+            })
+            .collect();
+        text_table(ui, "panel_intervals", &["section", "interval (m)", "proportion"], &rows);
+        ui.add_space(4.0);
+        ui.label(egui::RichText::new(format!("Tie lines ({})", layout.ties.len())).strong());
+        let rows: Vec<Vec<String>> = layout
+            .ties
+            .iter()
+            .map(|t| {
+                let name = |k: usize| layout.columns.get(k).map(|c| c.name.clone()).unwrap_or_default();
+                vec![
+                    t.name.clone(),
+                    format!("{} {:.2} m", name(t.left), t.left_height_m),
+                    format!("{} {:.2} m", name(t.right), t.right_height_m),
+                    if t.accepted { "accepted".into() } else { "named surface".into() },
+                ]
+            })
+            .collect();
+        text_table(ui, "panel_ties", &["surface", "left", "right", "kind"], &rows);
+        ui.add_space(6.0);
+        caution(ui);
+    }
+
+    fn canvas(&mut self, ui: &mut egui::Ui) {
+        let size = ui.available_size().max(egui::vec2(200.0, 200.0));
+        let (rect, resp) = ui.allocate_exact_size(size, egui::Sense::click_and_drag());
+        let p = ui.painter_at(rect);
+        p.rect_filled(rect, 0.0, theme::CANVAS_BG);
+        let Some(cache) = self.cache.as_mut() else { return };
+        let Ok(layout) = &cache.layout else { return };
+        let page = &layout.page;
+        if self.fit_pending && page.width_mm > 0.0 && page.height_mm > 0.0 {
+            self.zoom = fit_zoom(rect.size(), page.width_mm, page.height_mm);
+            self.pan =
+                (rect.size() - egui::vec2(page.width_mm as f32, page.height_mm as f32) * self.zoom) / 2.0;
+            self.fit_pending = false;
+        }
+        if resp.dragged() {
+            self.pan += resp.drag_delta();
+        }
+        if resp.hovered() {
+            let (scroll, zoom_delta, pointer) =
+                ui.input(|i| (i.smooth_scroll_delta, i.zoom_delta(), i.pointer.hover_pos()));
+            if zoom_delta != 1.0 {
+                // Zoom about the pointer: the page point under it stays put.
+                let at = pointer.unwrap_or(rect.center()) - rect.min;
+                let new_zoom = (self.zoom * zoom_delta).clamp(0.05, 40.0);
+                self.pan = at - (at - self.pan) * (new_zoom / self.zoom);
+                self.zoom = new_zoom;
+            } else {
+                self.pan += scroll;
+            }
+        }
+        let t = MmToScreen { origin: rect.min + self.pan, zoom: self.zoom };
+        let page_rect = egui::Rect::from_min_max(t.pos(0.0, 0.0), t.pos(page.width_mm, page.height_mm));
+        p.rect_filled(page_rect, 0.0, egui::Color32::WHITE);
+        p.rect_stroke(page_rect, 0.0, egui::Stroke::new(1.0, theme::RULE_LINE), egui::StrokeKind::Outside);
+        let which = cache.index.visible(t.y_mm(rect.top()), t.y_mm(rect.bottom()));
+        let mut shapes = Vec::with_capacity(which.len());
+        painter::shapes(&page.items, &which, &t, &mut shapes);
+        p.extend(shapes);
+        painter::texts(&page.items, &which, &t, &p);
+        self.last_drawn_items = which.len();
+    }
+}
+
+/// Screen points per mm that show a whole page in a view, with a small border.
+pub fn fit_zoom(view: egui::Vec2, page_w_mm: f64, page_h_mm: f64) -> f32 {
+    0.96 * (view.x / page_w_mm as f32).min(view.y / page_h_mm as f32)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use aggrade_core::model::{
+        Bed, BedId, Lithology, ReviewDecision, ReviewState, Section, Surface, SurfaceKind,
+    };
+
+    fn section(name: &str, surfaces: &[Option<&str>]) -> Section {
+        let mut s = Section::new(name);
+        for (k, n) in surfaces.iter().enumerate() {
+            let mut b = Bed::new(BedId(k as u64 + 1), 1.0, Lithology::Mudstone, None);
+            b.base_surface = n.map(|n| Surface { name: n.into(), kind: SurfaceKind::Incision });
+            s.beds.push(b);
+        }
+        s
+    }
+
+    #[test]
+    fn datum_choices_list_base_then_each_name_once() {
+        let a = section("A", &[None, Some("SB-1"), Some("T")]);
+        let mut b = section("B", &[None, Some("SB-1")]);
+        b.review.push(ReviewDecision { bed: BedId(1), state: ReviewState::Accepted, note: String::new() });
+        b.review.push(ReviewDecision { bed: BedId(2), state: ReviewState::Accepted, note: String::new() });
+        let c = datum_choices(&Project::new(vec![a, b]));
+        let labels: Vec<&str> = c.iter().map(|d| d.label.as_str()).collect();
+        assert_eq!(
+            labels,
+            [
+                "Section base",
+                "SB-1 (2 sections, accepted boundary)",
+                "T (1 section)",
+                "accepted boundary, B at 0.00 m",
+            ]
+        );
+        assert_eq!(c[0].datum, Datum::Base);
+        assert_eq!(c[3].datum, Datum::Named("accepted:B@0.00".into()));
+    }
+
+    #[test]
+    fn choices_map_onto_the_panel_options_as_the_command_line_does() {
+        let c = PanelChoices {
+            datum: Datum::Named("SB-1".into()),
+            scale_denominator: 200.0,
+            horizontal_scale_denominator: Some(25_000.0),
+            paper: Paper::A4,
+            landscape: false,
+            title: "T".into(),
+            printed_on: " 2026-12-01 ".into(),
+        };
+        let o = c.options();
+        // As `aggrade panel --datum SB-1 --scale 200 --hscale 25000 --paper a4 --title T` builds them.
+        assert_eq!(o.datum, Datum::Named("SB-1".into()));
+        assert_eq!(o.layout.scale_denominator, 200.0);
+        assert_eq!(o.layout.paper, Paper::A4);
+        assert_eq!(o.layout.orientation, Orientation::Portrait);
+        assert_eq!(o.horizontal_scale_denominator, Some(25_000.0));
+        assert_eq!(o.title, "T");
+        assert_eq!(o.min_gap_mm, PanelOptions::default().min_gap_mm);
+        assert_eq!(o.layout.margin_mm, LayoutOptions::default().margin_mm);
+        assert_eq!(c.meta("x.aggrade").printed_on, "2026-12-01");
+        assert_eq!(PanelChoices::default().options().layout.orientation, Orientation::Landscape);
+    }
+
+    #[test]
+    fn fit_shows_the_whole_page() {
+        // A 297 × 420 mm page in an 800 × 600 view: height limits, 600/420 × 0.96 (computed).
+        let z = fit_zoom(egui::vec2(800.0, 600.0), 297.0, 420.0);
+        assert!((z - 0.96 * 600.0 / 420.0).abs() < 1e-5);
+        assert!(297.0 * z <= 800.0 && 420.0 * z <= 600.0);
+    }
+}

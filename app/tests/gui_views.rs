@@ -1,0 +1,351 @@
+//! Drives the comparison and statistics views headlessly (egui_kittest) on the demo project:
+//! the correlation panel draws the core's panel layout item for item and exports what the
+//! command line exports, the statistics and channel-body views show what the core and the
+//! command line compute, and their exports read back (SVG bytes, PDF by pypdf, CSV by Python's
+//! csv module).
+
+use aggrade::gui::document::Edit;
+use aggrade::gui::files::ScriptedDialogs;
+use aggrade::gui::views_panel::datum_choices;
+use aggrade::gui::{AggradeApp, AppConfig};
+use aggrade_core::analysis::bodies::{body_table, thickness_summary};
+use aggrade_core::analysis::paleocurrents::{
+    circular_summary, rose_bins, section_readings, CircularParams, DataKind, PetalScale, RoseParams,
+};
+use aggrade_core::layout::panel::{panel_layout, Datum, PanelOptions};
+use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::rules::{interpret, Interpretation, RuleParams};
+use egui::{Key, Modifiers};
+use egui_kittest::kittest::Queryable;
+use egui_kittest::Harness;
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+fn demo() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/demo.aggrade")
+}
+
+fn harness(data_dir: &Path, answers: Vec<Option<PathBuf>>) -> Harness<'static, AggradeApp> {
+    let app = AggradeApp::new(AppConfig {
+        file: Some(demo()),
+        data_dir: data_dir.to_path_buf(),
+        dialogs: Box::new(ScriptedDialogs { answers: answers.into() }),
+        recent: Vec::new(),
+    });
+    let mut h = Harness::builder()
+        .with_size(egui::vec2(1400.0, 900.0))
+        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app);
+    h.run();
+    h
+}
+
+/// Open a view from the View menu by its label.
+fn open_view(h: &mut Harness<'static, AggradeApp>, label: &str) {
+    let view = h.get_by_label("View").rect().center();
+    h.hover_at(view);
+    h.run();
+    h.get_by_label("View").click();
+    h.run();
+    // Menu items read "label  shortcut".
+    if h.query_by_label_contains(label).is_none() {
+        let all = std::cell::RefCell::new(Vec::new());
+        let _ = h
+            .query_all_by(|n| {
+                all.borrow_mut().extend(n.label());
+                false
+            })
+            .count();
+        panic!("no {label:?} after opening View; labels: {:?}", all.borrow());
+    }
+    h.get_by_label_contains(label).click();
+    h.run();
+    h.run();
+}
+
+fn interps(h: &Harness<'static, AggradeApp>) -> Vec<Interpretation> {
+    let p = &h.state().doc.project;
+    p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect()
+}
+
+/// Is some widget labelled exactly `text` on screen?
+fn shown(h: &Harness<'static, AggradeApp>, text: &str) -> bool {
+    h.query_all_by_label(text).next().is_some()
+}
+
+fn aggrade(args: &[&str]) -> std::process::Output {
+    let out = Command::new(env!("CARGO_BIN_EXE_aggrade"))
+        .args(args)
+        .env_remove("SOURCE_DATE_EPOCH")
+        .output()
+        .expect("the aggrade binary runs");
+    assert!(out.status.success(), "aggrade {args:?}: {}", String::from_utf8_lossy(&out.stderr));
+    out
+}
+
+/// Rows of a CSV file as read by Python's csv module (an independent reader).
+fn python_csv(path: &Path) -> Vec<Vec<String>> {
+    let out = Command::new("python3")
+        .arg("-c")
+        .arg("import csv, json, sys\nprint(json.dumps(list(csv.reader(open(sys.argv[1], newline='')))))")
+        .arg(path)
+        .output()
+        .expect("python3 runs (the independent CSV reader)");
+    assert!(
+        out.status.success(),
+        "python could not read {}: {}",
+        path.display(),
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("JSON rows")
+}
+
+#[test]
+fn panel_view_draws_the_core_panel_and_exports_what_the_command_line_does() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let out = tempfile::tempdir().expect("temp dir");
+    let (svg, pdf) = (out.path().join("gui-panel.svg"), out.path().join("gui-panel.pdf"));
+    let mut h = harness(data.path(), vec![Some(svg.clone()), Some(pdf.clone())]);
+    open_view(&mut h, "Correlation panel");
+    assert!(h.state().views.panel.open);
+
+    // Pick SB-1 from the datum list, by its label.
+    let sb1 = datum_choices(&h.state().doc.project)
+        .into_iter()
+        .find(|d| d.datum == Datum::Named("SB-1".into()))
+        .expect("the demo has SB-1");
+    h.get_by_value("Section base").click();
+    h.run();
+    h.get_by_label(&sb1.label).click();
+    h.run();
+    h.run();
+    assert_eq!(h.state().views.panel.choices.datum, Datum::Named("SB-1".into()));
+
+    // The core's panel with the view's starting options (A3 landscape, 1:500), as
+    // `aggrade panel --datum SB-1 --scale 500 --paper a3 --landscape` builds them.
+    let opts = PanelOptions {
+        datum: Datum::Named("SB-1".into()),
+        layout: LayoutOptions {
+            scale_denominator: 500.0,
+            paper: Paper::A3,
+            orientation: Orientation::Landscape,
+            ..LayoutOptions::default()
+        },
+        ..PanelOptions::default()
+    };
+    let meta = PrintMeta { printed_on: String::new(), subtitle: "demo.aggrade".into() };
+    let core = panel_layout(&h.state().doc.project, &interps(&h), &opts, &meta).expect("panel");
+    let shown_layout = h.state().views.panel.layout().expect("laid out").clone().expect("no error");
+    assert_eq!(shown_layout, core, "the view lays out exactly the core's panel");
+    assert_eq!(
+        h.state().views.panel.last_drawn_items,
+        core.page.items.len(),
+        "the whole page is in view after fitting, so every item is drawn"
+    );
+    // Each column's proportion and the tie lines are listed.
+    for col in &core.columns {
+        assert!(shown(&h, &col.name), "{} listed", col.name);
+        if let Some(p) = col.channel_proportion {
+            assert!(shown(&h, &format!("{p:.3}")), "{}: proportion {p:.3} shown", col.name);
+        }
+    }
+    assert!(!core.ties.is_empty());
+    assert!(shown(&h, &format!("Tie lines ({})", core.ties.len())));
+
+    // No re-layout while nothing changes.
+    let made = h.state().views.panel.layouts_made;
+    for _ in 0..5 {
+        h.run();
+    }
+    assert_eq!(h.state().views.panel.layouts_made, made, "laid out once per revision and choice");
+
+    // Export both ways; the SVG is the command line's SVG byte for byte.
+    h.get_by_label("Export panel SVG…").click();
+    h.run();
+    h.get_by_label("Export panel PDF…").click();
+    h.run();
+    let cli_svg = out.path().join("cli-panel.svg");
+    let demo = demo();
+    aggrade(&[
+        "panel",
+        demo.to_str().expect("utf-8"),
+        "--datum",
+        "SB-1",
+        "--scale",
+        "500",
+        "--paper",
+        "a3",
+        "--landscape",
+        "--svg",
+        cli_svg.to_str().expect("utf-8"),
+    ]);
+    let gui_bytes = std::fs::read(&svg).expect("SVG written");
+    assert_eq!(gui_bytes, std::fs::read(&cli_svg).expect("CLI SVG"), "screen export = command-line export");
+    // pypdf (PyPI) reads the PDF: one page of the layout's size (1 mm = 72/25.4 pt).
+    let script = "import sys, pypdf\nr = pypdf.PdfReader(sys.argv[1])\nb = r.pages[0].mediabox\nprint(len(r.pages), float(b.width), float(b.height))";
+    let py = Command::new("python3").arg("-c").arg(script).arg(&pdf).output().expect("python3 runs");
+    assert!(py.status.success(), "pypdf could not read the PDF: {}", String::from_utf8_lossy(&py.stderr));
+    let text = String::from_utf8_lossy(&py.stdout).to_string();
+    let v: Vec<f64> = text.split_whitespace().map(|x| x.parse().expect("number")).collect();
+    assert_eq!(v[0], 1.0, "one page");
+    assert!((v[1] - core.page.width_mm * 72.0 / 25.4).abs() < 0.01, "{text}");
+    assert!((v[2] - core.page.height_mm * 72.0 / 25.4).abs() < 0.01, "{text}");
+    assert!(h.state().status.contains("gui-panel.pdf"), "status says where: {}", h.state().status);
+}
+
+#[test]
+fn statistics_view_shows_what_the_core_and_command_line_compute() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(data.path(), vec![]);
+    // Opened by its shortcut this time.
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::T);
+    h.run();
+    h.run();
+    assert!(h.state().views.stats.open, "Ctrl+Shift+T opens the statistics");
+
+    // Paleocurrents per section, as the core computes them.
+    let project = h.state().doc.project.clone();
+    for s in &project.sections {
+        let sum = circular_summary(&section_readings(s), &CircularParams::default()).expect("readings");
+        assert!(shown(&h, &sum.n.to_string()), "{}: n", s.name);
+        let mean = sum.mean_azimuth_deg.expect("a mean direction");
+        assert!(shown(&h, &format!("{mean:.1}°")), "{}: vector mean {mean:.1}", s.name);
+        assert!(shown(&h, &format!("{:.3}", sum.mean_resultant_length)), "{}: R̄", s.name);
+        assert!(shown(&h, &format!("{:.1}°", sum.circular_std_deg)), "{}: circular s.d.", s.name);
+        assert!(shown(&h, &format!("{:.3}", sum.rayleigh_z)), "{}: Rayleigh z", s.name);
+    }
+    // The transition analysis of the first section, as `aggrade stats --json` reports it.
+    let first = project.sections[0].name.clone();
+    let demo = demo();
+    let out = aggrade(&["stats", demo.to_str().expect("utf-8"), "--section", &first, "--json"]);
+    let cli: serde_json::Value = serde_json::from_slice(&out.stdout).expect("JSON");
+    let t = &cli["transitions"];
+    let chi = t["chi_square"].as_f64().expect("chi-square");
+    let dof = t["dof"].as_i64().expect("dof");
+    let line = format!("χ² = {chi:.2}, G² = {:.2}, dof = {dof}", t["g_square"].as_f64().expect("G²"));
+    assert!(h.query_by_label_contains(&line).is_some(), "shown: {line}");
+    let shown_t = h.state().views.stats.result().expect("computed").transitions.clone().expect("analysis");
+    assert_eq!(serde_json::to_value(&shown_t.observed).expect("json"), t["observed"]);
+    for (row, cli_row) in shown_t.observed.iter().zip(t["observed"].as_array().expect("rows")) {
+        assert_eq!(row.len(), cli_row.as_array().expect("row").len());
+    }
+    for p in &shown_t.preferred {
+        assert!(shown(&h, &format!("{} → {}", p.from, p.to)), "preferred {} → {} listed", p.from, p.to);
+    }
+    // The rose: core bins for 30° petals by area.
+    let readings = section_readings(&project.sections[0]);
+    let core_rose = rose_bins(&readings, &RoseParams::default()).expect("rose");
+    assert_eq!(h.state().views.stats.result().expect("computed").rose.as_ref().expect("rose"), &core_rose);
+
+    // Nothing is computed again while nothing changes.
+    let n = h.state().views.stats.computations;
+    for _ in 0..5 {
+        h.run();
+    }
+    assert_eq!(h.state().views.stats.computations, n, "computed once per revision and choice");
+
+    // Axial data and 45° petals by count: the shown numbers follow.
+    h.get_by_label("Axial").click();
+    h.run();
+    h.get_by_value("30°").click();
+    h.run();
+    h.get_by_label("45°").click();
+    h.run();
+    h.get_by_label("Petal length ∝ count").click();
+    h.run();
+    h.run();
+    let axial = CircularParams { kind: DataKind::Axial, ..Default::default() };
+    let sum = circular_summary(&readings, &axial).expect("readings");
+    let mean = sum.mean_azimuth_deg.expect("axial mean");
+    assert!((0.0..180.0).contains(&mean));
+    assert!(shown(&h, &format!("{mean:.1}°")), "axial mean {mean:.1}° shown");
+    let core_rose = rose_bins(
+        &readings,
+        &RoseParams {
+            bin_width_deg: 45.0,
+            scale: PetalScale::Count,
+            kind: DataKind::Axial,
+            ..Default::default()
+        },
+    )
+    .expect("rose");
+    assert_eq!(core_rose.bins.len(), 8);
+    assert_eq!(h.state().views.stats.result().expect("computed").rose.as_ref().expect("rose"), &core_rose);
+
+    // An edit makes a new revision: computed again, once.
+    let n = h.state().views.stats.computations;
+    let bed = h.state().doc.section().beds[0].clone();
+    h.state_mut().apply(Edit::SetThickness { bed: bed.id, thickness_m: bed.thickness_m + 0.5 });
+    h.run();
+    h.run();
+    assert_eq!(h.state().views.stats.computations, n + 1);
+}
+
+#[test]
+fn channel_body_view_shows_the_summary_and_writes_csv_files() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let out = tempfile::tempdir().expect("temp dir");
+    let (bodies_csv, curve_csv) = (out.path().join("bodies.csv"), out.path().join("curve.csv"));
+    let mut h = harness(data.path(), vec![Some(bodies_csv.clone()), Some(curve_csv.clone())]);
+    open_view(&mut h, "Channel bodies");
+    assert!(h.state().views.bodies.open);
+
+    let it = interps(&h);
+    let rows = body_table(it.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));
+    let s = thickness_summary(&rows).expect("the demo has channel bodies");
+    assert!(shown(&h, &format!("Channel bodies ({})", rows.len())));
+    for v in [s.mean_m, s.median_m, s.p10_m, s.p50_m, s.p90_m] {
+        assert!(shown(&h, &format!("{v:.2}")), "summary value {v:.2} shown");
+    }
+    assert!(shown(&h, &s.count.to_string()));
+    assert!(shown(&h, &format!("{} / {}", s.multi_story, s.single_story)));
+
+    // Exports through the dialogs, read back by Python's csv module.
+    h.get_by_label("Export bodies CSV…").click();
+    h.run();
+    h.get_by_label("Export proportion curve CSV…").click();
+    h.run();
+    let table = python_csv(&bodies_csv);
+    assert_eq!(table[0][..4], ["section", "base_m", "top_m", "thickness_m"]);
+    assert_eq!(table.len(), rows.len() + 1, "a header and one row per body");
+    for (r, c) in rows.iter().zip(&table[1..]) {
+        assert_eq!(c[0], r.section);
+        let t: f64 = c[3].parse().expect("thickness");
+        assert!((t - r.thickness_m).abs() <= 0.0005 + 1e-12, "{} vs {}", c[3], r.thickness_m);
+    }
+    let curve = python_csv(&curve_csv);
+    assert_eq!(curve[0], ["section", "height_m", "proportion"]);
+    assert_eq!(curve.len(), 1 + it.iter().map(|i| i.proportion_curve.len()).sum::<usize>());
+
+    // Decompaction from 2000 m burial: the per-section thicknesses are those of
+    // `aggrade bodies --burial-depth 2000`.
+    h.state_mut().views.bodies.burial_depth_m = 2000.0;
+    h.get_by_label("Decompact").click();
+    h.run();
+    h.run();
+    assert!(h.state().views.bodies.decompact);
+    let demo = demo();
+    let csv = out.path().join("cli-bodies.csv");
+    let cli = aggrade(&[
+        "bodies",
+        demo.to_str().expect("utf-8"),
+        "--csv",
+        csv.to_str().expect("utf-8"),
+        "--burial-depth",
+        "2000",
+    ]);
+    let text = String::from_utf8_lossy(&cli.stdout).to_string();
+    let mut checked = 0;
+    for line in text.lines().filter(|l| l.contains("decompacted from 2000 m burial:")) {
+        // "  decompacted from 2000 m burial: A m → B m; channel proportion p → q"
+        let after = line.split("burial: ").nth(1).expect("numbers");
+        let (present, rest) = after.split_once(" m → ").expect("present");
+        let restored = rest.split(" m;").next().expect("restored");
+        let want = format!("({present} → {restored} m)");
+        assert!(h.query_by_label_contains(&want).is_some(), "shown: {want}");
+        checked += 1;
+    }
+    assert_eq!(checked, h.state().doc.project.sections.len(), "one line per section");
+    let r = h.state().views.bodies.result().expect("computed");
+    assert!(r.decompacted_m.iter().all(Option::is_some));
+    assert!(shown(&h, "decompacted (m)"));
+}
