@@ -413,6 +413,32 @@ fn a_long_section_scrolls_to_a_picked_boundary_in_column_and_table() {
 }
 
 #[test]
+fn opening_another_file_shows_its_own_column_and_interpretation() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(app(None, data.path(), vec![]));
+    h.run();
+    assert!(!h.state_mut().interpretation().channel_bodies.is_empty(), "the demo has channel bodies");
+    // Another unedited file: its revision counter starts where the demo's did.
+    let mut mud = Section::new("Mud only");
+    mud.beds = vec![aggrade_core::model::Bed::new(
+        aggrade_core::model::BedId(1),
+        4.0,
+        Lithology::Mudstone,
+        Some(GrainSize::Class(WentworthClass::Clay)),
+    )];
+    let other = data.path().join("mud.aggrade");
+    aggrade::gui::files::save(&other, &Project::new(vec![mud.clone()])).expect("saved");
+    h.state_mut().open_path(&other);
+    h.run();
+    let expected = aggrade_core::rules::interpret(&mud, &aggrade_core::rules::RuleParams::default());
+    assert_eq!(h.state_mut().interpretation(), &expected, "the new file's interpretation, not the old one's");
+    let id = h.state().doc.section().beds[0].id;
+    let r = h.state().bed_rect_on_screen(id).expect("the new bed is drawn");
+    assert!(r.height() > 1.0);
+    assert!(h.state().drawn_items().1 < 200, "the demo column is gone");
+}
+
+#[test]
 fn right_click_menu_splits_and_deletes_beds() {
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(app(None, data.path(), vec![]));

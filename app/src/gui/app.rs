@@ -387,7 +387,7 @@ impl AggradeApp {
     fn proceed(&mut self, action: Pending, ctx: &egui::Context) {
         match action {
             Pending::New => {
-                self.doc = Document::new(Project::new(vec![Section::new("New section")]), None);
+                self.replace_document(Document::new(Project::new(vec![Section::new("New section")]), None));
                 self.autosaver.clear();
                 self.status = "New project".into();
             }
@@ -400,12 +400,20 @@ impl AggradeApp {
         }
     }
 
+    /// Put another document in the window. A new document starts its revisions again, so what
+    /// was computed and laid out for the old one is dropped here, and the column is fitted anew.
+    fn replace_document(&mut self, doc: Document) {
+        self.doc = doc;
+        self.cache = None;
+        self.canvas = Canvas::default();
+    }
+
     /// Open a project or bed table, replacing the document; bad files give a dialog.
     pub fn open_path(&mut self, path: &Path) {
         match files::open(path) {
             Ok((project, warnings)) => {
                 let is_project = path.extension().is_some_and(|e| e == "aggrade" || e == "json");
-                self.doc = Document::new(project, is_project.then(|| path.to_path_buf()));
+                self.replace_document(Document::new(project, is_project.then(|| path.to_path_buf())));
                 self.autosaver.clear();
                 files::push_recent(&mut self.recent, path);
                 self.status = format!("Opened {}", path.display());
@@ -829,7 +837,7 @@ impl AggradeApp {
                         let mut doc = Document::new(rec.project.clone(), rec.original_path.clone());
                         doc.dirty = true;
                         doc.revision = rec.revision + 1;
-                        self.doc = doc;
+                        self.replace_document(doc);
                         self.recovery_offer = None;
                         self.status = "Restored unsaved work; save to keep it".into();
                     }
