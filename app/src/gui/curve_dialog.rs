@@ -82,7 +82,7 @@ impl CurveDialog {
                     ui.label(egui::RichText::new(w).small().color(super::theme::WARN));
                 }
                 egui::Grid::new("curve_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
-                    ui.label("Curve");
+                    let label = ui.label("Curve");
                     let items: Vec<(String, String)> = self
                         .las
                         .curve_items
@@ -97,10 +97,12 @@ impl CurveDialog {
                     egui::ComboBox::from_id_salt("curve_mnemonic")
                         .selected_text(self.mnemonic.clone())
                         .show_ui(ui, |ui| {
-                            for (m, label) in items {
-                                ui.selectable_value(&mut self.mnemonic, m, label);
+                            for (m, text) in items {
+                                ui.selectable_value(&mut self.mnemonic, m, text);
                             }
-                        });
+                        })
+                        .response
+                        .labelled_by(label.id);
                     ui.end_row();
                     ui.label("Index runs");
                     ui.horizontal(|ui| {
