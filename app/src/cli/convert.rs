@@ -49,9 +49,13 @@ pub fn run(args: &ConvertArgs) -> anyhow::Result<()> {
             let section = super::one_section(&project, &args.file, args.section.as_deref())?;
             io::write_bytes_atomic(&args.output, io::write_bed_table(section).as_bytes())
                 .map_err(|e| anyhow::anyhow!("{e}"))?;
-            if !section.locality.is_empty() || section.coordinates.is_some() || !section.review.is_empty() {
+            if !section.locality.is_empty()
+                || section.coordinates.is_some()
+                || !section.review.is_empty()
+                || !section.curves.is_empty()
+            {
                 eprintln!(
-                    "note: a bed table holds beds only; section metadata and review decisions of {:?} are not in {}",
+                    "note: a bed table holds beds only; section metadata, review decisions and measured curves of {:?} are not in {}",
                     section.name,
                     args.output.display()
                 );

@@ -3,6 +3,7 @@
 pub mod bodies;
 pub mod check;
 pub mod convert;
+pub mod curve;
 pub mod export;
 pub mod interpret;
 pub mod panel;
@@ -41,6 +42,9 @@ pub enum Command {
     Bodies(bodies::BodiesArgs),
     /// Correlation panel of a project's sections hung on a datum, to PDF or SVG.
     Panel(panel::PanelArgs),
+    /// Attach a measured curve (e.g. gamma ray) from a LAS 2.0 file to a section, remove one, or
+    /// list them.
+    Curve(curve::CurveArgs),
 }
 
 /// Run the parsed command line; errors are reported once, here, in plain words.
@@ -53,6 +57,7 @@ pub fn main(cli: Cli) -> ExitCode {
         Some(Command::Stats(a)) => stats::run(&a),
         Some(Command::Bodies(a)) => bodies::run(&a),
         Some(Command::Panel(a)) => panel::run(&a),
+        Some(Command::Curve(a)) => curve::run(&a),
         None => crate::gui::run(cli.file),
     };
     match result {

@@ -3,6 +3,7 @@
 
 use super::actions::Actions;
 use super::canvas::{self, Canvas};
+use super::curve_dialog::{self, CurveDialog};
 use super::document::{Document, Edit};
 use super::engine::{self, LayoutOptions, RuleParams, Strip};
 use super::export_dialog::ExportDialog;
@@ -156,6 +157,7 @@ pub struct AggradeApp {
     table: BedTable,
     inspector: Inspector,
     export: Option<ExportDialog>,
+    curve_dialog: Option<CurveDialog>,
     cache: Option<Cache>,
     dialogs: Box<dyn FileDialogs>,
     autosaver: Autosaver,
@@ -211,6 +213,7 @@ impl AggradeApp {
             table: BedTable::default(),
             inspector: Inspector::default(),
             export: None,
+            curve_dialog: None,
             cache: None,
             dialogs: config.dialogs,
             autosaver: Autosaver::new(&config.data_dir),
@@ -441,6 +444,15 @@ impl AggradeApp {
                 }
             }
             Err(e) => self.message = Some(("Could not import the file".into(), e)),
+        }
+    }
+
+    /// Ask for a LAS file and open the attach window on it; a bad file gives the reader's message.
+    pub fn pick_curve(&mut self) {
+        let Some(path) = self.dialogs.pick_las() else { return };
+        match CurveDialog::open(&path) {
+            Ok(dlg) => self.curve_dialog = Some(dlg),
+            Err(e) => self.message = Some(("Could not read the LAS file".into(), e)),
         }
     }
 
@@ -750,6 +762,26 @@ impl AggradeApp {
                         self.apply(Edit::AddSection { section: Section::new(format!("Section {k}")) });
                         ui.close();
                     }
+                    ui.separator();
+                    if ui
+                        .button("Attach measured curve (LAS)…")
+                        .on_hover_text("Read a curve such as gamma ray from a LAS 2.0 file and draw it beside the column")
+                        .clicked()
+                    {
+                        ui.close();
+                        self.pick_curve();
+                    }
+                    let attached: Vec<String> = self.doc.section().curves.iter().map(|c| c.mnemonic.clone()).collect();
+                    for m in attached {
+                        if ui
+                            .button(format!("Remove curve {m}"))
+                            .on_hover_text("Take this measured curve off the section (Ctrl+Z brings it back)")
+                            .clicked()
+                        {
+                            self.apply(Edit::RemoveCurve { mnemonic: m });
+                            ui.close();
+                        }
+                    }
                 });
                 ui.separator();
                 ui.label(egui::RichText::new(&self.doc.section().name).strong());
@@ -881,6 +913,20 @@ impl AggradeApp {
                     self.message = None;
                 }
             });
+        }
+        if let Some(dlg) = self.curve_dialog.as_mut() {
+            match dlg.ui(ctx, self.doc.section()) {
+                curve_dialog::Outcome::Open => {}
+                curve_dialog::Outcome::Closed => self.curve_dialog = None,
+                curve_dialog::Outcome::Attach(curve) => {
+                    self.curve_dialog = None;
+                    let title = curve.title();
+                    match self.doc.apply(Edit::AttachCurve { curve }) {
+                        Ok(()) => self.status = format!("Attached {title} (Ctrl+Z takes it off)"),
+                        Err(e) => self.message = Some(("Could not attach the curve".into(), e.to_string())),
+                    }
+                }
+            }
         }
         if let (Some(dlg), Some(cache)) = (self.export.as_mut(), self.cache.as_ref()) {
             let section = self.doc.section().clone();

@@ -2,7 +2,9 @@
 //! gestures (a drag or a typed value is one undo step), dirty tracking and a revision counter
 //! that caches and the autosave watch.
 
-use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Project, ReviewDecision, ReviewState, Section};
+use aggrade_core::model::{
+    Bed, BedId, GrainSize, LengthUnit, MeasuredCurve, Project, ReviewDecision, ReviewState, Section,
+};
 use std::path::PathBuf;
 
 /// How many undo steps are kept (older ones are dropped first).
@@ -35,6 +37,10 @@ pub enum Edit {
     AddSection { section: Section },
     /// Replace the whole project (an import into the open document).
     ReplaceProject { project: Project },
+    /// Attach a measured curve to the selected section (replacing one with the same mnemonic).
+    AttachCurve { curve: MeasuredCurve },
+    /// Remove the selected section's curve with this mnemonic.
+    RemoveCurve { mnemonic: String },
 }
 
 /// Why an edit was refused; shown to the user as is.
@@ -365,6 +371,22 @@ impl Work {
                 self.selected_section = 0;
                 self.selected_bed = None;
             }
+            Edit::AttachCurve { curve } => {
+                let s = self.section();
+                s.attach_curve(curve);
+                // A curve that would not save (and so not open again) is refused here.
+                let problem = aggrade_core::io::validate_section(s)
+                    .into_iter()
+                    .find(|p| p.location.starts_with("curves"));
+                if let Some(p) = problem {
+                    return Err(EditError(format!("the curve cannot be attached: {p}")));
+                }
+            }
+            Edit::RemoveCurve { mnemonic } => {
+                if self.section().remove_curve(&mnemonic).is_none() {
+                    return Err(EditError(format!("the section has no curve {mnemonic:?}")));
+                }
+            }
         }
         Ok(())
     }
@@ -460,6 +482,40 @@ mod tests {
         assert_eq!(d.section().review.len(), 1);
         d.apply(Edit::DeleteBed { bed: BedId(2) }).expect("delete");
         assert!(d.section().review.is_empty());
+    }
+
+    #[test]
+    fn curves_attach_replace_remove_and_undo() {
+        use aggrade_core::model::IndexDirection;
+        let mut d = doc_with_beds(2);
+        let gr = MeasuredCurve {
+            mnemonic: "GR".into(),
+            unit: "API".into(),
+            description: String::new(),
+            source_file: "gr.las".into(),
+            offset_m: 0.0,
+            direction: IndexDirection::HeightAboveDatum,
+            samples: vec![(0.0, Some(50.0)), (1.0, Some(70.0))],
+        };
+        d.apply(Edit::AttachCurve { curve: gr.clone() }).expect("attach");
+        let mut again = gr.clone();
+        again.samples.push((2.0, None));
+        d.apply(Edit::AttachCurve { curve: again }).expect("replace");
+        assert_eq!(d.section().curves.len(), 1, "same mnemonic replaces");
+        assert_eq!(d.section().curves[0].samples.len(), 3);
+        let mut unsorted = gr.clone();
+        unsorted.mnemonic = "K".into();
+        unsorted.samples.reverse();
+        let e = d.apply(Edit::AttachCurve { curve: unsorted }).expect_err("unsorted refused");
+        assert!(e.0.contains("curves[1].samples[1]"), "{e}");
+        d.apply(Edit::RemoveCurve { mnemonic: "gr".into() }).expect("remove");
+        assert!(d.section().curves.is_empty());
+        assert!(d.apply(Edit::RemoveCurve { mnemonic: "GR".into() }).is_err());
+        assert!(d.undo());
+        assert_eq!(d.section().curves.len(), 1);
+        assert!(d.undo());
+        assert!(d.undo());
+        assert!(d.section().curves.is_empty());
     }
 
     #[test]

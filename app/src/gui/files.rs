@@ -21,6 +21,10 @@ pub trait FileDialogs {
     fn pick_csv(&mut self) -> Option<PathBuf>;
     /// Pick where to save.
     fn pick_save(&mut self, kind: SaveKind, suggested_name: &str) -> Option<PathBuf>;
+    /// Pick a LAS 2.0 log file (a measured curve to attach); scripted dialogs answer as for open.
+    fn pick_las(&mut self) -> Option<PathBuf> {
+        self.pick_open()
+    }
 }
 
 /// The system's file dialogs (rfd).
@@ -36,6 +40,12 @@ impl FileDialogs for SystemDialogs {
     }
     fn pick_csv(&mut self) -> Option<PathBuf> {
         rfd::FileDialog::new().add_filter("Bed table (CSV)", &["csv"]).pick_file()
+    }
+    fn pick_las(&mut self) -> Option<PathBuf> {
+        rfd::FileDialog::new()
+            .add_filter("LAS 2.0 log", &["las", "LAS"])
+            .add_filter("All files", &["*"])
+            .pick_file()
     }
     fn pick_save(&mut self, kind: SaveKind, suggested_name: &str) -> Option<PathBuf> {
         let (name, ext) = match kind {

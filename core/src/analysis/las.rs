@@ -9,12 +9,12 @@
 //! values on following lines. Values equal to NULL become `None`. Depths in feet are converted
 //! to metres (1 ft = 0.3048 m exactly).
 //!
-//! Curves are analysis data, not part of the section model. To show them beside a column, keep
-//! them next to the section (e.g. a project-level list of `(section name, Curve)` pairs saved
-//! with the project, or a `curves` field added to `Section` by whoever owns the model), place
-//! them with [`IndexToSection`], and summarise them bed by bed with [`bed_means`].
+//! Place curves on section heights with [`IndexToSection`]; [`LasFile::measured_curve`] gives
+//! one curve ready to attach to a section (it is then saved with the project and drawn beside
+//! the column), and [`bed_means`] summarises a curve bed by bed.
 
-use crate::model::METRES_PER_FOOT;
+pub use crate::model::IndexDirection;
+use crate::model::{MeasuredCurve, METRES_PER_FOOT};
 use serde::Serialize;
 use std::path::Path;
 
@@ -74,15 +74,6 @@ pub struct LasFile {
     pub warnings: Vec<String>,
 }
 
-/// How the file's index relates to the section's heights.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
-pub enum IndexDirection {
-    /// The index is depth, increasing downward: height = `zero_m` − depth.
-    DepthBelowDatum,
-    /// The index is already height, increasing upward: height = index − `zero_m`.
-    HeightAboveDatum,
-}
-
 /// Where the section's zero (its base) lies on the file's index.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct IndexToSection {
@@ -94,14 +85,8 @@ pub struct IndexToSection {
 impl LasFile {
     /// The non-index curves on section heights.
     pub fn curves(&self, placement: &IndexToSection) -> Vec<Curve> {
-        let heights: Vec<f64> = self
-            .index_m
-            .iter()
-            .map(|d| match placement.direction {
-                IndexDirection::DepthBelowDatum => placement.zero_m - d,
-                IndexDirection::HeightAboveDatum => d - placement.zero_m,
-            })
-            .collect();
+        let heights: Vec<f64> =
+            self.index_m.iter().map(|d| placement.direction.height_m(*d, placement.zero_m)).collect();
         self.curve_items
             .iter()
             .skip(1)
@@ -113,6 +98,61 @@ impl LasFile {
                 samples: heights.iter().copied().zip(vals.iter().copied()).collect(),
             })
             .collect()
+    }
+
+    /// Mnemonics of the non-index curves, in ~C order.
+    pub fn curve_mnemonics(&self) -> Vec<&str> {
+        self.curve_items.iter().skip(1).map(|i| i.mnemonic.as_str()).collect()
+    }
+
+    /// One curve (by mnemonic, case-insensitive) placed on section heights and sorted lowest
+    /// first, ready to attach to a section. `path` names the file in messages and is kept (its
+    /// file name only) as the curve's source.
+    pub fn measured_curve(
+        &self,
+        mnemonic: &str,
+        placement: &IndexToSection,
+        path: &str,
+    ) -> Result<MeasuredCurve, LasError> {
+        let k = self.curve_items.iter().skip(1).position(|i| i.mnemonic.eq_ignore_ascii_case(mnemonic));
+        let Some(k) = k else {
+            let found = self.curve_mnemonics().join(", ");
+            return Err(LasError::Missing {
+                path: path.to_string(),
+                message: format!(
+                    "no curve {mnemonic:?} in ~C; the file has {}",
+                    if found.is_empty() { "no curves besides the index".to_string() } else { found }
+                ),
+            });
+        };
+        if !placement.zero_m.is_finite() {
+            return Err(LasError::Missing {
+                path: path.to_string(),
+                message: format!("the offset must be a finite number of metres, got {}", placement.zero_m),
+            });
+        }
+        let item = &self.curve_items[k + 1];
+        let mut samples: Vec<(f64, Option<f64>)> = self
+            .index_m
+            .iter()
+            .zip(&self.values[k])
+            .map(|(d, v)| (placement.direction.height_m(*d, placement.zero_m), *v))
+            .collect();
+        // Stable: samples at the same height keep their file order.
+        samples.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let source_file = std::path::Path::new(path)
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| path.to_string());
+        Ok(MeasuredCurve {
+            mnemonic: item.mnemonic.clone(),
+            unit: item.unit.clone(),
+            description: item.description.clone(),
+            source_file,
+            offset_m: placement.zero_m,
+            direction: placement.direction,
+            samples,
+        })
     }
 
     /// A ~W item by mnemonic (case-insensitive).
@@ -482,6 +522,22 @@ mod tests {
         assert_eq!(c[0].mnemonic, "GR");
         assert_eq!(c[0].unit, "API");
         assert_eq!(c[0].samples, vec![(1.0, Some(45.0)), (0.5, None), (0.0, Some(80.5))]);
+    }
+
+    #[test]
+    fn a_measured_curve_is_sorted_lowest_first_and_names_its_source() {
+        let f = parse_las(SMALL, "/field/2026/small.las").expect("valid");
+        let down = IndexToSection { direction: IndexDirection::DepthBelowDatum, zero_m: 2.0 };
+        let c = f.measured_curve("gr", &down, "/field/2026/small.las").expect("GR is there");
+        // Depths 1.0, 1.5, 2.0 below a datum whose base is at depth 2 m: heights 1, 0.5, 0.
+        assert_eq!(c.samples, vec![(0.0, Some(80.5)), (0.5, None), (1.0, Some(45.0))]);
+        assert_eq!((c.mnemonic.as_str(), c.unit.as_str()), ("GR", "API"));
+        assert_eq!(c.source_file, "small.las");
+        assert_eq!((c.offset_m, c.direction), (2.0, IndexDirection::DepthBelowDatum));
+        let e = f.measured_curve("TH", &down, "small.las").expect_err("no TH");
+        assert_eq!(e.to_string(), "small.las: no curve \"TH\" in ~C; the file has GR");
+        let bad = IndexToSection { direction: IndexDirection::HeightAboveDatum, zero_m: f64::NAN };
+        assert!(f.measured_curve("GR", &bad, "small.las").is_err());
     }
 
     #[test]

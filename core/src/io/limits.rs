@@ -13,13 +13,21 @@ pub const MAX_SECTIONS: usize = 1_000;
 /// Most beds in one section (and rows in one bed-table CSV).
 pub const MAX_BEDS_PER_SECTION: usize = 100_000;
 
+/// Most measured curves attached to one section.
+pub const MAX_CURVES_PER_SECTION: usize = 32;
+
+/// Most samples in one measured curve (a hand-held gamma-ray profile every 0.1 m over 1 km is
+/// 10,000; a borehole log every 0.15 m over 3 km about 20,000).
+pub const MAX_CURVE_SAMPLES: usize = 100_000;
+
 /// Most items in any one JSON array (beds, paleocurrents, samples …); checked before parsing.
 pub const MAX_ARRAY_ITEMS: usize = MAX_BEDS_PER_SECTION;
 
 /// Longest text value (names, notes, colours …), in characters.
 pub const MAX_STRING_CHARS: usize = 10_000;
 
-/// Deepest nesting of JSON arrays and objects. A valid project nests 6 levels deep.
+/// Deepest nesting of JSON arrays and objects. A valid project nests 7 levels deep (a measured
+/// curve's sample pair inside its curve inside a section).
 pub const MAX_JSON_DEPTH: usize = 16;
 
 /// Most problems listed in one error (the count of the rest is still given).

@@ -41,6 +41,7 @@ const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("beds", Kind::List(|_| Ok(()))),
     ("review", Kind::List(check::<ReviewDecision>)),
     ("panel_position_m", Kind::Optional(check::<Option<f64>>)),
+    ("curves", Kind::List(super::curve_fields::check_curve)),
 ];
 
 const BED_FIELDS: &[(&str, Kind)] = &[

@@ -1,9 +1,11 @@
 //! Validation of sections and projects: every rule a loaded or edited section must satisfy, each
 //! broken rule reported as a [`Problem`] with its path and what would be valid.
 
-use super::limits::{MAX_BEDS_PER_SECTION, MAX_SECTIONS, MAX_STRING_CHARS};
+use super::limits::{
+    MAX_BEDS_PER_SECTION, MAX_CURVES_PER_SECTION, MAX_CURVE_SAMPLES, MAX_SECTIONS, MAX_STRING_CHARS,
+};
 use super::problem::Problem;
-use crate::model::{GrainSize, GrainSizeRule, Project, Section};
+use crate::model::{GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
 use std::collections::HashMap;
 
 /// Largest thickness (or erosional relief) accepted for one bed, metres. No single bed of a
@@ -156,7 +158,92 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         }
         check_text(&mut out, &format!("review[{k}].note"), &d.note);
     }
+    validate_curves(&section.curves, &mut out);
     out
+}
+
+/// Most problems reported for the samples of one curve (a whole bad curve would otherwise list
+/// every sample); the count of the rest is given.
+const MAX_SAMPLE_PROBLEMS: usize = 10;
+
+/// Measured curves: limits, unique mnemonics, finite offsets, finite sorted heights, finite values.
+fn validate_curves(curves: &[MeasuredCurve], out: &mut Vec<Problem>) {
+    if curves.len() > MAX_CURVES_PER_SECTION {
+        out.push(Problem::new(
+            "curves",
+            format!("{} curves; at most {MAX_CURVES_PER_SECTION} per section", curves.len()),
+        ));
+        return;
+    }
+    let mut first_with: HashMap<String, usize> = HashMap::new();
+    for (k, c) in curves.iter().enumerate() {
+        let at = |field: &str| format!("curves[{k}].{field}");
+        if c.mnemonic.trim().is_empty() {
+            out.push(Problem::new(at("mnemonic"), "must not be empty (e.g. GR)"));
+        } else if let Some(first) = first_with.get(&c.mnemonic.trim().to_lowercase()) {
+            out.push(Problem::new(
+                at("mnemonic"),
+                format!(
+                    "{:?} is also the mnemonic of curves[{first}]; a section's curves need different mnemonics",
+                    c.mnemonic
+                ),
+            ));
+        } else {
+            first_with.insert(c.mnemonic.trim().to_lowercase(), k);
+        }
+        for (field, text) in [
+            ("mnemonic", &c.mnemonic),
+            ("unit", &c.unit),
+            ("description", &c.description),
+            ("source_file", &c.source_file),
+        ] {
+            check_text(out, &at(field), text);
+        }
+        if !c.offset_m.is_finite() {
+            out.push(Problem::new(
+                at("offset_m"),
+                format!("must be a finite number of metres, got {}", show(c.offset_m)),
+            ));
+        }
+        if c.samples.len() > MAX_CURVE_SAMPLES {
+            out.push(Problem::new(
+                at("samples"),
+                format!("{} samples; at most {MAX_CURVE_SAMPLES} per curve", c.samples.len()),
+            ));
+            continue;
+        }
+        let mut found = 0usize;
+        let mut previous: Option<f64> = None;
+        for (i, &(h, v)) in c.samples.iter().enumerate() {
+            let why = if !h.is_finite() {
+                Some(format!("height must be a finite number of metres, got {}", show(h)))
+            } else if let Some(p) = previous.filter(|p| h < *p) {
+                Some(format!(
+                    "height {} m is below the previous sample's {} m; samples must be sorted lowest first",
+                    show(h),
+                    show(p)
+                ))
+            } else {
+                v.filter(|v| !v.is_finite())
+                    .map(|v| format!("value must be a finite number or null (a gap), got {}", show(v)))
+            };
+            if h.is_finite() {
+                previous = Some(h);
+            }
+            if let Some(why) = why {
+                found += 1;
+                if found <= MAX_SAMPLE_PROBLEMS {
+                    out.push(Problem::new(format!("curves[{k}].samples[{i}]"), why));
+                }
+            }
+        }
+        if found > MAX_SAMPLE_PROBLEMS {
+            out.push(Problem::new(
+                at("samples"),
+                format!("{} more samples have problems like those above", found - MAX_SAMPLE_PROBLEMS),
+            ));
+        }
+    }
 }
 
 /// Every problem in a project, located from its root (`sections[2].beds[0].thickness_m`).
@@ -295,6 +382,47 @@ mod tests {
             assert!(locations.iter().any(|l| l == expected), "{expected} missing from {locations:?}");
         }
         assert_eq!(locations.len(), 11, "{locations:?}");
+    }
+
+    #[test]
+    fn curve_problems_name_the_curve_and_sample() {
+        use crate::model::IndexDirection;
+        let mut s = Section::new("Kestrel Bluff");
+        s.beds = vec![sand(1, 10.0)];
+        let good = MeasuredCurve {
+            mnemonic: "GR".into(),
+            unit: "API".into(),
+            description: String::new(),
+            source_file: "gr.las".into(),
+            offset_m: 10.0,
+            direction: IndexDirection::DepthBelowDatum,
+            samples: vec![(0.0, Some(60.0)), (0.5, None), (0.5, Some(61.0)), (1.0, Some(62.0))],
+        };
+        s.curves = vec![good.clone()];
+        assert_eq!(validate_section(&s), vec![], "equal heights and NULL gaps are fine");
+        let mut bad = good.clone();
+        bad.mnemonic = "gr".into();
+        bad.offset_m = f64::NAN;
+        bad.samples = vec![(1.0, Some(1.0)), (0.5, Some(2.0)), (f64::INFINITY, None), (2.0, Some(f64::NAN))];
+        s.curves.push(bad);
+        let locations: Vec<String> = validate_section(&s).into_iter().map(|p| p.location).collect();
+        assert_eq!(
+            locations,
+            [
+                "curves[1].mnemonic",
+                "curves[1].offset_m",
+                "curves[1].samples[1]",
+                "curves[1].samples[2]",
+                "curves[1].samples[3]"
+            ]
+        );
+        // A long run of bad samples is summarised after the first ten.
+        let mut many = good;
+        many.samples = (0..50).map(|i| (-(i as f64), Some(1.0))).collect();
+        s.curves = vec![many];
+        let problems = validate_section(&s);
+        assert_eq!(problems.len(), MAX_SAMPLE_PROBLEMS + 1, "{problems:?}");
+        assert!(problems[MAX_SAMPLE_PROBLEMS].message.starts_with("39 more samples"), "{problems:?}");
     }
 
     #[test]

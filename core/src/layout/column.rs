@@ -1,7 +1,8 @@
 //! Drawing one height range of the interpreted column (a segment): height axis, lithology column,
-//! structures, paleocurrents, paleosols and the interpretation tracks, plus the segment's track
-//! titles above and grain-size scale below. Used by both the screen strip and the printed pages.
+//! structures, paleocurrents, paleosols, the interpretation tracks and measured-curve tracks,
+//! plus the segment's track titles above and grain-size scale (and curve value axes) below. Used by both the screen strip and the printed pages.
 
+use super::curve_track::{self, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_TRACKS};
 use super::items::{Item, PtMm, RectMm, Rgba, Stroke};
 use super::options::LayoutOptions;
 use super::patterns::fill_bed;
@@ -54,6 +55,8 @@ pub struct Tracks {
     pub proportion: Option<Track>,
     pub regime: Option<Track>,
     pub boundary_labels: Option<Track>,
+    /// Measured-curve tracks, right of all the others (none unless curves are attached).
+    pub curves: CurveTracks,
     /// Total width of a segment, mm.
     pub width_mm: f64,
 }
@@ -98,8 +101,17 @@ impl Tracks {
             proportion,
             regime,
             boundary_labels,
+            curves: CurveTracks::none(x),
             width_mm: x,
         }
+    }
+
+    /// The same tracks with `count` measured-curve tracks added on the right.
+    pub fn with_curves(mut self, count: usize) -> Self {
+        self.width_mm -= self.curves.width_mm();
+        self.curves = CurveTracks { x_mm: self.curves.x_mm, count };
+        self.width_mm += self.curves.width_mm();
+        self
     }
 
     /// The grain scale of a segment whose left edge is at `x0_mm`.
@@ -128,6 +140,8 @@ pub struct ColumnCtx<'a> {
     /// Top height of each bed, m.
     pub tops_m: Vec<f64>,
     pub total_m: f64,
+    /// Value axis of each attached curve over the section's height range (`None`: no values).
+    pub curve_axes: Vec<Option<ValueAxis>>,
 }
 
 /// Phi of a bed's right edge at its base and top.
@@ -165,7 +179,33 @@ impl<'a> ColumnCtx<'a> {
             })
             .collect::<Vec<f64>>();
         let tops_m = section.beds.iter().zip(&bases_m).map(|(b, base)| base + thickness(b)).collect();
-        ColumnCtx { section, interp, opts, tracks: Tracks::new(opts), bases_m, tops_m, total_m: h }
+        let curve_axes = section.curves.iter().map(|c| ValueAxis::for_curve(c, 0.0, h)).collect();
+        let tracks = Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
+        ColumnCtx { section, interp, opts, tracks, bases_m, tops_m, total_m: h, curve_axes }
+    }
+
+    /// Drop curve tracks (the last ones first) until a segment is at most `max_width_mm` wide;
+    /// returns how many curve tracks are left.
+    pub fn fit_curves(&mut self, max_width_mm: f64) -> usize {
+        while self.tracks.curves.count > 0 && self.tracks.width_mm > max_width_mm {
+            self.tracks = self.tracks.with_curves(self.tracks.curves.count - 1);
+        }
+        self.tracks.curves.count
+    }
+
+    /// The attached curves that get a track, with their track (absolute x, width), value axis and
+    /// colour, for a segment whose left edge is at `x0`.
+    fn curve_tracks(&self, x0: f64) -> impl Iterator<Item = (usize, f64, f64, Option<ValueAxis>, Rgba)> + '_ {
+        self.section.curves.iter().enumerate().filter_map(move |(k, _)| {
+            let (x, w) = self.tracks.curves.track(k)?;
+            Some((
+                k,
+                x0 + x,
+                w,
+                self.curve_axes.get(k).copied().flatten(),
+                CURVE_COLOURS[k % CURVE_COLOURS.len()],
+            ))
+        })
     }
 
     fn top_m(&self, i: usize) -> f64 {
@@ -216,6 +256,9 @@ impl<'a> ColumnCtx<'a> {
         });
         if self.opts.show_interpretation {
             self.draw_interpretation(lo, hi, x0, t, out);
+        }
+        for (k, x, w, axis, colour) in self.curve_tracks(x0) {
+            curve_track::draw_curve(&self.section.curves[k], axis, colour, x, w, lo, hi, t, out);
         }
     }
 
@@ -612,6 +655,9 @@ impl<'a> ColumnCtx<'a> {
                 text(out, x0 + l.x_mm + 0.8, y_bottom - 5.8 + line * 2.6, label, size, INK);
             }
         }
+        for (k, x, w, _, colour) in self.curve_tracks(x0) {
+            curve_track::draw_curve_title(&self.section.curves[k], colour, x, w, y_bottom, out);
+        }
         out.push(Item::Polyline {
             points: vec![
                 PtMm { x: x0, y: y_top + TITLE_BAND_MM },
@@ -663,6 +709,9 @@ impl<'a> ColumnCtx<'a> {
                 let w = super::text::width(label, SMALL_PT);
                 text(out, x0 + p.x_mm + f * p.w_mm - w / 2.0, y + 3.6, label, SMALL_PT, INK);
             }
+        }
+        for (_, x, w, axis, colour) in self.curve_tracks(x0) {
+            curve_track::draw_value_axis(axis, colour, x, w, y, out);
         }
     }
 }

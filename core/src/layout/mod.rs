@@ -6,6 +6,7 @@
 
 pub mod clip;
 pub mod column;
+pub mod curve_track;
 pub mod font;
 pub mod items;
 pub mod legend;

@@ -85,9 +85,13 @@ pub fn pages(
     opts: &LayoutOptions,
     meta: &PrintMeta,
 ) -> Vec<Page> {
-    let ctx = ColumnCtx::new(section, interp, opts);
+    let mut ctx = ColumnCtx::new(section, interp, opts);
     let entries = legend_entries(&ctx);
     let margin = if opts.margin_mm.is_finite() { opts.margin_mm.clamp(3.0, 40.0) } else { 12.0 };
+    if let Some((w, _)) = opts.page_size_mm() {
+        ctx.fit_curves(w - 2.0 * margin);
+    }
+    let curves_note = curves_note(ctx.tracks.curves.count, section.curves.len());
     let strip_w = ctx.tracks.width_mm;
     let header_h = HEADER_MM + if meta.subtitle.is_empty() { 0.0 } else { 3.0 };
     let mm_per_m = 1000.0 / opts.scale();
@@ -162,6 +166,11 @@ pub fn pages(
             let unit = ctx.section.display_unit;
             let head = segment_head(cur, end, unit);
             text(&mut page.items, x0, y_top + 3.2, &head, TEXT_PT, INK);
+            if let Some(note) = &curves_note {
+                let x = x0 + width(&head, TEXT_PT) + 3.0;
+                let size = fit_size(note, x0 + strip_w - x, SMALL_PT, 3.5).unwrap_or(3.5);
+                text(&mut page.items, x, y_top + 3.2, note, size, GREY);
+            }
             ctx.draw_titles(x0, y_titles, &mut page.items);
             ctx.draw_range(cur, end, x0, &heights, &mut page.items, &mut boxes);
             ctx.draw_scale(x0, y_base + PAD_MM, &mut page.items);
@@ -189,6 +198,13 @@ fn break_height(tops: &[f64], from: f64, limit: f64) -> f64 {
         Some(t) if t >= lowest && t > from => t,
         _ => limit,
     }
+}
+
+/// A note for the segment heads when not every attached curve has a track.
+fn curves_note(drawn: usize, attached: usize) -> Option<String> {
+    (drawn < attached).then(|| {
+        format!("{drawn} of {attached} measured curves drawn: the rest do not fit beside the column on this paper")
+    })
 }
 
 /// "0.00–24.35 m" (or ft) for a segment's head.

@@ -373,6 +373,7 @@ fn panel_tracks() -> Tracks {
         proportion: None,
         regime: None,
         boundary_labels: None,
+        curves: super::curve_track::CurveTracks::none(x),
         width_mm: x,
     }
 }

@@ -1,10 +1,13 @@
-//! The section model: projects, sections, beds, grain size, lithology and the log's vocabularies.
+//! The section model: projects, sections, beds, grain size, lithology, measured curves and the
+//! log's vocabularies.
 
+pub mod curve;
 pub mod grain;
 pub mod lithology;
 pub mod section;
 pub mod vocab;
 
+pub use curve::{IndexDirection, MeasuredCurve};
 pub use grain::{mm_to_phi, phi_to_mm, GrainSize, WentworthClass};
 pub use lithology::{GrainSizeRule, Lithology, LithologyFamily};
 pub use section::{Bed, BedId, LatLon, Project, ReviewDecision, ReviewState, Section, Surface};

@@ -1,5 +1,6 @@
 //! Sections, beds, named surfaces and review decisions: the record a geologist logs.
 
+use super::curve::MeasuredCurve;
 use super::grain::GrainSize;
 use super::lithology::Lithology;
 use super::vocab::{Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind};
@@ -153,6 +154,10 @@ pub struct Section {
     /// Horizontal position along a correlation panel, metres (when no coordinates are given).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub panel_position_m: Option<f64>,
+    /// Measured curves (e.g. outcrop gamma ray) on this section's heights, drawn as tracks
+    /// beside the column. Absent in older files.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub curves: Vec<MeasuredCurve>,
 }
 
 fn default_display_unit() -> LengthUnit {
@@ -173,6 +178,7 @@ impl Section {
             beds: Vec::new(),
             review: Vec::new(),
             panel_position_m: None,
+            curves: Vec::new(),
         }
     }
 
@@ -207,6 +213,32 @@ impl Section {
     /// Index of the bed with this id.
     pub fn bed_index(&self, id: BedId) -> Option<usize> {
         self.beds.iter().position(|b| b.id == id)
+    }
+
+    /// The attached curve with this mnemonic (case-insensitive).
+    pub fn curve(&self, mnemonic: &str) -> Option<&MeasuredCurve> {
+        self.curves.iter().find(|c| c.mnemonic.eq_ignore_ascii_case(mnemonic))
+    }
+
+    /// Attach a curve, replacing one with the same mnemonic (case-insensitive) in its place.
+    /// Returns true when one was replaced.
+    pub fn attach_curve(&mut self, curve: MeasuredCurve) -> bool {
+        match self.curves.iter().position(|c| c.mnemonic.eq_ignore_ascii_case(&curve.mnemonic)) {
+            Some(i) => {
+                self.curves[i] = curve;
+                true
+            }
+            None => {
+                self.curves.push(curve);
+                false
+            }
+        }
+    }
+
+    /// Remove the curve with this mnemonic (case-insensitive); returns it if there was one.
+    pub fn remove_curve(&mut self, mnemonic: &str) -> Option<MeasuredCurve> {
+        let i = self.curves.iter().position(|c| c.mnemonic.eq_ignore_ascii_case(mnemonic))?;
+        Some(self.curves.remove(i))
     }
 
     /// The review decision for the boundary at the base of this bed.
