@@ -5,6 +5,7 @@
 use super::items::{Item, PtMm, RectMm, Rgba, Stroke};
 use super::options::LayoutOptions;
 use super::patterns::fill_bed;
+use super::spans::InterpretationSpans;
 use super::style::*;
 use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
 use super::text::{fit_size, text, text_up};
@@ -128,6 +129,8 @@ pub struct ColumnCtx<'a> {
     /// Top height of each bed, m.
     pub tops_m: Vec<f64>,
     pub total_m: f64,
+    /// Search indices, so a segment visits only the interpretation items near its heights.
+    pub spans: InterpretationSpans,
 }
 
 /// Phi of a bed's right edge at its base and top.
@@ -165,7 +168,8 @@ impl<'a> ColumnCtx<'a> {
             })
             .collect::<Vec<f64>>();
         let tops_m = section.beds.iter().zip(&bases_m).map(|(b, base)| base + thickness(b)).collect();
-        ColumnCtx { section, interp, opts, tracks: Tracks::new(opts), bases_m, tops_m, total_m: h }
+        let spans = InterpretationSpans::new(interp);
+        ColumnCtx { section, interp, opts, tracks: Tracks::new(opts), bases_m, tops_m, total_m: h, spans }
     }
 
     fn top_m(&self, i: usize) -> f64 {
@@ -391,7 +395,7 @@ impl<'a> ColumnCtx<'a> {
         };
         if let Some(st) = tr.storeys {
             let x = x0 + st.x_mm + st.w_mm - 1.0;
-            for s in &self.interp.storeys {
+            for s in &self.interp.storeys[self.spans.storeys.range(lo, hi)] {
                 if let Some((b, tp)) = clip(s.base_m, s.top_m) {
                     bracket(x, t.y_mm(b), t.y_mm(tp), s.base_m >= lo, s.top_m <= hi, 1.2, THIN_MM, out);
                 }
@@ -399,7 +403,7 @@ impl<'a> ColumnCtx<'a> {
         }
         if let Some(bt) = tr.bodies {
             let x = x0 + bt.x_mm + 1.6;
-            for body in &self.interp.channel_bodies {
+            for body in &self.interp.channel_bodies[self.spans.channel_bodies.range(lo, hi)] {
                 if let Some((b, tp)) = clip(body.base_m, body.top_m) {
                     let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
                     bracket(x, yb, yt, body.base_m >= lo, body.top_m <= hi, 1.5, LINE_MM * 1.4, out);
@@ -433,7 +437,7 @@ impl<'a> ColumnCtx<'a> {
             self.draw_proportion(pt, lo, hi, x0, t, out);
         }
         if let Some(rt) = tr.regime {
-            for r in &self.interp.accommodation {
+            for r in &self.interp.accommodation[self.spans.accommodation.range(lo, hi)] {
                 if let Some((b, tp)) = clip(r.base_m, r.top_m) {
                     let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
                     let (fill, label) = match r.regime {
@@ -483,7 +487,7 @@ impl<'a> ColumnCtx<'a> {
             out.push(Item::Polyline { points: vec![PtMm { x, y: y_lo }, PtMm { x, y: y_hi }], stroke });
         }
         // Interval proportions as a stepped line behind the moving-window curve.
-        for ip in &self.interp.interval_proportions {
+        for ip in &self.interp.interval_proportions[self.spans.interval_proportions.range(lo, hi)] {
             let (Some(p), b, tp) = (ip.proportion, ip.base_m.max(lo), ip.top_m.min(hi)) else { continue };
             if tp > b {
                 let x = x_a + p.clamp(0.0, 1.0) * pt.w_mm;
@@ -505,7 +509,7 @@ impl<'a> ColumnCtx<'a> {
             run.clear();
         };
         let pts = &self.interp.proportion_curve;
-        for k in 0..pts.len() {
+        for k in self.spans.curve_start(lo, hi)..pts.len() {
             let (h, p) = (pts[k].height_m, pts[k].proportion);
             let Some(p) = p.filter(|p| p.is_finite()) else {
                 flush(&mut run, out);
@@ -539,14 +543,13 @@ impl<'a> ColumnCtx<'a> {
         let tr = self.tracks;
         let x_start = x0 + tr.lithology.x_mm - 1.5;
         let x_end = x0 + tr.boundary_line_end();
-        let mut cands: Vec<_> = self
-            .interp
-            .sequence_boundary_candidates
-            .iter()
-            .filter(|c| c.height_m >= lo && c.height_m <= hi && c.height_m.is_finite())
-            .filter(|c| self.opts.show_rejected || c.review != ReviewState::Rejected)
-            .collect();
-        cands.sort_by(|a, b| a.height_m.total_cmp(&b.height_m));
+        // Candidates in [lo, hi], lowest first (at one height in list order).
+        let all = &self.interp.sequence_boundary_candidates;
+        let cands = self
+            .spans
+            .candidates_in(lo, hi)
+            .map(|k| &all[k])
+            .filter(|c| self.opts.show_rejected || c.review != ReviewState::Rejected);
         for c in cands {
             let y = t.y_mm(c.height_m);
             let (stroke, label, color) = boundary_style(c.review, c.score);
