@@ -1,4 +1,5 @@
-//! Benchmark: interpreting a generated 10,000-bed section (target: well under 10 ms).
+//! Benchmark: interpreting a generated 10,000-bed section (target: well under 10 ms), and the
+//! same rules on 1,000 / 10,000 / 100,000 beds to read off how the time grows.
 //!
 //! `AGGRADE_BENCH_WRITE=FILE cargo bench -p aggrade-core --bench interpret` also writes the
 //! generated section as a project file, for timing the whole `aggrade interpret --json` process.
@@ -7,7 +8,7 @@ use aggrade_core::model::{
     Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, Project, Section, WentworthClass,
 };
 use aggrade_core::rules::{interpret, RuleParams};
-use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use criterion::{black_box, criterion_group, criterion_main, BenchmarkId, Criterion};
 
 /// A deterministic section of `n` beds mixing channel storeys, drapes, overbank fines, splays,
 /// paleosols and covered intervals (a linear congruential generator keeps it reproducible).
@@ -55,11 +56,18 @@ fn bench_interpret(c: &mut Criterion) {
     let params = RuleParams::default();
     c.bench_function("interpret 10,000 beds", |b| {
         b.iter(|| interpret(black_box(&section), black_box(&params)))
-    }); // Four times the beds should take about four times as long: a check that nothing is quadratic.
-    let large = generated_section(40_000);
-    c.bench_function("interpret 40,000 beds", |b| {
-        b.iter(|| interpret(black_box(&large), black_box(&params)))
     });
+    // Growth with size: ten times the beds should take about ten times as long (nothing
+    // quadratic).
+    let mut g = c.benchmark_group("interpret_by_size");
+    g.sample_size(10);
+    for n in [1_000usize, 10_000, 100_000] {
+        let s = generated_section(n);
+        g.bench_with_input(BenchmarkId::from_parameter(n), &s, |b, s| {
+            b.iter(|| interpret(black_box(s), black_box(&params)))
+        });
+    }
+    g.finish();
 }
 
 criterion_group!(benches, bench_interpret);

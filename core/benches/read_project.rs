@@ -1,5 +1,6 @@
-//! Reading a generated 10,000-bed project file (target: under 50 ms), plus validation alone and
-//! the bed-table CSV reader on the same beds.
+//! Reading a generated 10,000-bed project file (target: under 50 ms) and how reading grows from
+//! 1,000 to 100,000 beds (valid, and with one bad bed), plus validation alone and the bed-table
+//! CSV reader on the same beds.
 
 use aggrade_core::io::{
     project_to_json, read_bed_table, read_project_text, validate_project, write_bed_table,
@@ -8,10 +9,10 @@ use aggrade_core::model::{
     Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, Project, Section, Structure, Surface,
     SurfaceKind, WentworthClass,
 };
-use criterion::{criterion_group, criterion_main, Criterion};
+use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
 use std::hint::black_box;
 
-/// A 10,000-bed section cycling through channel sand, splay sand and paleosol mudstone beds.
+/// A section cycling through channel sand, splay sand and paleosol mudstone beds.
 fn generated_project(beds: usize) -> Project {
     let mut s = Section::new("Generated");
     s.locality = "bench".into();
@@ -57,6 +58,22 @@ fn bench(c: &mut Criterion) {
     c.bench_function("read_project_10000_beds", |b| {
         b.iter(|| read_project_text(black_box(&json)).expect("valid"))
     });
+    // Growth with size: 1,000 / 10,000 / 100,000 beds (pretty JSON, as saved). A file with one
+    // bad bed near its end takes the slower path that names every problem, bed by bed.
+    let mut g = c.benchmark_group("read_project_by_size");
+    g.sample_size(10);
+    for n in [1_000usize, 10_000, 100_000] {
+        let text = project_to_json(&generated_project(n)).expect("encode");
+        g.bench_with_input(BenchmarkId::new("valid", n), &text, |b, t| {
+            b.iter(|| read_project_text(black_box(t)).expect("valid"))
+        });
+        let bad = text.replacen(&format!("\"id\": {}", n - 2), &format!("\"id\": \"{}\"", n - 2), 1);
+        assert_ne!(bad, text);
+        g.bench_with_input(BenchmarkId::new("one_bad_bed", n), &bad, |b, t| {
+            b.iter(|| read_project_text(black_box(t)).expect_err("one bad bed"))
+        });
+    }
+    g.finish();
     // Stages of the read, to see where the time goes.
     c.bench_function("stage_scan_limits_10000_beds", |b| {
         b.iter(|| aggrade_core::io::json_scan::check_limits(black_box(&json)).expect("within limits"))

@@ -36,15 +36,15 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
     check_lengths(section, &args.file)?;
     let params = rule_params(args)?;
     let result = interpret(section, &params);
-    let text = if args.json {
-        let mut s = serde_json::to_string_pretty(&result).context("writing the interpretation as JSON")?;
-        s.push('\n');
-        s
+    let mut out = std::io::BufWriter::new(std::io::stdout().lock());
+    if args.json {
+        // Streamed: the JSON of a long section runs to tens of megabytes, never held in memory.
+        serde_json::to_writer_pretty(&mut out, &result).context("writing the interpretation as JSON")?;
+        out.write_all(b"\n").context("writing to standard output")?;
     } else {
-        report(section, &result, &params)
-    };
-    let mut out = std::io::stdout().lock();
-    out.write_all(text.as_bytes()).and_then(|()| out.flush()).context("writing to standard output")?;
+        out.write_all(report(section, &result, &params).as_bytes()).context("writing to standard output")?;
+    }
+    out.flush().context("writing to standard output")?;
     Ok(())
 }
 

@@ -219,8 +219,8 @@ impl PageWriter {
     }
 }
 
-/// Write pages to a PDF file's bytes. Same pages and info give the same bytes.
-pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
+/// The printpdf document of the pages: info, the embedded font and each page's operations.
+fn document(pages: &[Page], info: &PdfInfo) -> PdfDocument {
     let mut doc = PdfDocument::new(&info.title);
     let date = printpdf::OffsetDateTime::from_unix_timestamp(info.creation_date)
         .or_else(|_| printpdf::OffsetDateTime::from_unix_timestamp(0));
@@ -262,9 +262,18 @@ pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
         })
         .collect();
     doc.with_pages(pdf_pages);
+    doc
+}
+
+/// Write pages to a PDF file's bytes. Same pages and info give the same bytes.
+pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
+    let doc = document(pages, info);
     let opts = PdfSaveOptions::default();
     let mut warnings = Vec::new();
     let mut lo = doc.to_lopdf_document(&opts, &mut warnings);
+    // The operations are in the content streams now: free them before compressing, to lower
+    // the peak memory of long sections.
+    drop(doc);
     // printpdf fills the trailer ID from a process-wide counter; drop it (it is optional for
     // unencrypted files) so that the same input gives the same bytes.
     lo.trailer.remove(b"ID");
@@ -293,7 +302,7 @@ pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
     if lo.save_to(&mut bytes).is_err() {
         // Writing to memory cannot fail short of allocation failure; fall back to printpdf's
         // own serialiser.
-        return doc.save(&opts, &mut warnings);
+        return document(pages, info).save(&opts, &mut warnings);
     }
     bytes
 }

@@ -4,7 +4,7 @@
 use super::json_scan;
 use super::migrate;
 use super::problem::Problem;
-use super::project_reader::{self, read_project};
+use super::project_reader::{self, read_project, read_project_raw};
 use super::validate::validate_project;
 use crate::model::Project;
 use serde_json::Value;
@@ -47,7 +47,9 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
             return Ok(ProjectRead { project, warnings });
         }
     }
-    let mut root: Value = serde_json::from_str(text).map_err(|e| {
+    // Anything else is read without a JSON tree of the whole file: first a syntax check that
+    // gives the same message as the tree's parser, then the beds one by one.
+    let syntax_problem = |e: serde_json::Error| {
         let what = match e.classify() {
             serde_json::error::Category::Eof => "the file ends too soon (truncated?)",
             serde_json::error::Category::Syntax => "not valid JSON",
@@ -67,9 +69,10 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
             _ => "",
         };
         vec![Problem::new("", format!("{what}: {msg} (column {}){hint}", e.column())).at_line(e.line())]
-    })?;
+    };
+    project_reader::check_json_syntax(text).map_err(syntax_problem)?;
     let mut warnings = Vec::new();
-    let version = match root.get("format_version") {
+    let version = match project_reader::root_field(text, "format_version") {
         None => 0,
         Some(v) => match v.as_u64() {
             Some(n) if n <= u64::from(Project::CURRENT_VERSION) => n as u32,
@@ -101,13 +104,19 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
     let migrated = version < Project::CURRENT_VERSION;
     let mut problems = Vec::new();
     if version == 0 {
-        problems.extend(migrate::v0_to_v1(&mut root));
         warnings.push(Problem::new(
             "format_version",
             format!("read a version 0 file; saving writes version {}", Project::CURRENT_VERSION),
         ));
     }
-    let (project, read_problems, read_warnings) = read_project(&root);
+    let (project, read_problems, read_warnings) = if version == 0 && project_reader::is_object(text) {
+        // Version 0 is migrated as a tree.
+        let mut root: Value = serde_json::from_str(text).map_err(syntax_problem)?;
+        problems.extend(migrate::v0_to_v1(&mut root));
+        read_project(&root)
+    } else {
+        read_project_raw(text, &project_reader::beds_with_unknown_fields(&unknown))
+    };
     problems.extend(read_problems);
     warnings.extend(read_warnings);
     if let Some(project) = &project {

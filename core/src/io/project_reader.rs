@@ -1,14 +1,20 @@
-//! Builds a [`Project`] from a parsed JSON tree field by field, so that every wrong field is
-//! reported with its path (serde alone stops at the first) and unknown fields become warnings.
+//! Builds a [`Project`] from JSON field by field, so that every wrong field is reported with its
+//! path (serde alone stops at the first) and unknown fields become warnings. The JSON is either a
+//! parsed tree or raw text whose beds are read one by one straight into the typed model (a tree
+//! is built only for a bed or section that needs its fields named).
 
+use super::json_scan::{array_items, object_fields};
 use super::problem::Problem;
 use crate::model::{
-    Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Project,
+    Bed, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Project,
     ReviewDecision, Section, Structure, Surface,
 };
-use serde::de::DeserializeOwned;
+use serde::de::{DeserializeOwned, MapAccess, SeqAccess, Visitor};
 use serde::Deserialize;
 use serde_json::{Map, Value};
+use std::borrow::Cow;
+use std::collections::{HashMap, HashSet};
+use std::fmt;
 
 /// How a field is checked before the whole object is deserialised.
 #[derive(Clone, Copy)]
@@ -159,71 +165,213 @@ fn build<T: DeserializeOwned>(v: &Value, path: &str, problems: &mut Vec<Problem>
     }
 }
 
+/// A JSON value either parsed into a tree or still raw text (parsed when a part is needed).
+#[derive(Clone, Copy)]
+enum Node<'a> {
+    Tree(&'a Value),
+    /// The text of one value (valid JSON).
+    Raw(&'a str),
+}
+
+/// An object's fields as parsed values, except the list under one key, whose items stay nodes.
+struct Split<'a> {
+    /// Every field; the list itself is replaced by an empty list `[]` (a non-list is kept as it is).
+    fields: Map<String, Value>,
+    /// The items of the list, when the key holds a list.
+    items: Option<Vec<Node<'a>>>,
+}
+
+/// Raw JSON text as a tree. The text was checked as JSON before, so this cannot fail.
+fn raw_to_value(raw: &str) -> Value {
+    serde_json::from_str(raw).unwrap_or(Value::Null)
+}
+
+/// The fields of a raw object as a tree reads them: keys unescaped, the last of a repeated key
+/// winning (in the place of the first, as the tree's map keeps it).
+fn raw_fields(raw: &str) -> Option<Vec<(String, &str)>> {
+    let mut out: Vec<(String, &str)> = Vec::new();
+    let mut seen: HashMap<String, usize> = HashMap::new();
+    for (key, value) in object_fields(raw)? {
+        let key: String = serde_json::from_str(key).unwrap_or_default();
+        match seen.get(&key) {
+            Some(&k) => out[k].1 = value,
+            None => {
+                seen.insert(key.clone(), out.len());
+                out.push((key, value));
+            }
+        }
+    }
+    Some(out)
+}
+
+impl<'a> Node<'a> {
+    fn first_byte(self) -> Option<u8> {
+        match self {
+            Node::Tree(Value::Object(_)) => Some(b'{'),
+            Node::Tree(Value::Array(_)) => Some(b'['),
+            Node::Tree(_) => None,
+            Node::Raw(r) => r.trim_start().bytes().next(),
+        }
+    }
+
+    /// The value as a tree (a raw one is parsed).
+    fn value(self) -> Cow<'a, Value> {
+        match self {
+            Node::Tree(v) => Cow::Borrowed(v),
+            Node::Raw(r) => Cow::Owned(raw_to_value(r)),
+        }
+    }
+
+    /// [`describe`] without parsing a raw list or object.
+    fn describe(self) -> String {
+        match self.first_byte() {
+            Some(b'{') => "an object".into(),
+            Some(b'[') => "a list".into(),
+            _ => describe(&self.value()),
+        }
+    }
+
+    /// The object's fields with the list under `list_key` split into item nodes; `None` if the
+    /// value is not an object.
+    fn split(self, list_key: &str) -> Option<Split<'a>> {
+        match self {
+            Node::Tree(v) => {
+                let obj = v.as_object()?;
+                let mut fields = Map::new();
+                let mut items = None;
+                for (k, v) in obj {
+                    match v {
+                        Value::Array(list) if k == list_key => {
+                            items = Some(list.iter().map(Node::Tree).collect());
+                            fields.insert(k.clone(), Value::Array(Vec::new()));
+                        }
+                        _ => {
+                            fields.insert(k.clone(), v.clone());
+                        }
+                    }
+                }
+                Some(Split { fields, items })
+            }
+            Node::Raw(r) => {
+                if self.first_byte() != Some(b'{') {
+                    return None;
+                }
+                let mut fields = Map::new();
+                let mut items = None;
+                for (k, v) in raw_fields(r)? {
+                    let list = if k == list_key { array_items(v) } else { None };
+                    match list {
+                        Some(list) => {
+                            items = Some(list.into_iter().map(Node::Raw).collect());
+                            fields.insert(k, Value::Array(Vec::new()));
+                        }
+                        None => {
+                            fields.insert(k, raw_to_value(v));
+                        }
+                    }
+                }
+                Some(Split { fields, items })
+            }
+        }
+    }
+}
+
+/// True when raw JSON text holds an object.
+pub fn is_object(raw: &str) -> bool {
+    Node::Raw(raw).first_byte() == Some(b'{')
+}
+
+/// One field of a raw JSON object as a tree (the last one if the key repeats, as in a tree);
+/// `None` when the value is not an object or has no such field.
+pub fn root_field(raw: &str, key: &str) -> Option<Value> {
+    let fields = raw_fields(raw)?;
+    fields.into_iter().find(|(k, _)| k == key).map(|(_, v)| raw_to_value(v))
+}
+
+/// Which beds, by (section index, bed index), may hold fields the reader does not know. Raw beds
+/// not in the set are deserialised straight into [`Bed`]; the others are checked field by field.
+pub type BedsToCheck = HashSet<(usize, usize)>;
+
+/// The beds named by unknown-field paths from the limits scan (`sections[2].beds[7].colr`).
+pub fn beds_with_unknown_fields(unknown: &[(String, usize)]) -> BedsToCheck {
+    /// A leading index and the text after it.
+    fn index(s: &str) -> Option<(usize, &str)> {
+        let end = s.find(|c: char| !c.is_ascii_digit())?;
+        Some((s[..end].parse().ok()?, &s[end..]))
+    }
+    unknown
+        .iter()
+        .filter_map(|(path, _)| {
+            let (i, rest) = index(path.strip_prefix("sections[")?)?;
+            let (j, rest) = index(rest.strip_prefix("].beds[")?)?;
+            rest.starts_with("].").then_some((i, j))
+        })
+        .collect()
+}
+
 /// Read a version-current project tree. Returns the project when there were no problems, plus
 /// the problems and the warnings (both located by JSON path).
 pub fn read_project(root: &Value) -> (Option<Project>, Vec<Problem>, Vec<Problem>) {
+    read_node(Node::Tree(root), &BedsToCheck::new())
+}
+
+/// Read a version-current project from JSON text that is known to be valid JSON (see
+/// [`check_json_syntax`]). Gives exactly what [`read_project`] gives for the same text parsed
+/// into a tree, without building the tree: each bed goes straight into a [`Bed`], and only a bed
+/// that fails, or is listed in `check` (it may hold unknown fields), is parsed and checked
+/// field by field.
+pub fn read_project_raw(root: &str, check: &BedsToCheck) -> (Option<Project>, Vec<Problem>, Vec<Problem>) {
+    read_node(Node::Raw(root), check)
+}
+
+fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Problem>, Vec<Problem>) {
     let mut problems = Vec::new();
     let mut warnings = Vec::new();
-    let Some(obj) = root.as_object() else {
+    let Some(Split { fields: obj, items: section_nodes }) = root.split("sections") else {
         problems.push(Problem::new(
             "",
-            format!("a project file must hold a JSON object {{ … }}, got {}", describe(root)),
+            format!("a project file must hold a JSON object {{ … }}, got {}", root.describe()),
         ));
         return (None, problems, warnings);
     };
-    check_fields(obj, "", PROJECT_FIELDS, &mut problems, &mut warnings);
+    check_fields(&obj, "", PROJECT_FIELDS, &mut problems, &mut warnings);
     let format_version = obj.get("format_version").and_then(Value::as_u64).unwrap_or(0) as u32;
     let mut sections = Vec::new();
-    let section_values = obj.get("sections").and_then(Value::as_array).map(Vec::as_slice).unwrap_or(&[]);
     if !obj.contains_key("sections") {
         problems.push(Problem::new("sections", "required field is missing (a list of sections)"));
     }
-    for (i, sv) in section_values.iter().enumerate() {
+    for (i, sv) in section_nodes.unwrap_or_default().into_iter().enumerate() {
         let path = format!("sections[{i}]");
-        let Some(sobj) = sv.as_object() else {
+        let Some(Split { fields: sobj, items: bed_nodes }) = sv.split("beds") else {
             problems.push(Problem::new(
                 &path,
-                format!("a section must be an object {{ … }}, got {}", describe(sv)),
+                format!("a section must be an object {{ … }}, got {}", sv.describe()),
             ));
             continue;
         };
         let before = problems.len();
-        check_fields(sobj, &path, SECTION_FIELDS, &mut problems, &mut warnings);
+        check_fields(&sobj, &path, SECTION_FIELDS, &mut problems, &mut warnings);
         if !sobj.contains_key("beds") {
             problems.push(Problem::new(format!("{path}.beds"), "required field is missing (a list of beds)"));
         }
-        let bed_values = sobj.get("beds").and_then(Value::as_array).map(Vec::as_slice).unwrap_or(&[]);
-        let mut beds = Vec::with_capacity(bed_values.len());
-        for (j, bv) in bed_values.iter().enumerate() {
-            let bpath = format!("{path}.beds[{j}]");
-            let Some(bobj) = bv.as_object() else {
-                problems.push(Problem::new(
-                    &bpath,
-                    format!("a bed must be an object {{ … }}, got {}", describe(bv)),
-                ));
-                continue;
-            };
-            unknown_fields(bobj, &bpath, BED_FIELDS, &mut warnings);
-            // The whole bed at once is the fast path; only a bed that fails is checked field by
-            // field, to name every bad field.
-            match crate::model::Bed::deserialize(bv) {
-                Ok(bed) => beds.push(bed),
-                Err(e) => {
-                    let bed_before = problems.len();
-                    field_problems(bobj, &bpath, BED_FIELDS, &mut problems);
-                    if problems.len() == bed_before {
-                        problems.push(Problem::new(&bpath, e.to_string()));
+        let bed_nodes = bed_nodes.unwrap_or_default();
+        let mut beds = Vec::with_capacity(bed_nodes.len());
+        for (j, bv) in bed_nodes.into_iter().enumerate() {
+            // The fast path: a raw bed with no unknown fields straight into the typed model.
+            if let Node::Raw(raw) = bv {
+                if bv.first_byte() == Some(b'{') && !check.contains(&(i, j)) {
+                    if let Ok(bed) = serde_json::from_str::<Bed>(raw) {
+                        beds.push(bed);
+                        continue;
                     }
                 }
             }
+            let bpath = format!("{path}.beds[{j}]");
+            read_bed(&bv.value(), &bpath, &mut beds, &mut problems, &mut warnings);
         }
         if problems.len() == before {
-            // Deserialise the section without its beds (already built) to keep one copy.
-            let mut shallow: Map<String, Value> = sobj
-                .iter()
-                .filter(|(k, _)| k.as_str() != "beds")
-                .map(|(k, v)| (k.clone(), v.clone()))
-                .collect();
+            // The section's own fields, with the beds already built.
+            let mut shallow = sobj;
             shallow.insert("beds".into(), Value::Array(Vec::new()));
             if let Some(mut section) = build::<Section>(&Value::Object(shallow), &path, &mut problems) {
                 section.beds = beds;
@@ -235,6 +383,93 @@ pub fn read_project(root: &Value) -> (Option<Project>, Vec<Problem>, Vec<Problem
         (Some(Project { format_version, sections }), problems, warnings)
     } else {
         (None, problems, warnings)
+    }
+}
+
+/// Read one bed from a tree: every bad field named, unknown fields as warnings.
+fn read_bed(
+    bv: &Value,
+    bpath: &str,
+    beds: &mut Vec<Bed>,
+    problems: &mut Vec<Problem>,
+    warnings: &mut Vec<Problem>,
+) {
+    let Some(bobj) = bv.as_object() else {
+        problems.push(Problem::new(bpath, format!("a bed must be an object {{ … }}, got {}", describe(bv))));
+        return;
+    };
+    unknown_fields(bobj, bpath, BED_FIELDS, warnings);
+    // The whole bed at once is the fast path; only a bed that fails is checked field by field,
+    // to name every bad field.
+    match Bed::deserialize(bv) {
+        Ok(bed) => beds.push(bed),
+        Err(e) => {
+            let bed_before = problems.len();
+            field_problems(bobj, bpath, BED_FIELDS, problems);
+            if problems.len() == bed_before {
+                problems.push(Problem::new(bpath, e.to_string()));
+            }
+        }
+    }
+}
+
+/// Check that text is one JSON value, with the same error (message, line and column) that
+/// parsing it into a [`Value`] tree would give, but without building the tree.
+pub fn check_json_syntax(text: &str) -> Result<(), serde_json::Error> {
+    serde_json::from_str::<AnyJson>(text).map(|_| ())
+}
+
+/// Any JSON value, visited the way [`Value`] visits it (every number parsed, every string
+/// unescaped), and dropped.
+struct AnyJson;
+
+impl<'de> Deserialize<'de> for AnyJson {
+    fn deserialize<D: serde::Deserializer<'de>>(deserializer: D) -> Result<Self, D::Error> {
+        deserializer.deserialize_any(AnyJsonVisitor)
+    }
+}
+
+struct AnyJsonVisitor;
+
+impl<'de> Visitor<'de> for AnyJsonVisitor {
+    type Value = AnyJson;
+
+    fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str("any JSON value")
+    }
+    fn visit_bool<E>(self, _: bool) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_i64<E>(self, _: i64) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_u64<E>(self, _: u64) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_f64<E>(self, _: f64) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_str<E>(self, _: &str) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_unit<E>(self) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_none<E>(self) -> Result<AnyJson, E> {
+        Ok(AnyJson)
+    }
+    fn visit_some<D: serde::Deserializer<'de>>(self, d: D) -> Result<AnyJson, D::Error> {
+        AnyJson::deserialize(d)
+    }
+    fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<AnyJson, A::Error> {
+        while seq.next_element::<AnyJson>()?.is_some() {}
+        Ok(AnyJson)
+    }
+    fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<AnyJson, A::Error> {
+        while map.next_key::<AnyJson>()?.is_some() {
+            map.next_value::<AnyJson>()?;
+        }
+        Ok(AnyJson)
     }
 }
 

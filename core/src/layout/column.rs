@@ -6,6 +6,7 @@ use super::curve_track::{self, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_
 use super::items::{Item, PtMm, RectMm, Rgba, Stroke};
 use super::options::LayoutOptions;
 use super::patterns::fill_bed;
+use super::spans::InterpretationSpans;
 use super::style::*;
 use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
 use super::text::{fit_size, text, text_up};
@@ -142,6 +143,8 @@ pub struct ColumnCtx<'a> {
     pub total_m: f64,
     /// Value axis of each attached curve over the section's height range (`None`: no values).
     pub curve_axes: Vec<Option<ValueAxis>>,
+    /// Search indices, so a segment visits only the interpretation items near its heights.
+    pub spans: InterpretationSpans,
 }
 
 /// Phi of a bed's right edge at its base and top.
@@ -181,7 +184,8 @@ impl<'a> ColumnCtx<'a> {
         let tops_m = section.beds.iter().zip(&bases_m).map(|(b, base)| base + thickness(b)).collect();
         let curve_axes = section.curves.iter().map(|c| ValueAxis::for_curve(c, 0.0, h)).collect();
         let tracks = Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
-        ColumnCtx { section, interp, opts, tracks, bases_m, tops_m, total_m: h, curve_axes }
+        let spans = InterpretationSpans::new(interp);
+        ColumnCtx { section, interp, opts, tracks, bases_m, tops_m, total_m: h, curve_axes, spans }
     }
 
     /// Drop curve tracks (the last ones first) until a segment is at most `max_width_mm` wide;
@@ -434,7 +438,7 @@ impl<'a> ColumnCtx<'a> {
         };
         if let Some(st) = tr.storeys {
             let x = x0 + st.x_mm + st.w_mm - 1.0;
-            for s in &self.interp.storeys {
+            for s in &self.interp.storeys[self.spans.storeys.range(lo, hi)] {
                 if let Some((b, tp)) = clip(s.base_m, s.top_m) {
                     bracket(x, t.y_mm(b), t.y_mm(tp), s.base_m >= lo, s.top_m <= hi, 1.2, THIN_MM, out);
                 }
@@ -442,7 +446,7 @@ impl<'a> ColumnCtx<'a> {
         }
         if let Some(bt) = tr.bodies {
             let x = x0 + bt.x_mm + 1.6;
-            for body in &self.interp.channel_bodies {
+            for body in &self.interp.channel_bodies[self.spans.channel_bodies.range(lo, hi)] {
                 if let Some((b, tp)) = clip(body.base_m, body.top_m) {
                     let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
                     bracket(x, yb, yt, body.base_m >= lo, body.top_m <= hi, 1.5, LINE_MM * 1.4, out);
@@ -476,7 +480,7 @@ impl<'a> ColumnCtx<'a> {
             self.draw_proportion(pt, lo, hi, x0, t, out);
         }
         if let Some(rt) = tr.regime {
-            for r in &self.interp.accommodation {
+            for r in &self.interp.accommodation[self.spans.accommodation.range(lo, hi)] {
                 if let Some((b, tp)) = clip(r.base_m, r.top_m) {
                     let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
                     let (fill, label) = match r.regime {
@@ -526,7 +530,7 @@ impl<'a> ColumnCtx<'a> {
             out.push(Item::Polyline { points: vec![PtMm { x, y: y_lo }, PtMm { x, y: y_hi }], stroke });
         }
         // Interval proportions as a stepped line behind the moving-window curve.
-        for ip in &self.interp.interval_proportions {
+        for ip in &self.interp.interval_proportions[self.spans.interval_proportions.range(lo, hi)] {
             let (Some(p), b, tp) = (ip.proportion, ip.base_m.max(lo), ip.top_m.min(hi)) else { continue };
             if tp > b {
                 let x = x_a + p.clamp(0.0, 1.0) * pt.w_mm;
@@ -548,7 +552,7 @@ impl<'a> ColumnCtx<'a> {
             run.clear();
         };
         let pts = &self.interp.proportion_curve;
-        for k in 0..pts.len() {
+        for k in self.spans.curve_start(lo, hi)..pts.len() {
             let (h, p) = (pts[k].height_m, pts[k].proportion);
             let Some(p) = p.filter(|p| p.is_finite()) else {
                 flush(&mut run, out);
@@ -582,14 +586,13 @@ impl<'a> ColumnCtx<'a> {
         let tr = self.tracks;
         let x_start = x0 + tr.lithology.x_mm - 1.5;
         let x_end = x0 + tr.boundary_line_end();
-        let mut cands: Vec<_> = self
-            .interp
-            .sequence_boundary_candidates
-            .iter()
-            .filter(|c| c.height_m >= lo && c.height_m <= hi && c.height_m.is_finite())
-            .filter(|c| self.opts.show_rejected || c.review != ReviewState::Rejected)
-            .collect();
-        cands.sort_by(|a, b| a.height_m.total_cmp(&b.height_m));
+        // Candidates in [lo, hi], lowest first (at one height in list order).
+        let all = &self.interp.sequence_boundary_candidates;
+        let cands = self
+            .spans
+            .candidates_in(lo, hi)
+            .map(|k| &all[k])
+            .filter(|c| self.opts.show_rejected || c.review != ReviewState::Rejected);
         for c in cands {
             let y = t.y_mm(c.height_m);
             let (stroke, label, color) = boundary_style(c.review, c.score);

@@ -15,6 +15,7 @@ pub mod page;
 pub mod panel;
 pub mod patterns;
 pub mod sample;
+pub mod spans;
 pub mod strip;
 pub mod style;
 pub mod symbols;
