@@ -12,6 +12,9 @@ fn field<T: DeserializeOwned>(v: &Value) -> Result<(), String> {
 }
 
 /// Check one item of a section's `curves` list; the error names the field (and sample) at fault.
+/// Checks one field's value, giving what was wrong with it.
+type FieldCheck = fn(&Value) -> Result<(), String>;
+
 pub(crate) fn check_curve(v: &Value) -> Result<(), String> {
     if MeasuredCurve::deserialize(v).is_ok() {
         return Ok(());
@@ -19,7 +22,7 @@ pub(crate) fn check_curve(v: &Value) -> Result<(), String> {
     let Some(obj) = v.as_object() else {
         return Err(format!("a measured curve must be an object {{ … }}, got {}", describe(v)));
     };
-    let checks: [(&str, bool, fn(&Value) -> Result<(), String>); 6] = [
+    let checks: [(&str, bool, FieldCheck); 6] = [
         ("mnemonic", true, field::<String>),
         ("unit", false, field::<String>),
         ("description", false, field::<String>),

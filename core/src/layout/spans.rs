@@ -35,7 +35,8 @@ impl IntervalSpans {
     /// not sorted.
     pub fn range(&self, lo: f64, hi: f64) -> Range<usize> {
         let n = self.bases_m.len();
-        if !self.sorted || !(lo <= hi) {
+        // NaN bounds compare as neither: take the whole list then too.
+        if !self.sorted || lo.partial_cmp(&hi).is_none_or(|o| o == std::cmp::Ordering::Greater) {
             return 0..n;
         }
         // Before `first`: top ≤ lo, so min(top, hi) ≤ lo ≤ max(base, lo).
