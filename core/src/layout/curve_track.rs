@@ -45,8 +45,10 @@ impl CurveTracks {
 
     /// Left edge and width (mm, relative to the segment) of curve track `k`.
     pub fn track(&self, k: usize) -> Option<(f64, f64)> {
-        (k < self.count)
-            .then_some((self.x_mm + CURVE_GAP_MM + k as f64 * (CURVE_TRACK_MM + CURVE_GAP_MM), CURVE_TRACK_MM))
+        (k < self.count).then_some((
+            self.x_mm + CURVE_GAP_MM + k as f64 * (CURVE_TRACK_MM + CURVE_GAP_MM),
+            CURVE_TRACK_MM,
+        ))
     }
 
     /// Width (mm) the curve tracks add to a segment.
