@@ -1,5 +1,6 @@
 //! One frame of the window on a 5,000-bed section: build the UI (layout cached, as while
-//! scrolling), and tessellate; plus the same frame right after an edit (layout rebuilt).
+//! scrolling), and tessellate; a jump along the section (the layout around the new view rebuilt);
+//! and the frame right after an edit (rules re-run, layout rebuilt).
 //! Target: under 8 ms per frame.
 
 use aggrade::gui::document::Edit;
@@ -46,6 +47,20 @@ fn frame(c: &mut Criterion) {
     }
     c.bench_function("frame_5000_beds_scrolling", |b| {
         b.iter(|| {
+            t += 0.016;
+            frame_once(&ctx, &mut app, t)
+        })
+    });
+    // A jump far along the section (as from the review list): the frame that moves the view,
+    // then the frame that lays out the heights around it and draws them (no rules re-run).
+    let total = app.doc.section().total_thickness_m();
+    let mut jump = 0u64;
+    c.bench_function("jump_5000_beds_relayout_two_frames", |b| {
+        b.iter(|| {
+            jump += 1;
+            app.scroll_canvas_to(total * if jump % 2 == 0 { 0.2 } else { 0.8 });
+            t += 0.016;
+            let _ = frame_once(&ctx, &mut app, t);
             t += 0.016;
             frame_once(&ctx, &mut app, t)
         })

@@ -297,11 +297,14 @@ impl AggradeApp {
         let total_m = section.total_thickness_m();
         let (interp, window_m) = match self.cache.take() {
             Some(c) if c.rules_key == rules_key => {
-                if c.layout_key == self.layout && c.covers(view) {
+                let w = c.window_for(view, total_m);
+                // The first layout (before the view was known) is of the whole section: once
+                // the view is known, a long section is laid out around it instead.
+                let narrower = c.window_m.is_none() && w.is_some();
+                if c.layout_key == self.layout && c.covers(view) && !narrower {
                     self.cache = Some(c);
                     return;
                 }
-                let w = c.window_for(view, total_m);
                 (c.interp, w)
             }
             old => {
