@@ -262,6 +262,16 @@ fn a_5000_bed_section_draws_only_what_is_visible_while_scrolling_and_zooming() {
     let mut h = harness(app(Some(path), data.path(), vec![]));
     h.run();
     assert_eq!(h.state().doc.section().beds.len(), 5_000);
+    // Items in a layout of the whole section, to compare what the window lays out and draws.
+    let section = h.state().doc.section().clone();
+    let interp = aggrade_core::rules::interpret(&section, &aggrade_core::rules::RuleParams::default());
+    let whole = aggrade_core::layout::column_strip(
+        &section,
+        &interp,
+        &aggrade_core::layout::LayoutOptions::default(),
+    )
+    .items
+    .len();
     let centre = egui::pos2(700.0, 450.0);
     h.hover_at(centre);
     h.run();
@@ -277,17 +287,21 @@ fn a_5000_bed_section_draws_only_what_is_visible_while_scrolling_and_zooming() {
             h.key_press(Key::Minus);
         }
         h.run();
-        let (drawn, total) = h.state().drawn_items();
+        let (drawn, laid_out) = h.state().drawn_items();
         assert!(drawn > 0, "nothing drawn at step {k}");
-        assert!(drawn * 20 < total, "step {k}: drew {drawn} of {total} items");
+        assert!(drawn * 20 < whole, "step {k}: drew {drawn} of {whole} items");
+        assert!(laid_out * 5 < whole, "step {k}: laid out {laid_out} of {whole} items");
     }
     // Zoomed far out the whole column fits; culling still holds items to the view.
     for _ in 0..6 {
         h.key_press(Key::Plus);
         h.run();
     }
-    let (drawn, total) = h.state().drawn_items();
-    assert!(drawn > 0 && drawn < total, "{drawn} of {total}");
+    let (drawn, laid_out) = h.state().drawn_items();
+    assert!(
+        drawn > 0 && drawn <= laid_out && drawn < whole,
+        "{drawn} of {laid_out} laid out, {whole} in all"
+    );
 }
 
 #[test]
