@@ -6,7 +6,11 @@ Output: {"pypdf": {"pages": [[w, h], ...]},
 Exits 3 with a message if a library is missing, so the calling test fails clearly.
 """
 import json
+import os
 import sys
+
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
+from probe_common import colour  # noqa: E402
 
 try:
     import pdfplumber
@@ -15,14 +19,6 @@ except ImportError as e:  # the test must fail, not skip
     print(f"missing Python reference library: {e}; install with pip install -r scripts/requirements-test.txt",
           file=sys.stderr)
     sys.exit(3)
-
-
-def colour(c):
-    if c is None:
-        return None
-    if isinstance(c, (int, float)):
-        return [float(c)]
-    return [round(float(v), 4) for v in c]
 
 
 def shape(o):
