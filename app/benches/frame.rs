@@ -58,7 +58,7 @@ fn frame(c: &mut Criterion) {
     c.bench_function("jump_5000_beds_relayout_two_frames", |b| {
         b.iter(|| {
             jump += 1;
-            app.scroll_canvas_to(total * if jump % 2 == 0 { 0.2 } else { 0.8 });
+            app.scroll_canvas_to(total * if jump.is_multiple_of(2) { 0.2 } else { 0.8 });
             t += 0.016;
             let _ = frame_once(&ctx, &mut app, t);
             t += 0.016;
