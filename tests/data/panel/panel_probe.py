@@ -9,15 +9,9 @@ import os
 import sys
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
-from probe_common import colour  # noqa: E402
+from probe_common import colour, require  # noqa: E402
 
-try:
-    import pdfplumber
-    import pypdf
-except ImportError as e:  # the test must fail, not skip
-    print(f"missing Python reference library: {e}; install with pip install -r scripts/requirements-test.txt",
-          file=sys.stderr)
-    sys.exit(3)
+pdfplumber, pypdf = require('pdfplumber', 'pypdf')
 
 
 def shape(o):
