@@ -192,27 +192,23 @@ fn bad_input_fails_with_a_message_not_a_panic() {
     assert!(!o.status.success());
     assert!(stderr(&o).contains("window_m: got -2"), "{}", stderr(&o));
 
+    // A parameter file with `text`: the command must fail; its message is returned.
     let params = dir.path().join("params.json");
-    std::fs::write(&params, "{\"drape_limit_m\": \"thin\"}").expect("write");
-    let o = aggrade(&[
-        "interpret",
-        path.to_str().expect("utf-8 path"),
-        "--params",
-        params.to_str().expect("utf-8"),
-    ]);
-    assert!(!o.status.success());
-    let err = stderr(&o);
+    let refused_with = |text: &str| {
+        std::fs::write(&params, text).expect("write");
+        let o = aggrade(&[
+            "interpret",
+            path.to_str().expect("utf-8 path"),
+            "--params",
+            params.to_str().expect("utf-8"),
+        ]);
+        assert!(!o.status.success(), "{text} was accepted");
+        stderr(&o)
+    };
+    let err = refused_with("{\"drape_limit_m\": \"thin\"}");
     assert!(err.contains("params.json: field \"drape_limit_m\", value \"thin\""), "{err}");
 
-    std::fs::write(&params, "{\"drape_limt_m\": 0.3}").expect("write");
-    let o = aggrade(&[
-        "interpret",
-        path.to_str().expect("utf-8 path"),
-        "--params",
-        params.to_str().expect("utf-8"),
-    ]);
-    assert!(!o.status.success());
-    let err = stderr(&o);
+    let err = refused_with("{\"drape_limt_m\": 0.3}");
     assert!(
         err.contains("drape_limt_m") && err.contains("drape_limit_m"),
         "unknown field named with the valid ones: {err}"
