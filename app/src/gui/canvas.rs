@@ -134,19 +134,6 @@ pub fn ruler_step(points_per_unit: f32, min_pt: f32) -> f64 {
     2000.0
 }
 
-/// Position in `strip.bed_boxes` of the box containing strip y (mm); boxes come base first, so
-/// their y falls as the index grows.
-fn box_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
-    let i = strip.bed_boxes.partition_point(|b| b.rect.y > y_mm);
-    let b = strip.bed_boxes.get(i)?;
-    (y_mm <= b.rect.y + b.rect.h).then_some(i)
-}
-
-/// Index in the section of the bed drawn at strip y (mm).
-fn bed_at_y(strip: &Strip, y_mm: f64) -> Option<usize> {
-    box_at_y(strip, y_mm).map(|k| strip.bed_boxes[k].bed_index)
-}
-
 impl Canvas {
     /// Ask to bring a height into view on the next frame.
     pub fn scroll_to_height(&mut self, height_m: f64) {
@@ -330,12 +317,12 @@ impl Canvas {
         }
         if response.clicked() {
             let hit =
-                pointer.and_then(|p| bed_at_y(strip, t.y_mm(p.y))).and_then(|i| beds.get(i)).map(|b| b.id);
+                pointer.and_then(|p| strip.bed_at_y(t.y_mm(p.y))).and_then(|i| beds.get(i)).map(|b| b.id);
             out.select = Some(hit);
         }
         if response.secondary_clicked() {
             self.context_bed =
-                pointer.and_then(|p| bed_at_y(strip, t.y_mm(p.y))).and_then(|i| beds.get(i)).map(|b| b.id);
+                pointer.and_then(|p| strip.bed_at_y(t.y_mm(p.y))).and_then(|i| beds.get(i)).map(|b| b.id);
             if self.context_bed.is_some() {
                 out.select = Some(self.context_bed);
             }
@@ -348,7 +335,7 @@ impl Canvas {
     fn grab_target(&self, p: Pos2, strip: &Strip, beds: &[Bed], t: &MmToScreen) -> Option<DragKind> {
         let y = t.y_mm(p.y);
         let x = t.x_mm(p.x);
-        let k = box_at_y(strip, y)?;
+        let k = strip.box_at_y(y)?;
         let b = strip.bed_boxes.get(k)?;
         let i = b.bed_index;
         let top_screen = t.pos(0.0, b.rect.y).y;

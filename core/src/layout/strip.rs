@@ -28,25 +28,17 @@ pub struct ColumnStrip {
 }
 
 impl ColumnStrip {
-    /// Items whose bounds overlap the y range [y0, y1] (mm), for drawing only what is visible.
-    pub fn items_in_y(&self, y0_mm: f64, y1_mm: f64) -> impl Iterator<Item = &Item> {
-        self.items.iter().filter(move |it| {
-            let b = it.bounds();
-            b.y <= y1_mm && b.y + b.h >= y0_mm
-        })
+    /// Index into `bed_boxes` of the box spanning strip y (mm), if any. Boxes run lowest bed
+    /// first, so their y falls: a binary search finds the box, however long the section.
+    pub fn box_at_y(&self, y_mm: f64) -> Option<usize> {
+        let k = self.bed_boxes.partition_point(|b| b.rect.y > y_mm);
+        let b = self.bed_boxes.get(k)?;
+        (y_mm <= b.rect.y + b.rect.h).then_some(k)
     }
 
-    /// The bed under a point (mm), if any.
-    pub fn bed_at(&self, x_mm: f64, y_mm: f64) -> Option<usize> {
-        self.bed_boxes
-            .iter()
-            .find(|b| {
-                y_mm >= b.rect.y
-                    && y_mm <= b.rect.y + b.rect.h
-                    && x_mm >= b.rect.x
-                    && x_mm <= b.rect.x + b.rect.w
-            })
-            .map(|b| b.bed_index)
+    /// Index in the section of the bed drawn at strip y (mm), if any.
+    pub fn bed_at_y(&self, y_mm: f64) -> Option<usize> {
+        self.box_at_y(y_mm).map(|k| self.bed_boxes[k].bed_index)
     }
 }
 
@@ -118,13 +110,11 @@ mod tests {
             let total_mm = s.total_thickness_m() * 1000.0 / scale;
             assert!(strip.height_mm > total_mm && strip.height_mm < total_mm + 60.0);
             assert!(strip.items.len() > s.beds.len() * 3);
-            // Picking: the middle of a bed's box finds that bed.
-            let b = strip.bed_boxes[4].rect;
-            assert_eq!(strip.bed_at(b.x + 1.0, b.y + b.h / 2.0), Some(4));
-            // Only items overlapping a window are returned, and all of those that do.
-            let (y0, y1) = (b.y, b.y + b.h);
-            let visible = strip.items_in_y(y0, y1).count();
-            assert!(visible > 0 && visible < strip.items.len());
+            // Picking: the middle of each bed's box finds that bed; above the top, none.
+            for (k, b) in strip.bed_boxes.iter().enumerate() {
+                assert_eq!(strip.bed_at_y(b.rect.y + b.rect.h / 2.0), Some(k));
+            }
+            assert_eq!(strip.bed_at_y(strip.bed_boxes[s.beds.len() - 1].rect.y - 1.0), None);
         }
     }
 
