@@ -81,12 +81,17 @@ fn file_is_always_a_complete_old_or_new_version_after_sigkill_during_saves() {
     }
     assert_ne!(expected[0], expected[1], "the two versions must differ");
 
-    // A first complete save, untouched, gives the file an old version and the run time to aim at.
+    // Complete saves, untouched, give the file an old version and the run time to aim at: the
+    // fastest of three, since the first run (cold binary) or a busy moment would stretch the
+    // delays past most saves.
     let output = dir.path().join("saved.aggrade");
-    let start = Instant::now();
-    let status = convert(&inputs[0], &output).status().expect("aggrade runs");
-    let full_run = start.elapsed();
-    assert!(status.success(), "the first save failed");
+    let mut full_run = std::time::Duration::MAX;
+    for _ in 0..3 {
+        let start = Instant::now();
+        let status = convert(&inputs[0], &output).status().expect("aggrade runs");
+        full_run = full_run.min(start.elapsed());
+        assert!(status.success(), "a complete save failed");
+    }
 
     let iterations = match std::env::var("AGGRADE_KILL_ITERATIONS") {
         Ok(v) => {
