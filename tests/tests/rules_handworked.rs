@@ -84,7 +84,7 @@ fn isolated_bodies_in_mudstone() {
     let regimes: Vec<(f64, f64, Regime)> =
         r.accommodation.iter().map(|a| (a.base_m, a.top_m, a.regime)).collect();
     assert_eq!(regimes, vec![(0.0, 4.0, Regime::Undetermined), (4.0, 20.0, Regime::High)]);
-    assert!(r.accommodation[1].why.contains("2 single-story"), "{}", r.accommodation[1].why);
+    assert!(r.accommodation[1].why.to_string().contains("2 single-story"), "{}", r.accommodation[1].why);
     assert_eq!(r.caution, aggrade_core::REVIEW_CAUTION);
 }
 
@@ -96,7 +96,7 @@ fn one_isolated_body_is_not_enough_for_a_high_call() {
     let r = interpret(&section("One", spec), &RuleParams::default());
     assert_eq!(r.accommodation.len(), 1);
     assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
-    assert!(r.accommodation[0].why.contains("only 1 isolated"), "{}", r.accommodation[0].why);
+    assert!(r.accommodation[0].why.to_string().contains("only 1 isolated"), "{}", r.accommodation[0].why);
 }
 
 #[test]

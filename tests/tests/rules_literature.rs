@@ -89,7 +89,7 @@ fn grain_jump_counted_on_the_wentworth_scale() {
         let r = interpret(&s, &RuleParams::default());
         r.sequence_boundary_candidates
             .iter()
-            .any(|c| c.evidence.iter().any(|e| e.starts_with("grain size jumps up")))
+            .any(|c| c.evidence.iter().any(|e| e.to_string().starts_with("grain size jumps up")))
     };
     assert!(!jumps(WentworthClass::MediumSand));
     assert!(jumps(WentworthClass::CoarseSand));

@@ -196,7 +196,11 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
                 aggrade_core::rules::FluvialStyle::BraidedLike => "braided-like",
                 aggrade_core::rules::FluvialStyle::MeanderingLike => "meandering-like",
             };
-            let _ = writeln!(s, "     style hint: {style} ({})", h.evidence.join("; "));
+            let _ = writeln!(
+                s,
+                "     style hint: {style} ({})",
+                h.evidence.iter().map(ToString::to_string).collect::<Vec<_>>().join("; ")
+            );
         }
     }
 

@@ -6,7 +6,8 @@
 //! body's base (the stretch below the first body has no body). Neighbouring stretches with the
 //! same call are merged.
 
-use super::column::{proportion_of, Column, TOL};
+use super::column::{proportion_of, Column, RisingWindows, TOL};
+use super::evidence::{RegimeWhy, Undetermined};
 use super::params::RuleParams;
 use super::types::{ChannelBody, Regime, RegimeInterval, Stacking};
 
@@ -16,46 +17,50 @@ struct Stretch {
     top_m: f64,
     body: Option<usize>,
     regime: Regime,
-    reasons: Vec<String>,
+    reasons: Vec<Undetermined>,
 }
 
 /// The first call for one stretch, before neighbours are merged.
-fn call(column: &Column, bodies: &[ChannelBody], s: &mut Stretch, params: &RuleParams) {
+fn call(windows: &mut RisingWindows, bodies: &[ChannelBody], s: &mut Stretch, params: &RuleParams) {
     let len_m = s.top_m - s.base_m;
-    let (channel_m, exposed_m) = column.window_m(s.base_m, s.top_m);
+    let (channel_m, exposed_m) = windows.window_m(s.base_m, s.top_m);
     let covered = if len_m > 0.0 { 1.0 - exposed_m / len_m } else { 1.0 };
     let proportion = proportion_of(channel_m, exposed_m);
-    let undetermined = |s: &mut Stretch, why: String| {
+    let undetermined = |s: &mut Stretch, why: Undetermined| {
         s.regime = Regime::Undetermined;
         s.reasons.push(why);
     };
     if len_m <= 0.0 {
-        return undetermined(s, "the section has no thickness".to_string());
+        return undetermined(s, Undetermined::NoThickness);
     }
     if covered > params.max_covered_fraction + TOL {
         let pct = (covered * 100.0).round();
-        return undetermined(s, format!("mostly covered ({pct}% of {:.2}–{:.2} m)", s.base_m, s.top_m));
+        let (base_m, top_m) = (s.base_m, s.top_m);
+        return undetermined(s, Undetermined::MostlyCovered { percent: pct, base_m, top_m });
     }
     let (Some(k), Some(p)) = (s.body, proportion) else {
-        return undetermined(s, format!("no channel body between {:.2} and {:.2} m", s.base_m, s.top_m));
+        let (base_m, top_m) = (s.base_m, s.top_m);
+        return undetermined(s, Undetermined::NoChannelBody { base_m, top_m });
     };
     match bodies[k].stacking {
         Stacking::MultiStory if p >= params.low_min_proportion - TOL => s.regime = Regime::Low,
         Stacking::SingleStory if p <= params.high_max_proportion + TOL => s.regime = Regime::High,
-        Stacking::MultiStory => undetermined(
-            s,
-            format!(
-                "multi-story body at {:.2} m but channel-body proportion only {p:.2} (low accommodation needs ≥ {:.2})",
-                s.base_m, params.low_min_proportion
-            ),
-        ),
-        Stacking::SingleStory => undetermined(
-            s,
-            format!(
-                "single-story body at {:.2} m but channel-body proportion {p:.2} (high accommodation needs ≤ {:.2})",
-                s.base_m, params.high_max_proportion
-            ),
-        ),
+        Stacking::MultiStory => {
+            let why = Undetermined::MultiStoryTooLittle {
+                base_m: s.base_m,
+                proportion: p,
+                min: params.low_min_proportion,
+            };
+            undetermined(s, why)
+        }
+        Stacking::SingleStory => {
+            let why = Undetermined::SingleStoryTooMuch {
+                base_m: s.base_m,
+                proportion: p,
+                max: params.high_max_proportion,
+            };
+            undetermined(s, why)
+        }
     }
 }
 
@@ -71,40 +76,31 @@ fn merge(stretches: Vec<Vec<Stretch>>) -> Vec<Vec<Stretch>> {
     out
 }
 
-/// The reasoning for a merged group, in words.
-fn why(column: &Column, bodies: &[ChannelBody], group: &[Stretch], params: &RuleParams) -> String {
+/// The reasoning for a merged group (put into words only when shown).
+fn why(
+    windows: &mut RisingWindows,
+    bodies: &[ChannelBody],
+    group: &[Stretch],
+    params: &RuleParams,
+) -> RegimeWhy {
     let base = group[0].base_m;
     let top = group[group.len() - 1].top_m;
-    let p = column.proportion(base, top).map_or("none (no exposure)".to_string(), |p| format!("{p:.2}"));
-    let in_group: Vec<&ChannelBody> = group.iter().filter_map(|s| s.body.map(|k| &bodies[k])).collect();
+    let proportion = windows.proportion(base, top);
+    let in_group = || group.iter().filter_map(|s| s.body.map(|k| &bodies[k]));
     match group[0].regime {
-        Regime::Low => {
-            let storeys: usize = in_group.iter().map(|b| b.stories).sum();
-            let amalgamated: usize = in_group.iter().map(|b| b.amalgamated_bases).sum();
-            format!(
-                "{} multi-story channel bod{} ({storeys} storeys, {amalgamated} storey base{} on channel sand) and a \
-                 channel-body proportion of {p} (≥ {:.2}): amalgamated, sand-rich stacking suggests low accommodation",
-                in_group.len(),
-                if in_group.len() == 1 { "y" } else { "ies" },
-                if amalgamated == 1 { "" } else { "s" },
-                params.low_min_proportion
-            )
+        Regime::Low => RegimeWhy::Low {
+            bodies: in_group().count(),
+            storeys: in_group().map(|b| b.stories).sum(),
+            amalgamated_bases: in_group().map(|b| b.amalgamated_bases).sum(),
+            proportion,
+            min: params.low_min_proportion,
+        },
+        Regime::High => {
+            RegimeWhy::High { bodies: in_group().count(), proportion, max: params.high_max_proportion }
         }
-        Regime::High => format!(
-            "{} single-story channel bodies isolated in floodplain fines and a channel-body proportion of {p} \
-             (≤ {:.2}): suggests high accommodation",
-            in_group.len(),
-            params.high_max_proportion
-        ),
-        Regime::Undetermined => {
-            let mut reasons: Vec<&str> = Vec::new();
-            for r in group.iter().flat_map(|s| s.reasons.iter()) {
-                if !reasons.contains(&r.as_str()) {
-                    reasons.push(r);
-                }
-            }
-            format!("evidence too thin or mixed to call a regime: {}", reasons.join("; "))
-        }
+        Regime::Undetermined => RegimeWhy::Undetermined {
+            reasons: group.iter().flat_map(|s| s.reasons.iter().cloned()).collect(),
+        },
     }
 }
 
@@ -116,11 +112,13 @@ pub fn regimes(column: &Column, bodies: &[ChannelBody], params: &RuleParams) -> 
         cuts.push((0.0, None));
     }
     cuts.extend(bodies.iter().enumerate().map(|(k, b)| (b.base_m, Some(k))));
+    // Stretches and groups both rise up the section: one cursor each keeps the windows linear.
+    let mut windows = column.rising_windows();
     let mut stretches: Vec<Vec<Stretch>> = Vec::with_capacity(cuts.len());
     for (i, &(base_m, body)) in cuts.iter().enumerate() {
         let top_m = cuts.get(i + 1).map_or(total, |c| c.0);
         let mut s = Stretch { base_m, top_m, body, regime: Regime::Undetermined, reasons: Vec::new() };
-        call(column, bodies, &mut s, params);
+        call(&mut windows, bodies, &mut s, params);
         stretches.push(vec![s]);
     }
     let mut groups = merge(stretches);
@@ -131,20 +129,18 @@ pub fn regimes(column: &Column, bodies: &[ChannelBody], params: &RuleParams) -> 
             for s in g.iter_mut() {
                 s.regime = Regime::Undetermined;
             }
-            g[0].reasons.push(format!(
-                "only {n} isolated single-story bod{} (high accommodation needs {} in a row)",
-                if n == 1 { "y" } else { "ies" },
-                params.high_min_isolated_bodies
-            ));
+            g[0].reasons
+                .push(Undetermined::TooFewIsolated { bodies: n, needed: params.high_min_isolated_bodies });
         }
     }
+    let mut windows = column.rising_windows();
     merge(groups)
         .iter()
         .map(|g| RegimeInterval {
             base_m: g[0].base_m,
             top_m: g[g.len() - 1].top_m,
             regime: g[0].regime,
-            why: why(column, bodies, g, params),
+            why: why(&mut windows, bodies, g, params),
         })
         .collect()
 }
@@ -183,7 +179,7 @@ mod tests {
         assert_eq!(r.accommodation.len(), 1, "{:?}", r.accommodation);
         assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
         assert!(
-            r.accommodation[0].why.contains("mostly covered (63% of 1.00–17.00 m)"),
+            r.accommodation[0].why.to_string().contains("mostly covered (63% of 1.00–17.00 m)"),
             "{}",
             r.accommodation[0].why
         );
@@ -201,6 +197,10 @@ mod tests {
         ]);
         let r = interpret(&s, &RuleParams::default());
         assert!(r.accommodation.iter().all(|a| a.regime == Regime::Undetermined));
-        assert!(r.accommodation[0].why.contains("proportion only 0.20"), "{}", r.accommodation[0].why);
+        assert!(
+            r.accommodation[0].why.to_string().contains("proportion only 0.20"),
+            "{}",
+            r.accommodation[0].why
+        );
     }
 }

@@ -3,6 +3,7 @@
 
 use super::bodies::{body_beds, grain_at_base, grain_at_top};
 use super::column::{Column, TOL};
+use super::evidence::Evidence;
 use super::params::RuleParams;
 use super::types::{BoundaryCandidate, CandidateKind, ChannelBody, Element, Stacking, Storey};
 use crate::model::{Contact, Section};
@@ -58,6 +59,8 @@ pub fn candidates(
         decisions.entry(d.bed).or_insert(d);
     }
 
+    // Sites come in rising order, so the windows below and above each one rise too.
+    let (mut windows_below, mut windows_above) = (column.rising_windows(), column.rising_windows());
     let mut out: Vec<BoundaryCandidate> = sites
         .into_iter()
         .filter(|(j, _)| *j > 0 && *j < n)
@@ -72,13 +75,13 @@ pub fn candidates(
                 let body = &bodies[k];
                 if body.stacking == Stacking::MultiStory {
                     score += params.weight_multistory_base;
-                    evidence.push(format!("base of a multi-story (amalgamated) channel body of {} storeys", body.stories));
+                    evidence.push(Evidence::MultiStoryBase { storeys: body.stories });
                 } else {
-                    evidence.push("erosional base of a single-story channel body".to_string());
+                    evidence.push(Evidence::SingleStoryBase);
                 }
             }
             if site.on_paleosol && !is_strong_soil(j - 1) {
-                evidence.push(format!("top of a paleosol of {} development", below.paleosol.name()));
+                evidence.push(Evidence::PaleosolTop { development: below.paleosol });
             }
 
             // Abrupt upward jump in grain size, counted in Wentworth classes.
@@ -86,11 +89,7 @@ pub fn candidates(
                 let jump = up.class().rank() as i64 - down.class().rank() as i64;
                 if jump >= params.grain_jump_min_classes as i64 && jump > 0 {
                     score += params.weight_grain_jump;
-                    evidence.push(format!(
-                        "grain size jumps up {jump} Wentworth classes, from {} to {}",
-                        down.class().name(),
-                        up.class().name()
-                    ));
+                    evidence.push(Evidence::GrainJump { classes: jump, from: down.class(), to: up.class() });
                 }
             }
 
@@ -102,10 +101,10 @@ pub fn candidates(
                 let storey_below = below_count.checked_sub(1).map(|k| storeys[k].top_m - storeys[k].base_m);
                 if r > params.relief_limit_m + TOL {
                     score += params.weight_relief;
-                    evidence.push(format!("erosional relief of {r:.2} m exceeds the {:.2} m relief limit", params.relief_limit_m));
+                    evidence.push(Evidence::ReliefOverLimit { relief_m: r, limit_m: params.relief_limit_m });
                 } else if let Some(t) = storey_below.filter(|t| r > *t + TOL) {
                     score += params.weight_relief;
-                    evidence.push(format!("erosional relief of {r:.2} m exceeds the {t:.2} m storey below"));
+                    evidence.push(Evidence::ReliefOverStorey { relief_m: r, storey_m: t });
                 }
             }
 
@@ -113,40 +112,33 @@ pub fn candidates(
             if site.body.is_some() {
                 if is_strong_soil(j - 1) {
                     score += params.weight_on_strong_paleosol;
-                    evidence.push(format!(
-                        "erodes directly into a paleosol of {} development",
-                        below.paleosol.name()
-                    ));
+                    evidence.push(Evidence::ErodesIntoPaleosol { development: below.paleosol });
                 } else if let (Some(r), Some(s)) = (relief_m, last_strong[j - 1]) {
                     let depth_m = height_m - column.bounds_m[s + 1];
                     if depth_m < r - TOL {
                         score += params.weight_on_strong_paleosol;
-                        evidence.push(format!(
-                            "its {r:.2} m relief reaches a paleosol of {} development {depth_m:.2} m below",
-                            beds[s].paleosol.name()
-                        ));
+                        evidence.push(Evidence::ReliefReachesPaleosol {
+                            relief_m: r,
+                            development: beds[s].paleosol,
+                            depth_m,
+                        });
                     }
                 }
             } else if is_strong_soil(j - 1) {
                 // Interfluve equivalent: a mature soil on floodplain fines, not cut by a channel here.
                 score += params.weight_interfluve_paleosol;
-                evidence.push(format!(
-                    "paleosol of {} development caps floodplain fines (possible interfluve equivalent)",
-                    below.paleosol.name()
-                ));
+                evidence.push(Evidence::InterfluvePaleosol { development: below.paleosol });
             }
 
             // Basinward shift in stacking: more channel deposits above than below.
             let w = params.boundary_window_m;
             if w.is_finite() && w > 0.0 && height_m > 0.0 {
-                let lower = column.proportion(height_m - w, height_m);
-                let upper = column.proportion(height_m, height_m + w);
+                let lower = windows_below.proportion(height_m - w, height_m);
+                let upper = windows_above.proportion(height_m, height_m + w);
                 if let (Some(lo), Some(up)) = (lower, upper) {
                     if up - lo >= params.proportion_jump_min - TOL {
                         score += params.weight_proportion_jump;
-                        evidence.push(format!(
-                            "channel-body proportion rises from {lo:.2} in the {w} m below to {up:.2} in the {w} m above"
-                        ));
+                        evidence.push(Evidence::ProportionRise { below: lo, above: up, window_m: w });
                     }
                 }
             }
@@ -225,7 +217,7 @@ mod tests {
         assert!(base
             .evidence
             .iter()
-            .any(|e| e.contains("relief reaches a paleosol of strong development 0.50 m below")));
+            .any(|e| e.to_string().contains("relief reaches a paleosol of strong development 0.50 m below")));
         let top = at(4.0).expect("paleosol-top candidate");
         assert_eq!(top.kind, CandidateKind::PaleosolTop);
         assert!((top.score - p.weight_interfluve_paleosol).abs() < 1e-12, "{top:?}");
@@ -235,7 +227,7 @@ mod tests {
         shallow.beds[3].base_relief_m = Some(0.4);
         let r = interpret(&shallow, &p);
         let base = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 3).expect("candidate");
-        assert!(base.evidence.iter().all(|e| !e.contains("relief reaches")), "{base:?}");
+        assert!(base.evidence.iter().all(|e| !e.to_string().contains("relief reaches")), "{base:?}");
     }
 
     #[test]

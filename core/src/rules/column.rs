@@ -148,22 +148,56 @@ impl Column {
     /// Proportions in windows `[h − half, h + half]` for rising heights `h`, in one upward sweep
     /// (linear in beds plus points, no search per point).
     pub fn sweep_proportions(&self, heights_m: impl Iterator<Item = f64>, half_m: f64) -> Vec<Option<f64>> {
-        let (mut ka, mut kb) = (0, 0);
-        heights_m
-            .map(|h| {
-                let (a, b) = (self.clamp_m(h - half_m), self.clamp_m(h + half_m));
-                // Heights are meant to rise; fall back to bisection if one does not.
-                ka = if a >= self.bounds_m[ka] { self.beds_below_from(ka, a) } else { self.beds_below(a) };
-                kb = if b >= self.bounds_m[kb] { self.beds_below_from(kb, b) } else { self.beds_below(b) };
-                let (ca, ea) = self.sums_at(ka, a);
-                let (cb, eb) = self.sums_at(kb, b);
-                proportion_of((cb - ca).max(0.0), (eb - ea).max(0.0))
-            })
-            .collect()
+        let mut windows = self.rising_windows();
+        heights_m.map(|h| windows.proportion(h - half_m, h + half_m)).collect()
+    }
+
+    /// A cursor for windows whose ends rise from one call to the next.
+    pub fn rising_windows(&self) -> RisingWindows<'_> {
+        RisingWindows { column: self, below_base: 0, below_top: 0 }
     }
 
     /// Channel-body proportion between two heights; `None` when that stretch has no exposure.
     pub fn proportion(&self, base_m: f64, top_m: f64) -> Option<f64> {
+        let (c, e) = self.window_m(base_m, top_m);
+        proportion_of(c, e)
+    }
+}
+
+/// Windows looked up in rising order: each end walks up from where the last window's end was,
+/// so a pass of rising windows costs one pass over the beds instead of a bisection per window
+/// (an end that falls is found by bisection, so any order gives the same sums).
+pub(crate) struct RisingWindows<'a> {
+    column: &'a Column,
+    /// Beds fully below the last window's base and top.
+    below_base: usize,
+    below_top: usize,
+}
+
+impl RisingWindows<'_> {
+    /// Beds fully below `h`, starting from a count `k` found for an earlier height.
+    fn below(&self, k: usize, h: f64) -> usize {
+        let c = self.column;
+        if h >= c.bounds_m[k] {
+            c.beds_below_from(k, h)
+        } else {
+            c.beds_below(h)
+        }
+    }
+
+    /// Same as [`Column::window_m`].
+    pub fn window_m(&mut self, base_m: f64, top_m: f64) -> (f64, f64) {
+        let c = self.column;
+        let (a, b) = (c.clamp_m(base_m), c.clamp_m(top_m));
+        self.below_base = self.below(self.below_base, a);
+        self.below_top = self.below(self.below_top, b);
+        let (ca, ea) = c.sums_at(self.below_base, a);
+        let (cb, eb) = c.sums_at(self.below_top, b);
+        ((cb - ca).max(0.0), (eb - ea).max(0.0))
+    }
+
+    /// Same as [`Column::proportion`].
+    pub fn proportion(&mut self, base_m: f64, top_m: f64) -> Option<f64> {
         let (c, e) = self.window_m(base_m, top_m);
         proportion_of(c, e)
     }

@@ -11,11 +11,13 @@ mod bodies;
 mod boundaries;
 mod column;
 mod elements;
+pub mod evidence;
 pub mod params;
 mod proportion;
 mod style;
 pub mod types;
 
+pub use evidence::{Evidence, RegimeWhy, Undetermined};
 pub use params::RuleParams;
 pub use types::*;
 

@@ -3,6 +3,7 @@
 
 use super::bodies::{body_beds, profile};
 use super::column::{is_sand_or_gravel, Column, TOL};
+use super::evidence::Evidence;
 use super::params::RuleParams;
 use super::types::{ChannelBody, Element, FluvialStyle, GrainProfile, Storey, StyleHint};
 use crate::model::{Section, Structure};
@@ -16,7 +17,7 @@ fn evidence(
     bodies: &[ChannelBody],
     index: usize,
     params: &RuleParams,
-) -> (Vec<String>, Vec<String>) {
+) -> (Vec<Evidence>, Vec<Evidence>) {
     let body = &bodies[index];
     let (first, last) = body_beds(body, storeys);
     let beds = &section.beds[first..=last];
@@ -24,19 +25,19 @@ fn evidence(
     let mut meandering = Vec::new();
 
     if let Some(c) = body.grain_coarsest.filter(|c| c.class() >= params.braided_min_coarsest) {
-        braided.push(format!("coarse-grained: up to {}", c.class().name()));
+        braided.push(Evidence::CoarseGrained { coarsest: c.class() });
     }
     if body.profile == GrainProfile::Blocky {
-        braided.push("blocky grain-size profile".to_string());
+        braided.push(Evidence::BlockyProfile);
     }
     if beds.iter().any(|b| b.structures.contains(&Structure::DownstreamAccretion)) {
-        braided.push("downstream-accretion surfaces recorded".to_string());
+        braided.push(Evidence::DownstreamAccretion);
     }
     let mud_m: f64 = (first..=last)
         .filter(|&i| !is_sand_or_gravel(&section.beds[i]))
         .fold(0.0, |sum, i| sum + column.thickness_m(i));
     if body.thickness_m > 0.0 && mud_m < params.little_mud_max_fraction * body.thickness_m {
-        braided.push(format!("little mud inside the body ({mud_m:.2} m of drapes)"));
+        braided.push(Evidence::LittleMud { mud_m });
     }
 
     let fining = body
@@ -47,10 +48,10 @@ fn evidence(
         })
         .count();
     if fining * 2 > body.storey_indices.len() {
-        meandering.push(format!("{fining} of {} storeys fine upward", body.storey_indices.len()));
+        meandering.push(Evidence::FiningStoreys { fining, storeys: body.storey_indices.len() });
     }
     if beds.iter().any(|b| b.structures.contains(&Structure::LateralAccretion)) {
-        meandering.push("lateral-accretion surfaces recorded".to_string());
+        meandering.push(Evidence::LateralAccretion);
     }
     // Overbank deposits (fines, paleosols, splays) directly above the body, up to the next body
     // or the first covered or non-clastic bed.
@@ -61,10 +62,7 @@ fn evidence(
         })
         .fold(0.0, |sum, i| sum + column.thickness_m(i));
     if body.thickness_m > 0.0 && overbank_m >= body.thickness_m - TOL {
-        meandering.push(format!(
-            "thick overbank fines above ({overbank_m:.2} m over a {:.2} m body)",
-            body.thickness_m
-        ));
+        meandering.push(Evidence::ThickOverbank { overbank_m, body_m: body.thickness_m });
     }
     (braided, meandering)
 }

@@ -3,6 +3,7 @@
 //! Heights are metres above the section base. Field names ending in `_m` are serialised without
 //! the suffix (`base`, `top`, `height`) to keep the `aggrade interpret --json` contract.
 
+use super::evidence::{Evidence, RegimeWhy};
 use crate::model::{BedId, GrainSize, ReviewState};
 use serde::Serialize;
 
@@ -66,7 +67,7 @@ pub enum FluvialStyle {
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct StyleHint {
     pub style: FluvialStyle,
-    pub evidence: Vec<String>,
+    pub evidence: Vec<Evidence>,
 }
 
 /// Storeys stacked with nothing but thin drapes between them.
@@ -127,7 +128,7 @@ pub struct RegimeInterval {
     #[serde(rename = "top")]
     pub top_m: f64,
     pub regime: Regime,
-    pub why: String,
+    pub why: RegimeWhy,
 }
 
 /// What kind of surface a candidate sequence boundary sits on.
@@ -154,7 +155,7 @@ pub struct BoundaryCandidate {
     pub kind: CandidateKind,
     /// 0–1, from the weighted evidence.
     pub score: f64,
-    pub evidence: Vec<String>,
+    pub evidence: Vec<Evidence>,
     /// The geologist's decision, carried over from the section's review list.
     pub review: ReviewState,
     /// The geologist's note on it, if any.
