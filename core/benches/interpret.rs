@@ -68,6 +68,19 @@ fn bench_interpret(c: &mut Criterion) {
         });
     }
     g.finish();
+    // The floor for any rule: one pass reading one field of every bed. When this grows faster
+    // than tenfold per tenfold beds, the section has outgrown the processor's caches (each bed
+    // is a few hundred bytes), and the rules' growth beyond tenfold comes from that, not from
+    // their own work.
+    let mut g = c.benchmark_group("one_pass_over_beds_by_size");
+    g.sample_size(20);
+    for n in [1_000usize, 10_000, 100_000] {
+        let s = generated_section(n);
+        g.bench_with_input(BenchmarkId::from_parameter(n), &s, |b, s| {
+            b.iter(|| black_box(s).beds.iter().map(|bed| bed.thickness_m).sum::<f64>())
+        });
+    }
+    g.finish();
 }
 
 criterion_group!(benches, bench_interpret);

@@ -31,16 +31,18 @@ pub fn candidates(
     let n = beds.len();
     let is_strong_soil = |i: usize| elements[i] == Element::Paleosol && beds[i].paleosol.is_strong();
 
-    let mut sites: BTreeMap<usize, Site> = BTreeMap::new();
+    // What sits at each bed boundary (indexed by the bed above it); most have nothing.
+    let mut sites: Vec<Site> = Vec::new();
+    sites.resize_with(n, Site::default);
     for (k, body) in bodies.iter().enumerate() {
         let (first, _) = body_beds(body, storeys);
         if beds[first].base_contact == Contact::Erosional {
-            sites.entry(first).or_default().body = Some(k);
+            sites[first].body = Some(k);
         }
     }
     for (i, el) in elements.iter().enumerate().take(n.saturating_sub(1)) {
         if *el == Element::Paleosol {
-            sites.entry(i + 1).or_default().on_paleosol = true;
+            sites[i + 1].on_paleosol = true;
         }
     }
 
@@ -61,9 +63,10 @@ pub fn candidates(
 
     // Sites come in rising order, so the windows below and above each one rise too.
     let (mut windows_below, mut windows_above) = (column.rising_windows(), column.rising_windows());
-    let mut out: Vec<BoundaryCandidate> = sites
+    let found: Vec<BoundaryCandidate> = sites
         .into_iter()
-        .filter(|(j, _)| *j > 0 && *j < n)
+        .enumerate()
+        .filter(|(j, site)| *j > 0 && (site.body.is_some() || site.on_paleosol))
         .map(|(j, site)| {
             let height_m = column.bounds_m[j];
             let above = &beds[j];
@@ -161,13 +164,18 @@ pub fn candidates(
             }
         })
         .collect();
-    out.sort_by(|a, b| {
+    // Sort small keys rather than the candidates themselves (each carries its evidence), then
+    // move every candidate once into its place.
+    let mut order: Vec<usize> = (0..found.len()).collect();
+    order.sort_by(|&a, &b| {
+        let (a, b) = (&found[a], &found[b]);
         b.score
             .total_cmp(&a.score)
             .then(a.height_m.total_cmp(&b.height_m))
             .then(a.bed_index.cmp(&b.bed_index))
     });
-    out
+    let mut slots: Vec<Option<BoundaryCandidate>> = found.into_iter().map(Some).collect();
+    order.into_iter().filter_map(|k| slots[k].take()).collect()
 }
 
 #[cfg(test)]

@@ -145,13 +145,6 @@ impl Column {
         ((cb - ca).max(0.0), (eb - ea).max(0.0))
     }
 
-    /// Proportions in windows `[h − half, h + half]` for rising heights `h`, in one upward sweep
-    /// (linear in beds plus points, no search per point).
-    pub fn sweep_proportions(&self, heights_m: impl Iterator<Item = f64>, half_m: f64) -> Vec<Option<f64>> {
-        let mut windows = self.rising_windows();
-        heights_m.map(|h| windows.proportion(h - half_m, h + half_m)).collect()
-    }
-
     /// A cursor for windows whose ends rise from one call to the next.
     pub fn rising_windows(&self) -> RisingWindows<'_> {
         RisingWindows { column: self, below_base: 0, below_top: 0 }
@@ -243,7 +236,7 @@ mod tests {
     }
 
     #[test]
-    fn sweep_agrees_with_separate_windows_even_when_heights_fall() {
+    fn rising_windows_agree_with_separate_windows_even_when_heights_fall() {
         let s = section(&[
             (2.0, Lithology::Sandstone),
             (3.0, Lithology::Covered),
@@ -254,9 +247,9 @@ mod tests {
             [Element::ChannelDeposit, Element::Covered, Element::OverbankFines, Element::ChannelDeposit];
         let col = Column::new(&s).with_elements(&els);
         let heights = [0.0, 0.7, 2.0, 4.9, 5.0, 9.5, 3.0, 1.0, 10.0, 12.0];
-        let swept = col.sweep_proportions(heights.iter().copied(), 1.5);
-        for (h, p) in heights.iter().zip(swept) {
-            assert_eq!(p, col.proportion(h - 1.5, h + 1.5), "at {h} m");
+        let mut windows = col.rising_windows();
+        for h in heights {
+            assert_eq!(windows.proportion(h - 1.5, h + 1.5), col.proportion(h - 1.5, h + 1.5), "at {h} m");
         }
     }
 

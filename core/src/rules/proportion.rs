@@ -7,7 +7,7 @@ use super::types::{CurvePoint, IntervalProportion};
 
 /// The proportion in a window of `window_m` centred on heights 0, step, 2·step … up to the
 /// section top; the window is clipped to the section. Empty when the step or window is not a
-/// positive number. One upward sweep: linear in beds plus points.
+/// positive number. One upward pass of rising windows: linear in beds plus points.
 pub fn proportion_curve(column: &Column, params: &RuleParams) -> Vec<CurvePoint> {
     let step = params.curve_step_m;
     let half = params.window_m / 2.0;
@@ -19,9 +19,13 @@ pub fn proportion_curve(column: &Column, params: &RuleParams) -> Vec<CurvePoint>
     let steps = ((total / step) + 1e-9).floor();
     let count = if steps.is_finite() && steps >= 0.0 { (steps as usize).saturating_add(1) } else { 1 };
     let count = count.min(MAX_CURVE_POINTS);
-    let heights = (0..count).map(|k| k as f64 * step);
-    let proportions = column.sweep_proportions(heights.clone(), half);
-    heights.zip(proportions).map(|(height_m, proportion)| CurvePoint { height_m, proportion }).collect()
+    let mut windows = column.rising_windows();
+    (0..count)
+        .map(|k| {
+            let height_m = k as f64 * step;
+            CurvePoint { height_m, proportion: windows.proportion(height_m - half, height_m + half) }
+        })
+        .collect()
 }
 
 /// Proportions of the intervals that the cut heights split the section into (cuts outside the
