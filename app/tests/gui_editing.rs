@@ -521,7 +521,7 @@ fn dropping_a_csv_imports_it_and_dropping_a_project_opens_it() {
     h.get_by_label("Don't save").click();
     h.run();
     let expected = aggrade_core::io::load(&project).expect("demo readable").project;
-    assert_eq!(h.state().doc.project, expected);
+    assert_eq!(*h.state().doc.project, expected);
     assert_eq!(h.state().doc.path.as_deref(), Some(project.as_path()));
 }
 

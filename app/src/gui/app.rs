@@ -103,9 +103,24 @@ impl Command {
     ];
 }
 
+/// Sections with at least this many beds have their rules and layout re-run on a worker thread
+/// after an edit, so that the frame never waits for them (about 3 ms at 5,000 beds); the column
+/// drawn meanwhile is the one from before the edit, for a frame or two. Shorter sections, whose
+/// rules take well under a millisecond, are brought up to date within the frame.
+pub const BACKGROUND_RULES_MIN_BEDS: usize = 2_000;
+
+/// What an interpretation was computed from: document revision, section, rule parameters.
+type RulesKey = (u64, usize, RuleParams);
+
+/// Rules and layout running on a worker thread for one state of the document.
+struct Refreshing {
+    rules_key: RulesKey,
+    result: std::sync::mpsc::Receiver<Cache>,
+}
+
 struct Cache {
     /// What the interpretation was computed from: document revision, section, rule parameters.
-    rules_key: (u64, usize, RuleParams),
+    rules_key: RulesKey,
     interp: Interpretation,
     /// What the strip was laid out from, besides the interpretation.
     layout_key: LayoutOptions,
@@ -116,6 +131,20 @@ struct Cache {
 }
 
 impl Cache {
+    /// Lay out an interpretation of `section` for the heights `window_m` (all when `None`) and
+    /// index the items for drawing.
+    fn build(
+        section: &Section,
+        interp: Interpretation,
+        rules_key: RulesKey,
+        layout: &LayoutOptions,
+        window_m: Option<(f64, f64)>,
+    ) -> Cache {
+        let strip = engine::column_strip_window(section, &interp, layout, window_m);
+        let index = ItemIndex::build(&strip.items, strip.height_mm);
+        Cache { rules_key, interp, layout_key: layout.clone(), strip, window_m, index }
+    }
+
     /// Does the laid-out window hold every height in the canvas's view (strip y, mm)?
     fn covers(&self, view_y_mm: Option<(f64, f64)>) -> bool {
         match (self.window_m, view_y_mm) {
@@ -140,6 +169,11 @@ impl Cache {
     }
 }
 
+/// Drop a large value on a short-lived thread (or here, if no thread can be had).
+pub(crate) fn drop_elsewhere<T: Send + 'static>(value: T) {
+    let _ = std::thread::Builder::new().name("aggrade-drop".into()).spawn(move || drop(value));
+}
+
 /// The window's state.
 pub struct AggradeApp {
     pub doc: Document,
@@ -159,6 +193,10 @@ pub struct AggradeApp {
     export: Option<ExportDialog>,
     curve_dialog: Option<CurveDialog>,
     cache: Option<Cache>,
+    /// The worker bringing `cache` up to date after an edit of a long section, if one runs.
+    refreshing: Option<Refreshing>,
+    /// Asked to draw again when a worker's result is ready.
+    repaint: Option<egui::Context>,
     dialogs: Box<dyn FileDialogs>,
     autosaver: Autosaver,
     recovery_offer: Option<Recovery>,
@@ -215,6 +253,8 @@ impl AggradeApp {
             export: None,
             curve_dialog: None,
             cache: None,
+            refreshing: None,
+            repaint: None,
             dialogs: config.dialogs,
             autosaver: Autosaver::new(&config.data_dir),
             recovery_offer,
@@ -225,10 +265,22 @@ impl AggradeApp {
         }
     }
 
-    /// The current interpretation (computed on demand).
+    /// The current interpretation (computed on demand; waits for a worker if one is running).
     pub fn interpretation(&mut self) -> &Interpretation {
-        self.refresh();
+        self.settle();
         &self.cache.as_ref().expect("refreshed above").interp
+    }
+
+    /// True while the column drawn is from before the last edit (a worker is bringing it up
+    /// to date).
+    pub fn column_pending(&self) -> bool {
+        self.refreshing.is_some()
+    }
+
+    /// The document revision the column on screen was computed from (`None` before the first
+    /// frame); behind [`Document::revision`] while a worker runs.
+    pub fn column_revision(&self) -> Option<u64> {
+        self.cache.as_ref().map(|c| c.rules_key.0)
     }
 
     /// Is a recovery offer showing?
@@ -289,8 +341,11 @@ impl AggradeApp {
 
     /// Bring the interpretation and the laid-out column up to date: the rules re-run when the
     /// section or the parameters changed; the layout is rebuilt for the heights around the view
-    /// (a long section is never laid out whole while editing or scrolling).
+    /// (a long section is never laid out whole while editing or scrolling). After an edit of a
+    /// long section the rules run on a worker and the column from before stays on screen until
+    /// the worker is done ([`BACKGROUND_RULES_MIN_BEDS`]).
     fn refresh(&mut self) {
+        self.collect_worker(false);
         let rules_key = (self.doc.revision, self.doc.selected_section, self.params.clone());
         let view = self.canvas.view_y_mm();
         let section = self.doc.section();
@@ -307,15 +362,88 @@ impl AggradeApp {
                 }
                 (c.interp, w)
             }
+            Some(c) if section.beds.len() >= BACKGROUND_RULES_MIN_BEDS => {
+                let w = c.window_for(view, total_m);
+                self.cache = Some(c);
+                self.start_worker(rules_key, w);
+                return;
+            }
             old => {
                 let w = old.as_ref().and_then(|c| c.window_for(view, total_m));
                 (engine::interpret(section, &self.params), w)
             }
         };
-        let strip = engine::column_strip_window(section, &interp, &self.layout, window_m);
-        let index = ItemIndex::build(&strip.items, strip.height_mm);
-        self.cache =
-            Some(Cache { rules_key, interp, layout_key: self.layout.clone(), strip, window_m, index });
+        self.cache = Some(Cache::build(section, interp, rules_key, &self.layout, window_m));
+    }
+
+    /// Start the rules and layout for the current state on a worker thread, unless one is
+    /// running: one worker at a time, and the next starts when it reports, so the edits of a
+    /// drag are brought up to date in as few runs as the machine allows.
+    fn start_worker(&mut self, rules_key: RulesKey, window_m: Option<(f64, f64)>) {
+        if self.refreshing.is_some() {
+            return;
+        }
+        // The worker shares the document's project (an edit puts a new one in its place rather
+        // than changing this one), so nothing is copied for it.
+        let project = std::sync::Arc::clone(&self.doc.project);
+        let selected = self.doc.selected_section.min(project.sections.len().saturating_sub(1));
+        let (params, layout) = (self.params.clone(), self.layout.clone());
+        let (tx, rx) = std::sync::mpsc::channel();
+        let key = rules_key.clone();
+        let repaint = self.repaint.clone();
+        let spawned = std::thread::Builder::new().name("aggrade-rules".into()).spawn(move || {
+            let Some(section) = project.sections.get(selected) else { return };
+            let interp = engine::interpret(section, &params);
+            // The window may have moved on to another document; then nobody listens.
+            let _ = tx.send(Cache::build(section, interp, key, &layout, window_m));
+            if let Some(ctx) = repaint {
+                ctx.request_repaint();
+            }
+        });
+        // No thread to be had (the system is out of them): bring it up to date in the frame.
+        if spawned.is_err() {
+            let section = self.doc.section();
+            let interp = engine::interpret(section, &self.params);
+            self.cache = Some(Cache::build(section, interp, rules_key, &self.layout, window_m));
+            return;
+        }
+        self.refreshing = Some(Refreshing { rules_key, result: rx });
+    }
+
+    /// Take the worker's result when it is ready (or wait for it). It replaces the column on
+    /// screen even when the document has moved on since, as it is newer than what is shown;
+    /// [`AggradeApp::refresh`] then starts the next run.
+    fn collect_worker(&mut self, wait: bool) {
+        let Some(r) = &self.refreshing else { return };
+        let got = if wait {
+            r.result.recv().ok()
+        } else {
+            match r.result.try_recv() {
+                Ok(c) => Some(c),
+                Err(std::sync::mpsc::TryRecvError::Empty) => return,
+                Err(std::sync::mpsc::TryRecvError::Disconnected) => None,
+            }
+        };
+        debug_assert!(got.as_ref().is_none_or(|c| c.rules_key == r.rules_key));
+        self.refreshing = None;
+        if let Some(c) = got {
+            // The column it replaces is dropped on another thread: freeing thousands of beds'
+            // worth of items and evidence is work the frame need not wait for.
+            let old = self.cache.replace(c);
+            drop_elsewhere(old);
+        }
+    }
+
+    /// Bring everything up to date now, waiting for a worker if one runs (for exports and
+    /// scripted use, which must see the current state).
+    fn settle(&mut self) {
+        loop {
+            self.refresh();
+            if self.refreshing.is_none() {
+                return;
+            }
+            self.collect_worker(true);
+        }
     }
 
     /// Apply one edit now (used by scripted runs and tests as well as the panels).
@@ -411,6 +539,8 @@ impl AggradeApp {
     fn replace_document(&mut self, doc: Document) {
         self.doc = doc;
         self.cache = None;
+        // A worker still running for the old document is forgotten; its result goes nowhere.
+        self.refreshing = None;
         self.canvas = Canvas::default();
     }
 
@@ -504,6 +634,7 @@ impl AggradeApp {
             return;
         }
         self.handle_input(&ctx);
+        self.repaint.get_or_insert_with(|| ctx.clone());
         self.refresh();
 
         let mut actions = Actions::default();
@@ -930,6 +1061,10 @@ impl AggradeApp {
                     }
                 }
             }
+        }
+        if self.export.is_some() {
+            // An export prints the current state: never a column from before an edit.
+            self.settle();
         }
         if let (Some(dlg), Some(cache)) = (self.export.as_mut(), self.cache.as_ref()) {
             let section = self.doc.section().clone();

@@ -6,6 +6,7 @@ use aggrade_core::model::{
     Bed, BedId, GrainSize, LengthUnit, MeasuredCurve, Project, ReviewDecision, ReviewState, Section,
 };
 use std::path::PathBuf;
+use std::sync::Arc;
 
 /// How many undo steps are kept (older ones are dropped first).
 pub const UNDO_LIMIT: usize = 200;
@@ -55,7 +56,8 @@ impl std::fmt::Display for EditError {
 
 #[derive(Debug, Clone)]
 struct Snapshot {
-    project: Project,
+    /// Shared with the document until an edit replaces it: taking a snapshot copies nothing.
+    project: Arc<Project>,
     selected_section: usize,
     selected_bed: Option<BedId>,
 }
@@ -63,7 +65,9 @@ struct Snapshot {
 /// The project being edited, where it lives on disk, and what is selected.
 #[derive(Debug, Clone)]
 pub struct Document {
-    pub project: Project,
+    /// Shared (not copied) with undo snapshots and with the worker that interprets it; an edit
+    /// puts a new project in its place.
+    pub project: Arc<Project>,
     /// Where the project was opened from or last saved to (`None` for a new document).
     pub path: Option<PathBuf>,
     /// Changed since the last save or open.
@@ -86,7 +90,7 @@ impl Document {
             project.sections.push(Section::new("Section 1"));
         }
         Document {
-            project,
+            project: Arc::new(project),
             path,
             dirty: false,
             selected_section: 0,
@@ -106,7 +110,7 @@ impl Document {
 
     fn section_mut(&mut self) -> &mut Section {
         let i = self.selected_section.min(self.project.sections.len().saturating_sub(1));
-        &mut self.project.sections[i]
+        &mut Arc::make_mut(&mut self.project).sections[i]
     }
 
     /// The selected bed, if it still exists.
@@ -135,20 +139,22 @@ impl Document {
     pub fn apply_in_gesture(&mut self, edit: Edit, gesture: Option<u64>) -> Result<(), EditError> {
         // Steps of one gesture (a drag) merge into one undo step: only the first keeps a snapshot.
         let merge = gesture.is_some() && gesture == self.open_gesture && !self.undo.is_empty();
-        let before = (!merge).then(|| Snapshot {
-            project: self.project.clone(),
-            selected_section: self.selected_section,
-            selected_bed: self.selected_bed,
-        });
+        // The edit runs on a copy, so a refused edit leaves everything as it was; the state it
+        // replaces becomes the undo snapshot (one copy of the project per edit, not two).
         let mut work = self.clone_state();
         work.run(edit)?;
-        if let Some(before) = before {
+        let before = Snapshot {
+            project: std::mem::replace(&mut self.project, Arc::new(work.project)),
+            selected_section: self.selected_section,
+            selected_bed: self.selected_bed,
+        };
+        if !merge {
             self.undo.push(before);
             if self.undo.len() > UNDO_LIMIT {
-                self.undo.remove(0);
+                // The oldest snapshot (a whole project) is freed off the frame.
+                super::app::drop_elsewhere(self.undo.remove(0));
             }
         }
-        self.project = work.project;
         self.selected_section = work.selected_section;
         self.selected_bed = work.selected_bed;
         self.open_gesture = gesture;
@@ -197,7 +203,7 @@ impl Document {
 
     fn snapshot(&self) -> Snapshot {
         Snapshot {
-            project: self.project.clone(),
+            project: Arc::clone(&self.project),
             selected_section: self.selected_section,
             selected_bed: self.selected_bed,
         }
@@ -214,7 +220,7 @@ impl Document {
 
     fn clone_state(&self) -> Work {
         Work {
-            project: self.project.clone(),
+            project: Project::clone(&self.project),
             selected_section: self.selected_section,
             selected_bed: self.selected_bed,
         }

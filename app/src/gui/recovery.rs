@@ -79,11 +79,15 @@ impl Autosaver {
 
     /// Write the recovery file at once (atomically: temp file, then rename).
     pub fn write_now(&mut self, doc: &Document) -> Result<(), String> {
-        let rec = Recovery {
-            original_path: doc.path.clone(),
-            revision: doc.revision,
-            project: doc.project.clone(),
-        };
+        // Written from the document itself (no copy of the project): the same fields as
+        // [`Recovery`], which reads it back.
+        #[derive(Serialize)]
+        struct RecoveryOut<'a> {
+            original_path: &'a Option<PathBuf>,
+            revision: u64,
+            project: &'a Project,
+        }
+        let rec = RecoveryOut { original_path: &doc.path, revision: doc.revision, project: &doc.project };
         let json = serde_json::to_vec(&rec).map_err(|e| format!("cannot encode the recovery file: {e}"))?;
         if let Some(dir) = self.path.parent() {
             std::fs::create_dir_all(dir).map_err(|e| format!("cannot create {}: {e}", dir.display()))?;
