@@ -102,7 +102,7 @@ fn section(index: usize) -> impl Strategy<Value = Section> {
                 s.panel_position_m = panel;
                 if let Some((i, state, note)) = review {
                     let state = [ReviewState::Candidate, ReviewState::Accepted, ReviewState::Rejected][state];
-                    s.review = vec![ReviewDecision { bed: beds[i].id, state, note }];
+                    s.review = vec![ReviewDecision { bed: beds[i].id, state, note, link: None }];
                 }
                 s.beds = beds;
                 s

@@ -329,9 +329,11 @@ impl Work {
             Edit::SetReview { bed, state, note } => {
                 self.index_of(bed)?;
                 let s = self.section();
+                // The correlation label stays with the boundary whatever is decided.
+                let link = s.decision_for(bed).and_then(|d| d.link.clone());
                 s.review.retain(|d| d.bed != bed);
-                if state != ReviewState::Candidate || !note.is_empty() {
-                    s.review.push(ReviewDecision { bed, state, note });
+                if state != ReviewState::Candidate || !note.is_empty() || link.is_some() {
+                    s.review.push(ReviewDecision { bed, state, note, link });
                     s.review.sort_by_key(|d| d.bed);
                 }
             }

@@ -33,6 +33,26 @@ fn string_list(v: &Value) -> Result<(), String> {
     check::<String>(v)
 }
 
+/// One review decision, naming the field at fault (serde alone names none).
+fn check_review(v: &Value) -> Result<(), String> {
+    let whole = check::<ReviewDecision>(v);
+    let Some(obj) = v.as_object() else { return whole };
+    let fields: [(&str, bool, fn(&Value) -> Result<(), String>); 4] = [
+        ("bed", true, check::<u64>),
+        ("state", true, check::<crate::model::ReviewState>),
+        ("note", false, check::<String>),
+        ("link", false, check::<Option<String>>),
+    ];
+    for (name, required, f) in fields {
+        match obj.get(name) {
+            None if required => return Err(format!("{name}: required field is missing")),
+            None => {}
+            Some(value) => f(value).map_err(|e| format!("{name}: {e}"))?,
+        }
+    }
+    whole
+}
+
 const PROJECT_FIELDS: &[(&str, Kind)] =
     &[("format_version", Kind::Required(check::<u32>)), ("sections", Kind::List(|_| Ok(())))];
 
@@ -45,7 +65,7 @@ const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("notes", Kind::Optional(check::<String>)),
     ("display_unit", Kind::Optional(check::<LengthUnit>)),
     ("beds", Kind::List(|_| Ok(()))),
-    ("review", Kind::List(check::<ReviewDecision>)),
+    ("review", Kind::List(check_review)),
     ("panel_position_m", Kind::Optional(check::<Option<f64>>)),
     ("curves", Kind::List(super::curve_fields::check_curve)),
 ];
