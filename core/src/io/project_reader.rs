@@ -102,6 +102,9 @@ pub fn known_field_names() -> (Vec<&'static str>, Vec<&'static str>, Vec<&'stati
 
 /// Known fields as a sentence tail for warnings.
 pub fn known_list(role: &str) -> String {
+    if role == "curve" {
+        return super::curve_fields::CURVE_FIELDS.join(", ");
+    }
     let table = match role {
         "bed" => BED_FIELDS,
         "section" => SECTION_FIELDS,
@@ -138,14 +141,20 @@ fn field_problems(obj: &Map<String, Value>, path: &str, table: &[(&str, Kind)], 
 
 /// Fields not in the table become warnings (they would be dropped on the next save).
 fn unknown_fields(obj: &Map<String, Value>, path: &str, table: &[(&str, Kind)], warnings: &mut Vec<Problem>) {
-    if obj.keys().all(|k| table.iter().any(|(n, _)| n == k)) {
+    let known: Vec<&str> = table.iter().map(|(n, _)| *n).collect();
+    unknown_field_names(obj, path, &known, warnings);
+}
+
+/// Fields not among `known` become warnings.
+fn unknown_field_names(obj: &Map<String, Value>, path: &str, known: &[&str], warnings: &mut Vec<Problem>) {
+    if obj.keys().all(|k| known.contains(&k.as_str())) {
         return;
     }
     let at = |field: &str| if path.is_empty() { field.to_string() } else { format!("{path}.{field}") };
-    let mut unknown: Vec<&String> = obj.keys().filter(|k| !table.iter().any(|(n, _)| n == k)).collect();
+    let mut unknown: Vec<&String> = obj.keys().filter(|k| !known.contains(&k.as_str())).collect();
     unknown.sort();
     for key in unknown {
-        let valid = table.iter().map(|(n, _)| *n).collect::<Vec<_>>().join(", ");
+        let valid = known.join(", ");
         warnings.push(Problem::new(at(key), format!("unknown field, ignored (known fields: {valid})")));
     }
 }
@@ -371,6 +380,14 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Probl
         };
         let before = problems.len();
         check_fields(&sobj, &path, SECTION_FIELDS, &mut problems, &mut warnings);
+        if let Some(Value::Array(curves)) = sobj.get("curves") {
+            for (k, c) in curves.iter().enumerate() {
+                if let Some(cobj) = c.as_object() {
+                    let cpath = format!("{path}.curves[{k}]");
+                    unknown_field_names(cobj, &cpath, super::curve_fields::CURVE_FIELDS, &mut warnings);
+                }
+            }
+        }
         if !sobj.contains_key("beds") {
             problems.push(Problem::new(format!("{path}.beds"), "required field is missing (a list of beds)"));
         }
