@@ -66,19 +66,6 @@ pub fn datum_choices(project: &Project) -> Vec<DatumChoice> {
     out
 }
 
-/// The correlation labels already used in a project, sorted, each once (offered when labelling
-/// another boundary, so that the same label is typed the same way).
-pub fn link_labels(project: &Project) -> Vec<String> {
-    let mut v: Vec<String> = project
-        .sections
-        .iter()
-        .flat_map(|s| s.review.iter().filter_map(|d| d.link_label().map(str::to_string)))
-        .collect();
-    v.sort();
-    v.dedup();
-    v
-}
-
 /// The panel's choices, the same as `aggrade panel` takes.
 #[derive(Debug, Clone, PartialEq)]
 pub struct PanelChoices {
