@@ -37,7 +37,8 @@ fn string_list(v: &Value) -> Result<(), String> {
 fn check_review(v: &Value) -> Result<(), String> {
     let whole = check::<ReviewDecision>(v);
     let Some(obj) = v.as_object() else { return whole };
-    let fields: [(&str, bool, fn(&Value) -> Result<(), String>); 4] = [
+    type Check = fn(&Value) -> Result<(), String>;
+    let fields: [(&str, bool, Check); 4] = [
         ("bed", true, check::<u64>),
         ("state", true, check::<crate::model::ReviewState>),
         ("note", false, check::<String>),

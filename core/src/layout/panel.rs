@@ -896,15 +896,15 @@ pub enum TieKind {
     Order,
 }
 
+/// Two tied markers: (index in the left column's markers, index in the right's, how).
+pub type TiePair = (usize, usize, TieKind);
+
 /// Which markers of two neighbouring columns are tied: (index in `left`, index in `right`, how),
 /// links first, then names (unless the same two levels are already linked), then order. The
 /// second value gives the counts of unnamed accepted boundaries when both columns have some but
 /// not the same number, so that nothing says which goes with which.
-pub fn tie_pairs(
-    left: &[Marker],
-    right: &[Marker],
-) -> (Vec<(usize, usize, TieKind)>, Option<(usize, usize)>) {
-    let mut pairs: Vec<(usize, usize, TieKind)> = Vec::new();
+pub fn tie_pairs(left: &[Marker], right: &[Marker]) -> (Vec<TiePair>, Option<(usize, usize)>) {
+    let mut pairs: Vec<TiePair> = Vec::new();
     for (i, m) in left.iter().enumerate() {
         let Some(l) = &m.link else { continue };
         if let Some(j) = right.iter().position(|o| o.link.as_ref() == Some(l)) {
@@ -929,12 +929,20 @@ pub fn tie_pairs(
     (pairs, unpaired)
 }
 
-/// A linked tie's label, once, centred on the tie and just above it.
+/// A linked tie's label, once, at the middle of the tie and just above it, on the side the line
+/// leaves free: right of the middle when the tie runs down to the right, left of it when it runs
+/// up, centred when it is level.
 fn draw_tie_label(label: &str, from: PtMm, to: PtMm, out: &mut Vec<Item>) {
-    let size = fit_size(label, (to.x - from.x - 1.0).max(1.0), SMALL_PT, 3.2).unwrap_or(3.2);
+    let half_gap = ((to.x - from.x) / 2.0 - 0.8).max(1.0);
+    let size = fit_size(label, half_gap, SMALL_PT, 3.2).unwrap_or(3.2);
     let w = width(label, size);
     let mid = PtMm { x: (from.x + to.x) / 2.0, y: (from.y + to.y) / 2.0 };
-    text(out, mid.x - w / 2.0, mid.y - 0.9, label, size, LINK_TEAL);
+    let x = match to.y - from.y {
+        d if d > 0.5 => mid.x + 0.6,
+        d if d < -0.5 => mid.x - 0.6 - w,
+        _ => mid.x - w / 2.0,
+    };
+    text(out, x, mid.y - 0.7, label, size, LINK_TEAL);
 }
 
 /// "850 m" or "1.15 km".
