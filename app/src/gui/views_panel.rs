@@ -508,6 +508,28 @@ mod tests {
     }
 
     #[test]
+    fn datum_choices_offer_correlation_labels_once() {
+        let mut a = section("A", &[None, None, Some("SB-1")]);
+        let mut b = section("B", &[None, None]);
+        for s in [&mut a, &mut b] {
+            let mut d = ReviewDecision::new(BedId(2), ReviewState::Accepted, "");
+            d.link = Some("K-1".into());
+            s.review.push(d);
+        }
+        // A label that is also a surface name is offered once, by the name.
+        let mut d = ReviewDecision::new(BedId(3), ReviewState::Accepted, "");
+        d.link = Some("SB-1".into());
+        a.review.push(d);
+        let project = Project::new(vec![a, b]);
+        let labels: Vec<String> = datum_choices(&project).into_iter().map(|d| d.label).collect();
+        assert_eq!(
+            labels,
+            ["Section base", "SB-1 (1 section, accepted boundary)", "K-1 (linked, 2 sections)"]
+        );
+        assert_eq!(super::super::review::link_labels(&project), ["K-1", "SB-1"]);
+    }
+
+    #[test]
     fn choices_map_onto_the_panel_options_as_the_command_line_does() {
         let c = PanelChoices {
             datum: Datum::Named("SB-1".into()),
