@@ -129,6 +129,43 @@ fn check_on_every_hostile_file_fails_cleanly() {
 }
 
 #[test]
+fn check_warns_about_unknown_fields_in_beds_and_curves_alike() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("extra.aggrade");
+    let project = r#"{
+  "format_version": 1,
+  "sections": [
+    {
+      "name": "Kestrel Bluff",
+      "beds": [
+        {"id": 1, "thickness_m": 2.0, "lithology": "mudstone", "grain_base": "clay", "grain_top": "clay", "colr": "red"}
+      ],
+      "curves": [
+        {"mnemonic": "GR", "offset_m": 0.0, "direction": "height_above_datum",
+         "tool": "hand-held", "samples": [[0.0, 50.0]]}
+      ]
+    }
+  ]
+}
+"#;
+    std::fs::write(&path, project).expect("write");
+    let out = run(&["check", path.to_str().expect("utf-8 path")]);
+    assert!(out.status.success(), "warnings do not fail the check: {}", text(&out.stderr));
+    let err = text(&out.stderr);
+    let file = path.display().to_string();
+    assert!(
+        err.contains(&format!("warning: {file}: line 7: sections[0].beds[0].colr: unknown field, ignored")),
+        "{err}"
+    );
+    assert!(
+        err.contains(&format!(
+            "warning: {file}: line 11: sections[0].curves[0].tool: unknown field, ignored"
+        )),
+        "{err}"
+    );
+}
+
+#[test]
 fn check_refuses_missing_files_and_unknown_types() {
     let out = run(&["check", "/nonexistent/Corrie.aggrade"]);
     assert_no_panic(&out);

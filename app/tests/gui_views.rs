@@ -193,6 +193,65 @@ fn panel_view_draws_the_core_panel_and_exports_what_the_command_line_does() {
 }
 
 #[test]
+fn labels_typed_in_the_review_list_tie_two_sections_on_the_panel_and_undo_takes_one_back() {
+    use aggrade::gui::review::LINK_HINT;
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(data.path(), vec![]);
+    // Corrie Wash (at 0 m) and Halloway Bluff (at 1150 m) are neighbours on the demo panel; neither
+    // has a review decision. Accept the best candidate in each and label it SB-9.
+    let mut picked = Vec::new();
+    for name in ["Corrie Wash", "Halloway Bluff"] {
+        let i = h.state().doc.project.sections.iter().position(|s| s.name == name).expect("demo section");
+        h.state_mut().doc.select_section(i); // as the Section menu does
+        h.run();
+        let top = h.state_mut().interpretation().sequence_boundary_candidates[0].clone();
+        h.get_all_by_label("Accept").next().expect("an open candidate").click();
+        h.run();
+        h.get_by(|n| n.placeholder() == Some(LINK_HINT)).focus();
+        h.run();
+        h.get_by(|n| n.is_focused()).type_text("SB-9");
+        h.run();
+        h.key_press(Key::Enter);
+        h.run();
+        let d = h.state().doc.section().decision_for(top.bed_id).cloned().expect("decision");
+        assert_eq!(d.link.as_deref(), Some("SB-9"), "{name}");
+        picked.push((name, top.bed_id, top.height_m));
+    }
+    open_view(&mut h, "Correlation panel");
+    let linked = |h: &Harness<'static, AggradeApp>| {
+        let layout = h.state().views.panel.layout().expect("laid out").clone().expect("no error");
+        layout
+            .ties
+            .iter()
+            .filter(|t| t.linked)
+            .map(|t| {
+                let col = |k: usize| layout.columns[k].name.clone();
+                (t.name.clone(), col(t.left), t.left_height_m, col(t.right), t.right_height_m)
+            })
+            .collect::<Vec<_>>()
+    };
+    assert_eq!(
+        linked(&h),
+        vec![(
+            "SB-9".to_string(),
+            picked[0].0.to_string(),
+            picked[0].2,
+            picked[1].0.to_string(),
+            picked[1].2
+        )],
+        "one linked tie, between the two labelled boundaries"
+    );
+    assert!(shown(&h, "linked"), "the tie list says how the tie came about");
+    // One undo takes the second label back (the typing was one step); the panel redraws untied.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    h.run();
+    let d = h.state().doc.section().decision_for(picked[1].1).cloned().expect("still decided");
+    assert_eq!((d.state, d.link), (aggrade_core::model::ReviewState::Accepted, None));
+    assert_eq!(linked(&h), vec![], "no linked tie after undo");
+}
+
+#[test]
 fn statistics_view_shows_what_the_core_and_command_line_compute() {
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(data.path(), vec![]);

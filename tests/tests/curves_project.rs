@@ -170,6 +170,44 @@ fn bad_curve_blocks_name_file_line_and_json_path() {
 }
 
 #[test]
+fn unknown_fields_in_a_curve_are_warnings_naming_file_line_and_path() {
+    let text = PROJECT.replace("\"unit\": \"API\",", "\"unit\": \"API\",\n          \"colour\": \"green\",");
+    assert_eq!(text.lines().nth(12).map(str::trim), Some("\"colour\": \"green\","), "line 13");
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("curve_extra.aggrade");
+    std::fs::write(&path, &text).expect("write");
+    let loaded = io::load(&path).expect("an unknown field is a warning, not an error");
+    assert_eq!(loaded.project.sections[0].curves[0].samples.len(), 3, "the curve is still read");
+    assert_eq!(loaded.warnings.len(), 1, "{:?}", loaded.warnings);
+    let w = &loaded.warnings[0];
+    assert!(
+        w.starts_with(&format!(
+            "{}: line 13: sections[0].curves[0].colour: unknown field, ignored",
+            path.display()
+        )),
+        "{w}"
+    );
+    assert!(
+        w.contains("known fields: mnemonic, unit, description, source_file, offset_m, direction, samples"),
+        "{w}"
+    );
+    // The field-by-field reading of a JSON tree (the path older files take) warns the same way.
+    let root: serde_json::Value = serde_json::from_str(&text).expect("JSON");
+    let (project, problems, warnings) = io::project_reader::read_project(&root);
+    assert!(problems.is_empty() && project.is_some(), "{problems:?}");
+    let at: Vec<&str> = warnings.iter().map(|w| w.location.as_str()).collect();
+    assert_eq!(at, ["sections[0].curves[0].colour"]);
+    // Known fields alone give no warning.
+    let loaded = io::load(&{
+        let p = dir.path().join("plain.aggrade");
+        std::fs::write(&p, PROJECT).expect("write");
+        p
+    })
+    .expect("reads");
+    assert!(loaded.warnings.is_empty(), "{:?}", loaded.warnings);
+}
+
+#[test]
 fn the_demo_curve_is_its_las_file_placed_from_the_section_top() {
     let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections");
     let demo = io::load(&root.join("demo.aggrade")).expect("demo loads").project;

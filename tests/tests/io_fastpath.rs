@@ -95,6 +95,7 @@ fn full_project(sections: usize, beds: usize, seed: u64) -> Project {
                     bed: BedId((j * beds / 3) as u64 + 1),
                     state: *state,
                     note: format!("decision {j}"),
+                    link: (j % 2 == 0).then(|| format!("SB-{j}")),
                 })
                 .collect();
             s.panel_position_m = Some(rng.float(-1e4, 1e4));

@@ -102,7 +102,7 @@ fn section(index: usize) -> impl Strategy<Value = Section> {
                 s.panel_position_m = panel;
                 if let Some((i, state, note)) = review {
                     let state = [ReviewState::Candidate, ReviewState::Accepted, ReviewState::Rejected][state];
-                    s.review = vec![ReviewDecision { bed: beds[i].id, state, note }];
+                    s.review = vec![ReviewDecision { bed: beds[i].id, state, note, link: None }];
                 }
                 s.beds = beds;
                 s
@@ -331,4 +331,51 @@ fn unknown_fields_in_a_valid_file_are_warnings_with_lines() {
     assert!(shown[0].starts_with("line 6: sections[0].weather: unknown field"), "{shown:?}");
     assert!(shown[1].starts_with("line 9: sections[0].beds[0].colr: unknown field"), "{shown:?}");
     assert!(shown[1].contains("colour"), "known fields listed: {shown:?}");
+}
+
+#[test]
+fn correlation_labels_round_trip_and_bad_ones_are_named_with_their_line() {
+    let text = r#"{
+  "format_version": 1,
+  "sections": [
+    {
+      "name": "Sedge Creek",
+      "beds": [
+        {"id": 1, "thickness_m": 1.0, "lithology": "mudstone", "grain_base": "silt", "grain_top": "silt"},
+        {"id": 2, "thickness_m": 2.0, "lithology": "sandstone", "grain_base": "fine sand", "grain_top": "fine sand"}
+      ],
+      "review": [
+        {"bed": 2, "state": "accepted", "link": "SB-2"}
+      ]
+    }
+  ]
+}"#;
+    let read = read_project_text(text).expect("a label reads");
+    assert!(read.warnings.is_empty(), "{:?}", read.warnings);
+    let d = &read.project.sections[0].review[0];
+    assert_eq!(d.link.as_deref(), Some("SB-2"));
+    let json = aggrade_core::io::project_to_json(&read.project).expect("encode");
+    assert!(json.contains("\"link\": \"SB-2\""), "{json}");
+    assert_eq!(read_project_text(&json).expect("reads again").project, read.project);
+    // Without a label nothing is written (files without labels stay as they were).
+    let mut plain = read.project.clone();
+    plain.sections[0].review[0].link = None;
+    assert!(!aggrade_core::io::project_to_json(&plain).expect("encode").contains("\"link\""));
+    // A label with a control character, a blank one and one of the wrong type: named with the
+    // line, JSON path and field.
+    let problems = read_project_text(&text.replace("\"SB-2\"", "\"SB\\u00072\"")).expect_err("refused");
+    assert_eq!(problems.len(), 1, "{problems:?}");
+    assert_eq!(problems[0].location, "sections[0].review[0].link");
+    assert_eq!(problems[0].line, Some(11));
+    assert!(problems[0].message.contains("U+0007"), "{}", problems[0]);
+    let problems = read_project_text(&text.replace("\"SB-2\"", "\"  \"")).expect_err("refused");
+    assert!(
+        problems[0].to_string().starts_with("line 11: sections[0].review[0].link: must not be blank"),
+        "{problems:?}"
+    );
+    let problems = read_project_text(&text.replace("\"SB-2\"", "2")).expect_err("refused");
+    assert!(
+        problems[0].to_string().contains("sections[0].review[0]: link: invalid type: integer `2`"),
+        "{problems:?}"
+    );
 }

@@ -1,13 +1,17 @@
 //! The correlation panel checked in its PDF by independent readers (pypdf and pdfplumber from
 //! PyPI): paper size, true vertical scale in every column, the datum at one height across the
-//! columns, tie lines ending at the right heights, and the caution in the footer.
+//! columns, tie lines ending at the right heights (by surface name and by the geologist's
+//! correlation label), and the caution in the footer.
 
 use aggrade_core::export::{write_pdf, PdfInfo};
-use aggrade_core::layout::panel::{panel_layout, Datum, PanelLayout, PanelOptions, DATUM_BLUE, TIE_VIOLET};
+use aggrade_core::layout::panel::{
+    panel_layout, Datum, PanelLayout, PanelOptions, DATUM_BLUE, LINK_TEAL, TIE_VIOLET,
+};
 use aggrade_core::layout::style::lithology_tint;
 use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta, Rgba};
 use aggrade_core::model::{
-    Bed, BedId, GrainSize, Lithology, Project, Section, Surface, SurfaceKind, WentworthClass,
+    Bed, BedId, GrainSize, Lithology, Project, ReviewDecision, ReviewState, Section, Surface, SurfaceKind,
+    WentworthClass,
 };
 use aggrade_core::rules::{interpret, RuleParams};
 use serde_json::Value;
@@ -64,9 +68,13 @@ fn project() -> Project {
 }
 
 fn layout_and_pdf(p: &Project, scale: f64) -> (PanelLayout, Value) {
+    layout_and_pdf_on(p, scale, "SB-1")
+}
+
+fn layout_and_pdf_on(p: &Project, scale: f64, datum: &str) -> (PanelLayout, Value) {
     let interps: Vec<_> = p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect();
     let opts = PanelOptions {
-        datum: Datum::parse("SB-1"),
+        datum: Datum::parse(datum),
         layout: LayoutOptions {
             scale_denominator: scale,
             paper: Paper::A3,
@@ -223,4 +231,78 @@ fn vertical_scale_holds_at_other_scales() {
         let size = &v["pypdf"]["pages"][0];
         assert!((size[1].as_f64().expect("h") - layout.page.height_mm * PT_PER_MM).abs() < 0.01);
     }
+}
+
+/// Accept the boundary at the base of bed `id`, with a correlation label.
+fn accept(s: &mut Section, id: u64, link: Option<&str>) {
+    let mut d = ReviewDecision::new(BedId(id), ReviewState::Accepted, "");
+    d.link = link.map(str::to_string);
+    s.review.push(d);
+}
+
+#[test]
+fn linked_boundaries_are_tied_at_their_heights_with_the_label_beside_the_tie() {
+    // No surface names this time: the conglomerate bases are accepted boundaries that the
+    // geologist labels SB-4 in Ash Draw (3 m) and Birch Cut (1.5 m). Ash Draw's conglomerate top
+    // (5 m) is accepted too but not labelled; Birch Cut has no second boundary, so nothing pairs
+    // it by order. Cinder Knoll (the right neighbour of Birch Cut) has no label: no tie.
+    let mut p = Project::new(vec![
+        section("Ash Draw", 3.0, 2.0, 4.0, None, None, 0.0),
+        section("Birch Cut", 1.5, 3.0, 1.0, None, None, 400.0),
+        section("Cinder Knoll", 5.0, 1.0, 2.0, None, None, 900.0),
+    ]);
+    accept(&mut p.sections[0], 2, Some("SB-4"));
+    accept(&mut p.sections[0], 3, None);
+    accept(&mut p.sections[1], 2, Some("SB-4"));
+    let (layout, v) = layout_and_pdf_on(&p, 100.0, "base");
+    let page = &v["pages"][0];
+    let cgl = fills(page, lithology_tint(Lithology::Conglomerate), 15.0);
+    assert_eq!(cgl.len(), 3, "{cgl:?}");
+    // Hung on the base: the blue datum line across the panel is every column's base.
+    let datum_y: Vec<f64> = strokes(page, DATUM_BLUE)
+        .into_iter()
+        .filter(|l| l.len() == 2 && (l[1].0 - l[0].0).abs() > 30.0 * PT_PER_MM)
+        .map(|l| l[0].1)
+        .collect();
+    assert_eq!(datum_y.len(), 1, "{datum_y:?}");
+    let base_y = datum_y[0];
+    // The linked tie: a solid line in the link colour with two points, longer than the key's
+    // 9 mm swatch.
+    let links: Vec<((f64, f64), (f64, f64))> = strokes(page, LINK_TEAL)
+        .into_iter()
+        .filter(|l| l.len() == 2 && (l[1].0 - l[0].0).abs() > 10.0 * PT_PER_MM)
+        .map(|l| if l[0].0 <= l[1].0 { (l[0], l[1]) } else { (l[1], l[0]) })
+        .collect();
+    assert_eq!(links.len(), 1, "one linked tie: {links:?}");
+    let (l, r) = links[0];
+    // True vertical scale, 1:100 (1 m = 10 mm; common practice), ±0.1 mm: the left end 3 m above
+    // Ash Draw's base, the right end 1.5 m above Birch Cut's.
+    let above_base_mm = |y: f64| (base_y - y) / PT_PER_MM;
+    assert!((above_base_mm(l.1) - 30.0).abs() <= 0.1, "left end {:.3} mm above the base", above_base_mm(l.1));
+    assert!(
+        (above_base_mm(r.1) - 15.0).abs() <= 0.1,
+        "right end {:.3} mm above the base",
+        above_base_mm(r.1)
+    );
+    // And at the conglomerate bases as drawn in the two columns, from Ash Draw to Birch Cut.
+    assert!((l.1 - cgl[0].2).abs() <= 0.1 * PT_PER_MM && (r.1 - cgl[1].2).abs() <= 0.1 * PT_PER_MM);
+    assert!(l.0 > cgl[0].0 && r.0 < cgl[1].0 && r.0 > l.0, "between the first two columns: {l:?} {r:?}");
+    // The label is written once, between the tie's ends and within 3 mm above its middle.
+    let words = page["words"].as_array().expect("words");
+    let labels: Vec<&Value> = words.iter().filter(|w| w["text"] == "SB-4").collect();
+    assert_eq!(labels.len(), 1, "{labels:?}");
+    let (x0, x1, bottom) = (f(labels[0], "x0"), f(labels[0], "x1"), f(labels[0], "bottom"));
+    let mid_y = (l.1 + r.1) / 2.0;
+    assert!(x0 > l.0 && x1 < r.0, "label at {x0}–{x1} pt, tie {}–{} pt", l.0, r.0);
+    assert!(
+        bottom <= mid_y + 0.5 && mid_y - bottom <= 3.0 * PT_PER_MM,
+        "label bottom {bottom} pt, tie middle {mid_y} pt"
+    );
+    // The key explains the line; the layout agrees.
+    let chars = page["chars"].as_str().expect("chars");
+    assert!(chars.contains("tie line, linked accepted boundaries"), "key entry");
+    assert_eq!(layout.ties.len(), 1, "{:?}", layout.ties);
+    assert!(layout.ties[0].linked && layout.ties[0].name == "SB-4");
+    // Nothing pairs Ash Draw's unlabelled boundary: the counts differ (1 and 0), so no note either.
+    assert!(!layout.notes.iter().any(|n| n.contains("without surface names")), "{:?}", layout.notes);
 }

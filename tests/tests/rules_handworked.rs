@@ -229,7 +229,12 @@ fn covered_intervals_are_left_out_of_proportions() {
     // Accepting the boundary at the base of bed 5 (12 m) splits the proportions there:
     // 0–12 m: channel 2 of exposed 6 + 2 = 8 → 0.25; 12–16 m: 2 of 4 → 0.5.
     let mut reviewed = s.clone();
-    reviewed.review.push(ReviewDecision { bed: BedId(5), state: ReviewState::Accepted, note: String::new() });
+    reviewed.review.push(ReviewDecision {
+        bed: BedId(5),
+        state: ReviewState::Accepted,
+        note: String::new(),
+        link: None,
+    });
     let r = interpret(&reviewed, &RuleParams::default());
     let iv: Vec<(f64, f64, Option<f64>)> =
         r.interval_proportions.iter().map(|i| (i.base_m, i.top_m, i.proportion)).collect();
@@ -399,11 +404,17 @@ fn review_decisions_are_carried_and_accepted_ones_cut_the_intervals() {
     // Reject the 5 m candidate (base of bed 3), accept 32 m (bed 13) with a note: intervals are
     // cut at accepted boundaries only (32 m), and each candidate carries its decision.
     let mut s = cycle();
-    s.review.push(ReviewDecision { bed: BedId(3), state: ReviewState::Rejected, note: "local scour".into() });
+    s.review.push(ReviewDecision {
+        bed: BedId(3),
+        state: ReviewState::Rejected,
+        note: "local scour".into(),
+        link: None,
+    });
     s.review.push(ReviewDecision {
         bed: BedId(13),
         state: ReviewState::Accepted,
         note: "traced 2 km".into(),
+        link: None,
     });
     let r = interpret(&s, &RuleParams::default());
     let at =

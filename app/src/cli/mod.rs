@@ -6,6 +6,7 @@ pub mod convert;
 pub mod curve;
 pub mod export;
 pub mod interpret;
+pub mod link;
 pub mod panel;
 pub mod stats;
 
@@ -45,6 +46,9 @@ pub enum Command {
     /// Attach a measured curve (e.g. gamma ray) from a LAS 2.0 file to a section, remove one, or
     /// list them.
     Curve(curve::CurveArgs),
+    /// Give an accepted boundary a correlation label (e.g. SB-2) that ties it on the correlation
+    /// panel to accepted boundaries with the same label in neighbouring sections, or remove one.
+    Link(link::LinkArgs),
 }
 
 /// Run the parsed command line; errors are reported once, here, in plain words.
@@ -58,6 +62,7 @@ pub fn main(cli: Cli) -> ExitCode {
         Some(Command::Bodies(a)) => bodies::run(&a),
         Some(Command::Panel(a)) => panel::run(&a),
         Some(Command::Curve(a)) => curve::run(&a),
+        Some(Command::Link(a)) => link::run(&a),
         None => crate::gui::run(cli.file),
     };
     match result {

@@ -30,6 +30,9 @@ pub enum Edit {
     MergeWithAbove { bed: BedId },
     /// Record the geologist's decision on the candidate boundary at the base of `bed`.
     SetReview { bed: BedId, state: ReviewState, note: String },
+    /// Give the accepted boundary at the base of `bed` a correlation label, or take it off
+    /// (`None` or blank); the correlation panel ties boundaries with the same label.
+    SetLink { bed: BedId, link: Option<String> },
     /// Change the unit thicknesses are shown and typed in.
     SetDisplayUnit { unit: LengthUnit },
     /// Change the section's descriptive fields.
@@ -335,11 +338,36 @@ impl Work {
             Edit::SetReview { bed, state, note } => {
                 self.index_of(bed)?;
                 let s = self.section();
+                // The correlation label stays with the boundary whatever is decided.
+                let link = s.decision_for(bed).and_then(|d| d.link.clone());
                 s.review.retain(|d| d.bed != bed);
-                if state != ReviewState::Candidate || !note.is_empty() {
-                    s.review.push(ReviewDecision { bed, state, note });
+                if state != ReviewState::Candidate || !note.is_empty() || link.is_some() {
+                    s.review.push(ReviewDecision { bed, state, note, link });
                     s.review.sort_by_key(|d| d.bed);
                 }
+            }
+            Edit::SetLink { bed, link } => {
+                self.index_of(bed)?;
+                // Kept as typed (a space may be followed by more while typing); compared trimmed.
+                let link = link.filter(|l| !l.trim().is_empty());
+                if let Some(l) = &link {
+                    aggrade_core::io::check_link_label(l)
+                        .map_err(|why| EditError(format!("correlation label {l:?}: {why}")))?;
+                }
+                let s = self.section();
+                match (s.review.iter_mut().find(|d| d.bed == bed), link) {
+                    (Some(d), None) => d.link = None,
+                    (Some(d), Some(l)) if d.state == ReviewState::Accepted => d.link = Some(l),
+                    (_, Some(_)) => {
+                        return Err(EditError(
+                            "only an accepted boundary can be linked; accept it first".into(),
+                        ))
+                    }
+                    (None, None) => {}
+                }
+                // A decision left with nothing in it goes.
+                s.review
+                    .retain(|d| d.state != ReviewState::Candidate || !d.note.is_empty() || d.link.is_some());
             }
             Edit::SetDisplayUnit { unit } => self.section().display_unit = unit,
             Edit::SetSectionInfo { name, locality, logged_by, notes } => {
@@ -488,6 +516,30 @@ mod tests {
         assert_eq!(d.section().review.len(), 1);
         d.apply(Edit::DeleteBed { bed: BedId(2) }).expect("delete");
         assert!(d.section().review.is_empty());
+    }
+
+    #[test]
+    fn a_link_needs_an_accepted_boundary_and_survives_review_changes() {
+        let mut d = doc_with_beds(3);
+        let set = |label: &str| Edit::SetLink { bed: BedId(2), link: Some(label.into()) };
+        assert!(d.apply(set("SB-2")).is_err(), "no decision yet");
+        d.apply(Edit::SetReview { bed: BedId(2), state: ReviewState::Accepted, note: String::new() })
+            .expect("accept");
+        d.apply(set("SB ")).expect("link");
+        d.apply(set("SB 2 ")).expect("link");
+        assert_eq!(d.section().decision_for(BedId(2)).and_then(|r| r.link_label()), Some("SB 2"));
+        let e = d.apply(set(&"x".repeat(41))).expect_err("too long");
+        assert!(e.0.contains("at most 40"), "{e}");
+        // Reopening keeps the label (kept, not drawn); removing it then drops the empty decision.
+        d.apply(Edit::SetReview { bed: BedId(2), state: ReviewState::Candidate, note: String::new() })
+            .expect("reopen");
+        assert_eq!(d.section().decision_for(BedId(2)).and_then(|r| r.link_label()), Some("SB 2"));
+        assert!(d.apply(set("SB-3")).is_err(), "a candidate cannot be relabelled");
+        d.apply(Edit::SetLink { bed: BedId(2), link: Some("  ".into()) }).expect("blank removes");
+        assert!(d.section().review.is_empty());
+        // Each change is one undo step.
+        assert!(d.undo());
+        assert_eq!(d.section().decision_for(BedId(2)).and_then(|r| r.link_label()), Some("SB 2"));
     }
 
     #[test]

@@ -6,7 +6,7 @@ use super::document::{Document, Edit};
 use super::engine::RuleParams;
 use super::table::show_length;
 use super::theme;
-use aggrade_core::model::{PaleosolDevelopment, ReviewState};
+use aggrade_core::model::{PaleosolDevelopment, Project, ReviewState};
 use aggrade_core::rules::{CandidateKind, Interpretation};
 
 /// How many candidates are listed at a time.
@@ -18,6 +18,71 @@ fn kind_name(k: CandidateKind) -> &'static str {
         CandidateKind::PaleosolTop => "paleosol top",
         CandidateKind::ChannelBaseOnPaleosol => "channel base on paleosol",
     }
+}
+
+/// The correlation labels already used in a project, sorted, each once (offered when labelling
+/// another boundary, so that the same label is written the same way).
+pub fn link_labels(project: &Project) -> Vec<String> {
+    let mut v: Vec<String> = project
+        .sections
+        .iter()
+        .flat_map(|s| s.review.iter().filter_map(|d| d.link_label().map(str::to_string)))
+        .collect();
+    v.sort();
+    v.dedup();
+    v
+}
+
+/// Hint shown in the empty correlation-label field.
+pub const LINK_HINT: &str = "correlation label, e.g. SB-2";
+
+/// The correlation label of an accepted boundary: a text field (one undo step per typing run)
+/// and a list of the labels already used in the project.
+fn link_ui(
+    ui: &mut egui::Ui,
+    c: &aggrade_core::rules::BoundaryCandidate,
+    current: &str,
+    used: &[String],
+    out: &mut Actions,
+) {
+    ui.horizontal(|ui| {
+        let lab = ui.label("Link").id;
+        let mut label = current.to_string();
+        let r = ui
+            .add(egui::TextEdit::singleline(&mut label).hint_text(LINK_HINT).desired_width(140.0))
+            .labelled_by(lab)
+            .on_hover_text(
+                "Accepted boundaries with the same label in neighbouring sections are tied on the correlation panel",
+            );
+        if r.changed() {
+            out.edit_in(Edit::SetLink { bed: c.bed_id, link: Some(label.clone()) }, gesture_key(("link", c.bed_id.0)));
+        }
+        if r.lost_focus() {
+            // Spaces typed at either end go when the field is left, in the same undo step.
+            if label.trim() != label {
+                out.edit_in(
+                    Edit::SetLink { bed: c.bed_id, link: Some(label.trim().to_string()) },
+                    gesture_key(("link", c.bed_id.0)),
+                );
+            }
+            out.end_gesture = true;
+        }
+        let others: Vec<&String> = used.iter().filter(|l| l.as_str() != current.trim()).collect();
+        if !others.is_empty() {
+            egui::ComboBox::from_id_salt(("link_used", c.bed_id.0))
+                .selected_text("used labels")
+                .width(90.0)
+                .show_ui(ui, |ui| {
+                    for l in others {
+                        if ui.selectable_label(false, l.as_str()).clicked() {
+                            out.edit(Edit::SetLink { bed: c.bed_id, link: Some(l.clone()) });
+                        }
+                    }
+                })
+                .response
+                .on_hover_text("A label already used in this project");
+        }
+    });
 }
 
 /// Draw the candidate list.
@@ -45,6 +110,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
     let shown_id = egui::Id::unique("review_shown");
     let shown = ui.data(|d| d.get_temp::<usize>(shown_id)).unwrap_or(REVIEW_PAGE);
     let total = interp.sequence_boundary_candidates.len();
+    let used = link_labels(&doc.project);
     egui::ScrollArea::vertical().id_salt("review_list").show(ui, |ui| {
         for (rank, c) in interp.sequence_boundary_candidates.iter().enumerate().take(shown) {
             let (badge, colour) = match c.review {
@@ -105,6 +171,23 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                         });
                     }
                 });
+                let decision = doc.section().decision_for(c.bed_id);
+                match (c.review, decision.and_then(|d| d.link_label())) {
+                    (ReviewState::Accepted, _) => {
+                        let typed = decision.and_then(|d| d.link.as_deref()).unwrap_or("");
+                        link_ui(ui, c, typed, &used, out);
+                    }
+                    (_, Some(l)) => {
+                        ui.label(
+                            egui::RichText::new(format!(
+                                "correlation label {l} kept; tied only once accepted"
+                            ))
+                            .small()
+                            .color(theme::TEXT_DIM),
+                        );
+                    }
+                    (_, None) => {}
+                }
                 let mut note = c.note.clone();
                 let r = ui
                     .add(

@@ -20,12 +20,20 @@ pub struct DatumChoice {
     pub label: String,
 }
 
-/// The datums a project offers: the section base, then every named surface and accepted
-/// boundary (by name, each once, sorted), saying how many sections have it.
+/// The datums a project offers: the section base, then every named surface, correlation label
+/// and accepted boundary (by name, each once, sorted), saying how many sections have it.
 pub fn datum_choices(project: &Project) -> Vec<DatumChoice> {
     let mut named: std::collections::BTreeMap<String, (usize, bool, Option<String>)> = Default::default();
+    let mut links: std::collections::BTreeMap<String, usize> = Default::default();
     for s in &project.sections {
-        for m in section_markers(s).0 {
+        for m in section_markers(s).markers {
+            if let Some(l) = &m.link {
+                *links.entry(l.clone()).or_insert(0) += 1;
+                if !m.surface {
+                    // Offered by its label.
+                    continue;
+                }
+            }
             let e = named.entry(m.name.clone()).or_insert((0, false, None));
             e.0 += 1;
             e.1 |= m.accepted;
@@ -34,17 +42,26 @@ pub fn datum_choices(project: &Project) -> Vec<DatumChoice> {
             }
         }
     }
+    let secs = |count: usize| if count == 1 { "1 section".to_string() } else { format!("{count} sections") };
     let mut out = vec![DatumChoice { datum: Datum::Base, label: "Section base".into() }];
     for (name, (count, accepted, unnamed)) in named {
         let label = match unnamed {
             Some(text) => text,
             None => {
                 let acc = if accepted { ", accepted boundary" } else { "" };
-                let secs = if count == 1 { "1 section".to_string() } else { format!("{count} sections") };
-                format!("{name} ({secs}{acc})")
+                format!("{name} ({}{acc})", secs(count))
             }
         };
         out.push(DatumChoice { datum: Datum::Named(name), label });
+    }
+    for (label, count) in links {
+        if out.iter().any(|d| d.datum == Datum::Named(label.clone())) {
+            continue;
+        }
+        out.push(DatumChoice {
+            label: format!("{label} (linked, {})", secs(count)),
+            datum: Datum::Named(label),
+        });
     }
     out
 }
@@ -379,11 +396,17 @@ impl PanelView {
                     t.name.clone(),
                     format!("{} {:.2} m", name(t.left), t.left_height_m),
                     format!("{} {:.2} m", name(t.right), t.right_height_m),
-                    if t.accepted { "accepted".into() } else { "named surface".into() },
+                    if t.linked {
+                        "linked".into()
+                    } else if t.accepted {
+                        "accepted".into()
+                    } else {
+                        "named surface".into()
+                    },
                 ]
             })
             .collect();
-        text_table(ui, "panel_ties", &["surface", "left", "right", "kind"], &rows);
+        text_table(ui, "panel_ties", &["surface or label", "left", "right", "kind"], &rows);
         ui.add_space(6.0);
         caution(ui);
     }
@@ -457,8 +480,18 @@ mod tests {
     fn datum_choices_list_base_then_each_name_once() {
         let a = section("A", &[None, Some("SB-1"), Some("T")]);
         let mut b = section("B", &[None, Some("SB-1")]);
-        b.review.push(ReviewDecision { bed: BedId(1), state: ReviewState::Accepted, note: String::new() });
-        b.review.push(ReviewDecision { bed: BedId(2), state: ReviewState::Accepted, note: String::new() });
+        b.review.push(ReviewDecision {
+            bed: BedId(1),
+            state: ReviewState::Accepted,
+            note: String::new(),
+            link: None,
+        });
+        b.review.push(ReviewDecision {
+            bed: BedId(2),
+            state: ReviewState::Accepted,
+            note: String::new(),
+            link: None,
+        });
         let c = datum_choices(&Project::new(vec![a, b]));
         let labels: Vec<&str> = c.iter().map(|d| d.label.as_str()).collect();
         assert_eq!(
@@ -472,6 +505,28 @@ mod tests {
         );
         assert_eq!(c[0].datum, Datum::Base);
         assert_eq!(c[3].datum, Datum::Named("accepted:B@0.00".into()));
+    }
+
+    #[test]
+    fn datum_choices_offer_correlation_labels_once() {
+        let mut a = section("A", &[None, None, Some("SB-1")]);
+        let mut b = section("B", &[None, None]);
+        for s in [&mut a, &mut b] {
+            let mut d = ReviewDecision::new(BedId(2), ReviewState::Accepted, "");
+            d.link = Some("K-1".into());
+            s.review.push(d);
+        }
+        // A label that is also a surface name is offered once, by the name.
+        let mut d = ReviewDecision::new(BedId(3), ReviewState::Accepted, "");
+        d.link = Some("SB-1".into());
+        a.review.push(d);
+        let project = Project::new(vec![a, b]);
+        let labels: Vec<String> = datum_choices(&project).into_iter().map(|d| d.label).collect();
+        assert_eq!(
+            labels,
+            ["Section base", "SB-1 (1 section, accepted boundary)", "K-1 (linked, 2 sections)"]
+        );
+        assert_eq!(super::super::review::link_labels(&project), ["K-1", "SB-1"]);
     }
 
     #[test]

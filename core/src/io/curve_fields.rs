@@ -7,6 +7,10 @@ use serde::de::DeserializeOwned;
 use serde::Deserialize;
 use serde_json::Value;
 
+/// The fields of a measured curve in project JSON (others are warned about and ignored).
+pub(crate) const CURVE_FIELDS: &[&str] =
+    &["mnemonic", "unit", "description", "source_file", "offset_m", "direction", "samples"];
+
 fn field<T: DeserializeOwned>(v: &Value) -> Result<(), String> {
     T::deserialize(v).map(|_| ()).map_err(|e| e.to_string())
 }

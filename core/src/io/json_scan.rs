@@ -26,6 +26,8 @@ enum Role {
     Section,
     Beds,
     Bed,
+    Curves,
+    Curve,
     Other,
 }
 
@@ -130,6 +132,8 @@ impl<'a> Scanner<'a> {
                             (Role::Sections, true, _) => Role::Section,
                             (Role::Section, false, "beds") => Role::Beds,
                             (Role::Beds, true, _) => Role::Bed,
+                            (Role::Section, false, "curves") => Role::Curves,
+                            (Role::Curves, true, _) => Role::Curve,
                             _ => Role::Other,
                         },
                     };
@@ -190,6 +194,7 @@ impl<'a> Scanner<'a> {
                                 Role::Root => known.project,
                                 Role::Section => known.section,
                                 Role::Bed => known.bed,
+                                Role::Curve => super::curve_fields::CURVE_FIELDS,
                                 _ => &[],
                             };
                             if !list.is_empty() && !list.contains(&key.as_ref()) {
@@ -237,7 +242,7 @@ pub fn check_limits(text: &str) -> Result<(), Problem> {
 }
 
 /// Like [`check_limits`], and also list the fields of the root, sections and beds that are not
-/// in `known`, as (path, line).
+/// in `known`, and the fields of measured curves that a curve does not have, as (path, line).
 pub fn check_limits_and_fields(text: &str, known: &KnownFields) -> Result<Vec<(String, usize)>, Problem> {
     let mut scanner = Scanner::new(text);
     scanner.known = Some(known);

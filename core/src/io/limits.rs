@@ -26,6 +26,10 @@ pub const MAX_ARRAY_ITEMS: usize = MAX_BEDS_PER_SECTION;
 /// Longest text value (names, notes, colours …), in characters.
 pub const MAX_STRING_CHARS: usize = 10_000;
 
+/// Longest correlation label on an accepted boundary ("SB-2", "base of upper storey system"),
+/// in characters: it is printed beside a tie line on the panel, so it must stay short.
+pub const MAX_LINK_LABEL_CHARS: usize = 40;
+
 /// Deepest nesting of JSON arrays and objects. A valid project nests 7 levels deep (a measured
 /// curve's sample pair inside its curve inside a section).
 pub const MAX_JSON_DEPTH: usize = 16;

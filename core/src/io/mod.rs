@@ -18,7 +18,7 @@ pub use limits::*;
 pub use migrate::infer_surface_kind;
 pub use problem::Problem;
 pub use project_file::{project_to_json, read_project_text, ProjectRead};
-pub use validate::{check_iso_date, validate_project, validate_section};
+pub use validate::{check_iso_date, check_link_label, validate_project, validate_section};
 
 use crate::model::Project;
 use std::io::Read;

@@ -34,6 +34,8 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
                 .map(|(path, line)| {
                     let role = if path.contains(".beds[") {
                         "bed"
+                    } else if path.contains(".curves[") {
+                        "curve"
                     } else if path.starts_with("sections[") {
                         "section"
                     } else {

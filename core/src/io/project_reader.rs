@@ -33,6 +33,27 @@ fn string_list(v: &Value) -> Result<(), String> {
     check::<String>(v)
 }
 
+/// One review decision, naming the field at fault (serde alone names none).
+fn check_review(v: &Value) -> Result<(), String> {
+    let whole = check::<ReviewDecision>(v);
+    let Some(obj) = v.as_object() else { return whole };
+    type Check = fn(&Value) -> Result<(), String>;
+    let fields: [(&str, bool, Check); 4] = [
+        ("bed", true, check::<u64>),
+        ("state", true, check::<crate::model::ReviewState>),
+        ("note", false, check::<String>),
+        ("link", false, check::<Option<String>>),
+    ];
+    for (name, required, f) in fields {
+        match obj.get(name) {
+            None if required => return Err(format!("{name}: required field is missing")),
+            None => {}
+            Some(value) => f(value).map_err(|e| format!("{name}: {e}"))?,
+        }
+    }
+    whole
+}
+
 const PROJECT_FIELDS: &[(&str, Kind)] =
     &[("format_version", Kind::Required(check::<u32>)), ("sections", Kind::List(|_| Ok(())))];
 
@@ -45,7 +66,7 @@ const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("notes", Kind::Optional(check::<String>)),
     ("display_unit", Kind::Optional(check::<LengthUnit>)),
     ("beds", Kind::List(|_| Ok(()))),
-    ("review", Kind::List(check::<ReviewDecision>)),
+    ("review", Kind::List(check_review)),
     ("panel_position_m", Kind::Optional(check::<Option<f64>>)),
     ("curves", Kind::List(super::curve_fields::check_curve)),
 ];
@@ -82,6 +103,9 @@ pub fn known_field_names() -> (Vec<&'static str>, Vec<&'static str>, Vec<&'stati
 
 /// Known fields as a sentence tail for warnings.
 pub fn known_list(role: &str) -> String {
+    if role == "curve" {
+        return super::curve_fields::CURVE_FIELDS.join(", ");
+    }
     let table = match role {
         "bed" => BED_FIELDS,
         "section" => SECTION_FIELDS,
@@ -118,14 +142,20 @@ fn field_problems(obj: &Map<String, Value>, path: &str, table: &[(&str, Kind)], 
 
 /// Fields not in the table become warnings (they would be dropped on the next save).
 fn unknown_fields(obj: &Map<String, Value>, path: &str, table: &[(&str, Kind)], warnings: &mut Vec<Problem>) {
-    if obj.keys().all(|k| table.iter().any(|(n, _)| n == k)) {
+    let known: Vec<&str> = table.iter().map(|(n, _)| *n).collect();
+    unknown_field_names(obj, path, &known, warnings);
+}
+
+/// Fields not among `known` become warnings.
+fn unknown_field_names(obj: &Map<String, Value>, path: &str, known: &[&str], warnings: &mut Vec<Problem>) {
+    if obj.keys().all(|k| known.contains(&k.as_str())) {
         return;
     }
     let at = |field: &str| if path.is_empty() { field.to_string() } else { format!("{path}.{field}") };
-    let mut unknown: Vec<&String> = obj.keys().filter(|k| !table.iter().any(|(n, _)| n == k)).collect();
+    let mut unknown: Vec<&String> = obj.keys().filter(|k| !known.contains(&k.as_str())).collect();
     unknown.sort();
     for key in unknown {
-        let valid = table.iter().map(|(n, _)| *n).collect::<Vec<_>>().join(", ");
+        let valid = known.join(", ");
         warnings.push(Problem::new(at(key), format!("unknown field, ignored (known fields: {valid})")));
     }
 }
@@ -351,6 +381,14 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Probl
         };
         let before = problems.len();
         check_fields(&sobj, &path, SECTION_FIELDS, &mut problems, &mut warnings);
+        if let Some(Value::Array(curves)) = sobj.get("curves") {
+            for (k, c) in curves.iter().enumerate() {
+                if let Some(cobj) = c.as_object() {
+                    let cpath = format!("{path}.curves[{k}]");
+                    unknown_field_names(cobj, &cpath, super::curve_fields::CURVE_FIELDS, &mut warnings);
+                }
+            }
+        }
         if !sobj.contains_key("beds") {
             problems.push(Problem::new(format!("{path}.beds"), "required field is missing (a list of beds)"));
         }

@@ -2,7 +2,8 @@
 //! broken rule reported as a [`Problem`] with its path and what would be valid.
 
 use super::limits::{
-    MAX_BEDS_PER_SECTION, MAX_CURVES_PER_SECTION, MAX_CURVE_SAMPLES, MAX_SECTIONS, MAX_STRING_CHARS,
+    MAX_BEDS_PER_SECTION, MAX_CURVES_PER_SECTION, MAX_CURVE_SAMPLES, MAX_LINK_LABEL_CHARS, MAX_SECTIONS,
+    MAX_STRING_CHARS,
 };
 use super::problem::Problem;
 use crate::model::{GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
@@ -157,6 +158,11 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
             decided.insert(d.bed.0, k);
         }
         check_text(&mut out, &format!("review[{k}].note"), &d.note);
+        if let Some(label) = &d.link {
+            if let Err(why) = check_link_label(label) {
+                out.push(Problem::new(format!("review[{k}].link"), why));
+            }
+        }
     }
     validate_curves(&section.curves, &mut out);
     out
@@ -304,6 +310,28 @@ fn check_text(out: &mut Vec<Problem>, location: &str, text: &str) {
     }
 }
 
+/// Check a correlation label for an accepted boundary: not blank, at most
+/// [`MAX_LINK_LABEL_CHARS`] characters, no control characters (it is printed on the panel).
+pub fn check_link_label(label: &str) -> Result<(), String> {
+    let n = label.chars().count();
+    if label.trim().is_empty() {
+        return Err("must not be blank; leave the field out for no correlation label".to_string());
+    }
+    if n > MAX_LINK_LABEL_CHARS {
+        return Err(format!(
+            "a correlation label of {n} characters; at most {MAX_LINK_LABEL_CHARS} allowed (e.g. SB-2)"
+        ));
+    }
+    if let Some(c) = label.chars().find(|c| c.is_control()) {
+        return Err(format!(
+            "must not hold control characters (found U+{:04X} in {:?}); write a short label such as SB-2",
+            u32::from(c),
+            label.chars().take(60).collect::<String>()
+        ));
+    }
+    Ok(())
+}
+
 /// Check an ISO 8601 calendar date `YYYY-MM-DD` (proleptic Gregorian, years 1000–9999).
 pub fn check_iso_date(text: &str) -> Result<(), String> {
     let parts: Vec<&str> = text.split('-').collect();
@@ -363,7 +391,12 @@ mod tests {
         let mut mud = Bed::new(BedId(3), 1.0, Lithology::Mudstone, None);
         mud.grain_top = Some(GrainSize::Phi(f64::NAN));
         s.beds = vec![b, covered, mud];
-        s.review = vec![ReviewDecision { bed: BedId(9), state: ReviewState::Accepted, note: String::new() }];
+        s.review = vec![ReviewDecision {
+            bed: BedId(9),
+            state: ReviewState::Accepted,
+            note: String::new(),
+            link: None,
+        }];
         s.date_logged = Some("2023-02-29".into());
         let locations: Vec<String> = validate_section(&s).into_iter().map(|p| p.location).collect();
         for expected in [
@@ -423,6 +456,30 @@ mod tests {
         let problems = validate_section(&s);
         assert_eq!(problems.len(), MAX_SAMPLE_PROBLEMS + 1, "{problems:?}");
         assert!(problems[MAX_SAMPLE_PROBLEMS].message.starts_with("39 more samples"), "{problems:?}");
+    }
+
+    #[test]
+    fn correlation_labels_are_short_printable_text() {
+        assert_eq!(check_link_label("SB-2"), Ok(()));
+        assert_eq!(check_link_label("base of the upper storey system"), Ok(()));
+        assert!(check_link_label("  ").expect_err("blank").contains("blank"));
+        assert!(check_link_label(&"x".repeat(41)).expect_err("long").contains("41 characters"));
+        assert!(check_link_label(&"x".repeat(40)).is_ok());
+        // Control characters (Unicode general category Cc) are refused, named by code point.
+        let e = check_link_label("SB\n2").expect_err("newline");
+        assert!(e.contains("U+000A"), "{e}");
+        let e = check_link_label("SB\u{1b}2").expect_err("escape");
+        assert!(e.contains("U+001B"), "{e}");
+        assert!(check_link_label("Schichtfläche 2").is_ok(), "letters beyond ASCII are fine");
+        // In a section: located at the decision's link field.
+        let mut s = Section::new("Corrie Wash");
+        s.beds = vec![sand(1, 1.0), sand(2, 1.0)];
+        let mut d = ReviewDecision::new(BedId(2), ReviewState::Candidate, "");
+        d.link = Some("SB\t2".to_string());
+        s.review = vec![d];
+        let problems = validate_section(&s);
+        assert_eq!(problems.len(), 1, "{problems:?}");
+        assert_eq!(problems[0].location, "review[0].link");
     }
 
     #[test]

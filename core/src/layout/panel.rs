@@ -1,5 +1,6 @@
 //! Correlation panel: a project's sections side by side, spaced by horizontal distance and hung
-//! on a datum, with dashed tie lines between surfaces of the same name in neighbouring sections.
+//! on a datum, with dashed tie lines between surfaces of the same name in neighbouring sections
+//! and solid ones between accepted boundaries the geologist links with a correlation label.
 //!
 //! Choices, stated once here and printed on the page:
 //! - **Horizontal positions** come from every section's `panel_position_m` when all sections have
@@ -17,6 +18,14 @@
 //!   true vertical scale the page is lengthened (and widened when the columns need it) rather
 //!   than continued, so that tie lines are never cut; the notes say so. [`super::Paper::TallSingle`]
 //!   sizes the page to the panel, spacing the columns to scale where it can.
+//! - **Tie lines** join neighbouring columns only. Accepted boundaries carrying the same
+//!   correlation label (`ReviewDecision::link`) are tied first, with a solid line and the label
+//!   written once at the middle of the tie; a label used twice in one section ties its lowest
+//!   boundary (the others are noted), and a label on a boundary that is not accepted is kept in
+//!   the file but not drawn (noted). Surfaces of the same name are then tied with a dashed line,
+//!   unless the same two levels are already linked. Accepted boundaries with neither a surface
+//!   name nor a label are paired in stratigraphic order when both sections have the same number
+//!   of them; otherwise a note says they are not tied.
 
 use super::column::{boundary_style, ColumnCtx, Track, Tracks, SCALE_BAND_MM, TITLE_BAND_MM};
 use super::items::{Item, PtMm, RectMm, Rgba};
@@ -57,6 +66,10 @@ const LABEL_PITCH_MM: f64 = 2.3;
 pub const DATUM_BLUE: Rgba = Rgba(0, 104, 180, 255);
 /// Tie lines between named surfaces.
 pub const TIE_VIOLET: Rgba = Rgba(96, 64, 150, 255);
+/// Tie lines between accepted boundaries the geologist linked with a correlation label.
+pub const LINK_TEAL: Rgba = Rgba(0, 131, 143, 255);
+/// Width of a linked tie line, mm.
+const LINK_LINE_MM: f64 = 0.5;
 /// Flags on sections drawn without the datum, and gaps not to scale.
 pub const FLAG_ORANGE: Rgba = Rgba(205, 85, 0, 255);
 
@@ -135,8 +148,8 @@ pub fn panel_positions(sections: &[Section]) -> Positions {
 pub enum Datum {
     /// Each section's base (0 m).
     Base,
-    /// A named surface (`Bed::base_surface`) or an accepted sequence boundary, by its marker
-    /// name (see [`section_markers`]).
+    /// A named surface (`Bed::base_surface`), an accepted boundary's correlation label, or an
+    /// accepted sequence boundary by its marker name (see [`section_markers`] and [`find_marker`]).
     Named(String),
 }
 
@@ -170,8 +183,27 @@ pub struct Marker {
     pub height_m: f64,
     /// True when the geologist accepted a sequence boundary here.
     pub accepted: bool,
-    /// True for an accepted boundary with no surface name (tied by order, not by name).
+    /// True for an accepted boundary with neither a surface name nor a correlation label (tied by
+    /// order, not by name).
     pub unnamed: bool,
+    /// True when `name` is a surface name (`Bed::base_surface`).
+    pub surface: bool,
+    /// The correlation label of an accepted boundary (trimmed); `None` when it has none, or when
+    /// a lower accepted boundary of the section already carries it.
+    pub link: Option<String>,
+}
+
+/// The markers of one section and what the panel notes about them.
+#[derive(Debug, Clone, PartialEq, Default, Serialize)]
+pub struct SectionMarkers {
+    /// Named surfaces and accepted boundaries, lowest first.
+    pub markers: Vec<Marker>,
+    /// Surface names that occur more than once (the lowest is used), in order met.
+    pub repeated_names: Vec<String>,
+    /// Correlation labels on more than one accepted boundary: (label, height of an unused one, m).
+    pub repeated_links: Vec<(String, f64)>,
+    /// Correlation labels on boundaries that are not accepted: (label, height, m); kept, not drawn.
+    pub unaccepted_links: Vec<(String, f64)>,
 }
 
 /// Name given to an accepted boundary at an unnamed bed boundary.
@@ -179,28 +211,41 @@ pub fn accepted_marker_name(section: &str, height_m: f64) -> String {
     format!("accepted:{section}@{height_m:.2}")
 }
 
-/// Named surfaces and accepted boundaries of a section, lowest first; a name that occurs twice
-/// keeps its lowest occurrence (the others are returned as the second value, for a note).
-pub fn section_markers(section: &Section) -> (Vec<Marker>, Vec<String>) {
+/// Named surfaces and accepted boundaries of a section, lowest first. A surface name that occurs
+/// twice keeps its lowest occurrence, and so does a correlation label; the others are listed for
+/// a note, as are labels on boundaries that are not accepted.
+pub fn section_markers(section: &Section) -> SectionMarkers {
     let ctx_bases = bases_m(section);
-    let mut out: Vec<Marker> = Vec::new();
-    let mut repeats = Vec::new();
+    let mut out = SectionMarkers::default();
     for (i, bed) in section.beds.iter().enumerate() {
-        let accepted = section.decision_for(bed.id).is_some_and(|d| d.state == ReviewState::Accepted);
+        let decision = section.decision_for(bed.id);
+        let accepted = decision.is_some_and(|d| d.state == ReviewState::Accepted);
+        let label = decision.and_then(|d| d.link_label());
         let surface = bed.base_surface.as_ref().map(|s| s.name.trim()).filter(|n| !n.is_empty());
         let h = ctx_bases[i];
+        if let (Some(l), false) = (label, accepted) {
+            out.unaccepted_links.push((l.to_string(), h));
+        }
+        let mut link = label.filter(|_| accepted).map(str::to_string);
+        if let Some(l) = &link {
+            if out.markers.iter().any(|m| m.link.as_deref() == Some(l.as_str())) {
+                out.repeated_links.push((l.clone(), h));
+                link = None;
+            }
+        }
+        let labelled = accepted && label.is_some();
         let (name, unnamed) = match (surface, accepted) {
             (Some(n), _) => (n.to_string(), false),
-            (None, true) => (accepted_marker_name(&section.name, h), true),
+            (None, true) => (accepted_marker_name(&section.name, h), !labelled),
             (None, false) => continue,
         };
-        if out.iter().any(|m| m.name == name) {
-            repeats.push(name);
+        if out.markers.iter().any(|m| m.name == name) {
+            out.repeated_names.push(name);
             continue;
         }
-        out.push(Marker { name, height_m: h, accepted, unnamed });
+        out.markers.push(Marker { name, height_m: h, accepted, unnamed, surface: surface.is_some(), link });
     }
-    (out, repeats)
+    out
 }
 
 /// Base height of every bed (m), counting bad thicknesses as zero as the column drawing does.
@@ -219,12 +264,18 @@ fn bases_m(section: &Section) -> Vec<f64> {
         .collect()
 }
 
-/// The marker a datum names in a section: exact name first, then ignoring ASCII case.
-fn find_marker<'m>(markers: &'m [Marker], name: &str) -> Option<&'m Marker> {
+/// The marker a datum names in a section: a surface or marker name first, then a correlation
+/// label, each exact first and then ignoring ASCII case.
+pub fn find_marker<'m>(markers: &'m [Marker], name: &str) -> Option<&'m Marker> {
+    let link_is = |m: &Marker, exact: bool| {
+        m.link.as_deref().is_some_and(|l| if exact { l == name } else { l.eq_ignore_ascii_case(name) })
+    };
     markers
         .iter()
         .find(|m| m.name == name)
         .or_else(|| markers.iter().find(|m| m.name.eq_ignore_ascii_case(name)))
+        .or_else(|| markers.iter().find(|m| link_is(m, true)))
+        .or_else(|| markers.iter().find(|m| link_is(m, false)))
 }
 
 /// Choices for a correlation panel.
@@ -266,7 +317,7 @@ pub enum PanelError {
     NoSections,
     #[error("{sections} sections but {interpretations} interpretations were given; give one per section, in the same order")]
     InterpretationCount { sections: usize, interpretations: usize },
-    #[error("no section has a surface or accepted boundary named {datum:?}; valid datums are \"base\"{}", list_names(.available))]
+    #[error("no section has a surface, correlation label or accepted boundary named {datum:?}; valid datums are \"base\"{}", list_names(.available))]
     UnknownDatum { datum: String, available: Vec<String> },
     #[error("{what} must be a positive number, not {value}")]
     BadNumber { what: &'static str, value: f64 },
@@ -296,13 +347,17 @@ pub struct PanelColumn {
     pub channel_proportion: Option<f64>,
 }
 
-/// A dashed tie line between the same marker in two neighbouring columns.
+/// A tie line between the same marker in two neighbouring columns.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct TieLine {
-    /// Marker name (for unnamed accepted boundaries, the left one's name).
+    /// The correlation label for a linked tie; else the marker name (for unnamed accepted
+    /// boundaries, the left one's name).
     pub name: String,
     /// True between accepted sequence boundaries.
     pub accepted: bool,
+    /// True when the geologist linked the two boundaries with a correlation label (drawn solid,
+    /// labelled); false for a tie by surface name or by order.
+    pub linked: bool,
     /// Indices into [`PanelLayout::columns`].
     pub left: usize,
     pub right: usize,
@@ -378,10 +433,15 @@ fn panel_tracks() -> Tracks {
     }
 }
 
-/// All marker names of a project, sorted, for the unknown-datum message.
+/// All marker names and correlation labels of a project, sorted, for the unknown-datum message.
 fn all_marker_names(project: &crate::model::Project) -> Vec<String> {
-    let mut v: Vec<String> =
-        project.sections.iter().flat_map(|s| section_markers(s).0.into_iter().map(|m| m.name)).collect();
+    let mut v: Vec<String> = project
+        .sections
+        .iter()
+        .flat_map(|s| {
+            section_markers(s).markers.into_iter().flat_map(|m| std::iter::once(m.name).chain(m.link))
+        })
+        .collect();
     v.sort();
     v.dedup();
     v
@@ -418,10 +478,12 @@ pub fn panel_layout(
         if opts.layout.margin_mm.is_finite() { opts.layout.margin_mm.clamp(3.0, 40.0) } else { 12.0 };
 
     // Markers and the datum in each section.
-    let markers: Vec<(Vec<Marker>, Vec<String>)> = sections.iter().map(section_markers).collect();
+    let markers: Vec<SectionMarkers> = sections.iter().map(section_markers).collect();
     let datum_h: Vec<Option<f64>> = match &opts.datum {
         Datum::Base => vec![Some(0.0); sections.len()],
-        Datum::Named(name) => markers.iter().map(|(m, _)| find_marker(m, name).map(|m| m.height_m)).collect(),
+        Datum::Named(name) => {
+            markers.iter().map(|m| find_marker(&m.markers, name).map(|m| m.height_m)).collect()
+        }
     };
     if let Datum::Named(name) = &opts.datum {
         if datum_h.iter().all(Option::is_none) {
@@ -445,9 +507,21 @@ pub fn panel_layout(
                 sections[i].name
             ));
         }
-        for r in &markers[i].1 {
+        for r in &markers[i].repeated_names {
             notes.push(format!(
                 "{}: surface {r:?} occurs more than once; the lowest is used.",
+                sections[i].name
+            ));
+        }
+        for (l, h) in &markers[i].repeated_links {
+            notes.push(format!(
+                "{}: correlation label {l:?} is on more than one accepted boundary; the lowest is tied, not the one at {h:.2} m.",
+                sections[i].name
+            ));
+        }
+        for (l, h) in &markers[i].unaccepted_links {
+            notes.push(format!(
+                "{}: correlation label {l:?} at {h:.2} m is on a boundary that is not accepted: kept, not drawn.",
                 sections[i].name
             ));
         }
@@ -612,7 +686,8 @@ pub fn panel_layout(
     let mut y = y_header + header_h;
     draw_legend(&entries, margin, y, usable_w, &mut items);
     y += legend_h;
-    draw_key(margin, y, &mut items);
+    let any_link = markers.iter().any(|m| m.markers.iter().any(|m| m.link.is_some()));
+    draw_key(margin, y, any_link, &mut items);
     y += KEY_ROW_MM;
     let y_heads = y;
     let y_titles = y_heads + HEAD_MM;
@@ -637,7 +712,16 @@ pub fn panel_layout(
         ctx.draw_titles(x, y_titles, &mut items);
         draw_strip_titles(x + tracks.width_mm, y_titles, &mut items);
         ctx.draw_range(0.0, ctx.total_m, x, &heights_t, &mut items, &mut boxes);
-        draw_strip(&ctx, &markers[i].0, &opts.datum, datum_h[i].is_some(), opts, x, &heights_t, &mut items);
+        draw_strip(
+            &ctx,
+            &markers[i].markers,
+            &opts.datum,
+            datum_h[i].is_some(),
+            opts,
+            x,
+            &heights_t,
+            &mut items,
+        );
         ctx.draw_scale(x, y_scale, &mut items);
         let distance = positions.distance_m[i] - d0;
         draw_head(
@@ -711,43 +795,41 @@ pub fn panel_layout(
 
     // Tie lines between neighbours.
     let mut ties: Vec<TieLine> = Vec::new();
+    // Linked markers that found their label in a neighbour: (column, marker index).
+    let mut linked_ends: Vec<(usize, usize)> = Vec::new();
     for k in 0..columns.len().saturating_sub(1) {
         let (a, b) = (&columns[k], &columns[k + 1]);
-        let (ma, mb) = (&markers[a.section_index].0, &markers[b.section_index].0);
-        let mut pairs: Vec<(&Marker, &Marker)> = Vec::new();
-        for m in ma.iter().filter(|m| !m.unnamed) {
-            if let Some(o) = mb.iter().find(|o| !o.unnamed && o.name == m.name) {
-                pairs.push((m, o));
-            }
-        }
-        // Unnamed accepted boundaries are paired in stratigraphic order when both sections
-        // have the same number of them; otherwise nothing says which goes with which.
-        let ua: Vec<&Marker> = ma.iter().filter(|m| m.unnamed).collect();
-        let ub: Vec<&Marker> = mb.iter().filter(|m| m.unnamed).collect();
-        if ua.len() == ub.len() {
-            pairs.extend(ua.into_iter().zip(ub));
-        } else if !ua.is_empty() && !ub.is_empty() {
+        let (ma, mb) = (&markers[a.section_index].markers, &markers[b.section_index].markers);
+        let (pairs, unpaired) = tie_pairs(ma, mb);
+        if let Some((na, nb)) = unpaired {
             notes.push(format!(
-                "{} and {} have {} and {} accepted boundaries without surface names: not tied (name the surfaces to tie them).",
-                a.name,
-                b.name,
-                ua.len(),
-                ub.len()
+                "{} and {} have {na} and {nb} accepted boundaries without surface names or correlation labels: not tied (name the surfaces or give them labels to tie them).",
+                a.name, b.name
             ));
         }
-        for (m, o) in pairs {
+        for (i, j, kind) in pairs {
+            let (m, o) = (&ma[i], &mb[j]);
             let from = PtMm { x: a.x_mm + a.width_mm, y: a.heights.y_mm(m.height_m) };
             let to = PtMm { x: b.x_mm + tracks.lithology.x_mm - 1.0, y: b.heights.y_mm(o.height_m) };
             let accepted = m.accepted && o.accepted;
-            let stroke = if accepted {
-                dashed(0.45, BOUNDARY_RED, &[2.4, 1.0])
-            } else {
-                dashed(0.3, TIE_VIOLET, &[1.8, 1.0])
+            let stroke = match kind {
+                TieKind::Link => solid(LINK_LINE_MM, LINK_TEAL),
+                _ if accepted => dashed(0.45, BOUNDARY_RED, &[2.4, 1.0]),
+                _ => dashed(0.3, TIE_VIOLET, &[1.8, 1.0]),
             };
             items.push(Item::Polyline { points: vec![from, to], stroke });
+            let name = match (kind, &m.link) {
+                (TieKind::Link, Some(l)) => {
+                    linked_ends.extend([(k, i), (k + 1, j)]);
+                    draw_tie_label(l, from, to, &mut items);
+                    l.clone()
+                }
+                _ => m.name.clone(),
+            };
             ties.push(TieLine {
-                name: m.name.clone(),
+                name,
                 accepted,
+                linked: kind == TieKind::Link,
                 left: k,
                 right: k + 1,
                 left_height_m: m.height_m,
@@ -755,6 +837,16 @@ pub fn panel_layout(
                 from,
                 to,
             });
+        }
+    }
+    for (k, c) in columns.iter().enumerate() {
+        for (i, m) in markers[c.section_index].markers.iter().enumerate() {
+            if let Some(l) = m.link.as_ref().filter(|_| !linked_ends.contains(&(k, i))) {
+                notes.push(format!(
+                    "{}: correlation label {l:?} at {:.2} m has no match in a neighbouring column: not tied.",
+                    c.name, m.height_m
+                ));
+            }
         }
     }
 
@@ -791,6 +883,66 @@ pub fn panel_layout(
         notes,
         page_enlarged: enlarged,
     })
+}
+
+/// How two markers in neighbouring columns came to be tied.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum TieKind {
+    /// Accepted boundaries carrying the same correlation label.
+    Link,
+    /// Surfaces of the same name.
+    Name,
+    /// Unnamed, unlabelled accepted boundaries paired in stratigraphic order.
+    Order,
+}
+
+/// Two tied markers: (index in the left column's markers, index in the right's, how).
+pub type TiePair = (usize, usize, TieKind);
+
+/// Which markers of two neighbouring columns are tied: (index in `left`, index in `right`, how),
+/// links first, then names (unless the same two levels are already linked), then order. The
+/// second value gives the counts of unnamed accepted boundaries when both columns have some but
+/// not the same number, so that nothing says which goes with which.
+pub fn tie_pairs(left: &[Marker], right: &[Marker]) -> (Vec<TiePair>, Option<(usize, usize)>) {
+    let mut pairs: Vec<TiePair> = Vec::new();
+    for (i, m) in left.iter().enumerate() {
+        let Some(l) = &m.link else { continue };
+        if let Some(j) = right.iter().position(|o| o.link.as_ref() == Some(l)) {
+            pairs.push((i, j, TieKind::Link));
+        }
+    }
+    for (i, m) in left.iter().enumerate().filter(|(_, m)| m.surface) {
+        if let Some(j) = right.iter().position(|o| o.surface && o.name == m.name) {
+            if !pairs.iter().any(|&(a, b, _)| (a, b) == (i, j)) {
+                pairs.push((i, j, TieKind::Name));
+            }
+        }
+    }
+    let ua: Vec<usize> = (0..left.len()).filter(|&i| left[i].unnamed).collect();
+    let ub: Vec<usize> = (0..right.len()).filter(|&j| right[j].unnamed).collect();
+    let mut unpaired = None;
+    if ua.len() == ub.len() {
+        pairs.extend(ua.into_iter().zip(ub).map(|(i, j)| (i, j, TieKind::Order)));
+    } else if !ua.is_empty() && !ub.is_empty() {
+        unpaired = Some((ua.len(), ub.len()));
+    }
+    (pairs, unpaired)
+}
+
+/// A linked tie's label, once, at the middle of the tie and just above it, on the side the line
+/// leaves free: right of the middle when the tie runs down to the right, left of it when it runs
+/// up, centred when it is level.
+fn draw_tie_label(label: &str, from: PtMm, to: PtMm, out: &mut Vec<Item>) {
+    let half_gap = ((to.x - from.x) / 2.0 - 0.8).max(1.0);
+    let size = fit_size(label, half_gap, SMALL_PT, 3.2).unwrap_or(3.2);
+    let w = width(label, size);
+    let mid = PtMm { x: (from.x + to.x) / 2.0, y: (from.y + to.y) / 2.0 };
+    let x = match to.y - from.y {
+        d if d > 0.5 => mid.x + 0.6,
+        d if d < -0.5 => mid.x - 0.6 - w,
+        _ => mid.x - w / 2.0,
+    };
+    text(out, x, mid.y - 0.7, label, size, LINK_TEAL);
 }
 
 /// "850 m" or "1.15 km".
@@ -928,7 +1080,8 @@ fn draw_distance_bar(denominator: f64, right: f64, y: f64, out: &mut Vec<Item>) 
 }
 
 /// The key row: the panel's own lines and labels.
-fn draw_key(x: f64, y: f64, out: &mut Vec<Item>) {
+/// The linked-tie entry is shown only when some section has a correlation label.
+fn draw_key(x: f64, y: f64, any_link: bool, out: &mut Vec<Item>) {
     let row = y + 2.5;
     let mut cx = x;
     let mut entry = |stroke: Option<super::items::Stroke>,
@@ -950,6 +1103,14 @@ fn draw_key(x: f64, y: f64, out: &mut Vec<Item>) {
     entry(Some(solid(0.35, DATUM_BLUE)), None, "datum", out);
     entry(Some(dashed(0.3, TIE_VIOLET, &[1.8, 1.0])), None, "tie line, same surface name", out);
     entry(Some(dashed(0.45, BOUNDARY_RED, &[2.4, 1.0])), None, "tie line, accepted boundaries", out);
+    if any_link {
+        entry(
+            Some(solid(LINK_LINE_MM, LINK_TEAL)),
+            None,
+            "tie line, linked accepted boundaries (label on it)",
+            out,
+        );
+    }
     entry(None, Some(("p 0.45", CURVE_GREEN)), "channel-body proportion between accepted boundaries", out);
     entry(None, Some(("n.t.s.", FLAG_ORANGE)), "gap not to horizontal scale", out);
 }
@@ -1085,7 +1246,7 @@ fn draw_strip(
         let is_datum = has_datum
             && matches!(datum, Datum::Named(n) if find_marker(markers, n).is_some_and(|d| d.name == m.name));
         let colour = if is_datum { DATUM_BLUE } else { TIE_VIOLET };
-        let name = if m.unnamed { "accepted".to_string() } else { m.name.clone() };
+        let name = if m.surface { m.name.clone() } else { "accepted".to_string() };
         labels.push((t.y_mm(m.height_m), name, colour));
     }
     // Interval proportions, only between accepted boundaries (the rules cut at candidates
@@ -1188,7 +1349,7 @@ mod tests {
         a.panel_position_m = Some(0.0);
         b.panel_position_m = Some(800.0);
         c.panel_position_m = Some(300.0);
-        c.review.push(ReviewDecision { bed: BedId(2), state: ReviewState::Accepted, note: String::new() });
+        c.review.push(ReviewDecision::new(BedId(2), ReviewState::Accepted, ""));
         Project::new(vec![a, b, c])
     }
 
@@ -1251,11 +1412,7 @@ mod tests {
         // Put C far away so A and B are neighbours; accept SB-1 in both A and B.
         p.sections[2].panel_position_m = Some(5000.0);
         for s in &mut p.sections[..2] {
-            s.review.push(ReviewDecision {
-                bed: BedId(2),
-                state: ReviewState::Accepted,
-                note: String::new(),
-            });
+            s.review.push(ReviewDecision::new(BedId(2), ReviewState::Accepted, ""));
         }
         let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
         let sb1 = l.ties.iter().find(|t| t.name == "SB-1").expect("SB-1 tie");
@@ -1269,6 +1426,159 @@ mod tests {
         // B and C (neighbours): B has no unnamed accepted boundary, C has one: no tie, no note.
         assert!(l.ties.iter().all(|t| t.right != 2 || t.name != "accepted:C@5.00"));
         assert_eq!(l.ties.len(), 2);
+    }
+
+    /// Accept the boundary at the base of bed `id` with an optional correlation label.
+    fn accept(s: &mut Section, id: u64, link: Option<&str>) {
+        let mut d = ReviewDecision::new(BedId(id), ReviewState::Accepted, "");
+        d.link = link.map(str::to_string);
+        s.review.retain(|r| r.bed != BedId(id));
+        s.review.push(d);
+    }
+
+    /// Unnamed boundaries: A has two accepted, B one; without labels the counts differ, so
+    /// order pairing gives nothing (A–B are neighbours: C is moved far away).
+    fn unnamed_pair() -> Project {
+        use Lithology::*;
+        let mut a = section("A", &[(2.0, Mudstone, None), (1.0, Sandstone, None), (3.0, Sandstone, None)]);
+        let mut b = section("B", &[(1.0, Mudstone, None), (4.0, Sandstone, None), (2.0, Sandstone, None)]);
+        a.panel_position_m = Some(0.0);
+        b.panel_position_m = Some(500.0);
+        accept(&mut a, 2, None);
+        accept(&mut a, 3, None);
+        accept(&mut b, 3, None);
+        Project::new(vec![a, b])
+    }
+
+    #[test]
+    fn a_link_ties_boundaries_that_order_pairing_could_not() {
+        let mut p = unnamed_pair();
+        let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+        assert!(l.ties.is_empty(), "{:?}", l.ties);
+        assert!(l.notes.iter().any(|n| n.contains("have 2 and 1 accepted boundaries")), "{:?}", l.notes);
+        // Label A's upper boundary (base of bed 3 at 3 m) and B's (base of bed 3 at 5 m) SB-2.
+        accept(&mut p.sections[0], 3, Some("SB-2"));
+        accept(&mut p.sections[1], 3, Some(" SB-2 "));
+        let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+        assert_eq!(l.ties.len(), 1, "{:?}", l.ties);
+        let t = &l.ties[0];
+        assert!(t.linked && t.accepted);
+        assert_eq!(t.name, "SB-2");
+        assert_eq!((t.left_height_m, t.right_height_m), (3.0, 5.0));
+        assert!((t.from.y - l.columns[0].heights.y_mm(3.0)).abs() < 1e-9);
+        assert!((t.to.y - l.columns[1].heights.y_mm(5.0)).abs() < 1e-9);
+        // A linked boundary is no longer unnamed: A has one unnamed left, B none; no note.
+        assert!(!l.notes.iter().any(|n| n.contains("accepted boundaries without")), "{:?}", l.notes);
+        // Drawn solid in the link colour, and the label written once, in the link colour.
+        let solid_link = l.page.items.iter().filter(|it| {
+            matches!(it, Item::Polyline { points, stroke } if stroke.color == LINK_TEAL
+                && stroke.dash_mm.is_empty() && points.len() == 2 && points[0] == t.from)
+        });
+        assert_eq!(solid_link.count(), 1);
+        let labels = l.page.items.iter().filter(
+            |it| matches!(it, Item::Text { text, color, .. } if text == "SB-2" && *color == LINK_TEAL),
+        );
+        assert_eq!(labels.count(), 1);
+    }
+
+    #[test]
+    fn link_and_name_on_the_same_levels_give_one_tie() {
+        let mut p = three();
+        p.sections[2].panel_position_m = Some(5000.0);
+        for s in &mut p.sections[..2] {
+            accept(s, 2, Some("K-1"));
+        }
+        let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+        // SB-1 (bed 2 base) in A and B is both named and linked: one linked tie; T still by name.
+        let names: Vec<(&str, bool)> = l.ties.iter().map(|t| (t.name.as_str(), t.linked)).collect();
+        assert_eq!(names, [("K-1", true), ("T", false)]);
+        // The datum may be the label: A hangs at 3 m, B at 1.5 m.
+        let l = panel_layout(&p, &interps(&p), &opts("k-1"), &PrintMeta::default()).expect("panel");
+        assert_eq!(l.columns[0].datum_height_m, Some(3.0));
+        assert_eq!(l.columns[1].datum_height_m, Some(1.5));
+        assert_eq!(l.columns[2].datum_height_m, None);
+    }
+
+    #[test]
+    fn repeated_and_unaccepted_labels_are_noted() {
+        let mut p = unnamed_pair();
+        // A: SB-2 on both accepted boundaries (the lowest, at 2 m, is tied); B: SB-2 accepted at
+        // 5 m, and SB-3 on a boundary that is only a candidate.
+        accept(&mut p.sections[0], 2, Some("SB-2"));
+        accept(&mut p.sections[0], 3, Some("SB-2"));
+        accept(&mut p.sections[1], 3, Some("SB-2"));
+        let mut d = ReviewDecision::new(BedId(2), ReviewState::Candidate, "");
+        d.link = Some("SB-3".into());
+        p.sections[1].review.push(d);
+        let m = section_markers(&p.sections[0]);
+        assert_eq!(m.repeated_links, vec![("SB-2".to_string(), 3.0)]);
+        let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+        let linked: Vec<(f64, f64)> =
+            l.ties.iter().filter(|t| t.linked).map(|t| (t.left_height_m, t.right_height_m)).collect();
+        assert_eq!(linked, [(2.0, 5.0)]);
+        assert!(l.notes.iter().any(|n| n.starts_with("A: correlation label \"SB-2\" is on more than one")));
+        assert!(l.notes.iter().any(|n| n
+            .starts_with("B: correlation label \"SB-3\" at 1.00 m is on a boundary that is not accepted")));
+        // The repeat is neither tied by label nor paired by order (it carries a label).
+        assert_eq!(l.ties.len(), 1, "{:?}", l.ties);
+    }
+
+    #[test]
+    fn a_label_without_a_neighbour_is_noted() {
+        let mut p = three();
+        // C (at 300 m, between A and B) has the label; neither neighbour does.
+        accept(&mut p.sections[2], 2, Some("SB-9"));
+        let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+        assert!(l.ties.iter().all(|t| !t.linked));
+        assert!(
+            l.notes.iter().any(|n| n == "C: correlation label \"SB-9\" at 5.00 m has no match in a neighbouring column: not tied."),
+            "{:?}",
+            l.notes
+        );
+    }
+
+    #[test]
+    fn pairing_rules() {
+        let m = |name: &str, h: f64, surface: bool, unnamed: bool, link: Option<&str>| Marker {
+            name: name.into(),
+            height_m: h,
+            accepted: unnamed || link.is_some(),
+            unnamed,
+            surface,
+            link: link.map(str::to_string),
+        };
+        let left = [
+            m("SB-1", 1.0, true, false, None),
+            m("accepted:L@2.00", 2.0, false, true, None),
+            m("accepted:L@3.00", 3.0, false, false, Some("X")),
+            m("T", 4.0, true, false, Some("Y")),
+        ];
+        let right = [
+            m("accepted:R@0.50", 0.5, false, false, Some("Y")),
+            m("SB-1", 1.5, true, false, None),
+            m("accepted:R@2.50", 2.5, false, true, None),
+            m("T", 6.0, true, false, None),
+            m("accepted:R@7.00", 7.0, false, false, Some("X")),
+        ];
+        let (pairs, unpaired) = tie_pairs(&left, &right);
+        // Links first (X: 2→4, Y: 3→0), then names (SB-1; T 3→3 is a different level from the
+        // link Y 3→0, so both are drawn), then order (one unnamed each side).
+        assert_eq!(
+            pairs,
+            vec![
+                (2, 4, TieKind::Link),
+                (3, 0, TieKind::Link),
+                (0, 1, TieKind::Name),
+                (3, 3, TieKind::Name),
+                (1, 2, TieKind::Order)
+            ]
+        );
+        assert_eq!(unpaired, None);
+        // Two unnamed against one: no order pairs, and the counts are returned for the note.
+        let (pairs, unpaired) =
+            tie_pairs(&left[..2], &[right[2].clone(), m("accepted:R@9.00", 9.0, false, true, None)]);
+        assert_eq!(pairs, vec![]);
+        assert_eq!(unpaired, Some((1, 2)));
     }
 
     #[test]

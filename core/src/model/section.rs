@@ -126,6 +126,23 @@ pub struct ReviewDecision {
     pub state: ReviewState,
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub note: String,
+    /// The geologist's correlation label ("SB-2"): accepted boundaries carrying the same label
+    /// in neighbouring sections are tied on the correlation panel. Kept, but not drawn, while the
+    /// boundary is not accepted. Absent in older files.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub link: Option<String>,
+}
+
+impl ReviewDecision {
+    /// A decision without a correlation label.
+    pub fn new(bed: BedId, state: ReviewState, note: impl Into<String>) -> Self {
+        ReviewDecision { bed, state, note: note.into(), link: None }
+    }
+
+    /// The correlation label, trimmed; `None` when absent or blank.
+    pub fn link_label(&self) -> Option<&str> {
+        self.link.as_deref().map(str::trim).filter(|l| !l.is_empty())
+    }
 }
 
 /// A measured section: metadata and beds listed base first.

@@ -35,6 +35,8 @@ with pdfplumber.open(path) as pdf:
         pages.append({
             "width": float(p.width), "height": float(p.height),
             "chars": "".join(c["text"] for c in p.chars),
+            "words": [{"text": w["text"], "x0": float(w["x0"]), "x1": float(w["x1"]),
+                       "top": float(w["top"]), "bottom": float(w["bottom"])} for w in p.extract_words()],
             "rects": [shape(r) for r in p.rects],
             "curves": [shape(c) for c in p.curves],
             "lines": [shape(l) for l in p.lines],
