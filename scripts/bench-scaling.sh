@@ -16,7 +16,7 @@ cd "$(dirname "$0")/.."
 out=target/bench-scaling
 mkdir -p "$out"
 if [ "${1:-}" != "--no-build" ]; then
-    nice -n 19 cargo build --release -p aggrade
+    nice -n 19 cargo build --release --workspace --bins
 fi
 # AGGRADE_BIN=path measures another build (e.g. target/debug/aggrade while the release build runs).
 bin="${AGGRADE_BIN:-$PWD/target/release/aggrade}"

@@ -9,6 +9,23 @@ use crate::model::{PaleosolDevelopment, WentworthClass};
 use serde::{Serialize, Serializer};
 use std::fmt;
 
+/// Free text converts into the `Note` variant, and the value serialises as its sentence.
+macro_rules! sentences {
+    ($($t:ident),+) => {$(
+        impl From<&str> for $t {
+            fn from(text: &str) -> Self {
+                $t::Note(text.to_string())
+            }
+        }
+
+        impl Serialize for $t {
+            fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+                s.collect_str(self)
+            }
+        }
+    )+};
+}
+
 /// One piece of evidence for a candidate sequence boundary or a style hint.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Evidence {
@@ -99,18 +116,6 @@ impl fmt::Display for Evidence {
             }
             Note(text) => f.write_str(text),
         }
-    }
-}
-
-impl From<&str> for Evidence {
-    fn from(text: &str) -> Self {
-        Evidence::Note(text.to_string())
-    }
-}
-
-impl Serialize for Evidence {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.collect_str(self)
     }
 }
 
@@ -222,17 +227,7 @@ impl fmt::Display for RegimeWhy {
     }
 }
 
-impl From<&str> for RegimeWhy {
-    fn from(text: &str) -> Self {
-        RegimeWhy::Note(text.to_string())
-    }
-}
-
-impl Serialize for RegimeWhy {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        s.collect_str(self)
-    }
-}
+sentences!(Evidence, RegimeWhy);
 
 #[cfg(test)]
 mod tests {
