@@ -1,7 +1,7 @@
 //! Printed columns checked by independent PDF readers (pypdf and pdfplumber from PyPI): paper
 //! sizes, true vertical scale, searchable text, reproducible bytes.
 
-use aggrade_core::export::{write_pdf, PdfInfo};
+use aggrade_core::export::{write_pdf, write_pdf_in_groups, PdfInfo, PAGES_PER_GROUP};
 use aggrade_core::layout::sample::{sample_interpretation, sample_section};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::model::{Bed, BedId, GrainSize, Lithology, Section, WentworthClass};
@@ -231,6 +231,47 @@ fn long_section_continues_over_pages_with_every_bed() {
     assert_eq!(v["pages"].as_array().expect("pages").len(), p.len());
     let last = v["pages"][p.len() - 1]["text"].as_str().expect("text");
     assert!(last.contains(&format!("page {} of {}", p.len(), p.len())), "{last}");
+}
+
+#[test]
+fn a_long_export_is_written_in_groups_of_pages_that_read_as_one_document() {
+    // The writer translates a group of pages at a time and joins the groups into one document;
+    // groups of 4 make this section's pages several groups, the last one short.
+    let (s, i) = aggrade_core::layout::sample::generated_section(2_000);
+    let p = pages(&s, &i, &LayoutOptions::default(), &PrintMeta::default());
+    assert!(p.len() > 30 && p.len() % 4 != 0, "{} pages", p.len());
+    let info = PdfInfo { title: "Long export".into(), author: "A. Logger".into(), creation_date: 0 };
+    let pdf = write_pdf_in_groups(&p, &info, 4);
+    assert!(pdf == write_pdf_in_groups(&p, &info, 4), "two exports of the same pages differ");
+    // The default group size holds these pages in one group: same pages, one font subset.
+    assert!(p.len() <= PAGES_PER_GROUP);
+    let whole = write_pdf(&p, &info);
+    assert!(whole.len() < pdf.len(), "one font subset instead of several is smaller");
+    let dir = tempfile::tempdir().expect("dir");
+    let v = probe_pdf(&pdf, &dir);
+    // pypdf and pdfplumber both see every page, in order, at the layout's paper size, with its
+    // text readable through the font its group embeds.
+    let n = p.len();
+    let plumber = v["pages"].as_array().expect("pages");
+    let pypdf_text = v["pypdf"]["text"].as_array().expect("pypdf text");
+    assert_eq!((plumber.len(), pypdf_text.len()), (n, n));
+    for (k, page) in plumber.iter().enumerate() {
+        let footer = format!("page {} of {n}", k + 1);
+        let text = page["text"].as_str().expect("text");
+        assert!(text.contains(&footer), "page {}: {text:.200}", k + 1);
+        assert!(pypdf_text[k].as_str().is_some_and(|t| t.contains(&footer)), "pypdf, page {}", k + 1);
+        let (w, h) = (page["width"].as_f64().expect("w"), page["height"].as_f64().expect("h"));
+        assert!(
+            (w - p[k].width_mm * 72.0 / 25.4).abs() < 0.01 && (h - p[k].height_mm * 72.0 / 25.4).abs() < 0.01
+        );
+    }
+    // The joined document reads the same as the one written in a single group.
+    let dir1 = tempfile::tempdir().expect("dir");
+    let one = probe_pdf(&whole, &dir1);
+    for (k, page) in plumber.iter().enumerate() {
+        assert_eq!(page["chars"], one["pages"][k]["chars"], "page {}", k + 1);
+        assert_eq!(page["rects"], one["pages"][k]["rects"], "page {}", k + 1);
+    }
 }
 
 #[test]

@@ -3,7 +3,7 @@
 pub mod pdf;
 pub mod svg;
 
-pub use pdf::{write_pdf, PdfInfo};
+pub use pdf::{write_pdf, write_pdf_in_groups, PdfInfo, PAGES_PER_GROUP};
 pub use svg::write_svg;
 
 /// The civil date (YYYY-MM-DD, UTC, proleptic Gregorian calendar) of a Unix time, for the
