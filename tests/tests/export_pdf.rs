@@ -239,7 +239,7 @@ fn a_long_export_is_written_in_groups_of_pages_that_read_as_one_document() {
     // groups of 4 make this section's pages several groups, the last one short.
     let (s, i) = aggrade_core::layout::sample::generated_section(2_000);
     let p = pages(&s, &i, &LayoutOptions::default(), &PrintMeta::default());
-    assert!(p.len() > 30 && p.len() % 4 != 0, "{} pages", p.len());
+    assert!(p.len() > 30 && !p.len().is_multiple_of(4), "{} pages", p.len());
     let info = PdfInfo { title: "Long export".into(), author: "A. Logger".into(), creation_date: 0 };
     let pdf = write_pdf_in_groups(&p, &info, 4);
     assert!(pdf == write_pdf_in_groups(&p, &info, 4), "two exports of the same pages differ");
