@@ -4,5 +4,5 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 source scripts/setup.sh
-cargo build -p aggrade
+cargo build --workspace --bins   # --workspace: the same dependency build the tests use
 exec target/debug/aggrade "${1:-sample_sections/demo.aggrade}"

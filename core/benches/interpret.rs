@@ -1,7 +1,7 @@
 //! Benchmark: interpreting a generated 10,000-bed section (target: well under 10 ms), and the
 //! same rules on 1,000 / 10,000 / 100,000 beds to read off how the time grows.
 //!
-//! `AGGRADE_BENCH_WRITE=FILE cargo bench -p aggrade-core --bench interpret` also writes the
+//! `AGGRADE_BENCH_WRITE=FILE cargo bench --workspace --bench interpret` also writes the
 //! generated section as a project file, for timing the whole `aggrade interpret --json` process.
 
 use aggrade_core::model::{
