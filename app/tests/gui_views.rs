@@ -252,6 +252,33 @@ fn labels_typed_in_the_review_list_tie_two_sections_on_the_panel_and_undo_takes_
 }
 
 #[test]
+fn a_label_typed_past_the_length_limit_stops_at_the_limit_and_is_what_is_kept() {
+    use aggrade::gui::review::LINK_HINT;
+    use aggrade_core::io::limits::MAX_LINK_LABEL_CHARS;
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness(data.path(), vec![]);
+    let top = h.state_mut().interpretation().sequence_boundary_candidates[0].clone();
+    h.get_all_by_label("Accept").next().expect("an open candidate").click();
+    h.run();
+    h.get_by(|n| n.placeholder() == Some(LINK_HINT)).focus();
+    h.run();
+    // 50 characters typed in one go, then 5 more: the field takes the first 40 and no more, and
+    // nothing is refused on the way (a refused keystroke used to leave a shorter label behind).
+    let typed: String = ('A'..='Z').chain('a'..='x').collect();
+    assert_eq!(typed.chars().count(), 50);
+    h.get_by(|n| n.is_focused()).type_text(&typed);
+    h.run();
+    h.get_by(|n| n.is_focused()).type_text("yz012");
+    h.run();
+    h.key_press(Key::Enter);
+    h.run();
+    let d = h.state().doc.section().decision_for(top.bed_id).cloned().expect("decision");
+    let kept: String = typed.chars().take(MAX_LINK_LABEL_CHARS).collect();
+    assert_eq!(d.link.as_deref(), Some(kept.as_str()));
+    assert!(!h.state().status.starts_with("Not changed"), "{}", h.state().status);
+}
+
+#[test]
 fn statistics_view_shows_what_the_core_and_command_line_compute() {
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(data.path(), vec![]);

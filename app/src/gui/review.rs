@@ -49,7 +49,14 @@ fn link_ui(
         let lab = ui.label("Link").id;
         let mut label = current.to_string();
         let r = ui
-            .add(egui::TextEdit::singleline(&mut label).hint_text(LINK_HINT).desired_width(140.0))
+            .add(
+                egui::TextEdit::singleline(&mut label)
+                    .hint_text(LINK_HINT)
+                    .desired_width(140.0)
+                    // Longer labels are refused by the file checks: stop the typing rather than
+                    // apply the keystrokes up to the limit and refuse the next.
+                    .char_limit(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS),
+            )
             .labelled_by(lab)
             .on_hover_text(
                 "Accepted boundaries with the same label in neighbouring sections are tied on the correlation panel",

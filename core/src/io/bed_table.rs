@@ -273,6 +273,20 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         .at_line(line)]);
     }
     let (columns, warnings) = map_header(&header)?;
+    // Lines are counted here from the record's byte offset: the CSV parser's own line count
+    // runs one short on files with Windows (CR LF) line breaks.
+    let line_breaks: Vec<usize> = text.match_indices('\n').map(|(i, _)| i).collect();
+    // A record's offset can point at blank lines the parser skipped before it: step over them.
+    let line_at = |pos: Option<&csv::Position>| {
+        pos.map(|p| {
+            let mut at = p.byte() as usize;
+            while text.as_bytes().get(at).is_some_and(|b| *b == b'\n' || *b == b'\r') {
+                at += 1;
+            }
+            line_breaks.partition_point(|&b| b < at) + 1
+        })
+        .unwrap_or(0)
+    };
     let mut problems = Vec::new();
     let mut section = Section::new(section_name);
     section.display_unit = columns.thickness.1;
@@ -284,14 +298,31 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         let record = match record {
             Ok(r) => r,
             Err(e) => {
-                let line = e.position().map(|p| p.line() as usize).unwrap_or(0);
+                let line = line_at(e.position());
                 problems.push(Problem::new("", format!("unreadable CSV row: {e}")).at_line(line));
                 break;
             }
         };
-        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        let line = line_at(record.position());
         if record.iter().all(|c| c.trim().is_empty()) {
             continue;
+        }
+        // A short last row in a file that stops without a line break was most likely cut off.
+        let start = record.position().map_or(0, |p| p.byte() as usize);
+        let last_row = line_breaks.last().is_none_or(|&b| b < start);
+        if last_row && record.len() < header.len() && !text.ends_with('\n') && !text.ends_with('\r') {
+            problems.push(
+                Problem::new(
+                    "",
+                    format!(
+                        "the last row has {} cells but the header names {} columns, and the file ends in \
+                         the middle of it: the file looks cut off (truncated?)",
+                        record.len(),
+                        header.len()
+                    ),
+                )
+                .at_line(line),
+            );
         }
         if data_rows >= MAX_BEDS_PER_SECTION {
             problems.push(
@@ -663,5 +694,32 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
                 (Some(4), "column grain"),
             ]
         );
+    }
+
+    #[test]
+    fn windows_line_breaks_give_the_same_lines() {
+        // Spreadsheets on Windows write CR LF (RFC 4180 names CRLF as the line break).
+        let lf = "thickness_m,lithology,grain\n1,sandstone,fine sand\n2,mudstone,silt\n-1,mudstone,silt\n\n3,sandstone,\n";
+        let crlf = lf.replace('\n', "\r\n");
+        let lines = |text: &str| -> Vec<(Option<usize>, String)> {
+            let problems = read_bed_table(text, "x").expect_err("refused");
+            problems.iter().map(|p| (p.line, p.location.clone())).collect()
+        };
+        let want = vec![(Some(4), "column thickness_m".to_string()), (Some(6), "column grain".to_string())];
+        assert_eq!(lines(lf), want);
+        assert_eq!(lines(&crlf), want);
+    }
+
+    #[test]
+    fn a_short_last_row_without_a_line_break_is_called_truncated() {
+        let cut = "thickness_m,lithology,grain,contact\n1,sandstone,fine sand,sharp\n1.2,sandstone";
+        let problems = read_bed_table(cut, "x").expect_err("refused");
+        assert!(
+            problems.iter().any(|p| p.line == Some(3) && p.message.contains("truncated")),
+            "{problems:?}"
+        );
+        // The same short row ending with a line break is a row with its last cells left empty.
+        let read = read_bed_table(&format!("{cut},fine sand\n"), "x").expect("reads");
+        assert_eq!(read.section.beds.len(), 2);
     }
 }
