@@ -151,6 +151,10 @@ fn refuses_what_cannot_be_linked_and_leaves_the_file_alone() {
     refused(&["link", s, "--bed", "2", "--label", "X"], &["holds 2 sections", "--section"]);
     // Labels are short printable text.
     refused(&["link", s, "--section", "Ash Draw", "--bed", "2", "--label", "SB\t2"], &["--label", "U+0009"]);
+    refused(
+        &["link", s, "--section", "Ash Draw", "--bed", "2", "--label", " "],
+        &["--label", "must not be blank", "use --remove"],
+    );
     let long = "x".repeat(41);
     refused(
         &["link", s, "--section", "Ash Draw", "--bed", "2", "--label", &long],

@@ -64,6 +64,8 @@ fn demo_panel_on_a3_landscape() {
     ];
     let out = aggrade(&args);
     assert!(out.status.success(), "stderr: {}", String::from_utf8_lossy(&out.stderr));
+    let said = String::from_utf8_lossy(&out.stderr);
+    assert!(said.contains(&format!("wrote {pdf_s}")), "says where the panel went: {said}");
     // ISO 216 A3 landscape: 420 × 297 mm = 1190.551 × 841.890 pt.
     let (w, h, n, chars) = read_pdf(&pdf);
     assert_eq!(n, 1);

@@ -67,6 +67,9 @@ pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
     let file = args.file.display();
     let bed = BedId(args.bed);
     let label = match &args.label {
+        Some(l) if l.trim().is_empty() => {
+            bail!("--label {l:?}: must not be blank; to take a boundary's label off, use --remove")
+        }
         Some(l) => {
             check_link_label(l).map_err(|why| anyhow!("--label {l:?}: {why}"))?;
             Some(l.trim().to_string())

@@ -99,10 +99,12 @@ pub fn run(args: &PanelArgs) -> anyhow::Result<()> {
         };
         let bytes = write_pdf(std::slice::from_ref(&layout.page), &info);
         std::fs::write(out, bytes).with_context(|| format!("{}: cannot write the PDF", out.display()))?;
+        eprintln!("wrote {}", out.display());
     }
     if let Some(out) = &args.svg {
         std::fs::write(out, write_svg(&layout.page))
             .with_context(|| format!("{}: cannot write the SVG", out.display()))?;
+        eprintln!("wrote {}", out.display());
     }
     Ok(())
 }

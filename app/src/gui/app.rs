@@ -929,10 +929,12 @@ impl AggradeApp {
 
     fn status_bar(&mut self, ui: &mut egui::Ui) {
         egui::Panel::bottom("status").show(ui, |ui| {
-            ui.horizontal(|ui| {
-                ui.label(&self.status);
-                ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
-                    ui.label(egui::RichText::new(aggrade_core::REVIEW_CAUTION).small().color(theme::WARN));
+            // The caution first, from the right; the status takes the room left, cut short with
+            // "…" (whole on hover) rather than written over the caution.
+            ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
+                ui.label(egui::RichText::new(aggrade_core::REVIEW_CAUTION).small().color(theme::WARN));
+                ui.with_layout(egui::Layout::left_to_right(egui::Align::Center), |ui| {
+                    ui.add(egui::Label::new(&self.status).truncate()).on_hover_text(&self.status);
                 });
             });
         });
