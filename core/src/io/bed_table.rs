@@ -276,17 +276,16 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
     // Lines are counted here from the record's byte offset: the CSV parser's own line count
     // runs one short on files with Windows (CR LF) line breaks.
     let line_breaks: Vec<usize> = text.match_indices('\n').map(|(i, _)| i).collect();
-    // A record's offset can point at blank lines the parser skipped before it: step over them.
-    let line_at = |pos: Option<&csv::Position>| {
-        pos.map(|p| {
-            let mut at = p.byte() as usize;
-            while text.as_bytes().get(at).is_some_and(|b| *b == b'\n' || *b == b'\r') {
-                at += 1;
-            }
-            line_breaks.partition_point(|&b| b < at) + 1
-        })
-        .unwrap_or(0)
+    // Where a record's text starts: its offset can point at line breaks (blank lines, the LF of
+    // a CR LF) the parser stepped over before it.
+    let row_start = |pos: Option<&csv::Position>| {
+        let mut at = pos.map_or(0, |p| p.byte() as usize);
+        while text.as_bytes().get(at).is_some_and(|b| *b == b'\n' || *b == b'\r') {
+            at += 1;
+        }
+        at
     };
+    let line_at = |pos: Option<&csv::Position>| line_breaks.partition_point(|&b| b < row_start(pos)) + 1;
     let mut problems = Vec::new();
     let mut section = Section::new(section_name);
     section.display_unit = columns.thickness.1;
@@ -308,7 +307,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             continue;
         }
         // A short last row in a file that stops without a line break was most likely cut off.
-        let start = record.position().map_or(0, |p| p.byte() as usize);
+        let start = row_start(record.position());
         let last_row = line_breaks.last().is_none_or(|&b| b < start);
         if last_row && record.len() < header.len() && !text.ends_with('\n') && !text.ends_with('\r') {
             problems.push(
@@ -713,11 +712,13 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
     #[test]
     fn a_short_last_row_without_a_line_break_is_called_truncated() {
         let cut = "thickness_m,lithology,grain,contact\n1,sandstone,fine sand,sharp\n1.2,sandstone";
-        let problems = read_bed_table(cut, "x").expect_err("refused");
-        assert!(
-            problems.iter().any(|p| p.line == Some(3) && p.message.contains("truncated")),
-            "{problems:?}"
-        );
+        for text in [cut.to_string(), cut.replace('\n', "\r\n")] {
+            let problems = read_bed_table(&text, "x").expect_err("refused");
+            assert!(
+                problems.iter().any(|p| p.line == Some(3) && p.message.contains("truncated")),
+                "{text:?}: {problems:?}"
+            );
+        }
         // The same short row ending with a line break is a row with its last cells left empty.
         let read = read_bed_table(&format!("{cut},fine sand\n"), "x").expect("reads");
         assert_eq!(read.section.beds.len(), 2);
