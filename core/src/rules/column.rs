@@ -140,8 +140,14 @@ impl Column {
     /// Channel-deposit and exposed thickness between two heights (clipped to the section).
     pub fn window_m(&self, base_m: f64, top_m: f64) -> (f64, f64) {
         let (a, b) = (self.clamp_m(base_m), self.clamp_m(top_m));
-        let (ca, ea) = self.sums_at(self.beds_below(a), a);
-        let (cb, eb) = self.sums_at(self.beds_below(b), b);
+        self.sums_between((self.beds_below(a), a), (self.beds_below(b), b))
+    }
+
+    /// Channel and exposed thickness between two clamped heights, each with its count of beds
+    /// fully below it.
+    fn sums_between(&self, (ka, a): (usize, f64), (kb, b): (usize, f64)) -> (f64, f64) {
+        let (ca, ea) = self.sums_at(ka, a);
+        let (cb, eb) = self.sums_at(kb, b);
         ((cb - ca).max(0.0), (eb - ea).max(0.0))
     }
 
@@ -184,9 +190,7 @@ impl RisingWindows<'_> {
         let (a, b) = (c.clamp_m(base_m), c.clamp_m(top_m));
         self.below_base = self.below(self.below_base, a);
         self.below_top = self.below(self.below_top, b);
-        let (ca, ea) = c.sums_at(self.below_base, a);
-        let (cb, eb) = c.sums_at(self.below_top, b);
-        ((cb - ca).max(0.0), (eb - ea).max(0.0))
+        c.sums_between((self.below_base, a), (self.below_top, b))
     }
 
     /// Same as [`Column::proportion`].
