@@ -2,7 +2,6 @@
 //! project and drawn as a track beside the column), remove one, or list them.
 
 use aggrade_core::analysis::las::{read_las, IndexDirection, IndexToSection, LasFile};
-use aggrade_core::io::{self, FileKind};
 use aggrade_core::model::{MeasuredCurve, Section};
 use anyhow::{anyhow, bail};
 use std::path::{Path, PathBuf};
@@ -93,18 +92,12 @@ fn listing(section: &Section) -> String {
 /// Run `aggrade curve`.
 pub fn run(args: &CurveArgs) -> anyhow::Result<()> {
     let mut project = super::load_input(&args.file)?;
-    let index = {
-        let chosen = super::one_section(&project, &args.file, args.section.as_deref())?;
-        project.sections.iter().position(|s| std::ptr::eq(s, chosen)).unwrap_or(0)
-    };
+    let index = super::one_section_index(&project, &args.file, args.section.as_deref())?;
     if args.las.is_none() && args.remove.is_none() {
         print!("{}", listing(&project.sections[index]));
         return Ok(());
     }
-    let out = args.out.clone().unwrap_or_else(|| args.file.clone());
-    if FileKind::of(&out) != Some(FileKind::Project) {
-        bail!("{}: measured curves are kept in a project file; give --out NAME.aggrade", out.display());
-    }
+    let out = super::project_output(args.out.as_deref(), &args.file, "measured curves")?;
     let section = &mut project.sections[index];
     if let Some(name) = &args.remove {
         let Some(removed) = section.remove_curve(name) else {
@@ -155,9 +148,7 @@ pub fn run(args: &CurveArgs) -> anyhow::Result<()> {
             );
         }
     }
-    io::save_project(&out, &project).map_err(|e| anyhow!("{e}"))?;
-    eprintln!("wrote {}", out.display());
-    Ok(())
+    super::save_changed(&out, &project)
 }
 
 #[cfg(test)]

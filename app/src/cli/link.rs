@@ -2,7 +2,7 @@
 //! correlation panel ties it to the accepted boundaries with the same label in neighbouring
 //! sections; or take the label off.
 
-use aggrade_core::io::{self, check_link_label, FileKind};
+use aggrade_core::io::check_link_label;
 use aggrade_core::model::{BedId, Project, ReviewState};
 use anyhow::{anyhow, bail};
 use std::path::PathBuf;
@@ -55,15 +55,9 @@ fn others_with(project: &Project, label: &str, except: (usize, BedId)) -> Vec<St
 
 /// Run `aggrade link`.
 pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
-    let out = args.out.clone().unwrap_or_else(|| args.file.clone());
-    if FileKind::of(&out) != Some(FileKind::Project) {
-        bail!("{}: correlation labels are kept in a project file; give --out NAME.aggrade", out.display());
-    }
+    let out = super::project_output(args.out.as_deref(), &args.file, "correlation labels")?;
     let mut project = super::load_input(&args.file)?;
-    let index = {
-        let chosen = super::one_section(&project, &args.file, args.section.as_deref())?;
-        project.sections.iter().position(|s| std::ptr::eq(s, chosen)).unwrap_or(0)
-    };
+    let index = super::one_section_index(&project, &args.file, args.section.as_deref())?;
     let file = args.file.display();
     let bed = BedId(args.bed);
     let label = match &args.label {
@@ -141,7 +135,5 @@ pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
             );
         }
     }
-    io::save_project(&out, &project).map_err(|e| anyhow!("{e}"))?;
-    eprintln!("wrote {}", out.display());
-    Ok(())
+    super::save_changed(&out, &project)
 }

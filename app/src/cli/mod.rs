@@ -83,6 +83,29 @@ pub fn load_input(file: &Path) -> anyhow::Result<Project> {
     Ok(loaded.project)
 }
 
+/// Index of the section a command that changes a project works on (see [`one_section`]).
+pub fn one_section_index(project: &Project, file: &Path, wanted: Option<&str>) -> anyhow::Result<usize> {
+    let chosen = one_section(project, file, wanted)?;
+    Ok(project.sections.iter().position(|s| std::ptr::eq(s, chosen)).unwrap_or(0))
+}
+
+/// Where a command that changes a project writes it (`--out`, or over the input), refused when
+/// that is not a project file: `what` says what would be lost in a bed table.
+pub fn project_output(out: Option<&Path>, file: &Path, what: &str) -> anyhow::Result<std::path::PathBuf> {
+    let out = out.unwrap_or(file).to_path_buf();
+    if aggrade_core::io::FileKind::of(&out) != Some(aggrade_core::io::FileKind::Project) {
+        bail!("{}: {what} are kept in a project file; give --out NAME.aggrade", out.display());
+    }
+    Ok(out)
+}
+
+/// Save a changed project (atomically, the old file kept as NAME.bak) and say where.
+pub fn save_changed(out: &Path, project: &Project) -> anyhow::Result<()> {
+    aggrade_core::io::save_project(out, project).map_err(|e| anyhow::anyhow!("{e}"))?;
+    eprintln!("wrote {}", out.display());
+    Ok(())
+}
+
 /// Section names, quoted and joined, for error messages.
 fn section_names(project: &Project) -> String {
     project.sections.iter().map(|s| format!("{:?}", s.name)).collect::<Vec<_>>().join(", ")
