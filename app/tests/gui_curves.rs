@@ -82,7 +82,8 @@ fn a_malformed_las_file_gives_the_readers_message() {
     let mut h = harness(data.path(), vec![Some(fixture("las/bad_number.las"))]);
     h.run();
     section_menu(&mut h, "Attach measured curve (LAS)…");
-    let (title, text) = h.state().message.clone().expect("a message dialog");
+    let notice = h.state().message.clone().expect("a message dialog");
+    let (title, text) = (notice.title, notice.text);
     assert_eq!(title, "Could not read the LAS file");
     assert!(text.contains("bad_number.las") && text.contains("line "), "names file and line: {text}");
     assert!(h.state().doc.section().curves.is_empty());

@@ -161,9 +161,11 @@ fn a_bad_file_gives_a_dialog_and_the_work_stays() {
     let before = h.state().doc.project.clone();
     h.key_press_modifiers(Modifiers::COMMAND, Key::O);
     h.run();
-    let (title, text) = h.state().message.clone().expect("a message dialog");
-    assert_eq!(title, "Could not open the file");
-    assert!(text.contains("broken.aggrade"), "message names the file: {text}");
+    let notice = h.state().message.clone().expect("a message dialog");
+    assert_eq!(notice.title, "Could not open the file");
+    assert!(notice.text.contains("broken.aggrade"), "message names the file: {}", notice.text);
+    assert_eq!(notice.folder.as_deref(), Some(data.path()), "the dialog offers the file's folder");
+    assert!(h.query_by_label("Open folder").is_some(), "an Open folder button");
     assert_eq!(h.state().doc.project, before, "the open work is untouched");
     h.get_by_label("OK").click();
     h.run();

@@ -1,4 +1,6 @@
-//! Kill the app mid-session and check the next start recovers every edit.
+//! Never lose a word: kill the app mid-session (one window or two) and check the next start
+//! recovers every edit; save, save as, export and quit with no system file dialog; a file changed
+//! or removed on disk; broken files reach a person with the command line's own message.
 //!
 //! The parent test starts this same test binary again in "child" mode: the child drives the real
 //! window (egui_kittest, the same `AggradeApp`) through keyboard edits and a review decision,
@@ -8,13 +10,13 @@
 
 use aggrade::gui::document::Document;
 use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::recovery::{find_recovery, DATA_DIR_ENV};
+use aggrade::gui::recovery::{read_all_backups, DATA_DIR_ENV};
 use aggrade::gui::{recovery, AggradeApp, AppConfig};
 use aggrade_core::model::{Contact, GrainSize, Lithology, Project, ReviewState, Section, WentworthClass};
 use egui::Key;
 use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 use std::process::{Command, Stdio};
 use std::time::{Duration, Instant};
 
@@ -110,10 +112,10 @@ fn killed_session_is_recovered_with_every_edit() {
     // Wait until the autosave holds the last edit, then kill without warning.
     let start = Instant::now();
     loop {
-        if let Some(Ok(r)) = find_recovery(data.path()) {
-            if r.revision == revision {
-                break;
-            }
+        // The child is alive and holds its backup's lock: read the files directly.
+        if read_all_backups(data.path()).iter().any(|(_, r)| r.as_ref().is_ok_and(|r| r.revision == revision))
+        {
+            break;
         }
         if start.elapsed() > Duration::from_secs(60) {
             let _ = child.kill();
@@ -149,4 +151,389 @@ fn killed_session_is_recovered_with_every_edit() {
     assert_eq!(s.review.len(), 1, "the review decision was recovered");
     assert_eq!(s.review[0].state, ReviewState::Accepted);
     assert!(h.state().doc.dirty);
+}
+
+const WINDOW_ENV: &str = "AGGRADE_TEST_CHILD_WINDOW";
+
+/// A second kind of child: one window with a section of the given name and a few edits through
+/// the same `Edit` path the panels use, then idle until killed. Runs only when started so.
+#[test]
+fn child_window() {
+    let Some(name) = std::env::var_os(WINDOW_ENV) else { return };
+    let name = name.to_string_lossy().into_owned();
+    let data = recovery::data_dir();
+    let mut h = harness(&data);
+    h.run();
+    assert!(!h.state().recovery_pending(), "{name}: offered another living window's backup");
+    h.state_mut().doc = Document::new(Project::new(vec![Section::new(name.as_str())]), None);
+    for (i, t) in [1.5, 0.75, 2.25].into_iter().enumerate() {
+        let mut bed = aggrade::gui::app::new_bed();
+        bed.thickness_m = t;
+        bed.lithology = Lithology::Sandstone;
+        bed.notes = format!("{name} — bed {i}, ñandú 河床 🪨");
+        h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: i, bed });
+        h.run();
+    }
+    std::fs::write(data.join(format!("{name}.done")), h.state().doc.revision.to_string()).expect("marker");
+    let start = Instant::now();
+    while start.elapsed() < Duration::from_secs(120) {
+        h.step();
+        std::thread::sleep(Duration::from_millis(20));
+    }
+}
+
+fn start_window(data: &Path, name: &str) -> std::process::Child {
+    Command::new(std::env::current_exe().expect("test binary"))
+        .args(["--exact", "child_window", "--nocapture", "--test-threads", "1"])
+        .env(WINDOW_ENV, name)
+        .env(DATA_DIR_ENV, data)
+        .stdout(Stdio::null())
+        .stderr(Stdio::null())
+        .spawn()
+        .expect("child started")
+}
+
+/// Wait until the window named `name` has autosaved its last edit.
+fn wait_for_backup(data: &Path, name: &str, child: &mut std::process::Child) {
+    let start = Instant::now();
+    loop {
+        let revision = std::fs::read_to_string(data.join(format!("{name}.done")))
+            .ok()
+            .and_then(|t| t.trim().parse::<u64>().ok());
+        if let Some(rev) = revision {
+            let saved = read_all_backups(data)
+                .into_iter()
+                .any(|(_, r)| r.is_ok_and(|r| r.revision == rev && r.project.sections[0].name == name));
+            if saved {
+                return;
+            }
+        }
+        if let Ok(Some(status)) = child.try_wait() {
+            panic!("window {name} ended early: {status:?}");
+        }
+        if start.elapsed() > Duration::from_secs(90) {
+            let _ = child.kill();
+            panic!("window {name} did not autosave within 90 s");
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+}
+
+/// Two windows with unsaved work, each with a backup of its own: a window started meanwhile
+/// offers neither (both are alive), and after both are killed with SIGKILL the next start
+/// offers both; discarding one leaves the other whole.
+#[test]
+fn two_windows_killed_keep_two_backups_and_discarding_one_spares_the_other() {
+    if std::env::var_os(CHILD_ENV).is_some() || std::env::var_os(WINDOW_ENV).is_some() {
+        return;
+    }
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut a = start_window(data.path(), "Window A");
+    wait_for_backup(data.path(), "Window A", &mut a);
+    let mut b = start_window(data.path(), "Window B");
+    wait_for_backup(data.path(), "Window B", &mut b);
+    assert_eq!(read_all_backups(data.path()).len(), 2, "the two windows share a backup");
+
+    // A third window while both live: no offer, and nothing of theirs is touched.
+    {
+        let mut h = harness(data.path());
+        h.run();
+        assert!(!h.state().recovery_pending(), "offered the work of windows still open");
+    }
+    assert_eq!(read_all_backups(data.path()).len(), 2, "a third window removed a living window's backup");
+
+    for c in [&mut a, &mut b] {
+        c.kill().expect("SIGKILL");
+        let status = c.wait().expect("reaped");
+        assert!(!status.success(), "the window must have died: {status:?}");
+    }
+
+    let mut h = harness(data.path());
+    h.run();
+    let offered = h.state().offered_backups();
+    assert_eq!(offered.len(), 2, "{offered:?}");
+    assert!(offered.iter().all(|l| l.contains("never saved") && l.contains("UTC")), "{offered:?}");
+    // Discard the first listed; the other stays on disk, whole.
+    h.get_all_by_label("Discard").next().expect("a Discard button").click();
+    h.run();
+    let left = read_all_backups(data.path());
+    assert_eq!(left.len(), 1, "discarding one touched the other");
+    let kept = left[0].1.as_ref().expect("readable").project.sections[0].name.clone();
+    h.get_by_label("Restore").click();
+    h.run();
+    assert!(!h.state().recovery_pending());
+    let s = h.state().doc.section().clone();
+    assert_eq!(s.name, kept);
+    assert_eq!(s.beds.len(), 3);
+    assert!(s.beds[2].notes.ends_with("ñandú 河床 🪨"), "{:?}", s.beds[2].notes);
+    assert!(h.state().doc.dirty, "restored work is unsaved until saved");
+}
+
+fn app_with(
+    file: Option<PathBuf>,
+    data: &Path,
+    dialogs: Box<dyn aggrade::gui::files::FileDialogs>,
+) -> AggradeApp {
+    AggradeApp::new(AppConfig { file, data_dir: data.to_path_buf(), dialogs, recent: Vec::new() })
+}
+
+fn harness_of(app: AggradeApp) -> Harness<'static, AggradeApp> {
+    Harness::builder()
+        .with_size(egui::vec2(1400.0, 900.0))
+        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+}
+
+/// A harness for tests that open Aggrade's own file chooser: its folder and file-name fields
+/// (drawn by the `egui_file` crate) carry no accessible name, which kittest's accessibility
+/// check would otherwise refuse.
+fn harness_with_chooser(app: AggradeApp) -> Harness<'static, AggradeApp> {
+    Harness::builder()
+        .with_size(egui::vec2(1400.0, 900.0))
+        .with_accessibility_check(false)
+        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+}
+
+/// A dirty document holding one section of this name (non-English, to try file names too).
+fn fresh_work(h: &mut Harness<'static, AggradeApp>, name: &str) {
+    h.state_mut().doc = Document::new(Project::new(vec![Section::new(name)]), None);
+    let mut bed = aggrade::gui::app::new_bed();
+    bed.notes = "trozos de madera carbonizada; 炭化木片".into();
+    h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+    h.run();
+}
+
+fn request_close(h: &mut Harness<'static, AggradeApp>) {
+    h.input_mut()
+        .viewports
+        .entry(egui::ViewportId::ROOT)
+        .or_default()
+        .events
+        .push(egui::ViewportEvent::Close);
+    h.run();
+}
+
+#[test]
+fn save_save_as_export_and_quit_save_work_with_no_system_file_dialog() {
+    use egui::Modifiers;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let data = dir.path().join("data");
+    let work = dir.path().join("work");
+    std::fs::create_dir_all(&work).expect("dir");
+    let mut h = harness_with_chooser(app_with(None, &data, Box::new(aggrade::gui::files::NoSystemDialogs)));
+    h.run();
+    h.state_mut().chooser_mut().start_dir = Some(work.clone());
+    fresh_work(&mut h, "Río Ñuble");
+
+    // Save: Aggrade's own chooser opens and says why.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    h.run();
+    assert!(
+        h.query_by_label_contains("Aggrade's own file chooser").is_some(),
+        "the chooser does not say why"
+    );
+    h.get_by_label("Save here").click();
+    h.run();
+    let saved = work.join("Río Ñuble.aggrade");
+    assert!(saved.is_file(), "not saved: {}", h.state().status);
+    assert!(!h.state().doc.dirty);
+    let back = aggrade_core::io::load(&saved).expect("reads back").project;
+    assert_eq!(back, *h.state().doc.project);
+
+    // Save as onto the same name: asks before replacing, then writes.
+    h.state_mut()
+        .apply(aggrade::gui::document::Edit::SetDisplayUnit { unit: aggrade_core::model::LengthUnit::Foot });
+    h.run();
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::S);
+    h.run();
+    h.get_by_label("Save here").click();
+    h.run();
+    assert!(h.query_by_label("Replace the file?").is_some(), "no question before replacing");
+    h.get_by_label("Replace").click();
+    h.run();
+    assert!(!h.state().doc.dirty, "{}", h.state().status);
+    let back = aggrade_core::io::load(&saved).expect("reads back").project;
+    assert_eq!(back.sections[0].display_unit, aggrade_core::model::LengthUnit::Foot);
+
+    // Export: the column's PDF through the same chooser.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::E);
+    h.run();
+    h.get_by_label("Export PDF…").click();
+    h.run();
+    h.get_by_label("Save here").click();
+    h.run();
+    let pdf = work.join("Río Ñuble.pdf");
+    let bytes = std::fs::read(&pdf).expect("PDF written");
+    assert!(bytes.starts_with(b"%PDF"), "not a PDF");
+    assert!(h.state().status.contains("Exported"), "{}", h.state().status);
+
+    // Quit ▸ Save on a new project: saved through the chooser, then the window closes.
+    fresh_work(&mut h, "Quit test");
+    request_close(&mut h);
+    assert!(h.query_by_label("Save changes?").is_some());
+    h.get_by_label("Save").click();
+    h.run();
+    assert!(!h.state().close_allowed(), "closed before the file was chosen");
+    h.get_by_label("Save here").click();
+    h.run();
+    assert!(work.join("Quit test.aggrade").is_file(), "{}", h.state().status);
+    assert!(h.state().close_allowed(), "the window did not close after saving");
+}
+
+#[test]
+fn a_failed_save_in_the_quit_prompt_keeps_the_window_and_the_work() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let data = dir.path().join("data");
+    let folder = dir.path().join("usb-stick");
+    std::fs::create_dir_all(&folder).expect("dir");
+    let file = folder.join("log.aggrade");
+    aggrade_core::io::save_project(&file, &Project::new(vec![Section::new("Stick")])).expect("saved");
+    let mut h = harness_of(app_with(Some(file.clone()), &data, Box::new(ScriptedDialogs::default())));
+    h.run();
+    let id = aggrade::gui::app::new_bed();
+    h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed: id });
+    h.run();
+    // The stick is pulled out: the folder is gone.
+    std::fs::remove_dir_all(&folder).expect("removed");
+    request_close(&mut h);
+    h.get_by_label("Save").click();
+    h.run();
+    assert!(h.query_by_label("The file is gone").is_some(), "a removed file is not noticed");
+    h.get_by_label("Save it there again").click();
+    h.run();
+    let notice = h.state().message.clone().expect("a message");
+    assert_eq!(notice.title, "Could not save");
+    assert!(notice.text.contains("log.aggrade"), "{}", notice.text);
+    assert!(!h.state().close_allowed(), "the window closed with unsaved work after a failed save");
+    assert!(h.state().doc.dirty);
+    // The work is in this window's backup meanwhile.
+    let backups = read_all_backups(&data);
+    assert!(backups.iter().any(|(_, r)| r.as_ref().is_ok_and(|r| r.project.sections[0].beds.len() == 1)));
+}
+
+#[test]
+fn dont_save_on_quit_leaves_no_backup_to_offer_next_time() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness_of(app_with(None, data.path(), Box::new(ScriptedDialogs::default())));
+    h.run();
+    fresh_work(&mut h, "Thrown away");
+    h.run();
+    assert!(!read_all_backups(data.path()).is_empty(), "the autosave did not run");
+    request_close(&mut h);
+    h.get_by_label("Don't save").click();
+    h.run();
+    h.run();
+    assert!(h.state().close_allowed());
+    assert!(read_all_backups(data.path()).is_empty(), "the discarded work was written again");
+    drop(h);
+    let next = app_with(None, data.path(), Box::new(ScriptedDialogs::default()));
+    assert!(!next.recovery_pending(), "the next start offers work the geologist threw away");
+}
+
+#[test]
+fn saving_over_a_file_changed_elsewhere_asks_and_keep_both_keeps_both() {
+    use egui::Modifiers;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let data = dir.path().join("data");
+    let file = dir.path().join("shared log.aggrade");
+    aggrade_core::io::save_project(&file, &Project::new(vec![Section::new("Shared")])).expect("saved");
+    // Two windows on the same file.
+    let mut w1 = harness_of(app_with(Some(file.clone()), &data, Box::new(ScriptedDialogs::default())));
+    let mut w2 = harness_of(app_with(Some(file.clone()), &data, Box::new(ScriptedDialogs::default())));
+    w1.run();
+    w2.run();
+    for (h, t) in [(&mut w1, 1.0), (&mut w2, 2.0)] {
+        let mut bed = aggrade::gui::app::new_bed();
+        bed.thickness_m = t;
+        h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+        h.run();
+    }
+    assert_ne!(w1.state().recovery_path(), w2.state().recovery_path(), "two windows share one backup");
+    // Window 1 saves; window 2's save must not overwrite it unasked.
+    w1.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    w1.run();
+    assert!(!w1.state().doc.dirty, "{}", w1.state().status);
+    w2.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    w2.run();
+    assert!(w2.state().disk_prompt_pending(), "window 2 overwrote window 1's save without asking");
+    assert!(w2.query_by_label("The file changed on disk").is_some());
+    w2.get_by_label("Keep both").click();
+    w2.run();
+    let theirs = aggrade_core::io::load(&file).expect("reads").project;
+    assert_eq!(theirs.sections[0].beds[0].thickness_m, 1.0, "window 1's save was overwritten");
+    let mine_path = dir.path().join("shared log (2).aggrade");
+    let mine = aggrade_core::io::load(&mine_path).expect("kept beside it").project;
+    assert_eq!(mine.sections[0].beds[0].thickness_m, 2.0);
+    assert_eq!(w2.state().doc.path.as_deref(), Some(mine_path.as_path()), "window 2 now edits its own copy");
+
+    // Changed again by another program: Overwrite replaces it after asking.
+    let mut other = theirs.clone();
+    other.sections[0].notes = "edited by a sync tool".into();
+    aggrade_core::io::save_project(&file, &other).expect("saved");
+    let mut bed = aggrade::gui::app::new_bed();
+    bed.thickness_m = 3.0;
+    w1.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+    w1.run();
+    w1.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    w1.run();
+    assert!(w1.state().disk_prompt_pending());
+    w1.get_by_label("Overwrite").click();
+    w1.run();
+    assert!(!w1.state().doc.dirty);
+    assert_eq!(aggrade_core::io::load(&file).expect("reads").project.sections[0].beds[0].thickness_m, 3.0);
+
+    // Deleted meanwhile: saved again on request.
+    std::fs::remove_file(&file).expect("removed");
+    let bed = aggrade::gui::app::new_bed();
+    w1.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+    w1.run();
+    w1.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    w1.run();
+    assert!(w1.query_by_label("The file is gone").is_some());
+    w1.get_by_label("Save it there again").click();
+    w1.run();
+    assert!(file.is_file(), "the removed file was not written again");
+    assert!(!w1.state().doc.dirty);
+}
+
+#[test]
+fn a_broken_file_shows_in_the_window_what_the_command_line_says() {
+    use egui::Modifiers;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let data = dir.path().join("data");
+    let bad = Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/bad");
+    let written = [
+        ("negative.csv", "thickness_m,lithology,grain\n1.0,sandstone,fine sand\n-2,mudstone,clay\n"),
+        ("granite.csv", "thickness_m,lithology,grain\n1.0,granite,fine sand\n"),
+        (
+            "cut.aggrade",
+            "{ \"format_version\": 1, \"sections\": [ { \"name\": \"Cut\", \"beds\": [ {\"id\": 1,",
+        ),
+    ];
+    let mut files: Vec<PathBuf> = written
+        .iter()
+        .map(|(name, text)| {
+            let p = dir.path().join(name);
+            std::fs::write(&p, text).expect("write");
+            p
+        })
+        .collect();
+    files.extend(
+        ["negative_thickness.aggrade", "invalid_utf8.csv", "wrong_types.aggrade"].map(|f| bad.join(f)),
+    );
+    for file in files {
+        let dialogs = ScriptedDialogs { answers: vec![Some(file.clone())].into() };
+        let mut h = harness_of(app_with(None, &data, Box::new(dialogs)));
+        h.run();
+        h.key_press_modifiers(Modifiers::COMMAND, Key::O);
+        h.run();
+        let notice = h.state().message.clone().unwrap_or_else(|| panic!("{}: no message", file.display()));
+        let cli = Command::new(env!("CARGO_BIN_EXE_aggrade")).arg("check").arg(&file).output().expect("runs");
+        assert!(!cli.status.success(), "{} passed the check", file.display());
+        let said = String::from_utf8_lossy(&cli.stderr);
+        let said = said.trim_end().strip_prefix("aggrade: ").unwrap_or(&said).to_string();
+        assert_eq!(notice.text, said, "{}: the window and the command line differ", file.display());
+        assert!(notice.text.contains("line "), "{}: no line number: {}", file.display(), notice.text);
+        assert_eq!(notice.folder.as_deref(), file.parent(), "the folder offered is the file's");
+        assert!(h.query_by_label("Open folder").is_some());
+    }
 }

@@ -3,14 +3,15 @@
 
 use super::actions::Actions;
 use super::canvas::{self, Canvas};
+use super::chooser::{Chooser, FileKind, PickFor};
 use super::curve_dialog::{self, CurveDialog};
 use super::document::{Document, Edit};
 use super::engine::{self, LayoutOptions, RuleParams, Strip};
 use super::export_dialog::ExportDialog;
-use super::files::{self, FileDialogs, SaveKind};
+use super::files::{self, DiskState, FileDialogs, SaveKind};
 use super::inspector::Inspector;
 use super::painter::ItemIndex;
-use super::recovery::{self, Autosaver, Recovery};
+use super::recovery::{self, Autosaver, FoundBackup};
 use super::table::BedTable;
 use super::views_common::Views;
 use super::{demo, plots, review, theme};
@@ -38,6 +39,35 @@ pub enum Tab {
     Review,
     Plots,
     Section,
+}
+
+/// A message in a dialog: what happened, and the folder of the file it is about (the dialog
+/// offers to open it).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Notice {
+    pub title: String,
+    pub text: String,
+    pub folder: Option<PathBuf>,
+}
+
+impl Notice {
+    /// A message about nothing on disk.
+    pub fn new(title: impl Into<String>, text: impl Into<String>) -> Self {
+        Notice { title: title.into(), text: text.into(), folder: None }
+    }
+
+    /// A message about a file: the dialog offers to open its folder.
+    pub fn about_file(title: impl Into<String>, text: impl Into<String>, file: &Path) -> Self {
+        let folder = file.parent().map(|p| if p.as_os_str().is_empty() { Path::new(".") } else { p });
+        Notice { title: title.into(), text: text.into(), folder: folder.map(Path::to_path_buf) }
+    }
+}
+
+/// The project file changed on disk since the window read or wrote it; saving waits for an answer.
+#[derive(Debug, Clone, PartialEq)]
+struct DiskPrompt {
+    path: PathBuf,
+    state: DiskState,
 }
 
 /// Something that discards unsaved work and therefore asks first.
@@ -181,8 +211,8 @@ pub struct AggradeApp {
     pub layout: LayoutOptions,
     pub tab: Tab,
     pub recent: Vec<PathBuf>,
-    /// A message in a dialog (title, text).
-    pub message: Option<(String, String)>,
+    /// A message in a dialog.
+    pub message: Option<Notice>,
     /// Last status line.
     pub status: String,
     /// The correlation panel, statistics and channel-body windows.
@@ -197,10 +227,15 @@ pub struct AggradeApp {
     refreshing: Option<Refreshing>,
     /// Asked to draw again when a worker's result is ready.
     repaint: Option<egui::Context>,
-    dialogs: Box<dyn FileDialogs>,
+    chooser: Chooser,
     autosaver: Autosaver,
-    recovery_offer: Option<Recovery>,
+    /// Backups of windows that did not close normally, offered back.
+    found_backups: Vec<FoundBackup>,
     confirm: Option<Pending>,
+    /// A save waits for the answer to "the file changed on disk".
+    disk_prompt: Option<DiskPrompt>,
+    /// What to do once the project is saved (a quit or open that asked "Save changes?").
+    after_save: Option<Pending>,
     allow_close: bool,
     last_title: String,
     styled: bool,
@@ -211,39 +246,41 @@ impl AggradeApp {
     pub fn new(config: AppConfig) -> Self {
         let mut message = None;
         let mut status = String::from("Ready");
+        let mut recent = config.recent;
+        let demo_doc = || match demo::demo_file().map(|p| files::open(&p)) {
+            Some(Ok((project, _))) => Document::new(project, None),
+            _ => Document::new(demo::demo_project(), None),
+        };
         let doc = match &config.file {
             Some(path) => match files::open(path) {
                 Ok((project, warnings)) => {
                     if !warnings.is_empty() {
-                        message = Some(("Opened with warnings".to_string(), warnings.join("\n")));
+                        message = Some(Notice::about_file("Opened with warnings", warnings.join("\n"), path));
                     }
                     status = format!("Opened {}", path.display());
-                    Document::new(project, Some(path.clone()))
+                    files::push_recent(&mut recent, path);
+                    let mut doc = Document::new(project, is_project_file(path).then(|| path.clone()));
+                    doc.disk = files::DiskStamp::read(path).ok().flatten();
+                    doc
                 }
                 Err(e) => {
-                    message = Some(("Could not open the file".to_string(), e));
-                    Document::new(demo::demo_project(), None)
+                    message = Some(Notice::about_file("Could not open the file", e, path));
+                    demo_doc()
                 }
             },
-            None => match demo::demo_file().map(|p| files::open(&p)) {
-                Some(Ok((project, _))) => Document::new(project, None),
-                _ => Document::new(demo::demo_project(), None),
-            },
+            None => demo_doc(),
         };
-        let recovery_offer = match recovery::find_recovery(&config.data_dir) {
-            Some(Ok(r)) => Some(r),
-            Some(Err(e)) => {
-                message = Some(("Recovery file damaged".into(), e));
-                None
-            }
-            None => None,
-        };
+        let found_backups = recovery::find_backups(&config.data_dir);
+        let mut autosaver = Autosaver::new(&config.data_dir);
+        autosaver.follow(&doc);
+        let mut chooser = Chooser::new(config.dialogs);
+        chooser.start_dir = doc.path.as_ref().and_then(|p| p.parent()).map(Path::to_path_buf);
         AggradeApp {
             doc,
             params: RuleParams::default(),
             layout: LayoutOptions::default(),
             tab: Tab::Review,
-            recent: config.recent,
+            recent,
             message,
             status,
             views: Views::default(),
@@ -255,10 +292,12 @@ impl AggradeApp {
             cache: None,
             refreshing: None,
             repaint: None,
-            dialogs: config.dialogs,
-            autosaver: Autosaver::new(&config.data_dir),
-            recovery_offer,
+            chooser,
+            autosaver,
+            found_backups,
             confirm: None,
+            disk_prompt: None,
+            after_save: None,
             allow_close: false,
             last_title: String::new(),
             styled: false,
@@ -285,7 +324,27 @@ impl AggradeApp {
 
     /// Is a recovery offer showing?
     pub fn recovery_pending(&self) -> bool {
-        self.recovery_offer.is_some()
+        !self.found_backups.is_empty()
+    }
+
+    /// The backups offered back (one line each: the file, when, what it holds).
+    pub fn offered_backups(&self) -> Vec<String> {
+        self.found_backups.iter().map(FoundBackup::describe).collect()
+    }
+
+    /// The file chooser (tests point Aggrade's own chooser at a folder).
+    pub fn chooser_mut(&mut self) -> &mut Chooser {
+        &mut self.chooser
+    }
+
+    /// Has the window been allowed to close (the work saved or deliberately discarded)?
+    pub fn close_allowed(&self) -> bool {
+        self.allow_close
+    }
+
+    /// Is a question about the file changed on disk showing?
+    pub fn disk_prompt_pending(&self) -> bool {
+        self.disk_prompt.is_some()
     }
 
     /// Screen position of the middle of a bed's top boundary in the last frame drawn.
@@ -334,8 +393,8 @@ impl AggradeApp {
         self.canvas.scroll_to_height(height_m);
     }
 
-    /// The recovery file's path.
-    pub fn recovery_path(&self) -> &Path {
+    /// This window's backup file.
+    pub fn recovery_path(&self) -> PathBuf {
         self.autosaver.path()
     }
 
@@ -475,12 +534,12 @@ impl AggradeApp {
         match cmd {
             Command::New => self.guard(Pending::New, ctx),
             Command::Open => {
-                if let Some(p) = self.dialogs.pick_open() {
+                if let Some(p) = self.chooser.pick(PickFor::Open, FileKind::Open, "") {
                     self.guard(Pending::Open(p), ctx);
                 }
             }
             Command::ImportCsv => {
-                if let Some(p) = self.dialogs.pick_csv() {
+                if let Some(p) = self.chooser.pick(PickFor::ImportCsv, FileKind::Csv, "") {
                     self.import(&p);
                 }
             }
@@ -527,7 +586,8 @@ impl AggradeApp {
             }
             Pending::Open(p) => self.open_path(&p),
             Pending::Quit => {
-                self.autosaver.clear();
+                // Saved, or thrown away on purpose: no backup is written again on the way out.
+                self.autosaver.discard_and_stop();
                 self.allow_close = true;
                 ctx.send_viewport_cmd(egui::ViewportCommand::Close);
             }
@@ -538,6 +598,9 @@ impl AggradeApp {
     /// was computed and laid out for the old one is dropped here, and the column is fitted anew.
     fn replace_document(&mut self, doc: Document) {
         self.doc = doc;
+        if let Some(dir) = self.doc.path.as_ref().and_then(|p| p.parent()) {
+            self.chooser.start_dir = Some(dir.to_path_buf());
+        }
         self.cache = None;
         // A worker still running for the old document is forgotten; its result goes nowhere.
         self.refreshing = None;
@@ -548,16 +611,22 @@ impl AggradeApp {
     pub fn open_path(&mut self, path: &Path) {
         match files::open(path) {
             Ok((project, warnings)) => {
-                let is_project = path.extension().is_some_and(|e| e == "aggrade" || e == "json");
-                self.replace_document(Document::new(project, is_project.then(|| path.to_path_buf())));
+                let mut doc = Document::new(project, is_project_file(path).then(|| path.to_path_buf()));
+                doc.disk = files::DiskStamp::read(path).ok().flatten();
                 self.autosaver.clear();
+                self.replace_document(doc);
+                self.autosaver.follow(&self.doc);
                 files::push_recent(&mut self.recent, path);
                 self.status = format!("Opened {}", path.display());
+                if self.autosaver.file_open_elsewhere {
+                    self.status.push_str(" — it is open in another Aggrade window too; saving asks before overwriting its changes");
+                }
                 if !warnings.is_empty() {
-                    self.message = Some(("Opened with warnings".into(), warnings.join("\n")));
+                    self.message =
+                        Some(Notice::about_file("Opened with warnings", warnings.join("\n"), path));
                 }
             }
-            Err(e) => self.message = Some(("Could not open the file".into(), e)),
+            Err(e) => self.message = Some(Notice::about_file("Could not open the file", e, path)),
         }
     }
 
@@ -573,46 +642,78 @@ impl AggradeApp {
                 }
                 self.status = format!("Imported {}", path.display());
                 if !warnings.is_empty() {
-                    self.message = Some(("Imported with warnings".into(), warnings.join("\n")));
+                    self.message =
+                        Some(Notice::about_file("Imported with warnings", warnings.join("\n"), path));
                 }
             }
-            Err(e) => self.message = Some(("Could not import the file".into(), e)),
+            Err(e) => self.message = Some(Notice::about_file("Could not import the file", e, path)),
         }
     }
 
     /// Ask for a LAS file and open the attach window on it; a bad file gives the reader's message.
     pub fn pick_curve(&mut self) {
-        let Some(path) = self.dialogs.pick_las() else { return };
-        match CurveDialog::open(&path) {
-            Ok(dlg) => self.curve_dialog = Some(dlg),
-            Err(e) => self.message = Some(("Could not read the LAS file".into(), e)),
+        if let Some(path) = self.chooser.pick(PickFor::AttachLas, FileKind::Las, "") {
+            self.open_curve_dialog(&path);
         }
     }
 
-    /// Save (asking where when new or `as_new`). Returns true when written.
+    fn open_curve_dialog(&mut self, path: &Path) {
+        match CurveDialog::open(path) {
+            Ok(dlg) => self.curve_dialog = Some(dlg),
+            Err(e) => self.message = Some(Notice::about_file("Could not read the LAS file", e, path)),
+        }
+    }
+
+    /// Save (asking where when new or `as_new`). Returns true when written now; false when
+    /// nothing was written (cancelled, failed with a message, or waiting for an answer: the
+    /// in-window chooser or the question about a file changed on disk finish it later).
     pub fn save(&mut self, as_new: bool) -> bool {
-        let path = match (&self.doc.path, as_new) {
-            (Some(p), false) => Some(p.clone()),
-            _ => {
-                let name = self.doc.section().name.clone();
-                self.dialogs.pick_save(SaveKind::Project, &name)
+        if let (Some(p), false) = (self.doc.path.clone(), as_new) {
+            match files::disk_state(&p, self.doc.disk.as_ref()) {
+                DiskState::Unchanged => return self.save_to(p),
+                state => {
+                    self.disk_prompt = Some(DiskPrompt { path: p, state });
+                    return false;
+                }
             }
-        };
-        let Some(mut path) = path else { return false };
+        }
+        let name = self.doc.section().name.clone();
+        match self.chooser.pick(PickFor::SaveProject, FileKind::Save(SaveKind::Project), &name) {
+            Some(p) => self.save_to(p),
+            None => {
+                if !self.chooser.in_window_open() {
+                    // Cancelled: whatever waited for the save waits no more.
+                    self.after_save = None;
+                }
+                false
+            }
+        }
+    }
+
+    /// Write the project to `path` (an extension is added when missing). Returns true when
+    /// written; a failure is a message, and the work stays open and unsaved.
+    fn save_to(&mut self, mut path: PathBuf) -> bool {
         if path.extension().is_none() {
             path.set_extension("aggrade");
         }
         match files::save(&path, &self.doc.project) {
-            Ok(()) => {
+            Ok(stamp) => {
                 self.doc.mark_saved(path.clone());
+                self.doc.disk = Some(stamp);
                 self.autosaver.clear();
+                self.autosaver.follow(&self.doc);
+                self.chooser.start_dir = path.parent().map(Path::to_path_buf);
                 files::push_recent(&mut self.recent, &path);
                 self.status = format!("Saved {}", path.display());
                 true
             }
             Err(e) => {
-                self.message =
-                    Some(("Could not save".into(), format!("{e}\nYour work is still open and unsaved.")));
+                self.after_save = None;
+                self.message = Some(Notice::about_file(
+                    "Could not save",
+                    format!("{e}\nYour work is still open and unsaved, and kept in the window's backup."),
+                    &path,
+                ));
                 false
             }
         }
@@ -655,7 +756,8 @@ impl AggradeApp {
         self.views_ui(&ctx);
         self.dialogs_ui(&ctx);
 
-        // Autosave unsaved changes; a failure is reported, never fatal.
+        // Autosave unsaved changes into this window's own backup; a failure is reported, never fatal.
+        self.autosaver.follow(&self.doc);
         let now = ctx.input(|i| i.time);
         if let Err(e) = self.autosaver.tick(&self.doc, now) {
             self.status = format!("Autosave failed: {e}");
@@ -981,41 +1083,17 @@ impl AggradeApp {
             .duration_since(std::time::UNIX_EPOCH)
             .map(|d| d.as_secs() as i64)
             .unwrap_or(0);
-        let out = self.views.ui(ctx, &self.doc, &self.params, self.dialogs.as_mut(), now);
+        let out = self.views.ui(ctx, &self.doc, &self.params, &mut self.chooser, now);
         if let Some(s) = out.status {
             self.status = s;
         }
-        if out.error.is_some() {
-            self.message = out.error;
+        if let Some((title, text)) = out.error {
+            self.message = Some(Notice::new(title, text));
         }
     }
 
     fn dialogs_ui(&mut self, ctx: &egui::Context) {
-        if let Some(rec) = self.recovery_offer.clone() {
-            egui::Modal::new(egui::Id::unique("recovery")).show(ctx, |ui| {
-                ui.heading("Restore unsaved work?");
-                let n: usize = rec.project.sections.iter().map(|s| s.beds.len()).sum();
-                ui.label(format!(
-                    "Aggrade did not close normally last time. Unsaved work was kept ({} sections, {n} beds{}).",
-                    rec.project.sections.len(),
-                    rec.original_path.as_ref().map(|p| format!(", from {}", p.display())).unwrap_or_default()
-                ));
-                ui.horizontal(|ui| {
-                    if ui.button("Restore").on_hover_text("Open the kept work; save it to keep it").clicked() {
-                        let mut doc = Document::new(rec.project.clone(), rec.original_path.clone());
-                        doc.dirty = true;
-                        doc.revision = rec.revision + 1;
-                        self.replace_document(doc);
-                        self.recovery_offer = None;
-                        self.status = "Restored unsaved work; save to keep it".into();
-                    }
-                    if ui.button("Discard").on_hover_text("Delete the kept work").clicked() {
-                        self.autosaver.clear();
-                        self.recovery_offer = None;
-                    }
-                });
-            });
-        }
+        self.recovery_ui(ctx);
         if let Some(action) = self.confirm.clone() {
             egui::Modal::new(egui::Id::unique("confirm")).show(ctx, |ui| {
                 ui.heading("Save changes?");
@@ -1023,8 +1101,10 @@ impl AggradeApp {
                 ui.horizontal(|ui| {
                     if ui.button("Save").on_hover_text("Save, then continue").clicked() {
                         self.confirm = None;
+                        // Continues once the save is done; a failed or cancelled save stops it.
+                        self.after_save = Some(action.clone());
                         if self.save(false) {
-                            self.proceed(action.clone(), ctx);
+                            self.saved_then(ctx);
                         }
                     }
                     if ui.button("Don't save").on_hover_text("Continue and lose the changes").clicked() {
@@ -1038,16 +1118,37 @@ impl AggradeApp {
                 });
             });
         }
-        if let Some((title, text)) = self.message.clone() {
+        self.disk_prompt_ui(ctx);
+        if let Some(line) = self.chooser.ui(ctx) {
+            self.status = line;
+        }
+        self.take_picks(ctx);
+        if let Some(n) = self.message.clone() {
             egui::Modal::new(egui::Id::unique("message")).show(ctx, |ui| {
                 ui.set_max_width(560.0);
-                ui.heading(title);
+                ui.heading(&n.title);
                 egui::ScrollArea::vertical().max_height(300.0).show(ui, |ui| {
-                    ui.label(text);
+                    ui.label(&n.text);
                 });
-                if ui.button("OK").on_hover_text("Close this message").clicked() {
-                    self.message = None;
-                }
+                ui.horizontal(|ui| {
+                    if ui.button("OK").on_hover_text("Close this message").clicked() {
+                        self.message = None;
+                    }
+                    if let Some(folder) = &n.folder {
+                        if ui
+                            .button("Open folder")
+                            .on_hover_text(format!("Show {} in the file manager", folder.display()))
+                            .clicked()
+                        {
+                            if let Err(e) = open_folder(folder) {
+                                self.status = format!("Could not open {}: {e}", folder.display());
+                            }
+                        }
+                        if ui.button("Copy message").on_hover_text("Copy the whole message").clicked() {
+                            ui.ctx().copy_text(n.text.clone());
+                        }
+                    }
+                });
             });
         }
         if let Some(dlg) = self.curve_dialog.as_mut() {
@@ -1059,7 +1160,9 @@ impl AggradeApp {
                     let title = curve.title();
                     match self.doc.apply(Edit::AttachCurve { curve }) {
                         Ok(()) => self.status = format!("Attached {title} (Ctrl+Z takes it off)"),
-                        Err(e) => self.message = Some(("Could not attach the curve".into(), e.to_string())),
+                        Err(e) => {
+                            self.message = Some(Notice::new("Could not attach the curve", e.to_string()))
+                        }
                     }
                 }
             }
@@ -1069,20 +1172,216 @@ impl AggradeApp {
             self.settle();
         }
         if let (Some(dlg), Some(cache)) = (self.export.as_mut(), self.cache.as_ref()) {
-            let section = self.doc.section().clone();
-            match dlg.ui(ctx, &section, self.doc.revision, &cache.interp, self.dialogs.as_mut()) {
+            let section = self.doc.section();
+            match dlg.ui(ctx, section, self.doc.revision, &cache.interp, &mut self.chooser) {
                 super::export_dialog::Outcome::Open => {}
                 super::export_dialog::Outcome::Closed => self.export = None,
                 super::export_dialog::Outcome::Done(msg) => {
                     self.status = msg;
                     self.export = None;
                 }
-                super::export_dialog::Outcome::Failed(msg) => {
-                    self.message = Some(("Could not export".into(), msg));
+                super::export_dialog::Outcome::Failed(path, msg) => {
+                    self.message = Some(Notice::about_file("Could not export", msg, &path));
                 }
             }
         }
     }
+}
+
+impl AggradeApp {
+    /// The offer of backups left by windows that did not close normally.
+    fn recovery_ui(&mut self, ctx: &egui::Context) {
+        if self.found_backups.is_empty() {
+            return;
+        }
+        let mut restore = None;
+        let mut discard = None;
+        let mut later = false;
+        let restored_one = self.doc.dirty;
+        egui::Modal::new(egui::Id::unique("recovery")).show(ctx, |ui| {
+            ui.set_max_width(640.0);
+            ui.heading("Restore unsaved work?");
+            ui.label(
+                "Aggrade did not close normally last time, and kept the unsaved work of each window. \
+                 Nothing is lost until you discard it here.",
+            );
+            ui.add_space(6.0);
+            for (i, f) in self.found_backups.iter().enumerate() {
+                ui.horizontal(|ui| {
+                    let readable = f.content.is_ok();
+                    if ui
+                        .add_enabled(readable && !restored_one, egui::Button::new("Restore"))
+                        .on_hover_text("Open this work in this window; save it to keep it")
+                        .on_disabled_hover_text(if readable {
+                            "This window holds unsaved work already; this backup is kept and offered at the next start"
+                        } else {
+                            "The backup cannot be read"
+                        })
+                        .clicked()
+                    {
+                        restore = Some(i);
+                    }
+                    if ui.button("Discard").on_hover_text("Delete this backup (no other)").clicked() {
+                        discard = Some(i);
+                    }
+                    ui.label(f.describe());
+                });
+            }
+            ui.add_space(6.0);
+            if ui
+                .button("Decide later")
+                .on_hover_text("Keep every backup listed here; they are offered again at the next start")
+                .clicked()
+            {
+                later = true;
+            }
+        });
+        if let Some(i) = discard {
+            let f = self.found_backups.remove(i);
+            self.status = format!("Discarded the backup {}", f.describe());
+            f.discard();
+        }
+        if let Some(i) = restore {
+            let f = self.found_backups.remove(i);
+            if let Ok(rec) = &f.content {
+                let mut doc = Document::new(rec.project.clone(), rec.original_path.clone());
+                doc.dirty = true;
+                doc.revision = rec.revision + 1;
+                // Saving compares with the file as it was before the crash, if it is still there.
+                doc.disk = None;
+                self.replace_document(doc);
+                self.autosaver.adopt(f, &self.doc);
+                self.status = "Restored unsaved work; save to keep it".into();
+            }
+        }
+        if later {
+            // Their locks are released: the backups stay and are offered at the next start.
+            self.found_backups.clear();
+        }
+    }
+
+    /// The question asked before saving over a file that changed on disk, or that is gone.
+    fn disk_prompt_ui(&mut self, ctx: &egui::Context) {
+        let Some(prompt) = self.disk_prompt.clone() else { return };
+        let name = prompt.path.display().to_string();
+        let mut choice = None;
+        egui::Modal::new(egui::Id::unique("disk_prompt")).show(ctx, |ui| {
+            ui.set_max_width(560.0);
+            match prompt.state {
+                DiskState::Missing => {
+                    ui.heading("The file is gone");
+                    ui.label(format!(
+                        "{name} is no longer there: it was deleted, moved or renamed since you opened or saved it. \
+                         Your work is still here."
+                    ));
+                    ui.horizontal(|ui| {
+                        if ui.button("Save it there again").on_hover_text("Write your work at the same place").clicked() {
+                            choice = Some("overwrite");
+                        }
+                        if ui.button("Save as…").on_hover_text("Choose another place").clicked() {
+                            choice = Some("save_as");
+                        }
+                        if ui.button("Cancel").on_hover_text("Do not save now").clicked() {
+                            choice = Some("cancel");
+                        }
+                    });
+                }
+                _ => {
+                    ui.heading("The file changed on disk");
+                    let beside = files::sibling_free_path(&prompt.path);
+                    ui.label(format!(
+                        "{name} was changed since you opened or saved it: by another program, another \
+                         Aggrade window or a sync tool. Saving now would replace those changes with yours."
+                    ));
+                    ui.horizontal(|ui| {
+                        if ui
+                            .button("Keep both")
+                            .on_hover_text(format!(
+                                "Leave the changed file as it is and save yours beside it as {}",
+                                beside.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default()
+                            ))
+                            .clicked()
+                        {
+                            choice = Some("keep_both");
+                        }
+                        if ui.button("Overwrite").on_hover_text("Replace the file on disk with your version").clicked() {
+                            choice = Some("overwrite");
+                        }
+                        if ui.button("Cancel").on_hover_text("Do not save now").clicked() {
+                            choice = Some("cancel");
+                        }
+                    });
+                }
+            }
+        });
+        let Some(choice) = choice else { return };
+        self.disk_prompt = None;
+        let saved = match choice {
+            "overwrite" => self.save_to(prompt.path),
+            "keep_both" => self.save_to(files::sibling_free_path(&prompt.path)),
+            "save_as" => self.save(true),
+            _ => {
+                self.after_save = None;
+                self.status = "Not saved".into();
+                false
+            }
+        };
+        if saved {
+            self.saved_then(ctx);
+        }
+    }
+
+    /// Deliver what Aggrade's own file chooser picked to what asked for it.
+    fn take_picks(&mut self, ctx: &egui::Context) {
+        if let Some(p) = self.chooser.take(PickFor::Open) {
+            self.guard(Pending::Open(p), ctx);
+        }
+        if let Some(p) = self.chooser.take(PickFor::ImportCsv) {
+            self.import(&p);
+        }
+        if let Some(p) = self.chooser.take(PickFor::AttachLas) {
+            self.open_curve_dialog(&p);
+        }
+        if let Some(p) = self.chooser.take(PickFor::SaveProject) {
+            if self.save_to(p) {
+                self.saved_then(ctx);
+            }
+        }
+        // A save that was waited for and then cancelled in the chooser: nothing follows it.
+        if self.after_save.is_some() && !self.chooser.in_window_open() && self.disk_prompt.is_none() {
+            self.after_save = None;
+        }
+    }
+
+    /// The project was saved: carry out what waited for it (a quit, a new project, an open).
+    fn saved_then(&mut self, ctx: &egui::Context) {
+        if let Some(action) = self.after_save.take() {
+            self.proceed(action, ctx);
+        }
+    }
+}
+
+/// Is this a project file (as opposed to a bed table read into a new project)?
+fn is_project_file(path: &Path) -> bool {
+    matches!(aggrade_core::io::FileKind::of(path), Some(aggrade_core::io::FileKind::Project))
+}
+
+/// Show a folder in the system's file manager.
+fn open_folder(folder: &Path) -> std::io::Result<()> {
+    let program = if cfg!(target_os = "macos") {
+        "open"
+    } else if cfg!(target_os = "windows") {
+        "explorer"
+    } else {
+        "xdg-open"
+    };
+    std::process::Command::new(program)
+        .arg(folder)
+        .stdin(std::process::Stdio::null())
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .spawn()
+        .map(|_| ())
 }
 
 fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
@@ -1092,14 +1391,18 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
     let mut changed = false;
     egui::Grid::new("section_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
         ui.label("Name");
-        changed |= ui.text_edit_singleline(&mut name).on_hover_text("The section's name").changed();
+        let limit = aggrade_core::io::limits::MAX_STRING_CHARS;
+        fn line(text: &mut String, limit: usize) -> egui::TextEdit<'_> {
+            egui::TextEdit::singleline(text).char_limit(limit)
+        }
+        changed |= ui.add(line(&mut name, limit)).on_hover_text("The section's name").changed();
         ui.end_row();
         ui.label("Locality");
         changed |=
-            ui.text_edit_singleline(&mut locality).on_hover_text("Where the section was measured").changed();
+            ui.add(line(&mut locality, limit)).on_hover_text("Where the section was measured").changed();
         ui.end_row();
         ui.label("Logged by");
-        changed |= ui.text_edit_singleline(&mut logged_by).on_hover_text("Who measured it").changed();
+        changed |= ui.add(line(&mut logged_by, limit)).on_hover_text("Who measured it").changed();
         ui.end_row();
         ui.label("Units");
         ui.horizontal(|ui| {
@@ -1117,7 +1420,11 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
     });
     ui.label("Notes");
     changed |= ui
-        .add(egui::TextEdit::multiline(&mut notes).desired_width(f32::INFINITY))
+        .add(
+            egui::TextEdit::multiline(&mut notes)
+                .desired_width(f32::INFINITY)
+                .char_limit(aggrade_core::io::limits::MAX_STRING_CHARS),
+        )
         .on_hover_text("Notes on the section")
         .changed();
     if changed {

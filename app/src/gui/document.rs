@@ -75,6 +75,9 @@ pub struct Document {
     pub path: Option<PathBuf>,
     /// Changed since the last save or open.
     pub dirty: bool,
+    /// The file on disk as it was when last read or written here; saving compares it with the
+    /// file as it is then, so that a change made meanwhile elsewhere is not overwritten unasked.
+    pub disk: Option<super::files::DiskStamp>,
     pub selected_section: usize,
     pub selected_bed: Option<BedId>,
     /// Grows with every change to the project; caches and autosave compare it.
@@ -96,6 +99,7 @@ impl Document {
             project: Arc::new(project),
             path,
             dirty: false,
+            disk: None,
             selected_section: 0,
             selected_bed: None,
             revision: 0,

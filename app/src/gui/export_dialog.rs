@@ -1,7 +1,7 @@
 //! The export dialog: scale, paper and orientation, a preview of page 1, and writing PDF or SVG
 //! through the core's page layout and writers (the same items the screen draws).
 
-use super::files::{FileDialogs, SaveKind};
+use super::chooser::{Chooser, PickFor, SaveKind};
 use super::painter::{self, ItemIndex, MmToScreen};
 use aggrade_core::export::pdf::{write_pdf, PdfInfo};
 use aggrade_core::export::svg::write_svg;
@@ -15,7 +15,8 @@ pub enum Outcome {
     Open,
     Closed,
     Done(String),
-    Failed(String),
+    /// Writing to this path failed, for this reason.
+    Failed(std::path::PathBuf, String),
 }
 
 /// Dialog state.
@@ -63,7 +64,7 @@ impl ExportDialog {
         section: &Section,
         revision: u64,
         interp: &Interpretation,
-        dialogs: &mut dyn FileDialogs,
+        dialogs: &mut Chooser,
     ) -> Outcome {
         let mut outcome = Outcome::Open;
         let mut open = true;
@@ -146,13 +147,13 @@ impl ExportDialog {
                         ("Export PDF…", SaveKind::Pdf, "Write every page as a PDF at the chosen scale"),
                         ("Export SVG…", SaveKind::Svg, "Write page 1 as an SVG drawing"),
                     ] {
-                        if ui.button(label).on_hover_text(tip).clicked() {
-                            if let Some(path) = dialogs.pick_save(kind, &section.name) {
-                                outcome = match export_to(&path, section, interp, &self.options, now) {
-                                    Ok(msg) => Outcome::Done(msg),
-                                    Err(e) => Outcome::Failed(e),
-                                };
-                            }
+                        let clicked = ui.button(label).on_hover_text(tip).clicked();
+                        let purpose = PickFor::ExportColumn(kind);
+                        if let Some(path) = dialogs.save_path(clicked, purpose, kind, &section.name) {
+                            outcome = match export_to(&path, section, interp, &self.options, now) {
+                                Ok(msg) => Outcome::Done(msg),
+                                Err(e) => Outcome::Failed(path, e),
+                            };
                         }
                     }
                 });

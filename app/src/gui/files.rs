@@ -1,82 +1,79 @@
-//! File dialogs behind a trait (tests inject paths), reading and saving projects, recent files.
+//! Reading and saving project files, noticing a file changed on disk since, and recent files.
 
 use aggrade_core::model::Project;
 use std::path::{Path, PathBuf};
 
-/// What a save dialog is for.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum SaveKind {
-    Project,
-    Pdf,
-    Svg,
-    /// A table of numbers (CSV).
-    Csv,
+pub use super::chooser::{
+    FileDialogs, FileKind, NoSystemDialogs, Pick, SaveKind, ScriptedDialogs, SystemDialogs,
+};
+
+/// What a project file on disk looked like when the window last read or wrote it: saving
+/// compares it with the file as it is now, so that a change made meanwhile by another program
+/// (or another window, or a sync tool) is never overwritten without asking.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct DiskStamp {
+    pub len: u64,
+    /// FNV-1a of the whole content (a sync tool may keep the modification time).
+    pub hash: u64,
 }
 
-/// The file pickers the window uses.
-pub trait FileDialogs {
-    /// Pick a project or CSV to open.
-    fn pick_open(&mut self) -> Option<PathBuf>;
-    /// Pick a bed-table CSV to import.
-    fn pick_csv(&mut self) -> Option<PathBuf>;
-    /// Pick where to save.
-    fn pick_save(&mut self, kind: SaveKind, suggested_name: &str) -> Option<PathBuf>;
-    /// Pick a LAS 2.0 log file (a measured curve to attach); scripted dialogs answer as for open.
-    fn pick_las(&mut self) -> Option<PathBuf> {
-        self.pick_open()
+impl DiskStamp {
+    /// The stamp of the file as it is now; `Ok(None)` when there is no file at `path`.
+    pub fn read(path: &Path) -> std::io::Result<Option<DiskStamp>> {
+        match std::fs::read(path) {
+            Ok(bytes) => Ok(Some(DiskStamp::of_bytes(&bytes))),
+            Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(None),
+            Err(e) => Err(e),
+        }
     }
-}
 
-/// The system's file dialogs (rfd).
-#[derive(Debug, Default)]
-pub struct SystemDialogs;
-
-impl FileDialogs for SystemDialogs {
-    fn pick_open(&mut self) -> Option<PathBuf> {
-        rfd::FileDialog::new()
-            .add_filter("Aggrade project or bed table", &["aggrade", "json", "csv"])
-            .add_filter("All files", &["*"])
-            .pick_file()
-    }
-    fn pick_csv(&mut self) -> Option<PathBuf> {
-        rfd::FileDialog::new().add_filter("Bed table (CSV)", &["csv"]).pick_file()
-    }
-    fn pick_las(&mut self) -> Option<PathBuf> {
-        rfd::FileDialog::new()
-            .add_filter("LAS 2.0 log", &["las", "LAS"])
-            .add_filter("All files", &["*"])
-            .pick_file()
-    }
-    fn pick_save(&mut self, kind: SaveKind, suggested_name: &str) -> Option<PathBuf> {
-        let (name, ext) = match kind {
-            SaveKind::Project => ("Aggrade project", "aggrade"),
-            SaveKind::Pdf => ("PDF", "pdf"),
-            SaveKind::Svg => ("SVG", "svg"),
-            SaveKind::Csv => ("CSV table", "csv"),
-        };
-        rfd::FileDialog::new()
-            .add_filter(name, &[ext])
-            .set_file_name(format!("{suggested_name}.{ext}"))
-            .save_file()
+    /// The stamp of some content.
+    pub fn of_bytes(bytes: &[u8]) -> DiskStamp {
+        let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+        for b in bytes {
+            h ^= u64::from(*b);
+            h = h.wrapping_mul(0x0000_0100_0000_01b3);
+        }
+        DiskStamp { len: bytes.len() as u64, hash: h }
     }
 }
 
-/// Paths handed out in order (for tests and scripted runs).
-#[derive(Debug, Default)]
-pub struct ScriptedDialogs {
-    pub answers: std::collections::VecDeque<Option<PathBuf>>,
+/// How the file on disk stands against what the window last read or wrote.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum DiskState {
+    /// As the window left it (or never known): saving may go ahead.
+    Unchanged,
+    /// Changed since by something else.
+    Changed,
+    /// Gone: deleted, moved or renamed since.
+    Missing,
 }
 
-impl FileDialogs for ScriptedDialogs {
-    fn pick_open(&mut self) -> Option<PathBuf> {
-        self.answers.pop_front().flatten()
+/// Compare the file at `path` with the stamp taken when it was last read or written.
+pub fn disk_state(path: &Path, known: Option<&DiskStamp>) -> DiskState {
+    let Some(known) = known else { return DiskState::Unchanged };
+    match DiskStamp::read(path) {
+        Ok(None) => DiskState::Missing,
+        Ok(Some(now)) if &now != known => DiskState::Changed,
+        // Unreadable now: the save itself will say why if it fails.
+        _ => DiskState::Unchanged,
     }
-    fn pick_csv(&mut self) -> Option<PathBuf> {
-        self.answers.pop_front().flatten()
-    }
-    fn pick_save(&mut self, _kind: SaveKind, _suggested: &str) -> Option<PathBuf> {
-        self.answers.pop_front().flatten()
-    }
+}
+
+/// A path beside `path` that does not exist yet: `NAME (2).EXT`, `NAME (3).EXT` …
+pub fn sibling_free_path(path: &Path) -> PathBuf {
+    let stem = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default();
+    let ext = path.extension().map(|e| e.to_string_lossy().into_owned());
+    (2..)
+        .map(|n| {
+            let name = match &ext {
+                Some(e) => format!("{stem} ({n}).{e}"),
+                None => format!("{stem} ({n})"),
+            };
+            path.with_file_name(name)
+        })
+        .find(|p| !p.exists())
+        .unwrap_or_else(|| path.to_path_buf())
 }
 
 /// Read a project or bed table; the error is the reader's own message, ready for a dialog.
@@ -84,14 +81,14 @@ pub fn open(path: &Path) -> Result<(Project, Vec<String>), String> {
     aggrade_core::io::load(path).map(|l| (l.project, l.warnings)).map_err(|e| e.to_string())
 }
 
-/// Write a project: a temp file in the same folder, then renamed over the old one, so a failed
-/// write never leaves half a file. STAND-IN until the core's `io::save_project` lands.
-pub fn save(path: &Path, project: &Project) -> Result<(), String> {
-    let json =
-        serde_json::to_string_pretty(project).map_err(|e| format!("cannot encode the project: {e}"))?;
-    let tmp = path.with_extension("aggrade-tmp");
-    std::fs::write(&tmp, json).map_err(|e| format!("{}: cannot write: {e}", tmp.display()))?;
-    std::fs::rename(&tmp, path).map_err(|e| format!("{}: cannot write: {e}", path.display()))
+/// Write a project with the core's atomic save (temporary file, fsync, rename; the previous file
+/// kept as `NAME.bak`; a project that would not open again is refused). Returns the stamp of
+/// what is now on disk.
+pub fn save(path: &Path, project: &Project) -> Result<DiskStamp, String> {
+    aggrade_core::io::save_project(path, project).map_err(|e| e.to_string())?;
+    DiskStamp::read(path)
+        .map_err(|e| format!("{}: saved, but could not be read back: {e}", path.display()))?
+        .ok_or_else(|| format!("{}: saved, but the file is gone at once", path.display()))
 }
 
 /// Most recent first, no duplicates, at most 8.
@@ -123,9 +120,35 @@ mod tests {
         let dir = tempfile::tempdir().expect("temp dir");
         let path = dir.path().join("x.aggrade");
         let p = crate::gui::demo::demo_project();
-        save(&path, &p).expect("saved");
+        let stamp = save(&path, &p).expect("saved");
+        assert_eq!(disk_state(&path, Some(&stamp)), DiskState::Unchanged);
         let (back, warnings) = open(&path).expect("read back");
         assert_eq!(back, p);
         assert!(warnings.is_empty());
+    }
+
+    #[test]
+    fn a_file_changed_or_removed_since_is_noticed() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let path = dir.path().join("x.aggrade");
+        let stamp = save(&path, &crate::gui::demo::demo_project()).expect("saved");
+        let text = std::fs::read_to_string(&path).expect("read");
+        // Another program changes one character and keeps the length.
+        std::fs::write(&path, text.replacen("Brackenford", "Brackenforb", 1)).expect("write");
+        assert_eq!(disk_state(&path, Some(&stamp)), DiskState::Changed);
+        std::fs::remove_file(&path).expect("remove");
+        assert_eq!(disk_state(&path, Some(&stamp)), DiskState::Missing);
+        assert_eq!(disk_state(&path, None), DiskState::Unchanged, "a file never read is not compared");
+    }
+
+    #[test]
+    fn keep_both_finds_a_free_name_beside_the_file() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let path = dir.path().join("Río log.aggrade");
+        std::fs::write(&path, "x").expect("write");
+        let free = sibling_free_path(&path);
+        assert_eq!(free, dir.path().join("Río log (2).aggrade"));
+        std::fs::write(&free, "y").expect("write");
+        assert_eq!(sibling_free_path(&path), dir.path().join("Río log (3).aggrade"));
     }
 }

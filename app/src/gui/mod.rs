@@ -3,6 +3,7 @@
 pub mod actions;
 pub mod app;
 pub mod canvas;
+pub mod chooser;
 pub mod curve_dialog;
 pub mod demo;
 pub mod document;

@@ -1,18 +1,31 @@
-//! Autosave of unsaved changes to a recovery file, and restoring it on the next start.
+//! Autosave of unsaved work, one backup per window, and finding the backups of windows that did
+//! not close normally.
+//!
+//! Each window writes its unsaved work to a backup of its own in `DATA_DIR/recovery/`, named by
+//! the project's file (`file-HASH.json`) or, for a project not yet saved or a file open in two
+//! windows, by the window (`window-PID-NANOS.json`). Beside each backup a lock file is held with an
+//! operating-system lock for as long as the window lives; the system releases it when the
+//! process ends in any way, `kill -9` included. So a backup whose lock can be taken belongs to a
+//! window that is gone, and is offered back; one whose lock is held belongs to a window still
+//! open, and is left alone. Discarding one backup never touches another's.
 
 use super::document::Document;
 use aggrade_core::model::Project;
 use serde::{Deserialize, Serialize};
+use std::fs::{File, OpenOptions};
 use std::path::{Path, PathBuf};
 use std::time::Duration;
 
-/// How often unsaved changes are written to the recovery file.
+/// How often unsaved changes are written to the backup.
 pub const AUTOSAVE_INTERVAL: Duration = Duration::from_secs(3);
 
-/// Environment variable that moves the data folder (recovery file, settings); tests set it.
+/// Environment variable that moves the data folder (backups, settings); tests set it.
 pub const DATA_DIR_ENV: &str = "AGGRADE_DATA_DIR";
 
-/// The folder for the recovery file: `$AGGRADE_DATA_DIR`, else `$XDG_DATA_HOME/aggrade`, else
+/// The backup file the previous version of Aggrade wrote (one for all windows); still offered.
+const LEGACY_FILE: &str = "recovery.aggrade.json";
+
+/// The folder for Aggrade's data: `$AGGRADE_DATA_DIR`, else `$XDG_DATA_HOME/aggrade`, else
 /// `~/.local/share/aggrade`, else a folder in the system temp dir.
 pub fn data_dir() -> PathBuf {
     if let Some(d) = std::env::var_os(DATA_DIR_ENV).filter(|d| !d.is_empty()) {
@@ -27,43 +40,204 @@ pub fn data_dir() -> PathBuf {
     std::env::temp_dir().join("aggrade")
 }
 
-/// What the recovery file holds.
+/// The folder holding the backups.
+pub fn backup_dir(data_dir: &Path) -> PathBuf {
+    data_dir.join("recovery")
+}
+
+/// What a backup holds.
 #[derive(Debug, Clone, Serialize, Deserialize)]
 pub struct Recovery {
     /// The file the unsaved project belongs to, if it had one.
     pub original_path: Option<PathBuf>,
     /// The document's revision when written (lets a watcher see the newest edits are in).
     pub revision: u64,
+    /// When it was written, seconds since 1970 (absent in backups of older versions).
+    #[serde(default)]
+    pub saved_at_secs: i64,
     pub project: Project,
 }
 
-/// Writes the recovery file when the document has changed and the interval has passed.
+/// A stable key for a project file: FNV-1a of its absolute path (the same in every process).
+pub fn file_key(path: &Path) -> String {
+    let abs = std::fs::canonicalize(path).unwrap_or_else(|_| {
+        if path.is_absolute() {
+            path.to_path_buf()
+        } else {
+            std::env::current_dir().map(|d| d.join(path)).unwrap_or_else(|_| path.to_path_buf())
+        }
+    });
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    for b in abs.as_os_str().as_encoded_bytes() {
+        h ^= u64::from(*b);
+        h = h.wrapping_mul(0x0000_0100_0000_01b3);
+    }
+    format!("file-{h:016x}")
+}
+
+/// A key no other window has: the process id and the time the window started.
+fn window_key() -> String {
+    let nanos =
+        std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_nanos()).unwrap_or(0);
+    static COUNTER: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(0);
+    let n = COUNTER.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+    format!("window-{}-{nanos}-{n}", std::process::id())
+}
+
+fn now_secs() -> i64 {
+    std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.as_secs() as i64)
+        .unwrap_or(0)
+}
+
+/// A held lock on one backup key; released when dropped or when the process ends.
+#[derive(Debug)]
+struct KeyLock {
+    key: String,
+    /// Holds the operating-system lock while open.
+    _file: File,
+}
+
+/// Take the lock of `key` in `dir` if no living window holds it.
+fn try_lock(dir: &Path, key: &str) -> std::io::Result<Option<KeyLock>> {
+    std::fs::create_dir_all(dir)?;
+    let file =
+        OpenOptions::new().create(true).truncate(false).write(true).open(dir.join(format!("{key}.lock")))?;
+    match file.try_lock() {
+        Ok(()) => Ok(Some(KeyLock { key: key.to_string(), _file: file })),
+        Err(std::fs::TryLockError::WouldBlock) => Ok(None),
+        Err(std::fs::TryLockError::Error(e)) => Err(e),
+    }
+}
+
+fn json_path(dir: &Path, key: &str) -> PathBuf {
+    dir.join(format!("{key}.json"))
+}
+
+/// Writes one window's unsaved work to its own backup when the document changed and the
+/// interval has passed.
 #[derive(Debug)]
 pub struct Autosaver {
-    path: PathBuf,
+    dir: PathBuf,
+    lock: Option<KeyLock>,
+    /// The file the backup is keyed by (`None`: keyed by the window).
+    keyed_file: Option<PathBuf>,
+    /// The document's file is open in another window: this window's backup is keyed by the
+    /// window instead, and saving checks the file on disk first (it always does).
+    pub file_open_elsewhere: bool,
     last_written_revision: Option<u64>,
     last_write_secs: f64,
+    /// Autosave is off: the work was deliberately discarded and the window is closing.
+    stopped: bool,
 }
 
 impl Autosaver {
-    /// An autosaver writing into `dir`.
-    pub fn new(dir: &Path) -> Self {
+    /// An autosaver writing into `DATA_DIR/recovery`, keyed by this window until the document
+    /// has a file.
+    pub fn new(data_dir: &Path) -> Self {
+        let dir = backup_dir(data_dir);
+        let lock = Self::lock_window_key(&dir);
         Autosaver {
-            path: dir.join("recovery.aggrade.json"),
+            dir,
+            lock,
+            keyed_file: None,
+            file_open_elsewhere: false,
             last_written_revision: None,
             last_write_secs: f64::MIN,
+            stopped: false,
         }
     }
 
-    /// Where the recovery file lives.
-    pub fn path(&self) -> &Path {
-        &self.path
+    fn lock_window_key(dir: &Path) -> Option<KeyLock> {
+        // A fresh key is free unless something is badly wrong with the folder; then the next
+        // write reports the error.
+        (0..4).find_map(|_| try_lock(dir, &window_key()).ok().flatten())
+    }
+
+    /// Where this window's backup lives.
+    pub fn path(&self) -> PathBuf {
+        let key = self.lock.as_ref().map(|l| l.key.as_str()).unwrap_or("unlocked");
+        json_path(&self.dir, key)
+    }
+
+    /// Key the backup by the document's file (call when the document's path may have changed:
+    /// open, save as, restore). If another window holds that file's key, the file is open
+    /// there too: the backup stays keyed by this window and [`Autosaver::file_open_elsewhere`]
+    /// says so. Any backup already written moves to the new key.
+    pub fn follow(&mut self, doc: &Document) {
+        if self.keyed_file == doc.path && self.lock.is_some() {
+            return;
+        }
+        let old_json = self.lock.as_ref().map(|_| self.path());
+        let new_lock = match &doc.path {
+            Some(p) => match try_lock(&self.dir, &file_key(p)) {
+                Ok(Some(l)) => {
+                    self.file_open_elsewhere = false;
+                    Some(l)
+                }
+                _ => {
+                    self.file_open_elsewhere = true;
+                    None
+                }
+            },
+            None => {
+                self.file_open_elsewhere = false;
+                None
+            }
+        };
+        self.keyed_file = doc.path.clone();
+        match new_lock {
+            Some(l) => self.switch_to(l, old_json),
+            // Keyed by the window: keep the window's own key if it has one.
+            None if self.lock.as_ref().is_some_and(|l| l.key.starts_with("window-")) => {}
+            None => {
+                if let Some(l) = Self::lock_window_key(&self.dir) {
+                    self.switch_to(l, old_json);
+                }
+            }
+        }
+        // Write under the new key at the next tick.
+        self.last_written_revision = None;
+        self.last_write_secs = f64::MIN;
+    }
+
+    fn switch_to(&mut self, lock: KeyLock, old_json: Option<PathBuf>) {
+        let old = self.lock.replace(lock);
+        if let Some(old_json) = old_json {
+            let new_json = self.path();
+            if old_json != new_json && old_json.exists() {
+                let _ = std::fs::rename(&old_json, &new_json);
+            }
+        }
+        if let Some(old) = old {
+            let _ = std::fs::remove_file(self.dir.join(format!("{}.lock", old.key)));
+        }
+    }
+
+    /// Take over a backup left by a window that is gone (its lock is already held): this
+    /// window's own backup, if any, goes, and the adopted one is written over from now on.
+    pub fn adopt(&mut self, found: FoundBackup, doc: &Document) {
+        let mine = self.lock.take();
+        if let Some(mine) = mine {
+            let _ = std::fs::remove_file(json_path(&self.dir, &mine.key));
+            let _ = std::fs::remove_file(self.dir.join(format!("{}.lock", mine.key)));
+        }
+        if let Some(legacy) = found.legacy_path {
+            // The older single backup file: rewritten under this window's key at the next tick.
+            let _ = std::fs::remove_file(legacy);
+            self.lock = Self::lock_window_key(&self.dir);
+        } else {
+            self.lock = Some(found.lock);
+        }
+        self.keyed_file = None;
+        self.follow(doc);
     }
 
     /// Call every frame with the current time in seconds: writes when due. Returns an error
     /// message when the write failed (the work stays in memory).
     pub fn tick(&mut self, doc: &Document, now_secs: f64) -> Result<bool, String> {
-        if !doc.dirty {
+        if self.stopped || !doc.dirty {
             return Ok(false);
         }
         if self.last_written_revision == Some(doc.revision) {
@@ -77,7 +251,7 @@ impl Autosaver {
         Ok(true)
     }
 
-    /// Write the recovery file at once (atomically: temp file, then rename).
+    /// Write the backup at once (atomically: temp file, then rename).
     pub fn write_now(&mut self, doc: &Document) -> Result<(), String> {
         // Written from the document itself (no copy of the project): the same fields as
         // [`Recovery`], which reads it back.
@@ -85,36 +259,184 @@ impl Autosaver {
         struct RecoveryOut<'a> {
             original_path: &'a Option<PathBuf>,
             revision: u64,
+            saved_at_secs: i64,
             project: &'a Project,
         }
-        let rec = RecoveryOut { original_path: &doc.path, revision: doc.revision, project: &doc.project };
-        let json = serde_json::to_vec(&rec).map_err(|e| format!("cannot encode the recovery file: {e}"))?;
-        if let Some(dir) = self.path.parent() {
-            std::fs::create_dir_all(dir).map_err(|e| format!("cannot create {}: {e}", dir.display()))?;
+        if self.lock.is_none() {
+            self.lock = Self::lock_window_key(&self.dir);
         }
-        let tmp = self.path.with_extension("tmp");
-        std::fs::write(&tmp, json).map_err(|e| format!("cannot write {}: {e}", tmp.display()))?;
-        std::fs::rename(&tmp, &self.path)
-            .map_err(|e| format!("cannot write {}: {e}", self.path.display()))?;
+        if self.lock.is_none() {
+            return Err(format!("cannot take a lock in {}", self.dir.display()));
+        }
+        let rec = RecoveryOut {
+            original_path: &doc.path,
+            revision: doc.revision,
+            saved_at_secs: now_secs(),
+            project: &doc.project,
+        };
+        let json = serde_json::to_vec(&rec).map_err(|e| format!("cannot encode the backup: {e}"))?;
+        std::fs::create_dir_all(&self.dir)
+            .map_err(|e| format!("cannot create {}: {e}", self.dir.display()))?;
+        let path = self.path();
+        aggrade_core::io::write_bytes_atomic(&path, &json).map_err(|e| e.to_string())?;
+        // The atomic writer keeps the previous version as NAME.bak; a backup needs no backup.
+        let _ = std::fs::remove_file(aggrade_core::io::backup_path(&path));
         self.last_written_revision = Some(doc.revision);
         Ok(())
     }
 
-    /// The work is safe (saved or deliberately discarded): remove the recovery file.
+    /// The work is safe (saved or deliberately discarded): remove this window's backup.
     pub fn clear(&mut self) {
-        let _ = std::fs::remove_file(&self.path);
+        let _ = std::fs::remove_file(self.path());
         self.last_written_revision = None;
+    }
+
+    /// The work was deliberately discarded and the window closes: remove the backup and write
+    /// no more.
+    pub fn discard_and_stop(&mut self) {
+        self.clear();
+        self.stopped = true;
     }
 }
 
-/// Read a recovery file left by a session that did not end cleanly.
-pub fn find_recovery(dir: &Path) -> Option<Result<Recovery, String>> {
-    let path = dir.join("recovery.aggrade.json");
-    let bytes = std::fs::read(&path).ok()?;
-    Some(
-        serde_json::from_slice::<Recovery>(&bytes)
-            .map_err(|e| format!("{}: the recovery file is damaged ({e})", path.display())),
-    )
+impl Drop for Autosaver {
+    /// A window closing normally leaves no lock file behind (its backup, if any, stays).
+    fn drop(&mut self) {
+        if let Some(l) = &self.lock {
+            if !json_path(&self.dir, &l.key).exists() {
+                let _ = std::fs::remove_file(self.dir.join(format!("{}.lock", l.key)));
+            }
+        }
+    }
+}
+
+/// A backup left by a window that is gone. Its lock is held while it is offered, so no other
+/// window offers it at the same time.
+#[derive(Debug)]
+pub struct FoundBackup {
+    lock: KeyLock,
+    /// The older single backup file, when this is it.
+    legacy_path: Option<PathBuf>,
+    /// The backup's file.
+    pub path: PathBuf,
+    /// What it holds, or why it cannot be read.
+    pub content: Result<Recovery, String>,
+    /// When it was written, seconds since 1970 (from the backup, else the file's time).
+    pub saved_at_secs: i64,
+}
+
+impl FoundBackup {
+    /// Delete this backup (and its lock file); no other backup is touched.
+    pub fn discard(self) {
+        let _ = std::fs::remove_file(&self.path);
+        let _ = std::fs::remove_file(aggrade_core::io::backup_path(&self.path));
+        if self.legacy_path.is_none() {
+            let _ = std::fs::remove_file(self.path.with_extension("lock"));
+        }
+    }
+
+    /// A line describing it: the file it belongs to, when it was written, what it holds.
+    pub fn describe(&self) -> String {
+        let when = describe_time(self.saved_at_secs);
+        match &self.content {
+            Ok(r) => {
+                let beds: usize = r.project.sections.iter().map(|s| s.beds.len()).sum();
+                let n = r.project.sections.len();
+                let of = match &r.original_path {
+                    Some(p) => format!("{}", p.display()),
+                    None => "a project never saved".to_string(),
+                };
+                format!(
+                    "{of} — kept {when} — {n} section{}, {beds} bed{}",
+                    if n == 1 { "" } else { "s" },
+                    if beds == 1 { "" } else { "s" }
+                )
+            }
+            Err(e) => format!("{} — kept {when} — damaged: {e}", self.path.display()),
+        }
+    }
+}
+
+/// "2026-12-02 14:05 UTC".
+pub fn describe_time(secs: i64) -> String {
+    if secs <= 0 {
+        return "at an unknown time".into();
+    }
+    let date = aggrade_core::export::civil_date(secs);
+    let day_secs = secs.rem_euclid(86_400);
+    format!("{date} {:02}:{:02} UTC", day_secs / 3600, (day_secs % 3600) / 60)
+}
+
+/// The backups of windows that are gone, oldest first, each locked for this window while it
+/// is offered. Backups of windows still open are not listed; unreadable ones are, with why.
+pub fn find_backups(data_dir: &Path) -> Vec<FoundBackup> {
+    let dir = backup_dir(data_dir);
+    let mut found = Vec::new();
+    let mut names: Vec<PathBuf> = std::fs::read_dir(&dir)
+        .into_iter()
+        .flatten()
+        .flatten()
+        .map(|e| e.path())
+        .filter(|p| p.extension().is_some_and(|e| e == "json"))
+        .collect();
+    names.sort();
+    for path in names {
+        let Some(key) = path.file_stem().and_then(|s| s.to_str()).map(str::to_string) else { continue };
+        let Ok(Some(lock)) = try_lock(&dir, &key) else { continue };
+        found.push(read_found(path, lock, None));
+    }
+    // The single backup of the previous version, guarded by a lock of its own.
+    let legacy = data_dir.join(LEGACY_FILE);
+    if legacy.is_file() {
+        if let Ok(Some(lock)) = try_lock(&dir, "legacy") {
+            found.push(read_found(legacy.clone(), lock, Some(legacy)));
+        }
+    }
+    found.sort_by_key(|f| f.saved_at_secs);
+    found
+}
+
+fn read_found(path: PathBuf, lock: KeyLock, legacy_path: Option<PathBuf>) -> FoundBackup {
+    let content = std::fs::read(&path).map_err(|e| format!("cannot read it: {e}")).and_then(|b| {
+        serde_json::from_slice::<Recovery>(&b).map_err(|e| format!("the backup is damaged ({e})"))
+    });
+    let file_secs = std::fs::metadata(&path)
+        .and_then(|m| m.modified())
+        .ok()
+        .and_then(|t| t.duration_since(std::time::UNIX_EPOCH).ok())
+        .map(|d| d.as_secs() as i64)
+        .unwrap_or(0);
+    let saved_at_secs =
+        content.as_ref().ok().map(|r| r.saved_at_secs).filter(|s| *s > 0).unwrap_or(file_secs);
+    FoundBackup { lock, legacy_path, path, content, saved_at_secs }
+}
+
+/// Every backup in the data folder, whether its window is open or gone, without locking any
+/// (for tests and diagnostics: what is on disk right now).
+pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, String>)> {
+    let mut paths: Vec<PathBuf> = std::fs::read_dir(backup_dir(data_dir))
+        .into_iter()
+        .flatten()
+        .flatten()
+        .map(|e| e.path())
+        .filter(|p| p.extension().is_some_and(|e| e == "json"))
+        .collect();
+    paths.sort();
+    paths
+        .into_iter()
+        .map(|p| {
+            let r = std::fs::read(&p)
+                .map_err(|e| e.to_string())
+                .and_then(|b| serde_json::from_slice::<Recovery>(&b).map_err(|e| e.to_string()));
+            (p, r)
+        })
+        .collect()
+}
+
+/// The first backup left by a window that is gone (for tests and scripts); its lock is
+/// released again at once.
+pub fn find_recovery(data_dir: &Path) -> Option<Result<Recovery, String>> {
+    find_backups(data_dir).into_iter().next().map(|f| f.content)
 }
 
 #[cfg(test)]
@@ -123,12 +445,16 @@ mod tests {
     use crate::gui::document::Edit;
     use aggrade_core::model::{Bed, BedId, Lithology, Section};
 
+    fn doc() -> Document {
+        let mut s = Section::new("A");
+        s.beds.push(Bed::new(BedId(1), 1.0, Lithology::Coal, None));
+        Document::new(Project::new(vec![s]), None)
+    }
+
     #[test]
     fn writes_only_when_dirty_changed_and_due() {
         let dir = tempfile::tempdir().expect("temp dir");
-        let mut s = Section::new("A");
-        s.beds.push(Bed::new(BedId(1), 1.0, Lithology::Coal, None));
-        let mut doc = Document::new(Project::new(vec![s]), None);
+        let mut doc = doc();
         let mut a = Autosaver::new(dir.path());
         assert_eq!(a.tick(&doc, 0.0), Ok(false), "clean document written");
         doc.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 2.5 }).expect("valid");
@@ -137,18 +463,97 @@ mod tests {
         doc.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 3.5 }).expect("valid");
         assert_eq!(a.tick(&doc, 11.0), Ok(false), "written before the interval");
         assert_eq!(a.tick(&doc, 13.5), Ok(true));
-        let rec = find_recovery(dir.path()).expect("file").expect("readable");
-        assert_eq!(rec.project.sections[0].beds[0].thickness_m, 3.5);
-        assert_eq!(rec.revision, doc.revision);
+        // Our own window holds the lock: another window finds nothing to offer.
+        assert!(find_backups(dir.path()).is_empty(), "a living window's backup was offered");
+        let written: Recovery =
+            serde_json::from_slice(&std::fs::read(a.path()).expect("backup")).expect("readable");
+        assert_eq!(written.project.sections[0].beds[0].thickness_m, 3.5);
+        assert_eq!(written.revision, doc.revision);
         a.clear();
-        assert!(find_recovery(dir.path()).is_none());
+        assert!(!a.path().exists());
     }
 
     #[test]
-    fn damaged_recovery_file_is_reported_not_panicked() {
+    fn a_backup_is_offered_once_its_window_is_gone_and_discarding_it_spares_the_others() {
         let dir = tempfile::tempdir().expect("temp dir");
-        std::fs::write(dir.path().join("recovery.aggrade.json"), b"{\"project\": 12").expect("write");
+        let mut d1 = doc();
+        d1.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 2.0 }).expect("valid");
+        let mut d2 = doc();
+        d2.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 7.0 }).expect("valid");
+        let mut a1 = Autosaver::new(dir.path());
+        let mut a2 = Autosaver::new(dir.path());
+        a1.write_now(&d1).expect("written");
+        a2.write_now(&d2).expect("written");
+        assert_ne!(a1.path(), a2.path(), "two windows share a backup");
+        // Window 1 goes away without cleaning up (its lock is released, its backup stays).
+        drop(a1.lock.take());
+        drop(a1);
+        let found = find_backups(dir.path());
+        assert_eq!(found.len(), 1, "only the gone window's backup is offered");
+        let t = found[0].content.as_ref().expect("readable").project.sections[0].beds[0].thickness_m;
+        assert_eq!(t, 2.0);
+        for f in found {
+            f.discard();
+        }
+        // Window 2's backup is untouched.
+        assert!(a2.path().exists());
+        let back: Recovery = serde_json::from_slice(&std::fs::read(a2.path()).expect("kept")).expect("json");
+        assert_eq!(back.project.sections[0].beds[0].thickness_m, 7.0);
+    }
+
+    #[test]
+    fn a_file_open_in_two_windows_gets_two_backups() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let file = dir.path().join("log.aggrade");
+        let mut d = doc();
+        d.path = Some(file.clone());
+        let mut a1 = Autosaver::new(dir.path());
+        let mut a2 = Autosaver::new(dir.path());
+        a1.follow(&d);
+        a2.follow(&d);
+        assert!(!a1.file_open_elsewhere);
+        assert!(a2.file_open_elsewhere, "the second window is told the file is open elsewhere");
+        assert_ne!(a1.path(), a2.path());
+        assert!(a1.path().to_string_lossy().contains("file-"));
+    }
+
+    #[test]
+    fn discard_and_stop_writes_no_more() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let mut d = doc();
+        d.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 2.0 }).expect("valid");
+        let mut a = Autosaver::new(dir.path());
+        a.write_now(&d).expect("written");
+        a.discard_and_stop();
+        assert!(!a.path().exists());
+        assert_eq!(a.tick(&d, 1e9), Ok(false), "a discarded document was written again");
+        assert!(!a.path().exists());
+    }
+
+    #[test]
+    fn damaged_backup_is_reported_not_panicked() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        std::fs::create_dir_all(backup_dir(dir.path())).expect("dir");
+        std::fs::write(backup_dir(dir.path()).join("window-1-2-3.json"), b"{\"project\": 12").expect("write");
         let err = find_recovery(dir.path()).expect("present").expect_err("damaged");
         assert!(err.contains("damaged"), "{err}");
+    }
+
+    #[test]
+    fn the_older_single_backup_is_still_offered() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let d = doc();
+        let old = serde_json::json!({"original_path": null, "revision": 4, "project": &*d.project});
+        std::fs::write(dir.path().join(LEGACY_FILE), old.to_string()).expect("write");
+        let found = find_backups(dir.path());
+        assert_eq!(found.len(), 1);
+        assert!(found[0].describe().contains("never saved"), "{}", found[0].describe());
+    }
+
+    #[test]
+    fn times_read_as_a_person_writes_them() {
+        assert_eq!(describe_time(0), "at an unknown time");
+        // 2026-12-02 14:05:00 UTC = 1796220300 (days from 1970 × 86400 + 14 h 5 min).
+        assert_eq!(describe_time(1_796_220_300), "2026-12-02 14:05 UTC");
     }
 }

@@ -1,7 +1,7 @@
 //! Channel-body statistics view: every body of every section, the thickness summary with
 //! P10/P50/P90, proportions, decompacted thicknesses for a burial depth, and CSV export.
 
-use super::files::SaveKind;
+use super::chooser::{PickFor, SaveKind};
 use super::theme;
 use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
 use aggrade_core::analysis::bodies::{
@@ -246,13 +246,15 @@ impl BodiesView {
                     "Channel-body proportion of each interval of every section",
                 ),
             ] {
-                if ui.button(label).on_hover_text(tip).clicked() {
-                    let name = match which {
-                        BodiesCsv::Bodies => "channel-bodies",
-                        BodiesCsv::ProportionCurve => "proportion-curve",
-                        BodiesCsv::IntervalProportions => "interval-proportions",
-                    };
-                    if let Some(path) = v.dialogs.pick_save(SaveKind::Csv, name) {
+                let clicked = ui.button(label).on_hover_text(tip).clicked();
+                let name = match which {
+                    BodiesCsv::Bodies => "channel-bodies",
+                    BodiesCsv::ProportionCurve => "proportion-curve",
+                    BodiesCsv::IntervalProportions => "interval-proportions",
+                };
+                {
+                    if let Some(path) = v.dialogs.save_path(clicked, PickFor::View(name), SaveKind::Csv, name)
+                    {
                         match export_csv(&path, which, &r.rows, v.interps) {
                             Ok(msg) => out.status = Some(msg),
                             Err(e) => out.error = Some(("Could not write the CSV".into(), e)),

@@ -1,9 +1,9 @@
 //! What the comparison and statistics views share: the set of view windows opened from the View
 //! menu, one interpretation of every section per document revision, and number formatting.
 
+use super::chooser::Chooser;
 use super::document::Document;
 use super::engine::{interpret, RuleParams};
-use super::files::FileDialogs;
 use super::views_bodies::BodiesView;
 use super::views_panel::PanelView;
 use super::views_stats::StatsView;
@@ -52,7 +52,8 @@ pub struct ViewCtx<'a> {
     pub generation: u64,
     /// The document's file name, for suggested export names and printed subtitles.
     pub doc_name: String,
-    pub dialogs: &'a mut dyn FileDialogs,
+    /// Asks for files: the system dialog, or Aggrade's own chooser a frame or more later.
+    pub dialogs: &'a mut Chooser,
     /// Seconds since 1970 (the PDF creation date).
     pub now_secs: i64,
 }
@@ -103,7 +104,7 @@ impl Views {
         ctx: &egui::Context,
         doc: &Document,
         params: &RuleParams,
-        dialogs: &mut dyn FileDialogs,
+        dialogs: &mut Chooser,
         now_secs: i64,
     ) -> ViewsOutcome {
         let mut out = ViewsOutcome::default();

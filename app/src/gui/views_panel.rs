@@ -2,7 +2,7 @@
 //! drawn by the same painter as the column (so screen and print agree), with zoom and pan, a
 //! datum picker, tie lines, proportions and export to PDF or SVG.
 
-use super::files::SaveKind;
+use super::chooser::{PickFor, SaveKind};
 use super::painter::{self, ItemIndex, MmToScreen};
 use super::theme;
 use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
@@ -311,11 +311,20 @@ impl PanelView {
                 ("Export panel PDF…", SaveKind::Pdf, "Write the panel as a one-page PDF, as drawn here"),
                 ("Export panel SVG…", SaveKind::Svg, "Write the panel as an SVG drawing, as drawn here"),
             ] {
-                if ui.add_enabled(layout.is_some(), egui::Button::new(label)).on_hover_text(tip).clicked() {
-                    if let (Some(l), Some(path)) = (layout, v.dialogs.pick_save(kind, "correlation-panel")) {
-                        match export_panel(&path, l, &c.title, v.now_secs) {
+                let clicked =
+                    ui.add_enabled(layout.is_some(), egui::Button::new(label)).on_hover_text(tip).clicked();
+                let purpose = PickFor::View(if kind == SaveKind::Pdf { "panel-pdf" } else { "panel-svg" });
+                if let Some(path) = v.dialogs.save_path(clicked, purpose, kind, "correlation-panel") {
+                    match layout {
+                        Some(l) => match export_panel(&path, l, &c.title, v.now_secs) {
                             Ok(msg) => out.status = Some(msg),
                             Err(e) => out.error = Some(("Could not export the panel".into(), e)),
+                        },
+                        None => {
+                            out.error = Some((
+                                "Could not export the panel".into(),
+                                "the panel has nothing to draw yet".into(),
+                            ))
                         }
                     }
                 }
