@@ -366,6 +366,19 @@ fn save_save_as_export_and_quit_save_work_with_no_system_file_dialog() {
     assert!(bytes.starts_with(b"%PDF"), "not a PDF");
     assert!(h.state().status.contains("Exported"), "{}", h.state().status);
 
+    // A view's export too: the channel-body table's CSV.
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::B);
+    h.run();
+    h.get_by_label("Export bodies CSV…").click();
+    h.run();
+    h.get_by_label("Save here").click();
+    h.run();
+    let csv = std::fs::read_to_string(work.join("channel-bodies.csv")).expect("CSV written");
+    assert!(csv.lines().count() >= 1, "empty CSV");
+    assert!(h.state().status.contains("channel-bodies.csv"), "{}", h.state().status);
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::B);
+    h.run();
+
     // Quit ▸ Save on a new project: saved through the chooser, then the window closes.
     fresh_work(&mut h, "Quit test");
     request_close(&mut h);
