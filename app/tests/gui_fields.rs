@@ -30,7 +30,8 @@ fn field_value(h: &Harness<'static, AggradeApp>, label: &str) -> Option<String> 
 }
 
 fn shown_containing(h: &Harness<'static, AggradeApp>, part: &str) -> bool {
-    h.query_by(|n| n.label().is_some_and(|l| l.contains(part)) || n.value().is_some_and(|v| v.contains(part)))
+    h.query_all_by(|n| n.label().is_some_and(|l| l.contains(part)) || n.value().is_some_and(|v| v.contains(part)))
+        .next()
         .is_some()
 }
 
