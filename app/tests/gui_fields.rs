@@ -30,9 +30,11 @@ fn field_value(h: &Harness<'static, AggradeApp>, label: &str) -> Option<String> 
 }
 
 fn shown_containing(h: &Harness<'static, AggradeApp>, part: &str) -> bool {
-    h.query_all_by(|n| n.label().is_some_and(|l| l.contains(part)) || n.value().is_some_and(|v| v.contains(part)))
-        .next()
-        .is_some()
+    h.query_all_by(|n| {
+        n.label().is_some_and(|l| l.contains(part)) || n.value().is_some_and(|v| v.contains(part))
+    })
+    .next()
+    .is_some()
 }
 
 fn paleocurrents(h: &Harness<'static, AggradeApp>, id: BedId) -> Vec<f64> {
@@ -49,6 +51,15 @@ fn paleocurrents(h: &Harness<'static, AggradeApp>, id: BedId) -> Vec<f64> {
 
 fn select(h: &mut Harness<'static, AggradeApp>, id: BedId) {
     h.state_mut().doc.selected_bed = Some(id);
+    h.run();
+}
+
+/// Type into the focused field, then press a key (Enter, Tab) and let the window settle.
+fn type_then(h: &mut Harness<'static, AggradeApp>, text: &str, key: Key) {
+    h.get_by(|n| n.is_focused()).type_text(text);
+    h.run();
+    h.key_press(key);
+    h.run();
     h.run();
 }
 
@@ -99,12 +110,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     h.run();
     h.key_press_modifiers(Modifiers::COMMAND, Key::A);
     h.run();
-    h.get_by(|n| n.is_focused()).type_text("240 225");
-    h.run();
-    assert_eq!(paleocurrents(&h, bed), Vec::<f64>::new(), "stored before Enter");
-    h.key_press(Key::Enter);
-    h.run();
-    h.run();
+    type_then(&mut h, "240 225", Key::Enter);
     assert_eq!(paleocurrents(&h, bed), vec![240.0, 225.0]);
     assert!(!shown_containing(&h, "is not an azimuth"), "the mark went with the fix");
     assert_eq!(field_value(&h, FIELD).as_deref(), Some("240; 225"), "shown in its stored form");
@@ -130,19 +136,11 @@ fn a_thickness_typed_in_the_inspector_is_stored_on_enter_and_a_bad_one_is_refuse
     };
     field(&mut h);
     // 1,200 m is more than one bed can be (the project file refuses it): kept, marked, not stored.
-    h.get_by(|n| n.is_focused()).type_text("1200");
-    h.run();
-    h.key_press(Key::Tab);
-    h.run();
-    h.run();
+    type_then(&mut h, "1200", Key::Tab);
     assert_eq!(h.state().doc.section().beds[0].thickness_m, t0);
     assert!(shown_containing(&h, "Thickness: thickness \"1200\" is not a number greater than 0"));
     field(&mut h);
-    h.get_by(|n| n.is_focused()).type_text("40cm");
-    h.run();
-    h.key_press(Key::Enter);
-    h.run();
-    h.run();
+    type_then(&mut h, "40cm", Key::Enter);
     assert_eq!(h.state().doc.section().beds[0].thickness_m, 0.4);
     assert!(!shown_containing(&h, "is not a number greater than 0"));
 }

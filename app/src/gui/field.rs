@@ -23,25 +23,29 @@ pub struct FieldText {
     loaded: String,
     /// Why the text does not parse (the field is framed in red and this is shown under it).
     pub problem: Option<String>,
+    /// A value was read: show the stored value in its own form on the next frame, even when
+    /// it is the value that was there (a list typed with other separators).
+    refill: bool,
 }
 
 impl FieldText {
     /// A field showing a stored value.
     pub fn new(stored: &str) -> Self {
-        FieldText { text: stored.to_string(), loaded: stored.to_string(), problem: None }
+        FieldText { text: stored.to_string(), loaded: stored.to_string(), problem: None, refill: false }
     }
 
     /// A field holding a typed text that has not been stored (a draft kept for later).
     pub fn typed(stored: &str, text: &str, problem: Option<String>) -> Self {
-        FieldText { text: text.to_string(), loaded: stored.to_string(), problem }
+        FieldText { text: text.to_string(), loaded: stored.to_string(), problem, refill: false }
     }
 
     /// Follow the stored value while the field is neither being edited nor holding a text that
     /// does not parse (that text is the geologist's and is never replaced behind their back).
     pub fn sync(&mut self, stored: &str, editing: bool) {
-        if !editing && self.problem.is_none() && self.loaded != stored {
+        if !editing && self.problem.is_none() && (self.refill || self.loaded != stored) {
             self.text = stored.to_string();
             self.loaded = stored.to_string();
+            self.refill = false;
         }
     }
 
@@ -61,6 +65,7 @@ impl FieldText {
         match parse(&self.text) {
             Ok(v) => {
                 self.problem = None;
+                self.refill = true;
                 Some(v)
             }
             Err(why) => {
@@ -191,6 +196,11 @@ mod tests {
         assert_eq!(f.text, "240; 225");
         assert!(!f.is_uncommitted());
         assert_eq!(f.commit(azimuths), None, "an untouched field stores nothing");
+        // The same value typed another way: read, then shown in the stored form again.
+        f.text = "240,225".into();
+        assert_eq!(f.commit(|t| azimuths(&t.replace(',', " "))), Some(vec![240.0, 225.0]));
+        f.sync("240; 225", false);
+        assert_eq!(f.text, "240; 225");
     }
 
     #[test]
