@@ -372,6 +372,7 @@ impl Inspector {
                 let lab = ui.label(Typed::Thickness.label()).id;
                 committed |= cx.show(ui, lab, Typed::Thickness, &mut fields, &mut bed, FieldLook { hint: &format!("e.g. 1.25 ({})", unit.name()), tip: "Bed thickness in the section's unit; add cm, m or ft to type another unit. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
                 ui.end_row();
+                problem_row(ui, &fields, Typed::Thickness);
 
                 let label = ui.label("Lithology").id;
                 let mut lith = bed.lithology;
@@ -389,11 +390,17 @@ impl Inspector {
                     }
                 }
                 ui.end_row();
+                if let Some(p) = &self.problem {
+                    ui.label("");
+                    problem_label(ui, p);
+                    ui.end_row();
+                }
 
                 for f in [Typed::GrainBase, Typed::GrainTop] {
                     let lab = ui.label(f.label()).id;
                     committed |= cx.show(ui, lab, f, &mut fields, &mut bed, FieldLook { hint: "e.g. m, fine sand, 0.3mm", tip: "Wentworth class (or first letters), or a measured size in mm or phi; empty for none. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
                     ui.end_row();
+                    problem_row(ui, &fields, f);
                 }
 
                 let label = ui.label("Basal contact").id;
@@ -412,6 +419,7 @@ impl Inspector {
                     }
                 });
                 ui.end_row();
+                problem_row(ui, &fields, Typed::Relief);
 
                 let label = ui.label("Paleosol").id;
                 combo(ui, label, "paleosol", &mut bed.paleosol, PaleosolDevelopment::ALL, |p| p.name(), "Degree of paleosol development");
@@ -440,6 +448,7 @@ impl Inspector {
                 let lab = ui.label(Typed::Paleocurrents.label()).id;
                 committed |= cx.show(ui, lab, Typed::Paleocurrents, &mut fields, &mut bed, FieldLook { hint: "e.g. 120; 135; 140", tip: "Azimuths 0–360°, separated by ; or spaces. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
                 ui.end_row();
+                problem_row(ui, &fields, Typed::Paleocurrents);
 
                 ui.label("Fossils");
                 if ui.add(egui::TextEdit::singleline(&mut bed.fossils).desired_width(170.0).char_limit(MAX_STRING_CHARS)).on_hover_text("Body and trace fossils").changed() {
@@ -450,16 +459,9 @@ impl Inspector {
                 let lab = ui.label(Typed::Samples.label()).id;
                 committed |= cx.show(ui, lab, Typed::Samples, &mut fields, &mut bed, FieldLook { hint: "e.g. CW-12; CW-13", tip: "Sample numbers, separated by ;. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
                 ui.end_row();
+                problem_row(ui, &fields, Typed::Samples);
             });
 
-            for t in &fields.texts {
-                if let Some(p) = &t.problem {
-                    problem_label(ui, p);
-                }
-            }
-            if let Some(p) = &self.problem {
-                ui.colored_label(theme::WARN, p);
-            }
 
             ui.add_space(4.0);
             egui::CollapsingHeader::new("Structures").default_open(true).show(ui, |ui| {
@@ -503,6 +505,9 @@ impl Inspector {
                         let lab = ui.label("Name").id;
                         committed |= cx.show(ui, lab, Typed::SurfaceName, &mut fields, &mut bed, FieldLook { hint: "e.g. SB-2", tip: "The surface's name, e.g. SB-2. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
                     });
+                    if let Some(p) = &fields.texts[Typed::SurfaceName as usize].problem {
+                        problem_label(ui, p);
+                    }
                 }
                 if let Some(s) = bed.base_surface.as_mut() {
                     ui.horizontal(|ui| {
@@ -580,6 +585,15 @@ impl FieldCtx<'_> {
             }
             None => false,
         }
+    }
+}
+
+/// The problem of a committed field, on a grid row of its own right under the field.
+fn problem_row(ui: &mut egui::Ui, fields: &BedFields, f: Typed) {
+    if let Some(p) = &fields.texts[f as usize].problem {
+        ui.label("");
+        problem_label(ui, p);
+        ui.end_row();
     }
 }
 
