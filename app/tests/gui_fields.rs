@@ -37,6 +37,13 @@ fn shown_containing(h: &Harness<'static, AggradeApp>, part: &str) -> bool {
     .is_some()
 }
 
+/// Whether a field is framed in the colour of a text that does not read.
+fn framed_invalid(h: &Harness<'static, AggradeApp>) -> bool {
+    h.output().shapes.iter().any(|c| {
+        matches!(&c.shape, egui::Shape::Rect(r) if r.stroke.color == aggrade::gui::field::INVALID && r.stroke.width > 0.0)
+    })
+}
+
 fn paleocurrents(h: &Harness<'static, AggradeApp>, id: BedId) -> Vec<f64> {
     h.state()
         .doc
@@ -92,6 +99,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     assert_eq!(h.state().doc.revision, revision, "nothing was applied");
     assert_eq!(field_value(&h, FIELD).as_deref(), Some("240 425"), "the typed text stays");
     assert!(shown_containing(&h, "\"425\" is not an azimuth from 0 to 360°"), "the field's problem is shown");
+    assert!(framed_invalid(&h), "the field is framed in red");
 
     // Another bed selected: the typed text is kept for its bed with a warning, not dropped.
     select(&mut h, other);
@@ -113,6 +121,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     type_then(&mut h, "240 225", Key::Enter);
     assert_eq!(paleocurrents(&h, bed), vec![240.0, 225.0]);
     assert!(!shown_containing(&h, "is not an azimuth"), "the mark went with the fix");
+    assert!(!framed_invalid(&h), "no field is framed in red any more");
     assert_eq!(field_value(&h, FIELD).as_deref(), Some("240; 225"), "shown in its stored form");
     h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
     h.run();
