@@ -24,6 +24,14 @@ fn harness(data_dir: &Path) -> Harness<'static, AggradeApp> {
         .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
 }
 
+/// The window on the demo project with the bed inspector showing.
+fn inspector(data_dir: &Path) -> Harness<'static, AggradeApp> {
+    let mut h = harness(data_dir);
+    h.run();
+    h.state_mut().tab = Tab::Inspector;
+    h
+}
+
 /// The inspector's text field labelled `label`, if shown.
 fn field_value(h: &Harness<'static, AggradeApp>, label: &str) -> Option<String> {
     h.query_by(|n| n.role() == Role::TextInput && n.label().as_deref() == Some(label)).and_then(|n| n.value())
@@ -75,9 +83,7 @@ const FIELD: &str = "Paleocurrents (°)";
 #[test]
 fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_stored_whole() {
     let data = tempfile::tempdir().expect("temp dir");
-    let mut h = harness(data.path());
-    h.run();
-    h.state_mut().tab = Tab::Inspector;
+    let mut h = inspector(data.path());
     let beds = h.state().doc.section().beds.clone();
     let bed = beds.iter().find(|b| b.paleocurrents_deg.is_empty()).expect("a bed without paleocurrents").id;
     let other = beds.iter().find(|b| b.id != bed).expect("another bed").id;
@@ -131,9 +137,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
 #[test]
 fn a_thickness_typed_in_the_inspector_is_stored_on_enter_and_a_bad_one_is_refused_with_its_field_named() {
     let data = tempfile::tempdir().expect("temp dir");
-    let mut h = harness(data.path());
-    h.run();
-    h.state_mut().tab = Tab::Inspector;
+    let mut h = inspector(data.path());
     let bed = h.state().doc.section().beds[0].id;
     select(&mut h, bed);
     let t0 = h.state().doc.section().beds[0].thickness_m;
