@@ -47,15 +47,16 @@ impl CurveDialog {
         &self.las.warnings
     }
 
+    /// The offset as typed, read whole.
+    fn offset_m(&self) -> Result<f64, String> {
+        self.offset_text.trim().parse::<f64>().ok().filter(|v| v.is_finite()).ok_or_else(|| {
+            format!("Offset (m): {:?} is not a number of metres (e.g. 0, 12.5, -3)", self.offset_text)
+        })
+    }
+
     /// The curve as it would be attached, or why not.
     pub fn curve(&self) -> Result<MeasuredCurve, String> {
-        let zero_m = self
-            .offset_text
-            .trim()
-            .parse::<f64>()
-            .ok()
-            .filter(|v| v.is_finite())
-            .ok_or_else(|| format!("offset {:?} is not a number of metres", self.offset_text))?;
+        let zero_m = self.offset_m()?;
         let direction =
             if self.depth_down { IndexDirection::DepthBelowDatum } else { IndexDirection::HeightAboveDatum };
         self.las
@@ -126,9 +127,16 @@ impl CurveDialog {
                         }
                     });
                     ui.end_row();
-                    ui.label("Offset (m)");
-                    ui.text_edit_singleline(&mut self.offset_text)
+                    let lab = ui.label("Offset (m)").id;
+                    let r = ui
+                        .add(egui::TextEdit::singleline(&mut self.offset_text).char_limit(64))
+                        .labelled_by(lab)
                         .on_hover_text("The LAS index value that lies at the section's base");
+                    // Read whole when Attach is pressed; until then a text that is no number is
+                    // kept as typed, framed, and its problem shown below (Attach is disabled).
+                    if self.offset_m().is_err() {
+                        super::field::mark_invalid(ui, r.rect);
+                    }
                     ui.end_row();
                 });
                 let preview = self.curve();

@@ -150,6 +150,7 @@ impl Document {
         // replaces becomes the undo snapshot (one copy of the project per edit, not two).
         let mut work = self.clone_state();
         work.run(edit)?;
+        work.check_saveable(&self.project)?;
         let before = Snapshot {
             project: std::mem::replace(&mut self.project, Arc::new(work.project)),
             selected_section: self.selected_section,
@@ -276,6 +277,20 @@ impl Work {
 
     fn index_of(&mut self, id: BedId) -> Result<usize, EditError> {
         self.section().bed_index(id).ok_or_else(|| EditError(format!("bed {} no longer exists", id.0)))
+    }
+
+    /// Refuse an edit that leaves a project the project file's checks refuse (it would save but
+    /// never open again); problems the project had before the edit do not block it.
+    fn check_saveable(&self, before: &Project) -> Result<(), EditError> {
+        let after = aggrade_core::io::validate_project(&self.project);
+        if after.is_empty() {
+            return Ok(());
+        }
+        let was = aggrade_core::io::validate_project(before);
+        match after.into_iter().find(|p| !was.contains(p)) {
+            Some(p) => Err(EditError(format!("the project would not open again: {p}"))),
+            None => Ok(()),
+        }
     }
 
     fn run(&mut self, edit: Edit) -> Result<(), EditError> {

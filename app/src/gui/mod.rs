@@ -9,6 +9,7 @@ pub mod demo;
 pub mod document;
 pub mod engine;
 pub mod export_dialog;
+pub mod field;
 pub mod files;
 pub mod inspector;
 pub mod painter;

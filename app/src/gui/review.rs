@@ -4,6 +4,7 @@
 use super::actions::{gesture_key, Actions};
 use super::document::{Document, Edit};
 use super::engine::RuleParams;
+use super::field::{committed_field_in_memory, problem_label, FieldLook};
 use super::table::show_length;
 use super::theme;
 use aggrade_core::model::{PaleosolDevelopment, Project, ReviewState};
@@ -33,11 +34,22 @@ pub fn link_labels(project: &Project) -> Vec<String> {
     v
 }
 
+/// A correlation label as typed: trimmed; blank for none; else checked as the project file checks it.
+pub fn read_link(text: &str) -> Result<Option<String>, String> {
+    let label = text.trim();
+    if label.is_empty() {
+        return Ok(None);
+    }
+    aggrade_core::io::check_link_label(label).map_err(|why| format!("Link: {why}"))?;
+    Ok(Some(label.to_string()))
+}
+
 /// Hint shown in the empty correlation-label field.
 pub const LINK_HINT: &str = "correlation label, e.g. SB-2";
 
-/// The correlation label of an accepted boundary: a text field (one undo step per typing run)
-/// and a list of the labels already used in the project.
+/// The correlation label of an accepted boundary: a committed field (stored as one undo step
+/// when the typing ends, trimmed; blank takes the label off) and a list of the labels already
+/// used in the project.
 fn link_ui(
     ui: &mut egui::Ui,
     c: &aggrade_core::rules::BoundaryCandidate,
@@ -47,32 +59,21 @@ fn link_ui(
 ) {
     ui.horizontal(|ui| {
         let lab = ui.label("Link").id;
-        let mut label = current.to_string();
-        let r = ui
-            .add(
-                egui::TextEdit::singleline(&mut label)
-                    .hint_text(LINK_HINT)
-                    .desired_width(140.0)
-                    // Longer labels are refused by the file checks: stop the typing rather than
-                    // apply the keystrokes up to the limit and refuse the next.
-                    .char_limit(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS),
-            )
-            .labelled_by(lab)
-            .on_hover_text(
-                "Accepted boundaries with the same label in neighbouring sections are tied on the correlation panel",
-            );
-        if r.changed() {
-            out.edit_in(Edit::SetLink { bed: c.bed_id, link: Some(label.clone()) }, gesture_key(("link", c.bed_id.0)));
+        let look = FieldLook {
+            hint: LINK_HINT,
+            tip: "Accepted boundaries with the same label in neighbouring sections are tied on the correlation panel. Stored when you press Enter or leave the field",
+            width: 140.0,
+            // Longer labels are refused by the file checks: the field stops the typing there.
+            char_limit: aggrade_core::io::limits::MAX_LINK_LABEL_CHARS,
+        };
+        let (r, value, problem) =
+            committed_field_in_memory(ui, egui::Id::unique(("link", c.bed_id.0)), current, look, read_link);
+        r.labelled_by(lab);
+        if let Some(link) = value {
+            out.edit(Edit::SetLink { bed: c.bed_id, link });
         }
-        if r.lost_focus() {
-            // Spaces typed at either end go when the field is left, in the same undo step.
-            if label.trim() != label {
-                out.edit_in(
-                    Edit::SetLink { bed: c.bed_id, link: Some(label.trim().to_string()) },
-                    gesture_key(("link", c.bed_id.0)),
-                );
-            }
-            out.end_gesture = true;
+        if let Some(p) = problem {
+            problem_label(ui, &p);
         }
         let others: Vec<&String> = used.iter().filter(|l| l.as_str() != current.trim()).collect();
         if !others.is_empty() {
@@ -200,6 +201,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                     .add(
                         egui::TextEdit::singleline(&mut note)
                             .hint_text("note on this boundary")
+                            .char_limit(aggrade_core::io::limits::MAX_STRING_CHARS)
                             .desired_width(f32::INFINITY),
                     )
                     .on_hover_text("Your reasoning; saved with the project");
@@ -247,7 +249,36 @@ fn paleosol_term(text: &str) -> Option<PaleosolDevelopment> {
     serde_json::from_value(serde_json::Value::String(text.to_string())).ok()
 }
 
-/// Edit any parameter struct field by field through its serde form: numbers as drag values,
+/// A rule parameter typed as text: a whole number from 0 to 100 for counts, else a number; the
+/// parameters with it must pass [`RuleParams::problems`] for that field.
+pub fn read_param(
+    params: &RuleParams,
+    name: &str,
+    text: &str,
+    count: bool,
+) -> Result<serde_json::Value, String> {
+    let t = text.trim();
+    let v = if count {
+        match t.parse::<u64>() {
+            Ok(v) if v <= 100 => serde_json::Value::Number(v.into()),
+            _ => return Err(format!("{name}: {t:?} is not a whole number from 0 to 100")),
+        }
+    } else {
+        match t.replace(',', ".").parse::<f64>().ok().and_then(serde_json::Number::from_f64) {
+            Some(n) => serde_json::Value::Number(n),
+            None => return Err(format!("{name}: {t:?} is not a number")),
+        }
+    };
+    let mut map = serde_json::to_value(params).map_err(|e| format!("{name}: {e}"))?;
+    map[name] = v.clone();
+    let candidate: RuleParams = serde_json::from_value(map).map_err(|e| format!("{name}: {e}"))?;
+    match candidate.problems().into_iter().find(|p| p.starts_with(&format!("{name}:"))) {
+        Some(p) => Err(p),
+        None => Ok(v),
+    }
+}
+
+/// Edit any parameter struct field by field through its serde form: numbers as committed fields,
 /// switches as check boxes. Returns true when something changed.
 pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
     let Ok(serde_json::Value::Object(mut map)) = serde_json::to_value(&*params) else {
@@ -255,45 +286,34 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
         return false;
     };
     let mut changed = false;
+    let before = params.clone();
     egui::Grid::new("rule_params").num_columns(2).spacing([10.0, 4.0]).show(ui, |ui| {
         for (name, value) in map.iter_mut() {
             let label = name.replace('_', " ");
             match value {
-                serde_json::Value::Number(n) if n.is_u64() => {
-                    let mut v = n.as_u64().unwrap_or(0);
-                    ui.label(label);
-                    let r = ui
-                        .add(
-                            egui::DragValue::new(&mut v)
-                                .speed(0.1)
-                                .range(0..=100)
-                                .clamp_existing_to_range(false),
-                        )
-                        .on_hover_text(format!("Rule parameter `{name}`"));
-                    if r.changed() {
-                        *value = serde_json::Value::Number(v.into());
+                serde_json::Value::Number(n) => {
+                    let lab = ui.label(label).id;
+                    let stored = n.to_string();
+                    let tip = format!(
+                        "Rule parameter `{name}`; the rules run again when you press Enter or leave the field"
+                    );
+                    let look = FieldLook { hint: "", tip: &tip, width: 90.0, char_limit: 40 };
+                    let count = n.is_u64();
+                    let id = egui::Id::unique(("rule_param", name.as_str()));
+                    let (r, v, problem) = committed_field_in_memory(ui, id, &stored, look, |text| {
+                        read_param(&before, name, text, count)
+                    });
+                    r.labelled_by(lab);
+                    if let Some(v) = v {
+                        *value = v;
                         changed = true;
                     }
                     ui.end_row();
-                }
-                serde_json::Value::Number(n) => {
-                    let mut v = n.as_f64().unwrap_or(0.0);
-                    ui.label(label);
-                    let r = ui
-                        .add(
-                            egui::DragValue::new(&mut v)
-                                .speed(0.01)
-                                .range(0.0..=f64::MAX)
-                                .clamp_existing_to_range(false),
-                        )
-                        .on_hover_text(format!("Rule parameter `{name}`"));
-                    if r.changed() {
-                        if let Some(num) = serde_json::Number::from_f64(v) {
-                            *value = serde_json::Value::Number(num);
-                            changed = true;
-                        }
+                    if let Some(p) = problem {
+                        ui.label("");
+                        problem_label(ui, &p);
+                        ui.end_row();
                     }
-                    ui.end_row();
                 }
                 serde_json::Value::String(text) if paleosol_term(text).is_some() => {
                     ui.label(label);
@@ -338,4 +358,34 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
         changed = true;
     }
     changed
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_link_is_read_whole_trimmed_and_checked_as_the_file_checks_it() {
+        assert_eq!(read_link("  SB-2 "), Ok(Some("SB-2".to_string())));
+        assert_eq!(read_link("   "), Ok(None), "blank takes the label off");
+        let e = read_link("SB\u{7}").expect_err("control character");
+        assert!(e.starts_with("Link: must not hold control characters"), "{e}");
+        let long = "é".repeat(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS + 1);
+        assert!(read_link(&long).is_err(), "41 characters (82 bytes)");
+        let at_limit = "é".repeat(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS);
+        assert_eq!(read_link(&at_limit), Ok(Some(at_limit.clone())), "the limit counts characters");
+    }
+
+    #[test]
+    fn a_rule_parameter_is_read_whole_and_checked_by_the_rules_own_checks() {
+        let p = RuleParams::default();
+        assert_eq!(read_param(&p, "window_m", " 12,5 ", false), Ok(serde_json::json!(12.5)));
+        let e = read_param(&p, "window_m", "0", false).expect_err("a window of 0 m");
+        assert!(e.starts_with("window_m: got 0"), "{e}");
+        assert!(read_param(&p, "window_m", "1 2", false).is_err(), "half a number is not read");
+        assert!(read_param(&p, "low_min_proportion", "1.5", false).is_err(), "a fraction above 1");
+        assert_eq!(read_param(&p, "grain_jump_min_classes", "3", true), Ok(serde_json::json!(3)));
+        assert!(read_param(&p, "grain_jump_min_classes", "3.5", true).is_err());
+        assert!(read_param(&p, "grain_jump_min_classes", "101", true).is_err());
+    }
 }

@@ -3,8 +3,19 @@
 
 use super::actions::Actions;
 use super::document::{Document, Edit};
+use super::field::{mark_invalid, problem_label};
 use super::theme;
+use aggrade_core::io::limits::MAX_STRING_CHARS;
+use aggrade_core::io::validate::MAX_BED_THICKNESS_M;
 use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+
+/// The fields of the entry row.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum EntryField {
+    Thickness,
+    Lithology,
+    Grain,
+}
 
 /// Text typed into the entry row.
 #[derive(Debug, Default)]
@@ -15,6 +26,8 @@ pub struct BedTable {
     focus_thickness: bool,
     /// Last problem with the entry row, shown under it.
     pub problem: Option<String>,
+    /// The entry field the problem is in (framed in red until the row is added).
+    problem_field: Option<EntryField>,
     /// The selection the table last showed: a selection made elsewhere (canvas, review list)
     /// scrolls the table to its row.
     last_selected: Option<BedId>,
@@ -59,8 +72,9 @@ pub fn grain_from_prefix(text: &str) -> Option<GrainSize> {
     WentworthClass::ALL.iter().copied().find(|c| c.name().starts_with(&t)).map(GrainSize::Class)
 }
 
-/// Parse a thickness typed in the section's unit (a trailing m, cm or ft overrides it).
-pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
+/// A length typed in the section's unit (a trailing m, cm or ft overrides it), in metres; `None`
+/// when the text is not a finite number.
+pub fn parse_length(text: &str, unit: LengthUnit) -> Option<f64> {
     let t = text.trim().replace(',', ".");
     let (num, unit) = if let Some(n) = t.strip_suffix("cm") {
         (n, LengthUnit::Centimetre)
@@ -71,9 +85,17 @@ pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
     } else {
         (t.as_str(), unit)
     };
-    match num.trim().parse::<f64>() {
-        Ok(v) if v.is_finite() && v > 0.0 => Ok(unit.to_metres(v)),
-        _ => Err(format!("thickness {text:?} is not a number greater than 0 (e.g. 1.25, 40cm, 3ft)")),
+    num.trim().parse::<f64>().ok().filter(|v| v.is_finite()).map(|v| unit.to_metres(v))
+}
+
+/// Parse a thickness typed in the section's unit (a trailing m, cm or ft overrides it): greater
+/// than 0 and at most the core's largest bed thickness.
+pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
+    match parse_length(text, unit) {
+        Some(v) if v > 0.0 && v <= MAX_BED_THICKNESS_M => Ok(v),
+        _ => Err(format!(
+            "thickness {text:?} is not a number greater than 0 and at most {MAX_BED_THICKNESS_M} m (e.g. 1.25, 40cm, 3ft)"
+        )),
     }
 }
 
@@ -102,6 +124,7 @@ impl BedTable {
             let r = ui.add(
                 egui::TextEdit::singleline(&mut self.thickness)
                     .id_salt("entry_thickness")
+                    .char_limit(MAX_STRING_CHARS)
                     .hint_text(format!("thickness ({})", unit.name()))
                     .desired_width(w * 0.31),
             );
@@ -110,26 +133,31 @@ impl BedTable {
                 r.request_focus();
                 self.focus_thickness = false;
             }
+            self.mark(ui, &r, EntryField::Thickness);
             enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
             let r = ui
                 .add(
                     egui::TextEdit::singleline(&mut self.lithology)
                         .id_salt("entry_lithology")
+                        .char_limit(MAX_STRING_CHARS)
                         .hint_text("lithology")
                         .desired_width(w * 0.27),
                 )
                 .on_hover_text(
                     "First letters of a lithology: sa = sandstone, mu = mudstone, co = conglomerate…",
                 );
+            self.mark(ui, &r, EntryField::Lithology);
             enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
             let r = ui
                 .add(
                     egui::TextEdit::singleline(&mut self.grain)
                         .id_salt("entry_grain")
+                        .char_limit(MAX_STRING_CHARS)
                         .hint_text("grain")
                         .desired_width(w * 0.18),
                 )
                 .on_hover_text("Grain size: vf, f, m, c, vc, si, cl, gr, pb…, a class name, or 0.3mm / 2phi");
+            self.mark(ui, &r, EntryField::Grain);
             enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
             if ui.button("Add").on_hover_text("Add this bed above the selected bed (Enter)").clicked() {
                 enter = true;
@@ -148,45 +176,73 @@ impl BedTable {
             self.commit(doc, out);
         }
         if let Some(p) = &self.problem {
-            ui.colored_label(theme::WARN, p);
+            problem_label(ui, p);
         }
         ui.separator();
         self.table(ui, doc, out);
     }
 
-    fn commit(&mut self, doc: &Document, out: &mut Actions) {
-        let unit = doc.section().display_unit;
-        let thickness = match parse_thickness(&self.thickness, unit) {
-            Ok(t) => t,
-            Err(e) => {
-                self.problem = Some(e);
-                return;
-            }
-        };
+    /// Frame an entry field in red while the row's problem is in it.
+    fn mark(&self, ui: &egui::Ui, r: &egui::Response, field: EntryField) {
+        if self.problem.is_some() && self.problem_field == Some(field) {
+            mark_invalid(ui, r.rect);
+        }
+    }
+
+    /// Read the whole row: the new bed, or the field at fault and why (naming it and what is
+    /// valid). The typed text stays in the row until a bed is added.
+    fn read_row(&self, unit: LengthUnit) -> Result<Bed, (EntryField, String)> {
+        let thickness = parse_thickness(&self.thickness, unit).map_err(|e| (EntryField::Thickness, e))?;
         let Some(lith) = lithology_from_prefix(&self.lithology) else {
-            self.problem = Some(format!(
-                "lithology {:?} is not known; valid: {}",
-                self.lithology,
-                Lithology::ALL.map(|l| l.name()).join(", ")
+            return Err((
+                EntryField::Lithology,
+                format!(
+                    "lithology {:?} is not known; valid: {}",
+                    self.lithology,
+                    Lithology::ALL.map(|l| l.name()).join(", ")
+                ),
             ));
-            return;
         };
         let grain = if lith == Lithology::Covered { None } else { grain_from_prefix(&self.grain) };
         if grain.is_none() && !self.grain.trim().is_empty() && lith != Lithology::Covered {
-            self.problem =
-                Some(format!("grain size {:?} is not known (try vf, f, m, c, 0.3mm, 2phi)", self.grain));
-            return;
+            return Err((
+                EntryField::Grain,
+                format!("grain size {:?} is not known (try vf, f, m, c, 0.3mm, 2phi)", self.grain),
+            ));
         }
+        let bed = Bed::new(BedId(0), thickness, lith, grain);
+        // The checks a saved file passes (a sandstone needs a grain size, phi within range…).
+        let mut s = aggrade_core::model::Section::new("entry row");
+        s.beds.push(bed.clone());
+        if let Some(p) = aggrade_core::io::validate_section(&s).first() {
+            let field = if p.location.contains("grain") { EntryField::Grain } else { EntryField::Thickness };
+            let what = p.location.strip_prefix("beds[0].").unwrap_or(&p.location).replace('_', " ");
+            return Err((field, format!("{what}: {}", p.message)));
+        }
+        Ok(bed)
+    }
+
+    fn commit(&mut self, doc: &Document, out: &mut Actions) {
+        let unit = doc.section().display_unit;
+        let bed = match self.read_row(unit) {
+            Ok(b) => b,
+            Err((field, why)) => {
+                self.problem = Some(why);
+                self.problem_field = Some(field);
+                return;
+            }
+        };
         let index = doc
             .selected_bed
             .and_then(|id| doc.bed_index(id))
             .map(|i| i + 1)
             .unwrap_or(doc.section().beds.len());
-        out.edit(Edit::InsertBed { index, bed: Bed::new(BedId(0), thickness, lith, grain) });
+        out.edit(Edit::InsertBed { index, bed });
         self.thickness.clear();
         self.lithology.clear();
         self.grain.clear();
         self.problem = None;
+        self.problem_field = None;
         self.focus_thickness = true;
     }
 
@@ -318,6 +374,27 @@ mod tests {
         assert_eq!(follow_offset(12, &(10..30), 24.0), None);
         assert_eq!(follow_offset(100, &(10..30), 24.0), Some(97.0 * 24.0));
         assert_eq!(follow_offset(1, &(10..30), 24.0), Some(0.0));
+    }
+
+    #[test]
+    fn the_entry_row_names_the_field_at_fault() {
+        let row = |t: &str, l: &str, g: &str| BedTable {
+            thickness: t.into(),
+            lithology: l.into(),
+            grain: g.into(),
+            ..BedTable::default()
+        };
+        let unit = LengthUnit::Metre;
+        assert_eq!(row("1.5", "sa", "m").read_row(unit).map(|b| b.thickness_m), Ok(1.5));
+        assert_eq!(row("x", "sa", "m").read_row(unit).map_err(|e| e.0), Err(EntryField::Thickness));
+        assert_eq!(row("1", "zz", "m").read_row(unit).map_err(|e| e.0), Err(EntryField::Lithology));
+        assert_eq!(row("1", "sa", "zz").read_row(unit).map_err(|e| e.0), Err(EntryField::Grain));
+        // The file's checks: a sandstone needs a grain size; no bed is over 1,000 m.
+        let (field, why) = row("1", "sa", "").read_row(unit).expect_err("grain required");
+        assert_eq!(field, EntryField::Grain, "{why}");
+        assert!(why.starts_with("grain base: required for sandstone"), "{why}");
+        assert_eq!(row("1001", "mu", "cl").read_row(unit).map_err(|e| e.0), Err(EntryField::Thickness));
+        assert!(row("2", "cov", "").read_row(unit).is_ok(), "a covered interval takes no grain size");
     }
 
     #[test]
