@@ -570,7 +570,7 @@ impl AggradeApp {
     }
 
     fn guard(&mut self, action: Pending, ctx: &egui::Context) {
-        if self.doc.dirty {
+        if self.doc.dirty || self.inspector.has_unstored_text() {
             self.confirm = Some(action);
         } else {
             self.proceed(action, ctx);
@@ -768,7 +768,7 @@ impl AggradeApp {
 
         // Closing with unsaved changes asks first.
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close {
-            if self.doc.dirty {
+            if self.doc.dirty || self.inspector.has_unstored_text() {
                 ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
                 self.confirm = Some(Pending::Quit);
             } else {
@@ -1097,7 +1097,18 @@ impl AggradeApp {
         if let Some(action) = self.confirm.clone() {
             egui::Modal::new(egui::Id::unique("confirm")).show(ctx, |ui| {
                 ui.heading("Save changes?");
-                ui.label(format!("{} has unsaved changes.", self.doc.display_name()));
+                if self.doc.dirty {
+                    ui.label(format!("{} has unsaved changes.", self.doc.display_name()));
+                }
+                if self.inspector.has_unstored_text() {
+                    ui.label(
+                        egui::RichText::new(
+                            "Some values typed in the Bed tab do not read and were not stored; \
+                             Cancel and fix them there to keep them.",
+                        )
+                        .color(theme::WARN),
+                    );
+                }
                 ui.horizontal(|ui| {
                     if ui.button("Save").on_hover_text("Save, then continue").clicked() {
                         self.confirm = None;
@@ -1292,6 +1303,10 @@ impl AggradeApp {
                     ui.label(format!(
                         "{name} was changed since you opened or saved it: by another program, another \
                          Aggrade window or a sync tool. Saving now would replace those changes with yours."
+                    ));
+                    ui.label(format!(
+                        "Keep both leaves it as it is and saves yours beside it as {}.",
+                        beside.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default()
                     ));
                     ui.horizontal(|ui| {
                         if ui
