@@ -328,8 +328,14 @@ fn assert_beds_equal(want: &Section, got: &Section) -> Result<(), TestCaseError>
     Ok(())
 }
 
+/// 64 cases, or `PROPTEST_CASES` for a long run (an explicit `cases` in the config would
+/// otherwise override the variable).
+fn cases() -> u32 {
+    std::env::var("PROPTEST_CASES").ok().and_then(|v| v.parse().ok()).unwrap_or(64)
+}
+
 proptest! {
-    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+    #![proptest_config(ProptestConfig { cases: cases(), ..ProptestConfig::default() })]
 
     #[test]
     fn any_unicode_in_every_text_field_saves_and_reopens_equal(project in project()) {

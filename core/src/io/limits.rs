@@ -44,3 +44,10 @@ pub const MAX_JSON_DEPTH: usize = 16;
 
 /// Most problems listed in one error (the count of the rest is still given).
 pub const MAX_PROBLEMS_LISTED: usize = 200;
+
+/// Largest thickness (or erosional relief) accepted for one bed, metres. No single bed of a
+/// measured section approaches a kilometre; larger values are typing or unit mistakes.
+pub const MAX_BED_THICKNESS_M: f64 = 1_000.0;
+
+/// Largest panel position accepted, metres (|x| ≤ 10,000 km).
+pub const MAX_PANEL_POSITION_M: f64 = 1.0e7;
