@@ -273,3 +273,28 @@ fn convert_refuses_bad_input_without_writing() {
     assert!(!out.status.success());
     assert!(text(&out.stderr).contains("same file"));
 }
+
+#[test]
+fn a_csv_with_6000_e_acute_in_a_note_converts_to_a_project_that_checks() {
+    // 6,000 characters (12,000 bytes of UTF-8) is within the 10,000-character limit; the written
+    // project was refused by `aggrade check` when its pre-scan counted bytes.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let input = dir.path().join("notes.csv");
+    let note = "é".repeat(6_000);
+    std::fs::write(&input, format!("thickness_m,lithology,grain,notes\n1.5,mudstone,silt,{note}\n"))
+        .expect("write");
+    let project = dir.path().join("notes.aggrade");
+    let out = run(&["convert", input.to_str().expect("p"), project.to_str().expect("p")]);
+    assert!(out.status.success(), "{}", text(&out.stderr));
+    let out = run(&["check", project.to_str().expect("p")]);
+    assert_no_panic(&out);
+    assert!(out.status.success(), "{}", text(&out.stderr));
+    // And back to a bed table, which checks too and keeps the note.
+    let back = dir.path().join("back.csv");
+    let out = run(&["convert", project.to_str().expect("p"), back.to_str().expect("p")]);
+    assert!(out.status.success(), "{}", text(&out.stderr));
+    let out = run(&["check", back.to_str().expect("p")]);
+    assert!(out.status.success(), "{}", text(&out.stderr));
+    let loaded = aggrade_core::io::load(&back).expect("loads");
+    assert_eq!(loaded.project.sections[0].beds[0].notes, note);
+}

@@ -26,8 +26,13 @@
 //!
 //! Text cells starting with `=`, `+`, `-`, `@`, tab or carriage return are written with a leading
 //! `'` so that spreadsheets do not run them as formulas (OWASP "CSV Injection" guidance); the
-//! reader removes that `'` again.
+//! reader removes that `'` again. Text whose own `'`s come before such a character (`'=x`) gets
+//! one more, so it reads back with them.
+//!
+//! Every text value is limited to [`MAX_STRING_CHARS`] characters (as it is kept: trimmed and
+//! unescaped; each sample on its own), the same limit in the same unit as the project file.
 
+use super::csv_rows::{Record, Records};
 use super::limits::{MAX_BEDS_PER_SECTION, MAX_STRING_CHARS};
 use super::migrate::infer_surface_kind;
 use super::problem::Problem;
@@ -81,19 +86,26 @@ pub struct BedTableRead {
 /// Characters that make a spreadsheet treat a cell as a formula (OWASP CSV injection guidance).
 const FORMULA_STARTS: [char; 6] = ['=', '+', '-', '@', '\t', '\r'];
 
+/// Whether a text cell needs a leading `'`: it starts with a formula character, perhaps after
+/// `'`s of its own (so that text such as `'=x` reads back with its `'`).
+fn needs_escape(text: &str) -> bool {
+    text.trim_start_matches('\'').starts_with(FORMULA_STARTS)
+}
+
 /// Escape a text cell that a spreadsheet would run as a formula.
 pub fn escape_formula(text: &str) -> String {
-    if text.starts_with(FORMULA_STARTS) {
+    if needs_escape(text) {
         format!("'{text}")
     } else {
         text.to_string()
     }
 }
 
-/// Undo [`escape_formula`]: drop a `'` that precedes a formula character.
+/// Undo [`escape_formula`]: drop the `'` that [`escape_formula`] adds (one before a formula
+/// character, or before `'`s followed by one). Other text, `'x` included, is kept as it is.
 pub fn unescape_formula(text: &str) -> &str {
     match text.strip_prefix('\'') {
-        Some(rest) if rest.starts_with(FORMULA_STARTS) => rest,
+        Some(rest) if needs_escape(rest) => rest,
         _ => text,
     }
 }
@@ -105,12 +117,18 @@ struct Columns {
 }
 
 impl Columns {
-    fn cell<'r>(&self, record: &'r csv::StringRecord, name: &str) -> Option<&'r str> {
-        self.index.get(name).and_then(|&i| record.get(i)).map(|c| unescape_formula(c.trim()))
+    /// A cell's value: trimmed, and unescaped (see [`unescape_formula`]).
+    fn cell<'r>(&self, record: &'r Record, name: &str) -> Option<&'r str> {
+        self.raw_cell(record, name).map(unescape_formula)
+    }
+
+    /// A cell trimmed but not unescaped (a list cell whose items are unescaped one by one).
+    fn raw_cell<'r>(&self, record: &'r Record, name: &str) -> Option<&'r str> {
+        self.index.get(name).and_then(|&i| record.get(i)).map(str::trim)
     }
 }
 
-fn map_header(header: &csv::StringRecord) -> Result<(Columns, Vec<Problem>), Vec<Problem>> {
+fn map_header(header: &Record) -> Result<(Columns, Vec<Problem>), Vec<Problem>> {
     let mut problems = Vec::new();
     let mut warnings = Vec::new();
     let mut index: HashMap<&'static str, usize> = HashMap::new();
@@ -226,13 +244,13 @@ impl Row<'_> {
         column: &str,
         cell: Option<&str>,
         parse: impl Fn(&str) -> Option<T>,
-        valid: &str,
+        valid: impl Fn() -> String,
     ) -> Vec<T> {
         let mut out = Vec::new();
         for item in cell.unwrap_or("").split(';').map(str::trim).filter(|s| !s.is_empty()) {
             match parse(item) {
                 Some(v) => out.push(v),
-                None => self.bad(column, format!("{item:?} is not known; valid values are {valid}")),
+                None => self.bad(column, format!("{item:?} is not known; valid values are {}", valid())),
             }
         }
         out
@@ -251,11 +269,10 @@ fn parse_stage(text: &str) -> Option<u8> {
 /// Every bad cell is reported with its line (header = line 1), column, value and what is valid.
 pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Vec<Problem>> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    let mut reader = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(text.as_bytes());
-    let mut records = reader.records();
+    // Rows may have any number of cells (checked against the header below).
+    let mut records = Records::new(text);
     let header = match records.next() {
-        Some(Ok(h)) => h,
-        Some(Err(e)) => return Err(vec![Problem::new("header", format!("unreadable CSV: {e}")).at_line(1)]),
+        Some(h) => h,
         None => {
             return Err(vec![Problem::new(
                 "",
@@ -278,14 +295,14 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
     let line_breaks: Vec<usize> = text.match_indices('\n').map(|(i, _)| i).collect();
     // Where a record's text starts: its offset can point at line breaks (blank lines, the LF of
     // a CR LF) the parser stepped over before it.
-    let row_start = |pos: Option<&csv::Position>| {
-        let mut at = pos.map_or(0, |p| p.byte() as usize);
+    let row_start = |record: &Record| {
+        let mut at = record.start;
         while text.as_bytes().get(at).is_some_and(|b| *b == b'\n' || *b == b'\r') {
             at += 1;
         }
         at
     };
-    let line_at = |pos: Option<&csv::Position>| line_breaks.partition_point(|&b| b < row_start(pos)) + 1;
+    let line_at = |record: &Record| line_breaks.partition_point(|&b| b < row_start(record)) + 1;
     let mut problems = Vec::new();
     let mut section = Section::new(section_name);
     section.display_unit = columns.thickness.1;
@@ -294,20 +311,12 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
     // Rows with problems count too: otherwise a file of bad rows collects problems without bound.
     let mut data_rows = 0usize;
     for record in records {
-        let record = match record {
-            Ok(r) => r,
-            Err(e) => {
-                let line = line_at(e.position());
-                problems.push(Problem::new("", format!("unreadable CSV row: {e}")).at_line(line));
-                break;
-            }
-        };
-        let line = line_at(record.position());
+        let line = line_at(&record);
         if record.iter().all(|c| c.trim().is_empty()) {
             continue;
         }
         // A short last row in a file that stops without a line break was most likely cut off.
-        let start = row_start(record.position());
+        let start = row_start(&record);
         let last_row = line_breaks.last().is_none_or(|&b| b < start);
         if last_row && record.len() < header.len() && !text.ends_with('\n') && !text.ends_with('\r') {
             problems.push(
@@ -339,10 +348,20 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 format!("the row has {} cells but the header names {} columns", record.len(), header.len()),
             );
         }
+        // The text limit applies to each value as it is kept (trimmed, unescaped; each sample of
+        // the samples list on its own), counted in characters as validation counts them.
         for (i, cell) in record.iter().enumerate() {
-            if cell.chars().count() > MAX_STRING_CHARS {
-                let name = header.get(i).unwrap_or("?").to_string();
-                row.bad(&name, format!("text of more than {MAX_STRING_CHARS} characters"));
+            let values: Vec<&str> = if columns.index.get("samples") == Some(&i) {
+                cell.split(';').map(|s| unescape_formula(s.trim())).collect()
+            } else {
+                vec![unescape_formula(cell.trim())]
+            };
+            for value in values {
+                let n = value.chars().count();
+                if n > MAX_STRING_CHARS {
+                    let name = header.get(i).unwrap_or("?").to_string();
+                    row.bad(&name, format!("text of {n} characters; at most {MAX_STRING_CHARS} allowed"));
+                }
             }
         }
         let (tcol, unit) = columns.thickness;
@@ -419,7 +438,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             "structures",
             columns.cell(&record, "structures"),
             Structure::parse,
-            &Structure::valid_list(),
+            Structure::valid_list,
         );
         let paleosol = match columns.cell(&record, "paleosol").unwrap_or("") {
             "" => PaleosolDevelopment::None,
@@ -435,7 +454,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             "paleosol_features",
             columns.cell(&record, "paleosol_features"),
             PaleosolFeature::parse,
-            &PaleosolFeature::valid_list(),
+            PaleosolFeature::valid_list,
         );
         let carbonate_stage = match columns.cell(&record, "carbonate_stage").unwrap_or("") {
             "" => None,
@@ -476,7 +495,9 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             },
         };
         let text = |name: &str| columns.cell(&record, name).unwrap_or("").to_string();
-        let samples: Vec<String> = text("samples")
+        let samples: Vec<String> = columns
+            .raw_cell(&record, "samples")
+            .unwrap_or("")
             .split(';')
             .map(|s| unescape_formula(s.trim()).to_string())
             .filter(|s| !s.is_empty())
@@ -556,26 +577,27 @@ fn csv_location(p: Problem, lines: &[usize], thickness_column: &str, single_grai
 }
 
 /// The line of a quoted cell that is still open at the end of the text (RFC 4180 quoting: a
-/// quote at the start of a cell opens it, `""` inside is a quote mark, `"` closes it).
+/// quote at the start of a cell opens it, `""` inside is a quote mark, `"` closes it). Quotes,
+/// commas and line breaks are ASCII, so the text is walked byte by byte.
 fn unclosed_quote_line(text: &str) -> Option<usize> {
     let mut line = 1;
     let mut opened_at = None;
     let mut at_cell_start = true;
-    let mut chars = text.chars().peekable();
-    while let Some(c) = chars.next() {
-        if c == '\n' {
+    let mut bytes = text.bytes().peekable();
+    while let Some(b) = bytes.next() {
+        if b == b'\n' {
             line += 1;
         }
-        match (opened_at, c) {
-            (Some(_), '"') if chars.peek() == Some(&'"') => {
-                chars.next();
+        match (opened_at, b) {
+            (Some(_), b'"') if bytes.peek() == Some(&b'"') => {
+                bytes.next();
             }
-            (Some(_), '"') => opened_at = None,
+            (Some(_), b'"') => opened_at = None,
             (Some(_), _) => {}
-            (None, '"') if at_cell_start => opened_at = Some(line),
+            (None, b'"') if at_cell_start => opened_at = Some(line),
             (None, _) => {}
         }
-        at_cell_start = opened_at.is_none() && (c == ',' || c == '\n' || c == '\r');
+        at_cell_start = opened_at.is_none() && (b == b',' || b == b'\n' || b == b'\r');
     }
     opened_at
 }
@@ -676,6 +698,17 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
             assert_eq!(a, &b);
         }
         assert!(again.warnings.is_empty());
+    }
+
+    #[test]
+    fn formula_escape_reads_back_every_text_and_keeps_hand_written_apostrophes() {
+        for text in ["=1+1", "'=1+1", "''-x", "'x", "''", "'", "@", "plain", "x=1", "'\t", "-"] {
+            assert_eq!(unescape_formula(&escape_formula(text)), text, "{text:?}");
+        }
+        assert_eq!(escape_formula("'=1"), "''=1");
+        // A spreadsheet's own apostrophes before ordinary text are not escapes.
+        assert_eq!(unescape_formula("'tis"), "'tis");
+        assert_eq!(unescape_formula("''quoted''"), "''quoted''");
     }
 
     #[test]

@@ -168,10 +168,13 @@ impl<'a> Scanner<'a> {
                     let start_line = self.line;
                     let start = self.pos + 1;
                     let mut i = start;
+                    // Characters of the decoded text, counted as validation counts them
+                    // (`str::chars`): an escape is one character (a surrogate pair too), and
+                    // UTF-8 continuation bytes are part of the character before them.
                     let mut chars = 0usize;
                     while i < self.bytes.len() && self.bytes[i] != b'"' {
                         match self.bytes[i] {
-                            b'\\' => i += 2,
+                            b'\\' => i += escape_len(self.bytes, i),
                             b'\n' => {
                                 self.line += 1;
                                 i += 1
@@ -179,6 +182,10 @@ impl<'a> Scanner<'a> {
                             _ => i += 1,
                         }
                         chars += 1;
+                        // Continuation bytes (10xx_xxxx) of a multi-byte character.
+                        while i < self.bytes.len() && (self.bytes[i] & 0xC0) == 0x80 {
+                            i += 1;
+                        }
                     }
                     let end = i.min(self.bytes.len());
                     self.pos = end + 1;
@@ -233,6 +240,35 @@ impl<'a> Scanner<'a> {
             }
         }
         Ok(())
+    }
+}
+
+/// The length in bytes of the escape starting with the `\\` at `at`, which decodes to one
+/// character: `\\n`, `\\"` … (2 bytes), `\\uXXXX` (6), or a surrogate pair `\\uD83D\\uDE00` (12).
+/// Malformed escapes are left to the JSON parser; they count as one character here.
+fn escape_len(bytes: &[u8], at: usize) -> usize {
+    let hex_at = |i: usize| -> Option<u32> {
+        let digits = bytes.get(i..i + 4)?;
+        if !digits.iter().all(u8::is_ascii_hexdigit) {
+            return None;
+        }
+        digits.iter().try_fold(0u32, |acc, d| Some(acc * 16 + char::from(*d).to_digit(16)?))
+    };
+    if bytes.get(at + 1) != Some(&b'u') {
+        return 2;
+    }
+    match hex_at(at + 2) {
+        Some(0xD800..=0xDBFF) => {
+            let low_follows = bytes.get(at + 6..at + 8) == Some(b"\\u".as_slice())
+                && hex_at(at + 8).is_some_and(|low| (0xDC00..=0xDFFF).contains(&low));
+            if low_follows {
+                12
+            } else {
+                6
+            }
+        }
+        Some(_) => 6,
+        None => 2,
     }
 }
 
@@ -461,6 +497,49 @@ mod tests {
         assert_eq!(object_fields("{}"), Some(vec![]));
         assert_eq!(array_items("{}"), None);
         assert_eq!(object_fields(" 5"), None);
+    }
+
+    /// A `notes` value written as `body`, `n` times, inside a JSON object.
+    fn notes_of(body: &str, n: usize) -> String {
+        format!("{{\"notes\": \"{}\"}}", body.repeat(n))
+    }
+
+    #[test]
+    fn counts_decoded_characters_not_bytes() {
+        // Each body decodes to one character: 2-, 3- and 4-byte UTF-8, an escape of the Basic
+        // Multilingual Plane, a surrogate-pair escape (RFC 8259 §7) and two-character escapes.
+        for body in ["é", "漢", "😀", "\\u00e9", "\\uD83D\\uDE00", "\\ud83d\\ude00", "\\n", "\\\"", "\\\\"]
+        {
+            let at_limit = notes_of(body, MAX_STRING_CHARS);
+            assert!(check_limits(&at_limit).is_ok(), "{body:?} × {MAX_STRING_CHARS} must pass");
+            let decoded: String = serde_json::from_str::<serde_json::Value>(&at_limit).expect("json")
+                ["notes"]
+                .as_str()
+                .expect("text")
+                .to_string();
+            assert_eq!(decoded.chars().count(), MAX_STRING_CHARS, "{body:?}");
+            let over = notes_of(body, MAX_STRING_CHARS + 1);
+            let err = check_limits(&over).expect_err("one over must be refused");
+            assert_eq!(
+                err.message,
+                format!("text of {} characters; at most {MAX_STRING_CHARS} allowed", MAX_STRING_CHARS + 1),
+                "{body:?}"
+            );
+        }
+        // "e" plus a combining acute accent is two characters to `str::chars`, and to the scan.
+        let combining = notes_of("e\u{301}", MAX_STRING_CHARS / 2);
+        assert!(check_limits(&combining).is_ok());
+        assert!(check_limits(&notes_of("e\u{301}", MAX_STRING_CHARS / 2 + 1)).is_err());
+    }
+
+    #[test]
+    fn a_lone_surrogate_escape_counts_as_one_and_is_left_to_the_parser() {
+        // Not valid text (serde_json refuses it); the scan must neither panic nor miscount.
+        let text = notes_of("\\uD83D", 3);
+        assert!(check_limits(&text).is_ok());
+        for cut in ["{\"notes\": \"\\u", "{\"notes\": \"\\uD83D\\u12", "{\"notes\": \"\\"] {
+            assert!(check_limits(cut).is_ok(), "{cut:?}");
+        }
     }
 
     #[test]

@@ -3,6 +3,12 @@
 //!
 //! The figures are generous for real field data (the largest measured sections run to a few
 //! thousand beds) and small enough that a file at every limit still loads in well under a second.
+//!
+//! Every limit on text is counted in one unit, characters as `str::chars` counts them (Unicode
+//! scalar values), wherever it is applied: validation, the JSON pre-scan (an escape such as
+//! `\u00e9`, or a surrogate pair such as `\uD83D\uDE00`, is one character; the bytes of a
+//! multi-byte UTF-8 character are one), each bed-table cell as it is kept, and the window's text
+//! fields. A combining mark is a character of its own (`e` + U+0301 is two).
 
 /// Largest file read, in bytes (32 MiB). A 10,000-bed project is about 3 MB.
 pub const MAX_FILE_BYTES: u64 = 32 * 1024 * 1024;
@@ -23,7 +29,9 @@ pub const MAX_CURVE_SAMPLES: usize = 100_000;
 /// Most items in any one JSON array (beds, paleocurrents, samples …); checked before parsing.
 pub const MAX_ARRAY_ITEMS: usize = MAX_BEDS_PER_SECTION;
 
-/// Longest text value (names, notes, colours …), in characters.
+/// Longest text value (names, notes, colours, samples, surface names, review notes, curve
+/// mnemonics, units, descriptions and source files), in characters (see above), not bytes: 10,000
+/// "é" are 20,000 bytes of UTF-8 and within the limit.
 pub const MAX_STRING_CHARS: usize = 10_000;
 
 /// Longest correlation label on an accepted boundary ("SB-2", "base of upper storey system"),
@@ -36,3 +44,10 @@ pub const MAX_JSON_DEPTH: usize = 16;
 
 /// Most problems listed in one error (the count of the rest is still given).
 pub const MAX_PROBLEMS_LISTED: usize = 200;
+
+/// Largest thickness (or erosional relief) accepted for one bed, metres. No single bed of a
+/// measured section approaches a kilometre; larger values are typing or unit mistakes.
+pub const MAX_BED_THICKNESS_M: f64 = 1_000.0;
+
+/// Largest panel position accepted, metres (|x| ≤ 10,000 km).
+pub const MAX_PANEL_POSITION_M: f64 = 1.0e7;

@@ -3,6 +3,7 @@
 
 pub mod atomic;
 pub mod bed_table;
+mod csv_rows;
 mod curve_fields;
 pub mod json_scan;
 pub mod limits;

@@ -5,16 +5,10 @@ use super::limits::{
     MAX_BEDS_PER_SECTION, MAX_CURVES_PER_SECTION, MAX_CURVE_SAMPLES, MAX_LINK_LABEL_CHARS, MAX_SECTIONS,
     MAX_STRING_CHARS,
 };
+pub use super::limits::{MAX_BED_THICKNESS_M, MAX_PANEL_POSITION_M};
 use super::problem::Problem;
 use crate::model::{GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
 use std::collections::HashMap;
-
-/// Largest thickness (or erosional relief) accepted for one bed, metres. No single bed of a
-/// measured section approaches a kilometre; larger values are typing or unit mistakes.
-pub const MAX_BED_THICKNESS_M: f64 = 1_000.0;
-
-/// Largest panel position accepted, metres (|x| ≤ 10,000 km).
-pub const MAX_PANEL_POSITION_M: f64 = 1.0e7;
 
 /// Every problem in one section. Locations are relative to the section (`beds[3].thickness_m`).
 pub fn validate_section(section: &Section) -> Vec<Problem> {
