@@ -5,7 +5,7 @@ use super::document::{Document, Edit};
 use super::table::{grain_from_prefix, show_length};
 use super::theme;
 use aggrade_core::model::{
-    Contact, Lithology, PaleosolDevelopment, PaleosolFeature, Structure, Surface, SurfaceKind,
+    BaseRank, Contact, Lithology, PaleosolDevelopment, PaleosolFeature, Structure, Surface, SurfaceKind,
 };
 
 /// Text buffers for fields typed as text (so half-typed values are not lost).
@@ -130,6 +130,11 @@ impl Inspector {
 
                 let label = ui.label("Basal contact").id;
                 combo(ui, label, "contact", &mut bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
+                ui.end_row();
+
+                let label = ui.label("Base rank").id;
+                let ranks = [None, Some(BaseRank::StoreySurface), Some(BaseRank::BodyBase), Some(BaseRank::WithinStorey)];
+                combo(ui, label, "base_rank", &mut bed.base_rank, &ranks, |r| r.map_or("rules decide", BaseRank::name), "Your rank for this base: a storey surface or a channel-body base starts a new storey (and body); within storey makes it a scour. Overrides the rules");
                 ui.end_row();
 
                 let lab = ui.label("Erosional relief").id;

@@ -4,7 +4,7 @@
 use super::actions::Actions;
 use super::document::{Document, Edit};
 use super::theme;
-use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 
 /// Text typed into the entry row.
 #[derive(Debug, Default)]
@@ -257,8 +257,16 @@ impl BedTable {
                         theme::ACCENT,
                     );
                 }
+                // The geologist's rank of the base, when given: S storey surface, B body base,
+                // w within storey.
+                let rank = match b.base_rank {
+                    Some(BaseRank::StoreySurface) => " S",
+                    Some(BaseRank::BodyBase) => " B",
+                    Some(BaseRank::WithinStorey) => " w",
+                    None => "",
+                };
                 let cells = [
-                    format!("{}", i + 1),
+                    format!("{}{rank}", i + 1),
                     show_length(top, unit),
                     show_length(b.thickness_m, unit),
                     b.lithology.name().to_string(),
@@ -275,7 +283,13 @@ impl BedTable {
                     let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
                     p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
                 }
-                let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
+                let r = match b.base_rank {
+                    Some(rank) => r.on_hover_text(format!(
+                        "Base ranked {} by you. Click to select; right-click for insert, split, merge, rank, delete",
+                        rank.name()
+                    )),
+                    None => r.on_hover_text("Click to select; right-click for insert, split, merge, rank, delete"),
+                };
                 if r.clicked() {
                     // Selected here: the row is in view already, so the table stays put.
                     self.last_selected = Some(b.id);
