@@ -408,6 +408,18 @@ mod tests {
         assert_eq!(st[0].last_bed, 0);
     }
 
+    /// Md 2 | Cg 0.3 (E, lag) | Ss 2 (E) | Ss 0.6 (E) | Ss 1.5 (E) | Md 2.
+    fn lag_and_scour() -> Vec<Bed> {
+        vec![
+            bed(2.0, Md, S),
+            bed(0.3, Cg, E),
+            bed(2.0, Ss, E),
+            bed(0.6, Ss, E),
+            bed(1.5, Ss, E),
+            bed(2.0, Md, S),
+        ]
+    }
+
     #[test]
     fn a_lag_is_the_floor_of_the_storey_above_and_thin_scours_stay_inside() {
         // Miall 1996: a basal lag floors the storey; scours and set boundaries rank below storey
@@ -415,14 +427,7 @@ mod tests {
         // Working: the lag (0.3 < 0.5 m) and the sand on it make one storey; the 0.6 m scour fill
         // is followed by a 1.5 m erosional sand, so it reaches only 0.6 m (< 1 m): no new storey;
         // the 1.5 m sand is a storey of its own, amalgamated. Two storeys: 2–4.9, 4.9–6.4 m.
-        let (_, st) = run(vec![
-            bed(2.0, Md, S),
-            bed(0.3, Cg, E),
-            bed(2.0, Ss, E),
-            bed(0.6, Ss, E),
-            bed(1.5, Ss, E),
-            bed(2.0, Md, S),
-        ]);
+        let (_, st) = run(lag_and_scour());
         let got: Vec<(usize, usize, bool)> =
             st.iter().map(|s| (s.first_bed, s.last_bed, s.amalgamated_base)).collect();
         assert_eq!(got, vec![(1, 3, false), (4, 4, true)]);
@@ -432,14 +437,7 @@ mod tests {
     fn the_geologists_rank_overrides_the_rules() {
         // The same beds, with the 0.6 m scour ranked a storey surface and the 1.5 m base ranked
         // within the storey: storeys 2–4.3 and 4.3–6.4 m.
-        let mut beds = vec![
-            bed(2.0, Md, S),
-            bed(0.3, Cg, E),
-            bed(2.0, Ss, E),
-            bed(0.6, Ss, E),
-            bed(1.5, Ss, E),
-            bed(2.0, Md, S),
-        ];
+        let mut beds = lag_and_scour();
         beds[3].base_rank = Some(BaseRank::StoreySurface);
         beds[4].base_rank = Some(BaseRank::WithinStorey);
         let (_, st) = run(beds);
