@@ -147,11 +147,14 @@ fn several_sections_need_a_section_name() {
         "{err}"
     );
 
-    // Beds 0–3 mudstone, 3–5 strong paleosol, 5–7 conglomerate: one single-story body.
+    // Beds 0–3 mudstone, 3–5 strong paleosol, 5–7 conglomerate: one body of one storey. It
+    // reaches the section top, so it is seen only in part: stacking undetermined, censored at
+    // its top (it was called single-story before censoring was read).
     let v = json_of(&["interpret", p, "--json", "--section", "corran gap"]);
     assert_eq!(v["section"], "Corran Gap");
     assert!(close(num(&v["total_thickness"]), 7.0));
-    assert_eq!(v["channel_bodies"][0]["stacking"], "single-story");
+    assert_eq!(v["channel_bodies"][0]["stacking"], "undetermined");
+    assert_eq!(v["channel_bodies"][0]["censored"], serde_json::json!(["top"]));
 
     let o = aggrade(&["interpret", p, "--section", "Nowhere"]);
     assert!(!o.status.success());
@@ -232,4 +235,87 @@ fn a_parameter_file_changes_the_rules() {
     ]);
     let b = &v["channel_bodies"];
     assert!(close(num(&b[0]["top"]), 11.0) && close(num(&b[1]["base"]), 11.2), "{b}");
+}
+
+fn demo_file() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/demo.aggrade")
+}
+
+#[test]
+fn json_and_report_carry_censoring_profiles_bounds_and_storey_bodies() {
+    // Pell Butte (invented demo, logged in feet): the body over SB-1 runs up to a covered
+    // interval; the two upper channels rest on covered intervals (see sample_sections/README.md
+    // and tests/tests/rules_demo_sections.rs for the reading).
+    let demo = demo_file();
+    let path = demo.to_str().expect("utf-8 path");
+    let v = json_of(&["interpret", path, "--section", "Pell Butte", "--json"]);
+    let bodies = v["channel_bodies"].as_array().expect("channel_bodies");
+    let got: Vec<(&str, Value)> =
+        bodies.iter().map(|b| (b["stacking"].as_str().unwrap_or(""), b["censored"].clone())).collect();
+    assert_eq!(
+        got,
+        vec![
+            ("multi-story", serde_json::json!(["top"])),
+            ("undetermined", serde_json::json!(["base"])),
+            ("undetermined", serde_json::json!(["base"]))
+        ]
+    );
+    // Every storey names its body; the first three belong to the first body.
+    let storey_bodies: Vec<u64> =
+        v["storeys"].as_array().expect("storeys").iter().map(|s| s["body"].as_u64().unwrap_or(99)).collect();
+    assert_eq!(storey_bodies, vec![0, 0, 0, 1, 2]);
+    let b = &v["channel_proportion_bounds"];
+    let (lo, p, hi) =
+        (num(&b["covered_as_fines"]), num(&v["channel_proportion"]), num(&b["covered_as_channel"]));
+    assert!(lo < p && p < hi, "{lo} {p} {hi}");
+    // Profiles, lowest first, with base, top, maturity and bed ids.
+    let soils = v["paleosols"].as_array().expect("paleosols");
+    assert!(soils.windows(2).all(|w| num(&w[0]["base"]) < num(&w[1]["base"])));
+    assert_eq!(soils[1]["maturity"], "very_strong");
+    assert_eq!(soils[1]["beds"], serde_json::json!([3, 4]));
+
+    let o = aggrade(&["interpret", path, "--section", "Pell Butte"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    for needle in [
+        "(\u{2265} 8.69 m): multi-story, 3 storeys",
+        "[top not seen: thickness a minimum]",
+        "undetermined, 1 storey",
+        "with covered as fines",
+        "Paleosol profiles (7):",
+        "very strong maturity, 2 beds (logged strong, carbonate stage III, raised by slickensides with carbonate nodules)",
+    ] {
+        assert!(text.contains(needle), "report lacks {needle:?}:\n{text}");
+    }
+}
+
+#[test]
+fn bodies_csv_names_censored_ends_and_the_summary_counts_undetermined_bodies() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let csv = dir.path().join("bodies.csv");
+    let demo = demo_file();
+    let o = aggrade(&[
+        "bodies",
+        demo.to_str().expect("utf-8 path"),
+        "--section",
+        "Pell Butte",
+        "--csv",
+        csv.to_str().expect("utf-8 path"),
+        "--burial-depth",
+        "1500",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = std::fs::read_to_string(&csv).expect("CSV written");
+    let mut lines = text.lines();
+    assert_eq!(
+        lines.next(),
+        Some("section,base_m,top_m,thickness_m,storeys,stacking,grain_finest,grain_coarsest,censored")
+    );
+    let ends: Vec<&str> = lines.map(|l| l.rsplit(',').next().unwrap_or("")).collect();
+    assert_eq!(ends, vec!["top", "base", "base"]);
+    let out = stdout(&o);
+    assert!(out.contains("stacking: 1 multi-story, 0 single-story, 2 undetermined"), "{out}");
+    assert!(out.contains("3 bodies seen only in part"), "{out}");
+    assert!(out.contains("counting covered intervals as fines"), "{out}");
+    assert!(out.contains("covered intervals decompacted as shale"), "{out}");
 }

@@ -383,7 +383,7 @@ fn channel_body_view_shows_the_summary_and_writes_csv_files() {
         assert!(shown(&h, &format!("{v:.2}")), "summary value {v:.2} shown");
     }
     assert!(shown(&h, &s.count.to_string()));
-    assert!(shown(&h, &format!("{} / {}", s.multi_story, s.single_story)));
+    assert!(shown(&h, &format!("{} / {} / {}", s.multi_story, s.single_story, s.undetermined)));
 
     // Exports through the dialogs, read back by Python's csv module.
     h.get_by_label("Export bodies CSV…").click();

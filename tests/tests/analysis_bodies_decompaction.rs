@@ -29,6 +29,7 @@ fn body(base: f64, top: f64, stories: usize) -> ChannelBody {
         thickness_m: top - base,
         stories,
         stacking: if stories > 1 { Stacking::MultiStory } else { Stacking::SingleStory },
+        censored: Vec::new(),
         amalgamated_bases: stories.saturating_sub(1),
         grain_finest: None,
         grain_coarsest: None,

@@ -9,8 +9,9 @@ use aggrade_core::io::project_reader::{
 };
 use aggrade_core::io::{project_to_json, read_project_text, Problem};
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
-    Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind, WentworthClass,
+    BaseRank, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment,
+    PaleosolFeature, Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind,
+    WentworthClass,
 };
 use proptest::prelude::*;
 use serde_json::Value;
@@ -66,6 +67,7 @@ fn full_bed(rng: &mut Lcg, id: u64) -> Bed {
     b.paleosol_features = vec![rng.pick(PaleosolFeature::ALL)];
     b.carbonate_stage = Some(1 + rng.next(6) as u8);
     b.base_surface = Some(Surface { name: format!("S-{id} \"α\"\\"), kind: rng.pick(SurfaceKind::ALL) });
+    b.base_rank = Some(rng.pick(BaseRank::ALL));
     b.colour = "5YR 4/4 red-brown".into();
     b.paleocurrents_deg = (0..rng.next(6)).map(|_| rng.float(0.0, 360.0)).collect();
     b.fossils = "plant fragments; unio shells".into();

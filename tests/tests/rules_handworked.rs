@@ -3,15 +3,16 @@
 //! 0.5 m, splay limit 1.0 m, window 10 m every 0.5 m) unless a case says otherwise.
 
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, Project, ReviewDecision,
-    ReviewState, Section, Structure,
+    BaseRank, Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
+    Project, ReviewDecision, ReviewState, Section, Structure,
 };
 use aggrade_core::rules::{
     interpret, CandidateKind, Element, FluvialStyle, Interpretation, Regime, RuleParams, Stacking,
 };
 
 /// A section from lines `THICKNESS LITHOLOGY GRAIN[>GRAIN_TOP] [CONTACT] [paleosol=DEV] [relief=R]
-/// [STRUCTURE…]`, thicknesses (and relief) in `unit`, contacts sharp unless given.
+/// [stage=N] [rank=RANK] [soil:FEATURE…] [STRUCTURE…]`, thicknesses (and relief) in `unit`,
+/// contacts sharp unless given.
 fn section_in(unit: LengthUnit, name: &str, spec: &str) -> Section {
     let mut s = Section::new(name);
     s.display_unit = unit;
@@ -23,6 +24,12 @@ fn section_in(unit: LengthUnit, name: &str, spec: &str) -> Section {
         for w in words {
             if let Some(dev) = w.strip_prefix("paleosol=") {
                 bed.paleosol = PaleosolDevelopment::parse(dev).expect("paleosol development");
+            } else if let Some(st) = w.strip_prefix("stage=") {
+                bed.carbonate_stage = Some(st.parse().expect("carbonate stage"));
+            } else if let Some(r) = w.strip_prefix("rank=") {
+                bed.base_rank = Some(BaseRank::parse(r).expect("base rank"));
+            } else if let Some(f) = w.strip_prefix("soil:") {
+                bed.paleosol_features.push(PaleosolFeature::parse(f).expect("paleosol feature"));
             } else if let Some(r) = w.strip_prefix("relief=") {
                 bed.base_relief_m = Some(unit.to_metres(r.parse().expect("relief")));
             } else if let Some(c) = Contact::parse(w) {
@@ -188,10 +195,21 @@ fn splay_sands_do_not_count_as_channel_deposits() {
     assert_bodies(&r, &[(9.0, 11.0, 1, Stacking::SingleStory)]);
     assert!(close(r.channel_proportion.expect("exposed"), 2.0 / 14.0));
 
-    // With a 0.5 m splay limit the 0.8 m sand (6–6.8 m) becomes a channel storey: 2.8/14.
+    // With a 0.5 m splay limit the 0.8 m sand (6–6.8 m) is thick enough for one channel sign,
+    // but its gradational base and fine grain are two splay signs (decision table after Miall
+    // 1996, Bridge 2003, Burns et al. 2017): still a splay. (The first rules, which went by
+    // thickness alone, made it a channel storey; that is the misreading the table corrects.)
     let narrow = RuleParams { splay_limit_m: 0.5, ..RuleParams::default() };
     let r = interpret(&s, &narrow);
-    assert_eq!(r.elements[1], Element::SplaySand);
+    assert_eq!((r.elements[1], r.elements[3]), (Element::SplaySand, Element::SplaySand));
+    assert_bodies(&r, &[(9.0, 11.0, 1, Stacking::SingleStory)]);
+    // Logged as medium sand with an erosional base it has two channel signs (erosional base,
+    // thickness) to none: a channel.
+    let mut scoured = s.clone();
+    scoured.beds[3].base_contact = Contact::Erosional;
+    scoured.beds[3].grain_base = Some(GrainSize::parse("medium sand").expect("class"));
+    scoured.beds[3].grain_top = scoured.beds[3].grain_base;
+    let r = interpret(&scoured, &narrow);
     assert_bodies(&r, &[(6.0, 6.8, 1, Stacking::SingleStory), (9.0, 11.0, 1, Stacking::SingleStory)]);
     assert!(close(r.channel_proportion.expect("exposed"), 2.8 / 14.0));
 }
@@ -327,10 +345,12 @@ fn the_same_section_in_feet_and_metres_gives_the_same_answers() {
     assert_same(&a, &b);
     // And the answers are the expected ones, in metres: one 2-storey body from 3.048 m
     // (10 ft) to 3.048 + 2.4384 + 0.48768 + 2.1336 = 8.10768 m; one storey from
-    // 8.10768 + 6.096 + 0.9144 + 4.572 = 19.69008 m, 1.8288 m thick.
+    // 8.10768 + 6.096 + 0.9144 + 4.572 = 19.69008 m, 1.8288 m thick. Its top lies against the
+    // 12 ft covered interval, so only part of it is seen: stacking undetermined (it was called
+    // single-story before censoring was read; one storey seen does not make a body single-story).
     assert_bodies(
         &a,
-        &[(3.048, 8.10768, 2, Stacking::MultiStory), (19.69008, 21.51888, 1, Stacking::SingleStory)],
+        &[(3.048, 8.10768, 2, Stacking::MultiStory), (19.69008, 21.51888, 1, Stacking::Undetermined)],
     );
     assert_eq!(a.elements[6], Element::SplaySand);
 }
@@ -436,4 +456,262 @@ fn an_empty_section_gives_an_empty_answer_not_a_panic() {
     assert!(r.channel_bodies.is_empty() && r.sequence_boundary_candidates.is_empty());
     assert_eq!(r.accommodation.len(), 1);
     assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
+}
+
+// ---------- Second-generation rules: storeys, channel or splay, paleosol profiles, censoring ----------
+
+fn storeys(r: &Interpretation) -> Vec<(f64, f64)> {
+    r.storeys.iter().map(|s| (s.base_m, s.top_m)).collect()
+}
+
+fn assert_storeys(r: &Interpretation, want: &[(f64, f64)]) {
+    let got = storeys(r);
+    assert!(
+        got.len() == want.len() && got.iter().zip(want).all(|(g, w)| close(g.0, w.0) && close(g.1, w.1)),
+        "storeys {got:?}, wanted {want:?}"
+    );
+}
+
+const LAG_AND_SCOUR: &str = "
+    3.0 mudstone silt
+    0.3 conglomerate pebble erosional basal_lag
+    2.2 sandstone coarse_sand>medium_sand erosional trough_cross-bedding
+    0.6 sandstone medium_sand erosional trough_cross-bedding
+    0.3 conglomerate pebble erosional basal_lag
+    1.6 sandstone coarse_sand>fine_sand erosional trough_cross-bedding
+    4.0 mudstone silt
+";
+
+#[test]
+fn a_basal_lag_floors_the_storey_above_and_a_thin_scour_is_no_storey() {
+    // Miall 1985, 1996 (bounding-surface hierarchy): a basal lag is the floor of the storey above
+    // it; scours and set boundaries inside a storey rank below storey surfaces.
+    // Beds (m): mud 0–3 | lag 3–3.3 | sand 3.3–5.5 (E, on the lag) | sand 5.5–6.1 (E) | lag 6.1–6.4 |
+    // sand 6.4–8.0 (E, on the lag) | mud 8–12.
+    // Working: the sand on each lag continues the lag's storey. The 0.6 m sand at 5.5 m reaches
+    // only 6.1 m before the next storey surface (the lag at 6.1 m, whose storey reaches 8.0 m:
+    // 1.9 m ≥ 1.0 m), so it is a scour (0.6 < 1.0 m). Storeys 3.0–6.1 and 6.1–8.0 m in one body
+    // of two storeys, one amalgamated base. The first rules counted five storeys here.
+    let s = section("Lag and scour", LAG_AND_SCOUR);
+    let r = interpret(&s, &RuleParams::default());
+    assert_storeys(&r, &[(3.0, 6.1), (6.1, 8.0)]);
+    assert_bodies(&r, &[(3.0, 8.0, 2, Stacking::MultiStory)]);
+    assert_eq!(r.channel_bodies[0].amalgamated_bases, 1);
+    assert!(r.channel_bodies[0].censored.is_empty());
+
+    // A minimum storey thickness of 0.5 m makes the 0.6 m scour fill a storey of its own.
+    let loose = RuleParams { min_storey_m: 0.5, ..RuleParams::default() };
+    assert_storeys(&interpret(&s, &loose), &[(3.0, 5.5), (5.5, 6.1), (6.1, 8.0)]);
+}
+
+#[test]
+fn the_geologists_rank_of_a_base_overrides_the_rules() {
+    // Storey surfaces are often tagged in the field (Miall 1996): the tag beats any rule.
+    // Same beds as above. Ranking the 0.6 m scour (bed 4) a storey surface gives three storeys;
+    // ranking the upper lag (bed 5) a body base splits the body there (two single-story bodies).
+    // Ranking the upper lag within the storey lets the sand from 5.5 m reach 8.0 m (2.5 m ≥
+    // 1.0 m), so the rules then put the storey surface at 5.5 m; ranking both bases within the
+    // storey leaves one storey.
+    let mut s = section("Ranked", LAG_AND_SCOUR);
+    s.beds[3].base_rank = Some(BaseRank::StoreySurface);
+    assert_storeys(&interpret(&s, &RuleParams::default()), &[(3.0, 5.5), (5.5, 6.1), (6.1, 8.0)]);
+
+    let mut s = section("Ranked", LAG_AND_SCOUR);
+    s.beds[4].base_rank = Some(BaseRank::BodyBase);
+    let r = interpret(&s, &RuleParams::default());
+    assert_bodies(&r, &[(3.0, 6.1, 1, Stacking::SingleStory), (6.1, 8.0, 1, Stacking::SingleStory)]);
+    assert_eq!(r.storeys.iter().map(|s| s.body).collect::<Vec<_>>(), vec![0, 1]);
+
+    let mut s = section("Ranked", LAG_AND_SCOUR);
+    s.beds[4].base_rank = Some(BaseRank::WithinStorey);
+    assert_storeys(&interpret(&s, &RuleParams::default()), &[(3.0, 5.5), (5.5, 8.0)]);
+    s.beds[3].base_rank = Some(BaseRank::WithinStorey);
+    assert_storeys(&interpret(&s, &RuleParams::default()), &[(3.0, 8.0)]);
+}
+
+const CHANNEL_OR_SPLAY: &str = "
+    3.0 mudstone silt
+    1.5 sandstone very_fine_sand>fine_sand gradational ripple_cross-lamination
+    3.0 mudstone silt
+    0.2 sandstone very_fine_sand erosional ripple_cross-lamination
+    3.0 mudstone silt
+    1.2 sandstone medium_sand>fine_sand sharp trough_cross-bedding
+    3.0 mudstone silt
+";
+
+#[test]
+fn channel_or_splay_is_read_from_all_the_signs_not_thickness_alone() {
+    // Decision table after Miall 1985, 1996 (elements CH against CS/LS) and Bridge 2003; splay
+    // grain size after Burns et al. 2017 (coarsest lower fine sand).
+    // 3–4.5 m: 1.5 m, gradational base, coarsening up (φ 3.5 → 2.5), ripples only, fine sand at
+    //   most: splay signs 4 (base, profile, ripples, grain) against 1 (thickness) → proximal splay.
+    // 7.5–7.7 m: 0.2 m very fine sand, scoured base, ripples only: channel 1 (erosional base)
+    //   against splay 3 (ripples, thin, grain) → splay, no channel body and no style hint.
+    // 10.7–11.9 m: 1.2 m, sharp base, trough cross-bedding, fining up (φ 1.5 → 2.5): channel 3
+    //   against splay 1 (base) → a single-story channel body.
+    // The first rules made bodies of the first two (by thickness and by the scoured base).
+    let r = interpret(&section("Channel or splay", CHANNEL_OR_SPLAY), &RuleParams::default());
+    assert_eq!(
+        (r.elements[1], r.elements[3], r.elements[5]),
+        (Element::SplaySand, Element::SplaySand, Element::ChannelDeposit)
+    );
+    assert_bodies(&r, &[(10.7, 11.9, 1, Stacking::SingleStory)]);
+    assert!(close(r.channel_proportion.expect("exposed"), 1.2 / 14.9));
+}
+
+const HORIZONS: &str = "
+    2.0 mudstone silt
+    1.0 mudstone silt paleosol=weak stage=3 soil:carbonate_nodules
+    0.8 mudstone clay paleosol=moderate soil:slickensides soil:root_traces
+    3.0 mudstone silt
+";
+
+#[test]
+fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
+    // Retallack 2001 and Kraus 1999: a paleosol is a profile of horizons. Carbonate stage III
+    // (Machette 1985, after Gile et al. 1966) makes a profile at least strongly developed;
+    // slickensides with carbonate nodules (vertic and calcic features) raise it one grade more.
+    // Working: beds 2–3 (2.0–3.8 m) are one profile, logged at most moderate → strong by stage III
+    // → very strong by the vertic–calcic pair. One candidate at its top (3.8 m), scored as an
+    // interfluve paleosol (0.25); the first rules gave one candidate per bed (3.0 and 3.8 m).
+    let s = section("Horizons", HORIZONS);
+    let r = interpret(&s, &RuleParams::default());
+    assert_eq!(r.paleosols.len(), 1);
+    let p = &r.paleosols[0];
+    assert!(close(p.base_m, 2.0) && close(p.top_m, 3.8), "{p:?}");
+    assert_eq!(p.beds, vec![BedId(2), BedId(3)]);
+    assert_eq!(
+        (p.logged_development, p.maturity),
+        (PaleosolDevelopment::Moderate, PaleosolDevelopment::VeryStrong)
+    );
+    let c = &r.sequence_boundary_candidates;
+    assert_eq!(c.len(), 1, "{c:?}");
+    assert!(close(c[0].height_m, 3.8) && close(c[0].score, 0.25), "{c:?}");
+    assert_eq!((r.elements[1], r.elements[2]), (Element::Paleosol, Element::Paleosol));
+
+    // Without the vertic–calcic raise: strong (stage III alone). With stage III no longer enough
+    // for strong: moderate, raised one grade by the pair to strong.
+    let p = RuleParams { vertic_calcic_raises: false, ..RuleParams::default() };
+    assert_eq!(interpret(&s, &p).paleosols[0].maturity, PaleosolDevelopment::Strong);
+    let p = RuleParams { strong_carbonate_stage: 4, very_strong_carbonate_stage: 5, ..RuleParams::default() };
+    assert_eq!(interpret(&s, &p).paleosols[0].maturity, PaleosolDevelopment::Strong);
+}
+
+const SOIL_ON_SAND: &str = "
+    3.0 mudstone silt
+    2.0 sandstone medium_sand>fine_sand erosional trough_cross-bedding
+    0.4 sandstone fine_sand paleosol=strong soil:root_traces soil:rhizoliths
+    2.0 sandstone coarse_sand>medium_sand erosional trough_cross-bedding
+    3.0 mudstone silt
+";
+
+#[test]
+fn a_soil_on_a_sandstone_top_ends_the_channel_body_below_it() {
+    // Retallack 2001; Kraus 1999: a paleosol records a break in deposition long enough for a
+    // soil to form, on sand as on mud, so it separates what lies below from what lies above.
+    // Working: bodies 3–5.4 m (sand with its rooted top) and 5.4–7.4 m, each one storey; the
+    // first rules merged them into one two-storey "amalgamated" body. The upper body's base sits
+    // on the strong soil: a candidate at 5.4 m of kind channel base on paleosol.
+    let r = interpret(&section("Soil on sand", SOIL_ON_SAND), &RuleParams::default());
+    assert_bodies(&r, &[(3.0, 5.4, 1, Stacking::SingleStory), (5.4, 7.4, 1, Stacking::SingleStory)]);
+    assert!(r.storeys[0].capped_by_paleosol);
+    assert_eq!(r.paleosols.len(), 1);
+    assert!(r.paleosols[0].on_sandstone);
+    let at = r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, 5.4)).expect("candidate");
+    assert_eq!(at.kind, CandidateKind::ChannelBaseOnPaleosol);
+    assert!(
+        at.evidence.iter().any(|e| e.to_string().contains("erodes directly into a paleosol of strong")),
+        "{at:?}"
+    );
+    assert!(close(r.channel_thickness_m(), 4.4));
+}
+
+const CENSORED: &str = "
+    2.5 sandstone medium_sand>fine_sand trough_cross-bedding
+    3.0 mudstone silt
+    2.0 sandstone medium_sand erosional trough_cross-bedding
+    1.5 covered
+    2.0 mudstone silt
+    1.2 sandstone coarse_sand erosional trough_cross-bedding
+    1.5 sandstone coarse_sand erosional trough_cross-bedding
+    0.2 mudstone silt
+";
+
+#[test]
+fn bodies_cut_by_the_section_or_a_cover_are_censored() {
+    // Common practice: a body seen only in part gives a minimum thickness, and one storey seen
+    // does not make it single-story (a truncated measurement is a lower bound).
+    // Beds (m): sand 0–2.5 (section base) | mud 2.5–5.5 | sand 5.5–7.5 | covered 7.5–9 |
+    // mud 9–11 | sand 11–12.2 (E) | sand 12.2–13.7 (E, 1.5 ≥ 1 m: a storey) | drape 13.7–13.9 (top).
+    // Working: body 1 censored at its base, body 2 at its top (the cover), both one storey →
+    // undetermined; body 3 two storeys → multi-story, censored at its top (only a 0.2 m drape,
+    // thinner than the 0.5 m drape limit, lies between it and the section top).
+    let r = interpret(&section("Censored", CENSORED), &RuleParams::default());
+    assert_bodies(
+        &r,
+        &[
+            (0.0, 2.5, 1, Stacking::Undetermined),
+            (5.5, 7.5, 1, Stacking::Undetermined),
+            (11.0, 13.7, 2, Stacking::MultiStory),
+        ],
+    );
+    use aggrade_core::rules::Censor;
+    let censored: Vec<Vec<Censor>> = r.channel_bodies.iter().map(|b| b.censored.clone()).collect();
+    assert_eq!(censored, vec![vec![Censor::Base], vec![Censor::Top], vec![Censor::Top]]);
+    assert_eq!(r.channel_bodies[0].thickness_text(), "\u{2265} 2.50 m");
+    // Its stretch gets no regime, and says why.
+    assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
+    assert!(r.accommodation[0].why.to_string().contains("seen only in part"), "{}", r.accommodation[0].why);
+    let base = r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, 5.5)).expect("candidate");
+    assert!(base.evidence.iter().any(|e| e.to_string().contains("seen only in part")), "{base:?}");
+
+    // Covered intervals: proportion of the exposed 12.4 m, with bounds over all 13.9 m.
+    // Channel 2.5 + 2.0 + 2.7 = 7.2 m: exposed-only 7.2/12.4; cover as fines 7.2/13.9; cover
+    // as channel (7.2 + 1.5)/13.9.
+    assert!(close(r.channel_proportion.expect("exposed"), 7.2 / 12.4));
+    let b = r.channel_proportion_bounds.expect("bounds");
+    assert!(close(b.covered_as_fines, 7.2 / 13.9) && close(b.covered_as_channel, 8.7 / 13.9), "{b:?}");
+}
+
+#[test]
+fn decompaction_reads_covered_intervals_as_the_lower_bound_does() {
+    // Sclater & Christie 1980 laws; covered slopes are usually mudrock (common practice), so the
+    // cover is decompacted as shale — the covered-as-fines reading — while the proportion stays
+    // of the exposed thickness, as the rules' own.
+    use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams};
+    let s = section("Censored", CENSORED);
+    let r = interpret(&s, &RuleParams::default());
+    let flags: Vec<bool> = r.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
+    let d = decompact_section(&s, 0.0, Some(&flags), &DecompactionParams::default()).expect("valid");
+    assert!(close(d.present_channel_proportion.expect("exposed"), r.channel_proportion.expect("exposed")));
+    assert!(close(d.covered_m, 1.5));
+    let a = d.covered_assumption.expect("the section has cover");
+    assert!(
+        a.contains("as shale") && a.contains("covered-as-fines") && a.contains("exposed thickness only"),
+        "{a}"
+    );
+}
+
+#[test]
+fn the_json_carries_the_new_results_under_their_contract_names() {
+    // `aggrade interpret --json` contract: channel_bodies[].stacking and .censored; paleosols
+    // [{base, top, maturity, beds}]; channel_proportion_bounds {covered_as_fines,
+    // covered_as_channel}; storeys [{base, top, body}].
+    let r = interpret(&section("Censored", CENSORED), &RuleParams::default());
+    let v = serde_json::to_value(&r).expect("serialises");
+    assert_eq!(v["channel_bodies"][0]["stacking"], "undetermined");
+    assert_eq!(v["channel_bodies"][0]["censored"], serde_json::json!(["base"]));
+    assert_eq!(v["channel_bodies"][2]["stacking"], "multi-story");
+    assert_eq!(v["storeys"][3]["body"], 2);
+    assert!(v["storeys"][0]["base"].is_number() && v["storeys"][0]["top"].is_number());
+    assert!(v["channel_proportion_bounds"]["covered_as_fines"].is_number());
+    assert!(v["channel_proportion_bounds"]["covered_as_channel"].is_number());
+    let r = interpret(&section("Horizons", HORIZONS), &RuleParams::default());
+    let v = serde_json::to_value(&r).expect("serialises");
+    assert_eq!(v["paleosols"][0]["maturity"], "very_strong");
+    assert_eq!(v["paleosols"][0]["beds"], serde_json::json!([2, 3]));
+    assert_eq!(
+        (v["paleosols"][0]["base"].as_f64(), v["paleosols"][0]["top"].as_f64()),
+        (Some(2.0), Some(3.8))
+    );
 }

@@ -1,11 +1,12 @@
 //! Property tests of the interpretation rules on generated sections: proportions stay in 0–1,
 //! bodies never overlap and lie inside the section, covered intervals between bodies change no
-//! channel-deposit thickness, and the unit thicknesses were entered in does not matter.
+//! channel-deposit thickness, and the unit thicknesses were entered in does not matter; storeys,
+//! bodies, censoring and stacking agree with each other and the proportion lies between its bounds.
 
 use aggrade_core::model::{
     Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, Section, WentworthClass,
 };
-use aggrade_core::rules::{interpret, Interpretation, RuleParams};
+use aggrade_core::rules::{interpret, Censor, Interpretation, RuleParams, Stacking};
 use proptest::prelude::*;
 
 /// One generated bed: thickness in centimetres (so the same section can be written exactly in
@@ -67,6 +68,37 @@ fn check_invariants(s: &Section, r: &Interpretation) -> Result<(), TestCaseError
         prop_assert_eq!(b.stories, b.storey_indices.len());
         prop_assert!(b.amalgamated_bases < b.stories);
         previous_top = b.top_m;
+    }
+    // Each storey names the body that lists it; stacking follows storeys and censoring; a body
+    // at the section base or top is censored there.
+    for (k, b) in r.channel_bodies.iter().enumerate() {
+        for &i in &b.storey_indices {
+            prop_assert_eq!(r.storeys[i].body, k);
+        }
+        let want = match (b.stories, b.censored.is_empty()) {
+            (n, _) if n >= 2 => Stacking::MultiStory,
+            (_, true) => Stacking::SingleStory,
+            (_, false) => Stacking::Undetermined,
+        };
+        prop_assert_eq!(b.stacking, want);
+        if b.base_m.abs() < 1e-12 {
+            prop_assert!(b.censored.contains(&Censor::Base), "body at the section base not censored");
+        }
+        // (A soil formed in the body's own top sand shows where that body ends: seen.)
+        let capped = b.storey_indices.last().is_some_and(|&i| r.storeys[i].capped_by_paleosol);
+        if (b.top_m - total).abs() < 1e-9 && !capped {
+            prop_assert!(b.censored.contains(&Censor::Top), "body at the section top not censored");
+        }
+    }
+    // Paleosol profiles are disjoint, lowest first, inside the section.
+    for w in r.paleosols.windows(2) {
+        prop_assert!(w[0].top_m <= w[1].base_m + 1e-9);
+    }
+    if let Some(b) = r.channel_proportion_bounds {
+        prop_assert!(b.covered_as_fines <= b.covered_as_channel + 1e-12);
+        if let Some(p) = r.channel_proportion {
+            prop_assert!(b.covered_as_fines <= p + 1e-9 && p <= b.covered_as_channel + 1e-9);
+        }
     }
     for c in &r.sequence_boundary_candidates {
         prop_assert!((0.0..=1.0).contains(&c.score));

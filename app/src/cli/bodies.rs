@@ -16,7 +16,8 @@ use std::path::{Path, PathBuf};
 pub struct BodiesArgs {
     /// Project file (.aggrade) or bed-table CSV.
     pub file: PathBuf,
-    /// Write the body table here (section, base, top, thickness, storeys, stacking, grain range).
+    /// Write the body table here (section, base, top, thickness, storeys, stacking, grain range,
+    /// censored ends).
     #[arg(long)]
     pub csv: PathBuf,
     /// Also write the moving-window channel-body proportion curve here.
@@ -87,7 +88,19 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
                 "thickness (m): mean {:.3}, median {:.3}, P10 {:.3}, P50 {:.3}, P90 {:.3}, min {:.3}, max {:.3}",
                 s.mean_m, s.median_m, s.p10_m, s.p50_m, s.p90_m, s.min_m, s.max_m
             )?;
-            writeln!(out, "stacking: {} multi-story, {} single-story", s.multi_story, s.single_story)?;
+            writeln!(
+                out,
+                "stacking: {} multi-story, {} single-story, {} undetermined",
+                s.multi_story, s.single_story, s.undetermined
+            )?;
+            if s.censored > 0 {
+                writeln!(
+                    out,
+                    "{} bod{} seen only in part (at the section base or top or a covered interval): their thickness is a minimum (marked in the censored column)",
+                    s.censored,
+                    if s.censored == 1 { "y" } else { "ies" }
+                )?;
+            }
             writeln!(
                 out,
                 "(percentiles by linear interpolation between order statistics, as numpy's default)"
@@ -100,6 +113,13 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
         let whole =
             i.channel_proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a (nothing exposed)".into());
         writeln!(out, "section {:?}: channel-body proportion {whole}", s.name)?;
+        if let Some(b) = i.channel_proportion_bounds.filter(|_| i.has_cover()) {
+            writeln!(
+                out,
+                "  of exposed thickness; {:.3} counting covered intervals as fines, {:.3} as channel deposits",
+                b.covered_as_fines, b.covered_as_channel
+            )?;
+        }
         for iv in &i.interval_proportions {
             let p = iv.proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
             writeln!(out, "  {:.2}–{:.2} m: {p}", iv.base_m, iv.top_m)?;
@@ -121,6 +141,9 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
             if !d.not_decompacted.is_empty() {
                 let names: Vec<&str> = d.not_decompacted.iter().map(|l| l.name()).collect();
                 writeln!(out, "  kept at present thickness (no porosity law): {}", names.join(", "))?;
+            }
+            if let Some(a) = &d.covered_assumption {
+                writeln!(out, "  {:.2} m covered: {a}", d.covered_m)?;
             }
         }
     }

@@ -1,9 +1,10 @@
 //! `aggrade interpret`: run the interpretation rules on one section and print a readable report
 //! or one JSON object.
 
+use aggrade_core::analysis::bodies::censor_name;
 use aggrade_core::model::{LengthUnit, Section};
 use aggrade_core::rules::{
-    interpret, CandidateKind, GrainProfile, Interpretation, Regime, RuleParams, Stacking,
+    interpret, CandidateKind, GrainProfile, Interpretation, MaturitySign, Regime, RuleParams,
 };
 use anyhow::{anyhow, bail, Context};
 use std::fmt::Write as _;
@@ -110,13 +111,6 @@ fn parse_params(text: &str, path: &Path) -> anyhow::Result<RuleParams> {
     serde_json::from_value(value).map_err(|e| anyhow!("{}: {e}", path.display()))
 }
 
-fn stacking_name(s: Stacking) -> &'static str {
-    match s {
-        Stacking::MultiStory => "multi-story",
-        Stacking::SingleStory => "single-story",
-    }
-}
-
 fn regime_name(r: Regime) -> &'static str {
     match r {
         Regime::Low => "low",
@@ -142,6 +136,11 @@ fn kind_name(k: CandidateKind) -> &'static str {
     }
 }
 
+/// A carbonate stage 1–6 as I–VI.
+fn roman(stage: u8) -> &'static str {
+    ["?", "I", "II", "III", "IV", "V", "VI"].get(stage as usize).copied().unwrap_or("?")
+}
+
 fn fmt_proportion(p: Option<f64>) -> String {
     p.map_or("n/a (no exposure)".to_string(), |p| format!("{p:.2}"))
 }
@@ -164,7 +163,7 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
         r.total_thickness_m,
         r.exposed_thickness_m,
         r.channel_thickness_m(),
-        fmt_proportion(r.channel_proportion)
+        r.proportion_text()
     );
 
     let _ = writeln!(s, "\nChannel bodies ({}):", r.channel_bodies.len());
@@ -177,14 +176,20 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
             (Some(f), Some(c)) => format!(", {} to {}", f.class().name(), c.class().name()),
             _ => String::new(),
         };
+        let censored = if b.is_censored() {
+            let ends: Vec<&str> = b.censored.iter().map(|c| censor_name(*c)).collect();
+            format!(" [{} not seen: thickness a minimum]", ends.join(" and "))
+        } else {
+            String::new()
+        };
         let _ = writeln!(
             s,
-            "  {}. {:.2}–{:.2} m ({:.2} m): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}",
+            "  {}. {:.2}–{:.2} m ({}): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}{censored}",
             k + 1,
             b.base_m,
             b.top_m,
-            b.thickness_m,
-            stacking_name(b.stacking),
+            b.thickness_text(),
+            b.stacking.name(),
             b.stories,
             if b.stories == 1 { "" } else { "s" },
             b.amalgamated_bases,
@@ -202,6 +207,37 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
                 h.evidence.iter().map(ToString::to_string).collect::<Vec<_>>().join("; ")
             );
         }
+    }
+
+    let _ = writeln!(s, "\nPaleosol profiles ({}):", r.paleosols.len());
+    if r.paleosols.is_empty() {
+        let _ = writeln!(s, "  none");
+    }
+    for (k, p) in r.paleosols.iter().enumerate() {
+        let mut why = vec![format!("logged {}", p.logged_development.name())];
+        if let Some(st) = p.carbonate_stage {
+            why.push(format!("carbonate stage {}", roman(st)));
+        }
+        for sign in &p.raised_by {
+            why.push(match sign {
+                MaturitySign::CarbonateStage => "raised by its carbonate stage".to_string(),
+                MaturitySign::VerticCalcic => "raised by slickensides with carbonate nodules".to_string(),
+            });
+        }
+        if p.on_sandstone {
+            why.push("on a sandstone top".to_string());
+        }
+        let _ = writeln!(
+            s,
+            "  {}. {:.2}–{:.2} m: {} maturity, {} bed{} ({})",
+            k + 1,
+            p.base_m,
+            p.top_m,
+            p.maturity.name(),
+            p.beds.len(),
+            if p.beds.len() == 1 { "" } else { "s" },
+            why.join(", ")
+        );
     }
 
     let _ = writeln!(s, "\nChannel-body proportion by interval:");

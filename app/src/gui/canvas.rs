@@ -7,7 +7,7 @@ use super::document::{Document, Edit};
 use super::engine::Strip;
 use super::painter::{self, ItemIndex, MmToScreen};
 use super::theme;
-use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 use egui::{Color32, CursorIcon, Pos2, Rect, Sense, Shape, Vec2};
 
 /// Width of the height ruler on the left, points.
@@ -514,6 +514,24 @@ pub fn bed_menu(ui: &mut egui::Ui, doc: &Document, bed: Option<BedId>, out: &mut
         out.edit(Edit::MergeWithAbove { bed });
         ui.close();
     }
+    ui.menu_button("Rank of base", |ui| {
+        let current = doc.section().beds[i].base_rank;
+        let ranks =
+            [None, Some(BaseRank::StoreySurface), Some(BaseRank::BodyBase), Some(BaseRank::WithinStorey)];
+        for rank in ranks {
+            let label = rank.map_or("rules decide", BaseRank::name);
+            if ui
+                .radio(current == rank, label)
+                .on_hover_text("Your rank overrides the storey and body rules")
+                .clicked()
+            {
+                let mut b = doc.section().beds[i].clone();
+                b.base_rank = rank;
+                out.edit(Edit::ReplaceBed { bed: b });
+                ui.close();
+            }
+        }
+    });
     ui.separator();
     if ui.button("Delete bed").on_hover_text("Remove this bed (Ctrl+Z brings it back)").clicked() {
         out.edit(Edit::DeleteBed { bed });

@@ -67,12 +67,15 @@ pub fn demo_section() -> Section {
         }
     }
     beds.push(fines(4.5, PaleosolDevelopment::Weak));
-    let mut splay = bed(0.6, Sandstone, FineSand, VeryFineSand);
-    splay.structures = vec![Structure::RippleCrossLamination];
+    // A proximal crevasse splay: thick, but gradational-based, coarsening up and rippled.
+    let mut splay = bed(1.5, Sandstone, VeryFineSand, FineSand);
+    splay.base_contact = Contact::Gradational;
+    splay.structures = vec![Structure::RippleCrossLamination, Structure::HorizontalLamination];
+    splay.notes = "proximal splay: climbing ripples, coarsening up".into();
     beds.push(splay);
     beds.push(fines(3.8, PaleosolDevelopment::Moderate));
     // Isolated fining-upward channels in thick fines.
-    for (t, fines_t) in [(3.6, 5.2), (2.8, 6.1)] {
+    for (k, (t, fines_t)) in [(3.6, 5.2), (2.8, 6.1)].into_iter().enumerate() {
         let mut b = bed(t, Sandstone, MediumSand, VeryFineSand);
         b.base_contact = Contact::Erosional;
         b.structures = vec![
@@ -81,6 +84,19 @@ pub fn demo_section() -> Section {
             Structure::RippleCrossLamination,
         ];
         b.paleocurrents_deg = vec![140.0, 155.0, 122.0];
+        if k == 1 {
+            // A soil on the sandstone top: its upper 0.6 m rooted and mottled.
+            b.thickness_m = t - 0.6;
+            beds.push(b);
+            let mut top = bed(0.6, Sandstone, VeryFineSand, VeryFineSand);
+            top.paleosol = PaleosolDevelopment::Moderate;
+            top.paleosol_features = vec![PaleosolFeature::RootTraces, PaleosolFeature::Rhizoliths];
+            top.notes = "rooted sandstone top: paleosol on the channel sand".into();
+            beds.push(top);
+            beds.push(bed(0.9, Siltstone, Silt, Silt));
+            beds.push(fines(fines_t, PaleosolDevelopment::Weak));
+            continue;
+        }
         beds.push(b);
         beds.push(bed(0.9, Siltstone, Silt, Silt));
         beds.push(fines(fines_t, PaleosolDevelopment::Weak));

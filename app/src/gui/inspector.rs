@@ -22,7 +22,7 @@ use super::theme;
 use aggrade_core::io::limits::MAX_STRING_CHARS;
 use aggrade_core::io::validate::MAX_BED_THICKNESS_M;
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, GrainSizeRule, LengthUnit, Lithology, PaleosolDevelopment,
+    BaseRank, Bed, BedId, Contact, GrainSize, GrainSizeRule, LengthUnit, Lithology, PaleosolDevelopment,
     PaleosolFeature, Section, Structure, Surface, SurfaceKind,
 };
 use std::collections::BTreeMap;
@@ -405,6 +405,11 @@ impl Inspector {
 
                 let label = ui.label("Basal contact").id;
                 combo(ui, label, "contact", &mut bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
+                ui.end_row();
+
+                let label = ui.label("Base rank").id;
+                let ranks = [None, Some(BaseRank::StoreySurface), Some(BaseRank::BodyBase), Some(BaseRank::WithinStorey)];
+                combo(ui, label, "base_rank", &mut bed.base_rank, &ranks, |r| r.map_or("rules decide", BaseRank::name), "Your rank for this base: a storey surface or a channel-body base starts a new storey (and body); within storey makes it a scour. Overrides the rules");
                 ui.end_row();
 
                 let lab = ui.label(Typed::Relief.label()).id;

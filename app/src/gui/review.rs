@@ -104,10 +104,19 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
         .color(theme::TEXT_DIM),
     );
     if let Some(p) = interp.channel_proportion {
+        let bounds = match interp.channel_proportion_bounds {
+            Some(b) if interp.has_cover() => format!(
+                " ({:.0}–{:.0} % counting covered intervals as fines or as channel)",
+                b.covered_as_fines * 100.0,
+                b.covered_as_channel * 100.0
+            ),
+            _ => String::new(),
+        };
         ui.label(format!(
-            "Channel-body proportion: {:.0} % of exposed thickness · {} channel bodies",
+            "Channel-body proportion: {:.0} % of exposed thickness{bounds} · {} channel bodies, {} paleosol profiles",
             p * 100.0,
-            interp.channel_bodies.len()
+            interp.channel_bodies.len(),
+            interp.paleosols.len()
         ));
     }
     ui.separator();

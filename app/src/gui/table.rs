@@ -7,7 +7,7 @@ use super::field::{mark_invalid, problem_label};
 use super::theme;
 use aggrade_core::io::limits::MAX_STRING_CHARS;
 use aggrade_core::io::validate::MAX_BED_THICKNESS_M;
-use aggrade_core::model::{Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 
 /// The fields of the entry row.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -313,8 +313,16 @@ impl BedTable {
                         theme::ACCENT,
                     );
                 }
+                // The geologist's rank of the base, when given: S storey surface, B body base,
+                // w within storey.
+                let rank = match b.base_rank {
+                    Some(BaseRank::StoreySurface) => " S",
+                    Some(BaseRank::BodyBase) => " B",
+                    Some(BaseRank::WithinStorey) => " w",
+                    None => "",
+                };
                 let cells = [
-                    format!("{}", i + 1),
+                    format!("{}{rank}", i + 1),
                     show_length(top, unit),
                     show_length(b.thickness_m, unit),
                     b.lithology.name().to_string(),
@@ -331,7 +339,13 @@ impl BedTable {
                     let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
                     p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
                 }
-                let r = r.on_hover_text("Click to select; right-click for insert, split, merge, delete");
+                let r = match b.base_rank {
+                    Some(rank) => r.on_hover_text(format!(
+                        "Base ranked {} by you. Click to select; right-click for insert, split, merge, rank, delete",
+                        rank.name()
+                    )),
+                    None => r.on_hover_text("Click to select; right-click for insert, split, merge, rank, delete"),
+                };
                 if r.clicked() {
                     // Selected here: the row is in view already, so the table stays put.
                     self.last_selected = Some(b.id);

@@ -10,7 +10,7 @@ use aggrade_core::analysis::bodies::{
 };
 use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams, SectionDecompaction};
 use aggrade_core::model::{GrainSize, Project};
-use aggrade_core::rules::{ChannelBody, Element, Interpretation, Stacking};
+use aggrade_core::rules::{ChannelBody, Element, Interpretation, ProportionBounds};
 
 /// Default burial depth offered, m (a round figure to start from; the user types the real one).
 pub const DEFAULT_BURIAL_DEPTH_M: f64 = 1000.0;
@@ -37,6 +37,9 @@ pub fn body_decompacted_thickness_m(
 pub struct SectionLine {
     pub name: String,
     pub channel_proportion: Option<f64>,
+    /// The proportion with covered intervals counted as fines and as channel, when some of the
+    /// section is covered.
+    pub bounds: Option<ProportionBounds>,
     /// (base m, top m, proportion) of each interval.
     pub intervals: Vec<(f64, f64, Option<f64>)>,
     /// `None` when decompaction is off; `Err` with the reason when it failed.
@@ -77,6 +80,7 @@ pub fn compute(project: &Project, interps: &[Interpretation], burial_depth_m: Op
         sections.push(SectionLine {
             name: s.name.clone(),
             channel_proportion: it.channel_proportion,
+            bounds: it.channel_proportion_bounds.filter(|_| it.has_cover()),
             intervals: it.interval_proportions.iter().map(|p| (p.base_m, p.top_m, p.proportion)).collect(),
             decompaction,
         });
@@ -105,13 +109,11 @@ pub fn row_cells(r: &BodyRow, decompacted_m: Option<f64>) -> Vec<String> {
         r.section.clone(),
         format!("{:.2}", r.base_m),
         format!("{:.2}", r.top_m),
-        format!("{:.2}", r.thickness_m),
+        r.thickness_text(),
         r.storeys.to_string(),
-        match r.stacking {
-            Stacking::MultiStory => "multi-story".into(),
-            Stacking::SingleStory => "single-story".into(),
-        },
+        r.stacking.name().to_string(),
         format!("{} – {}", grain(r.grain_finest), grain(r.grain_coarsest)),
+        if r.censored.is_empty() { "–".to_string() } else { r.censored_text() },
     ];
     if let Some(d) = decompacted_m {
         cells.push(format!("{d:.2}"));
@@ -273,7 +275,7 @@ impl BodiesView {
                     vec![
                         what.to_string(),
                         s.count.to_string(),
-                        format!("{} / {}", s.multi_story, s.single_story),
+                        format!("{} / {} / {}", s.multi_story, s.single_story, s.undetermined),
                         format!("{:.2}", s.mean_m),
                         format!("{:.2}", s.median_m),
                         format!("{:.2}", s.p10_m),
@@ -289,7 +291,17 @@ impl BodiesView {
             text_table(
                 ui,
                 "bodies_summary",
-                &["thickness (m)", "count", "multi / single", "mean", "median", "P10", "P50", "P90", "range"],
+                &[
+                    "thickness (m)",
+                    "count",
+                    "multi / single / undetermined",
+                    "mean",
+                    "median",
+                    "P10",
+                    "P50",
+                    "P90",
+                    "range",
+                ],
                 &summary_rows,
             );
             ui.label(
@@ -304,7 +316,16 @@ impl BodiesView {
         ui.heading("Proportions");
         let mut rows = Vec::new();
         for s in &r.sections {
-            let mut row = vec![s.name.clone(), "whole section".into(), fmt_proportion(s.channel_proportion)];
+            let whole = match s.bounds {
+                Some(b) => format!(
+                    "{} ({:.2} covered as fines, {:.2} as channel)",
+                    fmt_proportion(s.channel_proportion),
+                    b.covered_as_fines,
+                    b.covered_as_channel
+                ),
+                None => fmt_proportion(s.channel_proportion),
+            };
+            let mut row = vec![s.name.clone(), "whole section (exposed)".into(), whole];
             match &s.decompaction {
                 Some(Ok(d)) => row.push(format!(
                     "{} ({:.2} → {:.2} m)",
@@ -327,6 +348,13 @@ impl BodiesView {
         text_table(ui, "bodies_proportions", &header, &rows);
         for s in &r.sections {
             if let Some(Ok(d)) = &s.decompaction {
+                if let Some(a) = &d.covered_assumption {
+                    ui.label(
+                        egui::RichText::new(format!("{}: {:.2} m covered: {a}", s.name, d.covered_m))
+                            .small()
+                            .color(theme::TEXT_DIM),
+                    );
+                }
                 if !d.not_decompacted.is_empty() {
                     let names: Vec<&str> = d.not_decompacted.iter().map(|l| l.name()).collect();
                     ui.label(
@@ -351,6 +379,7 @@ impl BodiesView {
             "storeys",
             "stacking",
             "grain (finest – coarsest)",
+            "end not seen",
         ];
         if r.decompacted_m.iter().any(Option::is_some) {
             header.push("decompacted (m)");
@@ -358,6 +387,15 @@ impl BodiesView {
         let rows: Vec<Vec<String>> =
             r.rows.iter().zip(&r.decompacted_m).map(|(b, d)| row_cells(b, *d)).collect();
         text_table(ui, "bodies_table", &header, &rows);
+        if r.summary.as_ref().is_some_and(|s| s.censored > 0) {
+            ui.label(
+                egui::RichText::new(
+                    "≥: the body is cut by the section's base or top or by a covered interval; its thickness is a minimum.",
+                )
+                .small()
+                .color(theme::TEXT_DIM),
+            );
+        }
         ui.add_space(6.0);
         caution(ui);
     }
@@ -412,9 +450,9 @@ mod tests {
         let (p, i) = demo();
         let r = compute(&p, &i, None);
         let cells = row_cells(&r.rows[0], None);
-        assert_eq!(cells.len(), 7);
+        assert_eq!(cells.len(), 8);
         assert_eq!(cells[0], r.rows[0].section);
-        assert!(cells[5] == "multi-story" || cells[5] == "single-story");
-        assert_eq!(row_cells(&r.rows[0], Some(1.234))[7], "1.23");
+        assert!(["multi-story", "single-story", "undetermined"].contains(&cells[5].as_str()));
+        assert_eq!(row_cells(&r.rows[0], Some(1.234))[8], "1.23");
     }
 }

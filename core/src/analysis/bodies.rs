@@ -5,7 +5,7 @@
 //! sorted values and fraction q, position h = (n − 1)·q, value x[⌊h⌋] + (h − ⌊h⌋)(x[⌊h⌋+1] − x[⌊h⌋]).
 
 use crate::model::{GrainSize, Section};
-use crate::rules::{ChannelBody, CurvePoint, IntervalProportion, Stacking};
+use crate::rules::{Censor, ChannelBody, CurvePoint, IntervalProportion, Stacking};
 use serde::Serialize;
 use std::io::Write;
 
@@ -23,6 +23,29 @@ pub struct BodyRow {
     pub stacking: Stacking,
     pub grain_finest: Option<GrainSize>,
     pub grain_coarsest: Option<GrainSize>,
+    /// Ends of the body not seen; when not empty the thickness is a minimum.
+    pub censored: Vec<Censor>,
+}
+
+impl BodyRow {
+    /// The thickness as shown: "≥ 4.20" for a censored body (a minimum), "4.20" otherwise.
+    pub fn thickness_text(&self) -> String {
+        let at_least = if self.censored.is_empty() { "" } else { "\u{2265} " };
+        format!("{at_least}{:.2}", self.thickness_m)
+    }
+
+    /// The censored ends as written in tables: "base", "top", "base; top" or "".
+    pub fn censored_text(&self) -> String {
+        self.censored.iter().map(|c| censor_name(*c)).collect::<Vec<_>>().join("; ")
+    }
+}
+
+/// "base" or "top".
+pub fn censor_name(c: Censor) -> &'static str {
+    match c {
+        Censor::Base => "base",
+        Censor::Top => "top",
+    }
 }
 
 /// The body table of a project: every body of every section, sections in the order given,
@@ -41,6 +64,7 @@ pub fn body_table<'a>(sections: impl IntoIterator<Item = (&'a str, &'a [ChannelB
                 stacking: b.stacking,
                 grain_finest: b.grain_finest,
                 grain_coarsest: b.grain_coarsest,
+                censored: b.censored.clone(),
             })
             .collect();
         mine.sort_by(|a, b| a.base_m.total_cmp(&b.base_m));
@@ -77,6 +101,10 @@ pub struct ThicknessSummary {
     pub count: usize,
     pub multi_story: usize,
     pub single_story: usize,
+    /// Bodies seen only in part with one storey: stacking undetermined.
+    pub undetermined: usize,
+    /// Bodies with an end not seen (their thickness is a minimum, so the statistics are too).
+    pub censored: usize,
     pub mean_m: f64,
     pub median_m: f64,
     pub p10_m: f64,
@@ -95,6 +123,8 @@ pub fn thickness_summary(rows: &[BodyRow]) -> Option<ThicknessSummary> {
         count,
         multi_story: rows.iter().filter(|r| r.stacking == Stacking::MultiStory).count(),
         single_story: rows.iter().filter(|r| r.stacking == Stacking::SingleStory).count(),
+        undetermined: rows.iter().filter(|r| r.stacking == Stacking::Undetermined).count(),
+        censored: rows.iter().filter(|r| !r.censored.is_empty()).count(),
         mean_m: t.iter().sum::<f64>() / count as f64,
         median_m: p(0.5)?,
         p10_m: p(0.1)?,
@@ -176,7 +206,9 @@ fn fmt_opt(v: Option<f64>) -> String {
     v.map(|p| format!("{p:.4}")).unwrap_or_default()
 }
 
-/// Write the body table as CSV (heights and thicknesses in metres, 3 decimals).
+/// Write the body table as CSV (heights and thicknesses in metres, 3 decimals). `censored` names
+/// the ends not seen (`base`, `top`, `base;top`); where it is not empty the thickness is a
+/// minimum.
 pub fn write_bodies_csv<W: Write>(rows: &[BodyRow], out: W) -> Result<(), CsvWriteError> {
     let mut w = csv::Writer::from_writer(out);
     w.write_record([
@@ -188,12 +220,10 @@ pub fn write_bodies_csv<W: Write>(rows: &[BodyRow], out: W) -> Result<(), CsvWri
         "stacking",
         "grain_finest",
         "grain_coarsest",
+        "censored",
     ])?;
     for r in rows {
-        let stacking = match r.stacking {
-            Stacking::MultiStory => "multi-story",
-            Stacking::SingleStory => "single-story",
-        };
+        let stacking = r.stacking.name();
         let grain = |g: Option<GrainSize>| g.map(|g| escape_text_cell(&g.to_string())).unwrap_or_default();
         w.write_record([
             escape_text_cell(&r.section),
@@ -204,6 +234,7 @@ pub fn write_bodies_csv<W: Write>(rows: &[BodyRow], out: W) -> Result<(), CsvWri
             stacking.to_string(),
             grain(r.grain_finest),
             grain(r.grain_coarsest),
+            r.censored.iter().map(|c| censor_name(*c)).collect::<Vec<_>>().join(";"),
         ])?;
     }
     w.flush()?;
@@ -256,6 +287,7 @@ mod tests {
             thickness_m: top - base,
             stories,
             stacking: if stories > 1 { Stacking::MultiStory } else { Stacking::SingleStory },
+            censored: Vec::new(),
             amalgamated_bases: stories.saturating_sub(1),
             grain_finest: None,
             grain_coarsest: None,
@@ -312,7 +344,17 @@ mod tests {
         write_bodies_csv(&rows, &mut buf).expect("in memory");
         let text = String::from_utf8(buf).expect("utf8");
         assert!(text.contains("\"'=HYPERLINK(\"\"x\"\")\""), "{text}");
-        assert!(text.contains(",0.000,1.500,1.500,1,single-story,,"), "{text}");
+        assert!(text.contains(",0.000,1.500,1.500,1,single-story,,,"), "{text}");
+        // A censored body: its ends are named and its thickness shown as a minimum.
+        let mut cut = body(0.0, 1.5, 1);
+        cut.stacking = Stacking::Undetermined;
+        cut.censored = vec![Censor::Base, Censor::Top];
+        let rows = body_table([("K", std::slice::from_ref(&cut))]);
+        let mut buf = Vec::new();
+        write_bodies_csv(&rows, &mut buf).expect("in memory");
+        let text = String::from_utf8(buf).expect("utf8");
+        assert!(text.contains("K,0.000,1.500,1.500,1,undetermined,,,base;top"), "{text}");
+        assert_eq!(rows[0].thickness_text(), "\u{2265} 1.50");
         assert_eq!(escape_text_cell("-1"), "'-1");
         assert_eq!(escape_text_cell("Kestrel"), "Kestrel");
     }

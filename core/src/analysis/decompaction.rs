@@ -148,7 +148,9 @@ impl Default for DecompactionParams {
     /// sizes); sandstone and conglomerate/breccia as sandstone; limestone and dolostone as chalk
     /// (a crude stand-in: Sclater & Christie give no law for other carbonates); covered intervals
     /// as shale, because covered slopes in river successions are usually recessive mudrock
-    /// (common practice). Coal, evaporite and tuff have no law here.
+    /// (common practice) — the same reading as the rules' `covered_as_fines` bound of the
+    /// channel-body proportion; the decompacted proportion itself, like the rules' own, is of the
+    /// exposed thickness only. Coal, evaporite and tuff have no law here.
     fn default() -> Self {
         use Lithology::*;
         let laws = [
@@ -192,6 +194,25 @@ pub struct SectionDecompaction {
     pub decompacted_channel_proportion: Option<f64>,
     /// Lithologies kept at their present thickness for want of a law.
     pub not_decompacted: Vec<Lithology>,
+    /// Present thickness of covered intervals, m.
+    pub covered_m: f64,
+    /// What was assumed for covered intervals, in words (`None` when there are none).
+    pub covered_assumption: Option<String>,
+}
+
+/// What decompaction assumes for covered intervals under these laws, in words.
+pub fn covered_assumption(params: &DecompactionParams) -> String {
+    let proportion = "left out of the channel-body proportion, which is of the exposed thickness only";
+    match params.laws.get(&Lithology::Covered) {
+        Some(law) if *law == PorosityLaw::SHALE => format!(
+            "covered intervals decompacted as shale (read as mudrock, as the covered-as-fines bound) and {proportion}"
+        ),
+        Some(law) => format!(
+            "covered intervals decompacted with surface porosity {:.2} and c = {:.2}/km, and {proportion}",
+            law.surface_porosity, law.coefficient_per_km
+        ),
+        None => format!("covered intervals kept at their present thickness and {proportion}"),
+    }
 }
 
 /// Decompact a whole section whose top is now `burial_depth_m` below the surface: every bed
@@ -258,7 +279,10 @@ pub fn decompact_section(
         let channel: f64 = beds.iter().filter(|b| flags[b.bed_index]).map(thick).sum();
         (exposed > 0.0).then(|| channel / exposed)
     };
+    let covered_m: f64 = section.beds.iter().filter(|b| b.is_covered()).map(|b| b.thickness_m).sum();
     Ok(SectionDecompaction {
+        covered_m,
+        covered_assumption: (covered_m > 0.0).then(|| covered_assumption(params)),
         burial_depth_m,
         present_thickness_m: depth_now - burial_depth_m,
         decompacted_thickness_m: depth_then,
@@ -343,6 +367,20 @@ mod tests {
         let flags = [false, true, false];
         let r = decompact_section(&s, 2000.0, Some(&flags), &DecompactionParams::default()).expect("valid");
         assert_eq!(r.not_decompacted, vec![Lithology::Coal]);
+        assert_eq!((r.covered_m, r.covered_assumption.as_deref()), (0.0, None));
+        let mut with_cover = s.clone();
+        with_cover.beds.push(Bed::new(BedId(4), 2.0, Lithology::Covered, None));
+        let c = decompact_section(
+            &with_cover,
+            2000.0,
+            Some(&[false, true, false, false]),
+            &DecompactionParams::default(),
+        )
+        .expect("valid");
+        assert_eq!(c.covered_m, 2.0);
+        assert!(c.covered_assumption.as_deref().is_some_and(|a| a.contains("as shale")), "{c:?}");
+        // The proportion stays exposed-only: the same 10 m of channel over 25 m exposed today.
+        assert!((c.present_channel_proportion.expect("exposed") - 0.4).abs() < 1e-12);
         assert_eq!(r.beds[2].decompacted_thickness_m, 5.0);
         assert!((r.present_channel_proportion.expect("exposed") - 0.4).abs() < 1e-12);
         // Mudstone loses more porosity with depth than sandstone, so restoring it lowers the

@@ -15,7 +15,10 @@
 //! - `paleocurrents`: azimuths in degrees (0–360) separated by `;`;
 //! - `surface`: name of a surface at the bed's base; `surface_kind` (optional): its kind, else
 //!   inferred by [`infer_surface_kind`];
-//! - `colour` (or `color`), `fossils`, `notes`: free text.
+//! - `colour` (or `color`), `fossils`, `notes`: free text;
+//! - `base_rank` (optional): the geologist's rank for the bed's base — `storey surface`, `body
+//!   base` or `within storey` — overriding the rules' reading; empty leaves it to the rules.
+//!   Written only when some bed has one, so other tables are written as before.
 //!
 //! There is no header block: the section takes its name from the caller (the file stem) and its
 //! display unit from the thickness column (ft for `thickness_ft`, cm for `thickness_cm`).
@@ -39,8 +42,8 @@ use super::problem::Problem;
 use super::validate::validate_section;
 use crate::model::grain::normalise_term;
 use crate::model::{
-    Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section,
-    Structure, Surface, SurfaceKind,
+    BaseRank, Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
+    Section, Structure, Surface, SurfaceKind,
 };
 use std::collections::HashMap;
 
@@ -52,7 +55,7 @@ pub const THICKNESS_COLUMNS: [(&str, LengthUnit); 3] = [
 ];
 
 /// Every column the reader understands (besides the alias `color` for `colour`).
-pub const KNOWN_COLUMNS: [&str; 20] = [
+pub const KNOWN_COLUMNS: [&str; 21] = [
     "thickness_m",
     "thickness_cm",
     "thickness_ft",
@@ -73,6 +76,7 @@ pub const KNOWN_COLUMNS: [&str; 20] = [
     "fossils",
     "samples",
     "notes",
+    "base_rank",
 ];
 
 /// A bed table read successfully.
@@ -440,6 +444,16 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             Structure::parse,
             Structure::valid_list,
         );
+        let base_rank = match columns.cell(&record, "base_rank").unwrap_or("") {
+            "" => None,
+            cell => BaseRank::parse(cell).or_else(|| {
+                row.bad(
+                    "base_rank",
+                    format!("{cell:?} is not known; valid values are {}", BaseRank::valid_list()),
+                );
+                None
+            }),
+        };
         let paleosol = match columns.cell(&record, "paleosol").unwrap_or("") {
             "" => PaleosolDevelopment::None,
             cell => PaleosolDevelopment::parse(cell).unwrap_or_else(|| {
@@ -512,6 +526,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         bed.grain_top = grain_top;
         bed.structures = structures;
         bed.base_contact = base_contact;
+        bed.base_rank = base_rank;
         bed.base_relief_m = base_relief_m;
         bed.paleosol = paleosol;
         bed.paleosol_features = paleosol_features;
@@ -621,8 +636,15 @@ pub fn write_bed_table(section: &Section) -> String {
         .unwrap_or(THICKNESS_COLUMNS[0]);
     // The known columns in their order, with the one thickness column this section uses and the
     // base/top grain pair rather than the single `grain` shorthand.
+    // `base_rank` only when some bed has one: tables without ranks are written as before.
+    let ranks = section.beds.iter().any(|b| b.base_rank.is_some());
     let header: Vec<&str> = std::iter::once(tcol)
-        .chain(KNOWN_COLUMNS.iter().copied().filter(|c| !c.starts_with("thickness_") && *c != "grain"))
+        .chain(
+            KNOWN_COLUMNS
+                .iter()
+                .copied()
+                .filter(|c| !c.starts_with("thickness_") && *c != "grain" && (ranks || *c != "base_rank")),
+        )
         .collect();
     let mut out = header.join(",");
     out.push('\n');
@@ -648,7 +670,9 @@ pub fn write_bed_table(section: &Section) -> String {
             join(bed.samples.iter().map(|s| escape_formula(s)).collect()),
             escape_formula(&bed.notes),
         ];
-        out.push_str(&cells.iter().map(|c| quote(c)).collect::<Vec<_>>().join(","));
+        let rank = bed.base_rank.map(|r| r.name().to_string()).unwrap_or_default();
+        let rank = ranks.then_some(rank);
+        out.push_str(&cells.iter().chain(rank.as_ref()).map(|c| quote(c)).collect::<Vec<_>>().join(","));
         out.push('\n');
     }
     out
@@ -755,5 +779,28 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
         // The same short row ending with a line break is a row with its last cells left empty.
         let read = read_bed_table(&format!("{cut},fine sand\n"), "x").expect("reads");
         assert_eq!(read.section.beds.len(), 2);
+    }
+
+    #[test]
+    fn base_rank_is_read_written_only_when_used_and_bad_values_are_named() {
+        let read = read_bed_table(TABLE, "Pell Butte").expect("valid table");
+        assert!(!write_bed_table(&read.section).contains("base_rank"), "no ranks, no column");
+        let text = "thickness_m,lithology,grain,base_contact,Base Rank\n\
+                    1,sandstone,fine sand,erosional,storey surface\n\
+                    1,sandstone,fine sand,erosional,within_storey\n2,mudstone,silt,,\n";
+        let s = read_bed_table(text, "x").expect("valid").section;
+        let ranks: Vec<Option<BaseRank>> = s.beds.iter().map(|b| b.base_rank).collect();
+        assert_eq!(ranks, vec![Some(BaseRank::StoreySurface), Some(BaseRank::WithinStorey), None]);
+        let written = write_bed_table(&s);
+        assert!(written.lines().next().is_some_and(|h| h.ends_with(",notes,base_rank")), "{written}");
+        assert_eq!(read_bed_table(&written, "x").expect("reads back").section.beds, s.beds);
+        let bad = "thickness_m,lithology,grain,base_rank\n1,sandstone,fine sand,channel floor\n";
+        let problems = read_bed_table(bad, "x").expect_err("refused");
+        assert_eq!((problems[0].line, problems[0].location.as_str()), (Some(2), "column base_rank"));
+        assert!(
+            problems[0].message.contains("storey surface, body base, within storey"),
+            "{}",
+            problems[0].message
+        );
     }
 }

@@ -6,8 +6,8 @@
 use super::json_scan::{array_items, object_fields};
 use super::problem::Problem;
 use crate::model::{
-    Bed, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Project,
-    ReviewDecision, Section, Structure, Surface,
+    BaseRank, Bed, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
+    Project, ReviewDecision, Section, Structure, Surface,
 };
 use serde::de::{DeserializeOwned, MapAccess, SeqAccess, Visitor};
 use serde::Deserialize;
@@ -84,6 +84,7 @@ const BED_FIELDS: &[(&str, Kind)] = &[
     ("paleosol_features", Kind::List(check::<PaleosolFeature>)),
     ("carbonate_stage", Kind::Optional(check::<Option<u8>>)),
     ("base_surface", Kind::Optional(check::<Option<Surface>>)),
+    ("base_rank", Kind::Optional(check::<Option<BaseRank>>)),
     ("colour", Kind::Optional(check::<String>)),
     ("paleocurrents_deg", Kind::List(check::<f64>)),
     ("fossils", Kind::Optional(check::<String>)),

@@ -14,7 +14,7 @@ use super::transform::{GrainScale, HeightTransform};
 use crate::model::{
     Bed, Contact, LengthUnit, Lithology, PaleosolDevelopment, ReviewState, Section, WentworthClass,
 };
-use crate::rules::{Interpretation, Regime, Stacking};
+use crate::rules::{Censor, ChannelBody, Interpretation, Regime, Stacking};
 use serde::Serialize;
 
 /// Phi at which beds with no grain size (non-clastic rocks logged without one, covered
@@ -145,6 +145,8 @@ pub struct ColumnCtx<'a> {
     pub curve_axes: Vec<Option<ValueAxis>>,
     /// Search indices, so a segment visits only the interpretation items near its heights.
     pub spans: InterpretationSpans,
+    /// True for each bed that belongs to a paleosol profile (drawn as one mark per profile).
+    pub in_profile: Vec<bool>,
 }
 
 /// Phi of a bed's right edge at its base and top.
@@ -185,7 +187,24 @@ impl<'a> ColumnCtx<'a> {
         let curve_axes = section.curves.iter().map(|c| ValueAxis::for_curve(c, 0.0, h)).collect();
         let tracks = Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
         let spans = InterpretationSpans::new(interp);
-        ColumnCtx { section, interp, opts, tracks, bases_m, tops_m, total_m: h, curve_axes, spans }
+        let mut in_profile = vec![false; section.beds.len()];
+        for p in &interp.paleosols {
+            for slot in in_profile.iter_mut().take(p.last_bed + 1).skip(p.first_bed) {
+                *slot = true;
+            }
+        }
+        ColumnCtx {
+            section,
+            interp,
+            opts,
+            tracks,
+            bases_m,
+            tops_m,
+            total_m: h,
+            curve_axes,
+            spans,
+            in_profile,
+        }
     }
 
     /// Drop curve tracks (the last ones first) until a segment is at most `max_width_mm` wide;
@@ -253,6 +272,7 @@ impl<'a> ColumnCtx<'a> {
         for i in self.beds_in(lo, hi) {
             self.draw_bed(i, lo, hi, x0, t, &g, out, boxes);
         }
+        self.draw_paleosol_profiles(lo, hi, x0, t, out);
         // Left edge of the column.
         out.push(Item::Polyline {
             points: vec![PtMm { x: xl, y: y_lo }, PtMm { x: xl, y: y_hi }],
@@ -382,7 +402,8 @@ impl<'a> ColumnCtx<'a> {
         let y_mid = (yb + yt) / 2.0;
         self.draw_structures(bed, x0, y_mid, h_mm, out);
         self.draw_paleocurrents(bed, x0, y_mid, h_mm, out);
-        if bed.paleosol != PaleosolDevelopment::None {
+        // Beds of a profile are drawn as one mark by `draw_paleosol_profiles`.
+        if bed.paleosol != PaleosolDevelopment::None && !self.in_profile.get(i).copied().unwrap_or(false) {
             let tr = self.tracks.paleosols;
             let w = paleosol_bar_mm(bed.paleosol);
             out.push(Item::Rect {
@@ -390,6 +411,33 @@ impl<'a> ColumnCtx<'a> {
                 fill: Some(PALEOSOL_BROWN),
                 stroke: None,
             });
+        }
+    }
+
+    /// One mark per paleosol profile in the paleosol track: a bar as wide as the profile's
+    /// maturity over its whole height (however many beds its horizons were logged as), outlined,
+    /// with a tick at the profile's top.
+    fn draw_paleosol_profiles(&self, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+        let tr = self.tracks.paleosols;
+        for p in &self.interp.paleosols[self.spans.paleosols.range(lo, hi)] {
+            let (b, tp) = (p.base_m.max(lo), p.top_m.min(hi));
+            if tp.is_nan() || b.is_nan() || tp <= b {
+                continue;
+            }
+            let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
+            let w = paleosol_bar_mm(p.maturity).max(0.6);
+            let x = x0 + tr.x_mm + 0.5;
+            out.push(Item::Rect {
+                rect: RectMm { x, y: yt, w, h: yb - yt },
+                fill: Some(PALEOSOL_BROWN),
+                stroke: Some(solid(HAIR_MM, INK)),
+            });
+            if p.top_m <= hi + 1e-9 {
+                out.push(Item::Polyline {
+                    points: vec![PtMm { x: x - 0.4, y: yt }, PtMm { x: x + tr.w_mm - 0.6, y: yt }],
+                    stroke: solid(THIN_MM, INK),
+                });
+            }
         }
     }
 
@@ -449,16 +497,17 @@ impl<'a> ColumnCtx<'a> {
             for body in &self.interp.channel_bodies[self.spans.channel_bodies.range(lo, hi)] {
                 if let Some((b, tp)) = clip(body.base_m, body.top_m) {
                     let (yb, yt) = (t.y_mm(b), t.y_mm(tp));
-                    bracket(x, yb, yt, body.base_m >= lo, body.top_m <= hi, 1.5, LINE_MM * 1.4, out);
-                    let label = match body.stacking {
-                        Stacking::MultiStory => format!("multi-story ({})", body.stories),
-                        Stacking::SingleStory => "single-story".to_string(),
+                    let end = |inside: bool, censored: bool| match (inside, censored) {
+                        (false, _) => BracketEnd::Cut,
+                        (true, true) => BracketEnd::Open,
+                        (true, false) => BracketEnd::Tick,
                     };
-                    let short = match body.stacking {
-                        Stacking::MultiStory => format!("MS{}", body.stories),
-                        Stacking::SingleStory => "SS".to_string(),
-                    };
-                    for candidate in [label, short] {
+                    let ends = (
+                        end(body.base_m >= lo, body.censored.contains(&Censor::Base)),
+                        end(body.top_m <= hi, body.censored.contains(&Censor::Top)),
+                    );
+                    body_bracket(x, yb, yt, ends, 1.5, LINE_MM * 1.4, out);
+                    for candidate in body_labels(body) {
                         if let Some(size) = fit_size(&candidate, yb - yt - 1.0, SMALL_PT, 4.0) {
                             let w = super::text::width(&candidate, size);
                             let asc = size * 0.353 * 0.76;
@@ -741,6 +790,56 @@ pub fn paleosol_bar_mm(dev: PaleosolDevelopment) -> f64 {
         PaleosolDevelopment::Moderate => 2.4,
         PaleosolDevelopment::Strong => 3.6,
         PaleosolDevelopment::VeryStrong => 4.8,
+    }
+}
+
+/// How one end of a body bracket is drawn.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BracketEnd {
+    /// The body ends here: a tick pointing left.
+    Tick,
+    /// The body runs on beyond the segment: no tick.
+    Cut,
+    /// The body's end is not seen (section base or top, covered interval): no tick, and the line
+    /// runs on beyond the end as a dotted stub.
+    Open,
+}
+
+/// Labels for a body, longest first: the stacking with its thickness ("≥" before a censored
+/// one), the stacking alone, a short code.
+pub fn body_labels(body: &ChannelBody) -> [String; 3] {
+    let (long, short) = match body.stacking {
+        Stacking::MultiStory => (format!("multi-story ({})", body.stories), format!("MS{}", body.stories)),
+        Stacking::SingleStory => ("single-story".to_string(), "SS".to_string()),
+        Stacking::Undetermined => ("1 storey seen".to_string(), "\u{2265}1".to_string()),
+    };
+    let thick = if body.is_censored() {
+        format!("\u{2265}{:.1}", body.thickness_m)
+    } else {
+        format!("{:.1}", body.thickness_m)
+    };
+    [format!("{long}, {}", body.thickness_text()), format!("{short} {thick} m"), short]
+}
+
+/// A body bracket at x from yb (base) to yt (top) with the given ends (base, top).
+pub fn body_bracket(
+    x: f64,
+    yb: f64,
+    yt: f64,
+    (base, top): (BracketEnd, BracketEnd),
+    tick: f64,
+    width: f64,
+    out: &mut Vec<Item>,
+) {
+    bracket(x, yb, yt, base == BracketEnd::Tick, top == BracketEnd::Tick, tick, width, out);
+    let stub = 2.2_f64.min((yb - yt).abs() / 2.0 + 1.0);
+    for (end, y, dir) in [(base, yb, 1.0), (top, yt, -1.0)] {
+        if end == BracketEnd::Open {
+            out.push(Item::Polyline {
+                points: vec![PtMm { x, y }, PtMm { x, y: y + dir * stub }],
+                stroke: dashed(width, BODY_BLUE, &[0.45, 0.45]),
+            });
+        }
     }
 }
 

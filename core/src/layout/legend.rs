@@ -21,6 +21,8 @@ pub enum LegendEntry {
     Paleosol(PaleosolDevelopment),
     Storey,
     Body(Stacking),
+    /// A channel body with an end not seen (open bracket end, "≥" thickness).
+    CensoredBody,
     ProportionCurve,
     IntervalProportion,
     Regime(Regime),
@@ -44,6 +46,7 @@ impl LegendEntry {
             LegendEntry::Paleosol(d) => (4, d as usize),
             LegendEntry::Storey => (5, 0),
             LegendEntry::Body(b) => (6, b as usize),
+            LegendEntry::CensoredBody => (6, 9),
             LegendEntry::ProportionCurve => (7, 0),
             LegendEntry::IntervalProportion => (7, 1),
             LegendEntry::Regime(r) => (8, r as usize),
@@ -64,6 +67,8 @@ impl LegendEntry {
             LegendEntry::Storey => "storey".into(),
             LegendEntry::Body(Stacking::MultiStory) => "channel body, multi-story".into(),
             LegendEntry::Body(Stacking::SingleStory) => "channel body, single-story".into(),
+            LegendEntry::Body(Stacking::Undetermined) => "channel body, stacking undetermined".into(),
+            LegendEntry::CensoredBody => "body end not seen: thickness \u{2265}".into(),
             LegendEntry::ProportionCurve => "channel-body proportion (window)".into(),
             LegendEntry::IntervalProportion => "proportion per interval".into(),
             LegendEntry::Regime(Regime::Low) => "low accommodation".into(),
@@ -94,16 +99,21 @@ pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
         } else if n > 0 {
             v.push(LegendEntry::PaleocurrentArrow);
         }
-        if bed.paleosol != PaleosolDevelopment::None {
+        if bed.paleosol != PaleosolDevelopment::None && !ctx.in_profile.get(i).copied().unwrap_or(false) {
             v.push(LegendEntry::Paleosol(bed.paleosol));
         }
     }
+    // Profiles are drawn at their maturity.
+    v.extend(ctx.interp.paleosols.iter().map(|p| LegendEntry::Paleosol(p.maturity)));
     if ctx.opts.show_interpretation {
         let it = ctx.interp;
         if !it.storeys.is_empty() {
             v.push(LegendEntry::Storey);
         }
         v.extend(it.channel_bodies.iter().map(|b| LegendEntry::Body(b.stacking)));
+        if it.channel_bodies.iter().any(|b| b.is_censored()) {
+            v.push(LegendEntry::CensoredBody);
+        }
         if it.proportion_curve.iter().any(|p| p.proportion.is_some()) {
             v.push(LegendEntry::ProportionCurve);
         }
@@ -181,6 +191,7 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
             let (w, label) = match e {
                 LegendEntry::Storey => (THIN_MM, None),
                 LegendEntry::Body(Stacking::MultiStory) => (LINE_MM * 1.4, Some("MS")),
+                LegendEntry::Body(Stacking::Undetermined) => (LINE_MM * 1.4, Some("\u{2265}1")),
                 _ => (LINE_MM * 1.4, Some("SS")),
             };
             let x = r.x + 2.5;
@@ -196,6 +207,18 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
             if let Some(l) = label {
                 text(out, x + 1.2, r.y + 2.9, l, SMALL_PT, BODY_BLUE);
             }
+        }
+        LegendEntry::CensoredBody => {
+            let x = r.x + 2.5;
+            super::column::body_bracket(
+                x,
+                r.y + r.h,
+                r.y + 1.2,
+                (super::column::BracketEnd::Tick, super::column::BracketEnd::Open),
+                1.2,
+                LINE_MM * 1.4,
+                out,
+            );
         }
         LegendEntry::ProportionCurve => out.push(Item::Polyline {
             points: vec![

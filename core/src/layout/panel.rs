@@ -27,7 +27,10 @@
 //!   name nor a label are paired in stratigraphic order when both sections have the same number
 //!   of them; otherwise a note says they are not tied.
 
-use super::column::{boundary_style, ColumnCtx, Track, Tracks, SCALE_BAND_MM, TITLE_BAND_MM};
+use super::column::{
+    body_bracket, body_labels, boundary_style, BracketEnd, ColumnCtx, Track, Tracks, SCALE_BAND_MM,
+    TITLE_BAND_MM,
+};
 use super::items::{Item, PtMm, RectMm, Rgba};
 use super::legend::{draw_legend, legend_entries, legend_height_mm, LegendEntry};
 use super::options::{LayoutOptions, PrintMeta};
@@ -36,7 +39,7 @@ use super::style::*;
 use super::text::{fit_size, text, text_up, width, wrap};
 use super::transform::HeightTransform;
 use crate::model::{LatLon, ReviewState, Section};
-use crate::rules::{Interpretation, Stacking};
+use crate::rules::{Censor, Interpretation};
 use crate::REVIEW_CAUTION;
 use serde::Serialize;
 
@@ -596,6 +599,9 @@ pub fn panel_layout(
         let ctx = ColumnCtx::new(s, it, &layout_opts);
         entries.extend(legend_entries(&ctx));
         entries.extend(it.channel_bodies.iter().map(|b| LegendEntry::Body(b.stacking)));
+        if it.channel_bodies.iter().any(|b| b.is_censored()) {
+            entries.push(LegendEntry::CensoredBody);
+        }
         entries.extend(
             it.sequence_boundary_candidates
                 .iter()
@@ -1150,11 +1156,18 @@ fn draw_head(
     };
     let size = fit_size(&datum_line, w - 1.0, SMALL_PT + 0.5, 4.0).unwrap_or(4.0);
     text(out, x, y + 9.8, &datum_line, size, colour);
-    let p = match it.channel_proportion {
-        Some(p) => format!("channel-body proportion {p:.2}"),
-        None => "channel-body proportion: no exposure".to_string(),
+    let p = match (it.channel_proportion, it.channel_proportion_bounds) {
+        (Some(p), Some(b)) if it.has_cover() => {
+            format!(
+                "channel-body proportion {p:.2} ({:.2}\u{2013}{:.2} with cover)",
+                b.covered_as_fines, b.covered_as_channel
+            )
+        }
+        (Some(p), _) => format!("channel-body proportion {p:.2}"),
+        (None, _) => "channel-body proportion: no exposure".to_string(),
     };
-    text(out, x, y + 12.8, &p, SMALL_PT + 0.5, CURVE_GREEN);
+    let size = fit_size(&p, w - 1.0, SMALL_PT + 0.5, 3.5).unwrap_or(3.5);
+    text(out, x, y + 12.8, &p, size, CURVE_GREEN);
 }
 
 fn total(it: &Interpretation) -> f64 {
@@ -1206,23 +1219,16 @@ fn draw_strip(
             continue;
         }
         let (yb, yt) = (t.y_mm(body.base_m), t.y_mm(body.top_m));
-        out.push(Item::Polyline {
-            points: vec![
-                PtMm { x: xb - 1.2, y: yt },
-                PtMm { x: xb, y: yt },
-                PtMm { x: xb, y: yb },
-                PtMm { x: xb - 1.2, y: yb },
-            ],
-            stroke: solid(LINE_MM * 1.4, BODY_BLUE),
-        });
-        let label = match body.stacking {
-            Stacking::MultiStory => format!("MS{}", body.stories),
-            Stacking::SingleStory => "SS".to_string(),
-        };
-        if let Some(size) = fit_size(&label, yb - yt - 0.4, SMALL_PT - 0.5, 3.0) {
-            let w = width(&label, size);
-            let asc = size * 0.353 * 0.76;
-            text_up(out, xb + 0.6 + asc, (yb + yt) / 2.0 + w / 2.0, &label, size, BODY_BLUE);
+        let end = |c: Censor| if body.censored.contains(&c) { BracketEnd::Open } else { BracketEnd::Tick };
+        body_bracket(xb, yb, yt, (end(Censor::Base), end(Censor::Top)), 1.2, LINE_MM * 1.4, out);
+        let [_, with_thickness, short] = body_labels(body);
+        for label in [with_thickness, short] {
+            if let Some(size) = fit_size(&label, yb - yt - 0.4, SMALL_PT - 0.5, 3.0) {
+                let w = width(&label, size);
+                let asc = size * 0.353 * 0.76;
+                text_up(out, xb + 0.6 + asc, (yb + yt) / 2.0 + w / 2.0, &label, size, BODY_BLUE);
+                break;
+            }
         }
     }
     // Labels wanted at heights: (y, text, colour).

@@ -115,6 +115,8 @@ pub fn sample_interpretation(section: &Section) -> Interpretation {
         first_bed: a,
         last_bed: b,
         amalgamated_base: amalg,
+        capped_by_paleosol: false,
+        body: 0,
     };
     let storeys = vec![storey(2, 3, false), storey(4, 4, true), storey(6, 6, false), storey(14, 15, false)];
     let body = |si: &[usize], stacking| {
@@ -125,6 +127,7 @@ pub fn sample_interpretation(section: &Section) -> Interpretation {
             thickness_m: t - b,
             stories: si.len(),
             stacking,
+            censored: Vec::new(),
             amalgamated_bases: si.len() - 1,
             grain_finest: None,
             grain_coarsest: None,
@@ -177,9 +180,11 @@ pub fn sample_interpretation(section: &Section) -> Interpretation {
         total_thickness_m: total,
         exposed_thickness_m: exposed,
         channel_proportion: Some(channel / exposed),
+        channel_proportion_bounds: None,
         elements,
         storeys,
         channel_bodies,
+        paleosols: Vec::new(),
         interval_proportions: vec![
             IntervalProportion { base_m: 0.0, top_m: bases[2], proportion: Some(0.0) },
             IntervalProportion { base_m: bases[2], top_m: bases[14], proportion: Some(0.55) },
@@ -235,9 +240,11 @@ pub fn generated_section(n: usize) -> (Section, Interpretation) {
         total_thickness_m: total,
         exposed_thickness_m: s.exposed_thickness_m(),
         channel_proportion: None,
+        channel_proportion_bounds: None,
         elements: vec![Element::Other; n],
         storeys: Vec::new(),
         channel_bodies: Vec::new(),
+        paleosols: Vec::new(),
         interval_proportions: Vec::new(),
         proportion_curve: (0..=(total / 2.0) as usize)
             .map(|k| CurvePoint {

@@ -52,6 +52,7 @@ impl IntervalSpans {
 pub struct InterpretationSpans {
     pub storeys: IntervalSpans,
     pub channel_bodies: IntervalSpans,
+    pub paleosols: IntervalSpans,
     pub interval_proportions: IntervalSpans,
     pub accommodation: IntervalSpans,
     /// Curve point heights, when they never decrease (`None` otherwise).
@@ -77,6 +78,7 @@ impl InterpretationSpans {
         InterpretationSpans {
             storeys: IntervalSpans::new(interp.storeys.iter().map(|s| (s.base_m, s.top_m))),
             channel_bodies: IntervalSpans::new(interp.channel_bodies.iter().map(|b| (b.base_m, b.top_m))),
+            paleosols: IntervalSpans::new(interp.paleosols.iter().map(|p| (p.base_m, p.top_m))),
             interval_proportions: IntervalSpans::new(
                 interp.interval_proportions.iter().map(|p| (p.base_m, p.top_m)),
             ),

@@ -12,5 +12,6 @@ pub use grain::{mm_to_phi, phi_to_mm, GrainSize, WentworthClass};
 pub use lithology::{GrainSizeRule, Lithology, LithologyFamily};
 pub use section::{Bed, BedId, LatLon, Project, ReviewDecision, ReviewState, Section, Surface};
 pub use vocab::{
-    Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind, METRES_PER_FOOT,
+    BaseRank, Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
+    METRES_PER_FOOT,
 };

@@ -3,7 +3,9 @@
 use super::curve::MeasuredCurve;
 use super::grain::GrainSize;
 use super::lithology::Lithology;
-use super::vocab::{Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind};
+use super::vocab::{
+    BaseRank, Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
+};
 use serde::{Deserialize, Serialize};
 
 /// A stable identifier of a bed within its section; survives edits that move or renumber beds.
@@ -49,6 +51,10 @@ pub struct Bed {
     /// A named surface at the base of this bed.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub base_surface: Option<Surface>,
+    /// The geologist's rank for this bed's base (storey surface, body base, within storey),
+    /// overriding the rules. Absent in older files.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub base_rank: Option<BaseRank>,
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub colour: String,
     /// Paleocurrent azimuths in degrees, 0 ≤ a ≤ 360.
@@ -78,6 +84,7 @@ impl Bed {
             paleosol_features: Vec::new(),
             carbonate_stage: None,
             base_surface: None,
+            base_rank: None,
             colour: String::new(),
             paleocurrents_deg: Vec::new(),
             fossils: String::new(),

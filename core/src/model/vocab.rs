@@ -100,6 +100,19 @@ vocabulary! {
 }
 
 vocabulary! {
+    /// The geologist's rank for a bed's base in the bounding-surface hierarchy (after Miall
+    /// 1985, 1996): where given, it overrides the rules' own reading of that base.
+    BaseRank {
+        /// A storey (channel-fill) surface: a new storey starts here.
+        StoreySurface => "storey surface",
+        /// The base of a channel body: a new storey and a new body start here.
+        BodyBase => "body base",
+        /// A scour or set boundary inside a storey: no new storey here.
+        WithinStorey => "within storey",
+    }
+}
+
+vocabulary! {
     /// What kind of surface a named surface is.
     SurfaceKind {
         Incision => "incision surface",

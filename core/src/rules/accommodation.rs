@@ -53,6 +53,10 @@ fn call(windows: &mut RisingWindows, bodies: &[ChannelBody], s: &mut Stretch, pa
             };
             undetermined(s, why)
         }
+        Stacking::Undetermined => {
+            let why = Undetermined::PartlySeenBody { base_m: s.base_m };
+            undetermined(s, why)
+        }
         Stacking::SingleStory => {
             let why = Undetermined::SingleStoryTooMuch {
                 base_m: s.base_m,

@@ -1,35 +1,44 @@
-//! Candidate sequence boundaries: every erosional channel-body base and every paleosol top,
-//! scored from weighted evidence, one candidate per bed boundary.
+//! Candidate sequence boundaries: every erosional channel-body base and every paleosol
+//! profile's top (once per profile, whatever number of beds its horizons were logged as), scored
+//! from weighted evidence, one candidate per bed boundary.
 
 use super::bodies::{body_beds, grain_at_base, grain_at_top};
-use super::column::{Column, TOL};
+use super::column::{is_sand_or_gravel, Column, TOL};
 use super::evidence::Evidence;
 use super::params::RuleParams;
-use super::types::{BoundaryCandidate, CandidateKind, ChannelBody, Element, Stacking, Storey};
+use super::types::{BoundaryCandidate, CandidateKind, ChannelBody, PaleosolProfile, Stacking, Storey};
 use crate::model::{Contact, Section};
 use std::collections::BTreeMap;
+
+/// What the earlier rules found, for the candidates.
+pub struct Found<'a> {
+    pub storeys: &'a [Storey],
+    pub bodies: &'a [ChannelBody],
+    pub paleosols: &'a [PaleosolProfile],
+}
 
 /// What sits at one bed boundary.
 #[derive(Default)]
 struct Site {
     /// Index of the channel body whose erosional base this is.
     body: Option<usize>,
-    /// The bed below is a paleosol.
-    on_paleosol: bool,
+    /// Index of the paleosol profile whose top this is.
+    on_paleosol: Option<usize>,
 }
 
 /// Score and explain every candidate; sorted by score (highest first), ties by height.
 pub fn candidates(
     section: &Section,
     column: &Column,
-    elements: &[Element],
-    storeys: &[Storey],
-    bodies: &[ChannelBody],
+    found: &Found,
     params: &RuleParams,
 ) -> Vec<BoundaryCandidate> {
+    let Found { storeys, bodies, paleosols } = *found;
     let beds = &section.beds;
     let n = beds.len();
-    let is_strong_soil = |i: usize| elements[i] == Element::Paleosol && beds[i].paleosol.is_strong();
+    let profile_of = super::paleosols::profile_of_bed(n, paleosols);
+    let strong_profile = |i: usize| profile_of[i].map(|k| &paleosols[k]).filter(|p| p.maturity.is_strong());
+    let is_strong_soil = |i: usize| strong_profile(i).is_some();
 
     // What sits at each bed boundary (indexed by the bed above it); most have nothing.
     let mut sites: Vec<Site> = Vec::new();
@@ -40,9 +49,9 @@ pub fn candidates(
             sites[first].body = Some(k);
         }
     }
-    for (i, el) in elements.iter().enumerate().take(n.saturating_sub(1)) {
-        if *el == Element::Paleosol {
-            sites[i + 1].on_paleosol = true;
+    for (k, p) in paleosols.iter().enumerate() {
+        if p.last_bed + 1 < n {
+            sites[p.last_bed + 1].on_paleosol = Some(k);
         }
     }
 
@@ -66,7 +75,7 @@ pub fn candidates(
     let found: Vec<BoundaryCandidate> = sites
         .into_iter()
         .enumerate()
-        .filter(|(j, site)| *j > 0 && (site.body.is_some() || site.on_paleosol))
+        .filter(|(j, site)| *j > 0 && (site.body.is_some() || site.on_paleosol.is_some()))
         .map(|(j, site)| {
             let height_m = column.bounds_m[j];
             let above = &beds[j];
@@ -76,15 +85,18 @@ pub fn candidates(
 
             if let Some(k) = site.body {
                 let body = &bodies[k];
-                if body.stacking == Stacking::MultiStory {
-                    score += params.weight_multistory_base;
-                    evidence.push(Evidence::MultiStoryBase { storeys: body.stories });
-                } else {
-                    evidence.push(Evidence::SingleStoryBase);
+                match body.stacking {
+                    Stacking::MultiStory => {
+                        score += params.weight_multistory_base;
+                        evidence.push(Evidence::MultiStoryBase { storeys: body.stories });
+                    }
+                    Stacking::SingleStory => evidence.push(Evidence::SingleStoryBase),
+                    Stacking::Undetermined => evidence.push(Evidence::PartlySeenBodyBase),
                 }
             }
-            if site.on_paleosol && !is_strong_soil(j - 1) {
-                evidence.push(Evidence::PaleosolTop { development: below.paleosol });
+            let profile_below = site.on_paleosol.map(|k| &paleosols[k]);
+            if let Some(p) = profile_below.filter(|p| !p.maturity.is_strong()) {
+                evidence.push(Evidence::PaleosolTop { development: p.maturity });
             }
 
             // Abrupt upward jump in grain size, counted in Wentworth classes.
@@ -113,24 +125,26 @@ pub fn candidates(
 
             // A channel base on, or cutting into, a strongly developed paleosol.
             if site.body.is_some() {
-                if is_strong_soil(j - 1) {
+                if let Some(p) = strong_profile(j - 1) {
                     score += params.weight_on_strong_paleosol;
-                    evidence.push(Evidence::ErodesIntoPaleosol { development: below.paleosol });
+                    evidence.push(Evidence::ErodesIntoPaleosol { development: p.maturity });
                 } else if let (Some(r), Some(s)) = (relief_m, last_strong[j - 1]) {
                     let depth_m = height_m - column.bounds_m[s + 1];
                     if depth_m < r - TOL {
                         score += params.weight_on_strong_paleosol;
-                        evidence.push(Evidence::ReliefReachesPaleosol {
-                            relief_m: r,
-                            development: beds[s].paleosol,
-                            depth_m,
-                        });
+                        let development = strong_profile(s).map_or(beds[s].paleosol, |p| p.maturity);
+                        evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
                     }
                 }
-            } else if is_strong_soil(j - 1) {
-                // Interfluve equivalent: a mature soil on floodplain fines, not cut by a channel here.
+            } else if let Some(p) = profile_below.filter(|p| p.maturity.is_strong()) {
+                // A mature soil not cut by a channel here: on floodplain fines an interfluve
+                // equivalent; on a sandstone top a long break in deposition after the channel.
                 score += params.weight_interfluve_paleosol;
-                evidence.push(Evidence::InterfluvePaleosol { development: below.paleosol });
+                if is_sand_or_gravel(below) {
+                    evidence.push(Evidence::SandstoneTopPaleosol { development: p.maturity });
+                } else {
+                    evidence.push(Evidence::InterfluvePaleosol { development: p.maturity });
+                }
             }
 
             // Basinward shift in stacking: more channel deposits above than below.
@@ -146,7 +160,7 @@ pub fn candidates(
                 }
             }
 
-            let kind = match (site.body.is_some(), site.on_paleosol) {
+            let kind = match (site.body.is_some(), site.on_paleosol.is_some()) {
                 (true, true) => CandidateKind::ChannelBaseOnPaleosol,
                 (true, false) => CandidateKind::ChannelBodyBase,
                 _ => CandidateKind::PaleosolTop,

@@ -33,6 +33,8 @@ pub enum Evidence {
     MultiStoryBase { storeys: usize },
     /// The boundary is the erosional base of a single-story body.
     SingleStoryBase,
+    /// The boundary is the erosional base of a body seen only in part (one storey seen).
+    PartlySeenBodyBase,
     /// The bed below is a paleosol too weakly developed to count as strong.
     PaleosolTop { development: PaleosolDevelopment },
     /// Grain size jumps up across the boundary by `classes` Wentworth classes.
@@ -47,6 +49,8 @@ pub enum Evidence {
     ReliefReachesPaleosol { relief_m: f64, development: PaleosolDevelopment, depth_m: f64 },
     /// A strong paleosol on floodplain fines, not cut by a channel here.
     InterfluvePaleosol { development: PaleosolDevelopment },
+    /// A strong paleosol on a channel or splay sandstone top, not cut by a channel here.
+    SandstoneTopPaleosol { development: PaleosolDevelopment },
     /// Channel-body proportion rises across the boundary.
     ProportionRise { below: f64, above: f64, window_m: f64 },
     /// Braided-like: coarse grain.
@@ -75,6 +79,9 @@ impl fmt::Display for Evidence {
                 write!(f, "base of a multi-story (amalgamated) channel body of {storeys} storeys")
             }
             SingleStoryBase => f.write_str("erosional base of a single-story channel body"),
+            PartlySeenBodyBase => f.write_str(
+                "erosional base of a channel body seen only in part (stacking undetermined)",
+            ),
             PaleosolTop { development } => write!(f, "top of a paleosol of {} development", development.name()),
             GrainJump { classes, from, to } => write!(
                 f,
@@ -99,6 +106,11 @@ impl fmt::Display for Evidence {
             InterfluvePaleosol { development } => write!(
                 f,
                 "paleosol of {} development caps floodplain fines (possible interfluve equivalent)",
+                development.name()
+            ),
+            SandstoneTopPaleosol { development } => write!(
+                f,
+                "paleosol of {} development caps a sandstone (a long break in deposition above the channel)",
                 development.name()
             ),
             ProportionRise { below, above, window_m } => write!(
@@ -134,6 +146,8 @@ pub enum Undetermined {
     SingleStoryTooMuch { base_m: f64, proportion: f64, max: f64 },
     /// Too few isolated bodies in a row for a high-accommodation call.
     TooFewIsolated { bodies: usize, needed: usize },
+    /// The stretch's body is seen only in part, so its stacking is unknown.
+    PartlySeenBody { base_m: f64 },
 }
 
 impl fmt::Display for Undetermined {
@@ -152,6 +166,10 @@ impl fmt::Display for Undetermined {
             SingleStoryTooMuch { base_m, proportion, max } => write!(
                 f,
                 "single-story body at {base_m:.2} m but channel-body proportion {proportion:.2} (high accommodation needs ≤ {max:.2})"
+            ),
+            PartlySeenBody { base_m } => write!(
+                f,
+                "channel body at {base_m:.2} m seen only in part (cut by the section's base or top or a covered interval): stacking undetermined"
             ),
             TooFewIsolated { bodies, needed } => write!(
                 f,

@@ -1,7 +1,7 @@
 //! Interpretation rules: pure functions of a section plus one documented parameter struct.
 //!
-//! [`interpret`] runs the rule families in order, one file each: elements and storeys
-//! (`elements`), channel bodies (`bodies`), fluvial style (`style`), channel-body proportion
+//! [`interpret`] runs the rule families in order, one file each: paleosol profiles
+//! (`paleosols`), elements and storeys (`elements`), channel bodies (`bodies`), fluvial style (`style`), channel-body proportion
 //! (`proportion`), candidate sequence boundaries (`boundaries`) and accommodation regimes
 //! (`accommodation`). Every threshold is a field of [`RuleParams`]. The work is linear in the
 //! number of beds, plus a binary search per curve point and per candidate.
@@ -12,6 +12,7 @@ mod boundaries;
 mod column;
 mod elements;
 pub mod evidence;
+mod paleosols;
 pub mod params;
 mod proportion;
 mod style;
@@ -43,15 +44,19 @@ use column::Column;
 /// let result = interpret(&s, &RuleParams::default());
 /// assert_eq!(result.channel_bodies.len(), 1);
 /// assert_eq!(result.channel_bodies[0].stacking, Stacking::SingleStory);
+/// assert!(result.channel_bodies[0].censored.is_empty());
 /// assert_eq!(result.channel_proportion, Some(0.2)); // 2 m of channel sand in 10 m
 /// ```
 pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
     let column = Column::new(section);
-    let (elements, storeys) = elements::elements_and_storeys(section, &column, params);
+    let paleosols = paleosols::profiles(section, &column, params);
+    let profile_of = paleosols::profile_of_bed(section.beds.len(), &paleosols);
+    let (elements, mut storeys) = elements::elements_and_storeys(section, &column, &profile_of, params);
     let column = column.with_elements(&elements);
-    let mut channel_bodies = bodies::channel_bodies(section, &storeys, params);
+    let mut channel_bodies = bodies::channel_bodies(section, &elements, &mut storeys, params);
     style::add_style_hints(section, &column, &elements, &storeys, &mut channel_bodies, params);
-    let candidates = boundaries::candidates(section, &column, &elements, &storeys, &channel_bodies, params);
+    let found = boundaries::Found { storeys: &storeys, bodies: &channel_bodies, paleosols: &paleosols };
+    let candidates = boundaries::candidates(section, &column, &found, params);
 
     // Intervals for proportions: accepted boundaries; failing those, strong candidates.
     // The first decision recorded for a bed counts, as in `Section::decision_for`.
@@ -87,6 +92,7 @@ pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
         total_thickness_m: column.total_m(),
         exposed_thickness_m: column.exposed_total_m(),
         channel_proportion: column::proportion_of(column.channel_total_m(), column.exposed_total_m()),
+        channel_proportion_bounds: proportion::bounds(&column),
         interval_proportions: proportion::interval_proportions(&column, &cuts),
         proportion_curve: proportion::proportion_curve(&column, params),
         accommodation: accommodation::regimes(&column, &channel_bodies, params),
@@ -94,11 +100,30 @@ pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
         elements,
         storeys,
         channel_bodies,
+        paleosols,
         caution: crate::REVIEW_CAUTION.to_string(),
     }
 }
 
 impl Interpretation {
+    /// True when the proportion's bounds differ from it (some of the section is covered).
+    pub fn has_cover(&self) -> bool {
+        self.total_thickness_m - self.exposed_thickness_m > 1e-9
+    }
+
+    /// The whole-section proportion in words, with its bounds when part of the section is
+    /// covered: "0.42 of exposed (0.38 with covered as fines, 0.50 as channel)".
+    pub fn proportion_text(&self) -> String {
+        match (self.channel_proportion, self.channel_proportion_bounds) {
+            (None, _) => "n/a (no exposure)".to_string(),
+            (Some(p), Some(b)) if self.has_cover() => format!(
+                "{p:.2} of exposed ({:.2} with covered as fines, {:.2} as channel)",
+                b.covered_as_fines, b.covered_as_channel
+            ),
+            (Some(p), _) => format!("{p:.2}"),
+        }
+    }
+
     /// Total thickness of channel deposits (storeys, drapes inside them included), metres.
     pub fn channel_thickness_m(&self) -> f64 {
         // A fold from +0.0: an empty float sum would give −0.0.

@@ -13,14 +13,61 @@ pub struct RuleParams {
     /// mud drape and do not end the storey or split the body. Default 0.5 m: common practice
     /// (drapes on bar and dune foresets are centimetres to decimetres thick).
     pub drape_limit_m: f64,
-    /// A sharp- or gradational-based sand (run of sand beds) thinner than this inside fines is a
-    /// crevasse-splay or sheet sand, not a channel. Default 1.0 m: common practice ("roughly < 1 m");
-    /// Burns et al. 2017 report splay sands of ~2.1 m near the channel thinning to ~0.8 m, so the
-    /// default catches distal splays and leaves thick proximal ones to the geologist.
+    /// Thickness that counts as "enough" for a channel in the channel-or-splay decision table
+    /// below: a sand run at least this thick has one sign of a channel, a thinner one one sign of
+    /// a splay. Default 1.0 m: common practice ("roughly < 1 m"); Burns et al. 2017 report splay
+    /// sands of ~2.1 m near the channel thinning to ~0.8 m, so thickness alone cannot tell a
+    /// proximal splay from a channel: it is one sign among several.
+    ///
+    /// **Channel or splay** (Miall 1985, 1996 elements CH and CS/LS; Bridge 2003): a run of sand
+    /// and gravel beds resting on fines is read from these signs, one point each —
+    ///
+    /// | channel sign | splay or sheet-sand sign |
+    /// | --- | --- |
+    /// | erosional base (or erosional relief logged) | sharp or gradational base |
+    /// | basal lag (gravel or basal-lag bed thinner than `lag_limit_m`, or a basal-lag structure) | — |
+    /// | trough or planar cross-bedding | ripple cross-lamination or horizontal lamination with no cross-bedding, accretion, imbrication, lag or mud clasts |
+    /// | lateral- or downstream-accretion surfaces | — |
+    /// | fining-upward profile | coarsening-upward profile |
+    /// | at least `splay_limit_m` thick | thinner than `splay_limit_m` |
+    /// | — | coarsest grain no coarser than `splay_max_grain` |
+    ///
+    /// More channel signs than splay signs make a channel storey; more splay signs a splay (or
+    /// sheet) sand; a tie goes by thickness alone (the first-generation rule, kept as the tie-break
+    /// for sparse logs). The geologist's rank of a bed base (storey surface, body base) overrides it.
     pub splay_limit_m: f64,
-    /// Fines with at least this paleosol development are `paleosol` elements. Default weak:
+    /// Coarsest grain a splay sand usually reaches: a run no coarser than this has one splay sign.
+    /// Default fine sand: Burns et al. 2017 (splay sands' coarsest grain lower fine sand).
+    pub splay_max_grain: WentworthClass,
+    /// A basal lag — a gravel bed, or a bed logged with a basal-lag structure — thinner than this
+    /// is the floor of the storey above it: an erosional base resting on it starts no new storey.
+    /// Default 0.5 m: common practice (channel-floor lags of Miall 1996's facies Gh/Gmm are
+    /// centimetres to a few decimetres thick; from memory).
+    pub lag_limit_m: f64,
+    /// Inside a storey, an erosional-based sand thinner than this (up to the next storey surface,
+    /// drapes included) is a scour or set boundary (a lower-rank surface of Miall 1985, 1996), not
+    /// a new storey. Default 1.0 m: common practice; storeys record a channel's bankfull depth,
+    /// which is metres in most rivers (Bridge 2003), while cross-set and coset boundaries are
+    /// decimetres apart.
+    pub min_storey_m: f64,
+    /// A paleosol profile — consecutive beds with soil development, paleosol features or a
+    /// carbonate stage (its horizons, Retallack 2001; Kraus 1999) — counts when its maturity is at
+    /// least this; its fines are then `paleosol` elements, its top (once) a candidate boundary, and
+    /// it ends the channel body below it, on fines or on a sandstone top alike. Default weak:
     /// common practice (any recorded soil development marks a paleosol).
     pub paleosol_min_development: PaleosolDevelopment,
+    /// A profile with a carbonate horizon of at least this stage (Machette 1985, after Gile et
+    /// al. 1966; 1–6 for I–VI) is at least strongly developed. Default 3 (stage III, a
+    /// carbonate-plugged horizon): Retallack 2001's development scale puts strong profiles with
+    /// thick calcic horizons (from memory).
+    pub strong_carbonate_stage: u8,
+    /// A profile with a carbonate horizon of at least this stage is very strongly developed.
+    /// Default 4 (stage IV, laminar caps): Retallack 2001 (from memory).
+    pub very_strong_carbonate_stage: u8,
+    /// Slickensides together with carbonate nodules in one profile (vertic and calcic features:
+    /// shrink–swell and carbonate accumulation over a long time; Kraus 1999) raise its maturity
+    /// by one grade. Default on: Kraus 1999; Retallack 2001.
+    pub vertic_calcic_raises: bool,
     /// Height of the moving window of the proportion curve, metres. Default 10 m: common practice
     /// (several storey thicknesses).
     pub window_m: f64,
@@ -92,7 +139,13 @@ impl Default for RuleParams {
         RuleParams {
             drape_limit_m: 0.5,
             splay_limit_m: 1.0,
+            splay_max_grain: WentworthClass::FineSand,
+            lag_limit_m: 0.5,
+            min_storey_m: 1.0,
             paleosol_min_development: PaleosolDevelopment::Weak,
+            strong_carbonate_stage: 3,
+            very_strong_carbonate_stage: 4,
+            vertic_calcic_raises: true,
             window_m: 10.0,
             curve_step_m: 0.5,
             boundary_interval_min_score: 0.5,
@@ -128,6 +181,7 @@ impl RuleParams {
         let positive = [
             ("drape_limit_m", self.drape_limit_m),
             ("splay_limit_m", self.splay_limit_m),
+            ("lag_limit_m", self.lag_limit_m),
             ("window_m", self.window_m),
             ("curve_step_m", self.curve_step_m),
             ("boundary_window_m", self.boundary_window_m),
@@ -139,6 +193,7 @@ impl RuleParams {
         }
         let non_negative = [
             ("relief_limit_m", self.relief_limit_m),
+            ("min_storey_m", self.min_storey_m),
             ("profile_min_phi_change", self.profile_min_phi_change),
             ("weight_multistory_base", self.weight_multistory_base),
             ("weight_grain_jump", self.weight_grain_jump),
@@ -163,6 +218,14 @@ impl RuleParams {
         for (name, v) in fractions {
             if !(v.is_finite() && (0.0..=1.0).contains(&v)) {
                 out.push(format!("{name}: got {v}; valid is a number from 0 to 1"));
+            }
+        }
+        for (name, v) in [
+            ("strong_carbonate_stage", self.strong_carbonate_stage),
+            ("very_strong_carbonate_stage", self.very_strong_carbonate_stage),
+        ] {
+            if !(1..=6).contains(&v) {
+                out.push(format!("{name}: got {v}; valid is a carbonate stage from 1 to 6 (I–VI)"));
             }
         }
         out

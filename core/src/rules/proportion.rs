@@ -1,9 +1,26 @@
 //! Channel-body proportion: the moving-window curve and the proportion of each interval between
-//! boundaries. Covered intervals are left out of both channel and exposed thickness.
+//! boundaries. Covered intervals are left out of both channel and exposed thickness (common
+//! practice); the whole-section figure comes with bounds that count them as fines (covered
+//! slopes are usually recessive mudrock) and as channel deposits.
 
 use super::column::Column;
 use super::params::{RuleParams, MAX_CURVE_POINTS};
-use super::types::{CurvePoint, IntervalProportion};
+use super::types::{CurvePoint, IntervalProportion, ProportionBounds};
+
+/// The whole-section proportion with covered intervals counted as fines and as channel deposits;
+/// `None` for a section of no thickness.
+pub fn bounds(column: &Column) -> Option<ProportionBounds> {
+    let total = column.total_m();
+    if total <= 1e-9 {
+        return None;
+    }
+    let channel = column.channel_total_m();
+    let covered = (total - column.exposed_total_m()).max(0.0);
+    Some(ProportionBounds {
+        covered_as_fines: (channel / total).clamp(0.0, 1.0),
+        covered_as_channel: ((channel + covered) / total).clamp(0.0, 1.0),
+    })
+}
 
 /// The proportion in a window of `window_m` centred on heights 0, step, 2·step … up to the
 /// section top; the window is clipped to the section. Empty when the step or window is not a
@@ -81,6 +98,17 @@ mod tests {
                 (10.0, None)
             ]
         );
+    }
+
+    #[test]
+    fn bounds_count_the_cover_both_ways() {
+        // 4 m channel, 4 m fines, 2 m covered: exposed-only 4/8 = 0.5; covered as fines 4/10 =
+        // 0.4; covered as channel 6/10 = 0.6.
+        let col =
+            column(&[(4.0, Element::ChannelDeposit), (4.0, Element::OverbankFines), (2.0, Element::Covered)]);
+        let b = bounds(&col).expect("thickness");
+        assert!((b.covered_as_fines - 0.4).abs() < 1e-12 && (b.covered_as_channel - 0.6).abs() < 1e-12);
+        assert_eq!(bounds(&column(&[])), None);
     }
 
     #[test]

@@ -4,7 +4,7 @@
 //! the suffix (`base`, `top`, `height`) to keep the `aggrade interpret --json` contract.
 
 use super::evidence::{Evidence, RegimeWhy};
-use crate::model::{BedId, GrainSize, ReviewState};
+use crate::model::{BedId, GrainSize, PaleosolDevelopment, ReviewState};
 use serde::Serialize;
 
 /// The depositional element a bed is read as.
@@ -32,6 +32,11 @@ pub struct Storey {
     pub last_bed: usize,
     /// True when the storey's base rests on channel sand of the storey below (not on fines).
     pub amalgamated_base: bool,
+    /// True when a paleosol profile caps the storey's own sand (a soil on a sandstone top): the
+    /// channel body ends there.
+    pub capped_by_paleosol: bool,
+    /// Index into `Interpretation::channel_bodies` of the body the storey belongs to.
+    pub body: usize,
 }
 
 /// How the storeys of a channel body are stacked.
@@ -43,6 +48,30 @@ pub enum Stacking {
     /// One storey encased in floodplain fines: isolated.
     #[serde(rename = "single-story")]
     SingleStory,
+    /// One storey seen, but the body is cut by the section's base or top or by a covered
+    /// interval: more storeys may lie in the part not seen.
+    #[serde(rename = "undetermined")]
+    Undetermined,
+}
+
+impl Stacking {
+    /// The term as shown and written (`multi-story`, `single-story`, `undetermined`).
+    pub fn name(self) -> &'static str {
+        match self {
+            Stacking::MultiStory => "multi-story",
+            Stacking::SingleStory => "single-story",
+            Stacking::Undetermined => "undetermined",
+        }
+    }
+}
+
+/// Which end of a channel body is not seen: it lies at the section's base or top, or against a
+/// covered interval.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Censor {
+    Base,
+    Top,
 }
 
 /// Vertical grain-size profile of a body.
@@ -81,6 +110,8 @@ pub struct ChannelBody {
     pub thickness_m: f64,
     pub stories: usize,
     pub stacking: Stacking,
+    /// Ends not seen (`base`, `top`); when not empty the thickness is a minimum.
+    pub censored: Vec<Censor>,
     /// How many storey bases rest on channel sand rather than fines.
     pub amalgamated_bases: usize,
     pub grain_finest: Option<GrainSize>,
@@ -89,6 +120,63 @@ pub struct ChannelBody {
     pub style_hint: Option<StyleHint>,
     /// Indices into `Interpretation::storeys`.
     pub storey_indices: Vec<usize>,
+}
+
+impl ChannelBody {
+    /// True when an end of the body is not seen, so that its thickness is a minimum.
+    pub fn is_censored(&self) -> bool {
+        !self.censored.is_empty()
+    }
+
+    /// Thickness as written for people: "≥ 4.20 m" when censored, "4.20 m" otherwise.
+    pub fn thickness_text(&self) -> String {
+        let at_least = if self.is_censored() { "\u{2265} " } else { "" };
+        format!("{at_least}{:.2} m", self.thickness_m)
+    }
+}
+
+/// What raised a paleosol profile's maturity above the development logged for its beds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum MaturitySign {
+    /// A carbonate horizon of a high morphological stage.
+    CarbonateStage,
+    /// Slickensides with carbonate nodules (vertic and calcic features together).
+    VerticCalcic,
+}
+
+/// Consecutive beds with soil development (a profile of horizons), read as one paleosol.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PaleosolProfile {
+    #[serde(rename = "base")]
+    pub base_m: f64,
+    #[serde(rename = "top")]
+    pub top_m: f64,
+    /// Maturity of the whole profile on the development scale.
+    pub maturity: PaleosolDevelopment,
+    /// Ids of the beds of the profile, lowest first.
+    pub beds: Vec<BedId>,
+    /// Index of the lowest and highest bed (inclusive).
+    pub first_bed: usize,
+    pub last_bed: usize,
+    /// The strongest development logged on any of its beds.
+    pub logged_development: PaleosolDevelopment,
+    /// Highest carbonate stage logged in the profile (1–6).
+    pub carbonate_stage: Option<u8>,
+    /// What raised the maturity above the logged development.
+    pub raised_by: Vec<MaturitySign>,
+    /// True when the soil formed in sandstone or conglomerate (a profile including such a bed: a
+    /// soil on a sandstone top).
+    pub on_sandstone: bool,
+}
+
+/// The whole-section channel-body proportion with covered intervals counted one way or the other.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct ProportionBounds {
+    /// Covered intervals counted as floodplain fines (the low bound).
+    pub covered_as_fines: f64,
+    /// Covered intervals counted as channel deposits (the high bound).
+    pub covered_as_channel: f64,
 }
 
 /// Channel-body proportion over an interval.
@@ -170,12 +258,18 @@ pub struct Interpretation {
     pub total_thickness_m: f64,
     #[serde(rename = "exposed_thickness")]
     pub exposed_thickness_m: f64,
-    /// Whole-section channel-body proportion; `None` when nothing is exposed.
+    /// Whole-section channel-body proportion of the exposed thickness; `None` when nothing is
+    /// exposed.
     pub channel_proportion: Option<f64>,
+    /// The same with covered intervals counted as fines and as channel deposits; `None` for a
+    /// section of no thickness.
+    pub channel_proportion_bounds: Option<ProportionBounds>,
     /// One element per bed, same order as the section's beds.
     pub elements: Vec<Element>,
     pub storeys: Vec<Storey>,
     pub channel_bodies: Vec<ChannelBody>,
+    /// Paleosol profiles, lowest first.
+    pub paleosols: Vec<PaleosolProfile>,
     /// Proportion in each interval between accepted or candidate boundaries.
     pub interval_proportions: Vec<IntervalProportion>,
     pub proportion_curve: Vec<CurvePoint>,
