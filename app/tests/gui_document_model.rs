@@ -582,11 +582,10 @@ fn text_at_the_length_limit_is_kept_and_one_character_more_is_refused() {
     assert!(doc.section().review.is_empty(), "an over-long note was stored");
 }
 
-/// The file's pre-scan counts bytes where validation counts characters: a note of 6,000 "é"
-/// (12,000 bytes) passes validation and saves, then is refused on opening. The fix belongs to the
-/// core's reader (counted in characters); run with `--ignored` once it is in.
+/// The file's pre-scan counted bytes where validation counts characters: a note of 6,000 "é"
+/// (12,000 bytes) passed validation and saved, then was refused on opening. Both count
+/// characters now.
 #[test]
-#[ignore = "fails until the project reader's pre-scan counts characters, not bytes"]
 fn a_long_note_in_accented_letters_saves_and_reopens() {
     let start = one_section(vec![sand(1, 1.0)]);
     check_sequence(start, &[Op::Replace(Sel::Nth(0), Change::Notes("é".repeat(6_000)))]);
