@@ -550,3 +550,91 @@ fn a_broken_file_shows_in_the_window_what_the_command_line_says() {
         assert!(h.query_by_label("Open folder").is_some());
     }
 }
+
+/// Found by a newcomer's trial: a window restored after a crash saved over a file changed
+/// meanwhile without asking (the restored document forgot what the file looked like).
+#[test]
+fn a_restored_window_still_asks_before_saving_over_a_file_changed_since() {
+    use egui::Modifiers;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let data = dir.path().join("data");
+    let file = dir.path().join("camp log.aggrade");
+    aggrade_core::io::save_project(&file, &Project::new(vec![Section::new("Camp")])).expect("saved");
+    {
+        let mut h = harness_of(app_with(Some(file.clone()), &data, Box::new(ScriptedDialogs::default())));
+        h.run();
+        let bed = aggrade::gui::app::new_bed();
+        h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+        h.run();
+        h.run();
+        // The window dies here: its backup stays, its lock goes with it.
+    }
+    let mut other = Project::new(vec![Section::new("Camp")]);
+    other.sections[0].notes = "changed by a colleague".into();
+    aggrade_core::io::save_project(&file, &other).expect("saved");
+
+    let mut h = harness_of(app_with(None, &data, Box::new(ScriptedDialogs::default())));
+    h.run();
+    h.get_by_label("Restore").click();
+    h.run();
+    assert_eq!(h.state().doc.path.as_deref(), Some(file.as_path()));
+    h.key_press_modifiers(Modifiers::COMMAND, Key::S);
+    h.run();
+    assert!(h.state().disk_prompt_pending(), "saved over the colleague's change without asking");
+    let on_disk = aggrade_core::io::load(&file).expect("reads").project;
+    assert_eq!(on_disk.sections[0].notes, "changed by a colleague");
+}
+
+/// Found by a newcomer's trial: a file opened by a relative path was kept so in the backup,
+/// and a restore started from another folder saved to the wrong place.
+#[test]
+fn files_are_kept_by_their_absolute_path() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let relative = PathBuf::from("../sample_sections/demo.aggrade");
+    assert!(relative.is_relative() && relative.exists(), "tests run in the app folder");
+    let app = app_with(Some(relative), data.path(), Box::new(ScriptedDialogs::default()));
+    let path = app.doc.path.clone().expect("a project file");
+    assert!(path.is_absolute(), "{}", path.display());
+    assert!(path.ends_with("sample_sections/demo.aggrade"));
+}
+
+/// Found by a newcomer's trial: a value typed in the Bed tab that did not read was lost in a
+/// crash. It now rides in the backup and is listed after the restore.
+#[test]
+fn a_typed_value_that_did_not_read_survives_a_crash_and_is_listed_after_restore() {
+    use egui::accesskit::Role;
+    let data = tempfile::tempdir().expect("temp dir");
+    {
+        let mut h = harness(data.path());
+        h.run();
+        h.state_mut().tab = aggrade::gui::app::Tab::Inspector;
+        let bed = h.state().doc.section().beds[1].id;
+        h.state_mut().doc.selected_bed = Some(bed);
+        h.run();
+        h.get_by(|n| n.role() == Role::TextInput && n.label().as_deref() == Some("Paleocurrents (°)"))
+            .focus();
+        h.run();
+        h.get_by(|n| n.is_focused()).type_text("240 425");
+        h.run();
+        h.key_press(Key::Enter);
+        h.run();
+        h.run();
+        let kept = read_all_backups(data.path());
+        assert!(
+            kept.iter()
+                .any(|(_, r)| r.as_ref().is_ok_and(|r| r.unstored.iter().any(|l| l.contains("240 425")))),
+            "the typed text is not in the backup"
+        );
+    }
+    let mut h = harness(data.path());
+    h.run();
+    h.get_by_label("Restore").click();
+    h.run();
+    let notice = h.state().message.clone().expect("the values are listed");
+    assert_eq!(notice.title, "Values that were not stored");
+    assert!(
+        notice.text.contains("Paleocurrents (°) \"") && notice.text.contains("240 425\""),
+        "{}",
+        notice.text
+    );
+}

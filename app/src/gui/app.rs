@@ -247,11 +247,16 @@ impl AggradeApp {
         let mut message = None;
         let mut status = String::from("Ready");
         let mut recent = config.recent;
-        let demo_doc = || match demo::demo_file().map(|p| files::open(&p)) {
-            Some(Ok((project, _))) => Document::new(project, None),
-            _ => Document::new(demo::demo_project(), None),
+        let demo_doc = || {
+            let mut doc = match demo::demo_file().map(|p| files::open(&p)) {
+                Some(Ok((project, _))) => Document::new(project, None),
+                _ => Document::new(demo::demo_project(), None),
+            };
+            doc.demo = true;
+            doc
         };
-        let doc = match &config.file {
+        let file = config.file.as_deref().map(absolute);
+        let doc = match &file {
             Some(path) => match files::open(path) {
                 Ok((project, warnings)) => {
                     if !warnings.is_empty() {
@@ -609,6 +614,7 @@ impl AggradeApp {
 
     /// Open a project or bed table, replacing the document; bad files give a dialog.
     pub fn open_path(&mut self, path: &Path) {
+        let path = &absolute(path);
         match files::open(path) {
             Ok((project, warnings)) => {
                 let mut doc = Document::new(project, is_project_file(path).then(|| path.to_path_buf()));
@@ -705,10 +711,16 @@ impl AggradeApp {
                 self.chooser.start_dir = path.parent().map(Path::to_path_buf);
                 files::push_recent(&mut self.recent, &path);
                 self.status = format!("Saved {}", path.display());
+                if self.inspector.has_unstored_text() {
+                    self.status.push_str(
+                        "; values typed in the Bed tab that do not read were not stored and are not in the file",
+                    );
+                }
                 true
             }
             Err(e) => {
                 self.after_save = None;
+                self.status = format!("Not saved: {}", path.display());
                 self.message = Some(Notice::about_file(
                     "Could not save",
                     format!("{e}\nYour work is still open and unsaved, and kept in the window's backup."),
@@ -756,8 +768,10 @@ impl AggradeApp {
         self.views_ui(&ctx);
         self.dialogs_ui(&ctx);
 
-        // Autosave unsaved changes into this window's own backup; a failure is reported, never fatal.
+        // Autosave unsaved changes into this window's own backup, with any typed values that did
+        // not read; a failure is reported, never fatal.
         self.autosaver.follow(&self.doc);
+        self.autosaver.set_unstored(self.inspector.unstored_texts(&self.doc));
         let now = ctx.input(|i| i.time);
         if let Err(e) = self.autosaver.tick(&self.doc, now) {
             self.status = format!("Autosave failed: {e}");
@@ -1152,7 +1166,10 @@ impl AggradeApp {
                             .clicked()
                         {
                             if let Err(e) = open_folder(folder) {
-                                self.status = format!("Could not open {}: {e}", folder.display());
+                                self.status = format!(
+                                    "No file manager could be started ({e}); the folder is {}",
+                                    absolute(folder).display()
+                                );
                             }
                         }
                         if ui.button("Copy message").on_hover_text("Copy the whole message").clicked() {
@@ -1255,14 +1272,32 @@ impl AggradeApp {
         if let Some(i) = restore {
             let f = self.found_backups.remove(i);
             if let Ok(rec) = &f.content {
-                let mut doc = Document::new(rec.project.clone(), rec.original_path.clone());
+                let path = rec.original_path.as_deref().map(absolute);
+                let mut doc = Document::new(rec.project.clone(), path.clone());
                 doc.dirty = true;
                 doc.revision = rec.revision + 1;
-                // Saving compares with the file as it was before the crash, if it is still there.
-                doc.disk = None;
+                // Saving compares with the file as the window last knew it. A backup of an older
+                // version knows nothing of it: then any file there counts as changed, and saving
+                // asks first.
+                doc.disk = match (rec.disk, &path) {
+                    (Some((len, hash)), _) => Some(files::DiskStamp { len, hash }),
+                    (None, Some(_)) => Some(files::DiskStamp { len: u64::MAX, hash: 0 }),
+                    (None, None) => None,
+                };
+                let unstored = rec.unstored.clone();
                 self.replace_document(doc);
                 self.autosaver.adopt(f, &self.doc);
                 self.status = "Restored unsaved work; save to keep it".into();
+                if !unstored.is_empty() {
+                    self.message = Some(Notice::new(
+                        "Values that were not stored",
+                        format!(
+                            "These values were typed before the window closed but did not read, so they \
+                             were not stored; type them again as they should be:\n{}",
+                            unstored.join("\n")
+                        ),
+                    ));
+                }
             }
         }
         if later {
@@ -1374,6 +1409,12 @@ impl AggradeApp {
             self.proceed(action, ctx);
         }
     }
+}
+
+/// A path made absolute against the working folder (kept as given if that cannot be had), so
+/// that backups and messages name the file wherever Aggrade is started next.
+fn absolute(path: &Path) -> PathBuf {
+    std::path::absolute(path).unwrap_or_else(|_| path.to_path_buf())
 }
 
 /// Is this a project file (as opposed to a bed table read into a new project)?

@@ -310,8 +310,8 @@ impl Chooser {
         .show_files_filter(Box::new(filter))
         .id(egui::Id::unique("aggrade_in_window_chooser"))
         .default_size([620.0, 460.0])
-        // Centred, below the line that says why it shows.
-        .anchor(egui::Align2::CENTER_CENTER, [0.0, 30.0])
+        // Centred, just below the line that says why it shows.
+        .anchor(egui::Align2::CENTER_CENTER, [0.0, 20.0])
         .keep_on_top(true);
         dialog.open();
         self.last_unavailable = Some(why.clone());
@@ -356,7 +356,7 @@ impl Chooser {
         }
         // Why Aggrade's own chooser shows, above it.
         egui::Area::new(egui::Id::unique("aggrade_chooser_why"))
-            .anchor(egui::Align2::CENTER_TOP, [0.0, 36.0])
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, -262.0])
             .order(egui::Order::Foreground)
             .show(ctx, |ui| {
                 egui::Frame::popup(ui.style()).show(ui, |ui| {

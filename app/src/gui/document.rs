@@ -75,6 +75,8 @@ pub struct Document {
     pub path: Option<PathBuf>,
     /// Changed since the last save or open.
     pub dirty: bool,
+    /// The demo project shown at a start with no file (named so in the title until saved).
+    pub demo: bool,
     /// The file on disk as it was when last read or written here; saving compares it with the
     /// file as it is then, so that a change made meanwhile elsewhere is not overwritten unasked.
     pub disk: Option<super::files::DiskStamp>,
@@ -99,6 +101,7 @@ impl Document {
             project: Arc::new(project),
             path,
             dirty: false,
+            demo: false,
             disk: None,
             selected_section: 0,
             selected_bed: None,
@@ -132,7 +135,9 @@ impl Document {
             .as_ref()
             .and_then(|p| p.file_name())
             .map(|n| n.to_string_lossy().into_owned())
-            .unwrap_or_else(|| "Untitled".to_string())
+            .unwrap_or_else(|| {
+                if self.demo { "Demo project (not saved)" } else { "New project (not saved)" }.to_string()
+            })
     }
 
     /// Apply an edit as its own undo step.

@@ -106,7 +106,12 @@ pub fn mark_invalid(ui: &egui::Ui, rect: egui::Rect) {
 
 /// The problem line under a field.
 pub fn problem_label(ui: &mut egui::Ui, problem: &str) {
-    ui.label(egui::RichText::new(problem).color(INVALID).small());
+    // Wrapped within the room there is (at most 300 points), so a long message never widens the
+    // side panel and pushes the column's tracks out of view.
+    ui.scope(|ui| {
+        ui.set_max_width(ui.available_width().clamp(120.0, 300.0));
+        ui.add(egui::Label::new(egui::RichText::new(problem).color(INVALID).small()).wrap());
+    });
 }
 
 /// Draw a single-line committed field: `state` follows `stored` unless it is being edited or

@@ -228,6 +228,26 @@ pub struct Inspector {
 }
 
 impl Inspector {
+    /// The typed texts that do not parse (kept, not stored), one line each naming the section,
+    /// the bed and the field: autosaved with the work so that a crash loses no word of them.
+    pub fn unstored_texts(&self, doc: &Document) -> Vec<String> {
+        let mut out = Vec::new();
+        for fields in self.drafts.values().chain(self.fields.iter()) {
+            let (section, bed) = fields.key;
+            let section_name = doc.project.sections.get(section).map(|s| s.name.as_str()).unwrap_or("?");
+            let place = match doc.project.sections.get(section).and_then(|s| s.bed_index(bed)) {
+                Some(i) => format!("{section_name}, bed {}", i + 1),
+                None => format!("{section_name}, a deleted bed"),
+            };
+            for (f, t) in Typed::ALL.iter().zip(&fields.texts) {
+                if t.problem.is_some() {
+                    out.push(format!("{place}: {} {:?}", f.label(), t.text));
+                }
+            }
+        }
+        out
+    }
+
     /// Whether any bed's field holds a typed text that does not parse (kept, not stored).
     pub fn has_unstored_text(&self) -> bool {
         !self.drafts.is_empty() || self.fields.as_ref().is_some_and(BedFields::has_problem)

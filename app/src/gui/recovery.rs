@@ -55,6 +55,13 @@ pub struct Recovery {
     /// When it was written, seconds since 1970 (absent in backups of older versions).
     #[serde(default)]
     pub saved_at_secs: i64,
+    /// The project file as the window last read or wrote it (length and content hash): after a
+    /// restore, saving still asks when the file was changed meanwhile.
+    #[serde(default)]
+    pub disk: Option<(u64, u64)>,
+    /// Values typed in the window that did not read and were not stored, one line each.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub unstored: Vec<String>,
     pub project: Project,
 }
 
@@ -105,10 +112,28 @@ fn try_lock(dir: &Path, key: &str) -> std::io::Result<Option<KeyLock>> {
     let file =
         OpenOptions::new().create(true).truncate(false).write(true).open(dir.join(format!("{key}.lock")))?;
     match file.try_lock() {
+        // Another window may have tidied the lock file away between our open and our lock: a
+        // lock on a file no longer at the path guards nothing, so it counts as not taken.
+        Ok(()) if !same_file_at(&file, &dir.join(format!("{key}.lock"))) => Ok(None),
         Ok(()) => Ok(Some(KeyLock { key: key.to_string(), _file: file })),
         Err(std::fs::TryLockError::WouldBlock) => Ok(None),
         Err(std::fs::TryLockError::Error(e)) => Err(e),
     }
+}
+
+/// Is `file` still the file at `path`?
+#[cfg(unix)]
+fn same_file_at(file: &File, path: &Path) -> bool {
+    use std::os::unix::fs::MetadataExt;
+    match (file.metadata(), std::fs::metadata(path)) {
+        (Ok(a), Ok(b)) => a.dev() == b.dev() && a.ino() == b.ino(),
+        _ => false,
+    }
+}
+
+#[cfg(not(unix))]
+fn same_file_at(_file: &File, path: &Path) -> bool {
+    path.exists()
 }
 
 fn json_path(dir: &Path, key: &str) -> PathBuf {
@@ -130,6 +155,8 @@ pub struct Autosaver {
     last_write_secs: f64,
     /// Autosave is off: the work was deliberately discarded and the window is closing.
     stopped: bool,
+    /// Typed values that were not stored, kept in the backup too.
+    unstored: Vec<String>,
 }
 
 impl Autosaver {
@@ -146,6 +173,16 @@ impl Autosaver {
             last_written_revision: None,
             last_write_secs: f64::MIN,
             stopped: false,
+            unstored: Vec::new(),
+        }
+    }
+
+    /// The typed values that were not stored (see [`Recovery::unstored`]); a change is written
+    /// at the next tick, even when the project itself is unchanged.
+    pub fn set_unstored(&mut self, lines: Vec<String>) {
+        if lines != self.unstored {
+            self.unstored = lines;
+            self.last_written_revision = None;
         }
     }
 
@@ -237,7 +274,7 @@ impl Autosaver {
     /// Call every frame with the current time in seconds: writes when due. Returns an error
     /// message when the write failed (the work stays in memory).
     pub fn tick(&mut self, doc: &Document, now_secs: f64) -> Result<bool, String> {
-        if self.stopped || !doc.dirty {
+        if self.stopped || (!doc.dirty && self.unstored.is_empty()) {
             return Ok(false);
         }
         if self.last_written_revision == Some(doc.revision) {
@@ -260,6 +297,9 @@ impl Autosaver {
             original_path: &'a Option<PathBuf>,
             revision: u64,
             saved_at_secs: i64,
+            disk: Option<(u64, u64)>,
+            #[serde(skip_serializing_if = "<[String]>::is_empty")]
+            unstored: &'a [String],
             project: &'a Project,
         }
         if self.lock.is_none() {
@@ -272,6 +312,8 @@ impl Autosaver {
             original_path: &doc.path,
             revision: doc.revision,
             saved_at_secs: now_secs(),
+            disk: doc.disk.as_ref().map(|d| (d.len, d.hash)),
+            unstored: &self.unstored,
             project: &doc.project,
         };
         let json = serde_json::to_vec(&rec).map_err(|e| format!("cannot encode the backup: {e}"))?;
@@ -384,6 +426,16 @@ pub fn find_backups(data_dir: &Path) -> Vec<FoundBackup> {
         let Some(key) = path.file_stem().and_then(|s| s.to_str()).map(str::to_string) else { continue };
         let Ok(Some(lock)) = try_lock(&dir, &key) else { continue };
         found.push(read_found(path, lock, None));
+    }
+    // Lock files of windows that are gone and left no backup: tidied away.
+    for lock in std::fs::read_dir(&dir).into_iter().flatten().flatten().map(|e| e.path()) {
+        let is_lock = lock.extension().is_some_and(|e| e == "lock");
+        let Some(key) = lock.file_stem().and_then(|s| s.to_str()) else { continue };
+        if is_lock && key != "legacy" && !json_path(&dir, key).exists() {
+            if let Ok(Some(_held)) = try_lock(&dir, key) {
+                let _ = std::fs::remove_file(&lock);
+            }
+        }
     }
     // The single backup of the previous version, guarded by a lock of its own.
     let legacy = data_dir.join(LEGACY_FILE);
