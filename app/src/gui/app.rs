@@ -4,6 +4,7 @@
 use super::actions::Actions;
 use super::canvas::{self, Canvas};
 use super::curve_dialog::{self, CurveDialog};
+use super::import_dialog::{self, ImportDialog};
 use super::document::{Document, Edit};
 use super::engine::{self, LayoutOptions, RuleParams, Strip};
 use super::export_dialog::ExportDialog;
@@ -192,6 +193,7 @@ pub struct AggradeApp {
     inspector: Inspector,
     export: Option<ExportDialog>,
     curve_dialog: Option<CurveDialog>,
+    import_dialog: Option<ImportDialog>,
     cache: Option<Cache>,
     /// The worker bringing `cache` up to date after an edit of a long section, if one runs.
     refreshing: Option<Refreshing>,
@@ -252,6 +254,7 @@ impl AggradeApp {
             inspector: Inspector::default(),
             export: None,
             curve_dialog: None,
+            import_dialog: None,
             cache: None,
             refreshing: None,
             repaint: None,
@@ -580,6 +583,15 @@ impl AggradeApp {
         }
     }
 
+    /// Ask for a spreadsheet or text table and open the import window on it (File ▸ Import…).
+    pub fn pick_import_table(&mut self) {
+        let Some(path) = self.dialogs.pick_table() else { return };
+        match ImportDialog::open(&path, self.autosaver.path().parent()) {
+            Ok(dlg) => self.import_dialog = Some(dlg),
+            Err(e) => self.message = Some(("Could not read the table".into(), e)),
+        }
+    }
+
     /// Ask for a LAS file and open the attach window on it; a bad file gives the reader's message.
     pub fn pick_curve(&mut self) {
         let Some(path) = self.dialogs.pick_las() else { return };
@@ -785,6 +797,14 @@ impl AggradeApp {
                         true,
                         "Add a CSV bed table as a new section",
                     );
+                    if ui
+                        .button("Import…")
+                        .on_hover_text("Add a spreadsheet or text table (CSV, TSV, TXT, XLSX, ODS) as a new section, with a preview")
+                        .clicked()
+                    {
+                        self.pick_import_table();
+                        ui.close();
+                    }
                     ui.separator();
                     self.menu_item(ui, ctx, "Save", Command::Save, true, "Save the project");
                     self.menu_item(
@@ -1049,6 +1069,20 @@ impl AggradeApp {
                     self.message = None;
                 }
             });
+        }
+        if let Some(dlg) = self.import_dialog.as_mut() {
+            match dlg.ui(ctx) {
+                import_dialog::Outcome::Open => {}
+                import_dialog::Outcome::Closed => self.import_dialog = None,
+                import_dialog::Outcome::Import { mut section, note } => {
+                    self.import_dialog = None;
+                    while self.doc.project.sections.iter().any(|x| x.name == section.name) {
+                        section.name.push_str(" (imported)");
+                    }
+                    self.status = format!("Imported {} ({} beds){}", section.name, section.beds.len(), note.map(|n| format!("; {n}")).unwrap_or_default());
+                    self.apply(Edit::AddSection { section });
+                }
+            }
         }
         if let Some(dlg) = self.curve_dialog.as_mut() {
             match dlg.ui(ctx, self.doc.section()) {

@@ -25,6 +25,10 @@ pub trait FileDialogs {
     fn pick_las(&mut self) -> Option<PathBuf> {
         self.pick_open()
     }
+    /// Pick a spreadsheet or text table to import; scripted dialogs answer as for open.
+    fn pick_table(&mut self) -> Option<PathBuf> {
+        self.pick_open()
+    }
 }
 
 /// The system's file dialogs (rfd).
@@ -40,6 +44,12 @@ impl FileDialogs for SystemDialogs {
     }
     fn pick_csv(&mut self) -> Option<PathBuf> {
         rfd::FileDialog::new().add_filter("Bed table (CSV)", &["csv"]).pick_file()
+    }
+    fn pick_table(&mut self) -> Option<PathBuf> {
+        rfd::FileDialog::new()
+            .add_filter("Table (CSV, TSV, TXT, XLSX, ODS)", &["csv", "tsv", "txt", "xlsx", "xlsm", "ods"])
+            .add_filter("All files", &["*"])
+            .pick_file()
     }
     fn pick_las(&mut self) -> Option<PathBuf> {
         rfd::FileDialog::new()

@@ -9,6 +9,7 @@ pub mod document;
 pub mod engine;
 pub mod export_dialog;
 pub mod files;
+pub mod import_dialog;
 pub mod inspector;
 pub mod painter;
 pub mod plots;
