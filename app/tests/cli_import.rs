@@ -61,7 +61,11 @@ fn a_semicolon_decimal_comma_csv_is_imported_and_the_mapping_printed() {
     let project = aggrade_core::io::load(&out).expect("opens").project;
     assert_eq!(project.sections.len(), 2);
     assert_eq!(project.sections[1].name, "north wall (imported)");
-    assert_eq!(project.sections[1].beds[0].lithology, aggrade_core::model::Lithology::Covered, "top first: reversed");
+    assert_eq!(
+        project.sections[1].beds[0].lithology,
+        aggrade_core::model::Lithology::Covered,
+        "top first: reversed"
+    );
 }
 
 #[test]
@@ -99,7 +103,10 @@ fn bad_input_names_the_place_and_writes_nothing() {
     let o = run(&["import", s(&unmapped), "--out", s(&out)]);
     assert!(!o.status.success());
     let err = text(&o.stderr);
-    assert!(err.contains("de.csv: 1 problem") && err.contains("Headers found: \"Dicke\", \"Gestein\""), "{err}");
+    assert!(
+        err.contains("de.csv: 1 problem") && err.contains("Headers found: \"Dicke\", \"Gestein\""),
+        "{err}"
+    );
     assert!(!out.exists());
 
     let rows = vec![vec![V::S("Thickness"), V::S("Lithology")], vec![V::S("thick"), V::S("sst")]];
@@ -117,8 +124,11 @@ fn bad_input_names_the_place_and_writes_nothing() {
 fn a_spectrometer_table_is_attached_as_a_curve() {
     let dir = tempfile::tempdir().expect("temp dir");
     let project = dir.path().join("kestrel.aggrade");
-    std::fs::copy(Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis/kestrel_bluff.aggrade"), &project)
-        .expect("copy fixture");
+    std::fs::copy(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis/kestrel_bluff.aggrade"),
+        &project,
+    )
+    .expect("copy fixture");
     let table = write(
         dir.path(),
         "gs.txt",
@@ -132,7 +142,17 @@ fn a_spectrometer_table_is_attached_as_a_curve() {
     let c = &saved.sections[0].curves[0];
     assert_eq!(c.samples, vec![(0.0, Some(1.2)), (0.5, Some(1.4)), (1.0, Some(1.1))]);
     assert_eq!(c.source_file, "gs.txt");
-    let o = run(&["curve", s(&project), "--table", s(&table), "--column", "U", "--depth-down", "--offset-m", "1"]);
+    let o = run(&[
+        "curve",
+        s(&project),
+        "--table",
+        s(&table),
+        "--column",
+        "U",
+        "--depth-down",
+        "--offset-m",
+        "1",
+    ]);
     assert!(o.status.success(), "{}", text(&o.stderr));
     let saved = aggrade_core::io::load(&project).expect("opens").project;
     let u = saved.sections[0].curves.iter().find(|c| c.mnemonic == "U").expect("U attached");

@@ -15,7 +15,9 @@ use std::path::{Path, PathBuf};
 
 fn harness(data_dir: &Path, answers: Vec<Option<PathBuf>>) -> Harness<'static, AggradeApp> {
     let app = AggradeApp::new(AppConfig {
-        file: Some(Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis/kestrel_bluff.aggrade")),
+        file: Some(
+            Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis/kestrel_bluff.aggrade"),
+        ),
         data_dir: data_dir.to_path_buf(),
         dialogs: Box::new(ScriptedDialogs { answers: answers.into() }),
         recent: Vec::new(),

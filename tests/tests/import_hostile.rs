@@ -33,7 +33,7 @@ fn table_head() -> Vec<Vec<V>> {
 
 #[test]
 fn a_zip_bomb_posing_as_xlsx_is_refused_while_unpacking() {
-    // 300 MiB of zeros deflate to about 300 KB.
+    // 300 MiB of zeros deflate (fast setting) to about 3 MB.
     let size: u32 = 300 * 1024 * 1024;
     let mut enc = flate2::write::DeflateEncoder::new(Vec::new(), flate2::Compression::fast());
     let chunk = vec![0u8; 1 << 20];
@@ -43,7 +43,7 @@ fn a_zip_bomb_posing_as_xlsx_is_refused_while_unpacking() {
         crc.update(&chunk);
     }
     let packed = enc.finish().expect("deflate");
-    assert!(packed.len() < 2_000_000, "the bomb is small on disk: {}", packed.len());
+    assert!(packed.len() < 8_000_000, "the bomb is small on disk: {}", packed.len());
     let mut members: Vec<(String, Vec<u8>, u16, u32, u32)> = sheets::xlsx_parts("Log", &table_head(), 0, &[])
         .into_iter()
         .map(|(n, d)| (n.to_string(), d.clone(), 0, sheets::crc32(&d), d.len() as u32))
@@ -90,10 +90,9 @@ fn repeated_cells_that_would_expand_to_billions_are_refused() {
 fn a_cell_at_the_far_corner_of_a_sheet_is_refused() {
     let mut parts = sheets::xlsx_parts("Log", &table_head(), 0, &[]);
     let sheet = parts.iter_mut().find(|(n, _)| *n == "xl/worksheets/sheet1.xml").expect("sheet part");
-    let xml = String::from_utf8(sheet.1.clone()).expect("utf-8").replace(
-        "</sheetData>",
-        "<row r=\"1048576\"><c r=\"XFD1048576\"><v>1</v></c></row></sheetData>",
-    );
+    let xml = String::from_utf8(sheet.1.clone())
+        .expect("utf-8")
+        .replace("</sheetData>", "<row r=\"1048576\"><c r=\"XFD1048576\"><v>1</v></c></row></sheetData>");
     sheet.1 = xml.into_bytes();
     let e = refused(&sheets::zip(&parts), "corner.xlsx");
     assert!(e.contains("cell XFD1048576: more than 1000 columns are not read"), "{e}");
@@ -107,7 +106,10 @@ fn a_1_gb_csv_is_refused_before_reading() {
     // A sparse file: 1 GiB long, no disk used.
     file.set_len(1 << 30).expect("set length");
     let e = import_file(&path, &ImportOptions::default()).expect_err("refused").to_string();
-    assert!(e.contains("huge.csv") && e.contains("the file is 1073741824 bytes; at most 33554432 bytes are read"), "{e}");
+    assert!(
+        e.contains("huge.csv") && e.contains("the file is 1073741824 bytes; at most 33554432 bytes are read"),
+        "{e}"
+    );
 }
 
 #[test]

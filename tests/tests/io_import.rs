@@ -11,7 +11,11 @@ use aggrade_core::io::write_bed_table;
 use aggrade_core::model::{GrainSize, LengthUnit, Lithology, WentworthClass};
 use sheets::V;
 
-fn import(bytes: &[u8], name: &str, options: &ImportOptions) -> Result<aggrade_core::io::import::Imported, String> {
+fn import(
+    bytes: &[u8],
+    name: &str,
+    options: &ImportOptions,
+) -> Result<aggrade_core::io::import::Imported, String> {
     import_bytes(bytes, name, options).map_err(|e| e.to_string())
 }
 
@@ -24,7 +28,11 @@ fn a_european_spreadsheet_export_is_read() {
 2;45,5;mdst;si;cl;;Wurzeln\r\n\
 3;80;cgl;pbl;gran;eros;\r\n";
     let got = import(text.as_bytes(), "Ostwand 2026.csv", &ImportOptions::default()).expect("imports");
-    assert!(got.format.describe().contains("UTF-8 with byte-order mark, delimiter ';', decimal comma"), "{}", got.format.describe());
+    assert!(
+        got.format.describe().contains("UTF-8 with byte-order mark, delimiter ';', decimal comma"),
+        "{}",
+        got.format.describe()
+    );
     let s = &got.section;
     assert_eq!(s.name, "Ostwand 2026");
     assert_eq!(s.display_unit, LengthUnit::Centimetre);
@@ -36,7 +44,11 @@ fn a_european_spreadsheet_export_is_read() {
     assert_eq!(s.beds[2].grain_base, Some(GrainSize::Class(WentworthClass::Pebble)));
     assert_eq!(s.beds[0].notes, "Rinne, 2 Sets");
     let described = got.mapping.describe();
-    assert!(described.contains("\"Thickness (cm)\" → thickness (in cm)") && described.contains("not read: \"Bed\""), "{described}");
+    assert!(
+        described.contains("\"Thickness (cm)\" → thickness (in cm)")
+            && described.contains("not read: \"Bed\""),
+        "{described}"
+    );
 }
 
 #[test]
@@ -51,16 +63,21 @@ fn grain_sizes_in_mm_become_krumbein_phi() {
 
 #[test]
 fn the_bed_tables_own_output_reads_back_through_the_importer() {
-    let project = aggrade_core::io::load(&std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("data/analysis/kestrel_bluff.aggrade"))
-        .expect("fixture")
-        .project;
+    let project = aggrade_core::io::load(
+        &std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("data/analysis/kestrel_bluff.aggrade"),
+    )
+    .expect("fixture")
+    .project;
     let section = &project.sections[0];
     let csv = write_bed_table(section);
     let got = import(csv.as_bytes(), "kestrel.csv", &ImportOptions::default()).expect("imports");
     assert_eq!(got.section.beds.len(), section.beds.len());
     for (a, b) in section.beds.iter().zip(&got.section.beds) {
         assert!((a.thickness_m - b.thickness_m).abs() < 1e-12);
-        assert_eq!((a.lithology, a.grain_base, a.grain_top, a.base_contact), (b.lithology, b.grain_base, b.grain_top, b.base_contact));
+        assert_eq!(
+            (a.lithology, a.grain_base, a.grain_top, a.base_contact),
+            (b.lithology, b.grain_base, b.grain_top, b.base_contact)
+        );
         assert_eq!((&a.structures, &a.notes, &a.samples), (&b.structures, &b.notes, &b.samples));
     }
 }
@@ -76,7 +93,9 @@ fn log_rows() -> Vec<Vec<V>> {
 
 #[test]
 fn xlsx_and_ods_workbooks_with_heights() {
-    for (name, bytes) in [("log.xlsx", sheets::xlsx("Log", &log_rows())), ("log.ods", sheets::ods("Log", &log_rows()))] {
+    for (name, bytes) in
+        [("log.xlsx", sheets::xlsx("Log", &log_rows())), ("log.ods", sheets::ods("Log", &log_rows()))]
+    {
         let got = import(&bytes, name, &ImportOptions::default()).unwrap_or_else(|e| panic!("{name}: {e}"));
         let s = &got.section;
         assert_eq!(s.beds.len(), 3, "{name}");
@@ -85,7 +104,8 @@ fn xlsx_and_ods_workbooks_with_heights() {
         assert_eq!(s.beds[1].grain_base, Some(GrainSize::Class(WentworthClass::VeryCoarseSand)));
         assert_eq!(s.beds[1].grain_top, Some(GrainSize::Class(WentworthClass::MediumSand)));
         // A log written from the top: the same rows as depths, the deepest bed first.
-        let top = import(&bytes, name, &ImportOptions { top_first: true, ..Default::default() }).expect("imports");
+        let top =
+            import(&bytes, name, &ImportOptions { top_first: true, ..Default::default() }).expect("imports");
         assert_eq!(top.section.beds[0].lithology, Lithology::Siltstone, "{name}");
     }
 }
@@ -97,16 +117,24 @@ fn workbook_problems_name_sheet_cell_and_column() {
     rows[3][1] = V::S("3,45");
     let e = import(&sheets::xlsx("Log", &rows), "bad.xlsx", &ImportOptions::default()).expect_err("refused");
     assert!(e.starts_with("bad.xlsx: 2 problems"), "{e}");
-    assert!(e.contains("sheet \"Log\", cell C3 (column \"Lithology\"): \"granite\" is not a known lithology"), "{e}");
+    assert!(
+        e.contains("sheet \"Log\", cell C3 (column \"Lithology\"): \"granite\" is not a known lithology"),
+        "{e}"
+    );
     assert!(e.contains("sheet \"Log\", cell B4 (column \"To (m)\")"), "{e}");
-    let e = import(&sheets::xlsx("Log", &log_rows()), "x.xlsx", &ImportOptions { sheet: Some("Beds".into()), ..Default::default() })
-        .expect_err("no such sheet");
+    let e = import(
+        &sheets::xlsx("Log", &log_rows()),
+        "x.xlsx",
+        &ImportOptions { sheet: Some("Beds".into()), ..Default::default() },
+    )
+    .expect_err("no such sheet");
     assert!(e.contains("no sheet named \"Beds\"; the workbook has \"Log\""), "{e}");
 }
 
 #[test]
 fn an_impossible_mapping_lists_the_headers_found() {
-    let e = import(b"Dicke;Gestein;Korngroesse\n1;sst;fs\n", "de.csv", &ImportOptions::default()).expect_err("refused");
+    let e = import(b"Dicke;Gestein;Korngroesse\n1;sst;fs\n", "de.csv", &ImportOptions::default())
+        .expect_err("refused");
     assert!(e.contains("no thickness column") && e.contains("no lithology column"), "{e}");
     assert!(e.contains("Headers found: \"Dicke\", \"Gestein\", \"Korngroesse\""), "{e}");
 }

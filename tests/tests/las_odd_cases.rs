@@ -36,10 +36,10 @@ for path in sys.argv[1:]:
     try:
         las = lasio.read(path)
         unit = las.curves[0].unit.upper()
-        factor = {"M": 1.0, "FT": 0.3048, "F": 0.3048, "CM": 0.01, ".1IN": 0.00254}.get(unit, float("nan"))
+        factor = {"M": 1.0, "FT": 0.3048, "F": 0.3048, "CM": 0.01, ".1IN": 0.00254}.get(unit)
         out[path] = {
             "well": [[i.mnemonic, i.unit, str(i.value), i.descr] for i in las.well],
-            "index_m": [float(v) * factor for v in las.index],
+            "index_m": None if factor is None else [clean(float(v) * factor) for v in las.index],
             "curves": [{"mnemonic": c.mnemonic, "unit": c.unit, "data": [clean(v) for v in c.data]}
                        for c in las.curves[1:]],
         }
@@ -105,11 +105,21 @@ fn compare(name: &str, ours: &LasFile, theirs: &serde_json::Value) {
                 (None, serde_json::Value::Null) => {}
                 (None, serde_json::Value::Object(o)) => {
                     let text = o["text"].as_str().unwrap_or("");
-                    assert!(is_marker(text), "{name} {} #{i}: Aggrade has NULL, lasio has text {text:?}", item.mnemonic);
+                    assert!(
+                        is_marker(text),
+                        "{name} {} #{i}: Aggrade has NULL, lasio has text {text:?}",
+                        item.mnemonic
+                    );
                 }
                 (Some(x), b) => {
-                    let y = b.as_f64().unwrap_or_else(|| panic!("{name} {} #{i}: {x} vs lasio {b}", item.mnemonic));
-                    assert!((x - y).abs() <= 1e-9 * y.abs().max(1.0), "{name} {} #{i}: {x} vs {y}", item.mnemonic);
+                    let y = b
+                        .as_f64()
+                        .unwrap_or_else(|| panic!("{name} {} #{i}: {x} vs lasio {b}", item.mnemonic));
+                    assert!(
+                        (x - y).abs() <= 1e-9 * y.abs().max(1.0),
+                        "{name} {} #{i}: {x} vs {y}",
+                        item.mnemonic
+                    );
                 }
                 (None, b) => panic!("{name} {} #{i}: Aggrade has NULL, lasio {b}", item.mnemonic),
             }
@@ -156,31 +166,54 @@ fn cases() -> Vec<(&'static str, Vec<u8>, Expect)> {
         ("plain", b(BASE.to_string()), Expect::Read("")),
         (
             "las12_value_after_colon",
-            b(replace(" VERS.   2.0 : CWLS LOG ASCII STANDARD - VERSION 2.0", " VERS.   1.2 : CWLS LOG ASCII STANDARD - VERSION 1.2")
-                .replace(" WELL.    Harrier Creek outcrop : WELL", " WELL.    WELL : Harrier Creek outcrop")),
+            b(replace(
+                " VERS.   2.0 : CWLS LOG ASCII STANDARD - VERSION 2.0",
+                " VERS.   1.2 : CWLS LOG ASCII STANDARD - VERSION 1.2",
+            )
+            .replace(" WELL.    Harrier Creek outcrop : WELL", " WELL.    WELL : Harrier Creek outcrop")),
             Expect::Read(""),
         ),
         ("bom", b(format!("\u{feff}{BASE}")), Expect::Read("line 1: a UTF-8 byte-order mark")),
         ("cr_only", b(BASE.replace('\n', "\r")), Expect::Read("")),
         ("cr_lf", b(BASE.replace('\n', "\r\n")), Expect::Read("")),
         ("tabs", b(replace(" 0.5  -999.25  1.35", "0.5\t-999.25\t1.35")), Expect::Read("line 16: tabs")),
-        ("no_vers", b(replace(" VERS.   2.0 : CWLS LOG ASCII STANDARD - VERSION 2.0\n", "")), Expect::Read("line 1: ~V has no VERS line")),
-        ("no_wrap", b(replace(" WRAP.   NO  : ONE LINE PER DEPTH STEP\n", "")), Expect::Read("~V has no WRAP line; the data look unwrapped")),
+        (
+            "no_vers",
+            b(replace(" VERS.   2.0 : CWLS LOG ASCII STANDARD - VERSION 2.0\n", "")),
+            Expect::Read("line 1: ~V has no VERS line"),
+        ),
+        (
+            "no_wrap",
+            b(replace(" WRAP.   NO  : ONE LINE PER DEPTH STEP\n", "")),
+            Expect::Read("~V has no WRAP line; the data look unwrapped"),
+        ),
         (
             "no_wrap_wrapped_data",
-            b(replace(" WRAP.   NO  : ONE LINE PER DEPTH STEP\n", "").split("~A").next().unwrap_or("").to_string() + wrapped_data),
+            b(replace(" WRAP.   NO  : ONE LINE PER DEPTH STEP\n", "")
+                .split("~A")
+                .next()
+                .unwrap_or("")
+                .to_string()
+                + wrapped_data),
             Expect::Read("the data look wrapped"),
         ),
-        ("wrapped", b(BASE.replace(" WRAP.   NO ", " WRAP.   YES").split("~A").next().unwrap_or("").to_string() + wrapped_data), Expect::Read("")),
+        (
+            "wrapped",
+            b(BASE.replace(" WRAP.   NO ", " WRAP.   YES").split("~A").next().unwrap_or("").to_string()
+                + wrapped_data),
+            Expect::Read(""),
+        ),
         ("no_null", b(replace(" NULL.    -999.25 : NULL VALUE\n", "")), Expect::Read("no NULL value in ~W")),
         (
             "ind_markers",
-            b(replace(" 0.5  -999.25  1.35", " 0.5  -1.#IND  1.35").replace(" 1.0  80.25  1.10", " 1.0  80.25  1.#INF")),
+            b(replace(" 0.5  -999.25  1.35", " 0.5  -1.#IND  1.35")
+                .replace(" 1.0  80.25  1.10", " 1.0  80.25  1.#INF")),
             Expect::Read("line 16: \"-1.#IND\" read as a missing value (NULL); 1 more"),
         ),
         (
             "text_markers",
-            b(replace(" 0.5  -999.25  1.35", " 0.5  NaN  (null)").replace(" 1.0  80.25  1.10", " 1.0  -  1.10")),
+            b(replace(" 0.5  -999.25  1.35", " 0.5  NaN  (null)")
+                .replace(" 1.0  80.25  1.10", " 1.0  -  1.10")),
             Expect::Read("line 16: \"NaN\" read as a missing value (NULL); 2 more"),
         ),
         (
@@ -188,24 +221,52 @@ fn cases() -> Vec<(&'static str, Vec<u8>, Expect)> {
             b(replace(" 0.5  -999.25  1.35", " 0.5  45,75  1,35")),
             Expect::Read("line 16: \"45,75\" read with a decimal comma; 1 more"),
         ),
-        ("duplicate_mnemonics", b(replace(" K   .%        : POTASSIUM", " GR  .API      : GAMMA RAY 2")), Expect::Read("line 12: the mnemonic GR appears more than once")),
+        (
+            "duplicate_mnemonics",
+            b(replace(" K   .%        : POTASSIUM", " GR  .API      : GAMMA RAY 2")),
+            Expect::Read("line 12: the mnemonic GR appears more than once"),
+        ),
         (
             "fewer_data_columns",
-            b(replace(" K   .%        : POTASSIUM\n", " K   .%        : POTASSIUM\n TH  .PPM      : THORIUM\n")),
+            b(replace(
+                " K   .%        : POTASSIUM\n",
+                " K   .%        : POTASSIUM\n TH  .PPM      : THORIUM\n",
+            )),
             Expect::Read("~C lists 4 curves but each data line holds 3 values"),
         ),
-        ("curve_line_without_colon", b(replace(" K   .%        : POTASSIUM", " K   .%")), Expect::Read("line 13: no colon")),
-        ("feet_index", b(BASE.replace("DEPT.M", "DEPT.FT").replace("STRT.M", "STRT.FT").replace("STOP.M", "STOP.FT").replace("STEP.M", "STEP.FT")), Expect::Read("")),
+        (
+            "curve_line_without_colon",
+            b(replace(" K   .%        : POTASSIUM", " K   .%")),
+            Expect::Read("line 13: no colon"),
+        ),
+        (
+            "feet_index",
+            b(BASE
+                .replace("DEPT.M", "DEPT.FT")
+                .replace("STRT.M", "STRT.FT")
+                .replace("STOP.M", "STOP.FT")
+                .replace("STEP.M", "STEP.FT")),
+            Expect::Read(""),
+        ),
         ("ctrl_z_at_end", b(format!("{BASE}\u{1a}")), Expect::Read("")),
         (
             "more_data_columns",
-            b(replace(" 0.0  45.5  1.20\n 0.5  -999.25  1.35\n 1.0  80.25  1.10", " 0.0  45.5  1.20 7\n 0.5  -999.25  1.35 8\n 1.0  80.25  1.10 9")),
-            Expect::Refused { message: "line 15: the data lines hold 4 values but ~C lists 3 curves", lasio_reads: true },
+            b(replace(
+                " 0.0  45.5  1.20\n 0.5  -999.25  1.35\n 1.0  80.25  1.10",
+                " 0.0  45.5  1.20 7\n 0.5  -999.25  1.35 8\n 1.0  80.25  1.10 9",
+            )),
+            Expect::Refused {
+                message: "line 15: the data lines hold 4 values but ~C lists 3 curves",
+                lasio_reads: true,
+            },
         ),
         (
             "ragged_rows",
             b(replace(" 0.5  -999.25  1.35", " 0.5  -999.25")),
-            Expect::Refused { message: "line 16: expected 3 values (one per ~C curve), found 2", lasio_reads: false },
+            Expect::Refused {
+                message: "line 16: expected 3 values (one per ~C curve), found 2",
+                lasio_reads: false,
+            },
         ),
         (
             "time_index",
@@ -215,12 +276,18 @@ fn cases() -> Vec<(&'static str, Vec<u8>, Expect)> {
         (
             "run_on_numbers",
             b(replace(" 0.5  -999.25  1.35", " 0.5  45.5-999.25")),
-            Expect::Refused { message: "line 16: data value: \"45.5-999.25\" is not a number (two numbers run together?", lasio_reads: true },
+            Expect::Refused {
+                message: "line 16: data value: \"45.5-999.25\" is not a number (two numbers run together?",
+                lasio_reads: true,
+            },
         ),
         (
             "thousands_or_decimal_comma",
             b(replace(" 1.0  80.25  1.10", " 1.0  1,500  1.10")),
-            Expect::Refused { message: "line 17: data value: \"1,500\" is not a number: a comma followed by three digits", lasio_reads: true },
+            Expect::Refused {
+                message: "line 17: data value: \"1,500\" is not a number: a comma followed by three digits",
+                lasio_reads: true,
+            },
         ),
         (
             "unknown_text_value",
@@ -230,9 +297,19 @@ fn cases() -> Vec<(&'static str, Vec<u8>, Expect)> {
         (
             "null_index",
             b(replace(" 0.5  -999.25  1.35", " -999.25  50.0  1.35")),
-            Expect::Refused { message: "line 16: the index (depth) value is missing (NULL)", lasio_reads: true },
+            Expect::Refused {
+                message: "line 16: the index (depth) value is missing (NULL)",
+                lasio_reads: true,
+            },
         ),
-        ("las30", b(replace(" VERS.   2.0 ", " VERS.   3.0 ")), Expect::Refused { message: "line 2: VERS is \"3.0\": LAS 3.0 files are not read", lasio_reads: true }),
+        (
+            "las30",
+            b(replace(" VERS.   2.0 ", " VERS.   3.0 ")),
+            Expect::Refused {
+                message: "line 2: VERS is \"3.0\": LAS 3.0 files are not read",
+                lasio_reads: true,
+            },
+        ),
         ("utf16", utf16, Expect::Refused { message: "a NUL byte", lasio_reads: false }),
     ]
 }

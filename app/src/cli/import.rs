@@ -53,10 +53,9 @@ fn options(args: &ImportArgs) -> anyhow::Result<ImportOptions> {
         ..Default::default()
     };
     if let Some(d) = &args.delimiter {
-        o.text.delimiter = Some(
-            Delimiter::parse(d)
-                .ok_or_else(|| anyhow!("--delimiter {d:?}: give one character, or tab, space, comma, semicolon"))?,
-        );
+        o.text.delimiter = Some(Delimiter::parse(d).ok_or_else(|| {
+            anyhow!("--delimiter {d:?}: give one character, or tab, space, comma, semicolon")
+        })?);
     }
     if let Some(d) = &args.decimal {
         o.text.decimal = Some(match d.to_ascii_lowercase().as_str() {
@@ -72,7 +71,8 @@ fn options(args: &ImportArgs) -> anyhow::Result<ImportOptions> {
         );
     }
     if let Some(path) = &args.mapping {
-        let text = std::fs::read_to_string(path).map_err(|e| anyhow!("{}: could not read: {e}", path.display()))?;
+        let text =
+            std::fs::read_to_string(path).map_err(|e| anyhow!("{}: could not read: {e}", path.display()))?;
         o.mapping = Some(mapping_from_json(&text).map_err(|e| anyhow!("{}: {e}", path.display()))?);
     }
     Ok(o)
@@ -90,11 +90,7 @@ pub fn run(args: &ImportArgs) -> anyhow::Result<()> {
         eprintln!("aggrade: warning: {}: {w}", args.input.display());
     }
     let mut section = imported.section;
-    let mut project = if out.exists() {
-        super::load_input(&out)?
-    } else {
-        Project::new(Vec::new())
-    };
+    let mut project = if out.exists() { super::load_input(&out)? } else { Project::new(Vec::new()) };
     while project.sections.iter().any(|s| s.name == section.name) {
         section.name.push_str(" (imported)");
     }

@@ -4,11 +4,11 @@
 use super::actions::Actions;
 use super::canvas::{self, Canvas};
 use super::curve_dialog::{self, CurveDialog};
-use super::import_dialog::{self, ImportDialog};
 use super::document::{Document, Edit};
 use super::engine::{self, LayoutOptions, RuleParams, Strip};
 use super::export_dialog::ExportDialog;
 use super::files::{self, FileDialogs, SaveKind};
+use super::import_dialog::{self, ImportDialog};
 use super::inspector::Inspector;
 use super::painter::ItemIndex;
 use super::recovery::{self, Autosaver, Recovery};
@@ -1074,12 +1074,18 @@ impl AggradeApp {
             match dlg.ui(ctx) {
                 import_dialog::Outcome::Open => {}
                 import_dialog::Outcome::Closed => self.import_dialog = None,
-                import_dialog::Outcome::Import { mut section, note } => {
+                import_dialog::Outcome::Import { section, note } => {
                     self.import_dialog = None;
+                    let mut section = *section;
                     while self.doc.project.sections.iter().any(|x| x.name == section.name) {
                         section.name.push_str(" (imported)");
                     }
-                    self.status = format!("Imported {} ({} beds){}", section.name, section.beds.len(), note.map(|n| format!("; {n}")).unwrap_or_default());
+                    self.status = format!(
+                        "Imported {} ({} beds){}",
+                        section.name,
+                        section.beds.len(),
+                        note.map(|n| format!("; {n}")).unwrap_or_default()
+                    );
                     self.apply(Edit::AddSection { section });
                 }
             }

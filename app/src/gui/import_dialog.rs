@@ -21,7 +21,10 @@ pub enum Outcome {
     Open,
     Closed,
     /// Add this section (the window has closed); `note` says if the mapping could not be saved.
-    Import { section: Section, note: Option<String> },
+    Import {
+        section: Box<Section>,
+        note: Option<String>,
+    },
 }
 
 /// Window state for one picked table.
@@ -47,7 +50,8 @@ impl ImportDialog {
     pub fn open(path: &Path, data_dir: Option<&Path>) -> Result<Self, String> {
         let shown = path.display().to_string();
         let bytes = import::read_limited(path).map_err(|e| e.to_string())?;
-        let source = import::read_source(&bytes, &shown, &ImportOptions::default()).map_err(|e| e.to_string())?;
+        let source =
+            import::read_source(&bytes, &shown, &ImportOptions::default()).map_err(|e| e.to_string())?;
         if source.table.rows.is_empty() {
             return Err(format!("{shown}: the table is empty"));
         }
@@ -64,13 +68,22 @@ impl ImportDialog {
                 Ok(found) => found,
                 // Nothing maps: show the first row as headers, for the geologist to map.
                 Err(_) => {
-                    let headers: Vec<String> = source.table.rows[0].cells.iter().map(import::Cell::text).collect();
+                    let headers: Vec<String> =
+                        source.table.rows[0].cells.iter().map(import::Cell::text).collect();
                     (0, guess_mapping(&headers, false))
                 }
             },
         };
         let decimal = source.format.decimal();
-        Ok(ImportDialog { path: path.to_path_buf(), source, header_row, mapping, decimal, saved_mapping, error: None })
+        Ok(ImportDialog {
+            path: path.to_path_buf(),
+            source,
+            header_row,
+            mapping,
+            decimal,
+            saved_mapping,
+            error: None,
+        })
     }
 
     /// The section as it would be imported, or every problem (file, line or cell, column).
@@ -93,26 +106,37 @@ impl ImportDialog {
         if let Some(dir) = path.parent() {
             std::fs::create_dir_all(dir).map_err(|e| format!("{}: {e}", dir.display()))?;
         }
-        aggrade_core::io::write_bytes_atomic(path, mapping_to_json(&self.mapping).as_bytes()).map_err(|e| e.to_string())
+        aggrade_core::io::write_bytes_atomic(path, mapping_to_json(&self.mapping).as_bytes())
+            .map_err(|e| e.to_string())
     }
 
     /// The headers of the current header row.
     fn headers(&self) -> Vec<String> {
-        self.source.table.rows.get(self.header_row).map(|r| r.cells.iter().map(import::Cell::text).collect()).unwrap_or_default()
+        self.source
+            .table
+            .rows
+            .get(self.header_row)
+            .map(|r| r.cells.iter().map(import::Cell::text).collect())
+            .unwrap_or_default()
     }
 
     /// Draw the window.
     pub fn ui(&mut self, ctx: &egui::Context) -> Outcome {
         let mut outcome = Outcome::Open;
         let mut open = true;
-        egui::Window::new("Import table").open(&mut open).collapsible(false).resizable(true).default_width(760.0).show(
-            ctx,
-            |ui| {
-                let name = self.path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+        egui::Window::new("Import table")
+            .open(&mut open)
+            .collapsible(false)
+            .resizable(true)
+            .default_width(760.0)
+            .show(ctx, |ui| {
+                let name =
+                    self.path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
                 ui.label(format!("{name}: {}", self.source.format.describe()));
                 ui.horizontal(|ui| {
-                    ui.checkbox(&mut self.mapping.top_first, "Written from the top down")
-                        .on_hover_text("The first row is the top bed: rows are turned over; from/to are depths");
+                    ui.checkbox(&mut self.mapping.top_first, "Written from the top down").on_hover_text(
+                        "The first row is the top bed: rows are turned over; from/to are depths",
+                    );
                     let unit_label = ui.label("Heights in");
                     egui::ComboBox::from_id_salt("import_unit")
                         .selected_text(self.mapping.length_unit.name())
@@ -136,20 +160,28 @@ impl ImportDialog {
                             .labelled_by(dec_label.id);
                     }
                     if self.header_row + 1 < self.source.table.rows.len().min(10)
-                        && ui.button("Headers one row down").on_hover_text("The headers are on the next row").clicked()
+                        && ui
+                            .button("Headers one row down")
+                            .on_hover_text("The headers are on the next row")
+                            .clicked()
                     {
                         self.header_row += 1;
                         self.mapping = guess_mapping(&self.headers(), self.mapping.top_first);
                     }
                 });
-                let rows = preview(&self.source.table, self.header_row, &self.mapping, self.decimal, PREVIEW_ROWS);
+                let rows =
+                    preview(&self.source.table, self.header_row, &self.mapping, self.decimal, PREVIEW_ROWS);
                 egui::ScrollArea::both().max_height(320.0).show(ui, |ui| {
                     egui::Grid::new("import_preview").striped(true).spacing([12.0, 4.0]).show(ui, |ui| {
                         ui.label("");
                         for (i, column) in self.mapping.columns.iter_mut().enumerate() {
                             let header = column.header.clone();
                             ui.vertical(|ui| {
-                                let label = ui.strong(if header.is_empty() { format!("column {}", i + 1) } else { header.clone() });
+                                let label = ui.strong(if header.is_empty() {
+                                    format!("column {}", i + 1)
+                                } else {
+                                    header.clone()
+                                });
                                 let current = column.field.map_or("not read", Field::name);
                                 egui::ComboBox::from_id_salt(("import_field", i))
                                     .selected_text(current)
@@ -174,9 +206,16 @@ impl ImportDialog {
                                         ui.label(&c.shown);
                                     }
                                     Some(why) => {
-                                        let shown = if c.shown.is_empty() { "(empty)".to_string() } else { c.shown.clone() };
-                                        ui.label(egui::RichText::new(format!("✗ {shown}")).color(super::theme::WARN))
-                                            .on_hover_text(format!("Refused: {why}"));
+                                        let shown = if c.shown.is_empty() {
+                                            "(empty)".to_string()
+                                        } else {
+                                            c.shown.clone()
+                                        };
+                                        ui.label(
+                                            egui::RichText::new(format!("✗ {shown}"))
+                                                .color(super::theme::WARN),
+                                        )
+                                        .on_hover_text(format!("Refused: {why}"));
                                     }
                                 }
                             }
@@ -184,7 +223,8 @@ impl ImportDialog {
                         }
                     });
                 });
-                let refused: usize = rows.iter().map(|(_, c)| c.iter().filter(|c| c.refused.is_some()).count()).sum();
+                let refused: usize =
+                    rows.iter().map(|(_, c)| c.iter().filter(|c| c.refused.is_some()).count()).sum();
                 if refused > 0 {
                     ui.label(
                         egui::RichText::new(format!(
@@ -211,9 +251,10 @@ impl ImportDialog {
                         // The mapping the geologist made is kept even when a row is refused (the
                         // file gets fixed and imported again); failing to save it does not stop the
                         // import, but the geologist is told.
-                        let note = self.save_mapping().err().map(|e| format!("the mapping was not saved: {e}"));
+                        let note =
+                            self.save_mapping().err().map(|e| format!("the mapping was not saved: {e}"));
                         match self.section() {
-                            Ok(section) => outcome = Outcome::Import { section, note },
+                            Ok(section) => outcome = Outcome::Import { section: Box::new(section), note },
                             Err(e) => self.error = Some(note.map_or(e.clone(), |n| format!("{e}\n{n}"))),
                         }
                     }
@@ -221,8 +262,7 @@ impl ImportDialog {
                         outcome = Outcome::Closed;
                     }
                 });
-            },
-        );
+            });
         if !open {
             return Outcome::Closed;
         }

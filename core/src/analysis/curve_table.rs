@@ -11,7 +11,19 @@ use crate::model::METRES_PER_FOOT;
 
 /// Index headers (folded: lower case, unit in brackets removed) that name a height or depth.
 const INDEX_HEADERS: [&str; 14] = [
-    "height", "depth", "dept", "h", "z", "md", "position", "pos", "elevation", "level", "distance", "metre", "meter",
+    "height",
+    "depth",
+    "dept",
+    "h",
+    "z",
+    "md",
+    "position",
+    "pos",
+    "elevation",
+    "level",
+    "distance",
+    "metre",
+    "meter",
     "m",
 ];
 
@@ -58,7 +70,8 @@ pub fn read_curve_table(
 ) -> Result<LasFile, LasError> {
     let syntax = |line: usize, message: String| LasError::Syntax { path: path.to_string(), line, message };
     let missing = |message: String| LasError::Missing { path: path.to_string(), message };
-    let (table, sniffed) = read_text_table(bytes, options).map_err(|p| syntax(p.line.unwrap_or(1), p.to_string()))?;
+    let (table, sniffed) =
+        read_text_table(bytes, options).map_err(|p| syntax(p.line.unwrap_or(1), p.to_string()))?;
     let Some(header_row) = table.rows.first() else {
         return Err(missing("the table is empty; expected a header row (e.g. Height (m), K, U, Th)".into()));
     };
@@ -66,23 +79,30 @@ pub fn read_curve_table(
     if headers.len() < 2 {
         return Err(syntax(
             header_row.line,
-            format!("found {} column(s) in the header; expected a height or depth column and at least one curve", headers.len()),
+            format!(
+                "found {} column(s) in the header; expected a height or depth column and at least one curve",
+                headers.len()
+            ),
         ));
     }
     if headers.iter().all(|h| number(h, sniffed.decimal).is_ok()) {
-        return Err(syntax(header_row.line, "the first row holds numbers; expected a header row naming the columns".into()));
+        return Err(syntax(
+            header_row.line,
+            "the first row holds numbers; expected a header row naming the columns".into(),
+        ));
     }
     let folded: Vec<(String, String)> = headers.iter().map(|h| name_and_unit(h)).collect();
     let index = match index_column {
         Some(want) => headers
             .iter()
             .zip(&folded)
-            .position(|(h, (n, _))| h.eq_ignore_ascii_case(want.trim()) || n.eq_ignore_ascii_case(want.trim()))
+            .position(|(h, (n, _))| {
+                h.eq_ignore_ascii_case(want.trim()) || n.eq_ignore_ascii_case(want.trim())
+            })
             .ok_or_else(|| missing(format!("no column {want:?}; the header has {}", headers.join(", "))))?,
-        None => folded
-            .iter()
-            .position(|(n, _)| INDEX_HEADERS.contains(&n.to_lowercase().as_str()))
-            .unwrap_or(0),
+        None => {
+            folded.iter().position(|(n, _)| INDEX_HEADERS.contains(&n.to_lowercase().as_str())).unwrap_or(0)
+        }
     };
     let (index_name, index_unit) = folded[index].clone();
     let factor = metres_per(&index_unit).ok_or_else(|| {
@@ -116,14 +136,23 @@ pub fn read_curve_table(
                 .map_err(|e| syntax(row.line, format!("column {:?}: {e}", headers[k])))
         };
         let Some(h) = read(index)? else {
-            return Err(syntax(row.line, format!("column {:?}: a height or depth is required", headers[index])));
+            return Err(syntax(
+                row.line,
+                format!("column {:?}: a height or depth is required", headers[index]),
+            ));
         };
         index_m.push(h * factor);
         for (slot, &k) in values.iter_mut().zip(&others) {
             slot.push(read(k)?);
         }
         if index_m.len() > crate::io::MAX_CURVE_SAMPLES {
-            return Err(syntax(row.line, format!("more than {} rows; at most that many samples per curve", crate::io::MAX_CURVE_SAMPLES)));
+            return Err(syntax(
+                row.line,
+                format!(
+                    "more than {} rows; at most that many samples per curve",
+                    crate::io::MAX_CURVE_SAMPLES
+                ),
+            ));
         }
     }
     if index_m.is_empty() {
@@ -171,7 +200,8 @@ mod tests {
         let text = "depth_ft,K\n1,2\n2,lots\n";
         let e = read_curve_table(text.as_bytes(), "k.csv", &TextOptions::default(), None).expect_err("bad");
         assert!(e.to_string().contains("k.csv, line 3: column \"K\""), "{e}");
-        let e = read_curve_table(b"Time (s),K\n1,2\n", "t.csv", &TextOptions::default(), Some("Time")).expect_err("unit");
+        let e = read_curve_table(b"Time (s),K\n1,2\n", "t.csv", &TextOptions::default(), Some("Time"))
+            .expect_err("unit");
         assert!(e.to_string().contains("expected m, cm or ft"), "{e}");
     }
 }

@@ -241,13 +241,15 @@ fn is_time_index(mnemonic: &str, unit: &str) -> bool {
     let m = mnemonic.trim().to_ascii_uppercase();
     let u = unit.trim().to_ascii_uppercase();
     ["TIME", "ETIM", "DATE", "DATETIME", "T"].contains(&m.as_str())
-        || ["S", "SEC", "SECS", "MS", "MSEC", "MIN", "H", "HR", "HOUR", "HOURS", "D", "DAY", "DAYS"].contains(&u.as_str())
+        || ["S", "SEC", "SECS", "MS", "MSEC", "MIN", "H", "HR", "HOUR", "HOURS", "D", "DAY", "DAYS"]
+            .contains(&u.as_str())
 }
 
 /// A unit with the brackets some writers put round it removed (`(M)` → `M`).
 fn strip_brackets(unit: &str) -> &str {
     let u = unit.trim();
-    if u.len() >= 2 && ((u.starts_with('(') && u.ends_with(')')) || (u.starts_with('[') && u.ends_with(']'))) {
+    if u.len() >= 2 && ((u.starts_with('(') && u.ends_with(')')) || (u.starts_with('[') && u.ends_with(']')))
+    {
         &u[1..u.len() - 1]
     } else {
         u
@@ -281,7 +283,10 @@ fn parse_header_line(text: &str, line: usize, path: &str) -> Result<(HeaderItem,
             description: String::new(),
             line,
         };
-        let warning = format!("{path}, line {line}: no period after the mnemonic; read as {:?} = {:?} with no unit", item.mnemonic, item.value);
+        let warning = format!(
+            "{path}, line {line}: no period after the mnemonic; read as {:?} = {:?} with no unit",
+            item.mnemonic, item.value
+        );
         return Ok((item, Some(warning)));
     };
     // A leading period (`.DEPT.M`) is skipped, as other readers do.
@@ -357,7 +362,9 @@ fn parse_token(token: &str, line: usize, path: &str) -> Result<Token, LasError> 
     if plain {
         return match token.parse::<f64>() {
             Ok(v) if v.is_finite() => Ok(Token::Value(v)),
-            _ if token.matches('.').count() > 1 || (token[1..].contains(['-', '+']) && !token.contains(['e', 'E'])) => {
+            _ if token.matches('.').count() > 1
+                || (token[1..].contains(['-', '+']) && !token.contains(['e', 'E'])) =>
+            {
                 Err(bad(" (two numbers run together? put a space between them)"))
             }
             _ => Err(bad("")),
@@ -423,7 +430,8 @@ pub fn read_las(path: &Path) -> Result<LasFile, LasError> {
         return Err(io(format!("the file is {size} bytes; at most {limit} bytes are read")));
     }
     let mut bytes = Vec::new();
-    std::io::Read::read_to_end(&mut std::io::Read::take(file, limit + 1), &mut bytes).map_err(|e| io(e.to_string()))?;
+    std::io::Read::read_to_end(&mut std::io::Read::take(file, limit + 1), &mut bytes)
+        .map_err(|e| io(e.to_string()))?;
     if bytes.len() as u64 > limit {
         return Err(io(format!("the file is more than {limit} bytes; at most {limit} bytes are read")));
     }
@@ -461,7 +469,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     };
     if let Some(i) = text.find('\0') {
         let line = 1 + text[..i].matches('\n').count();
-        return Err(syntax(line, "a NUL byte: this is not ASCII text (UTF-16 or a binary file?); save it as ASCII".into()));
+        return Err(syntax(
+            line,
+            "a NUL byte: this is not ASCII text (UTF-16 or a binary file?); save it as ASCII".into(),
+        ));
     }
     #[derive(PartialEq, Clone, Copy)]
     enum Part {
@@ -495,7 +506,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
         }
         if let Some(tag) = trimmed.strip_prefix('~') {
             if seen_a {
-                return Err(syntax(line, "the ~A (data) section must be the last section of the file".into()));
+                return Err(syntax(
+                    line,
+                    "the ~A (data) section must be the last section of the file".into(),
+                ));
             }
             part = match tag.chars().next().map(|c| c.to_ascii_uppercase()) {
                 Some('V') => Part::V,
@@ -552,7 +566,10 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
             match number {
                 Some(v) if v == 1.2 || v == 2.0 => vers.value.clone(),
                 Some(v) if v >= 3.0 => {
-                    return Err(syntax(vers.line, format!("VERS is {:?}: LAS 3.0 files are not read; write LAS 2.0", vers.value)))
+                    return Err(syntax(
+                        vers.line,
+                        format!("VERS is {:?}: LAS 3.0 files are not read; write LAS 2.0", vers.value),
+                    ))
                 }
                 _ => {
                     return Err(syntax(
@@ -640,9 +657,12 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     let null_value = match find(&well, "NULL") {
         Some(n) if !n.value.is_empty() => {
             let text = n.value.replace(',', ".");
-            Some(text.parse::<f64>().ok().filter(|v| v.is_finite()).ok_or_else(|| {
-                syntax(n.line, format!("NULL value: {:?} is not a number", n.value))
-            })?)
+            Some(
+                text.parse::<f64>()
+                    .ok()
+                    .filter(|v| v.is_finite())
+                    .ok_or_else(|| syntax(n.line, format!("NULL value: {:?} is not a number", n.value)))?,
+            )
         }
         _ => {
             let line = find(&well, "NULL").map_or(v_line, |n| n.line);
@@ -788,9 +808,7 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     let index_m = index_values.iter().map(|d| d * factor).collect();
     let values = (1..ncurves)
         .map(|k| {
-            rows.iter()
-                .map(|(_, r)| if k < columns { r[k].filter(|v| !is_null(*v)) } else { None })
-                .collect()
+            rows.iter().map(|(_, r)| if k < columns { r[k].filter(|v| !is_null(*v)) } else { None }).collect()
         })
         .collect();
     warnings.extend(header_warnings(path, &well, &index_unit, &index_values));

@@ -53,7 +53,8 @@ pub fn zip_raw(members: Vec<(String, Vec<u8>, u16, u32, u32)>) -> Vec<u8> {
             h.extend((name.len() as u16).to_le_bytes());
             h.extend(0u16.to_le_bytes());
             if central_dir {
-                h.extend([0u8; 8]);
+                // Comment length, disk number, internal and external attributes.
+                h.extend([0u8; 6]);
                 h.extend(0u32.to_le_bytes());
                 h.extend(offset.to_le_bytes());
             }
@@ -97,16 +98,23 @@ const NS_PKG_REL: &str = "http://schemas.openxmlformats.org/package/2006/relatio
 
 /// The parts of an `.xlsx` workbook with one sheet: `rows` first, then `empty_rows` rows with no
 /// cells, then `tail` (so a table can sit below a million empty rows).
-pub fn xlsx_parts(sheet: &str, rows: &[Vec<V>], empty_rows: usize, tail: &[Vec<V>]) -> Vec<(&'static str, Vec<u8>)> {
+pub fn xlsx_parts(
+    sheet: &str,
+    rows: &[Vec<V>],
+    empty_rows: usize,
+    tail: &[Vec<V>],
+) -> Vec<(&'static str, Vec<u8>)> {
     let mut data = String::new();
     let mut r = 0usize;
-    let mut row_xml = |r: usize, cells: &[V], data: &mut String| {
+    let row_xml = |r: usize, cells: &[V], data: &mut String| {
         data.push_str(&format!("<row r=\"{}\">", r + 1));
         for (c, v) in cells.iter().enumerate() {
             let at = format!("{}{}", letters(c), r + 1);
             match v {
                 V::N(x) => data.push_str(&format!("<c r=\"{at}\"><v>{x}</v></c>")),
-                V::S(s) => data.push_str(&format!("<c r=\"{at}\" t=\"inlineStr\"><is><t>{}</t></is></c>", escape(s))),
+                V::S(s) => {
+                    data.push_str(&format!("<c r=\"{at}\" t=\"inlineStr\"><is><t>{}</t></is></c>", escape(s)))
+                }
                 V::Blank => {}
             }
         }
@@ -127,16 +135,15 @@ pub fn xlsx_parts(sheet: &str, rows: &[Vec<V>], empty_rows: usize, tail: &[Vec<V
     vec![
         (
             "[Content_Types].xml",
-            format!(
-                "<?xml version=\"1.0\" encoding=\"UTF-8\" standalone=\"yes\"?>\
+            ("<?xml version=\"1.0\" encoding=\"UTF-8\" standalone=\"yes\"?>\
 <Types xmlns=\"http://schemas.openxmlformats.org/package/2006/content-types\">\
 <Default Extension=\"rels\" ContentType=\"application/vnd.openxmlformats-package.relationships+xml\"/>\
 <Default Extension=\"xml\" ContentType=\"application/xml\"/>\
 <Override PartName=\"/xl/workbook.xml\" ContentType=\"application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml\"/>\
 <Override PartName=\"/xl/worksheets/sheet1.xml\" ContentType=\"application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml\"/>\
-</Types>"
-            )
-            .into_bytes(),
+</Types>")
+                .as_bytes()
+                .to_vec(),
         ),
         (
             "_rels/.rels",

@@ -40,10 +40,7 @@ const OUT_COLUMNS: [&str; 16] = [
 
 /// Split a list cell on `;` (and `,` where a comma cannot be a decimal mark).
 fn list_items(text: &str, commas: bool) -> Vec<&str> {
-    text.split(|c| c == ';' || (commas && c == ','))
-        .map(str::trim)
-        .filter(|s| !s.is_empty())
-        .collect()
+    text.split(|c| c == ';' || (commas && c == ',')).map(str::trim).filter(|s| !s.is_empty()).collect()
 }
 
 fn vocab_list(text: &str, parse: impl Fn(&str) -> bool, valid: &str) -> Result<String, String> {
@@ -76,7 +73,9 @@ fn canonical(
         return Err(why.clone());
     }
     let text = cell.text();
-    let blank = text.is_empty() || (matches!(field, Field::Grain | Field::GrainBase | Field::GrainTop) && (text == "—" || text == "-"));
+    let blank = text.is_empty()
+        || (matches!(field, Field::Grain | Field::GrainBase | Field::GrainTop)
+            && (text == "—" || text == "-"));
     match field {
         Field::Thickness => {
             if blank {
@@ -111,9 +110,9 @@ fn canonical(
             }
         }),
         Field::GrainBase | Field::GrainTop => values::grain(&text, decimal, grain_unit).map(String::from),
-        Field::BaseContact => values::contact(&text)
-            .map(|c| c.name().to_string())
-            .ok_or_else(|| format!("{text:?} is not known; valid values are {}", crate::model::Contact::valid_list())),
+        Field::BaseContact => values::contact(&text).map(|c| c.name().to_string()).ok_or_else(|| {
+            format!("{text:?} is not known; valid values are {}", crate::model::Contact::valid_list())
+        }),
         Field::BaseRelief => {
             let (v, _) = number_cell(cell, decimal)?;
             if v >= 0.0 {
@@ -127,7 +126,10 @@ fn canonical(
             vocab_list(&text, |i| PaleosolFeature::parse(i).is_some(), &PaleosolFeature::valid_list())
         }
         Field::Paleosol => values::paleosol(&text).map(|p| p.name().to_string()).ok_or_else(|| {
-            format!("{text:?} is not known; valid values are {}", crate::model::PaleosolDevelopment::valid_list())
+            format!(
+                "{text:?} is not known; valid values are {}",
+                crate::model::PaleosolDevelopment::valid_list()
+            )
         }),
         Field::CarbonateStage => {
             let roman = ["I", "II", "III", "IV", "V", "VI"];
@@ -160,7 +162,12 @@ fn canonical(
 }
 
 /// A cell read for its field, as the preview shows it (thickness with its unit).
-pub fn read_cell(field: Field, cell: &Cell, decimal: DecimalMark, mapping: &ColumnMapping) -> Result<String, String> {
+pub fn read_cell(
+    field: Field,
+    cell: &Cell,
+    decimal: DecimalMark,
+    mapping: &ColumnMapping,
+) -> Result<String, String> {
     let unit = mapping.length_unit;
     canonical(field, cell, decimal, mapping.grain_unit, unit).map(|s| match field {
         Field::Thickness | Field::From | Field::To => format!("{s} {}", unit.name()),
@@ -219,14 +226,18 @@ pub fn build_section(
     decimal: DecimalMark,
     name: &str,
 ) -> Result<(Section, Vec<Problem>), Vec<Problem>> {
-    let header = |i: usize| mapping.columns.get(i).map_or_else(|| format!("column {}", i + 1), |c| c.header.clone());
+    let header =
+        |i: usize| mapping.columns.get(i).map_or_else(|| format!("column {}", i + 1), |c| c.header.clone());
     let col = |f: Field| mapping.column_of(f);
     let unit = mapping.length_unit;
     let mut problems: Vec<Problem> = Vec::new();
     let mut warnings: Vec<Problem> = Vec::new();
     let use_heights = col(Field::Thickness).is_none();
     if !use_heights && (col(Field::From).is_some() || col(Field::To).is_some()) {
-        warnings.push(Problem::new("header", "both a thickness and from/to heights are given: the thickness is used"));
+        warnings.push(Problem::new(
+            "header",
+            "both a thickness and from/to heights are given: the thickness is used",
+        ));
     }
     // (original line, thickness text, the other cells in OUT_COLUMNS order)
     let mut rows_out: Vec<(usize, String, Vec<String>)> = Vec::new();
@@ -254,7 +265,8 @@ pub fn build_section(
             let (Some(fi), Some(ti)) = (col(Field::From), col(Field::To)) else {
                 return Err(vec![Problem::new("header", "from and to height columns are both needed")]);
             };
-            let from = keep(read(Field::From), &mut problems).and_then(|_| number_cell(&cell(fi), decimal).ok());
+            let from =
+                keep(read(Field::From), &mut problems).and_then(|_| number_cell(&cell(fi), decimal).ok());
             let to = keep(read(Field::To), &mut problems).and_then(|_| number_cell(&cell(ti), decimal).ok());
             match (from, to) {
                 (Some(from), Some(to)) => {
@@ -285,7 +297,11 @@ pub fn build_section(
                                 "to {} must be greater than from {}{}",
                                 to.1,
                                 from.1,
-                                if mapping.top_first { "" } else { " (for depths, import with the log read from the top)" }
+                                if mapping.top_first {
+                                    ""
+                                } else {
+                                    " (for depths, import with the log read from the top)"
+                                }
                             ),
                         ));
                         None
@@ -306,7 +322,8 @@ pub fn build_section(
             }
         };
         if let Some(g) = keep(read(Field::Grain), &mut problems) {
-            let (a, b) = g.split_once(" → ").map_or((g.clone(), g.clone()), |(a, b)| (a.to_string(), b.to_string()));
+            let (a, b) =
+                g.split_once(" → ").map_or((g.clone(), g.clone()), |(a, b)| (a.to_string(), b.to_string()));
             put("grain_base", a);
             put("grain_top", b);
         }

@@ -180,7 +180,8 @@ pub const HEADER_VARIANTS: [(&str, Field); 75] = [
 const IGNORED_HEADERS: [&str; 6] = ["", "no", "nr", "bed", "bed no", "id"];
 
 /// Unit words recognised in headers.
-const UNIT_WORDS: [&str; 11] = ["m", "cm", "ft", "feet", "metres", "meters", "metre", "meter", "mm", "phi", "φ"];
+const UNIT_WORDS: [&str; 11] =
+    ["m", "cm", "ft", "feet", "metres", "meters", "metre", "meter", "mm", "phi", "φ"];
 
 /// A header folded for look-up, with the unit it names in brackets or as a last word
 /// (`Thickness (m)` → `thickness`, `m`; `thickness_cm` → `thickness`, `cm`; `thick.` → `thick`).
@@ -281,7 +282,9 @@ impl ColumnMapping {
         for c in &self.columns {
             if let Some(f) = c.field {
                 let unit = match f {
-                    Field::Thickness | Field::From | Field::To => format!(" (in {})", self.length_unit.name()),
+                    Field::Thickness | Field::From | Field::To => {
+                        format!(" (in {})", self.length_unit.name())
+                    }
                     Field::Grain | Field::GrainBase | Field::GrainTop => match self.grain_unit {
                         Some(GrainUnit::Mm) => " (numbers in mm)".to_string(),
                         Some(GrainUnit::Phi) => " (numbers in phi)".to_string(),
@@ -416,7 +419,8 @@ pub fn quoted(headers: &[String]) -> String {
 
 /// Read a saved mapping (JSON).
 pub fn mapping_from_json(text: &str) -> Result<ColumnMapping, String> {
-    let m: ColumnMapping = serde_json::from_str(text).map_err(|e| format!("not a saved import mapping: {e}"))?;
+    let m: ColumnMapping =
+        serde_json::from_str(text).map_err(|e| format!("not a saved import mapping: {e}"))?;
     if m.format != MAPPING_FORMAT {
         return Err(format!("format is {:?}; expected {MAPPING_FORMAT:?}", m.format));
     }

@@ -20,7 +20,9 @@ pub mod text;
 pub mod values;
 
 pub use build::{build_section, preview, read_cell, PreviewCell};
-pub use mapping::{fit_saved, guess_mapping, mapping_from_json, mapping_to_json, ColumnMapping, Field, MappedColumn};
+pub use mapping::{
+    fit_saved, guess_mapping, mapping_from_json, mapping_to_json, ColumnMapping, Field, MappedColumn,
+};
 pub use sheet::WorkbookKind;
 pub use text::{Delimiter, TextEncoding, TextOptions, TextSniffed};
 pub use values::{DecimalMark, GrainUnit};
@@ -75,7 +77,10 @@ impl Table {
     pub fn problem_at(&self, line: usize, col: usize, header: &str, message: impl Into<String>) -> Problem {
         match &self.sheet {
             Some(sheet) => Problem::new(
-                format!("sheet {sheet:?}, cell {}{line} (column {header:?})", sheet::column_letters(col as u32)),
+                format!(
+                    "sheet {sheet:?}, cell {}{line} (column {header:?})",
+                    sheet::column_letters(col as u32)
+                ),
                 message,
             ),
             None => Problem::new(format!("column {header:?}"), message).at_line(line),
@@ -154,7 +159,8 @@ pub struct ImportError {
 fn message(file: &str, problems: &[Problem]) -> String {
     let n = problems.len();
     let shown = &problems[..n.min(super::MAX_PROBLEMS_LISTED)];
-    let mut out = format!("{file}: {n} problem{}:\n{}", if n == 1 { "" } else { "s" }, super::problem::list(shown));
+    let mut out =
+        format!("{file}: {n} problem{}:\n{}", if n == 1 { "" } else { "s" }, super::problem::list(shown));
     if n > shown.len() {
         out.push_str(&format!("\n  … and {} more", n - shown.len()));
     }
@@ -180,7 +186,9 @@ pub fn workbook_kind(name: &str) -> Option<WorkbookKind> {
 /// Read a file's bytes, refusing more than [`MAX_FILE_BYTES`] before reading.
 pub fn read_limited(path: &Path) -> Result<Vec<u8>, ImportError> {
     let shown = path.display().to_string();
-    let io = |e: std::io::Error| ImportError::one(&shown, Problem::new("", format!("could not read the file: {e}")));
+    let io = |e: std::io::Error| {
+        ImportError::one(&shown, Problem::new("", format!("could not read the file: {e}")))
+    };
     let file = std::fs::File::open(path).map_err(io)?;
     let size = file.metadata().map_err(io)?.len();
     let too_large = |size: u64| {
@@ -206,7 +214,10 @@ pub fn read_source(bytes: &[u8], name: &str, options: &ImportOptions) -> Result<
     if ext == "xls" {
         return Err(ImportError::one(
             name,
-            Problem::new("", "an old binary Excel (.xls) workbook is not read; save it as .xlsx, .ods or CSV"),
+            Problem::new(
+                "",
+                "an old binary Excel (.xls) workbook is not read; save it as .xlsx, .ods or CSV",
+            ),
         ));
     }
     match workbook_kind(name) {
@@ -251,7 +262,8 @@ pub fn find_mapping(table: &Table, options: &ImportOptions) -> Result<(usize, Co
             }
         }
     }
-    let (line, headers, problems) = first_failure.unwrap_or((1, Vec::new(), vec!["the table is empty".into()]));
+    let (line, headers, problems) =
+        first_failure.unwrap_or((1, Vec::new(), vec!["the table is empty".into()]));
     let mut p = Problem::new(
         "header",
         format!(
@@ -278,7 +290,8 @@ pub fn import_bytes(bytes: &[u8], name: &str, options: &ImportOptions) -> Result
 
 /// Import from a table already read (the window reads once and previews).
 pub fn import_source(source: &Source, name: &str, options: &ImportOptions) -> Result<Imported, ImportError> {
-    let (header_row, mapping) = find_mapping(&source.table, options).map_err(|p| ImportError::one(name, p))?;
+    let (header_row, mapping) =
+        find_mapping(&source.table, options).map_err(|p| ImportError::one(name, p))?;
     let section_name = options.section_name.clone().unwrap_or_else(|| {
         Path::new(name).file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
     });

@@ -48,7 +48,10 @@ fn check_archive(bytes: &[u8]) -> Result<u64, String> {
     let mut zip = zip::ZipArchive::new(Cursor::new(bytes))
         .map_err(|e| format!("not a workbook: the file is not a readable zip archive ({e})"))?;
     if zip.len() > MAX_ARCHIVE_MEMBERS {
-        return Err(format!("the archive holds {} members; at most {MAX_ARCHIVE_MEMBERS} are read", zip.len()));
+        return Err(format!(
+            "the archive holds {} members; at most {MAX_ARCHIVE_MEMBERS} are read",
+            zip.len()
+        ));
     }
     let mut total = 0u64;
     let mut buf = vec![0u8; 64 * 1024];
@@ -75,7 +78,8 @@ fn check_archive(bytes: &[u8]) -> Result<u64, String> {
 /// than [`MAX_SHEET_CELLS`] before calamine builds them.
 fn check_ods_repeats(bytes: &[u8]) -> Result<(), String> {
     use quick_xml::events::Event;
-    let mut zip = zip::ZipArchive::new(Cursor::new(bytes)).map_err(|e| format!("not a readable zip archive ({e})"))?;
+    let mut zip =
+        zip::ZipArchive::new(Cursor::new(bytes)).map_err(|e| format!("not a readable zip archive ({e})"))?;
     let mut content = Vec::new();
     zip.by_name("content.xml")
         .map_err(|_| "not an OpenDocument spreadsheet: no content.xml".to_string())?
@@ -144,7 +148,7 @@ fn cell_of(value: &Data) -> Cell {
         Data::Float(f) if f.is_finite() => Cell::Number(*f),
         Data::Float(_) => Cell::Bad("not a finite number".into()),
         Data::String(s) => text(s),
-                Data::Bool(b) => Cell::Text(if *b { "TRUE".into() } else { "FALSE".into() }),
+        Data::Bool(b) => Cell::Text(if *b { "TRUE".into() } else { "FALSE".into() }),
         Data::DateTime(_) | Data::DateTimeIso(_) | Data::DurationIso(_) => {
             Cell::Bad("a date or time, not a number or word (format the column as a number or text)".into())
         }
@@ -153,12 +157,20 @@ fn cell_of(value: &Data) -> Cell {
 }
 
 /// Put one cell into the rows being gathered (rows keyed by 0-based sheet row).
-fn place(rows: &mut std::collections::BTreeMap<u32, Vec<Cell>>, (r, c): (u32, u32), cell: Cell) -> Result<(), String> {
+fn place(
+    rows: &mut std::collections::BTreeMap<u32, Vec<Cell>>,
+    (r, c): (u32, u32),
+    cell: Cell,
+) -> Result<(), String> {
     if matches!(cell, Cell::Empty) {
         return Ok(());
     }
     if c >= MAX_SHEET_COLUMNS {
-        return Err(format!("cell {}{}: more than {MAX_SHEET_COLUMNS} columns are not read", column_letters(c), r + 1));
+        return Err(format!(
+            "cell {}{}: more than {MAX_SHEET_COLUMNS} columns are not read",
+            column_letters(c),
+            r + 1
+        ));
     }
     if !rows.contains_key(&r) && rows.len() >= MAX_BEDS_PER_SECTION + 20 {
         return Err(format!(
@@ -181,7 +193,8 @@ pub fn read_workbook(bytes: &[u8], kind: WorkbookKind, sheet: Option<&str>) -> R
     let mut rows = std::collections::BTreeMap::new();
     let name = match kind {
         WorkbookKind::Xlsx => {
-            let mut book = calamine::Xlsx::new(Cursor::new(bytes)).map_err(|e| format!("not a readable .xlsx workbook: {e}"))?;
+            let mut book = calamine::Xlsx::new(Cursor::new(bytes))
+                .map_err(|e| format!("not a readable .xlsx workbook: {e}"))?;
             let name = pick_sheet(&book.sheet_names(), sheet)?;
             let mut cells = book.worksheet_cells_reader(&name).map_err(|e| format!("sheet {name:?}: {e}"))?;
             loop {
@@ -198,7 +211,8 @@ pub fn read_workbook(bytes: &[u8], kind: WorkbookKind, sheet: Option<&str>) -> R
         }
         WorkbookKind::Ods => {
             check_ods_repeats(bytes)?;
-            let mut book = calamine::Ods::new(Cursor::new(bytes)).map_err(|e| format!("not a readable .ods workbook: {e}"))?;
+            let mut book = calamine::Ods::new(Cursor::new(bytes))
+                .map_err(|e| format!("not a readable .ods workbook: {e}"))?;
             let name = pick_sheet(&book.sheet_names(), sheet)?;
             let range = book.worksheet_range(&name).map_err(|e| format!("sheet {name:?}: {e}"))?;
             let (r0, c0) = range.start().unwrap_or((0, 0));

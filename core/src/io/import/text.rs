@@ -108,7 +108,8 @@ impl TextSniffed {
 /// bytes, valid UTF-8 is UTF-8, and anything else is read as Latin-1 (Windows-1252), which
 /// every byte sequence is. A forced encoding that does not fit is an error naming the line.
 pub fn decode(bytes: &[u8], forced: Option<TextEncoding>) -> Result<(String, TextEncoding, bool), Problem> {
-    let (bom_enc, rest): (Option<TextEncoding>, &[u8]) = if let Some(r) = bytes.strip_prefix(b"\xEF\xBB\xBF") {
+    let (bom_enc, rest): (Option<TextEncoding>, &[u8]) = if let Some(r) = bytes.strip_prefix(b"\xEF\xBB\xBF")
+    {
         (Some(TextEncoding::Utf8), r)
     } else if let Some(r) = bytes.strip_prefix(b"\xFF\xFE") {
         (Some(TextEncoding::Utf16Le), r)
@@ -153,7 +154,8 @@ pub fn decode(bytes: &[u8], forced: Option<TextEncoding>) -> Result<(String, Tex
             }
         },
         TextEncoding::Utf16Le | TextEncoding::Utf16Be => {
-            let enc = if encoding == TextEncoding::Utf16Le { encoding_rs::UTF_16LE } else { encoding_rs::UTF_16BE };
+            let enc =
+                if encoding == TextEncoding::Utf16Le { encoding_rs::UTF_16LE } else { encoding_rs::UTF_16BE };
             let (text, had_errors) = enc.decode_without_bom_handling(body);
             if had_errors || body.len() % 2 == 1 {
                 let line = 1 + text.chars().take_while(|c| *c != '\u{FFFD}').filter(|c| *c == '\n').count();
@@ -167,7 +169,10 @@ pub fn decode(bytes: &[u8], forced: Option<TextEncoding>) -> Result<(String, Tex
         let line = 1 + text[..i].matches('\n').count();
         return Err(Problem::new(
             "",
-            format!("a NUL character in {} text: this is not a text table (or the encoding is wrong)", encoding.name()),
+            format!(
+                "a NUL character in {} text: this is not a text table (or the encoding is wrong)",
+                encoding.name()
+            ),
         )
         .at_line(line));
     }
@@ -261,8 +266,11 @@ pub fn split_rows(text: &str, delimiter: Delimiter) -> Result<Vec<Row>, Problem>
     let max_rows = MAX_BEDS_PER_SECTION + 20;
     let mut rows = Vec::new();
     let too_many = |line: usize| {
-        Problem::new("", format!("more than {MAX_BEDS_PER_SECTION} rows; at most {MAX_BEDS_PER_SECTION} beds per section"))
-            .at_line(line)
+        Problem::new(
+            "",
+            format!("more than {MAX_BEDS_PER_SECTION} rows; at most {MAX_BEDS_PER_SECTION} beds per section"),
+        )
+        .at_line(line)
     };
     let check_len = |cells: &[String], line: usize| -> Result<(), Problem> {
         match cells.iter().position(|c| c.chars().count() > MAX_STRING_CHARS) {
@@ -298,8 +306,11 @@ pub fn split_rows(text: &str, delimiter: Delimiter) -> Result<Vec<Row>, Problem>
                 }
                 breaks.partition_point(|&b| b < at) + 1
             };
-            let mut reader =
-                csv::ReaderBuilder::new().has_headers(false).flexible(true).delimiter(d).from_reader(text.as_bytes());
+            let mut reader = csv::ReaderBuilder::new()
+                .has_headers(false)
+                .flexible(true)
+                .delimiter(d)
+                .from_reader(text.as_bytes());
             for record in reader.records() {
                 let record = match record {
                     Ok(r) => r,

@@ -183,7 +183,9 @@ pub fn grain_class(text: &str) -> Option<WentworthClass> {
     let sand_word = t.contains("sand");
     match GRAIN_SYNONYMS.iter().find(|(k, _)| *k == squeezed) {
         // "vf sand" is very fine sand; "clay sand" is not a class.
-        Some((_, c)) if !sand_word || (c.is_sand_or_coarser() && *c <= WentworthClass::VeryCoarseSand) => Some(*c),
+        Some((_, c)) if !sand_word || (c.is_sand_or_coarser() && *c <= WentworthClass::VeryCoarseSand) => {
+            Some(*c)
+        }
         _ => None,
     }
 }
@@ -262,7 +264,8 @@ pub fn paleosol(text: &str) -> Option<PaleosolDevelopment> {
 /// Is this text a thousands-grouped number such as `1.500` or `12.000.000`?
 fn thousands_grouped(text: &str, sep: char) -> bool {
     let mut parts = text.trim_start_matches(['-', '+']).split(sep);
-    let first_ok = parts.next().is_some_and(|p| (1..=3).contains(&p.len()) && p.bytes().all(|b| b.is_ascii_digit()));
+    let first_ok =
+        parts.next().is_some_and(|p| (1..=3).contains(&p.len()) && p.bytes().all(|b| b.is_ascii_digit()));
     let mut rest = parts.peekable();
     first_ok && rest.peek().is_some() && rest.all(|p| p.len() == 3 && p.bytes().all(|b| b.is_ascii_digit()))
 }
@@ -321,7 +324,10 @@ mod tests {
         }
         // The bed table shows base → top as "vc → m", and measured sizes as "1.5φ".
         let pair = grain_pair("vc → m", DecimalMark::Point, None).expect("reads");
-        assert_eq!(pair, (GrainSize::Class(WentworthClass::VeryCoarseSand), GrainSize::Class(WentworthClass::MediumSand)));
+        assert_eq!(
+            pair,
+            (GrainSize::Class(WentworthClass::VeryCoarseSand), GrainSize::Class(WentworthClass::MediumSand))
+        );
         assert_eq!(grain("1.5φ", DecimalMark::Point, None), Ok(GrainSize::Phi(1.5)));
     }
 
