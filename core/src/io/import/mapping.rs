@@ -98,12 +98,15 @@ impl Field {
 /// Header variants (after [`fold_header`]: lower case, units and punctuation removed, words
 /// separated by one space) and the field each names. Common practice in logging sheets and the
 /// bed table's own column names; no single published list.
-pub const HEADER_VARIANTS: [(&str, Field); 75] = [
+pub const HEADER_VARIANTS: [(&str, Field); 87] = [
     ("thickness", Field::Thickness),
     ("thick", Field::Thickness),
     ("thk", Field::Thickness),
     ("thickn", Field::Thickness),
     ("bed thickness", Field::Thickness),
+    ("mächtigkeit", Field::Thickness),
+    ("epaisseur", Field::Thickness),
+    ("épaisseur", Field::Thickness),
     ("true thickness", Field::Thickness),
     ("from", Field::From),
     ("base", Field::From),
@@ -129,11 +132,15 @@ pub const HEADER_VARIANTS: [(&str, Field); 75] = [
     ("rocktype", Field::Lithology),
     ("rock", Field::Lithology),
     ("lithotype", Field::Lithology),
+    ("lithologie", Field::Lithology),
     ("grain", Field::Grain),
     ("grain size", Field::Grain),
     ("grainsize", Field::Grain),
     ("gs", Field::Grain),
     ("grain size class", Field::Grain),
+    ("korngröße", Field::Grain),
+    ("korngrösse", Field::Grain),
+    ("granulometrie", Field::Grain),
     ("grain base", Field::GrainBase),
     ("grain size base", Field::GrainBase),
     ("base grain size", Field::GrainBase),
@@ -174,10 +181,15 @@ pub const HEADER_VARIANTS: [(&str, Field); 75] = [
     ("sample", Field::Samples),
     ("notes", Field::Notes),
     ("remarks", Field::Notes),
+    ("comments", Field::Notes),
+    ("comment", Field::Notes),
+    ("description", Field::Notes),
+    ("bemerkung", Field::Notes),
+    ("bemerkungen", Field::Notes),
 ];
 
 /// Headers read as "not a field" without a remark (bed numbers).
-const IGNORED_HEADERS: [&str; 6] = ["", "no", "nr", "bed", "bed no", "id"];
+const IGNORED_HEADERS: [&str; 7] = ["", "no", "nr", "bed", "bed no", "id", "bed number"];
 
 /// Unit words recognised in headers.
 const UNIT_WORDS: [&str; 11] =

@@ -256,7 +256,13 @@ pub fn find_mapping(table: &Table, options: &ImportOptions) -> Result<(usize, Co
         match attempt {
             Ok(m) if problems.is_empty() => return Ok((i, m)),
             _ => {
-                if first_failure.is_none() {
+                // The row most like a header (the most filled cells) is the one reported.
+                let filled = headers.iter().filter(|h| !h.is_empty()).count();
+                let best =
+                    first_failure.as_ref().map_or(0, |(_, h, _): &(usize, Vec<String>, Vec<String>)| {
+                        h.iter().filter(|h| !h.is_empty()).count()
+                    });
+                if first_failure.is_none() || filled > best {
                     first_failure = Some((row.line, headers, problems));
                 }
             }
