@@ -6,7 +6,7 @@
 use super::mapping::{ColumnMapping, Field};
 use super::values::{self, DecimalMark, GrainUnit};
 use super::{Cell, Table};
-use crate::io::bed_table::{escape_formula, read_bed_table};
+use crate::io::bed_table::{escape_formula, read_bed_table, KNOWN_COLUMNS};
 use crate::io::Problem;
 use crate::model::{LengthUnit, PaleosolFeature, Section, Structure, SurfaceKind};
 use std::collections::HashMap;
@@ -18,25 +18,11 @@ pub struct PreviewCell {
     pub refused: Option<String>,
 }
 
-/// Columns of the bed table written for the bed-table reader, after the thickness column.
-const OUT_COLUMNS: [&str; 16] = [
-    "lithology",
-    "grain_base",
-    "grain_top",
-    "base_contact",
-    "base_relief_m",
-    "structures",
-    "paleosol",
-    "paleosol_features",
-    "carbonate_stage",
-    "paleocurrents",
-    "surface",
-    "surface_kind",
-    "colour",
-    "fossils",
-    "samples",
-    "notes",
-];
+/// Columns of the bed table written for the bed-table reader, after the thickness column: its
+/// known columns with base/top grain rather than the single `grain`.
+fn out_columns() -> Vec<&'static str> {
+    KNOWN_COLUMNS.iter().copied().filter(|c| !c.starts_with("thickness_") && *c != "grain").collect()
+}
 
 /// Split a list cell on `;` (and `,` where a comma cannot be a decimal mark).
 fn list_items(text: &str, commas: bool) -> Vec<&str> {
@@ -239,7 +225,8 @@ pub fn build_section(
             "both a thickness and from/to heights are given: the thickness is used",
         ));
     }
-    // (original line, thickness text, the other cells in OUT_COLUMNS order)
+    // (original line, thickness text, the other cells in `out_columns` order)
+    let out_columns = out_columns();
     let mut rows_out: Vec<(usize, String, Vec<String>)> = Vec::new();
     let mut previous_to: Option<(f64, usize)> = None;
     for row in table.rows.iter().skip(header_row + 1) {
@@ -315,9 +302,9 @@ pub fn build_section(
         } else {
             keep(read(Field::Thickness), &mut problems)
         };
-        let mut out = vec![String::new(); OUT_COLUMNS.len()];
+        let mut out = vec![String::new(); out_columns.len()];
         let mut put = |name: &str, value: String| {
-            if let Some(k) = OUT_COLUMNS.iter().position(|c| *c == name) {
+            if let Some(k) = out_columns.iter().position(|c| *c == name) {
                 out[k] = value;
             }
         };
@@ -366,28 +353,42 @@ pub fn build_section(
         LengthUnit::Centimetre => "thickness_cm",
         LengthUnit::Foot => "thickness_ft",
     };
-    let mut csv_text = String::new();
     let mut origin: HashMap<usize, usize> = HashMap::new();
     let mut line = 1usize;
-    {
+    let csv_text = {
         let mut w = csv::WriterBuilder::new().terminator(csv::Terminator::Any(b'\n')).from_writer(Vec::new());
-        let head: Vec<&str> = std::iter::once(thickness_column).chain(OUT_COLUMNS).collect();
-        let _ = w.write_record(&head);
+        let head: Vec<&str> = std::iter::once(thickness_column).chain(out_columns.iter().copied()).collect();
+        let mut wrote = w.write_record(&head);
         for (orig, t, cells) in &rows_out {
             let escaped: Vec<String> = cells
                 .iter()
-                .enumerate()
-                .map(|(k, c)| if k >= 10 { escape_formula(c) } else { c.clone() })
+                .zip(&out_columns)
+                .map(|(c, name)| {
+                    // Free text is escaped as the bed table writes it, so the reader's unescaping
+                    // gives it back unchanged.
+                    if matches!(*name, "surface" | "colour" | "fossils" | "samples" | "notes") {
+                        escape_formula(c)
+                    } else {
+                        c.clone()
+                    }
+                })
                 .collect();
-            let _ = w.write_record(std::iter::once(t).chain(escaped.iter()));
+            wrote = wrote.and(w.write_record(std::iter::once(t).chain(escaped.iter())));
             line += 1;
             origin.insert(line, *orig);
             line += cells.iter().map(|c| c.matches('\n').count()).sum::<usize>();
         }
-        if let Ok(bytes) = w.into_inner() {
-            csv_text = String::from_utf8(bytes).unwrap_or_default();
+        // Writing to memory fails only on a bug; say so rather than read a partial table.
+        match (wrote, w.into_inner()) {
+            (Ok(()), Ok(bytes)) => String::from_utf8(bytes).unwrap_or_default(),
+            _ => {
+                return Err(vec![Problem::new(
+                    "",
+                    "internal error: the rows could not be passed to the bed-table reader",
+                )])
+            }
         }
-    }
+    };
     let fields_of = |column: &str| -> Vec<Field> {
         match column {
             "thickness_m" | "thickness_cm" | "thickness_ft" => vec![Field::Thickness, Field::To],
