@@ -562,7 +562,9 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
         |items: &[HeaderItem], m: &str| items.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(m)).cloned();
     let version_text = match find(&version, "VERS") {
         Some(vers) => {
-            let number = vers.value.replace(',', ".").parse::<f64>().ok();
+            // The first word of the value (some writers add text after the number).
+            let number =
+                vers.value.split_whitespace().next().unwrap_or("").replace(',', ".").parse::<f64>().ok();
             match number {
                 Some(v) if v == 1.2 || v == 2.0 => vers.value.clone(),
                 Some(v) if v >= 3.0 => {
@@ -584,7 +586,13 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
             "2.0".to_string()
         }
     };
-    let las12 = version_text.replace(',', ".").parse::<f64>().is_ok_and(|v| v < 2.0);
+    let las12 = version_text
+        .split_whitespace()
+        .next()
+        .unwrap_or("")
+        .replace(',', ".")
+        .parse::<f64>()
+        .is_ok_and(|v| v < 2.0);
     if las12 {
         // LAS 1.2 writes most ~W items as `MNEM.UNIT DESCRIPTION : VALUE` (e.g.
         // `COMP. COMPANY: ANY OIL COMPANY`); only STRT, STOP, STEP and NULL keep the value first.

@@ -484,7 +484,7 @@ mod tests {
 
     #[test]
     fn saved_mapping_round_trips_and_fits_by_header() {
-        let mut m = guess_mapping(&h(&["Dicke", "Gestein", "Bemerkung"]), true);
+        let mut m = guess_mapping(&h(&["Dicke", "Gestein", "Wetter"]), true);
         m.columns[0].field = Some(Field::Thickness);
         m.columns[1].field = Some(Field::Lithology);
         let back = mapping_from_json(&mapping_to_json(&m)).expect("reads back");
