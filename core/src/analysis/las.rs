@@ -293,7 +293,8 @@ fn parse_header_line(text: &str, line: usize, path: &str) -> Result<(HeaderItem,
     let (start, dot) = if text[..dot].trim().is_empty() {
         match text[dot + 1..].find('.') {
             Some(d) => (dot + 1, dot + 1 + d),
-            None => (dot + 1, dot),
+            // Found by fuzzing: a lone period (` .   : DEPTH`) has no mnemonic at all.
+            None => return Err(syntax("expected a mnemonic before the period".into())),
         }
     } else {
         (0, dot)
