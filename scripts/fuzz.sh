@@ -5,7 +5,8 @@
 #   scripts/fuzz.sh [SECONDS_PER_TARGET] [TARGET...]
 #   FUZZ_RUNS=10000000 scripts/fuzz.sh 3600 bed_table   # stop at 10^7 executions or 1 h
 #
-# Default: 300 s for each of project_text, bed_table, project_load, las. The seed corpora in
+# Default: 300 s for each of project_text, bed_table, project_load, las, import_text,
+# import_mapping, import_workbook, curve_table. The seed corpora in
 # fuzz/corpus/<target>/ are read-only inputs; what a run discovers goes to
 # target/fuzz-corpus/<target>/ (not committed). Crashes land in fuzz/artifacts/<target>/; turn
 # each into a test in tests/tests/trust_regressions.rs named after what it pins.
@@ -16,7 +17,7 @@ secs="${1:-300}"
 runs="${FUZZ_RUNS:--1}"
 shift || true
 targets=("$@")
-[ ${#targets[@]} -eq 0 ] && targets=(project_text bed_table project_load las)
+[ ${#targets[@]} -eq 0 ] && targets=(project_text bed_table project_load las import_text import_mapping import_workbook curve_table)
 export RUSTC_BOOTSTRAP=1
 for t in "${targets[@]}"; do
     work="target/fuzz-corpus/$t"

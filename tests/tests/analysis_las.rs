@@ -1,6 +1,9 @@
 //! LAS 2.0 reader checked against lasio (the PyPI LAS reader) on every fixture in
 //! tests/data/las/, and its error messages on malformed files.
 
+#[path = "support/lasio_compare.rs"]
+mod lasio_compare;
+
 use aggrade_core::analysis::las::{parse_las, read_las, IndexDirection, IndexToSection, LasFile};
 use proptest::prelude::*;
 use std::path::PathBuf;
@@ -51,45 +54,7 @@ fn compare_with_lasio(name: &str) -> LasFile {
     assert!(ours.warnings.is_empty(), "{name}: {:?}", ours.warnings);
     let path_text = path.to_string_lossy().to_string();
     let theirs = python_json(LASIO_DUMP, &[&path_text]);
-    let index = theirs["index_m"].as_array().expect("index list");
-    assert_eq!(ours.index_m.len(), index.len(), "{name}: sample count");
-    for (a, b) in ours.index_m.iter().zip(index) {
-        let b = b.as_f64().expect("number");
-        assert!((a - b).abs() < 1e-9, "{name}: index {a} vs lasio {b}");
-    }
-    // ~W items: mnemonic, unit, value (numerically where both are numbers), description.
-    let well = theirs["well"].as_array().expect("well list");
-    assert_eq!(ours.well.len(), well.len(), "{name}: ~W item count");
-    for (a, b) in ours.well.iter().zip(well) {
-        let field = |k: usize| b[k].as_str().expect("text").to_string();
-        assert_eq!(a.mnemonic, field(0), "{name}: ~W mnemonic");
-        assert_eq!(a.unit, field(1), "{name}: unit of {}", a.mnemonic);
-        match (a.value.parse::<f64>(), field(2).parse::<f64>()) {
-            (Ok(x), Ok(y)) => assert!((x - y).abs() < 1e-12, "{name}: {} = {x} vs lasio {y}", a.mnemonic),
-            _ => assert_eq!(a.value, field(2), "{name}: value of {}", a.mnemonic),
-        }
-        assert_eq!(a.description, field(3), "{name}: description of {}", a.mnemonic);
-    }
-    let curves = theirs["curves"].as_array().expect("curve list");
-    assert_eq!(ours.values.len(), curves.len(), "{name}: curve count");
-    for (k, c) in curves.iter().enumerate() {
-        let item = &ours.curve_items[k + 1];
-        assert_eq!(item.mnemonic, c["mnemonic"].as_str().expect("name"), "{name}: mnemonic");
-        assert_eq!(item.unit, c["unit"].as_str().expect("unit"), "{name}: unit of {}", item.mnemonic);
-        let data = c["data"].as_array().expect("data");
-        assert_eq!(ours.values[k].len(), data.len());
-        for (i, (a, b)) in ours.values[k].iter().zip(data).enumerate() {
-            match (a, b.as_f64()) {
-                (None, None) => {}
-                (Some(x), Some(y)) => {
-                    assert!((x - y).abs() < 1e-9, "{name} {} #{i}: {x} vs {y}", item.mnemonic)
-                }
-                (x, y) => {
-                    panic!("{name} {} #{i}: NULL position differs: ours {x:?}, lasio {y:?}", item.mnemonic)
-                }
-            }
-        }
-    }
+    lasio_compare::compare(name, &ours, &theirs);
     ours
 }
 

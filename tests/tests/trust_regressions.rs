@@ -66,3 +66,18 @@ fn a_saved_project_over_the_read_limit_when_pretty_still_opens() {
     let reopened = load(&path).unwrap_or_else(|e| panic!("saved file does not open: {e}")).project;
     assert_eq!(reopened, project);
 }
+
+/// Found by the `las` fuzz target: a header line that is a lone period before its colon
+/// (` .            :  2  DEPTH`) sliced the line backwards and panicked. It is now refused as a
+/// line with no mnemonic, naming the line.
+#[test]
+fn a_las_header_line_with_a_lone_period_is_refused_not_a_panic() {
+    let path = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("data/regressions/las_lone_period_header.las");
+    let bytes = std::fs::read(&path).expect("regression input");
+    let text = String::from_utf8_lossy(&bytes);
+    let e = aggrade_core::analysis::las::parse_las(&text, "lone.las").expect_err("refused");
+    assert!(e.to_string().contains("expected a mnemonic before the period"), "{e}");
+    let e = aggrade_core::analysis::las::parse_las("~V\n VERS. 2.0 : v\n .   : 2 DEPTH\n", "x.las")
+        .expect_err("refused");
+    assert_eq!(e.to_string(), "x.las, line 3: expected a mnemonic before the period");
+}

@@ -1,7 +1,10 @@
-//! `aggrade curve`: attach a measured curve from a LAS 2.0 file to a section (saved in the
-//! project and drawn as a track beside the column), remove one, or list them.
+//! `aggrade curve`: attach a measured curve from a LAS 1.2/2.0 file or a plain CSV/TXT table
+//! (hand-held spectrometer exports) to a section (saved in the project and drawn as a track
+//! beside the column), remove one, or list them.
 
+use aggrade_core::analysis::curve_table::read_curve_table;
 use aggrade_core::analysis::las::{read_las, IndexDirection, IndexToSection, LasFile};
+use aggrade_core::io::import::TextOptions;
 use aggrade_core::model::{MeasuredCurve, Section};
 use anyhow::{anyhow, bail};
 use std::path::{Path, PathBuf};
@@ -11,24 +14,32 @@ use std::path::{Path, PathBuf};
 pub struct CurveArgs {
     /// Project file (.aggrade, .json) to change; a bed-table CSV needs --out NAME.aggrade.
     pub file: PathBuf,
-    /// LAS 2.0 file to read the curve from.
-    #[arg(long, value_name = "FILE.las", conflicts_with = "remove")]
+    /// LAS 1.2 or 2.0 file to read the curve from.
+    #[arg(long, value_name = "FILE.las", conflicts_with_all = ["remove", "table"])]
     pub las: Option<PathBuf>,
-    /// Mnemonic of the curve in the LAS file (GR, K …); may be left out when the file has only
-    /// one curve besides its depth index.
-    #[arg(long, value_name = "MNEMONIC", requires = "las")]
+    /// Plain table (CSV or TXT, any delimiter and decimal mark) with a height or depth column and
+    /// one column per curve, as hand-held spectrometers export.
+    #[arg(long, value_name = "FILE.csv", conflicts_with = "remove")]
+    pub table: Option<PathBuf>,
+    /// Mnemonic of the curve in the LAS file, or header of the column in the table (GR, K …);
+    /// may be left out when there is only one curve besides the index.
+    #[arg(long, visible_alias = "column", value_name = "NAME")]
     pub curve: Option<String>,
+    /// Header of the table's height or depth column (default: the first column named like
+    /// Height, Depth, H, Z or MD, else the first column). Units from the header: m, cm or ft.
+    #[arg(long, value_name = "NAME", requires = "table")]
+    pub index_column: Option<String>,
     /// Section to attach to or remove from (by name); needed when the file holds several.
     #[arg(long)]
     pub section: Option<String>,
     /// The LAS index value, in metres, that lies at the section's base. Default: 0 (the index
     /// is height above the base); with --depth-down, the section's thickness (depth 0 is the
     /// section top).
-    #[arg(long, value_name = "M", allow_hyphen_values = true, requires = "las")]
+    #[arg(long, value_name = "M", allow_hyphen_values = true)]
     pub offset_m: Option<String>,
     /// The LAS index is depth, increasing downward (height = offset − depth); without it the
     /// index is height, increasing upward (height = index − offset).
-    #[arg(long, requires = "las")]
+    #[arg(long)]
     pub depth_down: bool,
     /// Remove the curve with this mnemonic from the section.
     #[arg(long, value_name = "MNEMONIC")]
@@ -93,7 +104,11 @@ fn listing(section: &Section) -> String {
 pub fn run(args: &CurveArgs) -> anyhow::Result<()> {
     let mut project = super::load_input(&args.file)?;
     let index = super::one_section_index(&project, &args.file, args.section.as_deref())?;
-    if args.las.is_none() && args.remove.is_none() {
+    let source = args.las.as_ref().or(args.table.as_ref());
+    if source.is_none() && (args.curve.is_some() || args.offset_m.is_some() || args.depth_down) {
+        bail!("--curve, --offset-m and --depth-down need a curve source: give --las FILE.las or --table FILE.csv");
+    }
+    if source.is_none() && args.remove.is_none() {
         print!("{}", listing(&project.sections[index]));
         return Ok(());
     }
@@ -110,8 +125,16 @@ pub fn run(args: &CurveArgs) -> anyhow::Result<()> {
             );
         };
         eprintln!("removed {} from {:?}", removed.title(), section.name);
-    } else if let Some(las_path) = &args.las {
-        let las = read_las(las_path).map_err(|e| anyhow!("{e}"))?;
+    } else if let Some(las_path) = source {
+        let las = match &args.table {
+            Some(table) => {
+                let bytes = aggrade_core::io::import::read_limited(table).map_err(|e| anyhow!("{e}"))?;
+                let shown = table.display().to_string();
+                read_curve_table(&bytes, &shown, &TextOptions::default(), args.index_column.as_deref())
+            }
+            None => read_las(las_path),
+        }
+        .map_err(|e| anyhow!("{e}"))?;
         for w in &las.warnings {
             eprintln!("aggrade: warning: {w}");
         }

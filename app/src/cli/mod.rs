@@ -5,6 +5,7 @@ pub mod check;
 pub mod convert;
 pub mod curve;
 pub mod export;
+pub mod import;
 pub mod interpret;
 pub mod link;
 pub mod panel;
@@ -35,6 +36,9 @@ pub enum Command {
     Convert(convert::ConvertArgs),
     /// Interpret a section: channel bodies, stacking, proportions, regimes, candidate boundaries.
     Interpret(interpret::InterpretArgs),
+    /// Import a spreadsheet or text table written by hand (.csv, .tsv, .txt, .xlsx, .ods) into a
+    /// project file, matching its headers and abbreviations; prints the mapping used.
+    Import(import::ImportArgs),
     /// Export the interpreted column to PDF or SVG at a true scale.
     Export(export::ExportArgs),
     /// Paleocurrent statistics and facies-transition analysis.
@@ -43,8 +47,8 @@ pub enum Command {
     Bodies(bodies::BodiesArgs),
     /// Correlation panel of a project's sections hung on a datum, to PDF or SVG.
     Panel(panel::PanelArgs),
-    /// Attach a measured curve (e.g. gamma ray) from a LAS 2.0 file to a section, remove one, or
-    /// list them.
+    /// Attach a measured curve (e.g. gamma ray) from a LAS 1.2/2.0 file or a plain CSV/TXT table
+    /// to a section, remove one, or list them.
     Curve(curve::CurveArgs),
     /// Give an accepted boundary a correlation label (e.g. SB-2) that ties it on the correlation
     /// panel to accepted boundaries with the same label in neighbouring sections, or remove one.
@@ -57,6 +61,7 @@ pub fn main(cli: Cli) -> ExitCode {
         Some(Command::Check(a)) => check::run(&a),
         Some(Command::Convert(a)) => convert::run(&a),
         Some(Command::Interpret(a)) => interpret::run(&a),
+        Some(Command::Import(a)) => import::run(&a),
         Some(Command::Export(a)) => export::run(&a),
         Some(Command::Stats(a)) => stats::run(&a),
         Some(Command::Bodies(a)) => bodies::run(&a),

@@ -9,6 +9,7 @@ use super::document::{Document, Edit};
 use super::engine::{self, LayoutOptions, RuleParams, Strip};
 use super::export_dialog::ExportDialog;
 use super::files::{self, DiskState, FileDialogs, SaveKind};
+use super::import_dialog::{self, ImportDialog};
 use super::inspector::Inspector;
 use super::painter::ItemIndex;
 use super::recovery::{self, Autosaver, FoundBackup};
@@ -222,6 +223,9 @@ pub struct AggradeApp {
     inspector: Inspector,
     export: Option<ExportDialog>,
     curve_dialog: Option<CurveDialog>,
+    import_dialog: Option<ImportDialog>,
+    /// Aggrade's data folder (backups, the import mapping last used).
+    data_dir: PathBuf,
     cache: Option<Cache>,
     /// The worker bringing `cache` up to date after an edit of a long section, if one runs.
     refreshing: Option<Refreshing>,
@@ -294,6 +298,8 @@ impl AggradeApp {
             inspector: Inspector::default(),
             export: None,
             curve_dialog: None,
+            import_dialog: None,
+            data_dir: config.data_dir.clone(),
             cache: None,
             refreshing: None,
             repaint: None,
@@ -656,6 +662,20 @@ impl AggradeApp {
         }
     }
 
+    /// Ask for a spreadsheet or text table and open the import window on it (File ▸ Import…).
+    pub fn pick_import_table(&mut self) {
+        if let Some(path) = self.chooser.pick(PickFor::ImportTable, FileKind::Table, "") {
+            self.open_import_dialog(&path);
+        }
+    }
+
+    fn open_import_dialog(&mut self, path: &Path) {
+        match ImportDialog::open(path, Some(&self.data_dir)) {
+            Ok(dlg) => self.import_dialog = Some(dlg),
+            Err(e) => self.message = Some(Notice::about_file("Could not read the table", e, path)),
+        }
+    }
+
     /// Ask for a LAS file and open the attach window on it; a bad file gives the reader's message.
     pub fn pick_curve(&mut self) {
         if let Some(path) = self.chooser.pick(PickFor::AttachLas, FileKind::Las, "") {
@@ -901,6 +921,14 @@ impl AggradeApp {
                         true,
                         "Add a CSV bed table as a new section",
                     );
+                    if ui
+                        .button("Import…")
+                        .on_hover_text("Add a spreadsheet or text table (CSV, TSV, TXT, XLSX, ODS) as a new section, with a preview")
+                        .clicked()
+                    {
+                        self.pick_import_table();
+                        ui.close();
+                    }
                     ui.separator();
                     self.menu_item(ui, ctx, "Save", Command::Save, true, "Save the project");
                     self.menu_item(
@@ -1179,6 +1207,26 @@ impl AggradeApp {
                 });
             });
         }
+        if let Some(dlg) = self.import_dialog.as_mut() {
+            match dlg.ui(ctx) {
+                import_dialog::Outcome::Open => {}
+                import_dialog::Outcome::Closed => self.import_dialog = None,
+                import_dialog::Outcome::Import { section, note } => {
+                    self.import_dialog = None;
+                    let mut section = *section;
+                    while self.doc.project.sections.iter().any(|x| x.name == section.name) {
+                        section.name.push_str(" (imported)");
+                    }
+                    self.status = format!(
+                        "Imported {} ({} beds){}",
+                        section.name,
+                        section.beds.len(),
+                        note.map(|n| format!("; {n}")).unwrap_or_default()
+                    );
+                    self.apply(Edit::AddSection { section });
+                }
+            }
+        }
         if let Some(dlg) = self.curve_dialog.as_mut() {
             match dlg.ui(ctx, self.doc.section()) {
                 curve_dialog::Outcome::Open => {}
@@ -1388,6 +1436,9 @@ impl AggradeApp {
         }
         if let Some(p) = self.chooser.take(PickFor::ImportCsv) {
             self.import(&p);
+        }
+        if let Some(p) = self.chooser.take(PickFor::ImportTable) {
+            self.open_import_dialog(&p);
         }
         if let Some(p) = self.chooser.take(PickFor::AttachLas) {
             self.open_curve_dialog(&p);

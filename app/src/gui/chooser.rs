@@ -37,6 +37,8 @@ pub enum FileKind {
     Csv,
     /// A LAS log (a measured curve).
     Las,
+    /// A spreadsheet or text table to import (CSV, TSV, TXT, XLSX, ODS).
+    Table,
     /// Where to write.
     Save(SaveKind),
 }
@@ -47,6 +49,7 @@ impl FileKind {
             FileKind::Open => &["aggrade", "json", "csv"],
             FileKind::Csv => &["csv"],
             FileKind::Las => &["las"],
+            FileKind::Table => &["csv", "tsv", "txt", "xlsx", "xlsm", "ods"],
             FileKind::Save(k) => match k {
                 SaveKind::Project => &["aggrade"],
                 SaveKind::Pdf => &["pdf"],
@@ -61,6 +64,7 @@ impl FileKind {
             FileKind::Open => "Open a project or bed table",
             FileKind::Csv => "Import a bed table (CSV)",
             FileKind::Las => "Attach a measured curve (LAS)",
+            FileKind::Table => "Import a table (CSV, TSV, TXT, XLSX, ODS)",
             FileKind::Save(SaveKind::Project) => "Save the project",
             FileKind::Save(SaveKind::Pdf) => "Export as PDF",
             FileKind::Save(SaveKind::Svg) => "Export as SVG",
@@ -105,6 +109,10 @@ impl FileDialogs for SystemDialogs {
                 .add_filter("All files", &["*"])
                 .pick_file(),
             FileKind::Csv => rfd::FileDialog::new().add_filter("Bed table (CSV)", &["csv"]).pick_file(),
+            FileKind::Table => rfd::FileDialog::new()
+                .add_filter("Table (CSV, TSV, TXT, XLSX, ODS)", FileKind::Table.extensions())
+                .add_filter("All files", &["*"])
+                .pick_file(),
             FileKind::Las => rfd::FileDialog::new()
                 .add_filter("LAS log", &["las", "LAS"])
                 .add_filter("All files", &["*"])
@@ -194,6 +202,7 @@ impl FileDialogs for NoSystemDialogs {
 pub enum PickFor {
     Open,
     ImportCsv,
+    ImportTable,
     AttachLas,
     SaveProject,
     ExportColumn(SaveKind),

@@ -11,6 +11,7 @@ pub mod engine;
 pub mod export_dialog;
 pub mod field;
 pub mod files;
+pub mod import_dialog;
 pub mod inspector;
 pub mod painter;
 pub mod plots;

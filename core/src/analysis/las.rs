@@ -1,5 +1,7 @@
-//! Reader for LAS 2.0 log files (Canadian Well Logging Society, "LAS Version 2.0: A Digital
-//! Standard for Logs"), e.g. outcrop gamma-ray logs, turned into curves on section heights.
+//! Reader for LAS 1.2 and 2.0 log files (Canadian Well Logging Society, "LAS Version 2.0: A
+//! Digital Standard for Logs", and its version 1.2), e.g. outcrop gamma-ray logs, turned into
+//! curves on section heights. Odd files as tools write them are read with a warning naming the
+//! line, or refused with the line and the reason (see [`parse_las`]).
 //!
 //! Sections start with `~` and are known by their first letter: ~V (version: VERS, WRAP), ~W
 //! (well: STRT, STOP, STEP, NULL, …), ~C (curves, the first being the index DEPT/DEPTH), ~P
@@ -184,13 +186,13 @@ pub fn bed_means(curve: &Curve, section: &crate::model::Section) -> Vec<Option<f
 /// Compare STRT, STOP and STEP (and their unit) with the data actually present. The tolerance
 /// is half a thousandth of a step or 1e-6, whichever is larger, since headers are often written
 /// with fewer decimals than the data.
-fn header_warnings(path: &str, well: &[HeaderItem], index_unit: &str, rows: &[Vec<f64>]) -> Vec<String> {
+fn header_warnings(path: &str, well: &[HeaderItem], index_unit: &str, index: &[f64]) -> Vec<String> {
     let mut out = Vec::new();
-    let (Some(first), Some(last)) = (rows.first().map(|r| r[0]), rows.last().map(|r| r[0])) else {
+    let (Some(&first), Some(&last)) = (index.first(), index.last()) else {
         return out;
     };
     let find = |m: &str| well.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(m));
-    let step_data = if rows.len() > 1 { (last - first) / (rows.len() - 1) as f64 } else { 0.0 };
+    let step_data = if index.len() > 1 { (last - first) / (index.len() - 1) as f64 } else { 0.0 };
     let tol = (step_data.abs() * 5e-4).max(1e-6);
     for (m, want, what) in [("STRT", first, "the first index value"), ("STOP", last, "the last index value")]
     {
@@ -210,7 +212,7 @@ fn header_warnings(path: &str, well: &[HeaderItem], index_unit: &str, rows: &[Ve
     if let Some(item) = find("STEP") {
         if let Ok(v) = item.value.parse::<f64>() {
             // STEP 0 means an irregular spacing (LAS 2.0).
-            let regular = rows.windows(2).all(|w| ((w[1][0] - w[0][0]) - v).abs() <= tol);
+            let regular = index.windows(2).all(|w| ((w[1] - w[0]) - v).abs() <= tol);
             if v != 0.0 && !regular {
                 out.push(format!(
                     "{path}, line {}: STEP is {v} but the index values are not spaced by it (use STEP 0 for irregular spacing)",
@@ -222,66 +224,231 @@ fn header_warnings(path: &str, well: &[HeaderItem], index_unit: &str, rows: &[Ve
     out
 }
 
-/// Metres per unit of the index, from its unit as written.
+/// Metres per unit of the index, from its unit as written (brackets removed).
 fn index_unit_factor(unit: &str) -> Option<f64> {
     match unit.trim().to_ascii_uppercase().as_str() {
         "M" | "METER" | "METERS" | "METRE" | "METRES" => Some(1.0),
         "FT" | "F" | "FEET" | "FOOT" => Some(METRES_PER_FOOT),
         "CM" => Some(0.01),
+        // Tenths of an inch, as some older tools write depth: 0.1 × 0.0254 m.
+        ".1IN" | "0.1IN" => Some(0.00254),
         _ => None,
     }
 }
 
-/// Split a header line into its four parts. The unit runs from the first period to the first
-/// space after it; the description follows the last colon.
-fn parse_header_line(text: &str, line: usize, path: &str) -> Result<HeaderItem, LasError> {
+/// Index units and mnemonics that mean time, not depth (refused: curves go on heights).
+fn is_time_index(mnemonic: &str, unit: &str) -> bool {
+    let m = mnemonic.trim().to_ascii_uppercase();
+    let u = unit.trim().to_ascii_uppercase();
+    ["TIME", "ETIM", "DATE", "DATETIME", "T"].contains(&m.as_str())
+        || ["S", "SEC", "SECS", "MS", "MSEC", "MIN", "H", "HR", "HOUR", "HOURS", "D", "DAY", "DAYS"]
+            .contains(&u.as_str())
+}
+
+/// A unit with the brackets some writers put round it removed (`(M)` → `M`).
+fn strip_brackets(unit: &str) -> &str {
+    let u = unit.trim();
+    if u.len() >= 2 && ((u.starts_with('(') && u.ends_with(')')) || (u.starts_with('[') && u.ends_with(']')))
+    {
+        &u[1..u.len() - 1]
+    } else {
+        u
+    }
+}
+
+/// Split a header line into its four parts. The mnemonic runs to the first period, the unit
+/// from there to the first space, the value to the last colon and the description after it.
+/// A line without a colon is read as mnemonic, unit and value with no description; a line
+/// without a period before its colon as mnemonic and value (both as other readers do), each
+/// with a warning naming the line.
+fn parse_header_line(text: &str, line: usize, path: &str) -> Result<(HeaderItem, Option<String>), LasError> {
     let syntax = |message: String| LasError::Syntax { path: path.to_string(), line, message };
-    let dot = text.find('.').ok_or_else(|| {
-        syntax(format!("expected `MNEMONIC.UNIT  VALUE : DESCRIPTION`, found no period in {:?}", text.trim()))
-    })?;
-    let mnemonic = text[..dot].trim().to_string();
+    let colon_at = text.rfind(':');
+    let dot = text.find('.').filter(|d| colon_at.is_none_or(|c| *d < c));
+    let Some(dot) = dot else {
+        let Some(c) = colon_at else {
+            return Err(syntax(format!(
+                "expected `MNEMONIC.UNIT  VALUE : DESCRIPTION`, found no period and no colon in {:?}",
+                text.trim()
+            )));
+        };
+        let mnemonic = text[..c].trim().to_string();
+        if mnemonic.is_empty() {
+            return Err(syntax("expected a mnemonic before the colon".into()));
+        }
+        let item = HeaderItem {
+            mnemonic,
+            unit: String::new(),
+            value: text[c + 1..].trim().to_string(),
+            description: String::new(),
+            line,
+        };
+        let warning = format!(
+            "{path}, line {line}: no period after the mnemonic; read as {:?} = {:?} with no unit",
+            item.mnemonic, item.value
+        );
+        return Ok((item, Some(warning)));
+    };
+    // A leading period (`.DEPT.M`) is skipped, as other readers do.
+    let (start, dot) = if text[..dot].trim().is_empty() {
+        match text[dot + 1..].find('.') {
+            Some(d) => (dot + 1, dot + 1 + d),
+            // Found by fuzzing: a lone period (` .   : DEPTH`) has no mnemonic at all.
+            None => return Err(syntax("expected a mnemonic before the period".into())),
+        }
+    } else {
+        (0, dot)
+    };
+    let mnemonic = text[start..dot].trim().to_string();
     if mnemonic.is_empty() {
         return Err(syntax("expected a mnemonic before the period".into()));
     }
     let rest = &text[dot + 1..];
     let unit_end = rest.find(char::is_whitespace).unwrap_or(rest.len());
     let (unit, rest) = rest.split_at(unit_end);
-    let colon = rest.rfind(':').ok_or_else(|| {
-        syntax(format!("expected a colon between the value and the description in {:?}", text.trim()))
-    })?;
     // A unit glued to the colon (`STRT.M:`) leaves the colon inside the unit token.
-    let (unit, value, description) = match unit.find(':') {
-        Some(c) => (&unit[..c], "", &unit[c + 1..]),
-        None => (unit, rest[..colon].trim(), rest[colon + 1..].trim()),
+    let (unit, value, description, warning) = match (unit.find(':'), rest.rfind(':')) {
+        (Some(c), _) => (&unit[..c], "", format!("{}{rest}", &unit[c + 1..]), None),
+        (None, Some(colon)) => (unit, rest[..colon].trim(), rest[colon + 1..].to_string(), None),
+        (None, None) => (
+            unit,
+            rest.trim(),
+            String::new(),
+            Some(format!(
+                "{path}, line {line}: no colon before a description; read as mnemonic {:?}, unit {:?}, value {:?}",
+                mnemonic,
+                strip_brackets(unit),
+                rest.trim()
+            )),
+        ),
     };
-    Ok(HeaderItem {
-        mnemonic,
-        unit: unit.trim().to_string(),
-        value: value.to_string(),
-        description: description.trim().to_string(),
-        line,
-    })
+    Ok((
+        HeaderItem {
+            mnemonic,
+            unit: strip_brackets(unit).to_string(),
+            value: value.to_string(),
+            description: description.trim().to_string(),
+            line,
+        },
+        warning,
+    ))
 }
 
-fn parse_number(token: &str, line: usize, path: &str, what: &str) -> Result<f64, LasError> {
-    token.parse::<f64>().ok().filter(|v| v.is_finite()).ok_or_else(|| LasError::Syntax {
+/// Text that tools write for a missing or undefined reading (the C runtime's `-1.#IND` and
+/// `1.#INF`, `NaN`, `(null)`, `#N/A` …): read as NULL with a warning.
+fn is_null_marker(token: &str) -> bool {
+    let t = token.to_ascii_lowercase();
+    let t = t.trim_start_matches(['-', '+']);
+    matches!(t, "nan" | "null" | "(null)" | "#n/a" | "n/a" | "na" | "inf" | "infinity" | "" | "-" | "--")
+        || ["1.#ind", "1.#inf", "1.#qnan", "1.#snan", "1.#io"].iter().any(|m| t.starts_with(m))
+}
+
+/// One data value: a number, a NULL marker, or an error naming the line.
+enum Token {
+    Value(f64),
+    Marker,
+    Comma(f64),
+}
+
+fn parse_token(token: &str, line: usize, path: &str) -> Result<Token, LasError> {
+    let bad = |why: &str| LasError::Syntax {
         path: path.to_string(),
         line,
-        message: format!("{what}: {token:?} is not a number"),
-    })
+        message: format!("data value: {token:?} is not a number{why}"),
+    };
+    if is_null_marker(token) {
+        return Ok(Token::Marker);
+    }
+    let plain = !token.is_empty() && token.bytes().all(|b| b.is_ascii_digit() || b"+-.eE".contains(&b));
+    if plain {
+        return match token.parse::<f64>() {
+            Ok(v) if v.is_finite() => Ok(Token::Value(v)),
+            _ if token.matches('.').count() > 1
+                || (token[1..].contains(['-', '+']) && !token.contains(['e', 'E'])) =>
+            {
+                Err(bad(" (two numbers run together? put a space between them)"))
+            }
+            _ => Err(bad("")),
+        };
+    }
+    // A decimal comma (`12,5`); `1,500` could as well be a thousands separator and is refused.
+    if let Some((a, b)) = token.split_once(',') {
+        let digits = |s: &str| !s.is_empty() && s.bytes().all(|c| c.is_ascii_digit());
+        let int = a.trim_start_matches(['-', '+']);
+        if digits(int) && digits(b) {
+            let grouped = b.len() == 3 && int.len() <= 3 && !int.starts_with('0');
+            if grouped {
+                return Err(bad(
+                    ": a comma followed by three digits could be a decimal comma or a thousands separator; \
+                     write it with a decimal point",
+                ));
+            }
+            if let Ok(v) = format!("{a}.{b}").parse::<f64>() {
+                return Ok(Token::Comma(v));
+            }
+        }
+    }
+    Err(bad(""))
 }
 
-/// Read a LAS 2.0 file from disk.
+/// Lines split on LF, CR LF or a lone CR (old Macintosh files).
+fn split_lines(text: &str) -> Vec<&str> {
+    let mut out = Vec::new();
+    let bytes = text.as_bytes();
+    let mut start = 0;
+    let mut i = 0;
+    while i < bytes.len() {
+        match bytes[i] {
+            b'\n' => {
+                out.push(&text[start..i]);
+                start = i + 1;
+            }
+            b'\r' => {
+                out.push(&text[start..i]);
+                if bytes.get(i + 1) == Some(&b'\n') {
+                    i += 1;
+                }
+                start = i + 1;
+            }
+            _ => {}
+        }
+        i += 1;
+    }
+    if start < bytes.len() {
+        out.push(&text[start..]);
+    }
+    out
+}
+
+/// Read a LAS 1.2 or 2.0 file from disk.
 pub fn read_las(path: &Path) -> Result<LasFile, LasError> {
     let shown = path.display().to_string();
-    let bytes =
-        std::fs::read(path).map_err(|e| LasError::Io { path: shown.clone(), message: e.to_string() })?;
+    let io = |message: String| LasError::Io { path: shown.clone(), message };
+    let file = std::fs::File::open(path).map_err(|e| io(e.to_string()))?;
+    let size = file.metadata().map_err(|e| io(e.to_string()))?.len();
+    let limit = crate::io::MAX_FILE_BYTES;
+    if size > limit {
+        return Err(io(format!("the file is {size} bytes; at most {limit} bytes are read")));
+    }
+    let mut bytes = Vec::new();
+    std::io::Read::read_to_end(&mut std::io::Read::take(file, limit + 1), &mut bytes)
+        .map_err(|e| io(e.to_string()))?;
+    if bytes.len() as u64 > limit {
+        return Err(io(format!("the file is more than {limit} bytes; at most {limit} bytes are read")));
+    }
     // LAS files are ASCII by the standard; tolerate stray Latin-1 bytes in descriptions.
     let text = String::from_utf8_lossy(&bytes);
     parse_las(&text, &shown)
 }
 
-/// Parse LAS 2.0 text; `path` is used in messages only.
+/// Parse LAS 1.2 or 2.0 text; `path` is used in messages only.
+///
+/// Odd files as tools write them are read, each with a warning naming the line: a byte-order
+/// mark, CR-only line breaks, tabs, a missing VERS, WRAP or NULL line, `-1.#IND`-style and text
+/// NULL markers, decimal commas, duplicate mnemonics (renamed `GR:1`, `GR:2`), a header line
+/// without its colon, and fewer data columns than ~C curves (the last curves are then empty).
+/// Refused with the line: more data columns than curves, rows of differing length, run-on or
+/// ambiguous numbers (`1,500`), a time index, LAS 3.0.
 ///
 /// ```
 /// use aggrade_core::analysis::las::parse_las;
@@ -293,6 +460,21 @@ pub fn read_las(path: &Path) -> Result<LasFile, LasError> {
 pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     let syntax = |line: usize, message: String| LasError::Syntax { path: path.to_string(), line, message };
     let missing = |message: String| LasError::Missing { path: path.to_string(), message };
+    let mut warnings: Vec<String> = Vec::new();
+    let text = match text.strip_prefix('\u{feff}') {
+        Some(rest) => {
+            warnings.push(format!("{path}, line 1: a UTF-8 byte-order mark before ~V (skipped)"));
+            rest
+        }
+        None => text,
+    };
+    if let Some(i) = text.find('\0') {
+        let line = 1 + text[..i].matches('\n').count();
+        return Err(syntax(
+            line,
+            "a NUL byte: this is not ASCII text (UTF-16 or a binary file?); save it as ASCII".into(),
+        ));
+    }
     #[derive(PartialEq, Clone, Copy)]
     enum Part {
         None,
@@ -311,13 +493,17 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     let mut parameters = Vec::new();
     let mut other = String::new();
     let mut data_lines: Vec<(usize, &str)> = Vec::new();
-    let mut seen_v = false;
+    let mut v_line = 0;
     let mut seen_a = false;
-    for (i, raw) in text.lines().enumerate() {
+    let mut tabs_at = None;
+    for (i, raw) in split_lines(text).into_iter().enumerate() {
         let line = i + 1;
         let trimmed = raw.trim();
         if trimmed.starts_with('#') || (trimmed.is_empty() && part != Part::O) {
             continue;
+        }
+        if tabs_at.is_none() && raw.contains('\t') {
+            tabs_at = Some(line);
         }
         if let Some(tag) = trimmed.strip_prefix('~') {
             if seen_a {
@@ -336,8 +522,8 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
                 _ => Part::Unknown,
             };
             if part == Part::V {
-                seen_v = true;
-            } else if !seen_v {
+                v_line = line;
+            } else if v_line == 0 {
                 return Err(syntax(line, "expected the ~V (version) section first".into()));
             }
             if part == Part::A {
@@ -345,14 +531,20 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
             }
             continue;
         }
+        let mut header = |items: &mut Vec<HeaderItem>| -> Result<(), LasError> {
+            let (item, warning) = parse_header_line(raw, line, path)?;
+            items.push(item);
+            warnings.extend(warning);
+            Ok(())
+        };
         match part {
             Part::None => {
                 return Err(syntax(line, "expected the ~V (version) section before any other line".into()));
             }
-            Part::V => version.push(parse_header_line(raw, line, path)?),
-            Part::W => well.push(parse_header_line(raw, line, path)?),
-            Part::C => curve_items.push(parse_header_line(raw, line, path)?),
-            Part::P => parameters.push(parse_header_line(raw, line, path)?),
+            Part::V => header(&mut version)?,
+            Part::W => header(&mut well)?,
+            Part::C => header(&mut curve_items)?,
+            Part::P => header(&mut parameters)?,
             Part::O => {
                 other.push_str(raw);
                 other.push('\n');
@@ -361,25 +553,63 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
             Part::Unknown => {}
         }
     }
-    if !seen_v {
+    if v_line == 0 {
         return Err(missing("no ~V (version) section: a LAS file must start with ~V".into()));
+    }
+    if let Some(line) = tabs_at {
+        warnings.push(format!("{path}, line {line}: tabs between values (read as spaces)"));
     }
     let find =
         |items: &[HeaderItem], m: &str| items.iter().find(|i| i.mnemonic.eq_ignore_ascii_case(m)).cloned();
-    let vers = find(&version, "VERS")
-        .ok_or_else(|| missing("~V has no VERS line (expected `VERS. 2.0 : …`)".into()))?;
-    if !matches!(vers.value.as_str(), "2.0" | "2" | "2.00") {
-        return Err(syntax(
-            vers.line,
-            format!("VERS is {:?}; this reader reads LAS version 2.0", vers.value),
-        ));
+    let version_text = match find(&version, "VERS") {
+        Some(vers) => {
+            // The first word of the value (some writers add text after the number).
+            let number =
+                vers.value.split_whitespace().next().unwrap_or("").replace(',', ".").parse::<f64>().ok();
+            match number {
+                Some(v) if v == 1.2 || v == 2.0 => vers.value.clone(),
+                Some(v) if v >= 3.0 => {
+                    return Err(syntax(
+                        vers.line,
+                        format!("VERS is {:?}: LAS 3.0 files are not read; write LAS 2.0", vers.value),
+                    ))
+                }
+                _ => {
+                    return Err(syntax(
+                        vers.line,
+                        format!("VERS is {:?}; this reader reads LAS versions 1.2 and 2.0", vers.value),
+                    ))
+                }
+            }
+        }
+        None => {
+            warnings.push(format!("{path}, line {v_line}: ~V has no VERS line; read as LAS 2.0"));
+            "2.0".to_string()
+        }
+    };
+    let las12 = version_text
+        .split_whitespace()
+        .next()
+        .unwrap_or("")
+        .replace(',', ".")
+        .parse::<f64>()
+        .is_ok_and(|v| v < 2.0);
+    if las12 {
+        // LAS 1.2 writes most ~W items as `MNEM.UNIT DESCRIPTION : VALUE` (e.g.
+        // `COMP. COMPANY: ANY OIL COMPANY`); only STRT, STOP, STEP and NULL keep the value first.
+        for item in &mut well {
+            if !["STRT", "STOP", "STEP", "NULL"].iter().any(|m| item.mnemonic.eq_ignore_ascii_case(m)) {
+                std::mem::swap(&mut item.value, &mut item.description);
+            }
+        }
     }
-    let wrap =
-        find(&version, "WRAP").ok_or_else(|| missing("~V has no WRAP line (expected YES or NO)".into()))?;
-    let wrapped = match wrap.value.to_ascii_uppercase().as_str() {
-        "YES" => true,
-        "NO" => false,
-        other => return Err(syntax(wrap.line, format!("WRAP is {other:?}; expected YES or NO"))),
+    let wrapped = match find(&version, "WRAP") {
+        Some(wrap) => match wrap.value.to_ascii_uppercase().as_str() {
+            "YES" => Some(true),
+            "NO" => Some(false),
+            other => return Err(syntax(wrap.line, format!("WRAP is {other:?}; expected YES or NO"))),
+        },
+        None => None,
     };
     if !seen_a {
         return Err(missing("no ~A (data) section: expected ~A as the last section".into()));
@@ -387,13 +617,24 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     if curve_items.is_empty() {
         return Err(missing("no ~C (curve) section or it lists no curves".into()));
     }
-    let index = &curve_items[0];
-    if !matches!(index.mnemonic.to_ascii_uppercase().as_str(), "DEPT" | "DEPTH") {
-        return Err(syntax(
-            index.line,
-            format!("the first curve in ~C must be the index DEPT or DEPTH, found {:?}", index.mnemonic),
-        ));
+    // Duplicate mnemonics are numbered (`GR:1`, `GR:2`) so that each curve can be named.
+    let mut seen: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
+    for item in &curve_items {
+        *seen.entry(item.mnemonic.clone()).or_default() += 1;
     }
+    let mut counter: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
+    for item in curve_items.iter_mut() {
+        if seen.get(&item.mnemonic).copied().unwrap_or(0) > 1 {
+            let n = counter.entry(item.mnemonic.clone()).or_default();
+            *n += 1;
+            warnings.push(format!(
+                "{path}, line {}: the mnemonic {} appears more than once in ~C; this one is named {}:{n}",
+                item.line, item.mnemonic, item.mnemonic
+            ));
+            item.mnemonic = format!("{}:{n}", item.mnemonic);
+        }
+    }
+    let index = &curve_items[0];
     // Index unit: from the index curve, else from STRT.
     let strt = find(&well, "STRT");
     let index_unit = if !index.unit.is_empty() {
@@ -401,23 +642,93 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
     } else {
         strt.as_ref().map(|s| s.unit.clone()).unwrap_or_default()
     };
+    if is_time_index(&index.mnemonic, &index_unit) {
+        return Err(syntax(
+            index.line,
+            format!(
+                "the index is {} ({}), a time: curves are placed on section heights, so the first ~C curve \
+                 must be a depth or height in M or FT",
+                index.mnemonic,
+                if index_unit.is_empty() { "no unit" } else { &index_unit }
+            ),
+        ));
+    }
     let factor = index_unit_factor(&index_unit).ok_or_else(|| {
         syntax(
             index.line,
-            format!("index unit {index_unit:?} is not a length unit; expected M or FT (also F, CM)"),
+            format!(
+                "index {} has unit {index_unit:?}, not a length unit; the first ~C curve must be a depth or \
+                 height in M or FT (also F, CM, .1IN)",
+                index.mnemonic
+            ),
         )
     })?;
     let null_value = match find(&well, "NULL") {
-        Some(n) if !n.value.is_empty() => Some(parse_number(&n.value, n.line, path, "NULL value")?),
-        _ => None,
+        Some(n) if !n.value.is_empty() => {
+            let text = n.value.replace(',', ".");
+            Some(
+                text.parse::<f64>()
+                    .ok()
+                    .filter(|v| v.is_finite())
+                    .ok_or_else(|| syntax(n.line, format!("NULL value: {:?} is not a number", n.value)))?,
+            )
+        }
+        _ => {
+            let line = find(&well, "NULL").map_or(v_line, |n| n.line);
+            warnings.push(format!(
+                "{path}, line {line}: no NULL value in ~W, so no reading is taken as missing (values such as \
+                 -999.25 are kept as numbers)"
+            ));
+            None
+        }
     };
     let ncurves = curve_items.len();
-    let mut rows: Vec<Vec<f64>> = Vec::new();
+    // Tokens of each data line.
+    let mut markers: Option<(usize, String, usize)> = None;
+    let mut commas: Option<(usize, String, usize)> = None;
+    let mut lines: Vec<(usize, Vec<Option<f64>>)> = Vec::with_capacity(data_lines.len());
+    for &(line, raw) in &data_lines {
+        let clean = raw.replace('\u{1a}', "");
+        let mut values = Vec::new();
+        for t in clean.split_whitespace() {
+            let note = |slot: &mut Option<(usize, String, usize)>| match slot {
+                Some((_, _, n)) => *n += 1,
+                None => *slot = Some((line, t.to_string(), 1)),
+            };
+            values.push(match parse_token(t, line, path)? {
+                Token::Value(v) => Some(v),
+                Token::Comma(v) => {
+                    note(&mut commas);
+                    Some(v)
+                }
+                Token::Marker => {
+                    note(&mut markers);
+                    None
+                }
+            });
+        }
+        if !values.is_empty() {
+            lines.push((line, values));
+        }
+    }
+    if lines.is_empty() {
+        return Err(missing("the ~A section holds no data".into()));
+    }
+    let wrapped = wrapped.unwrap_or_else(|| {
+        let guess = ncurves > 1 && lines[0].1.len() == 1;
+        warnings.push(format!(
+            "{path}, line {v_line}: ~V has no WRAP line; the data look {}",
+            if guess { "wrapped (index alone on a line)" } else { "unwrapped (one line per depth)" }
+        ));
+        guess
+    });
+    // Rows: (line of the record, values).
+    let mut rows: Vec<(usize, Vec<Option<f64>>)> = Vec::new();
+    let mut columns = ncurves;
     if wrapped {
-        let mut current: Vec<f64> = Vec::new();
+        let mut current: Vec<Option<f64>> = Vec::new();
         let mut record_line = 0;
-        for &(line, raw) in &data_lines {
-            let tokens: Vec<&str> = raw.split_whitespace().collect();
+        for (line, tokens) in lines {
             if current.is_empty() {
                 if tokens.len() != 1 {
                     return Err(syntax(
@@ -430,9 +741,7 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
                 }
                 record_line = line;
             }
-            for t in tokens {
-                current.push(parse_number(t, line, path, "data value")?);
-            }
+            current.extend(tokens);
             if current.len() > ncurves {
                 return Err(syntax(
                     line,
@@ -440,7 +749,7 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
                 ));
             }
             if current.len() == ncurves {
-                rows.push(std::mem::take(&mut current));
+                rows.push((record_line, std::mem::take(&mut current)));
             }
         }
         if !current.is_empty() {
@@ -453,32 +762,68 @@ pub fn parse_las(text: &str, path: &str) -> Result<LasFile, LasError> {
             ));
         }
     } else {
-        for &(line, raw) in &data_lines {
-            let tokens: Vec<&str> = raw.split_whitespace().collect();
-            if tokens.len() != ncurves {
+        let first = lines[0].1.len();
+        for (line, tokens) in lines {
+            if tokens.len() != first {
                 return Err(syntax(
                     line,
-                    format!("expected {ncurves} values (one per ~C curve), found {}", tokens.len()),
+                    format!("expected {first} values (one per ~C curve), found {}", tokens.len()),
                 ));
             }
-            let row = tokens
-                .iter()
-                .map(|t| parse_number(t, line, path, "data value"))
-                .collect::<Result<Vec<f64>, _>>()?;
-            rows.push(row);
+            rows.push((line, tokens));
+        }
+        if first > ncurves {
+            return Err(syntax(
+                rows[0].0,
+                format!(
+                    "the data lines hold {first} values but ~C lists {ncurves} curves: which column is which cannot \
+                     be known; add the missing curves to ~C"
+                ),
+            ));
+        }
+        if first < ncurves {
+            let empty: Vec<String> =
+                curve_items[first..].iter().map(|c| format!("{} (line {})", c.mnemonic, c.line)).collect();
+            warnings.push(format!(
+                "{path}, line {}: ~C lists {ncurves} curves but each data line holds {first} values; the values are \
+                 given to the first {first} curves in order and {} {} no data",
+                rows[0].0,
+                empty.join(", "),
+                if empty.len() == 1 { "has" } else { "have" }
+            ));
+            columns = first;
         }
     }
-    if rows.is_empty() {
-        return Err(missing("the ~A section holds no data".into()));
+    if let Some((line, token, n)) = markers {
+        warnings.push(format!(
+            "{path}, line {line}: {token:?} read as a missing value (NULL){}",
+            if n > 1 { format!("; {} more such values on later lines", n - 1) } else { String::new() }
+        ));
     }
-    let is_null = |v: f64| null_value.is_some_and(|n| (v - n).abs() <= 1e-9 * n.abs().max(1.0));
-    let index_m = rows.iter().map(|r| r[0] * factor).collect();
-    let values =
-        (1..ncurves).map(|k| rows.iter().map(|r| (!is_null(r[k])).then_some(r[k])).collect()).collect();
-    let warnings = header_warnings(path, &well, &index_unit, &rows);
+    if let Some((line, token, n)) = commas {
+        warnings.push(format!(
+            "{path}, line {line}: {token:?} read with a decimal comma{}",
+            if n > 1 { format!("; {} more such values on later lines", n - 1) } else { String::new() }
+        ));
+    }
+    let mut index_values = Vec::with_capacity(rows.len());
+    for (line, row) in &rows {
+        match row[0] {
+            Some(v) if null_value != Some(v) => index_values.push(v),
+            _ => return Err(syntax(*line, "the index (depth) value is missing (NULL) on this line".into())),
+        }
+    }
+    let is_null = |v: f64| null_value == Some(v);
+    let index_m = index_values.iter().map(|d| d * factor).collect();
+    let values = (1..ncurves)
+        .map(|k| {
+            rows.iter().map(|(_, r)| if k < columns { r[k].filter(|v| !is_null(*v)) } else { None }).collect()
+        })
+        .collect();
+    warnings.extend(header_warnings(path, &well, &index_unit, &index_values));
     Ok(LasFile {
         warnings,
-        version: vers.value,
+        version: version_text,
         wrapped,
         well,
         curve_items,

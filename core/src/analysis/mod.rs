@@ -4,6 +4,7 @@
 //! outputs are plain data that the CLI, the layout and the app present.
 
 pub mod bodies;
+pub mod curve_table;
 pub mod decompaction;
 pub mod gamma;
 pub mod las;

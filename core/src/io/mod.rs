@@ -1,10 +1,12 @@
 //! Reading and writing files: the versioned project JSON (`.aggrade`), the bed-table CSV,
-//! validation shared with the app, and atomic saving.
+//! validation shared with the app, atomic saving, and the forgiving import of spreadsheets and
+//! text tables written by hand (`import`).
 
 pub mod atomic;
 pub mod bed_table;
 mod csv_rows;
 mod curve_fields;
+pub mod import;
 pub mod json_scan;
 pub mod limits;
 pub mod migrate;
