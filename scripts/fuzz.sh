@@ -26,5 +26,5 @@ for t in "${targets[@]}"; do
     # -jobs=1: one core; -rss_limit_mb: the readers must stay well inside this on any input.
     nice -n 19 cargo fuzz run --sanitizer none "$t" "$work" "fuzz/corpus/$t" -- \
         -max_total_time="$secs" -runs="$runs" -rss_limit_mb=1024 -max_len=65536 -timeout=10 -print_final_stats=1 \
-        2>&1 | tee "target/fuzz-$t.log" | grep -E "^#[0-9]+ +(INITED|DONE)|ERROR|panicked|stat::" || true
+        2>&1 | tee "target/fuzz-$t.log" | grep -E "^#[0-9]+[[:space:]]+(INITED|DONE)|ERROR|panicked|stat::" || true
 done

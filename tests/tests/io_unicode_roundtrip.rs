@@ -514,3 +514,36 @@ fn a_las_curve_description_of_6000_e_acute_attaches_saves_and_reopens() {
     project.sections[0].attach_curve(curve);
     saves_and_reopens(&project);
 }
+
+// ---------- columns in messages are counted in characters too ----------
+
+#[test]
+fn a_json_syntax_error_after_non_ascii_text_names_the_column_an_editor_shows() {
+    // The same line with "e" and with "漢字 é" (7 bytes, 4 characters) before the error: the
+    // column moves by the 3 extra characters, not by the 5 extra bytes.
+    let column = |note: &str| {
+        let text = format!("{{\"format_version\": 1,\n\"sections\": [{{\"name\": \"{note}\", x}}]}}");
+        let problems = read_project_text(&text).expect_err("not JSON");
+        assert_eq!(problems.len(), 1, "{problems:?}");
+        assert_eq!(problems[0].line, Some(2));
+        let msg = &problems[0].message;
+        let at = msg.find("(column ").unwrap_or_else(|| panic!("{msg}")) + "(column ".len();
+        msg[at..].split(')').next().and_then(|n| n.parse::<usize>().ok()).unwrap_or_else(|| panic!("{msg}"))
+    };
+    assert_eq!(column("漢字 é"), column("e") + 3);
+    // Line 2 is `"sections": [{"name": "e", x}]}`: x is its 28th character.
+    assert_eq!(column("e"), 28);
+}
+
+#[test]
+fn a_bad_utf8_byte_after_non_ascii_text_names_the_column_in_characters() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("bad.aggrade");
+    // Line 2: `"notes": "ñandú ` then the invalid byte 0xFF: 16 characters (18 bytes) before it.
+    let mut bytes = "{\n\"notes\": \"ñandú ".as_bytes().to_vec();
+    bytes.push(0xFF);
+    bytes.extend_from_slice(b"\"}\n");
+    std::fs::write(&path, &bytes).expect("write");
+    let msg = io::load(&path).expect_err("not UTF-8").to_string();
+    assert!(msg.contains("line 2") && msg.contains("0xFF at column 17"), "{msg}");
+}

@@ -134,6 +134,26 @@ impl Iterator for Records<'_> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        /// The same records, fields and start offsets as the `csv` crate's reader (flexible rows,
+        /// no header row) on text made of separators, quotes, line breaks and letters.
+        #[test]
+        fn reads_what_the_csv_crate_reads(text in "[a,\"\r\n é漢]{0,40}") {
+            let mut reader =
+                csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(text.as_bytes());
+            let want: Vec<(usize, Vec<String>)> = reader
+                .records()
+                .map(|r| {
+                    let r = r.expect("the csv crate reads UTF-8 text");
+                    let start = r.position().map_or(0, |p| p.byte() as usize);
+                    (start, r.iter().map(str::to_string).collect())
+                })
+                .collect();
+            prop_assert_eq!(rows(&text), want);
+        }
+    }
 
     fn rows(text: &str) -> Vec<(usize, Vec<String>)> {
         Records::new(text).map(|r| (r.start, r.iter().map(str::to_string).collect())).collect()

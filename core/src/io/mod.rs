@@ -124,7 +124,9 @@ fn read_text(path: &Path) -> Result<String, LoadError> {
         let valid = e.utf8_error().valid_up_to();
         let bytes = e.as_bytes();
         let line = 1 + bytes[..valid].iter().filter(|&&b| b == b'\n').count();
-        let column = 1 + bytes[..valid].iter().rev().take_while(|&&b| b != b'\n').count();
+        // Column in characters, as an editor shows it (the line up to the bad byte is UTF-8).
+        let line_start = bytes[..valid].iter().rposition(|&b| b == b'\n').map_or(0, |i| i + 1);
+        let column = 1 + String::from_utf8_lossy(&bytes[line_start..valid]).chars().count();
         LoadError::Invalid {
             path: path.to_path_buf(),
             problems: vec![Problem::new(

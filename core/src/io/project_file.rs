@@ -70,7 +70,8 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
             }
             _ => "",
         };
-        vec![Problem::new("", format!("{what}: {msg} (column {}){hint}", e.column())).at_line(e.line())]
+        let column = char_column(text, e.line(), e.column());
+        vec![Problem::new("", format!("{what}: {msg} (column {column}){hint}")).at_line(e.line())]
     };
     project_reader::check_json_syntax(text).map_err(syntax_problem)?;
     let mut warnings = Vec::new();
@@ -130,6 +131,15 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
         }
         _ => Err(with_lines(text, problems, migrated)),
     }
+}
+
+/// The column in characters (as an editor shows it) of byte column `byte_column` (1-based, as
+/// the JSON parser counts) on line `line` (1-based) of `text`. A byte inside a character counts
+/// as that character.
+fn char_column(text: &str, line: usize, byte_column: usize) -> usize {
+    let Some(line_text) = text.split('\n').nth(line.saturating_sub(1)) else { return byte_column };
+    let byte = byte_column.saturating_sub(1);
+    line_text.char_indices().take_while(|(i, c)| i + c.len_utf8() <= byte).count() + 1
 }
 
 /// Attach line numbers to problems located by JSON path.
