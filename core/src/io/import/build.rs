@@ -8,7 +8,7 @@ use super::values::{self, DecimalMark, GrainUnit};
 use super::{Cell, Table};
 use crate::io::bed_table::{escape_formula, read_bed_table, KNOWN_COLUMNS};
 use crate::io::Problem;
-use crate::model::{LengthUnit, PaleosolFeature, Section, Structure, SurfaceKind};
+use crate::model::{BaseRank, LengthUnit, PaleosolFeature, Section, Structure, SurfaceKind};
 use std::collections::HashMap;
 
 /// One cell of the preview: the value as it will be read, or why it would be refused.
@@ -139,6 +139,9 @@ fn canonical(
             }
             Ok(out.join(";"))
         }
+        Field::BaseRank => BaseRank::parse(&text)
+            .map(|k| k.name().to_string())
+            .ok_or_else(|| format!("{text:?} is not known; valid values are {}", BaseRank::valid_list())),
         Field::SurfaceKind => SurfaceKind::parse(&text)
             .map(|k| k.name().to_string())
             .ok_or_else(|| format!("{text:?} is not known; valid values are {}", SurfaceKind::valid_list())),
@@ -320,6 +323,7 @@ pub fn build_section(
             (Field::GrainTop, "grain_top"),
             (Field::BaseContact, "base_contact"),
             (Field::BaseRelief, "base_relief_m"),
+            (Field::BaseRank, "base_rank"),
             (Field::Structures, "structures"),
             (Field::Paleosol, "paleosol"),
             (Field::PaleosolFeatures, "paleosol_features"),

@@ -24,6 +24,8 @@ pub enum Field {
     GrainTop,
     BaseContact,
     BaseRelief,
+    /// The geologist's rank of the bed's base (storey surface, body base, within storey).
+    BaseRank,
     Structures,
     Paleosol,
     PaleosolFeatures,
@@ -39,7 +41,7 @@ pub enum Field {
 
 impl Field {
     /// Every field, in the order the mapping is printed.
-    pub const ALL: [Field; 20] = [
+    pub const ALL: [Field; 21] = [
         Field::Thickness,
         Field::From,
         Field::To,
@@ -49,6 +51,7 @@ impl Field {
         Field::GrainTop,
         Field::BaseContact,
         Field::BaseRelief,
+        Field::BaseRank,
         Field::Structures,
         Field::Paleosol,
         Field::PaleosolFeatures,
@@ -74,6 +77,7 @@ impl Field {
             Field::GrainTop => "grain_top",
             Field::BaseContact => "base_contact",
             Field::BaseRelief => "base_relief",
+            Field::BaseRank => "base_rank",
             Field::Structures => "structures",
             Field::Paleosol => "paleosol",
             Field::PaleosolFeatures => "paleosol_features",
@@ -98,7 +102,7 @@ impl Field {
 /// Header variants (after [`fold_header`]: lower case, units and punctuation removed, words
 /// separated by one space) and the field each names. Common practice in logging sheets and the
 /// bed table's own column names; no single published list.
-pub const HEADER_VARIANTS: [(&str, Field); 87] = [
+pub const HEADER_VARIANTS: [(&str, Field); 89] = [
     ("thickness", Field::Thickness),
     ("thick", Field::Thickness),
     ("thk", Field::Thickness),
@@ -172,6 +176,8 @@ pub const HEADER_VARIANTS: [(&str, Field); 87] = [
     ("paleocurrent", Field::Paleocurrents),
     ("palaeocurrent", Field::Paleocurrents),
     ("paleoflow", Field::Paleocurrents),
+    ("base rank", Field::BaseRank),
+    ("rank of base", Field::BaseRank),
     ("surface", Field::Surface),
     ("surface kind", Field::SurfaceKind),
     ("colour", Field::Colour),
