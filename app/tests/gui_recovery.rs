@@ -22,16 +22,9 @@ use std::time::{Duration, Instant};
 
 const CHILD_ENV: &str = "AGGRADE_TEST_CHILD_SESSION";
 
+/// The window on the demo, with scripted dialogs that answer "cancel".
 fn harness(data_dir: &Path) -> Harness<'static, AggradeApp> {
-    let app = AggradeApp::new(AppConfig {
-        file: None,
-        data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs::default()),
-        recent: Vec::new(),
-    });
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+    harness_of(app_with(None, data_dir, Box::new(ScriptedDialogs::default())))
 }
 
 /// The child session: edits, then idles until killed. Runs only when started by the parent.

@@ -409,20 +409,25 @@ pub fn describe_time(secs: i64) -> String {
     format!("{date} {:02}:{:02} UTC", day_secs / 3600, (day_secs % 3600) / 60)
 }
 
-/// The backups of windows that are gone, oldest first, each locked for this window while it
-/// is offered. Backups of windows still open are not listed; unreadable ones are, with why.
-pub fn find_backups(data_dir: &Path) -> Vec<FoundBackup> {
-    let dir = backup_dir(data_dir);
-    let mut found = Vec::new();
-    let mut names: Vec<PathBuf> = std::fs::read_dir(&dir)
+/// The backup files in `dir` (`*.json`), sorted by name.
+fn backup_files(dir: &Path) -> Vec<PathBuf> {
+    let mut paths: Vec<PathBuf> = std::fs::read_dir(dir)
         .into_iter()
         .flatten()
         .flatten()
         .map(|e| e.path())
         .filter(|p| p.extension().is_some_and(|e| e == "json"))
         .collect();
-    names.sort();
-    for path in names {
+    paths.sort();
+    paths
+}
+
+/// The backups of windows that are gone, oldest first, each locked for this window while it
+/// is offered. Backups of windows still open are not listed; unreadable ones are, with why.
+pub fn find_backups(data_dir: &Path) -> Vec<FoundBackup> {
+    let dir = backup_dir(data_dir);
+    let mut found = Vec::new();
+    for path in backup_files(&dir) {
         let Some(key) = path.file_stem().and_then(|s| s.to_str()).map(str::to_string) else { continue };
         let Ok(Some(lock)) = try_lock(&dir, &key) else { continue };
         found.push(read_found(path, lock, None));
@@ -466,15 +471,7 @@ fn read_found(path: PathBuf, lock: KeyLock, legacy_path: Option<PathBuf>) -> Fou
 /// Every backup in the data folder, whether its window is open or gone, without locking any
 /// (for tests and diagnostics: what is on disk right now).
 pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, String>)> {
-    let mut paths: Vec<PathBuf> = std::fs::read_dir(backup_dir(data_dir))
-        .into_iter()
-        .flatten()
-        .flatten()
-        .map(|e| e.path())
-        .filter(|p| p.extension().is_some_and(|e| e == "json"))
-        .collect();
-    paths.sort();
-    paths
+    backup_files(&backup_dir(data_dir))
         .into_iter()
         .map(|p| {
             let r = std::fs::read(&p)
