@@ -294,7 +294,7 @@ fn decompacted_beds_match_scipy_restacking() {
     ]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     // Sclater & Christie (1980) laws (shale 0.63/0.51, sandstone 0.49/0.27, shaly sandstone
-    // 0.56/0.39 per km; REFERENCES.md), each bed's solid thickness conserved and the beds restacked
+    // 0.56/0.39 per km; Sclater & Christie 1980, table 1 from memory), each bed's solid thickness conserved and the beds restacked
     // from the top down with the section top at the surface, solved with scipy.optimize.brentq.
     let script = r#"
 import csv, json, math, sys

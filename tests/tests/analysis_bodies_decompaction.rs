@@ -150,7 +150,7 @@ print(json.dumps([list(csv.reader(open(p, newline=""))) for p in sys.argv[1:]]))
 
 #[test]
 fn decompaction_matches_worked_values_and_scipy_brentq() {
-    // REFERENCES.md [computed from Sclater & Christie 1980 laws]: layer from 3–4 km to the
+    // Computed from the porosity–depth laws of Sclater & Christie 1980 (table 1, from memory): layer from 3–4 km to the
     // surface: chalk 1612.6 m, shale 1575.3 m, sandstone 1370.2 m; shale 1–2 km → 1303.5 m.
     let cases = [
         ("chalk", PorosityLaw::CHALK, 3000.0, 4000.0, 1612.6),
@@ -189,6 +189,6 @@ print(json.dumps(out))
     }
     let got = decompact_layer(&ss, 2500.0, 2512.5, 800.0).expect("valid");
     assert!((got - o[4].as_f64().expect("number")).abs() < 1e-6);
-    // Shale porosity at 1 km: 0.63·e^(−0.51) = 0.3783 (REFERENCES.md [computed]).
+    // Shale porosity at 1 km: 0.63·e^(−0.51) = 0.3783 (Sclater & Christie 1980, table 1 from memory; computed).
     assert!((PorosityLaw::SHALE.porosity_at(1000.0) - 0.3783).abs() < 5e-5);
 }

@@ -79,7 +79,8 @@ fn angle_diff(a: f64, b: f64, period: f64) -> f64 {
 
 #[test]
 fn worked_example_from_references() {
-    // REFERENCES.md (a statistics library's docs, reproduced): angles 0.785, 1.570, 3.141,
+    // The data of the worked example in astropy's `astropy.stats.circstats` documentation; z, p,
+    // R̄ and mean computed from them (Rayleigh test after Mardia & Jupp 2000, §6.3.1 from memory): angles 0.785, 1.570, 3.141,
     // 0.839, 5.934 rad → z = 1.236, p = 0.3048, R̄ = 0.4972, mean 58.04°.
     #[allow(clippy::approx_constant)] // 3.141 is a data value of the example, not π.
     let rad = [0.785, 1.570, 3.141, 0.839, 5.934];

@@ -60,7 +60,7 @@ fn paper_sizes_follow_iso_216_and_ansi() {
     let s = sample_section();
     let i = sample_interpretation(&s);
     // ISO 216: A4 210 × 297 mm, A3 297 × 420 mm; ANSI Letter 8.5 × 11 in. In PDF points
-    // (1/72 in): A4 595.276 × 841.890, A3 841.890 × 1190.551, Letter 612 × 792 (REFERENCES.md).
+    // (1/72 in): A4 595.276 × 841.890, A3 841.890 × 1190.551, Letter 612 × 792 (1 in = 25.4 mm exactly; ISO 32000-1 §8.3.2.3 default user unit 1/72 in).
     let cases = [
         (Paper::A4, Orientation::Portrait, 595.276, 841.890),
         (Paper::A4, Orientation::Landscape, 841.890, 595.276),
@@ -132,7 +132,10 @@ fn beds_are_drawn_at_true_scale() {
         let bed_pt = heights.iter().copied().fold(0.0, f64::max);
         let expected_pt = 2.0 * 1000.0 / scale * 72.0 / 25.4;
         if scale == 50.0 {
-            assert!((expected_pt - 113.386).abs() < 0.001, "worked value from REFERENCES.md");
+            assert!(
+                (expected_pt - 113.386).abs() < 0.001,
+                "2 m at 1:50 = 40 mm = 113.386 pt (40 / 25.4 × 72)"
+            );
         }
         assert!(
             (bed_pt - expected_pt).abs() <= 0.1 * 72.0 / 25.4,

@@ -331,7 +331,7 @@ mod tests {
 
     #[test]
     fn worked_values() {
-        // REFERENCES.md [computed from Sclater & Christie 1980 laws]: 3–4 km to the surface:
+        // Computed from the porosity–depth laws of Sclater & Christie 1980 (table 1, from memory): 3–4 km to the surface:
         // chalk 1612.6 m, shale 1575.3 m, sandstone 1370.2 m; shale 1–2 km → 1303.5 m.
         let cases = [
             (PorosityLaw::CHALK, 3000.0, 4000.0, 1612.6),
@@ -345,7 +345,7 @@ mod tests {
             // Solid thickness is conserved (the defining equation).
             assert!((law.solid_thickness_m(0.0, got) - law.solid_thickness_m(top, base)).abs() < 1e-6);
         }
-        // Shale porosity at 1 km: 0.63·e^(−0.51) = 0.3783 (REFERENCES.md [computed]).
+        // Shale porosity at 1 km: 0.63·e^(−0.51) = 0.3783 (Sclater & Christie 1980, table 1 from memory; computed).
         assert!((PorosityLaw::SHALE.porosity_at(1000.0) - 0.3783).abs() < 5e-5);
     }
 

@@ -296,7 +296,8 @@ mod tests {
     fn davis_worked_example() {
         let states = ["A", "B", "C", "D", "E"].map(String::from).to_vec();
         let r = analyse_counts(states, davis(), &TransitionParams::default()).expect("valid");
-        // REFERENCES.md [computed from Davis 2002 data]: χ² = 173.61, G² = 159.33, df = 11,
+        // Computed from the transition counts of Davis 2002, Statistics and Data Analysis in Geology,
+        // 3rd ed., chapter 5 (embedded Markov chain example; chapter from memory): χ² = 173.61, G² = 159.33, df = 11,
         // e_AB = 15.03, e_AE = 28.02.
         assert!((r.chi_square - 173.61).abs() < 0.005, "{}", r.chi_square);
         assert!((r.g_square - 159.33).abs() < 0.005, "{}", r.g_square);

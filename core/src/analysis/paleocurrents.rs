@@ -369,7 +369,8 @@ mod tests {
     #[test]
     #[allow(clippy::approx_constant)] // 3.141 is a data value of the worked example, not π.
     fn worked_example_matches_published_values() {
-        // Worked example (REFERENCES.md, from a statistics library's docs): z = 1.236,
+        // The data of astropy's `astropy.stats.circstats` documentation example (Rayleigh test after
+        // Mardia & Jupp 2000, §6.3.1 from memory; recomputed with astropy in tests/tests/analysis_paleocurrents.rs): z = 1.236,
         // p = 0.3048, R̄ = 0.4972, mean 58.04°.
         let a = deg(&[0.785, 1.570, 3.141, 0.839, 5.934]);
         let s = circular_summary(&a, &CircularParams::default()).expect("valid data");
