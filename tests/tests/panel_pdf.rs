@@ -155,8 +155,8 @@ fn a3_landscape_panel_at_true_vertical_scale() {
     // One conglomerate fill per column, taller than the legend swatch (3.8 mm ≈ 10.8 pt).
     let cgl = fills(page, lithology_tint(Lithology::Conglomerate), 15.0);
     assert_eq!(cgl.len(), 3, "{cgl:?}");
-    // True scale: a bed of t m is t·1000/N mm tall at 1:N (common practice; REFERENCES "Units and
-    // paper"), ±0.1 mm. Columns left to right are Ash Draw (2 m), Birch Cut (3 m), Cinder Knoll (1 m).
+    // True scale: a bed of t m is t·1000/N mm tall at 1:N (common practice: the meaning
+    // of a scale 1:N), ±0.1 mm. Columns left to right are Ash Draw (2 m), Birch Cut (3 m), Cinder Knoll (1 m).
     for ((_, top, bottom), t_m) in cgl.iter().zip([2.0, 3.0, 1.0]) {
         let mm = (bottom - top) / PT_PER_MM;
         assert!((mm - t_m * 1000.0 / 100.0).abs() <= 0.1, "{t_m} m bed drawn {mm:.3} mm tall");

@@ -132,7 +132,7 @@ mod tests {
 
     #[test]
     fn heights_up_y_down() {
-        // At 1:50, 2 m of section is 40 mm on paper (true scale; REFERENCES "Units and paper").
+        // At 1:50, 2 m of section is 40 mm on paper (true scale: 2000 mm / 50; common practice).
         let t = HeightTransform::new(250.0, 10.0, 50.0);
         assert_eq!(t.y_mm(10.0), 250.0);
         assert!((t.y_mm(12.0) - 210.0).abs() < 1e-9, "higher is further up the page");
@@ -140,7 +140,7 @@ mod tests {
         for h in [-3.0, 0.0, 1.234, 10.0, 77.7] {
             assert!((t.height_m(t.y_mm(h)) - h).abs() < 1e-9);
         }
-        // At 1:100, 1 m is 10 mm (REFERENCES, computed).
+        // At 1:100, 1 m is 10 mm (1000 mm / 100; computed).
         assert!((HeightTransform::new(0.0, 0.0, 100.0).length_mm(1.0) - 10.0).abs() < 1e-12);
     }
 
