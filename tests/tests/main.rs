@@ -24,6 +24,7 @@ mod io_unicode_roundtrip;
 mod las_odd_cases;
 mod panel_distance;
 mod panel_pdf;
+mod reference_fgdc_patterns;
 mod reference_grain_units;
 mod rules_demo_sections;
 mod rules_handworked;
