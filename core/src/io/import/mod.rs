@@ -236,7 +236,7 @@ pub fn read_source(bytes: &[u8], name: &str, options: &ImportOptions) -> Result<
 }
 
 /// The header row (the first of the first ten rows that maps) and the mapping: the saved one
-/// fitted to it, or one guessed from [`mapping::HEADER_VARIANTS`]. An impossible mapping is an
+/// fitted to it, or one guessed from `HEADER_VARIANTS`. An impossible mapping is an
 /// error listing the headers found.
 pub fn find_mapping(table: &Table, options: &ImportOptions) -> Result<(usize, ColumnMapping), Problem> {
     let headers_of = |row: &Row| -> Vec<String> { row.cells.iter().map(Cell::text).collect() };
