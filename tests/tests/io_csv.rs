@@ -184,8 +184,13 @@ fn unknown_columns_are_warnings_not_dropped_silently() {
     let loaded = io::load(&path).expect("valid with warnings");
     assert_eq!(loaded.project.sections[0].name, "Sedge Creek", "the section takes the file stem");
     assert_eq!(loaded.warnings.len(), 2, "{:?}", loaded.warnings);
-    assert!(loaded.warnings[0].contains("Sedge Creek.csv") && loaded.warnings[0].contains("Weather"));
-    assert!(loaded.warnings[0].contains("line 1"));
+    let first = &loaded.warnings[0];
+    assert!(
+        first.path.ends_with("Sedge Creek.csv") && first.problem.to_string().contains("Weather"),
+        "{first}"
+    );
+    assert_eq!(first.problem.line, Some(1), "{first}");
+    assert!(first.to_string().contains("Sedge Creek.csv") && first.to_string().contains("line 1"), "{first}");
 }
 
 #[test]

@@ -78,7 +78,9 @@ pub fn sibling_free_path(path: &Path) -> PathBuf {
 
 /// Read a project or bed table; the error is the reader's own message, ready for a dialog.
 pub fn open(path: &Path) -> Result<(Project, Vec<String>), String> {
-    aggrade_core::io::load(path).map(|l| (l.project, l.warnings)).map_err(|e| e.to_string())
+    aggrade_core::io::load(path)
+        .map(|l| (l.project, l.warnings.iter().map(ToString::to_string).collect()))
+        .map_err(|e| e.to_string())
 }
 
 /// Write a project with the core's atomic save (temporary file, fsync, rename; the previous file
