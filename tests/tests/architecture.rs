@@ -260,7 +260,9 @@ fn code_char_line_start(c: &[char], i: usize) -> usize {
 /// its text; edges go to the file of the deepest module each `crate::`/`super::` path names.
 /// A parent's `mod x;` and its `pub use` of its own children are not edges; `#[cfg(test)]`
 /// modules are skipped.
-fn module_graph(files: &std::collections::BTreeMap<std::path::PathBuf, String>) -> Vec<(String, Vec<String>)> {
+fn module_graph(
+    files: &std::collections::BTreeMap<std::path::PathBuf, String>,
+) -> Vec<(String, Vec<String>)> {
     use std::collections::{BTreeMap, BTreeSet};
     let modules: BTreeMap<Vec<String>, String> =
         files.keys().map(|p| (module_of(p), p.to_string_lossy().into_owned())).collect();
@@ -377,7 +379,11 @@ fn module_cycles(graph: &[(String, Vec<String>)]) -> Vec<Vec<String>> {
 
 /// Every `.rs` file under a crate's `src/`, keyed by its path relative to `src/`.
 fn crate_sources(krate: &str) -> std::collections::BTreeMap<std::path::PathBuf, String> {
-    fn walk(dir: &std::path::Path, root: &std::path::Path, out: &mut std::collections::BTreeMap<std::path::PathBuf, String>) {
+    fn walk(
+        dir: &std::path::Path,
+        root: &std::path::Path,
+        out: &mut std::collections::BTreeMap<std::path::PathBuf, String>,
+    ) {
         let mut entries: Vec<_> = std::fs::read_dir(dir).expect("source folder reads").flatten().collect();
         entries.sort_by_key(|e| e.path());
         for e in entries {
@@ -446,7 +452,8 @@ fn the_cycle_check_finds_a_circle_in_a_small_tree() {
 
     // a/mod.rs now uses b/other's helper in its own code: a/mod → b/other → a/mod.
     let mut closed = circle.clone();
-    closed.insert("a/mod.rs".into(), "mod deep; pub struct Thing; fn g() { crate::b::other::Helper; }".into());
+    closed
+        .insert("a/mod.rs".into(), "mod deep; pub struct Thing; fn g() { crate::b::other::Helper; }".into());
     let cycles = module_cycles(&module_graph(&closed));
     assert_eq!(cycles, [vec!["a/mod.rs".to_string(), "b/other.rs".to_string()]]);
 
@@ -457,5 +464,8 @@ fn the_cycle_check_finds_a_circle_in_a_small_tree() {
         ("y.rs", "use super::{z::Z}; pub struct Y;"),
         ("z.rs", "use crate::x; pub struct Z;"),
     ]);
-    assert_eq!(module_cycles(&module_graph(&three)), [vec!["x.rs".to_string(), "y.rs".to_string(), "z.rs".to_string()]]);
+    assert_eq!(
+        module_cycles(&module_graph(&three)),
+        [vec!["x.rs".to_string(), "y.rs".to_string(), "z.rs".to_string()]]
+    );
 }

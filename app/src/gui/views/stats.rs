@@ -2,9 +2,9 @@
 //! the facies-transition analysis (observed, expected, difference, χ²) with a diagram of the
 //! transitions that occur more often than chance.
 
-use super::theme;
-use super::views_common::{caution, fmt_p, text_table, ViewCtx};
+use super::common::{caution, fmt_p, text_table, ViewCtx};
 use crate::cli::stats::{interval_bounds, state_sequence, StateKind};
+use crate::gui::theme;
 use aggrade_core::analysis::markov::{analyse_sequence, TransitionAnalysis, TransitionParams};
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, per_bed, per_interval, readings_in_interval, rose_bins, section_readings,

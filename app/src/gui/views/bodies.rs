@@ -1,9 +1,9 @@
 //! Channel-body statistics view: every body of every section, the thickness summary with
 //! P10/P50/P90, proportions, decompacted thicknesses for a burial depth, and CSV export.
 
-use super::chooser::{PickFor, SaveKind};
-use super::theme;
-use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::theme;
 use aggrade_core::analysis::bodies::{
     body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
     write_proportion_curve_csv, BodyRow, ThicknessSummary,

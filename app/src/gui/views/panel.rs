@@ -2,10 +2,10 @@
 //! drawn by the same painter as the column (so screen and print agree), with zoom and pan, a
 //! datum picker, tie lines, proportions and export to PDF or SVG.
 
-use super::chooser::{PickFor, SaveKind};
-use super::painter::{self, ItemIndex, MmToScreen};
-use super::theme;
-use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::painter::{self, ItemIndex, MmToScreen};
+use crate::gui::theme;
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::panel::{panel_layout, section_markers, Datum, PanelLayout, PanelOptions};
 use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
@@ -535,7 +535,7 @@ mod tests {
             labels,
             ["Section base", "SB-1 (1 section, accepted boundary)", "K-1 (linked, 2 sections)"]
         );
-        assert_eq!(super::super::review::link_labels(&project), ["K-1", "SB-1"]);
+        assert_eq!(crate::gui::review::link_labels(&project), ["K-1", "SB-1"]);
     }
 
     #[test]
