@@ -2,6 +2,7 @@
 //! through the core's page layout and writers (the same items the screen draws).
 
 use super::chooser::{Chooser, PickFor, SaveKind};
+use super::error::{WriteError, Written};
 use super::painter::{self, ItemIndex, MmToScreen};
 use aggrade_core::export::pdf::{write_pdf, PdfInfo};
 use aggrade_core::export::svg::write_svg;
@@ -14,9 +15,9 @@ use std::path::Path;
 pub enum Outcome {
     Open,
     Closed,
-    Done(String),
+    Done(Written),
     /// Writing to this path failed, for this reason.
-    Failed(std::path::PathBuf, String),
+    Failed(std::path::PathBuf, WriteError),
 }
 
 /// Dialog state.
@@ -26,19 +27,20 @@ pub struct ExportDialog {
     preview: Option<(LayoutOptions, u64, Vec<Page>)>,
 }
 
-/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension.
+/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension; says
+/// what was written.
 pub fn export_to(
     path: &Path,
     section: &Section,
     interp: &Interpretation,
     opts: &LayoutOptions,
     now_secs: i64,
-) -> Result<String, String> {
+) -> Result<Written, WriteError> {
     let meta = PrintMeta { printed_on: aggrade_core::export::civil_date(now_secs), subtitle: String::new() };
     let pages = pages(section, interp, opts, &meta);
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
     let bytes = if is_svg {
-        pages.first().map(write_svg).ok_or("nothing to export: the section has no beds")?.into_bytes()
+        pages.first().map(write_svg).ok_or(WriteError::NothingToExport)?.into_bytes()
     } else {
         let info = PdfInfo {
             title: section.name.clone(),
@@ -47,13 +49,12 @@ pub fn export_to(
         };
         write_pdf(&pages, &info)
     };
-    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| e.to_string())?;
-    Ok(format!(
-        "Exported {} page(s) at {} to {}",
-        if is_svg { 1 } else { pages.len() },
-        opts.scale_label(),
-        path.display()
-    ))
+    aggrade_core::io::write_bytes_atomic(path, &bytes)?;
+    Ok(Written::Column {
+        pages: if is_svg { 1 } else { pages.len() },
+        scale: opts.scale_label(),
+        path: path.to_path_buf(),
+    })
 }
 
 impl ExportDialog {

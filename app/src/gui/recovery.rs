@@ -470,6 +470,7 @@ fn read_found(path: PathBuf, lock: KeyLock, legacy_path: Option<PathBuf>) -> Fou
 
 /// Every backup in the data folder, whether its window is open or gone, without locking any
 /// (for tests and diagnostics: what is on disk right now).
+#[cfg(any(test, feature = "test-hooks"))]
 pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, String>)> {
     backup_files(&backup_dir(data_dir))
         .into_iter()
@@ -484,6 +485,7 @@ pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, Strin
 
 /// The first backup left by a window that is gone (for tests and scripts); its lock is
 /// released again at once.
+#[cfg(any(test, feature = "test-hooks"))]
 pub fn find_recovery(data_dir: &Path) -> Option<Result<Recovery, String>> {
     find_backups(data_dir).into_iter().next().map(|f| f.content)
 }

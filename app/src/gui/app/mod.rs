@@ -131,7 +131,7 @@ impl AggradeApp {
                     doc
                 }
                 Err(e) => {
-                    message = Some(Notice::about_file("Could not open the file", e, path));
+                    message = Some(Notice::about_file("Could not open the file", e.to_string(), path));
                     demo_doc()
                 }
             },

@@ -158,12 +158,12 @@ impl AggradeApp {
             match dlg.ui(ctx, section, self.doc.revision, &cache.interp, &mut self.chooser) {
                 export_dialog::Outcome::Open => {}
                 export_dialog::Outcome::Closed => self.modal = None,
-                export_dialog::Outcome::Done(msg) => {
-                    self.status = msg;
+                export_dialog::Outcome::Done(written) => {
+                    self.status = written.to_string();
                     self.modal = None;
                 }
-                export_dialog::Outcome::Failed(path, msg) => {
-                    self.message = Some(Notice::about_file("Could not export", msg, &path));
+                export_dialog::Outcome::Failed(path, e) => {
+                    self.message = Some(Notice::about_file("Could not export", e.to_string(), &path));
                 }
             }
         }

@@ -119,7 +119,7 @@ impl AggradeApp {
                         Some(Notice::about_file("Opened with warnings", warnings.join("\n"), path));
                 }
             }
-            Err(e) => self.message = Some(Notice::about_file("Could not open the file", e, path)),
+            Err(e) => self.message = Some(Notice::about_file("Could not open the file", e.to_string(), path)),
         }
     }
 
@@ -139,7 +139,9 @@ impl AggradeApp {
                         Some(Notice::about_file("Imported with warnings", warnings.join("\n"), path));
                 }
             }
-            Err(e) => self.message = Some(Notice::about_file("Could not import the file", e, path)),
+            Err(e) => {
+                self.message = Some(Notice::about_file("Could not import the file", e.to_string(), path))
+            }
         }
     }
 
@@ -153,7 +155,9 @@ impl AggradeApp {
     pub(super) fn open_import_dialog(&mut self, path: &Path) {
         match ImportDialog::open(path, Some(&self.data_dir)) {
             Ok(dlg) => self.modal = Some(Modal::Import(dlg)),
-            Err(e) => self.message = Some(Notice::about_file("Could not read the table", e, path)),
+            Err(e) => {
+                self.message = Some(Notice::about_file("Could not read the table", e.to_string(), path))
+            }
         }
     }
 
@@ -167,7 +171,9 @@ impl AggradeApp {
     pub(super) fn open_curve_dialog(&mut self, path: &Path) {
         match CurveDialog::open(path) {
             Ok(dlg) => self.modal = Some(Modal::Curve(dlg)),
-            Err(e) => self.message = Some(Notice::about_file("Could not read the LAS file", e, path)),
+            Err(e) => {
+                self.message = Some(Notice::about_file("Could not read the LAS file", e.to_string(), path))
+            }
         }
     }
 

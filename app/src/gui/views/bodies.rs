@@ -3,6 +3,7 @@
 
 use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
 use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::error::{WriteError, Written};
 use crate::gui::theme;
 use aggrade_core::analysis::bodies::{
     body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
@@ -135,32 +136,31 @@ pub fn export_csv(
     which: BodiesCsv,
     rows: &[BodyRow],
     interps: &[Interpretation],
-) -> Result<String, String> {
+) -> Result<Written, WriteError> {
     let mut bytes = Vec::new();
     let what = match which {
         BodiesCsv::Bodies => {
-            write_bodies_csv(rows, &mut bytes).map_err(|e| e.to_string())?;
+            write_bodies_csv(rows, &mut bytes)?;
             format!("{} channel bodies", rows.len())
         }
         BodiesCsv::ProportionCurve => {
             write_proportion_curve_csv(
                 interps.iter().map(|i| (i.section.as_str(), i.proportion_curve.as_slice())),
                 &mut bytes,
-            )
-            .map_err(|e| e.to_string())?;
+            )?;
             "the proportion curve".to_string()
         }
         BodiesCsv::IntervalProportions => {
             write_interval_proportions_csv(
                 interps.iter().map(|i| (i.section.as_str(), i.interval_proportions.as_slice())),
                 &mut bytes,
-            )
-            .map_err(|e| e.to_string())?;
+            )?;
             "proportions by interval".to_string()
         }
     };
-    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| format!("{}: {e}", path.display()))?;
-    Ok(format!("Wrote {what} to {}", path.display()))
+    aggrade_core::io::write_bytes_atomic(path, &bytes)
+        .map_err(|error| WriteError::At { path: path.to_path_buf(), error })?;
+    Ok(Written::Table { what, path: path.to_path_buf() })
 }
 
 /// The channel-body window.
@@ -258,8 +258,8 @@ impl BodiesView {
                     if let Some(path) = v.dialogs.save_path(clicked, PickFor::View(name), SaveKind::Csv, name)
                     {
                         match export_csv(&path, which, &r.rows, v.interps) {
-                            Ok(msg) => out.status = Some(msg),
-                            Err(e) => out.error = Some(("Could not write the CSV".into(), e)),
+                            Ok(written) => out.status = Some(written.to_string()),
+                            Err(e) => out.error = Some(("Could not write the CSV".into(), e.to_string())),
                         }
                     }
                 }

@@ -4,6 +4,7 @@
 
 use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
 use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::error::{WriteError, Written};
 use crate::gui::painter::{self, ItemIndex, MmToScreen};
 use crate::gui::theme;
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
@@ -160,7 +161,12 @@ impl Default for PanelView {
 }
 
 /// Write a laid-out panel to `path`: SVG when the name ends in .svg, else PDF.
-pub fn export_panel(path: &Path, layout: &PanelLayout, title: &str, now_secs: i64) -> Result<String, String> {
+pub fn export_panel(
+    path: &Path,
+    layout: &PanelLayout,
+    title: &str,
+    now_secs: i64,
+) -> Result<Written, WriteError> {
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
     let bytes = if is_svg {
         write_svg(&layout.page).into_bytes()
@@ -172,14 +178,14 @@ pub fn export_panel(path: &Path, layout: &PanelLayout, title: &str, now_secs: i6
         };
         write_pdf(std::slice::from_ref(&layout.page), &info)
     };
-    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| format!("{}: {e}", path.display()))?;
-    Ok(format!(
-        "Exported the correlation panel ({} columns, {:.0} × {:.0} mm) to {}",
-        layout.columns.len(),
-        layout.page.width_mm,
-        layout.page.height_mm,
-        path.display()
-    ))
+    aggrade_core::io::write_bytes_atomic(path, &bytes)
+        .map_err(|error| WriteError::At { path: path.to_path_buf(), error })?;
+    Ok(Written::Panel {
+        columns: layout.columns.len(),
+        width_mm: layout.page.width_mm,
+        height_mm: layout.page.height_mm,
+        path: path.to_path_buf(),
+    })
 }
 
 impl PanelView {
@@ -317,8 +323,8 @@ impl PanelView {
                 if let Some(path) = v.dialogs.save_path(clicked, purpose, kind, "correlation-panel") {
                     match layout {
                         Some(l) => match export_panel(&path, l, &c.title, v.now_secs) {
-                            Ok(msg) => out.status = Some(msg),
-                            Err(e) => out.error = Some(("Could not export the panel".into(), e)),
+                            Ok(written) => out.status = Some(written.to_string()),
+                            Err(e) => out.error = Some(("Could not export the panel".into(), e.to_string())),
                         },
                         None => {
                             out.error = Some((
