@@ -17,7 +17,7 @@ fn app_with(n: usize, data_dir: &std::path::Path) -> AggradeApp {
     AggradeApp::new(AppConfig {
         file: Some(path),
         data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(files::ScriptedDialogs::default()),
+        dialogs: Box::new(aggrade::gui::ScriptedDialogs::default()),
         recent: Vec::new(),
     })
 }

@@ -10,6 +10,7 @@ use aggrade_core::analysis::bodies::{
     write_proportion_curve_csv, BodyRow, ThicknessSummary,
 };
 use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams, SectionDecompaction};
+use aggrade_core::analysis::AnalysisError;
 use aggrade_core::model::{GrainSize, Project};
 use aggrade_core::rules::{ChannelBody, Element, Interpretation, ProportionBounds};
 
@@ -44,7 +45,7 @@ pub struct SectionLine {
     /// (base m, top m, proportion) of each interval.
     pub intervals: Vec<(f64, f64, Option<f64>)>,
     /// `None` when decompaction is off; `Err` with the reason when it failed.
-    pub decompaction: Option<Result<SectionDecompaction, String>>,
+    pub decompaction: Option<Result<SectionDecompaction, AnalysisError>>,
 }
 
 /// Everything the view shows.
@@ -67,7 +68,6 @@ pub fn compute(project: &Project, interps: &[Interpretation], burial_depth_m: Op
         let decompaction = burial_depth_m.map(|depth| {
             let flags: Vec<bool> = it.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
             decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
-                .map_err(|e| e.to_string())
         });
         // The body table lists a section's bodies by base height (a stable sort): follow it.
         let mut bodies: Vec<&ChannelBody> = it.channel_bodies.iter().collect();
@@ -333,7 +333,7 @@ impl BodiesView {
                     d.present_thickness_m,
                     d.decompacted_thickness_m
                 )),
-                Some(Err(e)) => row.push(e.clone()),
+                Some(Err(e)) => row.push(e.to_string()),
                 None => {}
             }
             rows.push(row);

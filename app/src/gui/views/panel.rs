@@ -8,7 +8,9 @@ use crate::gui::error::{WriteError, Written};
 use crate::gui::painter::{self, ItemIndex, MmToScreen};
 use crate::gui::theme;
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
-use aggrade_core::layout::panel::{panel_layout, section_markers, Datum, PanelLayout, PanelOptions};
+use aggrade_core::layout::panel::{
+    panel_layout, section_markers, Datum, PanelError, PanelLayout, PanelOptions,
+};
 use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::model::Project;
 use std::path::Path;
@@ -124,7 +126,7 @@ impl PanelChoices {
 
 struct PanelCache {
     key: (u64, PanelChoices, String),
-    layout: Result<PanelLayout, String>,
+    layout: Result<PanelLayout, PanelError>,
     index: ItemIndex,
     choices: Vec<DatumChoice>,
 }
@@ -190,7 +192,7 @@ pub fn export_panel(
 
 impl PanelView {
     /// The current layout (after a frame has been drawn).
-    pub fn layout(&self) -> Option<&Result<PanelLayout, String>> {
+    pub fn layout(&self) -> Option<&Result<PanelLayout, PanelError>> {
         self.cache.as_ref().map(|c| &c.layout)
     }
 
@@ -201,8 +203,7 @@ impl PanelView {
         }
         let choices = datum_choices(v.project);
         let layout =
-            panel_layout(v.project, v.interps, &self.choices.options(), &self.choices.meta(&v.doc_name))
-                .map_err(|e| e.to_string());
+            panel_layout(v.project, v.interps, &self.choices.options(), &self.choices.meta(&v.doc_name));
         let index = match &layout {
             Ok(l) => ItemIndex::build(&l.page.items, l.page.height_mm),
             Err(_) => ItemIndex::default(),
@@ -351,7 +352,7 @@ impl PanelView {
         let layout = match &cache.layout {
             Ok(l) => l,
             Err(e) => {
-                ui.colored_label(theme::WARN, e);
+                ui.colored_label(theme::WARN, e.to_string());
                 return;
             }
         };
