@@ -2,7 +2,7 @@
 //! keyboard entry, dragging a thickness, undo, accepting a candidate, save and reopen, a bad
 //! file, restoring after a crash and closing with unsaved changes.
 
-use super::harness::{app_with as app, harness_of as harness};
+use super::harness::{app_with as app, harness_of as harness, push_close_request};
 use aggrade::gui::test_hooks::demo;
 use aggrade::gui::test_hooks::recovery::Autosaver;
 use aggrade::gui::AggradeApp;
@@ -183,12 +183,7 @@ fn closing_with_unsaved_changes_asks_first() {
     let id = h.state().doc.section().beds[0].id;
     h.state_mut().apply(Edit::SetThickness { bed: id, thickness_m: 3.0 });
     h.run();
-    h.input_mut()
-        .viewports
-        .entry(egui::ViewportId::ROOT)
-        .or_default()
-        .events
-        .push(egui::ViewportEvent::Close);
+    push_close_request(&mut h);
     h.step();
     let commands = h
         .output()

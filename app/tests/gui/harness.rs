@@ -32,3 +32,13 @@ pub fn harness_of(app: AggradeApp) -> Harness<'static, AggradeApp> {
         .with_size(egui::vec2(1400.0, 900.0))
         .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
 }
+
+/// Ask the window to close, as the window manager's close button does (drawn at the next frame).
+pub fn push_close_request(h: &mut Harness<'static, AggradeApp>) {
+    h.input_mut()
+        .viewports
+        .entry(egui::ViewportId::ROOT)
+        .or_default()
+        .events
+        .push(egui::ViewportEvent::Close);
+}

@@ -8,7 +8,7 @@
 //! file holds the last edit, kills the child with SIGKILL (no chance to clean up), then starts
 //! a fresh app on the same data folder, accepts the restore offer and checks every edit.
 
-use super::harness::harness_of;
+use super::harness::{harness_of, push_close_request};
 use aggrade::gui::test_hooks::recovery;
 use aggrade::gui::test_hooks::recovery::{read_all_backups, DATA_DIR_ENV};
 use aggrade::gui::Document;
@@ -288,12 +288,7 @@ fn fresh_work(h: &mut Harness<'static, AggradeApp>, name: &str) {
 }
 
 fn request_close(h: &mut Harness<'static, AggradeApp>) {
-    h.input_mut()
-        .viewports
-        .entry(egui::ViewportId::ROOT)
-        .or_default()
-        .events
-        .push(egui::ViewportEvent::Close);
+    push_close_request(h);
     h.run();
 }
 

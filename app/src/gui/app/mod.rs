@@ -169,13 +169,7 @@ impl AggradeApp {
 
     /// The current interpretation (computed on demand; waits for a worker if one is running).
     pub fn interpretation(&mut self) -> &Interpretation {
-        let inputs = column::Inputs {
-            doc: &self.doc,
-            params: &self.params,
-            layout: &self.layout,
-            view_y_mm: self.canvas.view_y_mm(),
-        };
-        &self.column.settled(&inputs).interp
+        &self.column.settled(&column_inputs(&self.doc, &self.params, &self.layout, &self.canvas)).interp
     }
 
     /// True while the column drawn is from before the last edit (a worker is bringing it up
@@ -268,24 +262,12 @@ impl AggradeApp {
 
     /// Bring the column up to date for this frame (see [`Column::refresh`]).
     fn refresh(&mut self) {
-        let inputs = column::Inputs {
-            doc: &self.doc,
-            params: &self.params,
-            layout: &self.layout,
-            view_y_mm: self.canvas.view_y_mm(),
-        };
-        self.column.refresh(&inputs);
+        self.column.refresh(&column_inputs(&self.doc, &self.params, &self.layout, &self.canvas));
     }
 
     /// Bring the column up to date now, waiting for a worker if one runs.
     fn settle(&mut self) {
-        let inputs = column::Inputs {
-            doc: &self.doc,
-            params: &self.params,
-            layout: &self.layout,
-            view_y_mm: self.canvas.view_y_mm(),
-        };
-        self.column.settle(&inputs);
+        self.column.settle(&column_inputs(&self.doc, &self.params, &self.layout, &self.canvas));
     }
 
     /// Apply one edit now (used by scripted runs and tests as well as the panels).
@@ -435,6 +417,16 @@ impl AggradeApp {
             }
         }
     }
+}
+
+/// What the column is computed from: the document, the rule and layout settings, the view.
+fn column_inputs<'a>(
+    doc: &'a Document,
+    params: &'a RuleParams,
+    layout: &'a LayoutOptions,
+    canvas: &Canvas,
+) -> column::Inputs<'a> {
+    column::Inputs { doc, params, layout, view_y_mm: canvas.view_y_mm() }
 }
 
 /// A path made absolute against the working folder (kept as given if that cannot be had), so
