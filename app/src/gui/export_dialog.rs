@@ -24,7 +24,17 @@ pub enum Outcome {
 #[derive(Debug, Default)]
 pub struct ExportDialog {
     pub options: LayoutOptions,
-    preview: Option<(LayoutOptions, u64, Vec<Page>)>,
+    preview: Option<Preview>,
+}
+
+/// The pages laid out for the preview, with what they were laid out from and page 1's item
+/// index (built once per layout, not per frame).
+#[derive(Debug)]
+struct Preview {
+    options: LayoutOptions,
+    revision: u64,
+    pages: Vec<Page>,
+    first_page_index: ItemIndex,
 }
 
 /// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension; says
@@ -105,13 +115,16 @@ impl ExportDialog {
                 ui.checkbox(&mut o.show_rejected, "Show rejected boundaries")
                     .on_hover_text("Print the boundaries you rejected, greyed");
                 let stale =
-                    self.preview.as_ref().is_none_or(|(po, rev, _)| *po != self.options || *rev != revision);
+                    self.preview.as_ref().is_none_or(|p| p.options != self.options || p.revision != revision);
                 if stale {
                     let meta = PrintMeta::default();
+                    let pages = pages(section, interp, &self.options, &meta);
+                    let first_page_index =
+                        pages.first().map(|p| ItemIndex::build(&p.items, p.height_mm)).unwrap_or_default();
                     self.preview =
-                        Some((self.options.clone(), revision, pages(section, interp, &self.options, &meta)));
+                        Some(Preview { options: self.options.clone(), revision, pages, first_page_index });
                 }
-                let Some((_, _, pages)) = self.preview.as_ref() else { return };
+                let Some(Preview { pages, first_page_index, .. }) = self.preview.as_mut() else { return };
                 ui.label(format!(
                     "{} page(s) at {} · preview of page 1",
                     pages.len(),
@@ -132,8 +145,7 @@ impl ExportDialog {
                         egui::StrokeKind::Outside,
                     );
                     let t = MmToScreen { origin: rect.min, zoom };
-                    let mut idx = ItemIndex::build(&page.items, page.height_mm);
-                    let which = idx.visible(0.0, page.height_mm);
+                    let which = first_page_index.visible(0.0, page.height_mm);
                     let mut shapes = Vec::new();
                     painter::shapes(&page.items, &which, &t, &mut shapes);
                     p.extend(shapes);
