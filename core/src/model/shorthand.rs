@@ -372,9 +372,9 @@ mod tests {
         assert_eq!(term_from_code::<Structure>("trough", "s"), Ok(Structure::TroughCrossBedding));
         assert_eq!(term_from_code::<Structure>("la", "s"), Ok(Structure::LateralAccretion));
         assert_eq!(term_from_code::<Structure>("mo", "s"), Ok(Structure::Mottling));
-        let e = term_from_code::<Structure>("m", "structure").unwrap_err();
+        let e = term_from_code::<Structure>("m", "structure").expect_err("m fits two structures");
         assert!(e.to_string().contains("massive") && e.to_string().contains("mottling"), "{e}");
-        let e = term_from_code::<Structure>("zz", "structure").unwrap_err();
+        let e = term_from_code::<Structure>("zz", "structure").expect_err("zz fits none");
         assert!(e.to_string().contains("not a known structure") && e.to_string().contains("tcb"), "{e}");
     }
 
