@@ -259,13 +259,13 @@ impl Row<'_> {
         let mut out: Vec<T> = Vec::new();
         for piece in cell.unwrap_or("").split(';').map(str::trim).filter(|s| !s.is_empty()) {
             match shorthand::terms_from_codes::<T>(piece, what) {
-                Ok(found) => out.extend(found.into_iter().filter(|t| !out.contains(t)).collect::<Vec<_>>()),
+                // Kept as written, repeats included, so a table reads back to the same beds.
+                Ok(found) => out.extend(found),
                 Err(_) => {
                     for code in piece.split(|c: char| c.is_whitespace() || c == ',').filter(|c| !c.is_empty())
                     {
                         match shorthand::term_from_code::<T>(code, what) {
-                            Ok(t) if !out.contains(&t) => out.push(t),
-                            Ok(_) => {}
+                            Ok(t) => out.push(t),
                             Err(e) => self.bad(column, e.to_string()),
                         }
                     }
