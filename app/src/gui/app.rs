@@ -14,6 +14,7 @@ use super::inspector::Inspector;
 use super::painter::ItemIndex;
 use super::recovery::{self, Autosaver, FoundBackup};
 use super::table::BedTable;
+use super::trace::{self as trace_view, TraceView};
 use super::views_common::Views;
 use super::{demo, plots, review, theme};
 use aggrade_core::model::{LengthUnit, Project, Section};
@@ -223,6 +224,9 @@ pub struct AggradeApp {
     inspector: Inspector,
     export: Option<ExportDialog>,
     curve_dialog: Option<CurveDialog>,
+    /// The trace window and what it was last checked against (project file, section, image).
+    trace: Option<TraceView>,
+    trace_checked: Option<(Option<PathBuf>, usize, Option<String>)>,
     import_dialog: Option<ImportDialog>,
     /// Aggrade's data folder (backups, the import mapping last used).
     data_dir: PathBuf,
@@ -298,6 +302,8 @@ impl AggradeApp {
             inspector: Inspector::default(),
             export: None,
             curve_dialog: None,
+            trace: None,
+            trace_checked: None,
             import_dialog: None,
             data_dir: config.data_dir.clone(),
             cache: None,
@@ -683,6 +689,65 @@ impl AggradeApp {
         }
     }
 
+    /// Ask for a sheet image and open the trace window on it (Section ▸ Trace from image…).
+    pub fn pick_trace_image(&mut self) {
+        if let Some(path) = self.chooser.pick(PickFor::TraceImage, FileKind::Image, "") {
+            self.open_trace_image(&path);
+        }
+    }
+
+    /// Put the image behind the selected section (keeping its calibration when it is the same
+    /// image) and open the trace window; an unreadable image gives the reader's message.
+    pub fn open_trace_image(&mut self, path: &Path) {
+        match TraceView::open(path) {
+            Ok(view) => {
+                let stored = match &self.doc.path {
+                    Some(project) => aggrade_core::trace::sheet::relative_image_path(project, path),
+                    None => path.to_string_lossy().replace('\\', "/"),
+                };
+                let old = self.doc.section().trace.clone();
+                let sheet = old
+                    .clone()
+                    .filter(|t| t.image == stored)
+                    .unwrap_or_else(|| aggrade_core::trace::TraceSheet::new(stored.clone()));
+                if old.as_ref() != Some(&sheet) {
+                    self.apply(Edit::SetTrace { trace: Some(sheet) });
+                }
+                self.trace_checked = Some((self.doc.path.clone(), self.doc.selected_section, Some(stored)));
+                self.trace = Some(view);
+                self.status = format!("Tracing {}: set the height scale, then trace", path.display());
+            }
+            Err(e) => self.message = Some(Notice::about_file("Could not open the sheet image", e, path)),
+        }
+    }
+
+    /// Bring the trace window back for a section saved with a sheet (after opening a project or
+    /// choosing another section); a missing image is reported and the calibration kept.
+    fn restore_trace(&mut self) {
+        let stored = self.doc.section().trace.as_ref().map(|t| t.image.clone());
+        let key = (self.doc.path.clone(), self.doc.selected_section, stored.clone());
+        if self.trace_checked.as_ref() == Some(&key) {
+            return;
+        }
+        self.trace_checked = Some(key);
+        let Some(stored) = stored else {
+            self.trace = None;
+            return;
+        };
+        let path = aggrade_core::trace::sheet::resolve_image_path(self.doc.path.as_deref(), &stored);
+        if self.trace.as_ref().is_some_and(|v| v.image_path == path) {
+            return;
+        }
+        match TraceView::open(&path) {
+            Ok(view) => self.trace = Some(view),
+            Err(e) => {
+                self.trace = None;
+                self.status = format!("Sheet image not shown: {e}");
+                self.message = Some(Notice::about_file("The traced sheet's image is not shown", e, &path));
+            }
+        }
+    }
+
     fn open_curve_dialog(&mut self, path: &Path) {
         match CurveDialog::open(path) {
             Ok(dlg) => self.curve_dialog = Some(dlg),
@@ -1042,6 +1107,14 @@ impl AggradeApp {
                     }
                     ui.separator();
                     if ui
+                        .button("Trace from image…")
+                        .on_hover_text("Put a photographed or scanned field sheet behind the section and trace it by clicking")
+                        .clicked()
+                    {
+                        ui.close();
+                        self.pick_trace_image();
+                    }
+                    if ui
                         .button("Attach measured curve (LAS)…")
                         .on_hover_text("Read a curve such as gamma ray from a LAS 2.0 file and draw it beside the column")
                         .clicked()
@@ -1224,6 +1297,18 @@ impl AggradeApp {
                         note.map(|n| format!("; {n}")).unwrap_or_default()
                     );
                     self.apply(Edit::AddSection { section });
+                }
+            }
+        }
+        self.restore_trace();
+        if let Some(view) = self.trace.as_mut() {
+            match view.ui(ctx, self.doc.section()) {
+                trace_view::Outcome::Open => {}
+                trace_view::Outcome::Closed => self.trace = None,
+                trace_view::Outcome::Apply(edit, gesture) => {
+                    if let Err(e) = self.doc.apply_in_gesture(*edit, gesture) {
+                        view.note = format!("Not changed: {e}");
+                    }
                 }
             }
         }
@@ -1442,6 +1527,9 @@ impl AggradeApp {
         }
         if let Some(p) = self.chooser.take(PickFor::AttachLas) {
             self.open_curve_dialog(&p);
+        }
+        if let Some(p) = self.chooser.take(PickFor::TraceImage) {
+            self.open_trace_image(&p);
         }
         if let Some(p) = self.chooser.take(PickFor::SaveProject) {
             if self.save_to(p) {

@@ -45,6 +45,10 @@ pub enum Edit {
     AttachCurve { curve: MeasuredCurve },
     /// Remove the selected section's curve with this mnemonic.
     RemoveCurve { mnemonic: String },
+    /// Put a traced sheet (image and calibration) behind the selected section, or take it off.
+    SetTrace { trace: Option<aggrade_core::trace::TraceSheet> },
+    /// A tracing click on a bed boundary: cut the bed at this height (metres), or add a bed on top.
+    TraceBoundary { height_m: f64 },
 }
 
 /// Why an edit was refused; shown to the user as is.
@@ -444,6 +448,20 @@ impl Work {
                 if self.section().remove_curve(&mnemonic).is_none() {
                     return Err(EditError(format!("the section has no curve {mnemonic:?}")));
                 }
+            }
+            Edit::SetTrace { trace } => {
+                if let Some((field, why)) = trace.as_ref().and_then(|t| t.problems().into_iter().next()) {
+                    return Err(EditError(format!("the sheet calibration is refused: trace.{field} {why}")));
+                }
+                self.section().trace = trace;
+            }
+            Edit::TraceBoundary { height_m } => {
+                let cut = aggrade_core::trace::cut_at(self.section(), height_m)
+                    .map_err(|e| EditError(e.to_string()))?;
+                self.selected_bed = Some(match cut {
+                    aggrade_core::trace::Cut::Split { upper, .. } => upper,
+                    aggrade_core::trace::Cut::OnTop { bed } => bed,
+                });
             }
         }
         Ok(())

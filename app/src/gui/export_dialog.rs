@@ -26,7 +26,10 @@ pub struct ExportDialog {
     preview: Option<(LayoutOptions, u64, Vec<Page>)>,
 }
 
-/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension.
+/// Resolution of File ▸ Export PNG (the command line takes any with `--dpi`).
+pub const PNG_DPI: f64 = 200.0;
+
+/// Write the section's pages to `path` as PDF (all pages), SVG or PNG (page 1), by extension.
 pub fn export_to(
     path: &Path,
     section: &Section,
@@ -37,8 +40,12 @@ pub fn export_to(
     let meta = PrintMeta { printed_on: aggrade_core::export::civil_date(now_secs), subtitle: String::new() };
     let pages = pages(section, interp, opts, &meta);
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
+    let is_png = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("png"));
     let bytes = if is_svg {
         pages.first().map(write_svg).ok_or("nothing to export: the section has no beds")?.into_bytes()
+    } else if is_png {
+        let page = pages.first().ok_or("nothing to export: the section has no beds")?;
+        aggrade_core::export::png::write_png(page, PNG_DPI).map_err(|e| e.to_string())?
     } else {
         let info = PdfInfo {
             title: section.name.clone(),
@@ -50,7 +57,7 @@ pub fn export_to(
     aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| e.to_string())?;
     Ok(format!(
         "Exported {} page(s) at {} to {}",
-        if is_svg { 1 } else { pages.len() },
+        if is_svg || is_png { 1 } else { pages.len() },
         opts.scale_label(),
         path.display()
     ))
@@ -146,6 +153,11 @@ impl ExportDialog {
                     for (label, kind, tip) in [
                         ("Export PDF…", SaveKind::Pdf, "Write every page as a PDF at the chosen scale"),
                         ("Export SVG…", SaveKind::Svg, "Write page 1 as an SVG drawing"),
+                        (
+                            "Export PNG…",
+                            SaveKind::Png,
+                            "Write page 1 as a PNG image at 200 dpi, true scale when printed at 200 dpi",
+                        ),
                     ] {
                         let clicked = ui.button(label).on_hover_text(tip).clicked();
                         let purpose = PickFor::ExportColumn(kind);

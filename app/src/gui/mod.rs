@@ -19,6 +19,7 @@ pub mod recovery;
 pub mod review;
 pub mod table;
 pub mod theme;
+pub mod trace;
 pub mod views_bodies;
 pub mod views_common;
 pub mod views_panel;

@@ -43,8 +43,8 @@ pub fn bed_at(section: &Section, height_m: f64) -> Option<BedId> {
 
 /// Put a bed boundary at `height_m` (metres above the section base). Inside a bed, the bed is cut
 /// in two: the lower part keeps the bed's id, base and everything else; the upper part is a copy
-/// with a sharp base and no surface of its own. Above the top, a new bed fills the gap, described
-/// like the bed below it (or as sandstone on an empty section) until the geologist says more.
+/// with a sharp base and no surface of its own. Above the top, a new bed fills the gap as a
+/// covered interval (not yet described) until the geologist types its lithology.
 pub fn cut_at(section: &mut Section, height_m: f64) -> Result<Cut, CutError> {
     if !height_m.is_finite() {
         return Err(CutError::NotFinite);
@@ -75,14 +75,7 @@ pub fn cut_at(section: &mut Section, height_m: f64) -> Result<Cut, CutError> {
         base = top;
     }
     let id = section.next_bed_id();
-    let bed = match section.beds.last() {
-        Some(below) => {
-            let mut b = Bed::new(id, height_m - base, below.lithology, below.grain_top.or(below.grain_base));
-            b.grain_top = b.grain_base;
-            b
-        }
-        None => Bed::new(id, height_m - base, crate::model::Lithology::Sandstone, None),
-    };
+    let bed = Bed::new(id, height_m - base, crate::model::Lithology::Covered, None);
     section.beds.push(bed);
     Ok(Cut::OnTop { bed: id })
 }

@@ -101,8 +101,9 @@ fn solve<const N: usize>(mut a: [[f64; N]; N], mut b: [f64; N]) -> Option<[f64; 
         b.swap(col, pivot);
         for row in col + 1..N {
             let f = a[row][col] / a[col][col];
-            for k in col..N {
-                a[row][k] -= f * a[col][k];
+            let pivot_row = a[col];
+            for (v, p) in a[row].iter_mut().zip(pivot_row.iter()).skip(col) {
+                *v -= f * p;
             }
             b[row] -= f * b[col];
         }
