@@ -53,7 +53,17 @@ pub fn snap_to_line(image: &SheetImage, sheet: &TraceSheet, click: Pt, params: S
     let mut sorted = profile.clone();
     sorted.sort_by(f64::total_cmp);
     let median = sorted[sorted.len() / 2];
-    let Some((imin, &vmin)) = profile.iter().enumerate().min_by(|a, b| a.1.total_cmp(b.1)) else {
+    // The darkest line, nearer lines preferred: darkness counts half at the edge of reach, so a
+    // line under the click wins over a slightly darker one a bed away.
+    let score = |i: usize, v: f64| {
+        (median - v) * (1.0 - 0.5 * (i as f64 - reach as f64).abs() / (reach as f64).max(1.0))
+    };
+    let Some((imin, vmin)) = profile
+        .iter()
+        .enumerate()
+        .map(|(i, v)| (i, *v))
+        .max_by(|a, b| score(a.0, a.1).total_cmp(&score(b.0, b.1)))
+    else {
         return click;
     };
     if median - vmin < params.min_contrast {
