@@ -162,6 +162,29 @@ fn boundary_x_mm(sheet: &Sheet, i: usize) -> f64 {
     b.rect.x + w / 2.0
 }
 
+/// For the README's picture (only when `AGGRADE_TRACE_DEMO_DIR` is set): the photo as a PGM
+/// (converted to PNG outside) and a project with the lower half of the sheet traced.
+fn write_demo(sheet: &Sheet, traced: &Section, dir: &std::path::Path) {
+    let mut pgm = format!("P5\n{} {}\n255\n", sheet.photo.width, sheet.photo.height).into_bytes();
+    pgm.extend(sheet.photo.rgba.chunks_exact(4).map(|p| p[0]));
+    std::fs::write(dir.join("sheet-photo.pgm"), pgm).expect("photo written");
+    let mut section = traced.clone();
+    section.name = "Traced demo sheet".into();
+    section.beds.truncate(12);
+    for (bed, printed) in section.beds.iter_mut().zip(&sheet.section.beds) {
+        (bed.lithology, bed.grain_base, bed.grain_top) =
+            (printed.lithology, printed.grain_base, printed.grain_top);
+    }
+    let mut cal = sheet.calibration.clone();
+    cal.image = "sheet-photo.png".into();
+    section.trace = Some(cal);
+    aggrade_core::io::save_project(
+        &dir.join("traced-sheet.aggrade"),
+        &aggrade_core::model::Project::new(vec![section]),
+    )
+    .expect("project written");
+}
+
 #[test]
 fn a_warped_photo_of_a_printed_sheet_traces_back_to_its_section() {
     let sheet = sheet();
@@ -197,6 +220,26 @@ fn a_warped_photo_of_a_printed_sheet_traces_back_to_its_section() {
         below = (*h, *got, *m_px);
     }
     eprintln!("traced 30 beds; worst thickness error {worst_px:.2} photo pixels");
+    // Actions for BENCHMARKS.md: typing each bed into the table's entry row (thickness as
+    // written, Tab, two letters of the lithology, Tab, the grain label, Enter) against tracing
+    // (a boundary click, a Shift+click for the grain size, two letters of the lithology).
+    let typed: usize = sheet
+        .section
+        .beds
+        .iter()
+        .map(|b| {
+            format!("{}", b.thickness_m).len()
+                + 1
+                + 2
+                + 1
+                + b.grain_base.map(|g| g.class().short_label().len()).unwrap_or(0)
+                + 1
+        })
+        .sum();
+    eprintln!("30 beds: {typed} keystrokes typed in the table, {} actions traced after calibration", 30 * 4);
+    if let Some(dir) = std::env::var_os("AGGRADE_TRACE_DEMO_DIR") {
+        write_demo(&sheet, &traced, std::path::Path::new(&dir));
+    }
     // Grain sizes: one Shift+click at each bed's right edge, half-way up the bed.
     for b in &seg.bed_boxes {
         let click = click_on(&sheet, b.rect.x + b.rect.w, b.rect.y + b.rect.h / 2.0, 0.0);
