@@ -84,10 +84,9 @@ fn four_corner_homographies_agree_with_numpy_svd_dlt() {
         let got = Homography::from_four(*src, *dst).expect("proper quadrilateral");
         // Same matrix (both scaled to h33 = 1), entry by entry relative to the matrix's size.
         let size = want.iter().flatten().fold(0.0_f64, |m, v| m.max(v.abs()));
-        for i in 0..3 {
-            for j in 0..3 {
-                let d = (got.h[i][j] - want[i][j]).abs();
-                assert!(d <= 1e-8 * size, "h[{i}][{j}]: {} vs numpy {} ({:?})", got.h[i][j], want[i][j], src);
+        for (i, (got_row, want_row)) in got.h.iter().zip(want.iter()).enumerate() {
+            for (j, (g, w)) in got_row.iter().zip(want_row.iter()).enumerate() {
+                assert!((g - w).abs() <= 1e-8 * size, "h[{i}][{j}]: {g} vs numpy {w} ({src:?})");
             }
         }
         // And the same images of an interior point.
