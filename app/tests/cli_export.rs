@@ -139,14 +139,17 @@ fn png_is_written_at_the_asked_dpi_and_a_bad_dpi_is_refused() {
     let dir = tempfile::tempdir().expect("temp dir");
     let out = dir.path().join("column.png");
     let fixture = fixture();
-    let o = aggrade(&[
-        "export",
-        fixture.to_str().expect("utf-8"),
-        "--png",
-        out.to_str().expect("utf-8"),
-        "--dpi",
-        "150",
-    ]);
+    let export_png = |dpi: &str| {
+        aggrade(&[
+            "export",
+            fixture.to_str().expect("utf-8"),
+            "--png",
+            out.to_str().expect("utf-8"),
+            "--dpi",
+            dpi,
+        ])
+    };
+    let o = export_png("150");
     assert!(o.status.success(), "{}", stderr(&o));
     let bytes = std::fs::read(&out).expect("written");
     assert_eq!(&bytes[..8], b"\x89PNG\r\n\x1a\n", "a PNG signature");
@@ -154,14 +157,7 @@ fn png_is_written_at_the_asked_dpi_and_a_bad_dpi_is_refused() {
     let at = bytes.windows(4).position(|w| w == b"pHYs").expect("a pHYs chunk");
     let ppm = u32::from_be_bytes([bytes[at + 4], bytes[at + 5], bytes[at + 6], bytes[at + 7]]);
     assert_eq!((ppm, bytes[at + 12]), (5906, 1));
-    let o = aggrade(&[
-        "export",
-        fixture.to_str().expect("utf-8"),
-        "--png",
-        out.to_str().expect("utf-8"),
-        "--dpi",
-        "5",
-    ]);
+    let o = export_png("5");
     assert!(!o.status.success());
     assert!(stderr(&o).contains("--dpi 5 is outside 10 … 1200"), "{}", stderr(&o));
 }

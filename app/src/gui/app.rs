@@ -1114,6 +1114,17 @@ impl AggradeApp {
                         ui.close();
                         self.pick_trace_image();
                     }
+                    if self.doc.section().trace.is_some()
+                        && self.trace.is_none()
+                        && ui
+                            .button("Show the traced sheet")
+                            .on_hover_text("Open the trace window again on this section's sheet")
+                            .clicked()
+                    {
+                        // Checked again next frame: the window opens, or the missing image is reported.
+                        self.trace_checked = None;
+                        ui.close();
+                    }
                     if ui
                         .button("Attach measured curve (LAS)…")
                         .on_hover_text("Read a curve such as gamma ray from a LAS 2.0 file and draw it beside the column")

@@ -253,19 +253,16 @@ mod tests {
 
     #[test]
     fn text_puts_ink_where_the_layout_measures_it() {
-        let page = Page {
-            width_mm: 60.0,
-            height_mm: 20.0,
-            items: vec![Item::Text {
-                pos: PtMm { x: 5.0, y: 12.0 },
-                text: "Sandstone".into(),
-                size_pt: 12.0,
-                color: Rgba::BLACK,
-                anchor: Anchor::Start,
-                rotation_deg: 0.0,
-            }],
-            segments: Vec::new(),
+        let label = Item::Text {
+            pos: PtMm { x: 5.0, y: 12.0 },
+            text: "Sandstone".into(),
+            size_pt: 12.0,
+            color: Rgba::BLACK,
+            anchor: Anchor::Start,
+            rotation_deg: 0.0,
         };
+        let width_px = label.bounds().w * 10.0;
+        let page = Page { width_mm: 60.0, height_mm: 20.0, items: vec![label], segments: Vec::new() };
         let pm = rasterise(&page, 254.0).expect("rasterises");
         let (mut x0, mut x1, mut y0, mut y1) = (u32::MAX, 0, u32::MAX, 0);
         for y in 0..pm.height() {
@@ -275,16 +272,6 @@ mod tests {
                 }
             }
         }
-        let width_px = Item::Text {
-            pos: PtMm { x: 0.0, y: 0.0 },
-            text: "Sandstone".into(),
-            size_pt: 12.0,
-            color: Rgba::BLACK,
-            anchor: Anchor::Start,
-            rotation_deg: 0.0,
-        }
-        .bounds()
-        .w * 10.0;
         // Ink starts near the pen position (a glyph's left side bearing is a fraction of a mm),
         // spans about the measured advance width, and sits on the baseline (12 mm = 120 px).
         assert!((50..=60).contains(&x0), "x0 {x0}");
