@@ -5,7 +5,7 @@
 use aggrade_core::model::{
     Bed, BedId, GrainSize, LengthUnit, MeasuredCurve, Project, ReviewDecision, ReviewState, Section,
 };
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 use std::sync::Arc;
 
 /// How many undo steps are kept (older ones are dropped first).
@@ -169,7 +169,7 @@ impl Document {
             self.undo.push(before);
             if self.undo.len() > UNDO_LIMIT {
                 // The oldest snapshot (a whole project) is freed off the frame.
-                super::app::drop_elsewhere(self.undo.remove(0));
+                drop_elsewhere(self.undo.remove(0));
             }
         }
         self.selected_section = work.selected_section;
@@ -213,6 +213,44 @@ impl Document {
     }
 
     /// The project was written to `path`: clean from now on.
+    /// Store every traced sheet's image path as read from `project_file` (relative to its
+    /// folder), in the project and in the undo and redo steps: a sheet chosen before the first
+    /// save (stored absolute) or a project saved elsewhere keeps naming the same image. Returns
+    /// whether the project changed.
+    pub fn rebase_trace_images(&mut self, project_file: &Path) -> bool {
+        let old = self.path.clone();
+        let rebase = |project: &mut Arc<Project>| {
+            let moved = |image: &str| {
+                let new = aggrade_core::trace::sheet::rebase_image_path(old.as_deref(), project_file, image);
+                (new != image).then_some(new)
+            };
+            let changes: Vec<(usize, String)> = project
+                .sections
+                .iter()
+                .enumerate()
+                .filter_map(|(i, s)| moved(&s.trace.as_ref()?.image).map(|new| (i, new)))
+                .collect();
+            if changes.is_empty() {
+                return false;
+            }
+            let project = Arc::make_mut(project);
+            for (i, new) in changes {
+                if let Some(t) = project.sections[i].trace.as_mut() {
+                    t.image = new;
+                }
+            }
+            true
+        };
+        let changed = rebase(&mut self.project);
+        for step in self.undo.iter_mut().chain(self.redo.iter_mut()) {
+            rebase(&mut step.project);
+        }
+        if changed {
+            self.revision += 1;
+        }
+        changed
+    }
+
     pub fn mark_saved(&mut self, path: PathBuf) {
         self.path = Some(path);
         self.dirty = false;
@@ -466,6 +504,11 @@ impl Work {
         }
         Ok(())
     }
+}
+
+/// Drop a large value on a short-lived thread (or here, if no thread can be had).
+pub(crate) fn drop_elsewhere<T: Send + 'static>(value: T) {
+    let _ = std::thread::Builder::new().name("aggrade-drop".into()).spawn(move || drop(value));
 }
 
 #[cfg(test)]

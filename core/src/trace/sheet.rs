@@ -284,9 +284,36 @@ pub fn resolve_image_path(project_file: Option<&Path>, stored: &str) -> PathBuf 
     }
 }
 
+/// The stored image path for a project written to `new_project_file`: the image `stored` names
+/// (absolute, as chosen before a first save, or relative to `old_project_file`'s folder) told
+/// again relative to the new file's folder. A relative path with no project file to read it
+/// from is kept as it is.
+pub fn rebase_image_path(old_project_file: Option<&Path>, new_project_file: &Path, stored: &str) -> String {
+    let image = resolve_image_path(old_project_file, stored);
+    if !image.is_absolute() {
+        return stored.to_string();
+    }
+    relative_image_path(new_project_file, &image)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_stored_path_is_told_again_from_where_the_project_is_written() {
+        // Chosen before the first save: absolute, made relative to the new file's folder.
+        let new = Path::new("/field/2026/log.aggrade");
+        assert_eq!(rebase_image_path(None, new, "/field/2026/scans/s.png"), "scans/s.png");
+        // Saved elsewhere: relative to the old folder, then to the new one.
+        let old = Path::new("/field/2026/log.aggrade");
+        let moved = Path::new("/field/copies/log.aggrade");
+        assert_eq!(rebase_image_path(Some(old), moved, "scans/s.png"), "../2026/scans/s.png");
+        // Saved in the same place: unchanged.
+        assert_eq!(rebase_image_path(Some(old), old, "scans/s.png"), "scans/s.png");
+        // Relative with nothing to read it from: kept.
+        assert_eq!(rebase_image_path(None, new, "s.png"), "s.png");
+    }
 
     fn scan() -> TraceSheet {
         let mut s = TraceSheet::new("sheet.png");

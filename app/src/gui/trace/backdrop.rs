@@ -51,13 +51,13 @@ impl Placement {
     }
 
     /// Screen point of an image pixel position.
-    pub fn to_screen(&self, p: Pt) -> Pos2 {
+    pub fn to_screen(self, p: Pt) -> Pos2 {
         let v = Vec2::new(p.x as f32, p.y as f32) - self.image_size / 2.0;
         self.center + self.turn(v * self.zoom, 1.0)
     }
 
     /// Image pixel position under a screen point.
-    pub fn to_image(&self, s: Pos2) -> Pt {
+    pub fn to_image(self, s: Pos2) -> Pt {
         let v = self.turn(s - self.center, -1.0) / self.zoom + self.image_size / 2.0;
         Pt::new(f64::from(v.x), f64::from(v.y))
     }

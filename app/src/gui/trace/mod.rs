@@ -7,7 +7,7 @@ pub mod backdrop;
 use super::document::Edit;
 use super::table::parse_length;
 use aggrade_core::model::{Bed, GrainSize, Lithology, Section, WentworthClass};
-use aggrade_core::trace::image::SheetImage;
+use aggrade_core::trace::image::{SheetImage, SheetImageError};
 use aggrade_core::trace::snap::{snap_to_line, SnapParams};
 use aggrade_core::trace::{bed_at, GrainScale, HeightScale, Pt, TraceSheet};
 use backdrop::{display_pixels, Placement};
@@ -112,8 +112,8 @@ pub fn grain_click(bed: &Bed, frac_from_base: f64, class: WentworthClass) -> Edi
 
 impl TraceView {
     /// Read the image; a missing or unreadable image gives the reader's message.
-    pub fn open(path: &Path) -> Result<TraceView, String> {
-        let image = SheetImage::open(path).map_err(|e| e.to_string())?;
+    pub fn open(path: &Path) -> Result<TraceView, SheetImageError> {
+        let image = SheetImage::open(path)?;
         Ok(TraceView {
             image_path: path.to_path_buf(),
             image,
@@ -129,11 +129,6 @@ impl TraceView {
             typed: String::new(),
             note: String::new(),
         })
-    }
-
-    /// The decoded image (full resolution).
-    pub fn image(&self) -> &SheetImage {
-        &self.image
     }
 
     /// A click at image position `p` in the current mode: the edit it makes, if any.

@@ -2,12 +2,14 @@
 //! a time, written by the autosave and read back by the recovery offer, saved and reopened with
 //! the sheet's calibration and its image path relative to the project file.
 
-use aggrade::gui::document::{Document, Edit};
-use aggrade::gui::trace::{grain_click, with_lithology};
-use aggrade::gui::{files, recovery};
+use super::harness::app_with;
+use aggrade::gui::test_hooks::trace::{grain_click, with_lithology};
+use aggrade::gui::test_hooks::{files, recovery};
+use aggrade::gui::{Document, Edit};
 use aggrade_core::model::{GrainSize, Lithology, Project, Section, WentworthClass};
 use aggrade_core::trace::sheet::{relative_image_path, resolve_image_path};
 use aggrade_core::trace::{GrainScale, HeightScale, Pt, TraceSheet};
+use std::path::Path;
 
 fn calibrated(image: &str) -> TraceSheet {
     let mut sheet = TraceSheet::new(image);
@@ -105,4 +107,51 @@ fn a_calibration_that_does_not_read_is_refused_with_its_field() {
     let e = doc.apply(Edit::SetTrace { trace: Some(bad) }).expect_err("refused");
     assert!(e.to_string().contains("trace.view.opacity"), "{e}");
     assert!(doc.section().trace.is_none());
+}
+
+#[test]
+fn a_sheet_chosen_before_the_first_save_is_stored_relative_once_saved() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let field = dir.path().join("field");
+    let image = field.join("scans").join("sheet.png");
+    std::fs::create_dir_all(image.parent().expect("folder")).expect("dir");
+    // Any PNG serves as the sheet: the screenshot in the docs folder.
+    let png = Path::new(env!("CARGO_MANIFEST_DIR")).join("../docs/trace-window.png");
+    std::fs::copy(&png, &image).expect("sheet image copied");
+    let first = field.join("log.aggrade");
+    let copies = dir.path().join("copies").join("log.aggrade");
+    std::fs::create_dir_all(copies.parent().expect("folder")).expect("dir");
+    let data = dir.path().join("data");
+    let mut app = app_with(None, &data, vec![Some(first.clone()), Some(copies.clone())]);
+    assert!(app.doc.path.is_none());
+
+    app.open_trace_image(&image);
+    assert!(app.trace_window_open(), "{:?}", app.message);
+    let stored =
+        |app: &aggrade::gui::AggradeApp| app.doc.section().trace.as_ref().expect("sheet").image.clone();
+    assert_eq!(stored(&app), image.to_string_lossy().replace('\\', "/"), "absolute before a save");
+
+    // The first save writes the path relative to the project file, and the window keeps it so.
+    assert!(app.save(false), "{:?}", app.message);
+    assert_eq!(stored(&app), "scans/sheet.png");
+    let (back, _) = files::open(&first).expect("reopens");
+    let sheet = back.sections[0].trace.as_ref().expect("sheet saved");
+    assert_eq!(sheet.image, "scans/sheet.png");
+    assert_eq!(resolve_image_path(Some(&first), &sheet.image), image);
+
+    // Saved as elsewhere: told again from the new folder, still the same image.
+    assert!(app.save(true), "{:?}", app.message);
+    let (back, _) = files::open(&copies).expect("reopens");
+    let sheet = back.sections[0].trace.as_ref().expect("sheet saved");
+    assert_eq!(sheet.image, "../field/scans/sheet.png");
+    assert_eq!(
+        std::fs::read(resolve_image_path(Some(&copies), &sheet.image)).ok(),
+        std::fs::read(&image).ok()
+    );
+
+    // Undo and redo bring back the sheet with the path of the file now open, not the first one.
+    assert!(app.doc.undo());
+    assert!(app.doc.section().trace.is_none());
+    assert!(app.doc.redo());
+    assert_eq!(stored(&app), "../field/scans/sheet.png");
 }
