@@ -7,6 +7,7 @@ pub mod io;
 pub mod layout;
 pub mod model;
 pub mod rules;
+pub mod trace;
 
 /// Shown on every interpretation, report and printout.
 pub const REVIEW_CAUTION: &str = "Interpretations are candidates for expert review, not conclusions: \

@@ -1,6 +1,6 @@
-//! `aggrade export`: the interpreted column to PDF or SVG at a true scale.
+//! `aggrade export`: the interpreted column to PDF, SVG or PNG at a true scale.
 
-use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
+use aggrade_core::export::{png::write_png, write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::rules::{interpret, RuleParams};
 use anyhow::{bail, Context};
@@ -15,11 +15,17 @@ pub struct ExportArgs {
     #[arg(long)]
     pub section: Option<String>,
     /// Write a PDF here.
-    #[arg(long, value_name = "OUT.pdf", required_unless_present = "svg")]
+    #[arg(long, value_name = "OUT.pdf", required_unless_present_any = ["svg", "png"])]
     pub pdf: Option<PathBuf>,
     /// Write SVG here (one file per page: OUT.svg, or OUT-1.svg, OUT-2.svg … for several pages).
     #[arg(long, value_name = "OUT.svg")]
     pub svg: Option<PathBuf>,
+    /// Write PNG here, true scale at --dpi (one file per page like --svg).
+    #[arg(long, value_name = "OUT.png")]
+    pub png: Option<PathBuf>,
+    /// Resolution of the PNG, dots per inch (10 … 1200).
+    #[arg(long, default_value = "200", value_name = "DPI")]
+    pub dpi: f64,
     /// Vertical scale 1:N, e.g. 10, 20, 50, 100, 200, 500 or any N > 0.
     #[arg(long, default_value = "100", value_name = "N")]
     pub scale: String,
@@ -65,8 +71,8 @@ fn creation_time() -> anyhow::Result<i64> {
 
 /// Run `aggrade export`.
 pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
-    if args.pdf.is_none() && args.svg.is_none() {
-        bail!("nothing to write: give --pdf OUT.pdf and/or --svg OUT.svg");
+    if args.pdf.is_none() && args.svg.is_none() && args.png.is_none() {
+        bail!("nothing to write: give --pdf OUT.pdf, --svg OUT.svg and/or --png OUT.png");
     }
     let scale = parse_scale(&args.scale)?;
     let project = super::load_input(&args.file)?;
@@ -107,7 +113,8 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
             opts.scale_label()
         );
     }
-    if let Some(out) = &args.svg {
+    for (out, ext) in [(&args.svg, "svg"), (&args.png, "png")] {
+        let Some(out) = out else { continue };
         let opts = LayoutOptions {
             scale_denominator: scale,
             paper: paper_for(Paper::TallSingle)?,
@@ -121,11 +128,11 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
         } else {
             let stem =
                 out.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "page".into());
-            (1..=p.len()).map(|k| out.with_file_name(format!("{stem}-{k}.svg"))).collect()
+            (1..=p.len()).map(|k| out.with_file_name(format!("{stem}-{k}.{ext}"))).collect()
         };
         for (page, path) in p.iter().zip(&paths) {
-            std::fs::write(path, write_svg(page))
-                .with_context(|| format!("cannot write {}", path.display()))?;
+            let bytes = if ext == "png" { write_png(page, args.dpi)? } else { write_svg(page).into_bytes() };
+            std::fs::write(path, bytes).with_context(|| format!("cannot write {}", path.display()))?;
             eprintln!("wrote {}", path.display());
         }
     }

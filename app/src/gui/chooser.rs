@@ -14,6 +14,8 @@ pub enum SaveKind {
     Svg,
     /// A table of numbers (CSV).
     Csv,
+    /// A raster image of the column (PNG).
+    Png,
 }
 
 impl SaveKind {
@@ -23,6 +25,7 @@ impl SaveKind {
             SaveKind::Project => ("Aggrade project", "aggrade"),
             SaveKind::Pdf => ("PDF", "pdf"),
             SaveKind::Svg => ("SVG", "svg"),
+            SaveKind::Png => ("PNG image", "png"),
             SaveKind::Csv => ("CSV table", "csv"),
         }
     }
@@ -39,6 +42,8 @@ pub enum FileKind {
     Las,
     /// A spreadsheet or text table to import (CSV, TSV, TXT, XLSX, ODS).
     Table,
+    /// A photographed or scanned field sheet to trace (PNG, JPEG).
+    Image,
     /// Where to write.
     Save(SaveKind),
 }
@@ -50,10 +55,12 @@ impl FileKind {
             FileKind::Csv => &["csv"],
             FileKind::Las => &["las"],
             FileKind::Table => &["csv", "tsv", "txt", "xlsx", "xlsm", "ods"],
+            FileKind::Image => &["png", "jpg", "jpeg"],
             FileKind::Save(k) => match k {
                 SaveKind::Project => &["aggrade"],
                 SaveKind::Pdf => &["pdf"],
                 SaveKind::Svg => &["svg"],
+                SaveKind::Png => &["png"],
                 SaveKind::Csv => &["csv"],
             },
         }
@@ -65,9 +72,11 @@ impl FileKind {
             FileKind::Csv => "Import a bed table (CSV)",
             FileKind::Las => "Attach a measured curve (LAS)",
             FileKind::Table => "Import a table (CSV, TSV, TXT, XLSX, ODS)",
+            FileKind::Image => "Trace a field sheet (PNG, JPEG)",
             FileKind::Save(SaveKind::Project) => "Save the project",
             FileKind::Save(SaveKind::Pdf) => "Export as PDF",
             FileKind::Save(SaveKind::Svg) => "Export as SVG",
+            FileKind::Save(SaveKind::Png) => "Export as PNG",
             FileKind::Save(SaveKind::Csv) => "Write a CSV table",
         }
     }
@@ -111,6 +120,10 @@ impl FileDialogs for SystemDialogs {
             FileKind::Csv => rfd::FileDialog::new().add_filter("Bed table (CSV)", &["csv"]).pick_file(),
             FileKind::Table => rfd::FileDialog::new()
                 .add_filter("Table (CSV, TSV, TXT, XLSX, ODS)", FileKind::Table.extensions())
+                .add_filter("All files", &["*"])
+                .pick_file(),
+            FileKind::Image => rfd::FileDialog::new()
+                .add_filter("Sheet image (PNG, JPEG)", &["png", "PNG", "jpg", "JPG", "jpeg", "JPEG"])
                 .add_filter("All files", &["*"])
                 .pick_file(),
             FileKind::Las => rfd::FileDialog::new()
@@ -204,6 +217,7 @@ pub enum PickFor {
     ImportCsv,
     ImportTable,
     AttachLas,
+    TraceImage,
     SaveProject,
     ExportColumn(SaveKind),
     /// A view's own export, named by the view ("panel-pdf", "bodies-csv" …).

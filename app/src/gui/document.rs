@@ -5,7 +5,7 @@
 use aggrade_core::model::{
     Bed, BedId, GrainSize, LengthUnit, MeasuredCurve, Project, ReviewDecision, ReviewState, Section,
 };
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 use std::sync::Arc;
 
 /// How many undo steps are kept (older ones are dropped first).
@@ -45,6 +45,10 @@ pub enum Edit {
     AttachCurve { curve: MeasuredCurve },
     /// Remove the selected section's curve with this mnemonic.
     RemoveCurve { mnemonic: String },
+    /// Put a traced sheet (image and calibration) behind the selected section, or take it off.
+    SetTrace { trace: Option<aggrade_core::trace::TraceSheet> },
+    /// A tracing click on a bed boundary: cut the bed at this height (metres), or add a bed on top.
+    TraceBoundary { height_m: f64 },
 }
 
 /// Why an edit was refused; shown to the user as is.
@@ -209,6 +213,44 @@ impl Document {
     }
 
     /// The project was written to `path`: clean from now on.
+    /// Store every traced sheet's image path as read from `project_file` (relative to its
+    /// folder), in the project and in the undo and redo steps: a sheet chosen before the first
+    /// save (stored absolute) or a project saved elsewhere keeps naming the same image. Returns
+    /// whether the project changed.
+    pub fn rebase_trace_images(&mut self, project_file: &Path) -> bool {
+        let old = self.path.clone();
+        let rebase = |project: &mut Arc<Project>| {
+            let moved = |image: &str| {
+                let new = aggrade_core::trace::sheet::rebase_image_path(old.as_deref(), project_file, image);
+                (new != image).then_some(new)
+            };
+            let changes: Vec<(usize, String)> = project
+                .sections
+                .iter()
+                .enumerate()
+                .filter_map(|(i, s)| moved(&s.trace.as_ref()?.image).map(|new| (i, new)))
+                .collect();
+            if changes.is_empty() {
+                return false;
+            }
+            let project = Arc::make_mut(project);
+            for (i, new) in changes {
+                if let Some(t) = project.sections[i].trace.as_mut() {
+                    t.image = new;
+                }
+            }
+            true
+        };
+        let changed = rebase(&mut self.project);
+        for step in self.undo.iter_mut().chain(self.redo.iter_mut()) {
+            rebase(&mut step.project);
+        }
+        if changed {
+            self.revision += 1;
+        }
+        changed
+    }
+
     pub fn mark_saved(&mut self, path: PathBuf) {
         self.path = Some(path);
         self.dirty = false;
@@ -444,6 +486,20 @@ impl Work {
                 if self.section().remove_curve(&mnemonic).is_none() {
                     return Err(EditError(format!("the section has no curve {mnemonic:?}")));
                 }
+            }
+            Edit::SetTrace { trace } => {
+                if let Some((field, why)) = trace.as_ref().and_then(|t| t.problems().into_iter().next()) {
+                    return Err(EditError(format!("the sheet calibration is refused: trace.{field} {why}")));
+                }
+                self.section().trace = trace;
+            }
+            Edit::TraceBoundary { height_m } => {
+                let cut = aggrade_core::trace::cut_at(self.section(), height_m)
+                    .map_err(|e| EditError(e.to_string()))?;
+                self.selected_bed = Some(match cut {
+                    aggrade_core::trace::Cut::Split { upper, .. } => upper,
+                    aggrade_core::trace::Cut::OnTop { bed } => bed,
+                });
             }
         }
         Ok(())

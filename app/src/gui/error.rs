@@ -11,9 +11,12 @@ use std::path::PathBuf;
 /// A file the window writes (a column or panel export, a CSV table) was not written.
 #[derive(Debug, thiserror::Error)]
 pub enum WriteError {
-    /// An SVG of page 1 was asked for, and there is no page.
+    /// An SVG or PNG of page 1 was asked for, and there is no page.
     #[error("nothing to export: the section has no beds")]
     NothingToExport,
+    /// The PNG could not be drawn or encoded (resolution, size or encoder).
+    #[error(transparent)]
+    Png(#[from] aggrade_core::export::png::PngError),
     /// The table could not be put into CSV.
     #[error(transparent)]
     Csv(#[from] CsvWriteError),

@@ -27,6 +27,9 @@ pub struct ExportDialog {
     preview: Option<Preview>,
 }
 
+/// Resolution of File ▸ Export PNG (the command line takes any with `--dpi`).
+pub const PNG_DPI: f64 = 200.0;
+
 /// The pages laid out for the preview, with what they were laid out from and page 1's item
 /// index (built once per layout, not per frame).
 #[derive(Debug)]
@@ -37,8 +40,8 @@ struct Preview {
     first_page_index: ItemIndex,
 }
 
-/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension; says
-/// what was written.
+/// Write the section's pages to `path` as PDF (all pages), SVG or PNG (page 1), by extension;
+/// says what was written.
 pub fn export_to(
     path: &Path,
     section: &Section,
@@ -49,8 +52,12 @@ pub fn export_to(
     let meta = PrintMeta { printed_on: aggrade_core::export::civil_date(now_secs), subtitle: String::new() };
     let pages = pages(section, interp, opts, &meta);
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
+    let is_png = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("png"));
     let bytes = if is_svg {
         pages.first().map(write_svg).ok_or(WriteError::NothingToExport)?.into_bytes()
+    } else if is_png {
+        let page = pages.first().ok_or(WriteError::NothingToExport)?;
+        aggrade_core::export::png::write_png(page, PNG_DPI)?
     } else {
         let info = PdfInfo {
             title: section.name.clone(),
@@ -61,7 +68,7 @@ pub fn export_to(
     };
     aggrade_core::io::write_bytes_atomic(path, &bytes)?;
     Ok(Written::Column {
-        pages: if is_svg { 1 } else { pages.len() },
+        pages: if is_svg || is_png { 1 } else { pages.len() },
         scale: opts.scale_label(),
         path: path.to_path_buf(),
     })
@@ -159,6 +166,11 @@ impl ExportDialog {
                     for (label, kind, tip) in [
                         ("Export PDF…", SaveKind::Pdf, "Write every page as a PDF at the chosen scale"),
                         ("Export SVG…", SaveKind::Svg, "Write page 1 as an SVG drawing"),
+                        (
+                            "Export PNG…",
+                            SaveKind::Png,
+                            "Write page 1 as a PNG image at 200 dpi, true scale when printed at 200 dpi",
+                        ),
                     ] {
                         let clicked = ui.button(label).on_hover_text(tip).clicked();
                         let purpose = PickFor::ExportColumn(kind);

@@ -29,6 +29,7 @@ mod recovery;
 mod review;
 mod table;
 mod theme;
+mod trace;
 mod views;
 
 use anyhow::Context as _;
@@ -56,6 +57,10 @@ pub mod test_hooks {
     /// The window's backups.
     pub mod recovery {
         pub use crate::gui::recovery::{data_dir, find_recovery, read_all_backups, Autosaver, DATA_DIR_ENV};
+    }
+    /// What a tracing click or letter turns into, checked without a window.
+    pub mod trace {
+        pub use crate::gui::trace::{grain_click, with_lithology};
     }
     pub use crate::gui::canvas::new_bed;
     pub use crate::gui::field::INVALID;

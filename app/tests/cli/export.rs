@@ -130,3 +130,31 @@ fn bad_input_gets_a_clear_message() {
         assert!(!e.contains("panicked"), "{e}");
     }
 }
+
+#[test]
+fn png_is_written_at_the_asked_dpi_and_a_bad_dpi_is_refused() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().join("column.png");
+    let fixture = fixture();
+    let export_png = |dpi: &str| {
+        aggrade(&[
+            "export",
+            fixture.to_str().expect("utf-8"),
+            "--png",
+            out.to_str().expect("utf-8"),
+            "--dpi",
+            dpi,
+        ])
+    };
+    let o = export_png("150");
+    assert!(o.status.success(), "{}", stderr(&o));
+    let bytes = std::fs::read(&out).expect("written");
+    assert_eq!(&bytes[..8], b"\x89PNG\r\n\x1a\n", "a PNG signature");
+    // pHYs: 150 dpi = 5905.5 px/m, stored rounded to 5906, unit metre (PNG specification §11.3.5.3).
+    let at = bytes.windows(4).position(|w| w == b"pHYs").expect("a pHYs chunk");
+    let ppm = u32::from_be_bytes([bytes[at + 4], bytes[at + 5], bytes[at + 6], bytes[at + 7]]);
+    assert_eq!((ppm, bytes[at + 12]), (5906, 1));
+    let o = export_png("5");
+    assert!(!o.status.success());
+    assert!(stderr(&o).contains("--dpi 5 is outside 10 … 1200"), "{}", stderr(&o));
+}

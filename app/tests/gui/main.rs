@@ -11,4 +11,5 @@ mod editing;
 mod fields;
 mod import;
 mod recovery;
+mod trace;
 mod views;

@@ -62,6 +62,7 @@ const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("review", Kind::List(check_review)),
     ("panel_position_m", Kind::Optional(check::<Option<f64>>)),
     ("curves", Kind::List(check_curve)),
+    ("trace", Kind::Optional(check::<Option<crate::trace::TraceSheet>>)),
 ];
 
 const BED_FIELDS: &[(&str, Kind)] = &[

@@ -38,6 +38,9 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
             ));
         }
     }
+    if let Some(sheet) = &section.trace {
+        out.extend(sheet.problems().into_iter().map(|(f, why)| Problem::new(format!("trace.{f}"), why)));
+    }
     if let Some(date) = &section.date_logged {
         if let Err(why) = check_iso_date(date) {
             out.push(Problem::new(

@@ -182,6 +182,10 @@ pub struct Section {
     /// beside the column. Absent in older files.
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub curves: Vec<MeasuredCurve>,
+    /// A photographed or scanned field sheet traced behind the column, with its calibration.
+    /// Absent in older files.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub trace: Option<crate::trace::TraceSheet>,
 }
 
 fn default_display_unit() -> LengthUnit {
@@ -203,6 +207,7 @@ impl Section {
             review: Vec::new(),
             panel_position_m: None,
             curves: Vec::new(),
+            trace: None,
         }
     }
 

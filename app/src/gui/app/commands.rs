@@ -23,11 +23,13 @@ pub enum Command {
     BodiesView,
     AddSection,
     AttachCurve,
+    TraceImage,
+    ShowTrace,
 }
 
 impl Command {
     /// Every command, in menu order.
-    pub const ALL: [Command; 17] = [
+    pub const ALL: [Command; 19] = [
         Command::New,
         Command::Open,
         Command::ImportCsv,
@@ -44,6 +46,8 @@ impl Command {
         Command::StatsView,
         Command::BodiesView,
         Command::AddSection,
+        Command::TraceImage,
+        Command::ShowTrace,
         Command::AttachCurve,
     ];
 
@@ -82,6 +86,8 @@ impl Command {
             Command::BodiesView => "Channel bodies",
             Command::AddSection => "Add empty section",
             Command::AttachCurve => "Attach measured curve (LAS)…",
+            Command::TraceImage => "Trace from image…",
+            Command::ShowTrace => "Show the traced sheet",
         }
     }
 
@@ -109,6 +115,10 @@ impl Command {
             Command::AttachCurve => {
                 "Read a curve such as gamma ray from a LAS 2.0 file and draw it beside the column"
             }
+            Command::TraceImage => {
+                "Put a photographed or scanned field sheet behind the section and trace it by clicking"
+            }
+            Command::ShowTrace => "Open the trace window again on this section's sheet",
         }
     }
 
@@ -133,7 +143,9 @@ impl Command {
             | Command::ZoomIn
             | Command::ZoomOut
             | Command::AddSection
-            | Command::AttachCurve => return None,
+            | Command::AttachCurve
+            | Command::TraceImage
+            | Command::ShowTrace => return None,
         })
     }
 

@@ -1,15 +1,18 @@
 //! `AggradeApp`: the window. Panels draw from the document and queue actions; every edit is
 //! applied here, in one place, where undo, dirty tracking and autosave hook in. The menu bar
 //! and side panels are in `panels`, the commands they run in `commands` and `project_files`,
-//! the pop-up dialogs in `modal`; the column on screen is kept up to date by `gui::column`.
+//! the pop-up dialogs in `modal`, the trace window in `tracing`; the column on screen is kept
+//! up to date by `gui::column`.
 
 mod commands;
 mod modal;
 mod panels;
 mod project_files;
+mod tracing;
 
 pub use commands::Command;
 use modal::{Modal, Pending};
+use tracing::Tracing;
 
 use super::actions::Actions;
 use super::canvas::Canvas;
@@ -88,6 +91,8 @@ pub struct AggradeApp {
     inspector: Inspector,
     /// The pop-up dialog or question showing, if any.
     modal: Option<Modal>,
+    /// The trace window (beside the column, not a pop-up).
+    tracing: Tracing,
     /// Aggrade's data folder (backups, the import mapping last used).
     data_dir: PathBuf,
     /// The interpretation and laid-out column on screen.
@@ -155,6 +160,7 @@ impl AggradeApp {
             table: BedTable::default(),
             inspector: Inspector::default(),
             modal: None,
+            tracing: Tracing::default(),
             data_dir: config.data_dir.clone(),
             column: Column::default(),
             chooser,
@@ -332,6 +338,7 @@ impl AggradeApp {
         });
         self.apply_actions(actions);
         self.views_ui(&ctx);
+        self.trace_ui(&ctx);
         self.dialogs_ui(&ctx);
 
         // Autosave unsaved changes into this window's own backup, with any typed values that did

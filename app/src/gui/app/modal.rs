@@ -348,6 +348,9 @@ impl AggradeApp {
         if let Some(p) = self.chooser.take(PickFor::AttachLas) {
             self.open_curve_dialog(&p);
         }
+        if let Some(p) = self.chooser.take(PickFor::TraceImage) {
+            self.open_trace_image(&p);
+        }
         if let Some(p) = self.chooser.take(PickFor::SaveProject) {
             if self.save_to(p) {
                 self.saved_then(ctx);

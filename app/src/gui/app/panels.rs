@@ -91,6 +91,10 @@ impl AggradeApp {
                     ui.separator();
                     self.menu_item(ui, ctx, Command::AddSection);
                     ui.separator();
+                    self.menu_item(ui, ctx, Command::TraceImage);
+                    if self.doc.section().trace.is_some() && !self.trace_window_open() {
+                        self.menu_item(ui, ctx, Command::ShowTrace);
+                    }
                     self.menu_item(ui, ctx, Command::AttachCurve);
                     let attached: Vec<String> =
                         self.doc.section().curves.iter().map(|c| c.mnemonic.clone()).collect();

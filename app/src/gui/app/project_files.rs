@@ -60,6 +60,8 @@ impl AggradeApp {
                 self.apply(Edit::AddSection { section: Section::new(format!("Section {k}")) });
             }
             Command::AttachCurve => self.pick_curve(),
+            Command::TraceImage => self.pick_trace_image(),
+            Command::ShowTrace => self.show_traced_sheet(),
         }
     }
 
@@ -209,8 +211,13 @@ impl AggradeApp {
         if path.extension().is_none() {
             path.set_extension("aggrade");
         }
-        match files::save(&path, &self.doc.project) {
+        // Sheet images are stored relative to the file written (one chosen before the first
+        // save is absolute until then); the document takes the new paths only once written.
+        let mut doc = self.doc.clone();
+        doc.rebase_trace_images(&absolute(&path));
+        match files::save(&path, &doc.project) {
             Ok(stamp) => {
+                self.doc = doc;
                 self.doc.mark_saved(path.clone());
                 self.doc.disk = Some(stamp);
                 self.autosaver.clear();
