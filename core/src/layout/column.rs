@@ -161,16 +161,6 @@ fn bed_phis(bed: &Bed) -> (f64, f64) {
     }
 }
 
-/// Finite, non-negative thickness (bad values are drawn as zero rather than breaking layout;
-/// validation reports them to the user).
-fn thickness(bed: &Bed) -> f64 {
-    if bed.thickness_m.is_finite() && bed.thickness_m > 0.0 {
-        bed.thickness_m
-    } else {
-        0.0
-    }
-}
-
 impl<'a> ColumnCtx<'a> {
     pub fn new(section: &'a Section, interp: &'a Interpretation, opts: &'a LayoutOptions) -> Self {
         let mut h = 0.0;
@@ -179,11 +169,12 @@ impl<'a> ColumnCtx<'a> {
             .iter()
             .map(|b| {
                 let base = h;
-                h += thickness(b);
+                h += b.usable_thickness_m();
                 base
             })
             .collect::<Vec<f64>>();
-        let tops_m = section.beds.iter().zip(&bases_m).map(|(b, base)| base + thickness(b)).collect();
+        let tops_m =
+            section.beds.iter().zip(&bases_m).map(|(b, base)| base + b.usable_thickness_m()).collect();
         let curve_axes = section.curves.iter().map(|c| ValueAxis::for_curve(c, 0.0, h)).collect();
         let tracks = Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
         let spans = InterpretationSpans::new(interp);
@@ -246,7 +237,7 @@ impl<'a> ColumnCtx<'a> {
     fn right_x(&self, i: usize, h: f64, g: &GrainScale) -> f64 {
         let bed = &self.section.beds[i];
         let (pb, pt) = bed_phis(bed);
-        let t = thickness(bed);
+        let t = bed.usable_thickness_m();
         let f = if t > 0.0 { ((h - self.bases_m[i]) / t).clamp(0.0, 1.0) } else { 0.0 };
         g.x_mm(pb + (pt - pb) * f)
     }
@@ -336,7 +327,7 @@ impl<'a> ColumnCtx<'a> {
         let xl = g.left_mm;
         if tp <= b {
             // Zero-thickness or out of range: nothing to draw, but keep its place for picking.
-            if top >= lo && base <= hi && thickness(bed) == 0.0 {
+            if top >= lo && base <= hi && bed.usable_thickness_m() == 0.0 {
                 boxes.push(BedBox { bed_index: i, rect: RectMm { x: xl, y: t.y_mm(base), w: 0.0, h: 0.0 } });
             }
             return;
