@@ -2,7 +2,7 @@
 //! structures, paleocurrents, paleosols, the interpretation tracks and measured-curve tracks,
 //! plus the segment's track titles above and grain-size scale (and curve value axes) below. Used by both the screen strip and the printed pages.
 
-use super::curve_track::{self, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_TRACKS};
+use super::curve_track::{self, CurvePlace, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_TRACKS};
 use super::items::{Item, PtMm, RectMm, Rgba, Stroke};
 use super::options::LayoutOptions;
 use super::patterns::fill_bed;
@@ -161,6 +161,16 @@ fn bed_phis(bed: &Bed) -> (f64, f64) {
     }
 }
 
+/// The part of a column being drawn: heights `lo`..`hi` (m) of a segment whose left edge is at
+/// `x0` (mm), placed on the page by `t`.
+#[derive(Clone, Copy)]
+struct Part<'t> {
+    lo: f64,
+    hi: f64,
+    x0: f64,
+    t: &'t HeightTransform,
+}
+
 impl<'a> ColumnCtx<'a> {
     pub fn new(section: &'a Section, interp: &'a Interpretation, opts: &'a LayoutOptions) -> Self {
         let mut h = 0.0;
@@ -209,16 +219,16 @@ impl<'a> ColumnCtx<'a> {
 
     /// The attached curves that get a track, with their track (absolute x, width), value axis and
     /// colour, for a segment whose left edge is at `x0`.
-    fn curve_tracks(&self, x0: f64) -> impl Iterator<Item = (usize, f64, f64, Option<ValueAxis>, Rgba)> + '_ {
+    fn curve_tracks(&self, x0: f64) -> impl Iterator<Item = (usize, CurvePlace)> + '_ {
         self.section.curves.iter().enumerate().filter_map(move |(k, _)| {
             let (x, w) = self.tracks.curves.track(k)?;
-            Some((
-                k,
-                x0 + x,
-                w,
-                self.curve_axes.get(k).copied().flatten(),
-                CURVE_COLOURS[k % CURVE_COLOURS.len()],
-            ))
+            let place = CurvePlace {
+                x_mm: x0 + x,
+                w_mm: w,
+                axis: self.curve_axes.get(k).copied().flatten(),
+                colour: CURVE_COLOURS[k % CURVE_COLOURS.len()],
+            };
+            Some((k, place))
         })
     }
 
@@ -254,30 +264,32 @@ impl<'a> ColumnCtx<'a> {
         out: &mut Vec<Item>,
         boxes: &mut Vec<BedBox>,
     ) {
+        let part = Part { lo, hi, x0, t };
         let tr = &self.tracks;
         let g = tr.grain_scale(x0);
         let xl = g.left_mm;
         let y_lo = t.y_mm(lo);
         let y_hi = t.y_mm(hi);
-        self.draw_axis(lo, hi, x0, t, out);
+        self.draw_axis(&part, out);
         for i in self.beds_in(lo, hi) {
-            self.draw_bed(i, lo, hi, x0, t, &g, out, boxes);
+            self.draw_bed(i, &part, &g, out, boxes);
         }
-        self.draw_paleosol_profiles(lo, hi, x0, t, out);
+        self.draw_paleosol_profiles(&part, out);
         // Left edge of the column.
         out.push(Item::Polyline {
             points: vec![PtMm { x: xl, y: y_lo }, PtMm { x: xl, y: y_hi }],
             stroke: solid(LINE_MM, INK),
         });
         if self.opts.show_interpretation {
-            self.draw_interpretation(lo, hi, x0, t, out);
+            self.draw_interpretation(&part, out);
         }
-        for (k, x, w, axis, colour) in self.curve_tracks(x0) {
-            curve_track::draw_curve(&self.section.curves[k], axis, colour, x, w, lo, hi, t, out);
+        for (k, place) in self.curve_tracks(x0) {
+            curve_track::draw_curve(&self.section.curves[k], &place, lo, hi, t, out);
         }
     }
 
-    fn draw_axis(&self, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+    fn draw_axis(&self, part: &Part<'_>, out: &mut Vec<Item>) {
+        let Part { lo, hi, x0, t } = *part;
         let unit = match self.section.display_unit {
             LengthUnit::Foot => LengthUnit::Foot,
             _ => LengthUnit::Metre,
@@ -309,18 +321,15 @@ impl<'a> ColumnCtx<'a> {
         }
     }
 
-    #[allow(clippy::too_many_arguments)]
     fn draw_bed(
         &self,
         i: usize,
-        lo: f64,
-        hi: f64,
-        x0: f64,
-        t: &HeightTransform,
+        part: &Part<'_>,
         g: &GrainScale,
         out: &mut Vec<Item>,
         boxes: &mut Vec<BedBox>,
     ) {
+        let Part { lo, hi, x0, t } = *part;
         let bed = &self.section.beds[i];
         let (base, top) = (self.bases_m[i], self.top_m(i));
         let (b, tp) = (base.max(lo), top.min(hi));
@@ -408,7 +417,8 @@ impl<'a> ColumnCtx<'a> {
     /// One mark per paleosol profile in the paleosol track: a bar as wide as the profile's
     /// maturity over its whole height (however many beds its horizons were logged as), outlined,
     /// with a tick at the profile's top.
-    fn draw_paleosol_profiles(&self, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+    fn draw_paleosol_profiles(&self, part: &Part<'_>, out: &mut Vec<Item>) {
+        let Part { lo, hi, x0, t } = *part;
         let tr = self.tracks.paleosols;
         for p in &self.interp.paleosols[self.spans.paleosols.range(lo, hi)] {
             let (b, tp) = (p.base_m.max(lo), p.top_m.min(hi));
@@ -469,7 +479,8 @@ impl<'a> ColumnCtx<'a> {
         }
     }
 
-    fn draw_interpretation(&self, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+    fn draw_interpretation(&self, part: &Part<'_>, out: &mut Vec<Item>) {
+        let Part { lo, hi, x0, t } = *part;
         let tr = self.tracks;
         let clip = |b: f64, tp: f64| -> Option<(f64, f64)> {
             let (b2, t2) = (b.max(lo), tp.min(hi));
@@ -479,7 +490,7 @@ impl<'a> ColumnCtx<'a> {
             let x = x0 + st.x_mm + st.w_mm - 1.0;
             for s in &self.interp.storeys[self.spans.storeys.range(lo, hi)] {
                 if let Some((b, tp)) = clip(s.base_m, s.top_m) {
-                    bracket(x, t.y_mm(b), t.y_mm(tp), s.base_m >= lo, s.top_m <= hi, 1.2, THIN_MM, out);
+                    bracket(x, t.y_mm(b), t.y_mm(tp), (s.base_m >= lo, s.top_m <= hi), 1.2, THIN_MM, out);
                 }
             }
         }
@@ -517,7 +528,7 @@ impl<'a> ColumnCtx<'a> {
             }
         }
         if let Some(pt) = tr.proportion {
-            self.draw_proportion(pt, lo, hi, x0, t, out);
+            self.draw_proportion(pt, part, out);
         }
         if let Some(rt) = tr.regime {
             for r in &self.interp.accommodation[self.spans.accommodation.range(lo, hi)] {
@@ -548,18 +559,11 @@ impl<'a> ColumnCtx<'a> {
                 }
             }
         }
-        self.draw_boundaries(lo, hi, x0, t, out);
+        self.draw_boundaries(part, out);
     }
 
-    fn draw_proportion(
-        &self,
-        pt: Track,
-        lo: f64,
-        hi: f64,
-        x0: f64,
-        t: &HeightTransform,
-        out: &mut Vec<Item>,
-    ) {
+    fn draw_proportion(&self, pt: Track, part: &Part<'_>, out: &mut Vec<Item>) {
+        let Part { lo, hi, x0, t } = *part;
         let (x_a, x_b) = (x0 + pt.x_mm, x0 + pt.x_mm + pt.w_mm);
         let (y_lo, y_hi) = (t.y_mm(lo), t.y_mm(hi));
         for (x, stroke) in [
@@ -622,7 +626,8 @@ impl<'a> ColumnCtx<'a> {
         flush(&mut run, out);
     }
 
-    fn draw_boundaries(&self, lo: f64, hi: f64, x0: f64, t: &HeightTransform, out: &mut Vec<Item>) {
+    fn draw_boundaries(&self, part: &Part<'_>, out: &mut Vec<Item>) {
+        let Part { lo, hi, x0, t } = *part;
         let tr = self.tracks;
         let x_start = x0 + tr.lithology.x_mm - 1.5;
         let x_end = x0 + tr.boundary_line_end();
@@ -698,8 +703,8 @@ impl<'a> ColumnCtx<'a> {
                 text(out, x0 + l.x_mm + 0.8, y_bottom - 5.8 + line * 2.6, label, size, INK);
             }
         }
-        for (k, x, w, _, colour) in self.curve_tracks(x0) {
-            curve_track::draw_curve_title(&self.section.curves[k], colour, x, w, y_bottom, out);
+        for (k, p) in self.curve_tracks(x0) {
+            curve_track::draw_curve_title(&self.section.curves[k], p.colour, p.x_mm, p.w_mm, y_bottom, out);
         }
         out.push(Item::Polyline {
             points: vec![
@@ -753,8 +758,8 @@ impl<'a> ColumnCtx<'a> {
                 text(out, x0 + p.x_mm + f * p.w_mm - w / 2.0, y + 3.6, label, SMALL_PT, INK);
             }
         }
-        for (_, x, w, axis, colour) in self.curve_tracks(x0) {
-            curve_track::draw_value_axis(axis, colour, x, w, y, out);
+        for (_, p) in self.curve_tracks(x0) {
+            curve_track::draw_value_axis(p.axis, p.colour, p.x_mm, p.w_mm, y, out);
         }
     }
 }
@@ -822,7 +827,7 @@ pub fn body_bracket(
     width: f64,
     out: &mut Vec<Item>,
 ) {
-    bracket(x, yb, yt, base == BracketEnd::Tick, top == BracketEnd::Tick, tick, width, out);
+    bracket(x, yb, yt, (base == BracketEnd::Tick, top == BracketEnd::Tick), tick, width, out);
     let stub = 2.2_f64.min((yb - yt).abs() / 2.0 + 1.0);
     for (end, y, dir) in [(base, yb, 1.0), (top, yt, -1.0)] {
         if end == BracketEnd::Open {
@@ -836,13 +841,11 @@ pub fn body_bracket(
 
 /// A vertical bracket at x from yb (base) to yt (top), with end ticks pointing left where the
 /// interval ends inside the segment.
-#[allow(clippy::too_many_arguments)]
 fn bracket(
     x: f64,
     yb: f64,
     yt: f64,
-    tick_base: bool,
-    tick_top: bool,
+    (tick_base, tick_top): (bool, bool),
     tick: f64,
     width: f64,
     out: &mut Vec<Item>,

@@ -3,7 +3,8 @@
 use super::*;
 use crate::layout::{Orientation, Paper};
 use crate::model::{
-    Bed, BedId, GrainSize, Lithology, Project, ReviewDecision, Surface, SurfaceKind, WentworthClass,
+    Bed, BedId, GrainSize, Lithology, Project, ReviewDecision, ReviewState, Surface, SurfaceKind,
+    WentworthClass,
 };
 use crate::rules::{interpret, RuleParams};
 
