@@ -3,8 +3,7 @@
 
 use super::chooser::{Chooser, PickFor, SaveKind};
 use super::painter::{self, ItemIndex, MmToScreen};
-use aggrade_core::export::pdf::{write_pdf, PdfInfo};
-use aggrade_core::export::svg::write_svg;
+use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Page, Paper, PrintMeta};
 use aggrade_core::model::Section;
 use aggrade_core::rules::Interpretation;

@@ -7,8 +7,10 @@ use super::painter::{self, ItemIndex, MmToScreen};
 use super::theme;
 use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
-use aggrade_core::layout::panel::{panel_layout, section_markers, Datum, PanelLayout, PanelOptions};
-use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::layout::{
+    panel_layout, section_markers, Datum, LayoutOptions, Orientation, PanelLayout, PanelOptions, Paper,
+    PrintMeta,
+};
 use aggrade_core::model::Project;
 use std::path::Path;
 

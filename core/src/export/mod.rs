@@ -1,7 +1,7 @@
 //! PDF and SVG writers that translate layout pages item by item.
 
-pub mod pdf;
-pub mod svg;
+mod pdf;
+mod svg;
 
 pub use pdf::{write_pdf, write_pdf_in_groups, PdfInfo, PAGES_PER_GROUP};
 pub use svg::write_svg;

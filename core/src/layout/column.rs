@@ -11,9 +11,7 @@ use super::style::*;
 use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
 use super::text::{fit_size, text, text_up};
 use super::transform::{GrainScale, HeightTransform};
-use crate::model::{
-    Bed, Contact, LengthUnit, Lithology, PaleosolDevelopment, ReviewState, Section, WentworthClass,
-};
+use crate::model::{Bed, Contact, LengthUnit, PaleosolDevelopment, ReviewState, Section, WentworthClass};
 use crate::rules::{Censor, ChannelBody, Interpretation, Regime, Stacking};
 use serde::Serialize;
 
@@ -908,14 +906,6 @@ pub fn axis_step(mm_per_unit: f64) -> f64 {
         0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0, 200.0, 500.0, 1000.0, 2000.0, 5000.0, 10000.0,
     ];
     STEPS.iter().copied().find(|s| s * mm_per_unit >= 8.0).unwrap_or(10000.0)
-}
-
-/// Lithologies present in the section, in vocabulary order.
-pub fn used_lithologies(section: &Section) -> Vec<Lithology> {
-    let mut v: Vec<Lithology> = section.beds.iter().map(|b| b.lithology).collect();
-    v.sort();
-    v.dedup();
-    v
 }
 
 #[cfg(test)]

@@ -52,20 +52,14 @@ impl FontMetrics {
                 _ => None,
             }
         })?;
-        let bmp_glyphs = (0..BMP_LEN as u32)
-            .map(|c| bmp.map_codepoint(c).map_or(0, |g| g.to_u32() as u16))
-            .collect();
+        let bmp_glyphs =
+            (0..BMP_LEN as u32).map(|c| bmp.map_codepoint(c).map_or(0, |g| g.to_u32() as u16)).collect();
         Some(FontMetrics { units_per_em, ascender, descender, advances, bmp_glyphs })
     }
 
     /// Glyph index of a character (0, the missing glyph, if the font lacks it).
     pub fn glyph_id(&self, ch: char) -> u16 {
         self.bmp_glyphs.get(ch as usize).copied().unwrap_or(0)
-    }
-
-    /// True when the font has a glyph for the character.
-    pub fn has_glyph(&self, ch: char) -> bool {
-        self.glyph_id(ch) != 0
     }
 
     /// Advance width of a character in font units.
@@ -124,9 +118,9 @@ mod tests {
         assert_eq!(m.units_per_em, 2048.0);
         // The characters printed on logs must exist: phi, minus, ≥, digits, letters.
         for ch in ['φ', '−', '≥', '0', 'A', 'z', '°', '–'] {
-            assert!(m.has_glyph(ch), "{ch} missing");
+            assert_ne!(m.glyph_id(ch), 0, "{ch} missing");
         }
-        assert!(!m.has_glyph('\u{E000}'), "private-use area should be empty");
+        assert_eq!(m.glyph_id('\u{E000}'), 0, "private-use area should be empty");
         // Beyond the BMP a format 4 map has nothing: the missing glyph's advance.
         assert_eq!(m.glyph_id('\u{1D400}'), 0);
         assert_eq!(m.advance_units('\u{1D400}'), m.advance_units('\u{E000}'));

@@ -13,7 +13,8 @@ pub enum Datum {
     /// Each section's base (0 m).
     Base,
     /// A named surface (`Bed::base_surface`), an accepted boundary's correlation label, or an
-    /// accepted sequence boundary by its marker name (see [`section_markers`] and [`find_marker`]).
+    /// accepted sequence boundary by its marker name (see [`section_markers`]); a name is
+    /// looked up before a label, each exactly first and then ignoring ASCII case.
     Named(String),
 }
 

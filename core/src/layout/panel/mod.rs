@@ -38,14 +38,8 @@ mod positions;
 #[cfg(test)]
 mod tests;
 
-pub use draw::spread_labels;
-pub use markers::{
-    accepted_marker_name, find_marker, section_markers, tie_pairs, Datum, Marker, SectionMarkers, TieKind,
-    TiePair,
-};
-pub use positions::{
-    fmt_distance, fmt_scale, haversine_m, panel_positions, PositionSource, Positions, EARTH_MEAN_RADIUS_M,
-};
+pub use markers::{section_markers, Datum, Marker, SectionMarkers};
+pub use positions::{haversine_m, panel_positions, PositionSource, Positions, EARTH_MEAN_RADIUS_M};
 
 use super::column::ColumnCtx;
 use super::items::{Item, PtMm, Rgba};
