@@ -61,30 +61,10 @@ impl ColumnCtx<'_> {
             let cx = x0 + track.x_mm + track.w_mm / 2.0;
             text_up(out, cx + asc / 2.0, y_bottom, &label, size, INK);
         }
-        let lith = tr.lithology;
-        for (line, label) in [(0.0, "lithology"), (1.0, "grain size \u{2192}")] {
-            let w = width(label, TEXT_PT);
-            text(
-                out,
-                x0 + lith.x_mm + (lith.w_mm - w) / 2.0,
-                y_bottom - 3.5 + line * 3.0,
-                label,
-                TEXT_PT,
-                INK,
-            );
-        }
+        let lithology_lines = ["lithology", "grain size \u{2192}"];
+        centred_lines(x0, tr.lithology, (y_bottom - 3.5, 3.0), &lithology_lines, TEXT_PT, out);
         if let Some(p) = tr.proportion {
-            for (line, label) in [(0.0, "channel-body"), (1.0, "proportion")] {
-                let w = width(label, SMALL_PT);
-                text(
-                    out,
-                    x0 + p.x_mm + (p.w_mm - w) / 2.0,
-                    y_bottom - 3.2 + line * 2.6,
-                    label,
-                    SMALL_PT,
-                    INK,
-                );
-            }
+            centred_lines(x0, p, (y_bottom - 3.2, 2.6), &["channel-body", "proportion"], SMALL_PT, out);
         }
         if let Some(l) = tr.boundary_labels {
             for (line, label) in [(0.0, "sequence"), (1.0, "boundary"), (2.0, "candidates")] {
@@ -150,6 +130,22 @@ impl ColumnCtx<'_> {
         for (_, p) in self.curve_tracks(x0) {
             curve_track::draw_value_axis(p.axis, p.colour, p.x_mm, p.w_mm, y, out);
         }
+    }
+}
+
+/// Lines of a title centred in `track` of the segment at `x0`, the first baseline at `y0` and
+/// the next ones `pitch` mm lower (`(y0, pitch)`).
+fn centred_lines(
+    x0: f64,
+    track: Track,
+    (y0, pitch): (f64, f64),
+    lines: &[&str],
+    size_pt: f64,
+    out: &mut Vec<Item>,
+) {
+    for (k, label) in lines.iter().enumerate() {
+        let w = width(label, size_pt);
+        text(out, x0 + track.x_mm + (track.w_mm - w) / 2.0, y0 + k as f64 * pitch, label, size_pt, INK);
     }
 }
 

@@ -91,20 +91,27 @@ struct Part<'t> {
     t: &'t HeightTransform,
 }
 
+/// Base height of every bed (m), lowest first, each bed counted at its
+/// [`Bed::usable_thickness_m`].
+pub(crate) fn bed_bases_m(section: &Section) -> Vec<f64> {
+    let mut h = 0.0;
+    section
+        .beds
+        .iter()
+        .map(|b| {
+            let base = h;
+            h += b.usable_thickness_m();
+            base
+        })
+        .collect()
+}
+
 impl<'a> ColumnCtx<'a> {
     pub fn new(section: &'a Section, interp: &'a Interpretation, opts: &'a LayoutOptions) -> Self {
-        let mut h = 0.0;
-        let bases_m = section
-            .beds
-            .iter()
-            .map(|b| {
-                let base = h;
-                h += b.usable_thickness_m();
-                base
-            })
-            .collect::<Vec<f64>>();
-        let tops_m =
+        let bases_m = bed_bases_m(section);
+        let tops_m: Vec<f64> =
             section.beds.iter().zip(&bases_m).map(|(b, base)| base + b.usable_thickness_m()).collect();
+        let h = tops_m.last().copied().unwrap_or(0.0);
         let curve_axes = section.curves.iter().map(|c| ValueAxis::for_curve(c, 0.0, h)).collect();
         let tracks = Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
         let spans = InterpretationSpans::new(interp);

@@ -36,27 +36,31 @@ pub const GRAIN_CLASS_STEP_MM: f64 = 3.0;
 impl Tracks {
     /// The track layout for the options (interpretation tracks only when shown).
     pub fn new(opts: &LayoutOptions) -> Self {
+        let rock = [
+            (12.0, 1.0),
+            (GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 2.0),
+            (14.0, 0.5),
+            (9.0, 0.5),
+            (6.0, 1.5),
+        ];
+        let interpretation = [(3.5, 0.0), (9.0, 1.5), (16.0, 1.5), (6.5, 0.5), (12.0, 0.0)];
+        Tracks::stacked(rock, opts.show_interpretation.then_some(interpretation))
+    }
+
+    /// Tracks laid left to right from (width, gap after it) in mm: the rock tracks (axis,
+    /// lithology, structures, paleocurrents, paleosols), then the interpretation tracks (storeys,
+    /// bodies, proportion, regime, boundary labels) when given; no curve tracks yet.
+    pub fn stacked(rock: [(f64, f64); 5], interpretation: Option<[(f64, f64); 5]>) -> Self {
         let mut x = 0.0;
-        let mut take = |w: f64, gap: f64| {
+        let mut take = |(w, gap): (f64, f64)| {
             let t = Track { x_mm: x, w_mm: w };
             x += w + gap;
             t
         };
-        let axis = take(12.0, 1.0);
-        let lithology = take(GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 2.0);
-        let structures = take(14.0, 0.5);
-        let paleocurrents = take(9.0, 0.5);
-        let paleosols = take(6.0, 1.5);
-        let (storeys, bodies, proportion, regime, boundary_labels) = if opts.show_interpretation {
-            (
-                Some(take(3.5, 0.0)),
-                Some(take(9.0, 1.5)),
-                Some(take(16.0, 1.5)),
-                Some(take(6.5, 0.5)),
-                Some(take(12.0, 0.0)),
-            )
-        } else {
-            (None, None, None, None, None)
+        let [axis, lithology, structures, paleocurrents, paleosols] = rock.map(&mut take);
+        let [storeys, bodies, proportion, regime, boundary_labels] = match interpretation {
+            Some(widths) => widths.map(|w| Some(take(w))),
+            None => [None; 5],
         };
         Tracks {
             axis,

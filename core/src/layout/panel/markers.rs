@@ -3,6 +3,7 @@
 //! columns are tied.
 
 use super::{PanelColumn, TieLine};
+use crate::layout::column::bed_bases_m;
 use crate::layout::items::PtMm;
 use crate::model::{Bed, Project, ReviewState, Section};
 use serde::Serialize;
@@ -80,7 +81,7 @@ pub fn accepted_marker_name(section: &str, height_m: f64) -> String {
 /// twice keeps its lowest occurrence, and so does a correlation label; the others are listed for
 /// a note, as are labels on boundaries that are not accepted.
 pub fn section_markers(section: &Section) -> SectionMarkers {
-    let ctx_bases = bases_m(section);
+    let ctx_bases = bed_bases_m(section);
     let mut out = SectionMarkers::default();
     for (i, bed) in section.beds.iter().enumerate() {
         let decision = section.decision_for(bed.id);
@@ -111,21 +112,6 @@ pub fn section_markers(section: &Section) -> SectionMarkers {
         out.markers.push(Marker { name, height_m: h, accepted, unnamed, surface: surface.is_some(), link });
     }
     out
-}
-
-/// Base height of every bed (m), each bed counted at its [`Bed::usable_thickness_m`] as the
-/// column drawing does.
-fn bases_m(section: &Section) -> Vec<f64> {
-    let mut h = 0.0;
-    section
-        .beds
-        .iter()
-        .map(|b| {
-            let base = h;
-            h += b.usable_thickness_m();
-            base
-        })
-        .collect()
 }
 
 /// Height of a section's top (m): the sum of its beds' usable thicknesses, lowest first.

@@ -2,8 +2,7 @@
 //! gaps between columns, and the page geometry ([`Sheet`]) every drawing step reads.
 
 use super::{notes, PanelOptions, HEADER_MM, HEAD_MM, KEY_ROW_MM, NOTE_LINE_MM, NOTE_PT, PAD_MM};
-use crate::layout::column::{Track, Tracks, SCALE_BAND_MM, TITLE_BAND_MM};
-use crate::layout::curve_track::CurveTracks;
+use crate::layout::column::{Tracks, SCALE_BAND_MM, TITLE_BAND_MM};
 use crate::layout::legend::legend_height_mm;
 use crate::layout::options::PrintMeta;
 use crate::layout::text::wrap;
@@ -89,31 +88,8 @@ pub fn panel_positions(sections: &[Section]) -> Positions {
 /// columns fit across A3 landscape.
 pub(super) fn panel_tracks() -> Tracks {
     use crate::layout::column::{GRAIN_CLASS_STEP_MM, GRAIN_MIN_WIDTH_MM};
-    let mut x = 0.0;
-    let mut take = |w: f64, gap: f64| {
-        let t = Track { x_mm: x, w_mm: w };
-        x += w + gap;
-        t
-    };
-    let axis = take(11.0, 0.5);
-    let lithology = take(GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 1.5);
-    let structures = take(11.0, 0.5);
-    let paleocurrents = take(8.0, 0.5);
-    let paleosols = take(5.0, 0.5);
-    Tracks {
-        axis,
-        lithology,
-        structures,
-        paleocurrents,
-        paleosols,
-        storeys: None,
-        bodies: None,
-        proportion: None,
-        regime: None,
-        boundary_labels: None,
-        curves: CurveTracks::none(x),
-        width_mm: x,
-    }
+    let lithology = GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0;
+    Tracks::stacked([(11.0, 0.5), (lithology, 1.5), (11.0, 0.5), (8.0, 0.5), (5.0, 0.5)], None)
 }
 
 /// The horizontal layout: sections in panel order, the gaps between their columns and the scale
