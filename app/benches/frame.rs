@@ -4,8 +4,9 @@
 //! is drawn), and the time from an edit until the column on screen shows it.
 //! Target: under 8 ms per frame.
 
-use aggrade::gui::document::Edit;
-use aggrade::gui::{demo, files, AggradeApp, AppConfig};
+use aggrade::gui::test_hooks::{demo, files};
+use aggrade::gui::Edit;
+use aggrade::gui::{AggradeApp, AppConfig};
 use aggrade_core::model::Project;
 use criterion::{criterion_group, criterion_main, Criterion};
 
@@ -16,7 +17,7 @@ fn app_with(n: usize, data_dir: &std::path::Path) -> AggradeApp {
     AggradeApp::new(AppConfig {
         file: Some(path),
         data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(files::ScriptedDialogs::default()),
+        dialogs: Box::new(aggrade::gui::ScriptedDialogs::default()),
         recent: Vec::new(),
     })
 }

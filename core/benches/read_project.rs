@@ -76,7 +76,7 @@ fn bench(c: &mut Criterion) {
     g.finish();
     // Stages of the read, to see where the time goes.
     c.bench_function("stage_scan_limits_10000_beds", |b| {
-        b.iter(|| aggrade_core::io::json_scan::check_limits(black_box(&json)).expect("within limits"))
+        b.iter(|| aggrade_core::io::internals::check_limits(black_box(&json)).expect("within limits"))
     });
     c.bench_function("stage_parse_json_tree_10000_beds", |b| {
         b.iter(|| serde_json::from_str::<serde_json::Value>(black_box(&json)).expect("json"))

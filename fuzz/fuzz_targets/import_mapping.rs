@@ -3,8 +3,9 @@
 //! write JSON that reads back to the same mapping. Never panics.
 #![no_main]
 
-use aggrade_core::io::import::mapping::{field_of_header, fold_header};
-use aggrade_core::io::import::{fit_saved, guess_mapping, mapping_from_json, mapping_to_json};
+use aggrade_core::io::import::{
+    field_of_header, fit_saved, fold_header, guess_mapping, mapping_from_json, mapping_to_json,
+};
 use libfuzzer_sys::fuzz_target;
 
 fuzz_target!(|data: &[u8]| {

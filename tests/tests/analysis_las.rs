@@ -1,8 +1,7 @@
 //! LAS 2.0 reader checked against lasio (the PyPI LAS reader) on every fixture in
 //! tests/data/las/, and its error messages on malformed files.
 
-#[path = "support/lasio_compare.rs"]
-mod lasio_compare;
+use crate::support::lasio_compare;
 
 use aggrade_core::analysis::las::{parse_las, read_las, IndexDirection, IndexToSection, LasFile};
 use proptest::prelude::*;

@@ -179,7 +179,7 @@ fn unknown_fields_in_a_curve_are_warnings_naming_file_line_and_path() {
     let loaded = io::load(&path).expect("an unknown field is a warning, not an error");
     assert_eq!(loaded.project.sections[0].curves[0].samples.len(), 3, "the curve is still read");
     assert_eq!(loaded.warnings.len(), 1, "{:?}", loaded.warnings);
-    let w = &loaded.warnings[0];
+    let w = &loaded.warnings[0].to_string();
     assert!(
         w.starts_with(&format!(
             "{}: line 13: sections[0].curves[0].colour: unknown field, ignored",
@@ -193,7 +193,7 @@ fn unknown_fields_in_a_curve_are_warnings_naming_file_line_and_path() {
     );
     // The field-by-field reading of a JSON tree (the path older files take) warns the same way.
     let root: serde_json::Value = serde_json::from_str(&text).expect("JSON");
-    let (project, problems, warnings) = io::project_reader::read_project(&root);
+    let io::internals::FieldRead { project, problems, warnings } = io::internals::read_project(&root);
     assert!(problems.is_empty() && project.is_some(), "{problems:?}");
     let at: Vec<&str> = warnings.iter().map(|w| w.location.as_str()).collect();
     assert_eq!(at, ["sections[0].curves[0].colour"]);

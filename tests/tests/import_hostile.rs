@@ -4,8 +4,7 @@
 //! CSV of too many rows and arbitrary bytes. Each is refused with a message naming the file (or
 //! read) within the documented limits, never a panic or an exhausted machine.
 
-#[path = "support/sheets.rs"]
-mod sheets;
+use crate::support::sheets;
 
 use aggrade_core::io::import::{import_bytes, import_file, ImportOptions};
 use aggrade_core::io::MAX_BEDS_PER_SECTION;

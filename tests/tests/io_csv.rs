@@ -4,7 +4,8 @@
 
 use aggrade_core::io::{self, read_bed_table, write_bed_table, Problem};
 use aggrade_core::model::{
-    Contact, GrainSize, LengthUnit, Lithology, Structure, SurfaceKind, WentworthClass,
+    Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
+    WentworthClass,
 };
 use std::process::Command;
 
@@ -184,8 +185,13 @@ fn unknown_columns_are_warnings_not_dropped_silently() {
     let loaded = io::load(&path).expect("valid with warnings");
     assert_eq!(loaded.project.sections[0].name, "Sedge Creek", "the section takes the file stem");
     assert_eq!(loaded.warnings.len(), 2, "{:?}", loaded.warnings);
-    assert!(loaded.warnings[0].contains("Sedge Creek.csv") && loaded.warnings[0].contains("Weather"));
-    assert!(loaded.warnings[0].contains("line 1"));
+    let first = &loaded.warnings[0];
+    assert!(
+        first.path.ends_with("Sedge Creek.csv") && first.problem.to_string().contains("Weather"),
+        "{first}"
+    );
+    assert_eq!(first.problem.line, Some(1), "{first}");
+    assert!(first.to_string().contains("Sedge Creek.csv") && first.to_string().contains("line 1"), "{first}");
 }
 
 #[test]
@@ -255,4 +261,59 @@ fn formula_cells_are_escaped_and_python_csv_reads_the_table() {
     // And it reads back to the same beds.
     let again = read_bed_table(&written, "t").expect("reads back").section;
     assert_eq!(again.beds, section.beds);
+}
+
+#[test]
+fn a_field_log_typed_in_the_compact_notation_reads_as_the_full_names_say() {
+    // An invented 13-bed log, base to top, typed with the codes of the compact notation; each
+    // bed is checked against the same log written out in full words.
+    let text = "thickness_m,lithology,grain,structures,base_contact,paleosol,paleocurrents,surface\n\
+        2.4,mudstone,cl,rt,,m,,\n\
+        0.6,siltstone,si,rcl,,,,\n\
+        1.8,mudstone,cl,,,s cn,,\n\
+        0.4,conglomerate,pb,bl,e1.2,,210 225,RG-E1\n\
+        2.1,sandstone,c-m,tcb,,,\"200, 215, 230\",\n\
+        1.9,sandstone,m-f,tcb,e,,,\n\
+        1.5,sandstone,f,pcb,,,240,\n\
+        3.2,mudstone,cl,rt,,w,,\n\
+        0.5,sandstone,vf,rcl,s,,,\n\
+        4.0,mudstone,cl,,,m,,\n\
+        1.6,sandstone,m-f,la,e,,,\n\
+        5.0,mudstone,cl,,,w,,\n\
+        4.5,mudstone,si,,,,,\n";
+    let section = read_bed_table(text, "t").expect("the notation reads").section;
+    let beds = &section.beds;
+    assert_eq!(beds.len(), 13);
+    let class = |c| Some(GrainSize::Class(c));
+    assert_eq!(beds[0].structures, vec![Structure::RootTraces]);
+    assert_eq!(beds[0].paleosol, PaleosolDevelopment::Moderate);
+    assert_eq!(beds[1].structures, vec![Structure::RippleCrossLamination]);
+    assert_eq!(beds[2].paleosol, PaleosolDevelopment::Strong);
+    assert_eq!(beds[2].paleosol_features, vec![PaleosolFeature::CarbonateNodules]);
+    assert_eq!(beds[3].base_contact, Contact::Erosional);
+    assert_eq!(beds[3].base_relief_m, Some(1.2));
+    assert_eq!(beds[3].structures, vec![Structure::BasalLag]);
+    assert_eq!(beds[3].paleocurrents_deg, vec![210.0, 225.0]);
+    assert_eq!(beds[3].grain_base, class(WentworthClass::Pebble));
+    assert_eq!(
+        (beds[4].grain_base, beds[4].grain_top),
+        (class(WentworthClass::CoarseSand), class(WentworthClass::MediumSand))
+    );
+    assert_eq!(beds[4].structures, vec![Structure::TroughCrossBedding]);
+    assert_eq!(beds[4].paleocurrents_deg, vec![200.0, 215.0, 230.0]);
+    assert_eq!(
+        (beds[5].grain_base, beds[5].grain_top),
+        (class(WentworthClass::MediumSand), class(WentworthClass::FineSand))
+    );
+    assert_eq!(beds[6].structures, vec![Structure::PlanarCrossBedding]);
+    assert_eq!(beds[8].base_contact, Contact::Sharp);
+    assert_eq!(beds[10].structures, vec![Structure::LateralAccretion]);
+    assert_eq!(beds[11].paleosol, PaleosolDevelopment::Weak);
+}
+
+#[test]
+fn a_code_that_fits_two_terms_is_refused_naming_both() {
+    // `m` is the initial of both massive and mottling.
+    let p = only_problem("thickness_m,lithology,grain,structures\n1,sandstone,f,m\n", 2, "structures");
+    assert!(p.message.contains("massive") && p.message.contains("mottling"), "{p}");
 }

@@ -3,9 +3,9 @@
 //! problems and the warnings that the field-by-field reading of a whole JSON tree gives; and a
 //! bad bed deep in a big file is still reported with its path and line.
 
-use aggrade_core::io::json_scan::{check_limits_and_fields, KnownFields};
-use aggrade_core::io::project_reader::{
-    beds_with_unknown_fields, check_json_syntax, known_field_names, read_project, read_project_raw,
+use aggrade_core::io::internals::{
+    beds_with_unknown_fields, check_json_syntax, check_limits_and_fields, known_fields, read_project,
+    read_project_raw, FieldRead,
 };
 use aggrade_core::io::{project_to_json, read_project_text, Problem};
 use aggrade_core::model::{
@@ -19,20 +19,23 @@ use std::path::Path;
 
 type Read = (Option<Project>, Vec<Problem>, Vec<Problem>);
 
+/// A reading as a tuple, to compare the paths in one assertion.
+fn parts(read: FieldRead) -> Read {
+    (read.project, read.problems, read.warnings)
+}
+
 /// The checked path: the whole text parsed into a tree, then read field by field.
 fn tree_read(text: &str) -> Read {
     let root: Value = serde_json::from_str(text).expect("test text is JSON");
-    read_project(&root)
+    parts(read_project(&root))
 }
 
 /// The raw path: beds deserialised one by one from the text; beds the limits scan found unknown
 /// fields in are checked field by field.
 fn raw_read(text: &str) -> Read {
-    let (p, s, b) = known_field_names();
-    let known = KnownFields { project: &p, section: &s, bed: &b };
-    let unknown = check_limits_and_fields(text, &known).expect("test text is within the limits");
+    let unknown = check_limits_and_fields(text, &known_fields()).expect("test text is within the limits");
     assert!(check_json_syntax(text).is_ok());
-    read_project_raw(text, &beds_with_unknown_fields(&unknown))
+    parts(read_project_raw(text, &beds_with_unknown_fields(&unknown)))
 }
 
 /// A small deterministic generator (64-bit linear congruential, Knuth's MMIX constants).

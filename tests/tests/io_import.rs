@@ -3,8 +3,7 @@
 //! from the top, and the bed table's own output read back through the importer. Values are
 //! checked against published conversions (named beside each check).
 
-#[path = "support/sheets.rs"]
-mod sheets;
+use crate::support::sheets;
 
 use aggrade_core::io::import::{import_bytes, ImportOptions};
 use aggrade_core::io::write_bed_table;

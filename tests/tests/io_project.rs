@@ -135,7 +135,7 @@ proptest! {
 #[test]
 fn migrates_the_version_0_fixture() {
     let loaded = io::load(&data("io/v0_project.aggrade")).expect("v0 fixture loads");
-    assert!(loaded.warnings.iter().any(|w| w.contains("version 0")), "{:?}", loaded.warnings);
+    assert!(loaded.warnings.iter().any(|w| w.to_string().contains("version 0")), "{:?}", loaded.warnings);
     let p = &loaded.project;
     assert_eq!(p.format_version, Project::CURRENT_VERSION);
     assert_eq!(p.sections.len(), 2);

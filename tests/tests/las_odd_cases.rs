@@ -6,8 +6,7 @@
 //! The LAS 1.2 and 2.0 specification examples (CWLS; reproduced from memory, shortened to three
 //! depth steps) are compared the same way.
 
-#[path = "support/lasio_compare.rs"]
-mod lasio_compare;
+use crate::support::lasio_compare;
 
 use aggrade_core::analysis::las::read_las;
 use lasio_compare::compare;

@@ -127,7 +127,7 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
         if let Some(depth) = args.burial_depth {
             let flags: Vec<bool> = i.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
             let d = decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
-                .map_err(|e| anyhow::anyhow!("{}: section {:?}: {e}", args.file.display(), s.name))?;
+                .with_context(|| format!("{}: section {:?}", args.file.display(), s.name))?;
             let fmt = |p: Option<f64>| p.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
             writeln!(
                 out,

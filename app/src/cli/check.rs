@@ -13,8 +13,7 @@ pub struct CheckArgs {
 /// Run `aggrade check`: a summary on stdout and exit 0 when the file is valid; every problem (file,
 /// line, field, value, what is valid) on stderr and a non-zero exit when it is not.
 pub fn run(args: &CheckArgs) -> anyhow::Result<()> {
-    // The error's own text already names the cause; anyhow's chain would repeat it.
-    let loaded = io::load(&args.file).map_err(|e| anyhow::anyhow!("{e}"))?;
+    let loaded = io::load(&args.file)?;
     for warning in &loaded.warnings {
         eprintln!("warning: {warning}");
     }

@@ -29,8 +29,7 @@ pub fn run(args: &ConvertArgs) -> anyhow::Result<()> {
     if same_file(&args.file, &args.output) {
         bail!("{}: input and output are the same file; give a different output", args.output.display());
     }
-    // The errors' own text already names the cause; anyhow's chain would repeat it.
-    let loaded = io::load(&args.file).map_err(|e| anyhow::anyhow!("{e}"))?;
+    let loaded = io::load(&args.file)?;
     for warning in &loaded.warnings {
         eprintln!("warning: {warning}");
     }
@@ -43,12 +42,11 @@ pub fn run(args: &ConvertArgs) -> anyhow::Result<()> {
                 }
                 None => project,
             };
-            io::save_project(&args.output, &project).map_err(|e| anyhow::anyhow!("{e}"))?;
+            io::save_project(&args.output, &project)?;
         }
         FileKind::BedTable => {
             let section = super::one_section(&project, &args.file, args.section.as_deref())?;
-            io::write_bytes_atomic(&args.output, io::write_bed_table(section).as_bytes())
-                .map_err(|e| anyhow::anyhow!("{e}"))?;
+            io::write_bytes_atomic(&args.output, io::write_bed_table(section).as_bytes())?;
             if !section.locality.is_empty()
                 || section.coordinates.is_some()
                 || !section.review.is_empty()

@@ -6,7 +6,7 @@ use aggrade_core::analysis::curve_table::read_curve_table;
 use aggrade_core::analysis::las::{read_las, IndexDirection, IndexToSection, LasFile};
 use aggrade_core::io::import::TextOptions;
 use aggrade_core::model::{MeasuredCurve, Section};
-use anyhow::{anyhow, bail};
+use anyhow::bail;
 use std::path::{Path, PathBuf};
 
 /// Arguments of `aggrade curve`.
@@ -128,13 +128,12 @@ pub fn run(args: &CurveArgs) -> anyhow::Result<()> {
     } else if let Some(las_path) = source {
         let las = match &args.table {
             Some(table) => {
-                let bytes = aggrade_core::io::import::read_limited(table).map_err(|e| anyhow!("{e}"))?;
+                let bytes = aggrade_core::io::import::read_limited(table)?;
                 let shown = table.display().to_string();
-                read_curve_table(&bytes, &shown, &TextOptions::default(), args.index_column.as_deref())
+                read_curve_table(&bytes, &shown, &TextOptions::default(), args.index_column.as_deref())?
             }
-            None => read_las(las_path),
-        }
-        .map_err(|e| anyhow!("{e}"))?;
+            None => read_las(las_path)?,
+        };
         for w in &las.warnings {
             eprintln!("aggrade: warning: {w}");
         }
@@ -147,9 +146,7 @@ pub fn run(args: &CurveArgs) -> anyhow::Result<()> {
             None => 0.0,
         };
         let shown = las_path.display().to_string();
-        let curve = las
-            .measured_curve(&mnemonic, &IndexToSection { direction, zero_m }, &shown)
-            .map_err(|e| anyhow!("{e}"))?;
+        let curve = las.measured_curve(&mnemonic, &IndexToSection { direction, zero_m }, &shown)?;
         let n = curve.samples.len();
         let nulls = curve.samples.iter().filter(|(_, v)| v.is_none()).count();
         let within = inside(&curve, section);

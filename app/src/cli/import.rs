@@ -6,7 +6,7 @@ use aggrade_core::io::import::{
     self, mapping_from_json, mapping_to_json, DecimalMark, Delimiter, ImportOptions, TextEncoding,
 };
 use aggrade_core::model::Project;
-use anyhow::{anyhow, bail};
+use anyhow::{anyhow, bail, Context};
 use std::path::PathBuf;
 
 /// Arguments of `aggrade import`.
@@ -72,7 +72,7 @@ fn options(args: &ImportArgs) -> anyhow::Result<ImportOptions> {
     }
     if let Some(path) = &args.mapping {
         let text =
-            std::fs::read_to_string(path).map_err(|e| anyhow!("{}: could not read: {e}", path.display()))?;
+            std::fs::read_to_string(path).with_context(|| format!("{}: could not read", path.display()))?;
         o.mapping = Some(mapping_from_json(&text).map_err(|e| anyhow!("{}: {e}", path.display()))?);
     }
     Ok(o)
@@ -82,7 +82,7 @@ fn options(args: &ImportArgs) -> anyhow::Result<ImportOptions> {
 pub fn run(args: &ImportArgs) -> anyhow::Result<()> {
     let out = super::project_output(Some(&args.out), &args.input, "imported sections")?;
     let options = options(args)?;
-    let imported = import::import_file(&args.input, &options).map_err(|e| anyhow!("{e}"))?;
+    let imported = import::import_file(&args.input, &options)?;
     println!("read {} as {}", args.input.display(), imported.format.describe());
     println!("columns:");
     print!("{}", imported.mapping.describe());
@@ -103,8 +103,7 @@ pub fn run(args: &ImportArgs) -> anyhow::Result<()> {
     project.sections.push(section);
     super::save_changed(&out, &project)?;
     if let Some(path) = &args.save_mapping {
-        aggrade_core::io::write_bytes_atomic(path, mapping_to_json(&imported.mapping).as_bytes())
-            .map_err(|e| anyhow!("{e}"))?;
+        aggrade_core::io::write_bytes_atomic(path, mapping_to_json(&imported.mapping).as_bytes())?;
         eprintln!("saved the mapping to {}", path.display());
     }
     Ok(())

@@ -108,7 +108,7 @@ fn parse_params(text: &str, path: &Path) -> anyhow::Result<RuleParams> {
             bail!("{}: field {name:?}, value {v}: {e}", path.display());
         }
     }
-    serde_json::from_value(value).map_err(|e| anyhow!("{}: {e}", path.display()))
+    serde_json::from_value(value).with_context(|| path.display().to_string())
 }
 
 fn regime_name(r: Regime) -> &'static str {

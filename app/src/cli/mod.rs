@@ -55,7 +55,10 @@ pub enum Command {
     Link(link::LinkArgs),
 }
 
-/// Run the parsed command line; errors are reported once, here, in plain words.
+/// Run the parsed command line; errors are reported once, here, in plain words: the error and
+/// the chain of its causes, joined by `: `. The core's errors are whole messages that chain no
+/// cause of their own; the commands add a cause only where their words add to it (anyhow
+/// context).
 pub fn main(cli: Cli) -> ExitCode {
     let result = match cli.command {
         Some(Command::Check(a)) => check::run(&a),
@@ -81,7 +84,7 @@ pub fn main(cli: Cli) -> ExitCode {
 
 /// Read a project file or bed-table CSV for a command, reporting the reader's warnings on stderr.
 pub fn load_input(file: &Path) -> anyhow::Result<Project> {
-    let loaded = aggrade_core::io::load(file).map_err(|e| anyhow::anyhow!("{e}"))?;
+    let loaded = aggrade_core::io::load(file)?;
     for w in &loaded.warnings {
         eprintln!("aggrade: warning: {w}");
     }
@@ -106,7 +109,7 @@ pub fn project_output(out: Option<&Path>, file: &Path, what: &str) -> anyhow::Re
 
 /// Save a changed project (atomically, the old file kept as NAME.bak) and say where.
 pub fn save_changed(out: &Path, project: &Project) -> anyhow::Result<()> {
-    aggrade_core::io::save_project(out, project).map_err(|e| anyhow::anyhow!("{e}"))?;
+    aggrade_core::io::save_project(out, project)?;
     eprintln!("wrote {}", out.display());
     Ok(())
 }

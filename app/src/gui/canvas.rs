@@ -145,11 +145,6 @@ impl Canvas {
         self.last_view_h_mm.map(|h| (self.top_mm, self.top_mm + h))
     }
 
-    /// Is a drag on a bed in progress?
-    pub fn dragging_bed(&self) -> bool {
-        matches!(self.drag, Some(DragKind::Top { .. } | DragKind::Grain { .. }))
-    }
-
     /// Draw the canvas and collect what the user did.
     pub fn ui(
         &mut self,

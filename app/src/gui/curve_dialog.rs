@@ -1,7 +1,7 @@
 //! The "Attach measured curve" window: after a LAS 2.0 file is picked, choose the curve, how its
 //! index runs and the offset that puts it on the section's heights, with a preview of the fit.
 
-use aggrade_core::analysis::las::{read_las, IndexDirection, IndexToSection, LasFile};
+use aggrade_core::analysis::las::{read_las, IndexDirection, IndexToSection, LasError, LasFile};
 use aggrade_core::model::{MeasuredCurve, Section};
 use std::path::{Path, PathBuf};
 
@@ -26,12 +26,26 @@ pub struct CurveDialog {
     pub depth_down: bool,
 }
 
+/// Why a LAS file gives no curve to attach, or a curve cannot be placed as set.
+#[derive(Debug, thiserror::Error)]
+pub enum CurveError {
+    /// The reader's own message (file and line).
+    #[error(transparent)]
+    Las(#[from] LasError),
+    /// The file holds only its depth index.
+    #[error("{}: the file has no curve besides its depth index", .0.display())]
+    NoCurve(PathBuf),
+    /// The offset typed does not read (the message names the field).
+    #[error("{0}")]
+    Offset(String),
+}
+
 impl CurveDialog {
     /// Read the LAS file; the error is the reader's own message (file and line), ready for a dialog.
-    pub fn open(path: &Path) -> Result<Self, String> {
-        let las = read_las(path).map_err(|e| e.to_string())?;
+    pub fn open(path: &Path) -> Result<Self, CurveError> {
+        let las = read_las(path)?;
         let Some(first) = las.curve_mnemonics().first().map(|m| m.to_string()) else {
-            return Err(format!("{}: the file has no curve besides its depth index", path.display()));
+            return Err(CurveError::NoCurve(path.to_path_buf()));
         };
         Ok(CurveDialog {
             path: path.to_path_buf(),
@@ -42,20 +56,18 @@ impl CurveDialog {
         })
     }
 
-    /// The LAS reader's warnings (header values that do not match the data).
-    pub fn warnings(&self) -> &[String] {
-        &self.las.warnings
-    }
-
     /// The offset as typed, read whole.
-    fn offset_m(&self) -> Result<f64, String> {
+    fn offset_m(&self) -> Result<f64, CurveError> {
         self.offset_text.trim().parse::<f64>().ok().filter(|v| v.is_finite()).ok_or_else(|| {
-            format!("Offset (m): {:?} is not a number of metres (e.g. 0, 12.5, -3)", self.offset_text)
+            CurveError::Offset(format!(
+                "Offset (m): {:?} is not a number of metres (e.g. 0, 12.5, -3)",
+                self.offset_text
+            ))
         })
     }
 
     /// The curve as it would be attached, or why not.
-    pub fn curve(&self) -> Result<MeasuredCurve, String> {
+    pub fn curve(&self) -> Result<MeasuredCurve, CurveError> {
         let zero_m = self.offset_m()?;
         let direction =
             if self.depth_down { IndexDirection::DepthBelowDatum } else { IndexDirection::HeightAboveDatum };
@@ -65,7 +77,7 @@ impl CurveDialog {
                 &IndexToSection { direction, zero_m },
                 &self.path.display().to_string(),
             )
-            .map_err(|e| e.to_string())
+            .map_err(CurveError::from)
     }
 
     /// Draw the window.
@@ -158,7 +170,7 @@ impl CurveDialog {
                         }
                     }
                     Err(e) => {
-                        ui.label(egui::RichText::new(e).color(super::theme::WARN));
+                        ui.label(egui::RichText::new(e.to_string()).color(super::theme::WARN));
                     }
                 }
                 ui.horizontal(|ui| {

@@ -131,6 +131,7 @@ pub fn demo_project() -> Project {
 }
 
 /// A long generated section (for the frame benchmark and scrolling tests): repeating cycles.
+#[cfg(any(test, feature = "test-hooks"))]
 pub fn long_section(n_beds: usize) -> Section {
     let base = demo_section();
     let mut s = Section::new("Generated long section");

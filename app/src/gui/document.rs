@@ -165,7 +165,7 @@ impl Document {
             self.undo.push(before);
             if self.undo.len() > UNDO_LIMIT {
                 // The oldest snapshot (a whole project) is freed off the frame.
-                super::app::drop_elsewhere(self.undo.remove(0));
+                drop_elsewhere(self.undo.remove(0));
             }
         }
         self.selected_section = work.selected_section;
@@ -448,6 +448,11 @@ impl Work {
         }
         Ok(())
     }
+}
+
+/// Drop a large value on a short-lived thread (or here, if no thread can be had).
+pub(crate) fn drop_elsewhere<T: Send + 'static>(value: T) {
+    let _ = std::thread::Builder::new().name("aggrade-drop".into()).spawn(move || drop(value));
 }
 
 #[cfg(test)]

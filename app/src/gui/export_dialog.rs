@@ -2,6 +2,7 @@
 //! through the core's page layout and writers (the same items the screen draws).
 
 use super::chooser::{Chooser, PickFor, SaveKind};
+use super::error::{WriteError, Written};
 use super::painter::{self, ItemIndex, MmToScreen};
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Page, Paper, PrintMeta};
@@ -13,31 +14,42 @@ use std::path::Path;
 pub enum Outcome {
     Open,
     Closed,
-    Done(String),
+    Done(Written),
     /// Writing to this path failed, for this reason.
-    Failed(std::path::PathBuf, String),
+    Failed(std::path::PathBuf, WriteError),
 }
 
 /// Dialog state.
 #[derive(Debug, Default)]
 pub struct ExportDialog {
     pub options: LayoutOptions,
-    preview: Option<(LayoutOptions, u64, Vec<Page>)>,
+    preview: Option<Preview>,
 }
 
-/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension.
+/// The pages laid out for the preview, with what they were laid out from and page 1's item
+/// index (built once per layout, not per frame).
+#[derive(Debug)]
+struct Preview {
+    options: LayoutOptions,
+    revision: u64,
+    pages: Vec<Page>,
+    first_page_index: ItemIndex,
+}
+
+/// Write the section's pages to `path` as PDF (all pages) or SVG (page 1), by extension; says
+/// what was written.
 pub fn export_to(
     path: &Path,
     section: &Section,
     interp: &Interpretation,
     opts: &LayoutOptions,
     now_secs: i64,
-) -> Result<String, String> {
+) -> Result<Written, WriteError> {
     let meta = PrintMeta { printed_on: aggrade_core::export::civil_date(now_secs), subtitle: String::new() };
     let pages = pages(section, interp, opts, &meta);
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
     let bytes = if is_svg {
-        pages.first().map(write_svg).ok_or("nothing to export: the section has no beds")?.into_bytes()
+        pages.first().map(write_svg).ok_or(WriteError::NothingToExport)?.into_bytes()
     } else {
         let info = PdfInfo {
             title: section.name.clone(),
@@ -46,13 +58,12 @@ pub fn export_to(
         };
         write_pdf(&pages, &info)
     };
-    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| e.to_string())?;
-    Ok(format!(
-        "Exported {} page(s) at {} to {}",
-        if is_svg { 1 } else { pages.len() },
-        opts.scale_label(),
-        path.display()
-    ))
+    aggrade_core::io::write_bytes_atomic(path, &bytes)?;
+    Ok(Written::Column {
+        pages: if is_svg { 1 } else { pages.len() },
+        scale: opts.scale_label(),
+        path: path.to_path_buf(),
+    })
 }
 
 impl ExportDialog {
@@ -103,13 +114,16 @@ impl ExportDialog {
                 ui.checkbox(&mut o.show_rejected, "Show rejected boundaries")
                     .on_hover_text("Print the boundaries you rejected, greyed");
                 let stale =
-                    self.preview.as_ref().is_none_or(|(po, rev, _)| *po != self.options || *rev != revision);
+                    self.preview.as_ref().is_none_or(|p| p.options != self.options || p.revision != revision);
                 if stale {
                     let meta = PrintMeta::default();
+                    let pages = pages(section, interp, &self.options, &meta);
+                    let first_page_index =
+                        pages.first().map(|p| ItemIndex::build(&p.items, p.height_mm)).unwrap_or_default();
                     self.preview =
-                        Some((self.options.clone(), revision, pages(section, interp, &self.options, &meta)));
+                        Some(Preview { options: self.options.clone(), revision, pages, first_page_index });
                 }
-                let Some((_, _, pages)) = self.preview.as_ref() else { return };
+                let Some(Preview { pages, first_page_index, .. }) = self.preview.as_mut() else { return };
                 ui.label(format!(
                     "{} page(s) at {} · preview of page 1",
                     pages.len(),
@@ -130,8 +144,7 @@ impl ExportDialog {
                         egui::StrokeKind::Outside,
                     );
                     let t = MmToScreen { origin: rect.min, zoom };
-                    let mut idx = ItemIndex::build(&page.items, page.height_mm);
-                    let which = idx.visible(0.0, page.height_mm);
+                    let which = first_page_index.visible(0.0, page.height_mm);
                     let mut shapes = Vec::new();
                     painter::shapes(&page.items, &which, &t, &mut shapes);
                     p.extend(shapes);

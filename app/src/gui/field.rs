@@ -8,8 +8,6 @@
 //! parses as a whole; a text that does not stays in the field, marked, with a message naming the
 //! field and what would be valid.
 
-use super::theme;
-
 /// Colour of the frame and message of a field whose text does not parse.
 pub const INVALID: egui::Color32 = egui::Color32::from_rgb(190, 30, 30);
 
@@ -35,6 +33,7 @@ impl FieldText {
     }
 
     /// A field holding a typed text that has not been stored (a draft kept for later).
+    #[cfg(test)]
     pub fn typed(stored: &str, text: &str, problem: Option<String>) -> Self {
         FieldText { text: text.to_string(), loaded: stored.to_string(), problem, refill: false }
     }
@@ -159,11 +158,6 @@ pub fn committed_field_in_memory<T>(
     let problem = state.problem.clone();
     ui.data_mut(|d| d.insert_temp(state_id, state));
     (r, value, problem)
-}
-
-/// A dim line of help under a group of fields.
-pub fn hint_label(ui: &mut egui::Ui, text: &str) {
-    ui.label(egui::RichText::new(text).small().color(theme::TEXT_DIM));
 }
 
 #[cfg(test)]

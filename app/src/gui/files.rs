@@ -1,11 +1,10 @@
 //! Reading and saving project files, noticing a file changed on disk since, and recent files.
 
+use aggrade_core::io::{LoadError, SaveError};
 use aggrade_core::model::Project;
 use std::path::{Path, PathBuf};
 
-pub use super::chooser::{
-    FileDialogs, FileKind, NoSystemDialogs, Pick, SaveKind, ScriptedDialogs, SystemDialogs,
-};
+pub use super::chooser::{FileDialogs, NoSystemDialogs, SaveKind, ScriptedDialogs, SystemDialogs};
 
 /// What a project file on disk looked like when the window last read or wrote it: saving
 /// compares it with the file as it is now, so that a change made meanwhile by another program
@@ -76,19 +75,33 @@ pub fn sibling_free_path(path: &Path) -> PathBuf {
         .unwrap_or_else(|| path.to_path_buf())
 }
 
-/// Read a project or bed table; the error is the reader's own message, ready for a dialog.
-pub fn open(path: &Path) -> Result<(Project, Vec<String>), String> {
-    aggrade_core::io::load(path).map(|l| (l.project, l.warnings)).map_err(|e| e.to_string())
+/// Read a project or bed table; the error is the reader's own (its message is what a dialog shows).
+pub fn open(path: &Path) -> Result<(Project, Vec<String>), LoadError> {
+    aggrade_core::io::load(path).map(|l| (l.project, l.warnings.iter().map(ToString::to_string).collect()))
+}
+
+/// A project was not saved.
+#[derive(Debug, thiserror::Error)]
+pub enum SaveFileError {
+    /// The core's atomic save refused or failed (its message names the file).
+    #[error(transparent)]
+    Save(#[from] SaveError),
+    /// Written, but reading it back for its stamp failed.
+    #[error("{}: saved, but could not be read back: {error}", path.display())]
+    ReadBack { path: PathBuf, error: std::io::Error },
+    /// Written, but gone at once.
+    #[error("{}: saved, but the file is gone at once", path.display())]
+    Gone { path: PathBuf },
 }
 
 /// Write a project with the core's atomic save (temporary file, fsync, rename; the previous file
 /// kept as `NAME.bak`; a project that would not open again is refused). Returns the stamp of
 /// what is now on disk.
-pub fn save(path: &Path, project: &Project) -> Result<DiskStamp, String> {
-    aggrade_core::io::save_project(path, project).map_err(|e| e.to_string())?;
+pub fn save(path: &Path, project: &Project) -> Result<DiskStamp, SaveFileError> {
+    aggrade_core::io::save_project(path, project)?;
     DiskStamp::read(path)
-        .map_err(|e| format!("{}: saved, but could not be read back: {e}", path.display()))?
-        .ok_or_else(|| format!("{}: saved, but the file is gone at once", path.display()))
+        .map_err(|error| SaveFileError::ReadBack { path: path.to_path_buf(), error })?
+        .ok_or_else(|| SaveFileError::Gone { path: path.to_path_buf() })
 }
 
 /// Most recent first, no duplicates, at most 8.

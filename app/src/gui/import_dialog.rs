@@ -44,16 +44,40 @@ pub struct ImportDialog {
     pub error: Option<String>,
 }
 
+/// Why a table cannot be imported as it stands.
+#[derive(Debug, thiserror::Error)]
+pub enum TableError {
+    /// The reader's own message (file, line or cell).
+    #[error(transparent)]
+    Read(#[from] import::ImportError),
+    /// The file holds no rows.
+    #[error("{0}: the table is empty")]
+    Empty(String),
+    /// The column mapping is not complete (one message per problem).
+    #[error("{}", .0.join("; "))]
+    Mapping(Vec<String>),
+}
+
+/// Why the mapping was not saved for the next import.
+#[derive(Debug, thiserror::Error)]
+pub enum MappingSaveError {
+    /// The data folder could not be made.
+    #[error("{}: {error}", dir.display())]
+    Folder { dir: PathBuf, error: std::io::Error },
+    /// The core's atomic writer failed (its message names the file).
+    #[error(transparent)]
+    Write(#[from] aggrade_core::io::SaveError),
+}
+
 impl ImportDialog {
     /// Read the table; use the mapping saved last time when it fits its headers, else match the
     /// headers. An unreadable file gives the reader's message (file and line).
-    pub fn open(path: &Path, data_dir: Option<&Path>) -> Result<Self, String> {
+    pub fn open(path: &Path, data_dir: Option<&Path>) -> Result<Self, TableError> {
         let shown = path.display().to_string();
-        let bytes = import::read_limited(path).map_err(|e| e.to_string())?;
-        let source =
-            import::read_source(&bytes, &shown, &ImportOptions::default()).map_err(|e| e.to_string())?;
+        let bytes = import::read_limited(path)?;
+        let source = import::read_source(&bytes, &shown, &ImportOptions::default())?;
         if source.table.rows.is_empty() {
-            return Err(format!("{shown}: the table is empty"));
+            return Err(TableError::Empty(shown));
         }
         let saved_mapping = data_dir.map(|d| d.join(SAVED_MAPPING_FILE));
         let saved = saved_mapping
@@ -87,27 +111,28 @@ impl ImportDialog {
     }
 
     /// The section as it would be imported, or every problem (file, line or cell, column).
-    pub fn section(&self) -> Result<Section, String> {
+    pub fn section(&self) -> Result<Section, TableError> {
         let problems = self.mapping.problems();
         if !problems.is_empty() {
-            return Err(problems.join("; "));
+            return Err(TableError::Mapping(problems));
         }
         let name = self.path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default();
         build_section(&self.source.table, self.header_row, &self.mapping, self.decimal, &name)
             .map(|(s, _)| s)
             .map_err(|problems| {
-                import::ImportError { file: self.path.display().to_string(), problems }.to_string()
+                TableError::Read(import::ImportError { file: self.path.display().to_string(), problems })
             })
     }
 
     /// Save the mapping for the next import (the error is for the status line).
-    fn save_mapping(&self) -> Result<(), String> {
+    fn save_mapping(&self) -> Result<(), MappingSaveError> {
         let Some(path) = &self.saved_mapping else { return Ok(()) };
         if let Some(dir) = path.parent() {
-            std::fs::create_dir_all(dir).map_err(|e| format!("{}: {e}", dir.display()))?;
+            std::fs::create_dir_all(dir)
+                .map_err(|error| MappingSaveError::Folder { dir: dir.to_path_buf(), error })?;
         }
-        aggrade_core::io::write_bytes_atomic(path, mapping_to_json(&self.mapping).as_bytes())
-            .map_err(|e| e.to_string())
+        aggrade_core::io::write_bytes_atomic(path, mapping_to_json(&self.mapping).as_bytes())?;
+        Ok(())
     }
 
     /// The headers of the current header row.
@@ -255,7 +280,7 @@ impl ImportDialog {
                             self.save_mapping().err().map(|e| format!("the mapping was not saved: {e}"));
                         match self.section() {
                             Ok(section) => outcome = Outcome::Import { section: Box::new(section), note },
-                            Err(e) => self.error = Some(note.map_or(e.clone(), |n| format!("{e}\n{n}"))),
+                            Err(e) => self.error = Some(note.map_or(e.to_string(), |n| format!("{e}\n{n}"))),
                         }
                     }
                     if ui.button("Cancel").on_hover_text("Close without importing").clicked() {

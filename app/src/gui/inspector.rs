@@ -20,7 +20,7 @@ use super::field::{committed_field, problem_label, FieldLook, FieldText};
 use super::table::{grain_from_prefix, parse_length, parse_thickness, show_length};
 use super::theme;
 use aggrade_core::io::limits::MAX_STRING_CHARS;
-use aggrade_core::io::validate::MAX_BED_THICKNESS_M;
+use aggrade_core::io::MAX_BED_THICKNESS_M;
 use aggrade_core::model::{
     BaseRank, Bed, BedId, Contact, GrainSize, GrainSizeRule, LengthUnit, Lithology, PaleosolDevelopment,
     PaleosolFeature, Section, Structure, Surface, SurfaceKind,

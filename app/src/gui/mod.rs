@@ -1,33 +1,68 @@
 //! The egui front end: the window, its panels, and a headless fallback when there is no display.
+//!
+//! The modules are private; what the binary and the tests use is re-exported here:
+//! [`AggradeApp`] (the window, built from an [`AppConfig`]), the [`Document`] it edits through
+//! [`Edit`] values, the file pickers ([`FileDialogs`]), [`run`] and [`headless_fallback`].
+//! Layout of the modules: `app/` (the window: menus, commands, pop-up dialogs), `column` (the
+//! interpretation and laid-out column, brought up to date on a worker for long sections),
+//! `document` (the project, its edits and undo), `views/` (correlation panel, statistics,
+//! channel bodies), one file per panel or dialog besides.
 
-pub mod actions;
-pub mod app;
-pub mod canvas;
-pub mod chooser;
-pub mod curve_dialog;
-pub mod demo;
-pub mod document;
-pub mod engine;
-pub mod export_dialog;
-pub mod field;
-pub mod files;
-pub mod import_dialog;
-pub mod inspector;
-pub mod painter;
-pub mod plots;
-pub mod recovery;
-pub mod review;
-pub mod table;
-pub mod theme;
-pub mod views_bodies;
-pub mod views_common;
-pub mod views_panel;
-pub mod views_stats;
+mod actions;
+mod app;
+mod canvas;
+mod chooser;
+mod column;
+mod curve_dialog;
+mod demo;
+mod document;
+mod engine;
+mod error;
+mod export_dialog;
+mod field;
+mod files;
+mod import_dialog;
+mod inspector;
+mod painter;
+mod plots;
+mod recovery;
+mod review;
+mod table;
+mod theme;
+mod views;
 
 use anyhow::Context as _;
 use std::path::{Path, PathBuf};
 
-pub use app::{AggradeApp, AppConfig};
+pub use app::{AggradeApp, AppConfig, Command, Notice, Tab};
+pub use chooser::Chooser;
+pub use column::BACKGROUND_RULES_MIN_BEDS;
+pub use document::{Document, Edit};
+pub use files::{FileDialogs, NoSystemDialogs, ScriptedDialogs, SystemDialogs};
+pub use views::Views;
+
+/// What only the app's own tests and benchmarks reach: demo data, file and backup helpers,
+/// and a few constants the tests compare with. Behind the `test-hooks` feature.
+#[cfg(feature = "test-hooks")]
+pub mod test_hooks {
+    /// The demo section and generated long sections.
+    pub mod demo {
+        pub use crate::gui::demo::{demo_project, long_section};
+    }
+    /// Opening and saving project files as the window does.
+    pub mod files {
+        pub use crate::gui::files::{open, save};
+    }
+    /// The window's backups.
+    pub mod recovery {
+        pub use crate::gui::recovery::{data_dir, find_recovery, read_all_backups, Autosaver, DATA_DIR_ENV};
+    }
+    pub use crate::gui::canvas::new_bed;
+    pub use crate::gui::field::INVALID;
+    pub use crate::gui::import_dialog::SAVED_MAPPING_FILE;
+    pub use crate::gui::review::LINK_HINT;
+    pub use crate::gui::views::datum_choices;
+}
 
 /// Open the main window on a file (or the demo section). With no display, do the main job
 /// headless instead (see [`headless_fallback`]).
@@ -68,7 +103,7 @@ pub fn run(file: Option<PathBuf>) -> anyhow::Result<()> {
 /// PDF to `out` at 1:100 on A4.
 pub fn headless_fallback(file: Option<&Path>, out: &Path) -> anyhow::Result<()> {
     let project = match file {
-        Some(p) => files::open(p).map_err(|e| anyhow::anyhow!(e))?.0,
+        Some(p) => files::open(p).map_err(|e| anyhow::anyhow!("{e}"))?.0,
         None => match demo::demo_file().map(|p| files::open(&p)) {
             Some(Ok((p, _))) => p,
             _ => demo::demo_project(),
@@ -81,6 +116,6 @@ pub fn headless_fallback(file: Option<&Path>, out: &Path) -> anyhow::Result<()> 
         .map(|d| d.as_secs() as i64)
         .unwrap_or(0);
     export_dialog::export_to(out, section, &interp, &engine::LayoutOptions::default(), now)
-        .map_err(|e| anyhow::anyhow!(e))?;
+        .map_err(|e| anyhow::anyhow!("{e}"))?;
     Ok(())
 }

@@ -273,7 +273,7 @@ impl Autosaver {
 
     /// Call every frame with the current time in seconds: writes when due. Returns an error
     /// message when the write failed (the work stays in memory).
-    pub fn tick(&mut self, doc: &Document, now_secs: f64) -> Result<bool, String> {
+    pub fn tick(&mut self, doc: &Document, now_secs: f64) -> Result<bool, BackupError> {
         if self.stopped || (!doc.dirty && self.unstored.is_empty()) {
             return Ok(false);
         }
@@ -289,7 +289,7 @@ impl Autosaver {
     }
 
     /// Write the backup at once (atomically: temp file, then rename).
-    pub fn write_now(&mut self, doc: &Document) -> Result<(), String> {
+    pub fn write_now(&mut self, doc: &Document) -> Result<(), BackupError> {
         // Written from the document itself (no copy of the project): the same fields as
         // [`Recovery`], which reads it back.
         #[derive(Serialize)]
@@ -306,7 +306,7 @@ impl Autosaver {
             self.lock = Self::lock_window_key(&self.dir);
         }
         if self.lock.is_none() {
-            return Err(format!("cannot take a lock in {}", self.dir.display()));
+            return Err(BackupError::NoLock(self.dir.clone()));
         }
         let rec = RecoveryOut {
             original_path: &doc.path,
@@ -316,11 +316,11 @@ impl Autosaver {
             unstored: &self.unstored,
             project: &doc.project,
         };
-        let json = serde_json::to_vec(&rec).map_err(|e| format!("cannot encode the backup: {e}"))?;
+        let json = serde_json::to_vec(&rec).map_err(BackupError::Encode)?;
         std::fs::create_dir_all(&self.dir)
-            .map_err(|e| format!("cannot create {}: {e}", self.dir.display()))?;
+            .map_err(|error| BackupError::Folder { dir: self.dir.clone(), error })?;
         let path = self.path();
-        aggrade_core::io::write_bytes_atomic(&path, &json).map_err(|e| e.to_string())?;
+        aggrade_core::io::write_bytes_atomic(&path, &json)?;
         // The atomic writer keeps the previous version as NAME.bak; a backup needs no backup.
         let _ = std::fs::remove_file(aggrade_core::io::backup_path(&path));
         self.last_written_revision = Some(doc.revision);
@@ -352,6 +352,29 @@ impl Drop for Autosaver {
     }
 }
 
+/// Why a backup could not be written or read back.
+#[derive(Debug, thiserror::Error)]
+pub enum BackupError {
+    /// No lock could be taken on a backup file in the folder.
+    #[error("cannot take a lock in {}", .0.display())]
+    NoLock(PathBuf),
+    /// The document would not go into JSON.
+    #[error("cannot encode the backup: {0}")]
+    Encode(serde_json::Error),
+    /// The backup folder could not be made.
+    #[error("cannot create {}: {error}", dir.display())]
+    Folder { dir: PathBuf, error: std::io::Error },
+    /// The core's atomic writer failed (its message names the file).
+    #[error(transparent)]
+    Write(#[from] aggrade_core::io::SaveError),
+    /// The backup file could not be read.
+    #[error("cannot read it: {0}")]
+    Read(std::io::Error),
+    /// The backup file does not hold a backup.
+    #[error("the backup is damaged ({0})")]
+    Damaged(serde_json::Error),
+}
+
 /// A backup left by a window that is gone. Its lock is held while it is offered, so no other
 /// window offers it at the same time.
 #[derive(Debug)]
@@ -362,7 +385,7 @@ pub struct FoundBackup {
     /// The backup's file.
     pub path: PathBuf,
     /// What it holds, or why it cannot be read.
-    pub content: Result<Recovery, String>,
+    pub content: Result<Recovery, BackupError>,
     /// When it was written, seconds since 1970 (from the backup, else the file's time).
     pub saved_at_secs: i64,
 }
@@ -454,9 +477,9 @@ pub fn find_backups(data_dir: &Path) -> Vec<FoundBackup> {
 }
 
 fn read_found(path: PathBuf, lock: KeyLock, legacy_path: Option<PathBuf>) -> FoundBackup {
-    let content = std::fs::read(&path).map_err(|e| format!("cannot read it: {e}")).and_then(|b| {
-        serde_json::from_slice::<Recovery>(&b).map_err(|e| format!("the backup is damaged ({e})"))
-    });
+    let content = std::fs::read(&path)
+        .map_err(BackupError::Read)
+        .and_then(|b| serde_json::from_slice::<Recovery>(&b).map_err(BackupError::Damaged));
     let file_secs = std::fs::metadata(&path)
         .and_then(|m| m.modified())
         .ok()
@@ -470,13 +493,14 @@ fn read_found(path: PathBuf, lock: KeyLock, legacy_path: Option<PathBuf>) -> Fou
 
 /// Every backup in the data folder, whether its window is open or gone, without locking any
 /// (for tests and diagnostics: what is on disk right now).
-pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, String>)> {
+#[cfg(any(test, feature = "test-hooks"))]
+pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, BackupError>)> {
     backup_files(&backup_dir(data_dir))
         .into_iter()
         .map(|p| {
             let r = std::fs::read(&p)
-                .map_err(|e| e.to_string())
-                .and_then(|b| serde_json::from_slice::<Recovery>(&b).map_err(|e| e.to_string()));
+                .map_err(BackupError::Read)
+                .and_then(|b| serde_json::from_slice::<Recovery>(&b).map_err(BackupError::Damaged));
             (p, r)
         })
         .collect()
@@ -484,7 +508,8 @@ pub fn read_all_backups(data_dir: &Path) -> Vec<(PathBuf, Result<Recovery, Strin
 
 /// The first backup left by a window that is gone (for tests and scripts); its lock is
 /// released again at once.
-pub fn find_recovery(data_dir: &Path) -> Option<Result<Recovery, String>> {
+#[cfg(any(test, feature = "test-hooks"))]
+pub fn find_recovery(data_dir: &Path) -> Option<Result<Recovery, BackupError>> {
     find_backups(data_dir).into_iter().next().map(|f| f.content)
 }
 
@@ -505,13 +530,13 @@ mod tests {
         let dir = tempfile::tempdir().expect("temp dir");
         let mut doc = doc();
         let mut a = Autosaver::new(dir.path());
-        assert_eq!(a.tick(&doc, 0.0), Ok(false), "clean document written");
+        assert_eq!(a.tick(&doc, 0.0).ok(), Some(false), "clean document written");
         doc.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 2.5 }).expect("valid");
-        assert_eq!(a.tick(&doc, 10.0), Ok(true));
-        assert_eq!(a.tick(&doc, 20.0), Ok(false), "same revision written twice");
+        assert_eq!(a.tick(&doc, 10.0).ok(), Some(true));
+        assert_eq!(a.tick(&doc, 20.0).ok(), Some(false), "same revision written twice");
         doc.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 3.5 }).expect("valid");
-        assert_eq!(a.tick(&doc, 11.0), Ok(false), "written before the interval");
-        assert_eq!(a.tick(&doc, 13.5), Ok(true));
+        assert_eq!(a.tick(&doc, 11.0).ok(), Some(false), "written before the interval");
+        assert_eq!(a.tick(&doc, 13.5).ok(), Some(true));
         // Our own window holds the lock: another window finds nothing to offer.
         assert!(find_backups(dir.path()).is_empty(), "a living window's backup was offered");
         let written: Recovery =
@@ -575,7 +600,7 @@ mod tests {
         a.write_now(&d).expect("written");
         a.discard_and_stop();
         assert!(!a.path().exists());
-        assert_eq!(a.tick(&d, 1e9), Ok(false), "a discarded document was written again");
+        assert_eq!(a.tick(&d, 1e9).ok(), Some(false), "a discarded document was written again");
         assert!(!a.path().exists());
     }
 
@@ -585,7 +610,7 @@ mod tests {
         std::fs::create_dir_all(backup_dir(dir.path())).expect("dir");
         std::fs::write(backup_dir(dir.path()).join("window-1-2-3.json"), b"{\"project\": 12").expect("write");
         let err = find_recovery(dir.path()).expect("present").expect_err("damaged");
-        assert!(err.contains("damaged"), "{err}");
+        assert!(err.to_string().contains("damaged"), "{err}");
     }
 
     #[test]

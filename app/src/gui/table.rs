@@ -6,7 +6,7 @@ use super::document::{Document, Edit};
 use super::field::{mark_invalid, problem_label};
 use super::theme;
 use aggrade_core::io::limits::MAX_STRING_CHARS;
-use aggrade_core::io::validate::MAX_BED_THICKNESS_M;
+use aggrade_core::io::MAX_BED_THICKNESS_M;
 use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 
 /// The fields of the entry row.

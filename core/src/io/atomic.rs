@@ -2,22 +2,26 @@
 //! previous file as `NAME.bak`, then rename the new file over the old one. A crash or a failed
 //! write at any point leaves the previous file intact.
 
+use super::problem::{self, Problem};
 use std::fs::{self, File, OpenOptions};
 use std::io::{self, Write};
 use std::path::{Path, PathBuf};
 
-/// Why a file could not be saved.
+/// Why a file could not be saved. Each message is whole: it names the file, the step and the
+/// underlying error, which is kept as data (`error`) but not chained as a `source()`, so that a
+/// report walking the chain does not print it twice.
 #[derive(Debug, thiserror::Error)]
 pub enum SaveError {
     /// The file system refused a step; `step` says which.
-    #[error("{path}: could not {step}: {source}")]
-    Io { path: PathBuf, step: &'static str, source: io::Error },
-    /// The project breaks a rule and would not load again; nothing was written.
-    #[error("{path}: not saved, the project has problems:\n{problems}")]
-    Invalid { path: PathBuf, problems: String },
+    #[error("{path}: could not {step}: {error}")]
+    Io { path: PathBuf, step: &'static str, error: io::Error },
+    /// The project breaks a rule (or would be too large) and would not load again; nothing was
+    /// written.
+    #[error("{path}: not saved, the project has problems:\n{}", problem::list(.problems))]
+    Invalid { path: PathBuf, problems: Vec<Problem> },
     /// The project could not be turned into JSON.
-    #[error("{path}: could not encode the project: {source}")]
-    Encode { path: PathBuf, source: serde_json::Error },
+    #[error("{path}: could not encode the project: {error}")]
+    Encode { path: PathBuf, error: serde_json::Error },
 }
 
 /// The backup kept beside a saved file: `NAME.EXT.bak`.
@@ -29,7 +33,7 @@ pub fn backup_path(path: &Path) -> PathBuf {
 
 /// The temporary file used while saving: `.NAME.EXT.tmp` in the same folder (so the final rename
 /// stays on one file system).
-pub fn temp_path(path: &Path) -> PathBuf {
+pub(super) fn temp_path(path: &Path) -> PathBuf {
     let mut name = std::ffi::OsString::from(".");
     name.push(path.file_name().unwrap_or_default());
     name.push(".tmp");
@@ -40,9 +44,8 @@ pub fn temp_path(path: &Path) -> PathBuf {
 /// kept as [`backup_path`]. If `write` or any later step fails, the temporary file is removed
 /// and the file at `path` is as it was.
 pub fn write_atomic(path: &Path, write: impl FnOnce(&mut File) -> io::Result<()>) -> Result<(), SaveError> {
-    let err = |step: &'static str| {
-        move |source: io::Error| SaveError::Io { path: path.to_path_buf(), step, source }
-    };
+    let err =
+        |step: &'static str| move |error: io::Error| SaveError::Io { path: path.to_path_buf(), step, error };
     let tmp = temp_path(path);
     // A stale temporary file from a crash is ours to replace; anything else (a folder) is not.
     if tmp.is_file() {
@@ -130,6 +133,8 @@ mod tests {
         });
         let err = result.expect_err("must fail");
         assert!(err.to_string().contains("disk full"), "{err}");
+        // The cause is in the message once and not chained again.
+        assert!(std::error::Error::source(&err).is_none());
         assert_eq!(fs::read(&path).expect("read"), b"old");
         assert!(!temp_path(&path).exists(), "temporary file removed");
     }

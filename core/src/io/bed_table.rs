@@ -5,14 +5,19 @@
 //! Columns (header names are case-insensitive; spaces and hyphens count as underscores):
 //! - exactly one of `thickness_m`, `thickness_cm`, `thickness_ft` (required, > 0);
 //! - `lithology` (required): one of the lithology vocabulary;
-//! - `grain` or `grain_base` / `grain_top`: a Wentworth class name (`fine sand`, `fine_sand`) or a
-//!   number with `mm` or `phi`; empty for covered intervals, optional for non-clastic rocks,
-//!   required for clastic ones. When only one of base/top is filled the other takes its value;
-//! - `base_contact` (sharp when empty, erosional, gradational); `base_relief_m` (≥ 0);
-//! - `structures`, `paleosol_features`, `samples`: lists separated by `;`;
-//! - `paleosol` (none when empty, weak, moderate, strong, very strong); `carbonate_stage` (1–6 or
+//! - `grain` or `grain_base` / `grain_top`: a Wentworth class name (`fine sand`, `fine_sand`), its
+//!   code (`vf`, `m`, `gr`) or a number with `mm` or `phi`; `grain` may hold base and top in the
+//!   compact notation (`c-m`: coarse fining to medium sand). Empty for covered intervals, optional
+//!   for non-clastic rocks, required for clastic ones. When only one of base/top is filled the
+//!   other takes its value;
+//! - `base_contact` (sharp when empty, erosional, gradational, or `s`, `e`, `g`; `e1.2` also
+//!   gives the relief when `base_relief_m` is empty); `base_relief_m` (≥ 0);
+//! - `structures`, `paleosol_features`: full names separated by `;`, or codes separated by spaces
+//!   or commas (`tcb la`); `samples`: a list separated by `;`;
+//! - `paleosol` (none when empty, weak, moderate, strong, very strong, or `w`, `m`, `s`, `vs`,
+//!   optionally followed by feature codes and a stage: `s cn rt III`); `carbonate_stage` (1–6 or
 //!   I–VI);
-//! - `paleocurrents`: azimuths in degrees (0–360) separated by `;`;
+//! - `paleocurrents`: azimuths in degrees (0–360) separated by `;`, commas or spaces;
 //! - `surface`: name of a surface at the bed's base; `surface_kind` (optional): its kind, else
 //!   inferred by [`infer_surface_kind`];
 //! - `colour` (or `color`), `fossils`, `notes`: free text;
@@ -22,6 +27,9 @@
 //!
 //! There is no header block: the section takes its name from the caller (the file stem) and its
 //! display unit from the thickness column (ft for `thickness_ft`, cm for `thickness_cm`).
+//!
+//! The codes are those of the compact notation the bed table in the window takes
+//! ([`crate::model::shorthand`]).
 //!
 //! Cells are trimmed of surrounding spaces, and `;` separates list items, so a note with edge
 //! spaces or a sample name containing `;` does not survive a CSV round trip (the project file
@@ -41,6 +49,7 @@ use super::migrate::infer_surface_kind;
 use super::problem::Problem;
 use super::validate::validate_section;
 use crate::model::grain::normalise_term;
+use crate::model::shorthand::{self, Term};
 use crate::model::{
     BaseRank, Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
     Section, Structure, Surface, SurfaceKind,
@@ -234,27 +243,33 @@ impl Row<'_> {
 
     fn grain(&mut self, column: &str, cell: Option<&str>) -> Option<GrainSize> {
         let cell = cell.filter(|c| !c.is_empty())?;
-        match GrainSize::parse(cell) {
+        match shorthand::grain_from_code(cell) {
             Ok(g) => Some(g),
             Err(e) => {
-                self.bad(column, e);
+                self.bad(column, e.to_string());
                 None
             }
         }
     }
 
-    fn list<T>(
-        &mut self,
-        column: &str,
-        cell: Option<&str>,
-        parse: impl Fn(&str) -> Option<T>,
-        valid: impl Fn() -> String,
-    ) -> Vec<T> {
-        let mut out = Vec::new();
-        for item in cell.unwrap_or("").split(';').map(str::trim).filter(|s| !s.is_empty()) {
-            match parse(item) {
-                Some(v) => out.push(v),
-                None => self.bad(column, format!("{item:?} is not known; valid values are {}", valid())),
+    /// A list cell of vocabulary terms: full names separated by `;`, or codes of the compact
+    /// notation ([`shorthand`]) separated by spaces or commas; each bad item is reported and
+    /// the rest kept.
+    fn terms<T: Term>(&mut self, column: &str, cell: Option<&str>, what: &'static str) -> Vec<T> {
+        let mut out: Vec<T> = Vec::new();
+        for piece in cell.unwrap_or("").split(';').map(str::trim).filter(|s| !s.is_empty()) {
+            match shorthand::terms_from_codes::<T>(piece, what) {
+                Ok(found) => out.extend(found.into_iter().filter(|t| !out.contains(t)).collect::<Vec<_>>()),
+                Err(_) => {
+                    for code in piece.split(|c: char| c.is_whitespace() || c == ',').filter(|c| !c.is_empty())
+                    {
+                        match shorthand::term_from_code::<T>(code, what) {
+                            Ok(t) if !out.contains(&t) => out.push(t),
+                            Ok(_) => {}
+                            Err(e) => self.bad(column, e.to_string()),
+                        }
+                    }
+                }
             }
         }
         out
@@ -403,8 +418,14 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             }),
         };
         let (mut grain_base, mut grain_top) = if columns.index.contains_key("grain") {
-            let g = row.grain("grain", columns.cell(&record, "grain"));
-            (g, g)
+            // One grain size, or base and top in the compact notation (`c-m`).
+            match shorthand::grain_range(columns.cell(&record, "grain").unwrap_or("")) {
+                Ok(pair) => pair,
+                Err(e) => {
+                    row.bad("grain", e.to_string());
+                    (None, None)
+                }
+            }
         } else {
             (
                 row.grain("grain_base", columns.cell(&record, "grain_base")),
@@ -417,18 +438,20 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         if grain_top.is_none() {
             grain_top = grain_base;
         }
-        let base_contact = match columns.cell(&record, "base_contact").unwrap_or("") {
-            "" => Contact::Sharp,
-            cell => Contact::parse(cell).unwrap_or_else(|| {
-                row.bad(
-                    "base_contact",
-                    format!("{cell:?} is not known; valid values are {}", Contact::valid_list()),
-                );
-                Contact::Sharp
-            }),
+        // A contact by name or code, with its relief in metres typed after it (`e1.2`) when the
+        // relief column is empty.
+        let (base_contact, relief_in_contact) = match columns.cell(&record, "base_contact").unwrap_or("") {
+            "" => (Contact::Sharp, None),
+            cell => match shorthand::contact_entry(cell) {
+                Ok(entry) => (entry.contact, entry.relief),
+                Err(e) => {
+                    row.bad("base_contact", e.to_string());
+                    (Contact::Sharp, None)
+                }
+            },
         };
         let base_relief_m = match columns.cell(&record, "base_relief_m").unwrap_or("") {
-            "" => None,
+            "" => relief_in_contact,
             cell => row.number("base_relief_m", cell, "a relief in m ≥ 0").and_then(|v| {
                 if v >= 0.0 {
                     Some(v)
@@ -438,12 +461,8 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 }
             }),
         };
-        let structures = row.list(
-            "structures",
-            columns.cell(&record, "structures"),
-            Structure::parse,
-            Structure::valid_list,
-        );
+        let structures: Vec<Structure> =
+            row.terms("structures", columns.cell(&record, "structures"), "structure");
         let base_rank = match columns.cell(&record, "base_rank").unwrap_or("") {
             "" => None,
             cell => BaseRank::parse(cell).or_else(|| {
@@ -454,31 +473,49 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 None
             }),
         };
-        let paleosol = match columns.cell(&record, "paleosol").unwrap_or("") {
-            "" => PaleosolDevelopment::None,
-            cell => PaleosolDevelopment::parse(cell).unwrap_or_else(|| {
-                row.bad(
-                    "paleosol",
-                    format!("{cell:?} is not known; valid values are {}", PaleosolDevelopment::valid_list()),
-                );
-                PaleosolDevelopment::None
-            }),
-        };
-        let paleosol_features = row.list(
-            "paleosol_features",
-            columns.cell(&record, "paleosol_features"),
-            PaleosolFeature::parse,
-            PaleosolFeature::valid_list,
-        );
+        // Development by name or code; the compact notation may add features and a carbonate
+        // stage in the same cell (`s cn rt III`).
+        let (paleosol, features_in_paleosol, stage_in_paleosol) =
+            match columns.cell(&record, "paleosol").unwrap_or("") {
+                "" => (PaleosolDevelopment::None, Vec::new(), None),
+                cell => match PaleosolDevelopment::parse(cell)
+                    .map(|d| {
+                        Ok(shorthand::PaleosolEntry {
+                            development: d,
+                            features: Vec::new(),
+                            carbonate_stage: None,
+                        })
+                    })
+                    .unwrap_or_else(|| shorthand::paleosol_entry(cell))
+                {
+                    Ok(entry) => (entry.development, entry.features, entry.carbonate_stage),
+                    Err(e) => {
+                        row.bad("paleosol", e.to_string());
+                        (PaleosolDevelopment::None, Vec::new(), None)
+                    }
+                },
+            };
+        let mut paleosol_features: Vec<PaleosolFeature> =
+            row.terms("paleosol_features", columns.cell(&record, "paleosol_features"), "paleosol feature");
+        for f in features_in_paleosol {
+            if !paleosol_features.contains(&f) {
+                paleosol_features.push(f);
+            }
+        }
         let carbonate_stage = match columns.cell(&record, "carbonate_stage").unwrap_or("") {
-            "" => None,
+            "" => stage_in_paleosol,
             cell => parse_stage(cell).or_else(|| {
                 row.bad("carbonate_stage", format!("{cell:?} is not a carbonate stage; use 1–6 or I–VI"));
                 None
             }),
         };
         let mut paleocurrents_deg = Vec::new();
-        for item in columns.cell(&record, "paleocurrents").unwrap_or("").split(';').map(str::trim) {
+        for item in columns
+            .cell(&record, "paleocurrents")
+            .unwrap_or("")
+            .split(|c: char| c == ';' || c == ',' || c.is_whitespace())
+            .map(str::trim)
+        {
             if item.is_empty() {
                 continue;
             }

@@ -1,25 +1,17 @@
 //! Field-by-field check of a measured curve in project JSON, so that a wrong field is named
 //! (serde alone reports only "invalid type" for the curve as a whole).
 
-use super::project_reader::describe;
+use super::field_check::{check, describe, first_wrong_field, FieldCheck};
 use crate::model::{IndexDirection, MeasuredCurve};
-use serde::de::DeserializeOwned;
 use serde::Deserialize;
 use serde_json::Value;
 
 /// The fields of a measured curve in project JSON (others are warned about and ignored).
-pub(crate) const CURVE_FIELDS: &[&str] =
+pub(super) const CURVE_FIELDS: &[&str] =
     &["mnemonic", "unit", "description", "source_file", "offset_m", "direction", "samples"];
 
-fn field<T: DeserializeOwned>(v: &Value) -> Result<(), String> {
-    T::deserialize(v).map(|_| ()).map_err(|e| e.to_string())
-}
-
 /// Check one item of a section's `curves` list; the error names the field (and sample) at fault.
-/// Checks one field's value, giving what was wrong with it.
-type FieldCheck = fn(&Value) -> Result<(), String>;
-
-pub(crate) fn check_curve(v: &Value) -> Result<(), String> {
+pub(super) fn check_curve(v: &Value) -> Result<(), String> {
     if MeasuredCurve::deserialize(v).is_ok() {
         return Ok(());
     }
@@ -27,20 +19,14 @@ pub(crate) fn check_curve(v: &Value) -> Result<(), String> {
         return Err(format!("a measured curve must be an object {{ … }}, got {}", describe(v)));
     };
     let checks: [(&str, bool, FieldCheck); 6] = [
-        ("mnemonic", true, field::<String>),
-        ("unit", false, field::<String>),
-        ("description", false, field::<String>),
-        ("source_file", false, field::<String>),
-        ("offset_m", true, field::<f64>),
-        ("direction", true, field::<IndexDirection>),
+        ("mnemonic", true, check::<String>),
+        ("unit", false, check::<String>),
+        ("description", false, check::<String>),
+        ("source_file", false, check::<String>),
+        ("offset_m", true, check::<f64>),
+        ("direction", true, check::<IndexDirection>),
     ];
-    for (name, required, check) in checks {
-        match obj.get(name) {
-            None if required => return Err(format!("{name}: required field is missing")),
-            None => {}
-            Some(value) => check(value).map_err(|e| format!("{name}: {e}"))?,
-        }
-    }
+    first_wrong_field(obj, &checks)?;
     match obj.get("samples") {
         None => return Err("samples: required field is missing".into()),
         Some(Value::Array(items)) => {

@@ -1,6 +1,7 @@
 //! A light pass over JSON text that needs no parse tree: it enforces the nesting, array-length
-//! and string-length limits before a parser allocates anything, and finds the line on which a
-//! JSON path's value starts (for error messages).
+//! and string-length limits before a parser allocates anything, lists the fields a project file
+//! should not have, and finds the line on which a JSON path's value starts (for error messages;
+//! serde gives a line only for syntax errors).
 
 use super::limits::{MAX_ARRAY_ITEMS, MAX_JSON_DEPTH, MAX_STRING_CHARS};
 use super::problem::Problem;
@@ -31,11 +32,12 @@ enum Role {
     Other,
 }
 
-/// Known field names of the project root, a section and a bed.
-pub struct KnownFields<'a> {
-    pub project: &'a [&'a str],
-    pub section: &'a [&'a str],
-    pub bed: &'a [&'a str],
+/// Known field names of the project root, a section, a bed and a measured curve.
+pub struct KnownFields {
+    pub project: Vec<&'static str>,
+    pub section: Vec<&'static str>,
+    pub bed: Vec<&'static str>,
+    pub curve: Vec<&'static str>,
 }
 
 /// What the scan visits: each value's path (when asked for) and line.
@@ -44,7 +46,7 @@ struct Scanner<'a> {
     pos: usize,
     line: usize,
     stack: Vec<Frame>,
-    known: Option<&'a KnownFields<'a>>,
+    known: Option<&'a KnownFields>,
     /// Fields not in `known`: (path, line).
     unknown: Vec<(String, usize)>,
 }
@@ -197,11 +199,11 @@ impl<'a> Scanner<'a> {
                             top.key.push_str(&key);
                         }
                         if let (Some(known), Some(top)) = (self.known, self.stack.last()) {
-                            let list = match top.role {
-                                Role::Root => known.project,
-                                Role::Section => known.section,
-                                Role::Bed => known.bed,
-                                Role::Curve => super::curve_fields::CURVE_FIELDS,
+                            let list: &[&str] = match top.role {
+                                Role::Root => &known.project,
+                                Role::Section => &known.section,
+                                Role::Bed => &known.bed,
+                                Role::Curve => &known.curve,
                                 _ => &[],
                             };
                             if !list.is_empty() && !list.contains(&key.as_ref()) {
@@ -273,12 +275,13 @@ fn escape_len(bytes: &[u8], at: usize) -> usize {
 }
 
 /// Enforce [`MAX_JSON_DEPTH`], [`MAX_ARRAY_ITEMS`] and [`MAX_STRING_CHARS`] without building a tree.
+#[cfg(any(test, feature = "internals"))]
 pub fn check_limits(text: &str) -> Result<(), Problem> {
     Scanner::new(text).run(|_, _| {})
 }
 
 /// Like [`check_limits`], and also list the fields of the root, sections and beds that are not
-/// in `known`, and the fields of measured curves that a curve does not have, as (path, line).
+/// in `known` (measured curves too), as (path, line).
 pub fn check_limits_and_fields(text: &str, known: &KnownFields) -> Result<Vec<(String, usize)>, Problem> {
     let mut scanner = Scanner::new(text);
     scanner.known = Some(known);
@@ -327,118 +330,6 @@ pub fn lines_of(text: &str, wanted: &[&str]) -> HashMap<String, usize> {
     out
 }
 
-/// Where the JSON value starting at `at` (after any white space) ends. The text must be valid
-/// JSON (checked before): this only skips strings and balanced brackets.
-fn value_end(bytes: &[u8], at: usize) -> usize {
-    let i = skip_space(bytes, at);
-    match bytes.get(i) {
-        Some(b'"') => string_end(bytes, i),
-        Some(b'{' | b'[') => {
-            let mut depth = 0usize;
-            let mut j = i;
-            while j < bytes.len() {
-                match bytes[j] {
-                    b'"' => {
-                        j = string_end(bytes, j);
-                        continue;
-                    }
-                    b'{' | b'[' => depth += 1,
-                    b'}' | b']' => {
-                        depth = depth.saturating_sub(1);
-                        if depth == 0 {
-                            return j + 1;
-                        }
-                    }
-                    _ => {}
-                }
-                j += 1;
-            }
-            j
-        }
-        // A number, true, false or null: up to the next delimiter.
-        _ => {
-            let mut j = i;
-            while j < bytes.len() && !matches!(bytes[j], b',' | b'}' | b']' | b' ' | b'\t' | b'\n' | b'\r') {
-                j += 1;
-            }
-            j
-        }
-    }
-}
-
-/// The index just past the string whose opening quote is at `at`.
-fn string_end(bytes: &[u8], at: usize) -> usize {
-    let mut i = at + 1;
-    while i < bytes.len() {
-        match bytes[i] {
-            b'\\' => i += 2,
-            b'"' => return i + 1,
-            _ => i += 1,
-        }
-    }
-    bytes.len()
-}
-
-fn skip_space(bytes: &[u8], mut i: usize) -> usize {
-    while i < bytes.len() && matches!(bytes[i], b' ' | b'\t' | b'\n' | b'\r') {
-        i += 1;
-    }
-    i
-}
-
-/// The items of a JSON array as slices of its text; `None` if the text is not an array. The text
-/// must be valid JSON (checked before).
-pub fn array_items(text: &str) -> Option<Vec<&str>> {
-    let bytes = text.as_bytes();
-    let mut i = skip_space(bytes, 0);
-    if bytes.get(i) != Some(&b'[') {
-        return None;
-    }
-    i = skip_space(bytes, i + 1);
-    let mut items = Vec::new();
-    if bytes.get(i) == Some(&b']') {
-        return Some(items);
-    }
-    loop {
-        let start = skip_space(bytes, i);
-        let end = value_end(bytes, start);
-        items.push(&text[start..end]);
-        i = skip_space(bytes, end);
-        match bytes.get(i) {
-            Some(b',') => i += 1,
-            _ => return Some(items),
-        }
-    }
-}
-
-/// The fields of a JSON object as (key text with its quotes, value text) slices in file order;
-/// `None` if the text is not an object. The text must be valid JSON (checked before).
-pub fn object_fields(text: &str) -> Option<Vec<(&str, &str)>> {
-    let bytes = text.as_bytes();
-    let mut i = skip_space(bytes, 0);
-    if bytes.get(i) != Some(&b'{') {
-        return None;
-    }
-    i = skip_space(bytes, i + 1);
-    let mut fields = Vec::new();
-    if bytes.get(i) == Some(&b'}') {
-        return Some(fields);
-    }
-    loop {
-        let key_start = skip_space(bytes, i);
-        let key_end = string_end(bytes, key_start);
-        let colon = skip_space(bytes, key_end);
-        let start = skip_space(bytes, colon + 1);
-        let end = value_end(bytes, start);
-        fields.push((&text[key_start..key_end], &text[start..end]));
-        i = skip_space(bytes, end);
-        match bytes.get(i) {
-            Some(b',') => i += 1,
-            _ => return Some(fields),
-        }
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -470,7 +361,12 @@ mod tests {
 
     #[test]
     fn lists_unknown_fields_of_sections_and_beds() {
-        let known = KnownFields { project: &["sections"], section: &["name", "beds"], bed: &["id"] };
+        let known = KnownFields {
+            project: vec!["sections"],
+            section: vec!["name", "beds"],
+            bed: vec!["id"],
+            curve: vec!["mnemonic"],
+        };
         let unknown = check_limits_and_fields(TEXT, &known).expect("within limits");
         assert_eq!(
             unknown,
@@ -479,24 +375,6 @@ mod tests {
                 ("sections[0].beds[1].thickness_m".to_string(), 8)
             ]
         );
-    }
-
-    #[test]
-    fn splits_arrays_and_objects_into_their_text() {
-        let text = " [ {\"a\": [1, {\"b\": \"]}\\\"\"}]} , -1.5e3,\"x,\\\"y\" ,true,null,[],{} ] ";
-        let items = array_items(text).expect("an array");
-        assert_eq!(
-            items,
-            ["{\"a\": [1, {\"b\": \"]}\\\"\"}]}", "-1.5e3", "\"x,\\\"y\"", "true", "null", "[]", "{}"]
-        );
-        let fields = object_fields(items[0]).expect("an object");
-        assert_eq!(fields, [("\"a\"", "[1, {\"b\": \"]}\\\"\"}]")]);
-        let fields = object_fields("{ \"k\\\"\" :1 ,\"k\":\"v\"}").expect("an object");
-        assert_eq!(fields, [("\"k\\\"\"", "1"), ("\"k\"", "\"v\"")]);
-        assert_eq!(array_items("[ ]"), Some(vec![]));
-        assert_eq!(object_fields("{}"), Some(vec![]));
-        assert_eq!(array_items("{}"), None);
-        assert_eq!(object_fields(" 5"), None);
     }
 
     /// A `notes` value written as `body`, `n` times, inside a JSON object.

@@ -10,8 +10,8 @@
 //! - a surface was a bare name, `"surface": "SB-1"`; v1 stores `"base_surface": {name, kind}`,
 //!   the kind inferred by [`infer_surface_kind`].
 
+use super::field_check::describe;
 use super::problem::Problem;
-use super::project_reader::describe;
 use crate::model::{Contact, LengthUnit, PaleosolDevelopment, SurfaceKind};
 use serde_json::{Map, Value};
 

@@ -4,7 +4,7 @@
 use super::json_scan;
 use super::migrate;
 use super::problem::Problem;
-use super::project_reader::{self, read_project, read_project_raw};
+use super::project_reader::{self, read_project, read_project_raw, FieldRead};
 use super::validate::validate_project;
 use crate::model::Project;
 use serde_json::Value;
@@ -22,8 +22,7 @@ pub struct ProjectRead {
 pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
     // A byte-order mark (written by some Windows editors) is not JSON; skip it.
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    let (project_names, section_names, bed_names) = project_reader::known_field_names();
-    let known = json_scan::KnownFields { project: &project_names, section: &section_names, bed: &bed_names };
+    let known = project_reader::known_fields();
     let unknown = json_scan::check_limits_and_fields(text, &known).map_err(|p| vec![p])?;
     // Fast path: a valid current-version file deserialises directly, without a JSON tree (about a
     // third of the time). Anything else takes the slow path below, which names every problem.
@@ -112,14 +111,15 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
             format!("read a version 0 file; saving writes version {}", Project::CURRENT_VERSION),
         ));
     }
-    let (project, read_problems, read_warnings) = if version == 0 && project_reader::is_object(text) {
-        // Version 0 is migrated as a tree.
-        let mut root: Value = serde_json::from_str(text).map_err(syntax_problem)?;
-        problems.extend(migrate::v0_to_v1(&mut root));
-        read_project(&root)
-    } else {
-        read_project_raw(text, &project_reader::beds_with_unknown_fields(&unknown))
-    };
+    let FieldRead { project, problems: read_problems, warnings: read_warnings } =
+        if version == 0 && project_reader::is_object(text) {
+            // Version 0 is migrated as a tree.
+            let mut root: Value = serde_json::from_str(text).map_err(syntax_problem)?;
+            problems.extend(migrate::v0_to_v1(&mut root));
+            read_project(&root)
+        } else {
+            read_project_raw(text, &project_reader::beds_with_unknown_fields(&unknown))
+        };
     problems.extend(read_problems);
     warnings.extend(read_warnings);
     if let Some(project) = &project {

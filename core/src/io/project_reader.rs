@@ -1,9 +1,12 @@
 //! Builds a [`Project`] from JSON field by field, so that every wrong field is reported with its
 //! path (serde alone stops at the first) and unknown fields become warnings. The JSON is either a
 //! parsed tree or raw text whose beds are read one by one straight into the typed model (a tree
-//! is built only for a bed or section that needs its fields named).
+//! is built only for a bed or section that needs its fields named). Raw text is split into its
+//! sections and beds by serde_json itself: each is a [`RawValue`], a checked slice of the file.
 
-use super::json_scan::{array_items, object_fields};
+use super::curve_fields::{check_curve, CURVE_FIELDS};
+use super::field_check::{check, describe, first_wrong_field, FieldCheck};
+use super::json_scan::KnownFields;
 use super::problem::Problem;
 use crate::model::{
     BaseRank, Bed, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
@@ -11,6 +14,7 @@ use crate::model::{
 };
 use serde::de::{DeserializeOwned, MapAccess, SeqAccess, Visitor};
 use serde::Deserialize;
+use serde_json::value::RawValue;
 use serde_json::{Map, Value};
 use std::borrow::Cow;
 use std::collections::{HashMap, HashSet};
@@ -19,14 +23,10 @@ use std::fmt;
 /// How a field is checked before the whole object is deserialised.
 #[derive(Clone, Copy)]
 enum Kind {
-    Required(fn(&Value) -> Result<(), String>),
-    Optional(fn(&Value) -> Result<(), String>),
+    Required(FieldCheck),
+    Optional(FieldCheck),
     /// An array whose items are each checked (and reported with their index).
-    List(fn(&Value) -> Result<(), String>),
-}
-
-fn check<T: DeserializeOwned>(v: &Value) -> Result<(), String> {
-    T::deserialize(v).map(|_| ()).map_err(|e| e.to_string())
+    List(FieldCheck),
 }
 
 fn string_list(v: &Value) -> Result<(), String> {
@@ -37,20 +37,13 @@ fn string_list(v: &Value) -> Result<(), String> {
 fn check_review(v: &Value) -> Result<(), String> {
     let whole = check::<ReviewDecision>(v);
     let Some(obj) = v.as_object() else { return whole };
-    type Check = fn(&Value) -> Result<(), String>;
-    let fields: [(&str, bool, Check); 4] = [
+    let fields: [(&str, bool, FieldCheck); 4] = [
         ("bed", true, check::<u64>),
         ("state", true, check::<crate::model::ReviewState>),
         ("note", false, check::<String>),
         ("link", false, check::<Option<String>>),
     ];
-    for (name, required, f) in fields {
-        match obj.get(name) {
-            None if required => return Err(format!("{name}: required field is missing")),
-            None => {}
-            Some(value) => f(value).map_err(|e| format!("{name}: {e}"))?,
-        }
-    }
+    first_wrong_field(obj, &fields)?;
     whole
 }
 
@@ -68,7 +61,7 @@ const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("beds", Kind::List(|_| Ok(()))),
     ("review", Kind::List(check_review)),
     ("panel_position_m", Kind::Optional(check::<Option<f64>>)),
-    ("curves", Kind::List(super::curve_fields::check_curve)),
+    ("curves", Kind::List(check_curve)),
 ];
 
 const BED_FIELDS: &[(&str, Kind)] = &[
@@ -97,15 +90,21 @@ fn names(table: &[(&'static str, Kind)]) -> Vec<&'static str> {
     table.iter().map(|(n, _)| *n).collect()
 }
 
-/// Known field names of the project root, sections and beds (for the scanner's check).
-pub fn known_field_names() -> (Vec<&'static str>, Vec<&'static str>, Vec<&'static str>) {
-    (names(PROJECT_FIELDS), names(SECTION_FIELDS), names(BED_FIELDS))
+/// Known field names of the project root, sections, beds and measured curves (for the scanner's
+/// check).
+pub fn known_fields() -> KnownFields {
+    KnownFields {
+        project: names(PROJECT_FIELDS),
+        section: names(SECTION_FIELDS),
+        bed: names(BED_FIELDS),
+        curve: CURVE_FIELDS.to_vec(),
+    }
 }
 
 /// Known fields as a sentence tail for warnings.
-pub fn known_list(role: &str) -> String {
+pub(super) fn known_list(role: &str) -> String {
     if role == "curve" {
-        return super::curve_fields::CURVE_FIELDS.join(", ");
+        return CURVE_FIELDS.join(", ");
     }
     let table = match role {
         "bed" => BED_FIELDS,
@@ -173,18 +172,6 @@ fn check_fields(
     unknown_fields(obj, path, table, warnings);
 }
 
-/// A short description of a JSON value's type for messages.
-pub(crate) fn describe(v: &Value) -> String {
-    match v {
-        Value::Null => "null".into(),
-        Value::Bool(b) => format!("{b}"),
-        Value::Number(n) => format!("the number {n}"),
-        Value::String(s) => format!("the text {:?}", s.chars().take(60).collect::<String>()),
-        Value::Array(_) => "a list".into(),
-        Value::Object(_) => "an object".into(),
-    }
-}
-
 /// Deserialise a value already checked field by field; a failure here is reported at `path`.
 fn build<T: DeserializeOwned>(v: &Value, path: &str, problems: &mut Vec<Problem>) -> Option<T> {
     match T::deserialize(v) {
@@ -217,13 +204,45 @@ fn raw_to_value(raw: &str) -> Value {
     serde_json::from_str(raw).unwrap_or(Value::Null)
 }
 
+/// The items of a raw array as slices of its text (serde_json's [`RawValue`]); `None` if the text
+/// is not an array.
+fn raw_items(raw: &str) -> Option<Vec<&str>> {
+    let items: Vec<&RawValue> = serde_json::from_str(raw).ok()?;
+    Some(items.into_iter().map(RawValue::get).collect())
+}
+
+/// An object's fields in file order, each value a slice of the text, repeated keys included.
+struct RawObject<'a>(Vec<(String, &'a RawValue)>);
+
+impl<'de> Deserialize<'de> for RawObject<'de> {
+    fn deserialize<D: serde::Deserializer<'de>>(deserializer: D) -> Result<Self, D::Error> {
+        struct Fields;
+        impl<'de> Visitor<'de> for Fields {
+            type Value = RawObject<'de>;
+            fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+                f.write_str("a JSON object")
+            }
+            fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<RawObject<'de>, A::Error> {
+                let mut fields = Vec::new();
+                while let Some(entry) = map.next_entry::<String, &'de RawValue>()? {
+                    fields.push(entry);
+                }
+                Ok(RawObject(fields))
+            }
+        }
+        deserializer.deserialize_map(Fields)
+    }
+}
+
 /// The fields of a raw object as a tree reads them: keys unescaped, the last of a repeated key
-/// winning (in the place of the first, as the tree's map keeps it).
+/// winning (in the place of the first, as the tree's map keeps it); `None` if the text is not an
+/// object.
 fn raw_fields(raw: &str) -> Option<Vec<(String, &str)>> {
+    let RawObject(fields) = serde_json::from_str(raw).ok()?;
     let mut out: Vec<(String, &str)> = Vec::new();
     let mut seen: HashMap<String, usize> = HashMap::new();
-    for (key, value) in object_fields(raw)? {
-        let key: String = serde_json::from_str(key).unwrap_or_default();
+    for (key, value) in fields {
+        let value = value.get();
         match seen.get(&key) {
             Some(&k) => out[k].1 = value,
             None => {
@@ -290,7 +309,7 @@ impl<'a> Node<'a> {
                 let mut fields = Map::new();
                 let mut items = None;
                 for (k, v) in raw_fields(r)? {
-                    let list = if k == list_key { array_items(v) } else { None };
+                    let list = if k == list_key { raw_items(v) } else { None };
                     match list {
                         Some(list) => {
                             items = Some(list.into_iter().map(Node::Raw).collect());
@@ -340,9 +359,19 @@ pub fn beds_with_unknown_fields(unknown: &[(String, usize)]) -> BedsToCheck {
         .collect()
 }
 
-/// Read a version-current project tree. Returns the project when there were no problems, plus
-/// the problems and the warnings (both located by JSON path).
-pub fn read_project(root: &Value) -> (Option<Project>, Vec<Problem>, Vec<Problem>) {
+/// What reading a project field by field found, located by JSON path.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FieldRead {
+    /// The project, when there were no problems.
+    pub project: Option<Project>,
+    /// Every problem found, in reading order.
+    pub problems: Vec<Problem>,
+    /// Fields that are read past (unknown fields).
+    pub warnings: Vec<Problem>,
+}
+
+/// Read a version-current project tree.
+pub fn read_project(root: &Value) -> FieldRead {
     read_node(Node::Tree(root), &BedsToCheck::new())
 }
 
@@ -351,11 +380,11 @@ pub fn read_project(root: &Value) -> (Option<Project>, Vec<Problem>, Vec<Problem
 /// into a tree, without building the tree: each bed goes straight into a [`Bed`], and only a bed
 /// that fails, or is listed in `check` (it may hold unknown fields), is parsed and checked
 /// field by field.
-pub fn read_project_raw(root: &str, check: &BedsToCheck) -> (Option<Project>, Vec<Problem>, Vec<Problem>) {
+pub fn read_project_raw(root: &str, check: &BedsToCheck) -> FieldRead {
     read_node(Node::Raw(root), check)
 }
 
-fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Problem>, Vec<Problem>) {
+fn read_node(root: Node<'_>, check: &BedsToCheck) -> FieldRead {
     let mut problems = Vec::new();
     let mut warnings = Vec::new();
     let Some(Split { fields: obj, items: section_nodes }) = root.split("sections") else {
@@ -363,7 +392,7 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Probl
             "",
             format!("a project file must hold a JSON object {{ … }}, got {}", root.describe()),
         ));
-        return (None, problems, warnings);
+        return FieldRead { project: None, problems, warnings };
     };
     check_fields(&obj, "", PROJECT_FIELDS, &mut problems, &mut warnings);
     let format_version = obj.get("format_version").and_then(Value::as_u64).unwrap_or(0) as u32;
@@ -386,7 +415,7 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Probl
             for (k, c) in curves.iter().enumerate() {
                 if let Some(cobj) = c.as_object() {
                     let cpath = format!("{path}.curves[{k}]");
-                    unknown_field_names(cobj, &cpath, super::curve_fields::CURVE_FIELDS, &mut warnings);
+                    unknown_field_names(cobj, &cpath, CURVE_FIELDS, &mut warnings);
                 }
             }
         }
@@ -418,11 +447,8 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> (Option<Project>, Vec<Probl
             }
         }
     }
-    if problems.is_empty() {
-        (Some(Project { format_version, sections }), problems, warnings)
-    } else {
-        (None, problems, warnings)
-    }
+    let project = problems.is_empty().then_some(Project { format_version, sections });
+    FieldRead { project, problems, warnings }
 }
 
 /// Read one bed from a tree: every bad field named, unknown fields as warnings.
@@ -530,7 +556,7 @@ mod tests {
                 ]
             }]
         });
-        let (project, problems, warnings) = read_project(&v);
+        let FieldRead { project, problems, warnings } = read_project(&v);
         assert!(project.is_none());
         let locs: Vec<&str> = problems.iter().map(|p| p.location.as_str()).collect();
         assert_eq!(
@@ -550,9 +576,31 @@ mod tests {
     fn reads_a_valid_tree() {
         let v = json!({"format_version": 1, "sections": [{"name": "A", "beds": [
             {"id": 1, "thickness_m": 2.5, "lithology": "sandstone", "grain_base": "coarse sand", "grain_top": "0.2mm"}]}]});
-        let (project, problems, warnings) = read_project(&v);
+        let FieldRead { project, problems, warnings } = read_project(&v);
         assert!(problems.is_empty() && warnings.is_empty(), "{problems:?} {warnings:?}");
         let project = project.expect("project");
         assert_eq!(project.sections[0].beds[0].thickness_m, 2.5);
+    }
+
+    #[test]
+    fn splits_raw_arrays_and_objects_into_their_text() {
+        let text = " [ {\"a\": [1, {\"b\": \"]}\\\"\"}]} , -1.5e3,\"x,\\\"y\" ,true,null,[],{} ] ";
+        let items = raw_items(text).expect("an array");
+        assert_eq!(
+            items,
+            ["{\"a\": [1, {\"b\": \"]}\\\"\"}]}", "-1.5e3", "\"x,\\\"y\"", "true", "null", "[]", "{}"]
+        );
+        let fields = raw_fields(items[0]).expect("an object");
+        assert_eq!(fields, [("a".to_string(), "[1, {\"b\": \"]}\\\"\"}]")]);
+        // Keys unescaped; a repeated key keeps the first place and the last value, as a tree does.
+        let fields = raw_fields("{ \"k\\\"\" :1 ,\"k\":\"v\", \"k\\\"\": 2}").expect("an object");
+        assert_eq!(fields, [("k\"".to_string(), "2"), ("k".to_string(), "\"v\"")]);
+        // Each slice is the file's own text, so its offset in the file is known.
+        let inner = items[1];
+        assert_eq!(inner.as_ptr() as usize - text.as_ptr() as usize, text.find("-1.5e3").expect("in text"));
+        assert_eq!(raw_items("[ ]"), Some(vec![]));
+        assert_eq!(raw_fields("{}"), Some(vec![]));
+        assert_eq!(raw_items("{}"), None);
+        assert_eq!(raw_fields(" 5"), None);
     }
 }

@@ -114,8 +114,9 @@ impl Lithology {
     /// follows; `None` for covered intervals, which have no rock to show.
     ///
     /// Claystone, mudstone and shale share 620 (clay or clay shale); sandstone uses 607 (massive
-    /// sandstone), evaporite 667 (gypsum), tuff 717 (tuff, from the volcanic part of section 37;
-    /// number from memory, check against the standard).
+    /// sand or sandstone), evaporite 667 (gypsum), tuff 711 (tuffaceous rock; the standard's tuff
+    /// patterns are 711–713, while 717 is basaltic flows). Every number is checked against the
+    /// standard's names in `tests/tests/reference_fgdc_patterns.rs`.
     pub fn fgdc_pattern(self) -> Option<u16> {
         Some(match self {
             Self::Claystone | Self::Mudstone | Self::Shale => 620,
@@ -128,7 +129,7 @@ impl Lithology {
             Self::Marl => 623,
             Self::Coal => 658,
             Self::Evaporite => 667,
-            Self::Tuff => 717,
+            Self::Tuff => 711,
             Self::Covered => return None,
         })
     }

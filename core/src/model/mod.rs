@@ -5,6 +5,7 @@ pub mod curve;
 pub mod grain;
 pub mod lithology;
 pub mod section;
+pub mod shorthand;
 pub mod vocab;
 
 pub use curve::{IndexDirection, MeasuredCurve};

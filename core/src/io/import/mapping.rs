@@ -243,7 +243,7 @@ pub fn fold_header(header: &str) -> (String, Option<String>) {
     (words.join(" "), unit)
 }
 
-/// The field a header names, by [`HEADER_VARIANTS`].
+/// The field a header names, by `HEADER_VARIANTS`.
 pub fn field_of_header(header: &str) -> Option<Field> {
     let (folded, _) = fold_header(header);
     HEADER_VARIANTS.iter().find(|(k, _)| *k == folded).map(|(_, f)| *f)
@@ -271,7 +271,7 @@ pub struct MappedColumn {
 /// and for the window's next import.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ColumnMapping {
-    /// Always [`MAPPING_FORMAT`].
+    /// Always `MAPPING_FORMAT`.
     pub format: String,
     /// One per header, in the table's order.
     pub columns: Vec<MappedColumn>,
@@ -357,7 +357,7 @@ impl ColumnMapping {
     }
 }
 
-/// Guess a mapping from a header row by [`HEADER_VARIANTS`]; the length unit comes from the
+/// Guess a mapping from a header row by `HEADER_VARIANTS`; the length unit comes from the
 /// first thickness or height header naming one (metres otherwise).
 pub fn guess_mapping(headers: &[String], top_first: bool) -> ColumnMapping {
     let mut length_unit = None;

@@ -1,7 +1,7 @@
 //! Import: the forgiving door beside the bed-table CSV. Reads tables as geologists write them
 //! (CSV/TSV/TXT in any common delimiter, decimal mark and encoding; `.xlsx` and `.ods`
-//! workbooks), matches the headers to bed fields ([`mapping`]), reads notebook abbreviations
-//! ([`values`]), and builds a section through the bed table's own reader, so every rule of that
+//! workbooks: `text`, `sheet`), matches the headers to bed fields (`mapping`), reads notebook
+//! abbreviations (`values`), and builds a section through the bed table's own reader, so every rule of that
 //! format still holds. Every refused cell is named by file, line (or sheet and cell) and column;
 //! nothing is guessed where a number could come out wrong.
 //!
@@ -14,14 +14,15 @@
 //! ```
 
 mod build;
-pub mod mapping;
-pub mod sheet;
-pub mod text;
-pub mod values;
+mod mapping;
+mod sheet;
+pub(crate) mod text;
+pub(crate) mod values;
 
 pub use build::{build_section, preview, read_cell, PreviewCell};
 pub use mapping::{
-    fit_saved, guess_mapping, mapping_from_json, mapping_to_json, ColumnMapping, Field, MappedColumn,
+    field_of_header, fit_saved, fold_header, guess_mapping, mapping_from_json, mapping_to_json,
+    ColumnMapping, Field, MappedColumn,
 };
 pub use sheet::WorkbookKind;
 pub use text::{Delimiter, TextEncoding, TextOptions, TextSniffed};
@@ -235,7 +236,7 @@ pub fn read_source(bytes: &[u8], name: &str, options: &ImportOptions) -> Result<
 }
 
 /// The header row (the first of the first ten rows that maps) and the mapping: the saved one
-/// fitted to it, or one guessed from [`mapping::HEADER_VARIANTS`]. An impossible mapping is an
+/// fitted to it, or one guessed from `HEADER_VARIANTS`. An impossible mapping is an
 /// error listing the headers found.
 pub fn find_mapping(table: &Table, options: &ImportOptions) -> Result<(usize, ColumnMapping), Problem> {
     let headers_of = |row: &Row| -> Vec<String> { row.cells.iter().map(Cell::text).collect() };

@@ -89,16 +89,6 @@ pub(super) fn enlarged_note(layout: &LayoutOptions, sheet: &Sheet) -> String {
     )
 }
 
-/// Height the notes block takes at `usable_w` (mm): 0 without notes.
-pub(super) fn height_mm(notes: &[String], usable_w: f64) -> f64 {
-    let lines: usize = notes.iter().map(|n| wrap(n, usable_w, NOTE_PT).len()).sum();
-    if lines == 0 {
-        0.0
-    } else {
-        lines as f64 * NOTE_LINE_MM + 2.0
-    }
-}
-
 /// The notes under the scale band (warnings in the flag colour), then the footer: a rule, the
 /// caution and the page number.
 pub(super) fn draw_notes_and_footer(notes: &[String], sheet: &Sheet, out: &mut Vec<Item>) {

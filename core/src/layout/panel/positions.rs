@@ -1,7 +1,7 @@
 //! Positions and scale: where the sections stand along the panel, the horizontal scale of the
 //! gaps between columns, and the page geometry ([`Sheet`]) every drawing step reads.
 
-use super::{notes, PanelOptions, HEADER_MM, HEAD_MM, KEY_ROW_MM, NOTE_LINE_MM, NOTE_PT, PAD_MM};
+use super::{PanelOptions, HEADER_MM, HEAD_MM, KEY_ROW_MM, NOTE_LINE_MM, NOTE_PT, PAD_MM};
 use crate::layout::column::{Tracks, SCALE_BAND_MM, TITLE_BAND_MM};
 use crate::layout::legend::legend_height_mm;
 use crate::layout::options::PrintMeta;
@@ -235,7 +235,7 @@ impl Sheet {
             + margin;
         let mut enlarged = page_w > paper_w + 1e-9 && paper.is_some();
         let need_h =
-            fixed_h + notes::height_mm(contents.notes, usable_w) + contents.above_mm + contents.below_mm;
+            fixed_h + notes_height_mm(contents.notes, usable_w) + contents.above_mm + contents.below_mm;
         let page_h = match paper {
             Some(_) if need_h <= paper_h => paper_h,
             // Room for the note that says the page was enlarged.
@@ -269,6 +269,16 @@ impl Sheet {
             y_scale,
             tracks,
         }
+    }
+}
+
+/// Height the notes block takes at `usable_w` (mm): 0 without notes.
+fn notes_height_mm(notes: &[String], usable_w: f64) -> f64 {
+    let lines: usize = notes.iter().map(|n| wrap(n, usable_w, NOTE_PT).len()).sum();
+    if lines == 0 {
+        0.0
+    } else {
+        lines as f64 * NOTE_LINE_MM + 2.0
     }
 }
 

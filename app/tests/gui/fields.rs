@@ -2,9 +2,9 @@
 //! list field is kept as typed and marked, nothing half-read is stored, leaving the bed keeps the
 //! text with a warning, and the fixed text is stored whole on Enter.
 
-use aggrade::gui::app::Tab;
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::{AggradeApp, AppConfig};
+use super::harness::{app_with, harness_of};
+use aggrade::gui::AggradeApp;
+use aggrade::gui::Tab;
 use aggrade_core::model::BedId;
 use egui::accesskit::Role;
 use egui::{Key, Modifiers};
@@ -13,15 +13,7 @@ use egui_kittest::Harness;
 use std::path::Path;
 
 fn harness(data_dir: &Path) -> Harness<'static, AggradeApp> {
-    let app = AggradeApp::new(AppConfig {
-        file: None,
-        data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs::default()),
-        recent: Vec::new(),
-    });
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+    harness_of(app_with(None, data_dir, Vec::new()))
 }
 
 /// The window on the demo project with the bed inspector showing.
@@ -48,7 +40,7 @@ fn shown_containing(h: &Harness<'static, AggradeApp>, part: &str) -> bool {
 /// Whether a field is framed in the colour of a text that does not read.
 fn framed_invalid(h: &Harness<'static, AggradeApp>) -> bool {
     h.output().shapes.iter().any(|c| {
-        matches!(&c.shape, egui::Shape::Rect(r) if r.stroke.color == aggrade::gui::field::INVALID && r.stroke.width > 0.0)
+        matches!(&c.shape, egui::Shape::Rect(r) if r.stroke.color == aggrade::gui::test_hooks::INVALID && r.stroke.width > 0.0)
     })
 }
 

@@ -2,6 +2,7 @@
 //! the panel tie them and hang on the label, take a label off, and refuse boundaries that are
 //! not accepted (with file, section, bed and height named) without touching the file.
 
+use super::harness::text;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
@@ -12,10 +13,6 @@ fn run(args: &[&str]) -> Output {
         .env_remove("SOURCE_DATE_EPOCH")
         .output()
         .expect("the aggrade binary runs")
-}
-
-fn text(bytes: &[u8]) -> String {
-    String::from_utf8_lossy(bytes).into_owned()
 }
 
 /// Two invented sections, each with an accepted boundary at the base of bed 2 (3 m in Ash Draw,

@@ -2,14 +2,15 @@
 //! the facies-transition analysis (observed, expected, difference, χ²) with a diagram of the
 //! transitions that occur more often than chance.
 
-use super::theme;
-use super::views_common::{caution, fmt_p, text_table, ViewCtx};
+use super::common::{caution, fmt_p, text_table, ViewCtx};
 use crate::cli::stats::{interval_bounds, state_sequence, StateKind};
+use crate::gui::theme;
 use aggrade_core::analysis::markov::{analyse_sequence, TransitionAnalysis, TransitionParams};
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, per_bed, per_interval, readings_in_interval, rose_bins, section_readings,
     CircularParams, CircularSummary, DataKind, PetalScale, RoseBin, RoseBins, RoseParams,
 };
+use aggrade_core::analysis::AnalysisError;
 use aggrade_core::model::Project;
 use egui::{Color32, Pos2, Rect, Shape, Stroke, Vec2};
 
@@ -56,7 +57,21 @@ pub struct SummaryRow {
     /// Section name, interval or bed.
     pub what: String,
     /// `Err` when there are too few readings (the reason).
-    pub summary: Result<CircularSummary, String>,
+    pub summary: Result<CircularSummary, NoSummary>,
+}
+
+/// Why the view has no figure to show for a row, the rose or the transitions.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum NoSummary {
+    /// The statistics refused the readings (too few, or out of range).
+    #[error(transparent)]
+    Analysis(#[from] AnalysisError),
+    /// An interval holds fewer than two readings.
+    #[error("fewer than two readings")]
+    FewerThanTwo,
+    /// There is no section to compute from.
+    #[error("the project holds no section")]
+    NoSection,
 }
 
 /// Everything the view shows, computed once per document revision and choice.
@@ -67,10 +82,10 @@ pub struct StatsResult {
     pub per_bed: Vec<SummaryRow>,
     /// Interval bounds of the chosen section (base, accepted boundaries, top), m.
     pub interval_bounds_m: Vec<f64>,
-    pub rose: Result<RoseBins, String>,
+    pub rose: Result<RoseBins, NoSummary>,
     /// Mean of the readings in the rose (for its arrow).
     pub rose_mean: Option<CircularSummary>,
-    pub transitions: Result<TransitionAnalysis, String>,
+    pub transitions: Result<TransitionAnalysis, NoSummary>,
 }
 
 /// Compute what the view shows for a project.
@@ -81,7 +96,7 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
         .iter()
         .map(|s| SummaryRow {
             what: s.name.clone(),
-            summary: circular_summary(&section_readings(s), &params).map_err(|e| e.to_string()),
+            summary: circular_summary(&section_readings(s), &params).map_err(NoSummary::from),
         })
         .collect();
     let Some(section) = project.sections.get(c.section.min(project.sections.len().saturating_sub(1))) else {
@@ -90,9 +105,9 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
             per_interval: Vec::new(),
             per_bed: Vec::new(),
             interval_bounds_m: Vec::new(),
-            rose: Err("the project holds no section".into()),
+            rose: Err(NoSummary::NoSection),
             rose_mean: None,
-            transitions: Err("the project holds no section".into()),
+            transitions: Err(NoSummary::NoSection),
         };
     };
     let bounds = interval_bounds(section);
@@ -101,10 +116,10 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
             .into_iter()
             .map(|iv| SummaryRow {
                 what: format!("{:.2}–{:.2} m", iv.base_m, iv.top_m),
-                summary: iv.summary.ok_or_else(|| "fewer than two readings".to_string()),
+                summary: iv.summary.ok_or(NoSummary::FewerThanTwo),
             })
             .collect(),
-        Err(e) => vec![SummaryRow { what: "every interval".into(), summary: Err(e.to_string()) }],
+        Err(e) => vec![SummaryRow { what: "every interval".into(), summary: Err(NoSummary::from(e)) }],
     };
     let per_bed = match per_bed(section, &params) {
         Ok(list) => list
@@ -114,7 +129,7 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
                 summary: Ok(b.summary),
             })
             .collect(),
-        Err(e) => vec![SummaryRow { what: "every bed".into(), summary: Err(e.to_string()) }],
+        Err(e) => vec![SummaryRow { what: "every bed".into(), summary: Err(NoSummary::from(e)) }],
     };
     let readings = match c.rose_of {
         RoseOf::Interval(k) if k + 1 < bounds.len() => {
@@ -132,10 +147,10 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
             ..Default::default()
         },
     )
-    .map_err(|e| e.to_string());
+    .map_err(NoSummary::from);
     let rose_mean = circular_summary(&readings, &params).ok();
     let transitions = analyse_sequence(&state_sequence(section, c.states), &TransitionParams::default())
-        .map_err(|e| e.to_string());
+        .map_err(NoSummary::from);
     StatsResult {
         per_section,
         per_interval,
@@ -163,7 +178,7 @@ pub fn summary_cells(row: &SummaryRow) -> Vec<String> {
             format!("{:.3}", s.rayleigh_z),
             fmt_p(s.rayleigh_p),
         ],
-        Err(e) => vec![row.what.clone(), e.clone()],
+        Err(e) => vec![row.what.clone(), e.to_string()],
     }
 }
 

@@ -2,14 +2,15 @@
 //! drawn by the same painter as the column (so screen and print agree), with zoom and pan, a
 //! datum picker, tie lines, proportions and export to PDF or SVG.
 
-use super::chooser::{PickFor, SaveKind};
-use super::painter::{self, ItemIndex, MmToScreen};
-use super::theme;
-use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::error::{WriteError, Written};
+use crate::gui::painter::{self, ItemIndex, MmToScreen};
+use crate::gui::theme;
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{
-    panel_layout, section_markers, Datum, LayoutOptions, Orientation, PanelLayout, PanelOptions, Paper,
-    PrintMeta,
+    panel_layout, section_markers, Datum, LayoutOptions, Orientation, PanelError, PanelLayout, PanelOptions,
+    Paper, PrintMeta,
 };
 use aggrade_core::model::Project;
 use std::path::Path;
@@ -125,7 +126,7 @@ impl PanelChoices {
 
 struct PanelCache {
     key: (u64, PanelChoices, String),
-    layout: Result<PanelLayout, String>,
+    layout: Result<PanelLayout, PanelError>,
     index: ItemIndex,
     choices: Vec<DatumChoice>,
 }
@@ -162,7 +163,12 @@ impl Default for PanelView {
 }
 
 /// Write a laid-out panel to `path`: SVG when the name ends in .svg, else PDF.
-pub fn export_panel(path: &Path, layout: &PanelLayout, title: &str, now_secs: i64) -> Result<String, String> {
+pub fn export_panel(
+    path: &Path,
+    layout: &PanelLayout,
+    title: &str,
+    now_secs: i64,
+) -> Result<Written, WriteError> {
     let is_svg = path.extension().is_some_and(|e| e.eq_ignore_ascii_case("svg"));
     let bytes = if is_svg {
         write_svg(&layout.page).into_bytes()
@@ -174,19 +180,19 @@ pub fn export_panel(path: &Path, layout: &PanelLayout, title: &str, now_secs: i6
         };
         write_pdf(std::slice::from_ref(&layout.page), &info)
     };
-    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| format!("{}: {e}", path.display()))?;
-    Ok(format!(
-        "Exported the correlation panel ({} columns, {:.0} × {:.0} mm) to {}",
-        layout.columns.len(),
-        layout.page.width_mm,
-        layout.page.height_mm,
-        path.display()
-    ))
+    aggrade_core::io::write_bytes_atomic(path, &bytes)
+        .map_err(|error| WriteError::At { path: path.to_path_buf(), error })?;
+    Ok(Written::Panel {
+        columns: layout.columns.len(),
+        width_mm: layout.page.width_mm,
+        height_mm: layout.page.height_mm,
+        path: path.to_path_buf(),
+    })
 }
 
 impl PanelView {
     /// The current layout (after a frame has been drawn).
-    pub fn layout(&self) -> Option<&Result<PanelLayout, String>> {
+    pub fn layout(&self) -> Option<&Result<PanelLayout, PanelError>> {
         self.cache.as_ref().map(|c| &c.layout)
     }
 
@@ -197,8 +203,7 @@ impl PanelView {
         }
         let choices = datum_choices(v.project);
         let layout =
-            panel_layout(v.project, v.interps, &self.choices.options(), &self.choices.meta(&v.doc_name))
-                .map_err(|e| e.to_string());
+            panel_layout(v.project, v.interps, &self.choices.options(), &self.choices.meta(&v.doc_name));
         let index = match &layout {
             Ok(l) => ItemIndex::build(&l.page.items, l.page.height_mm),
             Err(_) => ItemIndex::default(),
@@ -319,8 +324,8 @@ impl PanelView {
                 if let Some(path) = v.dialogs.save_path(clicked, purpose, kind, "correlation-panel") {
                     match layout {
                         Some(l) => match export_panel(&path, l, &c.title, v.now_secs) {
-                            Ok(msg) => out.status = Some(msg),
-                            Err(e) => out.error = Some(("Could not export the panel".into(), e)),
+                            Ok(written) => out.status = Some(written.to_string()),
+                            Err(e) => out.error = Some(("Could not export the panel".into(), e.to_string())),
                         },
                         None => {
                             out.error = Some((
@@ -347,7 +352,7 @@ impl PanelView {
         let layout = match &cache.layout {
             Ok(l) => l,
             Err(e) => {
-                ui.colored_label(theme::WARN, e);
+                ui.colored_label(theme::WARN, e.to_string());
                 return;
             }
         };
@@ -537,7 +542,7 @@ mod tests {
             labels,
             ["Section base", "SB-1 (1 section, accepted boundary)", "K-1 (linked, 2 sections)"]
         );
-        assert_eq!(super::super::review::link_labels(&project), ["K-1", "SB-1"]);
+        assert_eq!(crate::gui::review::link_labels(&project), ["K-1", "SB-1"]);
     }
 
     #[test]

@@ -1,23 +1,11 @@
 //! `aggrade curve` end to end on the built binary: attach a gamma-ray curve from a LAS file, list
 //! it, remove it, and refuse a malformed LAS file with the reader's file-and-line message.
 
+use super::harness::{run, text};
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
-
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_aggrade"))
-        .args(args)
-        .env("RUST_BACKTRACE", "1")
-        .output()
-        .expect("the aggrade binary runs")
-}
-
-fn text(bytes: &[u8]) -> String {
-    String::from_utf8_lossy(bytes).into_owned()
-}
 
 fn fixture(rel: &str) -> String {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data").join(rel).display().to_string()
+    super::harness::fixture(rel).display().to_string()
 }
 
 fn copy_of_kestrel(dir: &Path) -> PathBuf {

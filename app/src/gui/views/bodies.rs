@@ -1,14 +1,16 @@
 //! Channel-body statistics view: every body of every section, the thickness summary with
 //! P10/P50/P90, proportions, decompacted thicknesses for a burial depth, and CSV export.
 
-use super::chooser::{PickFor, SaveKind};
-use super::theme;
-use super::views_common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::error::{WriteError, Written};
+use crate::gui::theme;
 use aggrade_core::analysis::bodies::{
     body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
     write_proportion_curve_csv, BodyRow, ThicknessSummary,
 };
 use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams, SectionDecompaction};
+use aggrade_core::analysis::AnalysisError;
 use aggrade_core::model::{GrainSize, Project};
 use aggrade_core::rules::{ChannelBody, Element, Interpretation, ProportionBounds};
 
@@ -43,7 +45,7 @@ pub struct SectionLine {
     /// (base m, top m, proportion) of each interval.
     pub intervals: Vec<(f64, f64, Option<f64>)>,
     /// `None` when decompaction is off; `Err` with the reason when it failed.
-    pub decompaction: Option<Result<SectionDecompaction, String>>,
+    pub decompaction: Option<Result<SectionDecompaction, AnalysisError>>,
 }
 
 /// Everything the view shows.
@@ -66,7 +68,6 @@ pub fn compute(project: &Project, interps: &[Interpretation], burial_depth_m: Op
         let decompaction = burial_depth_m.map(|depth| {
             let flags: Vec<bool> = it.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
             decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
-                .map_err(|e| e.to_string())
         });
         // The body table lists a section's bodies by base height (a stable sort): follow it.
         let mut bodies: Vec<&ChannelBody> = it.channel_bodies.iter().collect();
@@ -135,32 +136,31 @@ pub fn export_csv(
     which: BodiesCsv,
     rows: &[BodyRow],
     interps: &[Interpretation],
-) -> Result<String, String> {
+) -> Result<Written, WriteError> {
     let mut bytes = Vec::new();
     let what = match which {
         BodiesCsv::Bodies => {
-            write_bodies_csv(rows, &mut bytes).map_err(|e| e.to_string())?;
+            write_bodies_csv(rows, &mut bytes)?;
             format!("{} channel bodies", rows.len())
         }
         BodiesCsv::ProportionCurve => {
             write_proportion_curve_csv(
                 interps.iter().map(|i| (i.section.as_str(), i.proportion_curve.as_slice())),
                 &mut bytes,
-            )
-            .map_err(|e| e.to_string())?;
+            )?;
             "the proportion curve".to_string()
         }
         BodiesCsv::IntervalProportions => {
             write_interval_proportions_csv(
                 interps.iter().map(|i| (i.section.as_str(), i.interval_proportions.as_slice())),
                 &mut bytes,
-            )
-            .map_err(|e| e.to_string())?;
+            )?;
             "proportions by interval".to_string()
         }
     };
-    aggrade_core::io::write_bytes_atomic(path, &bytes).map_err(|e| format!("{}: {e}", path.display()))?;
-    Ok(format!("Wrote {what} to {}", path.display()))
+    aggrade_core::io::write_bytes_atomic(path, &bytes)
+        .map_err(|error| WriteError::At { path: path.to_path_buf(), error })?;
+    Ok(Written::Table { what, path: path.to_path_buf() })
 }
 
 /// The channel-body window.
@@ -258,8 +258,8 @@ impl BodiesView {
                     if let Some(path) = v.dialogs.save_path(clicked, PickFor::View(name), SaveKind::Csv, name)
                     {
                         match export_csv(&path, which, &r.rows, v.interps) {
-                            Ok(msg) => out.status = Some(msg),
-                            Err(e) => out.error = Some(("Could not write the CSV".into(), e)),
+                            Ok(written) => out.status = Some(written.to_string()),
+                            Err(e) => out.error = Some(("Could not write the CSV".into(), e.to_string())),
                         }
                     }
                 }
@@ -333,7 +333,7 @@ impl BodiesView {
                     d.present_thickness_m,
                     d.decompacted_thickness_m
                 )),
-                Some(Err(e)) => row.push(e.clone()),
+                Some(Err(e)) => row.push(e.to_string()),
                 None => {}
             }
             rows.push(row);

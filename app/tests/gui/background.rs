@@ -3,26 +3,26 @@
 //! stale column is safe to draw while beds are deleted under it, that short sections stay
 //! up to date within the frame, and that whatever must see the current state waits for it.
 
-use aggrade::gui::app::BACKGROUND_RULES_MIN_BEDS;
-use aggrade::gui::document::Edit;
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::{demo, AggradeApp, AppConfig};
+use super::harness::harness_of;
+use aggrade::gui::test_hooks::demo;
+use aggrade::gui::Edit;
+use aggrade::gui::ScriptedDialogs;
+use aggrade::gui::BACKGROUND_RULES_MIN_BEDS;
+use aggrade::gui::{AggradeApp, AppConfig};
 use aggrade_core::model::Project;
 use egui_kittest::Harness;
 use std::path::Path;
 
 fn harness_on(project: Project, dir: &Path) -> Harness<'static, AggradeApp> {
     let path = dir.join("section.aggrade");
-    aggrade::gui::files::save(&path, &project).expect("written");
+    aggrade::gui::test_hooks::files::save(&path, &project).expect("written");
     let app = AggradeApp::new(AppConfig {
         file: Some(path),
         data_dir: dir.to_path_buf(),
         dialogs: Box::new(ScriptedDialogs::default()),
         recent: Vec::new(),
     });
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+    harness_of(app)
 }
 
 /// Step frames until the worker has reported. The bound only keeps a broken worker from hanging

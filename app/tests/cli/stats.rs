@@ -1,15 +1,12 @@
 //! End-to-end tests of `aggrade stats` and `aggrade bodies` on the invented Marrow Basin
 //! sections, with the numbers checked against scipy run on the same file.
 
+use super::harness::aggrade;
 use std::path::PathBuf;
 use std::process::{Command, Output};
 
 fn data(name: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis").join(name)
-}
-
-fn aggrade(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_aggrade")).args(args).output().expect("the aggrade binary runs")
 }
 
 fn stdout_json(out: &Output) -> serde_json::Value {

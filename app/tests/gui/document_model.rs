@@ -9,8 +9,8 @@
 //! 64 cases of up to 40 edits by default; `PROPTEST_CASES=5000` for a long run. Shrunk failing
 //! sequences are kept below as named regression tests.
 
-use aggrade::gui::document::{Document, Edit};
-use aggrade::gui::{files, recovery};
+use aggrade::gui::test_hooks::{files, recovery};
+use aggrade::gui::{Document, Edit};
 use aggrade_core::io::limits::{MAX_LINK_LABEL_CHARS, MAX_STRING_CHARS};
 use aggrade_core::model::{
     Bed, BedId, GrainSize, GrainSizeRule, IndexDirection, LengthUnit, Lithology, MeasuredCurve, Project,
@@ -559,7 +559,7 @@ fn the_demo_project_takes_a_mixed_sequence() {
         Op::Undo,
         Op::Merge(Sel::Nth(0)),
     ];
-    check_sequence(aggrade::gui::demo::demo_project(), &ops);
+    check_sequence(aggrade::gui::test_hooks::demo::demo_project(), &ops);
 }
 
 #[test]

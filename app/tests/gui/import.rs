@@ -3,9 +3,9 @@
 //! columns, imports, and the project gains the section; the mapping is saved and used again for
 //! the next table with the same headers.
 
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::import_dialog::SAVED_MAPPING_FILE;
-use aggrade::gui::{AggradeApp, AppConfig};
+use super::harness::{app_with, fixture, harness_of};
+use aggrade::gui::test_hooks::SAVED_MAPPING_FILE;
+use aggrade::gui::AggradeApp;
 use aggrade_core::io::import::Field;
 use aggrade_core::model::Lithology;
 use egui::accesskit::Role;
@@ -14,17 +14,7 @@ use egui_kittest::Harness;
 use std::path::{Path, PathBuf};
 
 fn harness(data_dir: &Path, answers: Vec<Option<PathBuf>>) -> Harness<'static, AggradeApp> {
-    let app = AggradeApp::new(AppConfig {
-        file: Some(
-            Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/analysis/kestrel_bluff.aggrade"),
-        ),
-        data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs { answers: answers.into() }),
-        recent: Vec::new(),
-    });
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+    harness_of(app_with(Some(fixture("analysis/kestrel_bluff.aggrade")), data_dir, answers))
 }
 
 fn open_import(h: &mut Harness<'static, AggradeApp>) {

@@ -1,11 +1,12 @@
 //! End-to-end checks of `aggrade export`: files written, read back by pypdf, reproducible with
 //! SOURCE_DATE_EPOCH, and clear messages for bad input.
 
+use super::harness::stderr;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
 fn fixture() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/export/tarn_gap.aggrade")
+    super::harness::fixture("export/tarn_gap.aggrade")
 }
 
 fn aggrade(args: &[&str]) -> Output {
@@ -14,10 +15,6 @@ fn aggrade(args: &[&str]) -> Output {
         .env("SOURCE_DATE_EPOCH", "1796083200")
         .output()
         .expect("run aggrade")
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
 }
 
 /// Page sizes (pt) of a PDF as pypdf (from PyPI, an independent reader) reports them.

@@ -1,8 +1,8 @@
 //! The geologist's rank of a bed base, set in the window (inspector and bed menu), reaches the
 //! model, changes the storeys the rules find, and undoes.
 
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::{AggradeApp, AppConfig};
+use super::harness::{app_with, harness_of};
+use aggrade::gui::AggradeApp;
 use aggrade_core::model::{
     BaseRank, Bed, BedId, Contact, GrainSize, Lithology, Project, Section, WentworthClass,
 };
@@ -11,15 +11,7 @@ use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
 
 fn harness(data: &std::path::Path, file: std::path::PathBuf) -> Harness<'static, AggradeApp> {
-    let app = AggradeApp::new(AppConfig {
-        file: Some(file),
-        data_dir: data.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs { answers: Vec::new().into() }),
-        recent: Vec::new(),
-    });
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+    harness_of(app_with(Some(file), data, Vec::new()))
 }
 
 /// Mud 3 m | sand 2 m (E) | sand 0.6 m (E, a scour by the rules) | mud 3 m.

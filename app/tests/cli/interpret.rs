@@ -1,24 +1,12 @@
 //! End-to-end tests of `aggrade interpret`: the real binary on fixture files, its JSON contract,
 //! the readable report, section choice and bad input.
 
+use super::harness::{aggrade, stderr, stdout};
 use serde_json::Value;
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
 
 fn fixture(name: &str) -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data/rules").join(name)
-}
-
-fn aggrade(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_aggrade")).args(args).output().expect("the aggrade binary runs")
-}
-
-fn stdout(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stdout).into_owned()
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
+    super::harness::fixture("rules").join(name)
 }
 
 fn json_of(args: &[&str]) -> Value {

@@ -4,10 +4,10 @@
 //! command line compute, and their exports read back (SVG bytes, PDF by pypdf, CSV by Python's
 //! csv module).
 
-use aggrade::gui::document::Edit;
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::views_panel::datum_choices;
-use aggrade::gui::{AggradeApp, AppConfig};
+use super::harness::{app_with, demo_file as demo, harness_of};
+use aggrade::gui::test_hooks::datum_choices;
+use aggrade::gui::AggradeApp;
+use aggrade::gui::Edit;
 use aggrade_core::analysis::bodies::{body_table, thickness_summary};
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, rose_bins, section_readings, CircularParams, DataKind, PetalScale, RoseParams,
@@ -20,20 +20,8 @@ use egui_kittest::Harness;
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
-fn demo() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/demo.aggrade")
-}
-
 fn harness(data_dir: &Path, answers: Vec<Option<PathBuf>>) -> Harness<'static, AggradeApp> {
-    let app = AggradeApp::new(AppConfig {
-        file: Some(demo()),
-        data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs { answers: answers.into() }),
-        recent: Vec::new(),
-    });
-    let mut h = Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app);
+    let mut h = harness_of(app_with(Some(demo()), data_dir, answers));
     h.run();
     h
 }
@@ -193,7 +181,7 @@ fn panel_view_draws_the_core_panel_and_exports_what_the_command_line_does() {
 
 #[test]
 fn labels_typed_in_the_review_list_tie_two_sections_on_the_panel_and_undo_takes_one_back() {
-    use aggrade::gui::review::LINK_HINT;
+    use aggrade::gui::test_hooks::LINK_HINT;
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(data.path(), vec![]);
     // Corrie Wash (at 0 m) and Halloway Bluff (at 1150 m) are neighbours on the demo panel; neither
@@ -252,7 +240,7 @@ fn labels_typed_in_the_review_list_tie_two_sections_on_the_panel_and_undo_takes_
 
 #[test]
 fn a_label_typed_past_the_length_limit_stops_at_the_limit_and_is_what_is_kept() {
-    use aggrade::gui::review::LINK_HINT;
+    use aggrade::gui::test_hooks::LINK_HINT;
     use aggrade_core::io::limits::MAX_LINK_LABEL_CHARS;
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = harness(data.path(), vec![]);

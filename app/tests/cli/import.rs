@@ -3,24 +3,12 @@
 //! used again, and bad input refused with file, line (or sheet and cell) and column while
 //! nothing is written.
 
-#[path = "../../tests/tests/support/sheets.rs"]
+#[path = "../../../tests/tests/support/sheets.rs"]
 mod sheets;
 
+use super::harness::{run, text};
 use sheets::V;
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
-
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_aggrade"))
-        .args(args)
-        .env("RUST_BACKTRACE", "1")
-        .output()
-        .expect("the aggrade binary runs")
-}
-
-fn text(bytes: &[u8]) -> String {
-    String::from_utf8_lossy(bytes).into_owned()
-}
 
 fn s(p: &Path) -> &str {
     p.to_str().expect("utf-8 path")

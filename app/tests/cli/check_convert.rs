@@ -2,6 +2,7 @@
 //! bad input (exit code, stderr naming file, line, field and value; no panic or backtrace),
 //! and conversions both ways.
 
+use super::harness::text;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
@@ -16,10 +17,6 @@ fn aggrade(args: &[&std::ffi::OsStr]) -> Output {
 fn run(args: &[&str]) -> Output {
     let args: Vec<&std::ffi::OsStr> = args.iter().map(|a| std::ffi::OsStr::new(*a)).collect();
     aggrade(&args)
-}
-
-fn text(bytes: &[u8]) -> String {
-    String::from_utf8_lossy(bytes).into_owned()
 }
 
 fn sample_files() -> Vec<PathBuf> {

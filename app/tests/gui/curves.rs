@@ -2,28 +2,16 @@
 //! pick → the attach window → the document holds the curve, the column gains its track, and undo
 //! takes it off again. A malformed LAS file gives the reader's message naming file and line.
 
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::{AggradeApp, AppConfig};
+use super::harness::{app_with, fixture, harness_of};
+use aggrade::gui::AggradeApp;
 use aggrade_core::model::IndexDirection;
 use egui::{Key, Modifiers};
 use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
 use std::path::{Path, PathBuf};
 
-fn fixture(rel: &str) -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("../tests/data").join(rel)
-}
-
 fn harness(data_dir: &Path, answers: Vec<Option<PathBuf>>) -> Harness<'static, AggradeApp> {
-    let app = AggradeApp::new(AppConfig {
-        file: Some(fixture("analysis/kestrel_bluff.aggrade")),
-        data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs { answers: answers.into() }),
-        recent: Vec::new(),
-    });
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
+    harness_of(app_with(Some(fixture("analysis/kestrel_bluff.aggrade")), data_dir, answers))
 }
 
 /// Open the Section menu in the menu bar and click an item in it.

@@ -8,10 +8,12 @@
 //! file holds the last edit, kills the child with SIGKILL (no chance to clean up), then starts
 //! a fresh app on the same data folder, accepts the restore offer and checks every edit.
 
-use aggrade::gui::document::Document;
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::recovery::{read_all_backups, DATA_DIR_ENV};
-use aggrade::gui::{recovery, AggradeApp, AppConfig};
+use super::harness::{harness_of, push_close_request};
+use aggrade::gui::test_hooks::recovery;
+use aggrade::gui::test_hooks::recovery::{read_all_backups, DATA_DIR_ENV};
+use aggrade::gui::Document;
+use aggrade::gui::ScriptedDialogs;
+use aggrade::gui::{AggradeApp, AppConfig};
 use aggrade_core::model::{Contact, GrainSize, Lithology, Project, ReviewState, Section, WentworthClass};
 use egui::Key;
 use egui_kittest::kittest::Queryable;
@@ -79,7 +81,7 @@ fn killed_session_is_recovered_with_every_edit() {
     let data = tempfile::tempdir().expect("temp dir");
     let exe = std::env::current_exe().expect("test binary");
     let mut child = Command::new(exe)
-        .args(["--exact", "child_session", "--nocapture", "--test-threads", "1"])
+        .args(["--exact", "recovery::child_session", "--nocapture", "--test-threads", "1"])
         .env(CHILD_ENV, data.path())
         .env(DATA_DIR_ENV, data.path())
         .stdout(Stdio::null())
@@ -160,11 +162,11 @@ fn child_window() {
     assert!(!h.state().recovery_pending(), "{name}: offered another living window's backup");
     h.state_mut().doc = Document::new(Project::new(vec![Section::new(name.as_str())]), None);
     for (i, t) in [1.5, 0.75, 2.25].into_iter().enumerate() {
-        let mut bed = aggrade::gui::app::new_bed();
+        let mut bed = aggrade::gui::test_hooks::new_bed();
         bed.thickness_m = t;
         bed.lithology = Lithology::Sandstone;
         bed.notes = format!("{name} — bed {i}, ñandú 河床 🪨");
-        h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: i, bed });
+        h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: i, bed });
         h.run();
     }
     std::fs::write(data.join(format!("{name}.done")), h.state().doc.revision.to_string()).expect("marker");
@@ -177,7 +179,7 @@ fn child_window() {
 
 fn start_window(data: &Path, name: &str) -> std::process::Child {
     Command::new(std::env::current_exe().expect("test binary"))
-        .args(["--exact", "child_window", "--nocapture", "--test-threads", "1"])
+        .args(["--exact", "recovery::child_window", "--nocapture", "--test-threads", "1"])
         .env(WINDOW_ENV, name)
         .env(DATA_DIR_ENV, data)
         .stdout(Stdio::null())
@@ -262,18 +264,8 @@ fn two_windows_killed_keep_two_backups_and_discarding_one_spares_the_other() {
     assert!(h.state().doc.dirty, "restored work is unsaved until saved");
 }
 
-fn app_with(
-    file: Option<PathBuf>,
-    data: &Path,
-    dialogs: Box<dyn aggrade::gui::files::FileDialogs>,
-) -> AggradeApp {
+fn app_with(file: Option<PathBuf>, data: &Path, dialogs: Box<dyn aggrade::gui::FileDialogs>) -> AggradeApp {
     AggradeApp::new(AppConfig { file, data_dir: data.to_path_buf(), dialogs, recent: Vec::new() })
-}
-
-fn harness_of(app: AggradeApp) -> Harness<'static, AggradeApp> {
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
 }
 
 /// A harness for tests that open Aggrade's own file chooser: its folder and file-name fields
@@ -289,19 +281,14 @@ fn harness_with_chooser(app: AggradeApp) -> Harness<'static, AggradeApp> {
 /// A dirty document holding one section of this name (non-English, to try file names too).
 fn fresh_work(h: &mut Harness<'static, AggradeApp>, name: &str) {
     h.state_mut().doc = Document::new(Project::new(vec![Section::new(name)]), None);
-    let mut bed = aggrade::gui::app::new_bed();
+    let mut bed = aggrade::gui::test_hooks::new_bed();
     bed.notes = "trozos de madera carbonizada; 炭化木片".into();
-    h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+    h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });
     h.run();
 }
 
 fn request_close(h: &mut Harness<'static, AggradeApp>) {
-    h.input_mut()
-        .viewports
-        .entry(egui::ViewportId::ROOT)
-        .or_default()
-        .events
-        .push(egui::ViewportEvent::Close);
+    push_close_request(h);
     h.run();
 }
 
@@ -312,7 +299,7 @@ fn save_save_as_export_and_quit_save_work_with_no_system_file_dialog() {
     let data = dir.path().join("data");
     let work = dir.path().join("work");
     std::fs::create_dir_all(&work).expect("dir");
-    let mut h = harness_with_chooser(app_with(None, &data, Box::new(aggrade::gui::files::NoSystemDialogs)));
+    let mut h = harness_with_chooser(app_with(None, &data, Box::new(aggrade::gui::NoSystemDialogs)));
     h.run();
     h.state_mut().chooser_mut().start_dir = Some(work.clone());
     fresh_work(&mut h, "Río Ñuble");
@@ -333,8 +320,7 @@ fn save_save_as_export_and_quit_save_work_with_no_system_file_dialog() {
     assert_eq!(back, *h.state().doc.project);
 
     // Save as onto the same name: asks before replacing, then writes.
-    h.state_mut()
-        .apply(aggrade::gui::document::Edit::SetDisplayUnit { unit: aggrade_core::model::LengthUnit::Foot });
+    h.state_mut().apply(aggrade::gui::Edit::SetDisplayUnit { unit: aggrade_core::model::LengthUnit::Foot });
     h.run();
     h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::S);
     h.run();
@@ -395,8 +381,8 @@ fn a_failed_save_in_the_quit_prompt_keeps_the_window_and_the_work() {
     aggrade_core::io::save_project(&file, &Project::new(vec![Section::new("Stick")])).expect("saved");
     let mut h = harness_of(app_with(Some(file.clone()), &data, Box::new(ScriptedDialogs::default())));
     h.run();
-    let id = aggrade::gui::app::new_bed();
-    h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed: id });
+    let id = aggrade::gui::test_hooks::new_bed();
+    h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed: id });
     h.run();
     // The stick is pulled out: the folder is gone.
     std::fs::remove_dir_all(&folder).expect("removed");
@@ -448,9 +434,9 @@ fn saving_over_a_file_changed_elsewhere_asks_and_keep_both_keeps_both() {
     w1.run();
     w2.run();
     for (h, t) in [(&mut w1, 1.0), (&mut w2, 2.0)] {
-        let mut bed = aggrade::gui::app::new_bed();
+        let mut bed = aggrade::gui::test_hooks::new_bed();
         bed.thickness_m = t;
-        h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+        h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });
         h.run();
     }
     assert_ne!(w1.state().recovery_path(), w2.state().recovery_path(), "two windows share one backup");
@@ -475,9 +461,9 @@ fn saving_over_a_file_changed_elsewhere_asks_and_keep_both_keeps_both() {
     let mut other = theirs.clone();
     other.sections[0].notes = "edited by a sync tool".into();
     aggrade_core::io::save_project(&file, &other).expect("saved");
-    let mut bed = aggrade::gui::app::new_bed();
+    let mut bed = aggrade::gui::test_hooks::new_bed();
     bed.thickness_m = 3.0;
-    w1.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+    w1.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });
     w1.run();
     w1.key_press_modifiers(Modifiers::COMMAND, Key::S);
     w1.run();
@@ -489,8 +475,8 @@ fn saving_over_a_file_changed_elsewhere_asks_and_keep_both_keeps_both() {
 
     // Deleted meanwhile: saved again on request.
     std::fs::remove_file(&file).expect("removed");
-    let bed = aggrade::gui::app::new_bed();
-    w1.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+    let bed = aggrade::gui::test_hooks::new_bed();
+    w1.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });
     w1.run();
     w1.key_press_modifiers(Modifiers::COMMAND, Key::S);
     w1.run();
@@ -556,8 +542,8 @@ fn a_restored_window_still_asks_before_saving_over_a_file_changed_since() {
     {
         let mut h = harness_of(app_with(Some(file.clone()), &data, Box::new(ScriptedDialogs::default())));
         h.run();
-        let bed = aggrade::gui::app::new_bed();
-        h.state_mut().apply(aggrade::gui::document::Edit::InsertBed { index: 0, bed });
+        let bed = aggrade::gui::test_hooks::new_bed();
+        h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });
         h.run();
         h.run();
         // The window dies here: its backup stays, its lock goes with it.
@@ -600,7 +586,7 @@ fn a_typed_value_that_did_not_read_survives_a_crash_and_is_listed_after_restore(
     {
         let mut h = harness(data.path());
         h.run();
-        h.state_mut().tab = aggrade::gui::app::Tab::Inspector;
+        h.state_mut().tab = aggrade::gui::Tab::Inspector;
         let bed = h.state().doc.section().beds[1].id;
         h.state_mut().doc.selected_bed = Some(bed);
         h.run();

@@ -2,30 +2,16 @@
 //! keyboard entry, dragging a thickness, undo, accepting a candidate, save and reopen, a bad
 //! file, restoring after a crash and closing with unsaved changes.
 
-use aggrade::gui::document::{Document, Edit};
-use aggrade::gui::files::ScriptedDialogs;
-use aggrade::gui::recovery::Autosaver;
-use aggrade::gui::{demo, AggradeApp, AppConfig};
+use super::harness::{app_with as app, harness_of as harness, push_close_request};
+use aggrade::gui::test_hooks::demo;
+use aggrade::gui::test_hooks::recovery::Autosaver;
+use aggrade::gui::AggradeApp;
+use aggrade::gui::{Document, Edit};
 use aggrade_core::model::{GrainSize, Lithology, Project, ReviewState, Section, WentworthClass};
 use egui::{Key, Modifiers};
 use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
 use std::path::{Path, PathBuf};
-
-fn app(file: Option<PathBuf>, data_dir: &Path, answers: Vec<Option<PathBuf>>) -> AggradeApp {
-    AggradeApp::new(AppConfig {
-        file,
-        data_dir: data_dir.to_path_buf(),
-        dialogs: Box::new(ScriptedDialogs { answers: answers.into() }),
-        recent: Vec::new(),
-    })
-}
-
-fn harness(app: AggradeApp) -> Harness<'static, AggradeApp> {
-    Harness::builder()
-        .with_size(egui::vec2(1400.0, 900.0))
-        .build_ui_state(|ui, app: &mut AggradeApp| app.ui_main(ui), app)
-}
 
 /// Type into the field that has focus, then press a key.
 fn type_then(h: &mut Harness<'static, AggradeApp>, text: &str, key: Key) {
@@ -197,12 +183,7 @@ fn closing_with_unsaved_changes_asks_first() {
     let id = h.state().doc.section().beds[0].id;
     h.state_mut().apply(Edit::SetThickness { bed: id, thickness_m: 3.0 });
     h.run();
-    h.input_mut()
-        .viewports
-        .entry(egui::ViewportId::ROOT)
-        .or_default()
-        .events
-        .push(egui::ViewportEvent::Close);
+    push_close_request(&mut h);
     h.step();
     let commands = h
         .output()
@@ -260,7 +241,8 @@ fn clicking_the_column_selects_the_bed_at_that_height() {
 fn a_5000_bed_section_draws_only_what_is_visible_while_scrolling_and_zooming() {
     let data = tempfile::tempdir().expect("temp dir");
     let path = data.path().join("long.aggrade");
-    aggrade::gui::files::save(&path, &Project::new(vec![demo::long_section(5_000)])).expect("written");
+    aggrade::gui::test_hooks::files::save(&path, &Project::new(vec![demo::long_section(5_000)]))
+        .expect("written");
     let mut h = harness(app(Some(path), data.path(), vec![]));
     h.run();
     assert_eq!(h.state().doc.section().beds.len(), 5_000);
@@ -409,7 +391,8 @@ fn dragging_a_graded_beds_edge_keeps_it_fining_upward() {
 fn a_long_section_scrolls_to_a_picked_boundary_in_column_and_table() {
     let data = tempfile::tempdir().expect("temp dir");
     let file = data.path().join("long.aggrade");
-    aggrade::gui::files::save(&file, &Project::new(vec![demo::long_section(800)])).expect("saved");
+    aggrade::gui::test_hooks::files::save(&file, &Project::new(vec![demo::long_section(800)]))
+        .expect("saved");
     let mut h = harness(app(Some(file), data.path(), vec![]));
     h.run();
     let (drawn, laid_out) = h.state().drawn_items();
@@ -443,7 +426,7 @@ fn opening_another_file_shows_its_own_column_and_interpretation() {
         Some(GrainSize::Class(WentworthClass::Clay)),
     )];
     let other = data.path().join("mud.aggrade");
-    aggrade::gui::files::save(&other, &Project::new(vec![mud.clone()])).expect("saved");
+    aggrade::gui::test_hooks::files::save(&other, &Project::new(vec![mud.clone()])).expect("saved");
     h.state_mut().open_path(&other);
     h.run();
     let expected = aggrade_core::rules::interpret(&mud, &aggrade_core::rules::RuleParams::default());

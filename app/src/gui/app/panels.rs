@@ -1,0 +1,236 @@
+//! The menu bar, status bar and side panels of the window.
+
+use super::{AggradeApp, Command, Notice, Pending, Tab};
+use crate::gui::actions::{gesture_key, Actions};
+use crate::gui::canvas;
+use crate::gui::document::{Document, Edit};
+use crate::gui::{plots, review, theme};
+use aggrade_core::model::LengthUnit;
+
+impl AggradeApp {
+    /// One menu entry for a command: its label, shortcut and tooltip come from the command.
+    pub(super) fn menu_item(&mut self, ui: &mut egui::Ui, ctx: &egui::Context, cmd: Command) {
+        let mut b = egui::Button::new(cmd.label());
+        if let Some(text) = cmd.shortcut_text(ctx) {
+            b = b.shortcut_text(text);
+        }
+        let enabled = match cmd {
+            Command::Undo => self.doc.can_undo(),
+            Command::Redo => self.doc.can_redo(),
+            _ => true,
+        };
+        if ui.add_enabled(enabled, b).on_hover_text(cmd.tooltip()).clicked() {
+            self.run_command(ctx, cmd);
+            ui.close();
+        }
+    }
+
+    /// Menu entries for several commands, in order.
+    pub(super) fn menu_items(&mut self, ui: &mut egui::Ui, ctx: &egui::Context, cmds: &[Command]) {
+        for cmd in cmds {
+            self.menu_item(ui, ctx, *cmd);
+        }
+    }
+
+    pub(super) fn menu_bar(&mut self, ui: &mut egui::Ui, ctx: &egui::Context, actions: &mut Actions) {
+        egui::Panel::top("menu").show(ui, |ui| {
+            egui::MenuBar::new().ui(ui, |ui| {
+                ui.menu_button("File", |ui| {
+                    self.menu_items(ui, ctx, &[Command::New, Command::Open]);
+                    ui.menu_button("Open recent", |ui| {
+                        if self.recent.is_empty() {
+                            ui.label("No recent files");
+                        }
+                        for p in self.recent.clone() {
+                            if ui
+                                .button(p.display().to_string())
+                                .on_hover_text("Open this file again")
+                                .clicked()
+                            {
+                                self.guard(Pending::Open(p), ctx);
+                                ui.close();
+                            }
+                        }
+                    });
+                    self.menu_items(ui, ctx, &[Command::ImportCsv, Command::ImportTable]);
+                    ui.separator();
+                    self.menu_items(ui, ctx, &[Command::Save, Command::SaveAs, Command::Export]);
+                    ui.separator();
+                    self.menu_item(ui, ctx, Command::Quit);
+                });
+                ui.menu_button("Edit", |ui| {
+                    self.menu_items(ui, ctx, &[Command::Undo, Command::Redo]);
+                    ui.separator();
+                    ui.label(
+                        egui::RichText::new("Selected bed (↑ ↓ to move, Del to delete)")
+                            .small()
+                            .color(theme::TEXT_DIM),
+                    );
+                    canvas::bed_menu(ui, &self.doc, self.doc.selected_bed, actions);
+                });
+                ui.menu_button("View", |ui| {
+                    self.menu_items(ui, ctx, &[Command::ZoomIn, Command::ZoomOut]);
+                    ui.checkbox(&mut self.layout.show_rejected, "Show rejected boundaries")
+                        .on_hover_text("Draw boundaries you rejected, greyed");
+                    ui.separator();
+                    self.menu_items(ui, ctx, &[Command::PanelView, Command::StatsView, Command::BodiesView]);
+                });
+                ui.menu_button("Section", |ui| {
+                    let names: Vec<String> =
+                        self.doc.project.sections.iter().map(|s| s.name.clone()).collect();
+                    for (i, n) in names.iter().enumerate() {
+                        if ui
+                            .radio(self.doc.selected_section == i, n)
+                            .on_hover_text("Show this section")
+                            .clicked()
+                        {
+                            self.doc.select_section(i);
+                            ui.close();
+                        }
+                    }
+                    ui.separator();
+                    self.menu_item(ui, ctx, Command::AddSection);
+                    ui.separator();
+                    self.menu_item(ui, ctx, Command::AttachCurve);
+                    let attached: Vec<String> =
+                        self.doc.section().curves.iter().map(|c| c.mnemonic.clone()).collect();
+                    for m in attached {
+                        if ui
+                            .button(format!("Remove curve {m}"))
+                            .on_hover_text("Take this measured curve off the section (Ctrl+Z brings it back)")
+                            .clicked()
+                        {
+                            self.apply(Edit::RemoveCurve { mnemonic: m });
+                            ui.close();
+                        }
+                    }
+                });
+                ui.separator();
+                ui.label(egui::RichText::new(&self.doc.section().name).strong());
+                ui.label(
+                    egui::RichText::new(format!("{} beds", self.doc.section().beds.len()))
+                        .color(theme::TEXT_DIM),
+                );
+            });
+        });
+    }
+
+    pub(super) fn status_bar(&mut self, ui: &mut egui::Ui) {
+        egui::Panel::bottom("status").show(ui, |ui| {
+            // The caution first, from the right; the status takes the room left, cut short with
+            // "…" (whole on hover) rather than written over the caution.
+            ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
+                ui.label(egui::RichText::new(aggrade_core::REVIEW_CAUTION).small().color(theme::WARN));
+                ui.with_layout(egui::Layout::left_to_right(egui::Align::Center), |ui| {
+                    ui.add(egui::Label::new(&self.status).truncate()).on_hover_text(&self.status);
+                });
+            });
+        });
+    }
+
+    pub(super) fn left_panel(&mut self, ui: &mut egui::Ui, actions: &mut Actions) {
+        egui::Panel::left("beds").resizable(true).default_size(370.0).show(ui, |ui| {
+            ui.add_space(4.0);
+            self.table.ui(ui, &self.doc, actions);
+        });
+    }
+
+    pub(super) fn right_panel(&mut self, ui: &mut egui::Ui, actions: &mut Actions) {
+        egui::Panel::right("side").resizable(true).default_size(360.0).show(ui, |ui| {
+            ui.add_space(4.0);
+            ui.horizontal(|ui| {
+                for (t, name, tip) in [
+                    (Tab::Inspector, "Bed", "Every field of the selected bed"),
+                    (Tab::Review, "Review", "Candidate sequence boundaries and rule settings"),
+                    (Tab::Plots, "Plots", "Proportion, grain size and body thickness plots"),
+                    (Tab::Section, "Section", "Section details and units"),
+                ] {
+                    ui.selectable_value(&mut self.tab, t, name).on_hover_text(tip);
+                }
+            });
+            ui.separator();
+            let Some(cache) = self.column.current() else { return };
+            match self.tab {
+                Tab::Inspector => self.inspector.ui(ui, &self.doc, actions),
+                Tab::Review => {
+                    egui::CollapsingHeader::new("Rule parameters").show(ui, |ui| {
+                        review::params_ui(ui, &mut self.params);
+                    });
+                    review::ui(ui, &self.doc, &cache.interp, actions);
+                }
+                Tab::Plots => plots::ui(ui, &self.doc, &cache.interp),
+                Tab::Section => section_ui(ui, &self.doc, actions),
+            }
+        });
+    }
+
+    pub(super) fn views_ui(&mut self, ctx: &egui::Context) {
+        let now = std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_secs() as i64)
+            .unwrap_or(0);
+        let out = self.views.ui(ctx, &self.doc, &self.params, &mut self.chooser, now);
+        if let Some(s) = out.status {
+            self.status = s;
+        }
+        if let Some((title, text)) = out.error {
+            self.message = Some(Notice::new(title, text));
+        }
+    }
+}
+
+fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+    let s = doc.section();
+    let (mut name, mut locality, mut logged_by, mut notes) =
+        (s.name.clone(), s.locality.clone(), s.logged_by.clone(), s.notes.clone());
+    let mut changed = false;
+    egui::Grid::new("section_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
+        ui.label("Name");
+        let limit = aggrade_core::io::limits::MAX_STRING_CHARS;
+        fn line(text: &mut String, limit: usize) -> egui::TextEdit<'_> {
+            egui::TextEdit::singleline(text).char_limit(limit)
+        }
+        changed |= ui.add(line(&mut name, limit)).on_hover_text("The section's name").changed();
+        ui.end_row();
+        ui.label("Locality");
+        changed |=
+            ui.add(line(&mut locality, limit)).on_hover_text("Where the section was measured").changed();
+        ui.end_row();
+        ui.label("Logged by");
+        changed |= ui.add(line(&mut logged_by, limit)).on_hover_text("Who measured it").changed();
+        ui.end_row();
+        ui.label("Units");
+        ui.horizontal(|ui| {
+            for u in LengthUnit::ALL {
+                if ui
+                    .selectable_label(s.display_unit == *u, u.name())
+                    .on_hover_text("Show and type thicknesses in this unit")
+                    .clicked()
+                {
+                    out.edit(Edit::SetDisplayUnit { unit: *u });
+                }
+            }
+        });
+        ui.end_row();
+    });
+    ui.label("Notes");
+    changed |= ui
+        .add(
+            egui::TextEdit::multiline(&mut notes)
+                .desired_width(f32::INFINITY)
+                .char_limit(aggrade_core::io::limits::MAX_STRING_CHARS),
+        )
+        .on_hover_text("Notes on the section")
+        .changed();
+    if changed {
+        let g = gesture_key(("section", doc.selected_section));
+        out.edit_in(Edit::SetSectionInfo { name, locality, logged_by, notes }, g);
+    }
+    ui.separator();
+    ui.label(format!(
+        "Total thickness {:.2} m · exposed {:.2} m · {} beds",
+        s.total_thickness_m(),
+        s.exposed_thickness_m(),
+        s.beds.len()
+    ));
+}

@@ -1,0 +1,14 @@
+//! The window's tests, in one binary (each links egui and wgpu once): the real window driven
+//! headlessly with egui_kittest, the document model, backups and recovery.
+
+mod harness;
+
+mod background;
+mod base_rank;
+mod curves;
+mod document_model;
+mod editing;
+mod fields;
+mod import;
+mod recovery;
+mod views;

@@ -1,0 +1,5 @@
+//! Helpers shared by several reference checks: LAS files compared with lasio, small
+//! workbooks written by the tests themselves.
+
+pub mod lasio_compare;
+pub mod sheets;
