@@ -6,9 +6,9 @@
 use aggrade_core::analysis::las::{read_las, IndexDirection, IndexToSection};
 use aggrade_core::export::{write_pdf, PdfInfo};
 use aggrade_core::io;
-use aggrade_core::layout::curve_track::CURVE_COLOURS;
-use aggrade_core::layout::style::lithology_tint;
-use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::layout::{
+    lithology_tint, pages, LayoutOptions, Orientation, Paper, PrintMeta, CURVE_COLOURS,
+};
 use aggrade_core::model::{Lithology, Project};
 use aggrade_core::rules::{interpret, RuleParams};
 use serde_json::Value;

@@ -86,7 +86,7 @@ fn paper_sizes_follow_iso_216_and_ansi() {
 
 /// Fill colour of a bed in the PDF, as pdfplumber reports it (0–1 floats).
 fn tint(lith: Lithology) -> Vec<f64> {
-    let c = aggrade_core::layout::style::lithology_tint(lith);
+    let c = aggrade_core::layout::lithology_tint(lith);
     [c.0, c.1, c.2].iter().map(|v| (f64::from(*v) / 255.0 * 10000.0).round() / 10000.0).collect()
 }
 

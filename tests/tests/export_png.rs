@@ -3,7 +3,7 @@
 //! and the lengths must equal thickness ÷ scale × dpi ÷ 25.4 mm per inch (the arithmetic of a
 //! 1:N scale) to within a pixel. Python with Pillow and numpy is required (never skipped).
 
-use aggrade_core::export::png::write_png;
+use aggrade_core::export::write_png;
 use aggrade_core::layout::{pages, LayoutOptions, Paper, PrintMeta};
 use aggrade_core::model::{Bed, BedId, GrainSize, Lithology, Section, WentworthClass};
 use aggrade_core::rules::{interpret, RuleParams};

@@ -2,7 +2,7 @@
 //! astropy's `angular_separation` (Vincenty's formula on the sphere, PyPI) times the same mean
 //! Earth radius, run from python3; and the column order that follows from those distances.
 
-use aggrade_core::layout::panel::{haversine_m, panel_positions, PositionSource, EARTH_MEAN_RADIUS_M};
+use aggrade_core::layout::{haversine_m, panel_positions, PositionSource, EARTH_MEAN_RADIUS_M};
 use aggrade_core::model::{LatLon, Section};
 use std::process::Command;
 

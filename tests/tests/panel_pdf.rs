@@ -4,11 +4,10 @@
 //! correlation label), and the caution in the footer.
 
 use aggrade_core::export::{write_pdf, PdfInfo};
-use aggrade_core::layout::panel::{
-    panel_layout, Datum, PanelLayout, PanelOptions, DATUM_BLUE, LINK_TEAL, TIE_VIOLET,
+use aggrade_core::layout::{
+    lithology_tint, panel_layout, Datum, LayoutOptions, Orientation, PanelLayout, PanelOptions, Paper,
+    PrintMeta, Rgba, DATUM_BLUE, LINK_TEAL, TIE_VIOLET,
 };
-use aggrade_core::layout::style::lithology_tint;
-use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta, Rgba};
 use aggrade_core::model::{
     Bed, BedId, GrainSize, Lithology, Project, ReviewDecision, ReviewState, Section, Surface, SurfaceKind,
     WentworthClass,

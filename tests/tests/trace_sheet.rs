@@ -5,7 +5,7 @@
 //! printed one within the photo's pixel resolution, and every bed's grain class must come back.
 //! Also measured here: how far snapping to the pencil lines moves clicks made a few pixels off.
 
-use aggrade_core::export::png::{px_per_mm, write_png};
+use aggrade_core::export::{px_per_mm, write_png};
 use aggrade_core::layout::{pages, LayoutOptions, Page, Paper, PrintMeta};
 use aggrade_core::model::{Bed, BedId, GrainSize, Lithology, Section, WentworthClass};
 use aggrade_core::rules::{interpret, RuleParams};

@@ -1,6 +1,6 @@
 //! `aggrade export`: the interpreted column to PDF, SVG or PNG at a true scale.
 
-use aggrade_core::export::{png::write_png, write_pdf, write_svg, PdfInfo};
+use aggrade_core::export::{write_pdf, write_png, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::rules::{interpret, RuleParams};
 use anyhow::{bail, Context};

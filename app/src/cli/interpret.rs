@@ -55,7 +55,7 @@ fn check_lengths(section: &Section, file: &Path) -> anyhow::Result<()> {
     for (i, bed) in section.beds.iter().enumerate() {
         let at =
             || format!("{}: section {:?}, bed {} (id {})", file.display(), section.name, i + 1, bed.id.0);
-        if !(bed.thickness_m.is_finite() && bed.thickness_m > 0.0) {
+        if !bed.has_usable_thickness() {
             bail!("{}: thickness_m is {}; valid is a number of metres > 0", at(), bed.thickness_m);
         }
         if let Some(r) = bed.base_relief_m.filter(|r| !(r.is_finite() && *r >= 0.0)) {

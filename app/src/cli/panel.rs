@@ -1,8 +1,9 @@
 //! `aggrade panel`: a project's sections side by side, hung on a datum, to PDF or SVG.
 
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
-use aggrade_core::layout::panel::{panel_layout, Datum, PanelError, PanelOptions};
-use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::layout::{
+    panel_layout, Datum, LayoutOptions, Orientation, PanelError, PanelOptions, Paper, PrintMeta,
+};
 use aggrade_core::rules::{interpret, Interpretation, RuleParams};
 use anyhow::{anyhow, bail, Context};
 use std::path::PathBuf;

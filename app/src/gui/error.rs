@@ -16,7 +16,7 @@ pub enum WriteError {
     NothingToExport,
     /// The PNG could not be drawn or encoded (resolution, size or encoder).
     #[error(transparent)]
-    Png(#[from] aggrade_core::export::png::PngError),
+    Png(#[from] aggrade_core::export::PngError),
     /// The table could not be put into CSV.
     #[error(transparent)]
     Csv(#[from] CsvWriteError),

@@ -4,8 +4,7 @@
 use super::chooser::{Chooser, PickFor, SaveKind};
 use super::error::{WriteError, Written};
 use super::painter::{self, ItemIndex, MmToScreen};
-use aggrade_core::export::pdf::{write_pdf, PdfInfo};
-use aggrade_core::export::svg::write_svg;
+use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Page, Paper, PrintMeta};
 use aggrade_core::model::Section;
 use aggrade_core::rules::Interpretation;
@@ -57,7 +56,7 @@ pub fn export_to(
         pages.first().map(write_svg).ok_or(WriteError::NothingToExport)?.into_bytes()
     } else if is_png {
         let page = pages.first().ok_or(WriteError::NothingToExport)?;
-        aggrade_core::export::png::write_png(page, PNG_DPI)?
+        aggrade_core::export::write_png(page, PNG_DPI)?
     } else {
         let info = PdfInfo {
             title: section.name.clone(),

@@ -12,8 +12,7 @@ use aggrade_core::analysis::bodies::{body_table, thickness_summary};
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, rose_bins, section_readings, CircularParams, DataKind, PetalScale, RoseParams,
 };
-use aggrade_core::layout::panel::{panel_layout, Datum, PanelOptions};
-use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::layout::{panel_layout, Datum, LayoutOptions, Orientation, PanelOptions, Paper, PrintMeta};
 use aggrade_core::rules::{interpret, Interpretation, RuleParams};
 use egui::{Key, Modifiers};
 use egui_kittest::kittest::Queryable;

@@ -1,10 +1,11 @@
-//! PDF and SVG writers that translate layout pages item by item.
+//! PDF, SVG and PNG writers that translate layout pages item by item.
 
-pub mod pdf;
-pub mod png;
-pub mod svg;
+mod pdf;
+mod png;
+mod svg;
 
 pub use pdf::{write_pdf, write_pdf_in_groups, PdfInfo, PAGES_PER_GROUP};
+pub use png::{px_per_mm, rasterise, write_png, PngError, DPI_RANGE, MAX_PNG_PIXELS};
 pub use svg::write_svg;
 
 /// The civil date (YYYY-MM-DD, UTC, proleptic Gregorian calendar) of a Unix time, for the

@@ -4,7 +4,7 @@
 //! No drawing decision lives here: positions, sizes, colours and dashes come from the items.
 //! Only the coordinate flip (mm, y down → pt, y up) and text anchoring happen here.
 
-use crate::layout::font::{text_width_mm, DEJAVU_SANS};
+use crate::layout::{text_width_mm, DEJAVU_SANS};
 use crate::layout::{Anchor, Item, Page, PtMm, RectMm, Rgba, Stroke};
 use printpdf::{
     Color, FontId, Line, LineDashPattern, LinePoint, Mm, Op, PaintMode, ParsedFont, PdfDocument, PdfFont,

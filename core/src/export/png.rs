@@ -6,7 +6,7 @@
 //! drawn from the embedded DejaVu Sans outlines (through skrifa) with the layout's own advance
 //! widths, so labels sit where the PDF puts them.
 
-use crate::layout::font::{metrics, DEJAVU_SANS};
+use crate::layout::{metrics, DEJAVU_SANS, MM_PER_PT};
 use crate::layout::{Anchor, Item, Page, PtMm, Rgba, Stroke};
 use skrifa::instance::{LocationRef, Size};
 use skrifa::outline::{DrawSettings, OutlinePen};
@@ -109,7 +109,7 @@ struct Text<'a> {
 
 fn draw_text(pixmap: &mut Pixmap, font: &FontRef, t: &Text, k: f64) {
     let m = metrics();
-    let size_mm = t.size_pt * crate::layout::font::MM_PER_PT;
+    let size_mm = t.size_pt * MM_PER_PT;
     let width = m.text_width_mm(t.text, t.size_pt);
     let mut x = match t.anchor {
         Anchor::Start => 0.0,

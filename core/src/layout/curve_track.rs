@@ -57,6 +57,16 @@ impl CurveTracks {
     }
 }
 
+/// Where and how one curve is drawn: its track's left edge and width on the page (mm), its value
+/// axis (`None` when the curve has no finite value in the range drawn) and its ink.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct CurvePlace {
+    pub x_mm: f64,
+    pub w_mm: f64,
+    pub axis: Option<ValueAxis>,
+    pub colour: Rgba,
+}
+
 /// The value axis of a curve track: `min` at the left edge, `max` at the right.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct ValueAxis {
@@ -101,18 +111,15 @@ pub fn axis_label(v: f64) -> String {
 /// Draw curve `curve` in the track at absolute `x_mm` (width `w_mm`) for heights [lo, hi]:
 /// frame lines, a dashed mid line, and the curve as polylines broken at NULL samples and cut
 /// (by linear interpolation) at lo and hi.
-#[allow(clippy::too_many_arguments)]
 pub fn draw_curve(
     curve: &MeasuredCurve,
-    axis: Option<ValueAxis>,
-    colour: Rgba,
-    x_mm: f64,
-    w_mm: f64,
+    place: &CurvePlace,
     lo: f64,
     hi: f64,
     t: &HeightTransform,
     out: &mut Vec<Item>,
 ) {
+    let CurvePlace { x_mm, w_mm, axis, colour } = *place;
     let (y_lo, y_hi) = (t.y_mm(lo), t.y_mm(hi));
     for (x, stroke) in [
         (x_mm, solid(HAIR_MM, GREY)),
@@ -265,7 +272,8 @@ mod tests {
         let t = HeightTransform::new(100.0, 0.0, 100.0);
         let mut out = Vec::new();
         let ink = CURVE_COLOURS[0];
-        draw_curve(&c, Some(axis), ink, 50.0, 20.0, 0.0, 4.0, &t, &mut out);
+        let place = CurvePlace { x_mm: 50.0, w_mm: 20.0, axis: Some(axis), colour: ink };
+        draw_curve(&c, &place, 0.0, 4.0, &t, &mut out);
         let l = lines(&out, ink);
         assert_eq!(l.len(), 2, "the NULL at 2 m splits the curve: {l:?}");
         assert_eq!(l[0], vec![PtMm { x: 50.0, y: 100.0 }, PtMm { x: 70.0, y: 90.0 }]);
@@ -279,7 +287,8 @@ mod tests {
         let t = HeightTransform::new(200.0, 2.5, 100.0);
         let mut out = Vec::new();
         let ink = CURVE_COLOURS[1];
-        draw_curve(&c, Some(axis), ink, 0.0, 100.0, 2.5, 4.5, &t, &mut out);
+        let place = CurvePlace { x_mm: 0.0, w_mm: 100.0, axis: Some(axis), colour: ink };
+        draw_curve(&c, &place, 2.5, 4.5, &t, &mut out);
         let l = lines(&out, ink);
         assert_eq!(l.len(), 1);
         let pts = &l[0];
@@ -289,7 +298,7 @@ mod tests {
         assert!((pts[3].x - 45.0).abs() < 1e-9 && (pts[3].y - 180.0).abs() < 1e-9);
         // Two samples inside a range lying between them: one cut segment.
         let mut out = Vec::new();
-        draw_curve(&c, Some(axis), ink, 0.0, 100.0, 3.2, 3.7, &t, &mut out);
+        draw_curve(&c, &place, 3.2, 3.7, &t, &mut out);
         let l = lines(&out, ink);
         assert_eq!(l.len(), 1);
         assert!((l[0][0].x - 32.0).abs() < 1e-9 && (l[0][1].x - 37.0).abs() < 1e-9, "{l:?}");

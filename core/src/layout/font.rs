@@ -1,9 +1,12 @@
 //! The embedded text font (DejaVu Sans) and its advance widths, so layout can place text exactly.
 //!
 //! The same bytes are embedded in every PDF, so a width measured here is the width printed. Only
-//! the tables needed for advance widths are read (`head`, `hhea`, `hmtx`, `cmap` format 4); kerning
-//! is not applied by the writers either, so none is applied here.
+//! the tables needed for advance widths are read (`head`, `hhea`, `hmtx`, and the Unicode BMP
+//! `cmap` subtable of format 4), through `read-fonts`; kerning is not applied by the writers
+//! either, so none is applied here.
 
+use read_fonts::tables::cmap::{CmapSubtable, PlatformId};
+use read_fonts::{FontRef, TableProvider};
 use std::sync::OnceLock;
 
 /// DejaVu Sans (free licence, see `assets/fonts/DejaVu-LICENSE.txt`), used for all printed text.
@@ -12,134 +15,51 @@ pub const DEJAVU_SANS: &[u8] = include_bytes!("../../../assets/fonts/DejaVuSans.
 /// Millimetres per PostScript point (1 pt = 1/72 in, 1 in = 25.4 mm).
 pub const MM_PER_PT: f64 = 25.4 / 72.0;
 
+/// Number of code points in the Basic Multilingual Plane, the plane a format 4 `cmap` covers.
+const BMP_LEN: usize = 0x1_0000;
+
 /// Advance widths of a TrueType font, read from its `hmtx` and `cmap` tables.
 #[derive(Debug, Clone)]
 pub struct FontMetrics {
     units_per_em: f64,
     ascender: f64,
     descender: f64,
+    /// Advance of each glyph with its own horizontal metric (later glyphs repeat the last one).
     advances: Vec<u16>,
-    segments: Vec<CmapSegment>,
-    glyph_ids: Vec<u16>,
-    /// Byte index into `glyph_ids` terms where the idRangeOffset array starts (format 4 quirk).
-    range_offset_base: usize,
-}
-
-#[derive(Debug, Clone, Copy)]
-struct CmapSegment {
-    start: u16,
-    end: u16,
-    delta: i16,
-    range_offset: u16,
-    index: usize,
-}
-
-fn u16_at(b: &[u8], at: usize) -> Option<u16> {
-    Some(u16::from_be_bytes([*b.get(at)?, *b.get(at + 1)?]))
-}
-
-fn i16_at(b: &[u8], at: usize) -> Option<i16> {
-    u16_at(b, at).map(|v| v as i16)
-}
-
-fn u32_at(b: &[u8], at: usize) -> Option<u32> {
-    Some(u32::from_be_bytes([*b.get(at)?, *b.get(at + 1)?, *b.get(at + 2)?, *b.get(at + 3)?]))
-}
-
-fn table<'a>(font: &'a [u8], tag: &[u8; 4]) -> Option<&'a [u8]> {
-    let count = u16_at(font, 4)? as usize;
-    (0..count).find_map(|i| {
-        let rec = 12 + 16 * i;
-        if font.get(rec..rec + 4)? != tag {
-            return None;
-        }
-        let offset = u32_at(font, rec + 8)? as usize;
-        let length = u32_at(font, rec + 12)? as usize;
-        font.get(offset..offset.checked_add(length)?)
-    })
+    /// Glyph of every BMP code point (index = code point), 0 (the missing glyph) where the font
+    /// has none.
+    bmp_glyphs: Vec<u16>,
 }
 
 impl FontMetrics {
     /// Read the metrics of a TrueType font; `None` if a needed table is missing or malformed.
     pub fn parse(font: &[u8]) -> Option<Self> {
-        let head = table(font, b"head")?;
-        let hhea = table(font, b"hhea")?;
-        let hmtx = table(font, b"hmtx")?;
-        let cmap = table(font, b"cmap")?;
-        let units_per_em = f64::from(u16_at(head, 18)?);
-        let ascender = f64::from(i16_at(hhea, 4)?);
-        let descender = f64::from(i16_at(hhea, 6)?);
-        let n_metrics = u16_at(hhea, 34)? as usize;
-        let advances = (0..n_metrics).map(|i| u16_at(hmtx, 4 * i)).collect::<Option<Vec<_>>>()?;
+        let font = FontRef::new(font).ok()?;
+        let units_per_em = f64::from(font.head().ok()?.units_per_em());
+        let hhea = font.hhea().ok()?;
+        let ascender = f64::from(hhea.ascender().to_i16());
+        let descender = f64::from(hhea.descender().to_i16());
+        let advances = font.hmtx().ok()?.h_metrics().iter().map(|m| m.advance()).collect();
         // Unicode BMP subtable: Windows (3,1) or Unicode (0,3), format 4.
-        let n_sub = u16_at(cmap, 2)? as usize;
-        let sub = (0..n_sub).find_map(|i| {
-            let rec = 4 + 8 * i;
-            let platform = u16_at(cmap, rec)?;
-            let encoding = u16_at(cmap, rec + 2)?;
-            let offset = u32_at(cmap, rec + 4)? as usize;
-            let st = cmap.get(offset..)?;
-            ((platform, encoding) == (3, 1) || (platform, encoding) == (0, 3))
-                .then_some(st)
-                .filter(|st| u16_at(st, 0) == Some(4))
+        let cmap = font.cmap().ok()?;
+        let bmp = cmap.encoding_records().iter().find_map(|rec| {
+            let unicode_bmp = matches!(
+                (rec.platform_id(), rec.encoding_id()),
+                (PlatformId::Windows, 1) | (PlatformId::Unicode, 3)
+            );
+            match rec.subtable(cmap.offset_data()) {
+                Ok(CmapSubtable::Format4(f4)) if unicode_bmp => Some(f4),
+                _ => None,
+            }
         })?;
-        let seg_count = u16_at(sub, 6)? as usize / 2;
-        let ends = 14;
-        let starts = ends + 2 * seg_count + 2;
-        let deltas = starts + 2 * seg_count;
-        let ranges = deltas + 2 * seg_count;
-        let glyphs = ranges + 2 * seg_count;
-        let segments = (0..seg_count)
-            .map(|i| {
-                Some(CmapSegment {
-                    end: u16_at(sub, ends + 2 * i)?,
-                    start: u16_at(sub, starts + 2 * i)?,
-                    delta: i16_at(sub, deltas + 2 * i)?,
-                    range_offset: u16_at(sub, ranges + 2 * i)?,
-                    index: i,
-                })
-            })
-            .collect::<Option<Vec<_>>>()?;
-        let sub_len = (u16_at(sub, 2)? as usize).min(sub.len());
-        let glyph_ids = (glyphs..sub_len.max(glyphs)).step_by(2).filter_map(|at| u16_at(sub, at)).collect();
-        Some(FontMetrics {
-            units_per_em,
-            ascender,
-            descender,
-            advances,
-            segments,
-            glyph_ids,
-            range_offset_base: seg_count,
-        })
+        let bmp_glyphs =
+            (0..BMP_LEN as u32).map(|c| bmp.map_codepoint(c).map_or(0, |g| g.to_u32() as u16)).collect();
+        Some(FontMetrics { units_per_em, ascender, descender, advances, bmp_glyphs })
     }
 
     /// Glyph index of a character (0, the missing glyph, if the font lacks it).
     pub fn glyph_id(&self, ch: char) -> u16 {
-        let c = ch as u32;
-        if c > 0xFFFF {
-            return 0;
-        }
-        let c = c as u16;
-        let pos = self.segments.partition_point(|s| s.end < c);
-        let Some(seg) = self.segments.get(pos) else { return 0 };
-        if seg.start > c {
-            return 0;
-        }
-        if seg.range_offset == 0 {
-            return (c as i32 + seg.delta as i32).rem_euclid(65536) as u16;
-        }
-        // idRangeOffset is a byte offset from its own slot; turn it into an index into glyphIdArray.
-        let slot = seg.range_offset as usize / 2 + (c - seg.start) as usize;
-        let Some(index) = (slot + seg.index).checked_sub(self.range_offset_base) else { return 0 };
-        match self.glyph_ids.get(index) {
-            Some(0) | None => 0,
-            Some(&g) => (g as i32 + seg.delta as i32).rem_euclid(65536) as u16,
-        }
-    }
-
-    /// True when the font has a glyph for the character.
-    pub fn has_glyph(&self, ch: char) -> bool {
-        self.glyph_id(ch) != 0
+        self.bmp_glyphs.get(ch as usize).copied().unwrap_or(0)
     }
 
     /// Advance width of a character in font units.
@@ -177,9 +97,7 @@ pub fn metrics() -> &'static FontMetrics {
             ascender: 760.0,
             descender: -240.0,
             advances: vec![600],
-            segments: Vec::new(),
-            glyph_ids: Vec::new(),
-            range_offset_base: 0,
+            bmp_glyphs: Vec::new(),
         })
     })
 }
@@ -200,9 +118,12 @@ mod tests {
         assert_eq!(m.units_per_em, 2048.0);
         // The characters printed on logs must exist: phi, minus, ≥, digits, letters.
         for ch in ['φ', '−', '≥', '0', 'A', 'z', '°', '–'] {
-            assert!(m.has_glyph(ch), "{ch} missing");
+            assert_ne!(m.glyph_id(ch), 0, "{ch} missing");
         }
-        assert!(!m.has_glyph('\u{E000}'), "private-use area should be empty");
+        assert_eq!(m.glyph_id('\u{E000}'), 0, "private-use area should be empty");
+        // Beyond the BMP a format 4 map has nothing: the missing glyph's advance.
+        assert_eq!(m.glyph_id('\u{1D400}'), 0);
+        assert_eq!(m.advance_units('\u{1D400}'), m.advance_units('\u{E000}'));
     }
 
     #[test]

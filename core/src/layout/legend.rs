@@ -85,7 +85,7 @@ impl LegendEntry {
 pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
     let mut v = Vec::new();
     for (i, bed) in ctx.section.beds.iter().enumerate() {
-        if !(bed.thickness_m.is_finite() && bed.thickness_m > 0.0) {
+        if !bed.has_usable_thickness() {
             continue;
         }
         v.push(LegendEntry::Lithology(bed.lithology));

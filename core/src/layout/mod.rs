@@ -1,32 +1,54 @@
 //! Column layout: turns a section and its interpretation into positioned items at a true scale.
 //!
-//! [`column_strip`] gives the whole column as one tall strip (for the screen); [`pages`] gives
-//! printed pages. Both draw through the same [`column::ColumnCtx`], so the screen and the
-//! printout show the same items.
+//! Takes a [`Section`](crate::model::Section), its
+//! [`Interpretation`](crate::rules::Interpretation) and [`LayoutOptions`] (scale, paper,
+//! orientation, what to show); gives [`Item`]s in millimetres (rectangles, polygons, lines,
+//! circles, text), which the screen and the writers in [`crate::export`] only translate.
+//!
+//! - [`column_strip`] gives the whole column as one tall strip (for the screen); [`pages`] gives
+//!   printed pages. Both draw through the same column drawing (`column.rs`: axis, beds with
+//!   their lithology patterns and grain-size profile, structures, paleocurrents, paleosols, the
+//!   interpretation tracks and measured curves), so the screen and the printout show the same
+//!   items.
+//! - [`panel_layout`] sets a project's sections side by side as a correlation panel, spaced by
+//!   distance and hung on a datum, with tie lines (`panel/`: positions and scale, markers and
+//!   ties, notes, drawing).
+//! - Text is measured with the embedded font's own advance widths (`font.rs`), the font every
+//!   PDF embeds, so a width measured here is the width printed.
+//!
+//! The modules are private; what other stages use is re-exported here.
 
-pub mod clip;
-pub mod column;
-pub mod curve_track;
-pub mod font;
-pub mod items;
-pub mod legend;
-pub mod options;
-pub mod page;
-pub mod panel;
-pub mod patterns;
+mod clip;
+mod column;
+mod curve_track;
+mod font;
+mod items;
+mod legend;
+mod options;
+mod page;
+mod panel;
+mod patterns;
+#[cfg(any(test, feature = "sample-data"))]
 pub mod sample;
-pub mod spans;
-pub mod strip;
-pub mod style;
-pub mod symbols;
-pub mod text;
-pub mod transform;
+mod spans;
+mod strip;
+mod style;
+mod symbols;
+mod text;
+mod transform;
 
 pub use column::{BedBox, Tracks, NO_GRAIN_SIZE_PHI};
+pub use curve_track::CURVE_COLOURS;
+pub(crate) use font::{metrics, text_width_mm, DEJAVU_SANS, MM_PER_PT};
 pub use items::*;
 pub use legend::{legend_entries, LegendEntry};
 pub use options::{LayoutOptions, Orientation, Paper, PrintMeta};
 pub use page::{pages, Page, PageSegment};
-pub use panel::{panel_layout, panel_pages, Datum, PanelError, PanelLayout, PanelOptions};
+pub use panel::{
+    haversine_m, panel_layout, panel_pages, panel_positions, section_markers, Datum, HorizontalScale, Marker,
+    PanelColumn, PanelError, PanelLayout, PanelOptions, PositionSource, Positions, SectionMarkers, TieLine,
+    DATUM_BLUE, EARTH_MEAN_RADIUS_M, FLAG_ORANGE, LINK_TEAL, TIE_VIOLET,
+};
 pub use strip::{column_strip, column_strip_window, ColumnStrip};
+pub use style::lithology_tint;
 pub use transform::{GrainScale, HeightTransform};

@@ -11,7 +11,6 @@ use crate::rules::{
 };
 use crate::REVIEW_CAUTION;
 
-#[allow(clippy::too_many_arguments)]
 fn bed(
     id: u64,
     t: f64,

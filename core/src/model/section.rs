@@ -69,6 +69,22 @@ pub struct Bed {
 }
 
 impl Bed {
+    /// True when the thickness is a finite number of metres above zero, as validation requires.
+    pub fn has_usable_thickness(&self) -> bool {
+        self.thickness_m.is_finite() && self.thickness_m > 0.0
+    }
+
+    /// The thickness layout draws and the rules count, m: a thickness that failed validation
+    /// (not finite, zero or negative) counts as 0, so bad data never breaks a drawing or a rule;
+    /// validation reports it to the user.
+    pub fn usable_thickness_m(&self) -> f64 {
+        if self.has_usable_thickness() {
+            self.thickness_m
+        } else {
+            0.0
+        }
+    }
+
     /// A plain bed with defaults for everything but thickness, lithology and grain size.
     pub fn new(id: BedId, thickness_m: f64, lithology: Lithology, grain: Option<GrainSize>) -> Self {
         Bed {

@@ -7,7 +7,7 @@
 //! section top or under a covered interval, is censored: its thickness is a minimum, and with one
 //! storey seen its stacking is undetermined (more storeys may lie in the part not seen).
 
-use super::column::{is_sand_or_gravel, usable_thickness_m, TOL};
+use super::column::{is_sand_or_gravel, TOL};
 use super::params::RuleParams;
 use super::types::{Censor, ChannelBody, Element, GrainProfile, Stacking, Storey};
 use crate::model::{BaseRank, Bed, GrainSize, Section};
@@ -89,9 +89,9 @@ fn censored(section: &Section, elements: &[Element], group: &[Storey], params: &
     let mut drape_m = 0.0;
     while k < n
         && elements[k] == Element::OverbankFines
-        && drape_m + usable_thickness_m(&section.beds[k]) < params.drape_limit_m - TOL
+        && drape_m + section.beds[k].usable_thickness_m() < params.drape_limit_m - TOL
     {
-        drape_m += usable_thickness_m(&section.beds[k]);
+        drape_m += section.beds[k].usable_thickness_m();
         k += 1;
     }
     let capped = group[group.len() - 1].capped_by_paleosol;

@@ -4,16 +4,6 @@
 use super::types::Element;
 use crate::model::{Bed, LithologyFamily, Section};
 
-/// Thickness the rules use for a bed: negative, zero or non-finite thicknesses (which the readers
-/// reject) count as zero so that the rules never panic or loop on bad data.
-pub(crate) fn usable_thickness_m(bed: &Bed) -> f64 {
-    if bed.thickness_m.is_finite() && bed.thickness_m > 0.0 {
-        bed.thickness_m
-    } else {
-        0.0
-    }
-}
-
 /// Allowance on threshold comparisons of lengths (metres) and proportions: rounding left by unit
 /// conversion (e.g. feet to metres) must not flip a call that sits exactly on a threshold.
 pub(crate) const TOL: f64 = 1e-9;
@@ -46,7 +36,7 @@ impl Column {
         let mut h = 0.0;
         bounds_m.push(h);
         for bed in &section.beds {
-            h += usable_thickness_m(bed);
+            h += bed.usable_thickness_m();
             bounds_m.push(h);
         }
         Column { bounds_m, channel_cum_m: Vec::new(), exposed_cum_m: Vec::new() }

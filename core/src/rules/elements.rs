@@ -12,7 +12,7 @@
 //! paleosol profile on its own sandstone top.
 
 use super::bodies::profile;
-use super::column::{family, is_sand_or_gravel, usable_thickness_m, Column, TOL};
+use super::column::{family, is_sand_or_gravel, Column, TOL};
 use super::params::RuleParams;
 use super::types::{Element, GrainProfile, Storey};
 use crate::model::{BaseRank, Bed, Contact, LithologyFamily, Section, Structure};
@@ -33,7 +33,7 @@ fn first_reading(bed: &Bed, in_profile: bool) -> Element {
 pub(crate) fn is_lag(bed: &Bed, params: &RuleParams) -> bool {
     is_sand_or_gravel(bed)
         && (family(bed) == LithologyFamily::Gravel || bed.structures.contains(&Structure::BasalLag))
-        && usable_thickness_m(bed) < params.lag_limit_m - TOL
+        && bed.usable_thickness_m() < params.lag_limit_m - TOL
 }
 
 /// True when the geologist ranked this bed's base a storey surface or a body base.
@@ -174,7 +174,7 @@ impl Reading<'_> {
                 } else {
                     (0.0, i + 1)
                 };
-                fines_m[i] = usable_thickness_m(&beds[i]) + above.0;
+                fines_m[i] = beds[i].usable_thickness_m() + above.0;
                 after_fines[i] = above.1;
             }
             if !is_sand_or_gravel(&beds[i]) {
@@ -250,7 +250,7 @@ pub fn elements_and_storeys(
     let mut i = 0;
     while i < n {
         let bed = &beds[i];
-        let t = usable_thickness_m(bed);
+        let t = bed.usable_thickness_m();
         if is_sand_or_gravel(bed) {
             if let Some(o) = open.as_mut() {
                 if surfaces[i] {

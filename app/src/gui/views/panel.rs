@@ -8,10 +8,10 @@ use crate::gui::error::{WriteError, Written};
 use crate::gui::painter::{self, ItemIndex, MmToScreen};
 use crate::gui::theme;
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
-use aggrade_core::layout::panel::{
-    panel_layout, section_markers, Datum, PanelError, PanelLayout, PanelOptions,
+use aggrade_core::layout::{
+    panel_layout, section_markers, Datum, LayoutOptions, Orientation, PanelError, PanelLayout, PanelOptions,
+    Paper, PrintMeta,
 };
-use aggrade_core::layout::{LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::model::Project;
 use std::path::Path;
 
