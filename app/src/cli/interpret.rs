@@ -3,9 +3,7 @@
 
 use aggrade_core::analysis::bodies::censor_name;
 use aggrade_core::model::{LengthUnit, Section};
-use aggrade_core::rules::{
-    interpret, CandidateKind, GrainProfile, Interpretation, MaturitySign, Regime, RuleParams,
-};
+use aggrade_core::rules::{interpret, GrainProfile, Interpretation, MaturitySign, Regime, RuleParams};
 use anyhow::{anyhow, bail, Context};
 use std::fmt::Write as _;
 use std::io::Write as _;
@@ -125,14 +123,6 @@ fn profile_name(p: GrainProfile) -> &'static str {
         GrainProfile::CoarseningUpward => "coarsening-upward",
         GrainProfile::Blocky => "blocky",
         GrainProfile::Unknown => "unknown (no grain sizes)",
-    }
-}
-
-fn kind_name(k: CandidateKind) -> &'static str {
-    match k {
-        CandidateKind::ChannelBodyBase => "channel-body base",
-        CandidateKind::PaleosolTop => "paleosol top",
-        CandidateKind::ChannelBaseOnPaleosol => "channel-body base on a paleosol",
     }
 }
 
@@ -270,7 +260,7 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
             k + 1,
             c.height_m,
             c.score,
-            kind_name(c.kind)
+            c.kind.name()
         );
         for e in &c.evidence {
             let _ = writeln!(s, "     - {e}");

@@ -8,18 +8,10 @@ use super::field::{committed_field_in_memory, problem_label, FieldLook};
 use super::table::show_length;
 use super::theme;
 use aggrade_core::model::{PaleosolDevelopment, Project, ReviewState};
-use aggrade_core::rules::{CandidateKind, Interpretation};
+use aggrade_core::rules::Interpretation;
 
 /// How many candidates are listed at a time.
 const REVIEW_PAGE: usize = 25;
-
-fn kind_name(k: CandidateKind) -> &'static str {
-    match k {
-        CandidateKind::ChannelBodyBase => "channel-body base",
-        CandidateKind::PaleosolTop => "paleosol top",
-        CandidateKind::ChannelBaseOnPaleosol => "channel base on paleosol",
-    }
-}
 
 /// The correlation labels already used in a project, sorted, each once (offered when labelling
 /// another boundary, so that the same label is written the same way).
@@ -151,7 +143,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                         ui.label(egui::RichText::new(badge).color(colour).strong());
                     });
                 });
-                ui.label(egui::RichText::new(kind_name(c.kind)).color(theme::TEXT_DIM));
+                ui.label(egui::RichText::new(c.kind.name()).color(theme::TEXT_DIM));
                 score_bar(ui, c.score);
                 for e in &c.evidence {
                     ui.label(format!("• {e}"));
@@ -393,8 +385,8 @@ mod tests {
         assert!(e.starts_with("window_m: got 0"), "{e}");
         assert!(read_param(&p, "window_m", "1 2", false).is_err(), "half a number is not read");
         assert!(read_param(&p, "low_min_proportion", "1.5", false).is_err(), "a fraction above 1");
-        assert_eq!(read_param(&p, "grain_jump_min_classes", "3", true), Ok(serde_json::json!(3)));
-        assert!(read_param(&p, "grain_jump_min_classes", "3.5", true).is_err());
-        assert!(read_param(&p, "grain_jump_min_classes", "101", true).is_err());
+        assert_eq!(read_param(&p, "facies_shift_min_classes", "3", true), Ok(serde_json::json!(3)));
+        assert!(read_param(&p, "facies_shift_min_classes", "3.5", true).is_err());
+        assert!(read_param(&p, "facies_shift_min_classes", "101", true).is_err());
     }
 }

@@ -294,6 +294,8 @@ mod tests {
             profile: GrainProfile::Unknown,
             style_hint: None,
             storey_indices: Vec::new(),
+            stability: None,
+            flipped_by: None,
         }
     }
 

@@ -45,6 +45,8 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
                         .at_line(line)
                 })
                 .collect();
+            let mut warnings: Vec<Problem> = warnings;
+            warnings.extend(retired_params(&project));
             return Ok(ProjectRead { project, warnings });
         }
     }
@@ -127,10 +129,18 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
     }
     match project {
         Some(project) if problems.is_empty() => {
+            warnings.extend(retired_params(&project));
             Ok(ProjectRead { project, warnings: with_lines(text, warnings, migrated) })
         }
         _ => Err(with_lines(text, problems, migrated)),
     }
+}
+
+/// Warnings for rule-parameter names this version no longer reads.
+fn retired_params(project: &Project) -> Vec<Problem> {
+    crate::rules::RuleParams::from_partial(&Value::Object(project.rule_params.clone()))
+        .map(|read| read.warnings.into_iter().map(|w| Problem::new("rule_params", w)).collect())
+        .unwrap_or_default()
 }
 
 /// The column in characters (as an editor shows it) of byte column `byte_column` (1-based, as

@@ -47,8 +47,11 @@ fn check_review(v: &Value) -> Result<(), String> {
     whole
 }
 
-const PROJECT_FIELDS: &[(&str, Kind)] =
-    &[("format_version", Kind::Required(check::<u32>)), ("sections", Kind::List(|_| Ok(())))];
+const PROJECT_FIELDS: &[(&str, Kind)] = &[
+    ("format_version", Kind::Required(check::<u32>)),
+    ("sections", Kind::List(|_| Ok(()))),
+    ("rule_params", Kind::Optional(check::<serde_json::Map<String, Value>>)),
+];
 
 const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("name", Kind::Required(check::<String>)),
@@ -448,7 +451,11 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> FieldRead {
             }
         }
     }
-    let project = problems.is_empty().then_some(Project { format_version, sections });
+    let rule_params = match obj.get("rule_params") {
+        Some(Value::Object(m)) => m.clone(),
+        _ => serde_json::Map::new(),
+    };
+    let project = problems.is_empty().then_some(Project { format_version, sections, rule_params });
     FieldRead { project, problems, warnings }
 }
 

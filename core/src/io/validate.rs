@@ -265,6 +265,11 @@ pub fn validate_project(project: &Project) -> Vec<Problem> {
         ));
         return out;
     }
+    if let Err(faults) =
+        crate::rules::RuleParams::from_partial(&serde_json::Value::Object(project.rule_params.clone()))
+    {
+        out.extend(faults.into_iter().map(|f| Problem::new("rule_params", f)));
+    }
     let mut names: HashMap<String, usize> = HashMap::new();
     for (i, section) in project.sections.iter().enumerate() {
         let prefix = format!("sections[{i}].");

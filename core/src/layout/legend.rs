@@ -242,7 +242,7 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
             stroke: Some(solid(HAIR_MM, GREY)),
         }),
         LegendEntry::Boundary(state) => {
-            let (stroke, _, _) = boundary_style(state, 0.0);
+            let (stroke, _, _) = boundary_style(state, crate::rules::Strength::Weak, None);
             out.push(Item::Polyline {
                 points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + r.w, y: mid.y }],
                 stroke,

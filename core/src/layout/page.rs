@@ -74,8 +74,9 @@ impl Frame {
     }
 }
 
-fn footer_lines(page_w: f64, margin: f64) -> Vec<String> {
-    wrap(REVIEW_CAUTION, page_w - 2.0 * margin - 28.0, FOOTER_PT)
+/// The footer: the review caution and which rules produced the interpretation.
+fn footer_lines(rules: &str, page_w: f64, margin: f64) -> Vec<String> {
+    wrap(&format!("{REVIEW_CAUTION} Interpreted with {rules}."), page_w - 2.0 * margin - 28.0, FOOTER_PT)
 }
 
 /// Lay out printed pages of the interpreted column.
@@ -86,6 +87,7 @@ pub fn pages(
     meta: &PrintMeta,
 ) -> Vec<Page> {
     let mut ctx = ColumnCtx::new(section, interp, opts);
+    let rules = interp.params.summary();
     let entries = legend_entries(&ctx);
     let margin = if opts.margin_mm.is_finite() { opts.margin_mm.clamp(3.0, 40.0) } else { 12.0 };
     if let Some((w, _)) = opts.page_size_mm() {
@@ -99,12 +101,12 @@ pub fn pages(
 
     let (frame, tall) = match opts.page_size_mm() {
         Some((w, h)) => {
-            let footer_h = footer_lines(w, margin).len() as f64 * 2.6 + 3.0;
+            let footer_h = footer_lines(&rules, w, margin).len() as f64 * 2.6 + 3.0;
             (Frame { width: w, height: h, margin, footer_h }, false)
         }
         None => {
             let w = (strip_w + 2.0 * margin).max(210.0);
-            let footer_h = footer_lines(w, margin).len() as f64 * 2.6 + 3.0;
+            let footer_h = footer_lines(&rules, w, margin).len() as f64 * 2.6 + 3.0;
             let legend_h = legend_height_mm(entries.len(), w - 2.0 * margin);
             let h = margin
                 + header_h
@@ -184,7 +186,7 @@ pub fn pages(
     }
     let n = pages.len();
     for (i, page) in pages.iter_mut().enumerate() {
-        draw_footer(&frame, i + 1, n, &mut page.items);
+        draw_footer(&frame, &rules, i + 1, n, &mut page.items);
     }
     pages
 }
@@ -276,9 +278,9 @@ fn draw_header(
     });
 }
 
-fn draw_footer(f: &Frame, page: usize, n: usize, out: &mut Vec<Item>) {
+fn draw_footer(f: &Frame, rules: &str, page: usize, n: usize, out: &mut Vec<Item>) {
     let m = f.margin;
-    let lines = footer_lines(f.width, m);
+    let lines = footer_lines(rules, f.width, m);
     let y0 = f.height - m - lines.len() as f64 * 2.6 + 1.6;
     out.push(Item::Polyline {
         points: vec![PtMm { x: m, y: y0 - 2.8 }, PtMm { x: f.width - m, y: y0 - 2.8 }],

@@ -7,7 +7,7 @@ use crate::model::{
 };
 use crate::rules::{
     BoundaryCandidate, CandidateKind, ChannelBody, CurvePoint, Element, GrainProfile, Interpretation,
-    IntervalProportion, Regime, RegimeInterval, Stacking, Storey,
+    IntervalProportion, Regime, RegimeInterval, RuleParams, Stacking, Storey, Strength,
 };
 use crate::REVIEW_CAUTION;
 
@@ -133,6 +133,8 @@ pub fn sample_interpretation(section: &Section) -> Interpretation {
             profile: GrainProfile::FiningUpward,
             style_hint: None,
             storey_indices: si.to_vec(),
+            stability: None,
+            flipped_by: None,
         }
     };
     let channel_bodies = vec![
@@ -164,13 +166,18 @@ pub fn sample_interpretation(section: &Section) -> Interpretation {
             CurvePoint { height_m: h, proportion: p }
         })
         .collect();
-    let cand = |bed_index: usize, kind, score, review| BoundaryCandidate {
+    let cand = |bed_index: usize, kind, strength, score, review| BoundaryCandidate {
         height_m: bases[bed_index],
         bed_index,
         bed_id: section.beds[bed_index].id,
         kind,
+        strength,
         score,
-        evidence: vec!["erosional base with a jump of three grain-size classes".into()],
+        evidence: vec!["erosional relief beyond the storey below".into()],
+        surface_name: None,
+        label: None,
+        stability: None,
+        flipped_by: None,
         review,
         note: String::new(),
     };
@@ -211,10 +218,14 @@ pub fn sample_interpretation(section: &Section) -> Interpretation {
             },
         ],
         sequence_boundary_candidates: vec![
-            cand(2, CandidateKind::ChannelBaseOnPaleosol, 0.86, ReviewState::Accepted),
-            cand(14, CandidateKind::ChannelBodyBase, 0.64, ReviewState::Candidate),
-            cand(6, CandidateKind::ChannelBodyBase, 0.31, ReviewState::Rejected),
+            cand(2, CandidateKind::ChannelBaseOnPaleosol, Strength::Strong, 0.55, ReviewState::Accepted),
+            cand(14, CandidateKind::ChannelBodyBase, Strength::Moderate, 0.3, ReviewState::Candidate),
+            cand(6, CandidateKind::ChannelBodyBase, Strength::Weak, 0.0, ReviewState::Rejected),
         ],
+        unlisted_candidates: 0,
+        cut_heights: vec![bases[2]],
+        cuts_are_accepted: true,
+        params: RuleParams::default(),
         caution: REVIEW_CAUTION.to_string(),
     }
 }
@@ -253,6 +264,10 @@ pub fn generated_section(n: usize) -> (Section, Interpretation) {
             .collect(),
         accommodation: Vec::new(),
         sequence_boundary_candidates: Vec::new(),
+        unlisted_candidates: 0,
+        cut_heights: Vec::new(),
+        cuts_are_accepted: false,
+        params: RuleParams::default(),
         caution: REVIEW_CAUTION.to_string(),
     };
     (s, interp)

@@ -298,6 +298,10 @@ pub struct Project {
     /// File format version; readers migrate older versions forward.
     pub format_version: u32,
     pub sections: Vec<Section>,
+    /// The interpretation rules' parameters that differ from the defaults, as a partial object
+    /// (the rules read it; the rest comes from the defaults). Empty: the default rules.
+    #[serde(default, skip_serializing_if = "serde_json::Map::is_empty")]
+    pub rule_params: serde_json::Map<String, serde_json::Value>,
 }
 
 impl Project {
@@ -306,7 +310,7 @@ impl Project {
 
     /// A project holding the given sections.
     pub fn new(sections: Vec<Section>) -> Self {
-        Project { format_version: Self::CURRENT_VERSION, sections }
+        Project { format_version: Self::CURRENT_VERSION, sections, rule_params: serde_json::Map::new() }
     }
 
     /// Find a section by name (exact, then case-insensitive).

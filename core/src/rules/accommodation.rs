@@ -1,152 +1,152 @@
-//! Accommodation regime intervals: low where bodies are amalgamated and the channel-body
-//! proportion is high, high where single-story bodies sit isolated in thick fines, undetermined
-//! where the evidence is thin or mixed. Each call explains itself in words.
+//! Accommodation regime intervals, one per stretch between boundaries (accepted ones, else
+//! strong candidates), never across one. Each stretch collects signs of low and of high
+//! accommodation and is called when one side has enough of them and more than the other:
 //!
-//! The section is cut at channel-body bases: each stretch runs from one body's base to the next
-//! body's base (the stretch below the first body has no body). Neighbouring stretches with the
-//! same call are merged.
+//! | low accommodation | high accommodation |
+//! | --- | --- |
+//! | most bodies multi-story (amalgamated) | several single-story bodies, most bodies isolated |
+//! | channel-body proportion ≥ `low_min_proportion` + margin | proportion ≤ `high_max_proportion` − margin |
+//! | most paleosols mature and well drained | most paleosols immature or poorly drained |
+//!
+//! Stacking and proportion after Allen (1978), Bridge & Leeder (1979) and Shanley & McCabe
+//! (1994); the soils after Wright & Marriott (1993) and Kraus (1999): slow aggradation leaves
+//! time for mature, well-drained profiles, rapid aggradation leaves weakly developed, often
+//! hydromorphic (gleyed, mottled) ones. A proportion within the margin of a threshold gives no
+//! sign. A call needs [`MIN_SIGNS`] signs and more than the other side has (our choice: one sign
+//! alone, such as a single amalgamated body, is too little to call a regime on).
 
-use super::column::{proportion_of, Column, RisingWindows, TOL};
-use super::evidence::{RegimeWhy, Undetermined};
+use super::column::{Column, TOL};
+use super::evidence::{RegimeSign, RegimeWhy, Undetermined};
 use super::params::RuleParams;
-use super::types::{ChannelBody, Regime, RegimeInterval, Stacking};
+use super::types::{ChannelBody, PaleosolProfile, Regime, RegimeInterval, Stacking};
 
-/// One stretch with its first call and, when undetermined, why.
-struct Stretch {
-    base_m: f64,
-    top_m: f64,
-    body: Option<usize>,
-    regime: Regime,
-    reasons: Vec<Undetermined>,
-}
+/// Signs a call needs at the least (and more than the other side has).
+pub const MIN_SIGNS: usize = 2;
 
-/// The first call for one stretch, before neighbours are merged.
-fn call(windows: &mut RisingWindows, bodies: &[ChannelBody], s: &mut Stretch, params: &RuleParams) {
-    let len_m = s.top_m - s.base_m;
-    let (channel_m, exposed_m) = windows.window_m(s.base_m, s.top_m);
-    let covered = if len_m > 0.0 { 1.0 - exposed_m / len_m } else { 1.0 };
-    let proportion = proportion_of(channel_m, exposed_m);
-    let undetermined = |s: &mut Stretch, why: Undetermined| {
-        s.regime = Regime::Undetermined;
-        s.reasons.push(why);
-    };
+/// The call for one stretch.
+fn call(
+    column: &Column,
+    bodies: &[&ChannelBody],
+    soils: &[&PaleosolProfile],
+    (base_m, top_m): (f64, f64),
+    params: &RuleParams,
+) -> (Regime, RegimeWhy) {
+    let len_m = top_m - base_m;
     if len_m <= 0.0 {
-        return undetermined(s, Undetermined::NoThickness);
+        return (
+            Regime::Undetermined,
+            RegimeWhy::Undetermined { signs: vec![], reasons: vec![Undetermined::NoThickness] },
+        );
     }
+    let (channel_m, exposed_m) = column.window_m(base_m, top_m);
+    let covered = 1.0 - exposed_m / len_m;
     if covered > params.max_covered_fraction + TOL {
-        let pct = (covered * 100.0).round();
-        let (base_m, top_m) = (s.base_m, s.top_m);
-        return undetermined(s, Undetermined::MostlyCovered { percent: pct, base_m, top_m });
+        let percent = (covered * 100.0).round();
+        let why = Undetermined::MostlyCovered { percent, base_m, top_m };
+        return (Regime::Undetermined, RegimeWhy::Undetermined { signs: vec![], reasons: vec![why] });
     }
-    let (Some(k), Some(p)) = (s.body, proportion) else {
-        let (base_m, top_m) = (s.base_m, s.top_m);
-        return undetermined(s, Undetermined::NoChannelBody { base_m, top_m });
-    };
-    match bodies[k].stacking {
-        Stacking::MultiStory if p >= params.low_min_proportion - TOL => s.regime = Regime::Low,
-        Stacking::SingleStory if p <= params.high_max_proportion + TOL => s.regime = Regime::High,
-        Stacking::MultiStory => {
-            let why = Undetermined::MultiStoryTooLittle {
-                base_m: s.base_m,
-                proportion: p,
-                min: params.low_min_proportion,
-            };
-            undetermined(s, why)
+    let mut low = Vec::new();
+    let mut high = Vec::new();
+    let mut reasons = Vec::new();
+
+    // Stacking of the bodies seen whole enough to tell.
+    let multi = bodies.iter().filter(|b| b.stacking == Stacking::MultiStory).count();
+    let single = bodies.iter().filter(|b| b.stacking == Stacking::SingleStory).count();
+    let told = multi + single;
+    if told == 0 && !bodies.is_empty() {
+        reasons.push(Undetermined::PartlySeenBodies { bodies: bodies.len() });
+    } else if multi * 2 > told {
+        low.push(RegimeSign::Amalgamated { multi, bodies: told });
+    } else if single * 2 > told {
+        if single >= params.high_min_isolated_bodies {
+            high.push(RegimeSign::Isolated { single, bodies: told });
+        } else {
+            reasons.push(Undetermined::TooFewIsolated {
+                bodies: single,
+                needed: params.high_min_isolated_bodies,
+            });
         }
-        Stacking::Undetermined => {
-            let why = Undetermined::PartlySeenBody { base_m: s.base_m };
-            undetermined(s, why)
+    }
+
+    // Channel-body proportion, with a margin around each threshold.
+    if exposed_m > 0.0 {
+        let p = channel_m / exposed_m;
+        let margin = params.regime_margin;
+        let (lo, hi) = (params.low_min_proportion, params.high_max_proportion);
+        if (p - lo).abs() < margin - TOL {
+            reasons.push(Undetermined::NearThreshold { proportion: p, threshold: lo, margin });
+        } else if (p - hi).abs() < margin - TOL {
+            reasons.push(Undetermined::NearThreshold { proportion: p, threshold: hi, margin });
+        } else if p >= lo - TOL {
+            low.push(RegimeSign::SandRich { proportion: p, min: lo });
+        } else if p <= hi + TOL {
+            high.push(RegimeSign::MudRich { proportion: p, max: hi });
         }
-        Stacking::SingleStory => {
-            let why = Undetermined::SingleStoryTooMuch {
-                base_m: s.base_m,
-                proportion: p,
-                max: params.high_max_proportion,
-            };
-            undetermined(s, why)
+    }
+
+    // Paleosol maturity and drainage.
+    if !soils.is_empty() {
+        let mature = soils.iter().filter(|p| p.maturity.is_strong() && !p.poorly_drained).count();
+        let immature = soils.len() - mature;
+        if mature * 2 > soils.len() {
+            low.push(RegimeSign::MatureSoils { mature, profiles: soils.len() });
+        } else if immature * 2 > soils.len() {
+            high.push(RegimeSign::ImmatureOrWetSoils { count: immature, profiles: soils.len() });
         }
+    }
+
+    let (nl, nh) = (low.len(), high.len());
+    if nl >= MIN_SIGNS && nl > nh {
+        (Regime::Low, RegimeWhy::Called { signs: low, against: high })
+    } else if nh >= MIN_SIGNS && nh > nl {
+        (Regime::High, RegimeWhy::Called { signs: high, against: low })
+    } else {
+        if nl == nh && nl > 0 {
+            reasons.push(Undetermined::Mixed { low: nl, high: nh });
+        } else {
+            reasons.push(Undetermined::TooFewSigns { signs: nl.max(nh), needed: MIN_SIGNS });
+        }
+        low.extend(high);
+        (Regime::Undetermined, RegimeWhy::Undetermined { signs: low, reasons })
     }
 }
 
-/// Merge neighbours with the same regime.
-fn merge(stretches: Vec<Vec<Stretch>>) -> Vec<Vec<Stretch>> {
-    let mut out: Vec<Vec<Stretch>> = Vec::new();
-    for group in stretches {
-        match out.last_mut() {
-            Some(last) if last[0].regime == group[0].regime => last.extend(group),
-            _ => out.push(group),
+/// Regime intervals covering the whole section, base first: one per stretch between the cut
+/// heights. A body belongs to the stretch its base lies in, a paleosol to the one its top lies in.
+pub fn regimes(
+    column: &Column,
+    bodies: &[ChannelBody],
+    paleosols: &[PaleosolProfile],
+    cuts_m: &[f64],
+    params: &RuleParams,
+) -> Vec<RegimeInterval> {
+    let total = column.total_m();
+    let mut heights: Vec<f64> =
+        cuts_m.iter().copied().filter(|h| h.is_finite() && *h > TOL && *h < total - TOL).collect();
+    heights.sort_by(f64::total_cmp);
+    heights.dedup_by(|a, b| (*a - *b).abs() <= TOL);
+    let mut out = Vec::with_capacity(heights.len() + 1);
+    let mut base = 0.0;
+    // Bodies and soils are in rising order: two cursors keep the whole pass linear.
+    let (mut kb, mut ks) = (0, 0);
+    for top in heights.into_iter().chain(std::iter::once(total)) {
+        let last = top >= total;
+        let in_stretch = |h: f64| h < top - TOL || last;
+        let from_b = kb;
+        while kb < bodies.len() && in_stretch(bodies[kb].base_m) {
+            kb += 1;
         }
+        let from_s = ks;
+        while ks < paleosols.len() && (paleosols[ks].top_m <= top + TOL || last) {
+            ks += 1;
+        }
+        let b: Vec<&ChannelBody> = bodies[from_b..kb].iter().collect();
+        let s: Vec<&PaleosolProfile> = paleosols[from_s..ks].iter().collect();
+        let (regime, why) = call(column, &b, &s, (base, top), params);
+        out.push(RegimeInterval { base_m: base, top_m: top, regime, why });
+        base = top;
     }
     out
-}
-
-/// The reasoning for a merged group (put into words only when shown).
-fn why(
-    windows: &mut RisingWindows,
-    bodies: &[ChannelBody],
-    group: &[Stretch],
-    params: &RuleParams,
-) -> RegimeWhy {
-    let base = group[0].base_m;
-    let top = group[group.len() - 1].top_m;
-    let proportion = windows.proportion(base, top);
-    let in_group = || group.iter().filter_map(|s| s.body.map(|k| &bodies[k]));
-    match group[0].regime {
-        Regime::Low => RegimeWhy::Low {
-            bodies: in_group().count(),
-            storeys: in_group().map(|b| b.stories).sum(),
-            amalgamated_bases: in_group().map(|b| b.amalgamated_bases).sum(),
-            proportion,
-            min: params.low_min_proportion,
-        },
-        Regime::High => {
-            RegimeWhy::High { bodies: in_group().count(), proportion, max: params.high_max_proportion }
-        }
-        Regime::Undetermined => RegimeWhy::Undetermined {
-            reasons: group.iter().flat_map(|s| s.reasons.iter().cloned()).collect(),
-        },
-    }
-}
-
-/// Regime intervals covering the whole section, base first.
-pub fn regimes(column: &Column, bodies: &[ChannelBody], params: &RuleParams) -> Vec<RegimeInterval> {
-    let total = column.total_m();
-    let mut cuts: Vec<(f64, Option<usize>)> = Vec::with_capacity(bodies.len() + 1);
-    if bodies.first().is_none_or(|b| b.base_m > 0.0) {
-        cuts.push((0.0, None));
-    }
-    cuts.extend(bodies.iter().enumerate().map(|(k, b)| (b.base_m, Some(k))));
-    // Stretches and groups both rise up the section: one cursor each keeps the windows linear.
-    let mut windows = column.rising_windows();
-    let mut stretches: Vec<Vec<Stretch>> = Vec::with_capacity(cuts.len());
-    for (i, &(base_m, body)) in cuts.iter().enumerate() {
-        let top_m = cuts.get(i + 1).map_or(total, |c| c.0);
-        let mut s = Stretch { base_m, top_m, body, regime: Regime::Undetermined, reasons: Vec::new() };
-        call(&mut windows, bodies, &mut s, params);
-        stretches.push(vec![s]);
-    }
-    let mut groups = merge(stretches);
-    // One isolated body may be a local avulsion: a high call needs several in a row.
-    for g in &mut groups {
-        if g[0].regime == Regime::High && g.len() < params.high_min_isolated_bodies {
-            let n = g.len();
-            for s in g.iter_mut() {
-                s.regime = Regime::Undetermined;
-            }
-            g[0].reasons
-                .push(Undetermined::TooFewIsolated { bodies: n, needed: params.high_min_isolated_bodies });
-        }
-    }
-    let mut windows = column.rising_windows();
-    merge(groups)
-        .iter()
-        .map(|g| RegimeInterval {
-            base_m: g[0].base_m,
-            top_m: g[g.len() - 1].top_m,
-            regime: g[0].regime,
-            why: why(&mut windows, bodies, g, params),
-        })
-        .collect()
 }
 
 #[cfg(test)]
@@ -169,8 +169,9 @@ mod tests {
 
     #[test]
     fn mostly_covered_stretch_is_undetermined_and_says_why() {
-        // Multi-story body 1–5 m, then 10 m covered and 1 m mud: stretch 1–17 m is 10/16 = 63 %
-        // covered (> 50 %), so no low call despite the amalgamated body.
+        // Mud 0–1 m, multi-story body 1–5 m, then 10 m covered and 2 m mud: with no boundary the
+        // stretch is the whole 17 m, 10/17 = 59 % covered (> 50 %), so no call despite the
+        // amalgamated body.
         use Lithology::{Covered, Mudstone, Sandstone};
         let s = section(&[
             (1.0, Mudstone, false),
@@ -183,7 +184,7 @@ mod tests {
         assert_eq!(r.accommodation.len(), 1, "{:?}", r.accommodation);
         assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
         assert!(
-            r.accommodation[0].why.to_string().contains("mostly covered (63% of 1.00–17.00 m)"),
+            r.accommodation[0].why.to_string().contains("mostly covered (59% of 0.00–17.00 m)"),
             "{}",
             r.accommodation[0].why
         );
@@ -191,7 +192,8 @@ mod tests {
 
     #[test]
     fn multi_story_body_in_thick_fines_is_mixed_evidence() {
-        // Two storeys 1–3 m then 8 m of mud: proportion 2/10 = 0.2 < 0.5 → undetermined.
+        // Two storeys 1–3 m in 11 m: amalgamated (a sign of low) but a proportion of
+        // 2/11 = 0.18 ≤ 0.30 (a sign of high): one each, undetermined.
         use Lithology::{Mudstone, Sandstone};
         let s = section(&[
             (1.0, Mudstone, false),
@@ -202,7 +204,7 @@ mod tests {
         let r = interpret(&s, &RuleParams::default());
         assert!(r.accommodation.iter().all(|a| a.regime == Regime::Undetermined));
         assert!(
-            r.accommodation[0].why.to_string().contains("proportion only 0.20"),
+            r.accommodation[0].why.to_string().contains("mixed: 1 sign(s) of low and 1 of high"),
             "{}",
             r.accommodation[0].why
         );

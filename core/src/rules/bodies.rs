@@ -138,6 +138,8 @@ fn make_body(
         profile: profile(section, first_bed, last_bed, params),
         style_hint: None,
         storey_indices: (first..=last).collect(),
+        stability: None,
+        flipped_by: None,
     }
 }
 

@@ -1,14 +1,21 @@
-//! Candidate sequence boundaries: every erosional channel-body base and every paleosol
-//! profile's top (once per profile, whatever number of beds its horizons were logged as), scored
-//! from weighted evidence, one candidate per bed boundary.
+//! Candidate sequence boundaries: every erosional channel-body base, every paleosol profile's
+//! top (once per profile) and every bed base the geologist tagged as an incision surface, with
+//! the independent evidence found there and a strength class from it.
+//!
+//! Evidence comes in four independent kinds ([`EvidenceKind`]); items of one kind count once.
+//! Being a channel base is not evidence, and neither is the mud-to-sand grain-size step that
+//! every channel base has. The rule, its sources and the strength combination are written out in
+//! `docs/interpretation-rules.md`.
 
-use super::bodies::{body_beds, grain_at_base, grain_at_top};
+use super::bodies::body_beds;
 use super::column::{is_sand_or_gravel, Column, TOL};
-use super::evidence::Evidence;
+use super::evidence::{Evidence, EvidenceKind};
 use super::params::RuleParams;
-use super::types::{BoundaryCandidate, CandidateKind, ChannelBody, PaleosolProfile, Stacking, Storey};
-use crate::model::{Contact, Section};
-use std::collections::BTreeMap;
+use super::types::{
+    BoundaryCandidate, CandidateKind, ChannelBody, PaleosolProfile, Stacking, Storey, Strength,
+};
+use crate::model::{Contact, PaleosolDevelopment, Section, SurfaceKind, WentworthClass};
+use std::collections::{BTreeMap, BTreeSet};
 
 /// What the earlier rules found, for the candidates.
 pub struct Found<'a> {
@@ -24,21 +31,24 @@ struct Site {
     body: Option<usize>,
     /// Index of the paleosol profile whose top this is.
     on_paleosol: Option<usize>,
+    /// The geologist tagged this bed base as an incision surface.
+    tagged: bool,
 }
 
-/// Score and explain every candidate; sorted by score (highest first), ties by height.
+/// The candidates, strongest first (then by score, then by height), and how many weak paleosol
+/// tops with no evidence were left out (none when `all` is set).
 pub fn candidates(
     section: &Section,
     column: &Column,
     found: &Found,
     params: &RuleParams,
-) -> Vec<BoundaryCandidate> {
+    all: bool,
+) -> (Vec<BoundaryCandidate>, usize) {
     let Found { storeys, bodies, paleosols } = *found;
     let beds = &section.beds;
     let n = beds.len();
     let profile_of = super::paleosols::profile_of_bed(n, paleosols);
-    let strong_profile = |i: usize| profile_of[i].map(|k| &paleosols[k]).filter(|p| p.maturity.is_strong());
-    let is_strong_soil = |i: usize| strong_profile(i).is_some();
+    let mature_profile = |i: usize| profile_of[i].map(|k| &paleosols[k]).filter(|p| p.maturity.is_strong());
 
     // What sits at each bed boundary (indexed by the bed above it); most have nothing.
     let mut sites: Vec<Site> = Vec::new();
@@ -54,142 +64,219 @@ pub fn candidates(
             sites[p.last_bed + 1].on_paleosol = Some(k);
         }
     }
-
-    // Index of the highest strongly developed paleosol at or below each bed, for truncation checks
-    // in constant time.
-    let mut last_strong: Vec<Option<usize>> = Vec::with_capacity(n);
-    for i in 0..n {
-        let prev = if i > 0 { last_strong[i - 1] } else { None };
-        last_strong.push(if is_strong_soil(i) { Some(i) } else { prev });
+    for (i, bed) in beds.iter().enumerate() {
+        if bed.base_surface.as_ref().is_some_and(|s| s.kind == SurfaceKind::Incision) {
+            sites[i].tagged = true;
+        }
     }
 
-    // The first decision recorded for a bed wins, as in `Section::decision_for`; one map instead
-    // of a search per candidate.
+    // Index of the highest mature paleosol bed at or below each bed, for truncation checks in
+    // constant time.
+    let mut last_mature: Vec<Option<usize>> = Vec::with_capacity(n);
+    for i in 0..n {
+        let prev = if i > 0 { last_mature[i - 1] } else { None };
+        last_mature.push(if mature_profile(i).is_some() { Some(i) } else { prev });
+    }
+
+    // The first decision recorded for a bed wins, as in `Section::decision_for`.
     let mut decisions = BTreeMap::new();
     for d in &section.review {
         decisions.entry(d.bed).or_insert(d);
     }
 
-    // Sites come in rising order, so the windows below and above each one rise too.
-    let (mut windows_below, mut windows_above) = (column.rising_windows(), column.rising_windows());
-    let found: Vec<BoundaryCandidate> = sites
-        .into_iter()
-        .enumerate()
-        .filter(|(j, site)| *j > 0 && (site.body.is_some() || site.on_paleosol.is_some()))
-        .map(|(j, site)| {
-            let height_m = column.bounds_m[j];
-            let above = &beds[j];
-            let below = &beds[j - 1];
-            let mut evidence = Vec::new();
-            let mut score = 0.0;
+    let thickest_storey = |body: &ChannelBody| {
+        body.storey_indices.iter().map(|&k| storeys[k].top_m - storeys[k].base_m).fold(0.0, f64::max)
+    };
 
-            if let Some(k) = site.body {
-                let body = &bodies[k];
-                match body.stacking {
-                    Stacking::MultiStory => {
-                        score += params.weight_multistory_base;
-                        evidence.push(Evidence::MultiStoryBase { storeys: body.stories });
-                    }
-                    Stacking::SingleStory => evidence.push(Evidence::SingleStoryBase),
-                    Stacking::Undetermined => evidence.push(Evidence::PartlySeenBodyBase),
-                }
-            }
-            let profile_below = site.on_paleosol.map(|k| &paleosols[k]);
-            if let Some(p) = profile_below.filter(|p| !p.maturity.is_strong()) {
-                evidence.push(Evidence::PaleosolTop { development: p.maturity });
-            }
+    let mut unlisted = 0;
+    let mut found: Vec<BoundaryCandidate> = Vec::new();
+    for (j, site) in sites.into_iter().enumerate() {
+        if j == 0 || !(site.body.is_some() || site.on_paleosol.is_some() || site.tagged) {
+            continue;
+        }
+        let height_m = column.bounds_m[j];
+        let above = &beds[j];
+        let below = &beds[j - 1];
+        let mut evidence = Vec::new();
+        let body = site.body.map(|k| &bodies[k]);
 
-            // Abrupt upward jump in grain size, counted in Wentworth classes.
-            if let (Some(up), Some(down)) = (grain_at_base(above), grain_at_top(below)) {
-                let jump = up.class().rank() as i64 - down.class().rank() as i64;
-                if jump >= params.grain_jump_min_classes as i64 && jump > 0 {
-                    score += params.weight_grain_jump;
-                    evidence.push(Evidence::GrainJump { classes: jump, from: down.class(), to: up.class() });
-                }
-            }
+        // What the surface is (site descriptions; no weight).
+        if let Some(b) = body {
+            evidence.push(match b.stacking {
+                Stacking::MultiStory => Evidence::MultiStoryBase { storeys: b.stories },
+                Stacking::SingleStory => Evidence::SingleStoryBase,
+                Stacking::Undetermined => Evidence::PartlySeenBodyBase,
+            });
+        }
+        let profile_below = site.on_paleosol.map(|k| &paleosols[k]);
+        if let Some(p) = profile_below.filter(|p| !p.maturity.is_strong()) {
+            evidence.push(Evidence::PaleosolTop { development: p.maturity });
+        }
+        let surface_name =
+            above.base_surface.as_ref().map(|s| s.name.trim().to_string()).filter(|s| !s.is_empty());
+        if let Some(name) = surface_name.as_ref().filter(|_| !site.tagged) {
+            evidence.push(Evidence::NamedSurface { name: name.clone() });
+        }
 
-            // Erosional relief beyond one channel's scour.
-            let relief_m = above.base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
-            if let Some(r) = relief_m.filter(|_| above.base_contact == Contact::Erosional) {
-                // Storeys are in order, so the last one ending below this bed is found by bisection.
-                let below_count = storeys.partition_point(|s| s.last_bed < j);
-                let storey_below = below_count.checked_sub(1).map(|k| storeys[k].top_m - storeys[k].base_m);
-                if r > params.relief_limit_m + TOL {
-                    score += params.weight_relief;
-                    evidence.push(Evidence::ReliefOverLimit { relief_m: r, limit_m: params.relief_limit_m });
-                } else if let Some(t) = storey_below.filter(|t| r > *t + TOL) {
-                    score += params.weight_relief;
-                    evidence.push(Evidence::ReliefOverStorey { relief_m: r, storey_m: t });
-                }
+        // Incision: the geologist's tag, or relief beyond one channel's depth.
+        if site.tagged {
+            evidence.push(Evidence::IncisionTagged { name: surface_name.clone().unwrap_or_default() });
+        }
+        let relief_m = above
+            .base_relief_m
+            .filter(|r| r.is_finite() && *r > 0.0 && above.base_contact == Contact::Erosional);
+        if let Some(r) = relief_m {
+            // The body the surface cuts into: the highest one ending at or below it, when the
+            // relief reaches down to its top; otherwise the channels of its own body.
+            let ending_below = bodies.partition_point(|b| b.top_m <= height_m + TOL);
+            let cut = ending_below
+                .checked_sub(1)
+                .map(|k| &bodies[k])
+                .filter(|b| height_m - b.top_m < r - TOL)
+                .map(|b| (thickest_storey(b), false))
+                .or_else(|| body.map(|b| (thickest_storey(b), true)));
+            let over_storey = cut.filter(|&(t, _)| t > 0.0 && r > params.incision_relief_ratio * t + TOL);
+            if let Some((storey_m, cuts_into_own_body)) = over_storey {
+                evidence.push(Evidence::ReliefOverStorey { relief_m: r, storey_m, cuts_into_own_body });
+            } else if r > params.relief_limit_m + TOL {
+                evidence.push(Evidence::ReliefOverLimit { relief_m: r, limit_m: params.relief_limit_m });
             }
+        }
 
-            // A channel base on, or cutting into, a strongly developed paleosol.
-            if site.body.is_some() {
-                if let Some(p) = strong_profile(j - 1) {
-                    score += params.weight_on_strong_paleosol;
-                    evidence.push(Evidence::ErodesIntoPaleosol { development: p.maturity });
-                } else if let (Some(r), Some(s)) = (relief_m, last_strong[j - 1]) {
-                    let depth_m = height_m - column.bounds_m[s + 1];
-                    if depth_m < r - TOL {
-                        score += params.weight_on_strong_paleosol;
-                        let development = strong_profile(s).map_or(beds[s].paleosol, |p| p.maturity);
-                        evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
-                    }
-                }
-            } else if let Some(p) = profile_below.filter(|p| p.maturity.is_strong()) {
-                // A mature soil not cut by a channel here: on floodplain fines an interfluve
-                // equivalent; on a sandstone top a long break in deposition after the channel.
-                score += params.weight_interfluve_paleosol;
-                if is_sand_or_gravel(below) {
-                    evidence.push(Evidence::SandstoneTopPaleosol { development: p.maturity });
-                } else {
-                    evidence.push(Evidence::InterfluvePaleosol { development: p.maturity });
-                }
-            }
-
-            // Basinward shift in stacking: more channel deposits above than below.
+        // Basinward facies shift: the fill above against the channel fills of the stretch below
+        // (whole bodies ending within the window; never the mud under this base).
+        if let Some(b) = body {
             let w = params.boundary_window_m;
-            if w.is_finite() && w > 0.0 && height_m > 0.0 {
-                let lower = windows_below.proportion(height_m - w, height_m);
-                let upper = windows_above.proportion(height_m, height_m + w);
-                if let (Some(lo), Some(up)) = (lower, upper) {
-                    if up - lo >= params.proportion_jump_min - TOL {
-                        score += params.weight_proportion_jump;
-                        evidence.push(Evidence::ProportionRise { below: lo, above: up, window_m: w });
-                    }
+            let available_m = w.min(height_m);
+            let below_bodies: Vec<&ChannelBody> =
+                bodies.iter().filter(|o| o.top_m <= height_m + TOL && o.top_m > height_m - w + TOL).collect();
+            let coarsest_below: Option<WentworthClass> =
+                below_bodies.iter().filter_map(|o| o.grain_coarsest.map(|g| g.class())).max();
+            if let (Some(up), Some(down)) = (b.grain_coarsest.map(|g| g.class()), coarsest_below) {
+                let classes = up.rank().saturating_sub(down.rank());
+                if classes >= params.facies_shift_min_classes.max(1) {
+                    evidence.push(Evidence::CoarserFill {
+                        above: up,
+                        below: down,
+                        classes,
+                        bodies_below: below_bodies.len(),
+                        available_m,
+                        window_m: w,
+                    });
                 }
             }
-
-            let kind = match (site.body.is_some(), site.on_paleosol.is_some()) {
-                (true, true) => CandidateKind::ChannelBaseOnPaleosol,
-                (true, false) => CandidateKind::ChannelBodyBase,
-                _ => CandidateKind::PaleosolTop,
-            };
-            let decision = decisions.get(&above.id).copied();
-            BoundaryCandidate {
-                height_m,
-                bed_index: j,
-                bed_id: above.id,
-                kind,
-                score: if score.is_nan() { 0.0 } else { score.clamp(0.0, 1.0) },
-                evidence,
-                review: decision.map(|d| d.state).unwrap_or_default(),
-                note: decision.map(|d| d.note.clone()).unwrap_or_default(),
+            let isolated = below_bodies.iter().filter(|o| o.stacking == Stacking::SingleStory).count();
+            if b.stacking == Stacking::MultiStory && isolated > 0 && isolated == below_bodies.len() {
+                evidence.push(Evidence::AmalgamatedOverIsolated {
+                    storeys: b.stories,
+                    isolated_below: isolated,
+                    available_m,
+                    window_m: w,
+                });
             }
-        })
-        .collect();
+        }
+
+        // A channel base on, or cutting into, a mature paleosol profile; or a mature profile
+        // with no channel on it.
+        if body.is_some() {
+            if let Some(p) = mature_profile(j - 1) {
+                evidence.push(Evidence::ErodesIntoPaleosol { development: p.maturity });
+            } else if let (Some(r), Some(s)) = (relief_m, last_mature[j - 1]) {
+                let depth_m = height_m - column.bounds_m[s + 1];
+                if depth_m < r - TOL {
+                    let development = mature_profile(s).map_or(beds[s].paleosol, |p| p.maturity);
+                    evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
+                }
+            }
+        } else if let Some(p) = profile_below.filter(|p| p.maturity.is_strong()) {
+            if is_sand_or_gravel(below) {
+                evidence.push(Evidence::SandstoneTopPaleosol { development: p.maturity });
+            } else {
+                evidence.push(Evidence::InterfluvePaleosol {
+                    development: p.maturity,
+                    poorly_drained: p.poorly_drained,
+                });
+            }
+        }
+
+        let (strength, score) = strength_and_score(&evidence, params);
+        if !all && strength == Strength::Weak && body.is_none() && surface_name.is_none() {
+            unlisted += 1;
+            continue;
+        }
+        let kind = match (body.is_some(), site.on_paleosol.is_some()) {
+            (true, true) => CandidateKind::ChannelBaseOnPaleosol,
+            (true, false) => CandidateKind::ChannelBodyBase,
+            (false, true) => CandidateKind::PaleosolTop,
+            (false, false) => CandidateKind::TaggedSurface,
+        };
+        let decision = decisions.get(&above.id).copied();
+        found.push(BoundaryCandidate {
+            height_m,
+            bed_index: j,
+            bed_id: above.id,
+            kind,
+            strength,
+            score,
+            evidence,
+            surface_name,
+            label: decision.and_then(|d| d.link_label()).map(str::to_string),
+            stability: None,
+            flipped_by: None,
+            review: decision.map(|d| d.state).unwrap_or_default(),
+            note: decision.map(|d| d.note.clone()).unwrap_or_default(),
+        });
+    }
     // Sort small keys rather than the candidates themselves (each carries its evidence), then
     // move every candidate once into its place.
     let mut order: Vec<usize> = (0..found.len()).collect();
     order.sort_by(|&a, &b| {
         let (a, b) = (&found[a], &found[b]);
-        b.score
-            .total_cmp(&a.score)
+        b.strength
+            .cmp(&a.strength)
+            .then(b.score.total_cmp(&a.score))
             .then(a.height_m.total_cmp(&b.height_m))
             .then(a.bed_index.cmp(&b.bed_index))
     });
     let mut slots: Vec<Option<BoundaryCandidate>> = found.into_iter().map(Some).collect();
-    order.into_iter().filter_map(|k| slots[k].take()).collect()
+    (order.into_iter().filter_map(|k| slots[k].take()).collect(), unlisted)
+}
+
+/// The strength class and ordering score of a candidate from its evidence items.
+///
+/// - `strong`: two or more independent kinds, or a very strongly developed, well-drained
+///   interfluve paleosol on its own (the interfluve expression of a sequence boundary: McCarthy
+///   & Plint 1998; Wright & Marriott 1993);
+/// - `moderate`: one kind;
+/// - `weak`: none (a channel base or paleosol top and nothing more).
+///
+/// The score sums the weight of each kind present, once; it orders candidates within a class.
+pub fn strength_and_score(evidence: &[Evidence], params: &RuleParams) -> (Strength, f64) {
+    let kinds: BTreeSet<EvidenceKind> = evidence.iter().filter_map(Evidence::kind).collect();
+    let score: f64 = kinds
+        .iter()
+        .map(|k| match k {
+            EvidenceKind::Incision => params.weight_incision,
+            EvidenceKind::BasinwardFaciesShift => params.weight_facies_shift,
+            EvidenceKind::OnMaturePaleosol => params.weight_on_mature_paleosol,
+            EvidenceKind::InterfluvePaleosol => params.weight_interfluve_paleosol,
+        })
+        .sum();
+    let mature_interfluve = evidence.iter().any(|e| {
+        matches!(
+            e,
+            Evidence::InterfluvePaleosol {
+                development: PaleosolDevelopment::VeryStrong,
+                poorly_drained: false
+            }
+        )
+    });
+    let strength = match kinds.len() {
+        0 => Strength::Weak,
+        1 if !mature_interfluve => Strength::Moderate,
+        _ => Strength::Strong,
+    };
+    (strength, if score.is_nan() { 0.0 } else { score.clamp(0.0, 1.0) })
 }
 
 #[cfg(test)]
@@ -197,7 +284,7 @@ mod tests {
     use crate::model::{
         Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, Section, WentworthClass,
     };
-    use crate::rules::{interpret, CandidateKind, RuleParams};
+    use crate::rules::{interpret, interpret_with, CandidateKind, RuleParams, Strength};
 
     fn section(beds: Vec<Bed>) -> Section {
         let mut s = Section::new("t");
@@ -230,8 +317,7 @@ mod tests {
             channel,
             mud(3.0, PaleosolDevelopment::None),
         ]);
-        // The proportion jump (0 below, 2/5.5 above) is weighed elsewhere; leave it out here.
-        let p = RuleParams { weight_proportion_jump: 0.0, ..RuleParams::default() };
+        let p = RuleParams::default();
         let r = interpret(&s, &p);
         let at = |h: f64| r.sequence_boundary_candidates.iter().find(|c| (c.height_m - h).abs() < 1e-9);
         let base = at(4.5).expect("channel-base candidate");
@@ -240,8 +326,10 @@ mod tests {
             .evidence
             .iter()
             .any(|e| e.to_string().contains("relief reaches a paleosol of strong development 0.50 m below")));
+        assert_eq!(base.strength, Strength::Moderate, "one kind of evidence: {base:?}");
         let top = at(4.0).expect("paleosol-top candidate");
         assert_eq!(top.kind, CandidateKind::PaleosolTop);
+        assert_eq!(top.strength, Strength::Moderate);
         assert!((top.score - p.weight_interfluve_paleosol).abs() < 1e-12, "{top:?}");
 
         // With 0.4 m of relief the channel does not reach the paleosol.
@@ -250,12 +338,13 @@ mod tests {
         let r = interpret(&shallow, &p);
         let base = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 3).expect("candidate");
         assert!(base.evidence.iter().all(|e| !e.to_string().contains("relief reaches")), "{base:?}");
+        assert_eq!(base.strength, Strength::Weak, "a channel base and nothing more: {base:?}");
     }
 
     #[test]
     fn equal_scores_are_ordered_by_height() {
-        // Two identical isolated channels in 20 m of mud each: the 10 m windows see 0 below and
-        // 2/10 = 0.2 above both bases (< 0.3, no jump), so both score 0; the lower comes first.
+        // Two identical isolated channels in 20 m of mud each: no evidence at either base (being
+        // a channel base is none), so both are weak with score 0; the lower comes first.
         let channel = || {
             let mut b = Bed::new(
                 BedId(0),
@@ -271,5 +360,21 @@ mod tests {
         let r = interpret(&s, &RuleParams::default());
         let heights: Vec<f64> = r.sequence_boundary_candidates.iter().map(|c| c.height_m).collect();
         assert_eq!(heights, vec![20.0, 42.0]);
+    }
+
+    #[test]
+    fn a_weak_soil_top_is_unlisted_unless_all_are_asked_for() {
+        let s = section(vec![
+            mud(2.0, PaleosolDevelopment::None),
+            mud(1.0, PaleosolDevelopment::Weak),
+            mud(2.0, PaleosolDevelopment::None),
+        ]);
+        let r = interpret(&s, &RuleParams::default());
+        assert!(r.sequence_boundary_candidates.is_empty(), "{:?}", r.sequence_boundary_candidates);
+        assert_eq!(r.unlisted_candidates, 1);
+        let all = interpret_with(&s, &RuleParams::default(), true);
+        assert_eq!(all.sequence_boundary_candidates.len(), 1);
+        assert_eq!(all.sequence_boundary_candidates[0].strength, Strength::Weak);
+        assert_eq!(all.unlisted_candidates, 0);
     }
 }

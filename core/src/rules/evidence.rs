@@ -26,33 +26,65 @@ macro_rules! sentences {
     )+};
 }
 
-/// One piece of evidence for a candidate sequence boundary or a style hint.
+/// Which independent kind of evidence for a sequence boundary an item is. Items of one kind say
+/// the same thing twice (a tagged incision with a large relief): a kind counts once.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum EvidenceKind {
+    /// Erosional relief beyond one channel's depth, or the geologist's incision tag (Van Wagoner
+    /// et al. 1990; Posamentier & Allen 1999; Holbrook 2001; Gibling 2006).
+    Incision,
+    /// Markedly coarser channel fills, or amalgamated over isolated stacking (Van Wagoner et al.
+    /// 1990; Shanley & McCabe 1994; Posamentier & Allen 1999).
+    BasinwardFaciesShift,
+    /// A channel base on, or cutting into, a mature paleosol profile (Wright & Marriott 1993;
+    /// McCarthy & Plint 1998).
+    OnMaturePaleosol,
+    /// A mature profile with no channel on it (Kraus 1999; McCarthy & Plint 1998).
+    InterfluvePaleosol,
+}
+
+/// One piece of evidence for a candidate sequence boundary or a style hint. Variants marked
+/// "site" describe what the surface is and count for nothing; the others each belong to one
+/// [`EvidenceKind`] (see [`Evidence::kind`]).
 #[derive(Debug, Clone, PartialEq)]
 pub enum Evidence {
-    /// The boundary is the base of a multi-story body.
+    /// Site: the base of a multi-story body.
     MultiStoryBase { storeys: usize },
-    /// The boundary is the erosional base of a single-story body.
+    /// Site: the erosional base of a single-story body.
     SingleStoryBase,
-    /// The boundary is the erosional base of a body seen only in part (one storey seen).
+    /// Site: the erosional base of a body seen only in part (one storey seen).
     PartlySeenBodyBase,
-    /// The bed below is a paleosol too weakly developed to count as strong.
+    /// Site: the top of a paleosol profile short of mature.
     PaleosolTop { development: PaleosolDevelopment },
-    /// Grain size jumps up across the boundary by `classes` Wentworth classes.
-    GrainJump { classes: i64, from: WentworthClass, to: WentworthClass },
-    /// Erosional relief beyond the set limit.
+    /// Site: a bed base the geologist named, of a kind other than an incision surface.
+    NamedSurface { name: String },
+    /// Incision: the geologist tagged the bed base as an incision surface.
+    IncisionTagged { name: String },
+    /// Incision: erosional relief beyond the set limit.
     ReliefOverLimit { relief_m: f64, limit_m: f64 },
-    /// Erosional relief beyond the thickness of the storey below.
-    ReliefOverStorey { relief_m: f64, storey_m: f64 },
-    /// A channel base directly on a strongly developed paleosol.
+    /// Incision: erosional relief beyond the thickest storey of the body it cuts into.
+    ReliefOverStorey { relief_m: f64, storey_m: f64, cuts_into_own_body: bool },
+    /// Facies shift: the channel fill above is coarser than every fill in the stretch below.
+    CoarserFill {
+        above: WentworthClass,
+        below: WentworthClass,
+        classes: usize,
+        bodies_below: usize,
+        available_m: f64,
+        window_m: f64,
+    },
+    /// Facies shift: an amalgamated body above only isolated ones in the stretch below.
+    AmalgamatedOverIsolated { storeys: usize, isolated_below: usize, available_m: f64, window_m: f64 },
+    /// On a mature paleosol: a channel base directly on a mature profile.
     ErodesIntoPaleosol { development: PaleosolDevelopment },
-    /// A channel base whose relief reaches down to a strongly developed paleosol.
+    /// On a mature paleosol: a channel base whose relief reaches down to a mature profile.
     ReliefReachesPaleosol { relief_m: f64, development: PaleosolDevelopment, depth_m: f64 },
-    /// A strong paleosol on floodplain fines, not cut by a channel here.
-    InterfluvePaleosol { development: PaleosolDevelopment },
-    /// A strong paleosol on a channel or splay sandstone top, not cut by a channel here.
+    /// Interfluve paleosol: a mature profile on floodplain fines, with no channel on it.
+    InterfluvePaleosol { development: PaleosolDevelopment, poorly_drained: bool },
+    /// Interfluve paleosol: a mature profile on a channel or splay sandstone top, with no channel
+    /// on it (a long break in deposition after the channel was abandoned).
     SandstoneTopPaleosol { development: PaleosolDevelopment },
-    /// Channel-body proportion rises across the boundary.
-    ProportionRise { below: f64, above: f64, window_m: f64 },
     /// Braided-like: coarse grain.
     CoarseGrained { coarsest: WentworthClass },
     /// Braided-like: blocky grain-size profile.
@@ -71,6 +103,37 @@ pub enum Evidence {
     Note(String),
 }
 
+impl Evidence {
+    /// The independent kind of boundary evidence this item is, or `None` for a site description,
+    /// a style hint or a note.
+    pub fn kind(&self) -> Option<EvidenceKind> {
+        use Evidence::*;
+        match self {
+            IncisionTagged { .. } | ReliefOverLimit { .. } | ReliefOverStorey { .. } => {
+                Some(EvidenceKind::Incision)
+            }
+            CoarserFill { .. } | AmalgamatedOverIsolated { .. } => Some(EvidenceKind::BasinwardFaciesShift),
+            ErodesIntoPaleosol { .. } | ReliefReachesPaleosol { .. } => Some(EvidenceKind::OnMaturePaleosol),
+            InterfluvePaleosol { .. } | SandstoneTopPaleosol { .. } => Some(EvidenceKind::InterfluvePaleosol),
+            _ => None,
+        }
+    }
+}
+
+/// "10 m", or "6.50 m (of a 10 m window)" when the section ends sooner.
+struct WindowText(f64, f64);
+
+impl fmt::Display for WindowText {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let (available, window) = (self.0, self.1);
+        if available + 1e-9 < window {
+            write!(f, "{available:.2} m (all the section has of the {window} m window)")
+        } else {
+            write!(f, "{window} m")
+        }
+    }
+}
+
 impl fmt::Display for Evidence {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         use Evidence::*;
@@ -83,18 +146,33 @@ impl fmt::Display for Evidence {
                 "erosional base of a channel body seen only in part (stacking undetermined)",
             ),
             PaleosolTop { development } => write!(f, "top of a paleosol of {} development", development.name()),
-            GrainJump { classes, from, to } => write!(
-                f,
-                "grain size jumps up {classes} Wentworth classes, from {} to {}",
-                from.name(),
-                to.name()
-            ),
+            NamedSurface { name } => write!(f, "the geologist's surface \"{name}\""),
+            IncisionTagged { name } if name.trim().is_empty() => {
+                f.write_str("tagged by the geologist as an incision surface")
+            }
+            IncisionTagged { name } => write!(f, "tagged by the geologist as an incision surface (\"{name}\")"),
             ReliefOverLimit { relief_m, limit_m } => {
                 write!(f, "erosional relief of {relief_m:.2} m exceeds the {limit_m:.2} m relief limit")
             }
-            ReliefOverStorey { relief_m, storey_m } => {
-                write!(f, "erosional relief of {relief_m:.2} m exceeds the {storey_m:.2} m storey below")
-            }
+            ReliefOverStorey { relief_m, storey_m, cuts_into_own_body } => write!(
+                f,
+                "erosional relief of {relief_m:.2} m exceeds the thickest storey ({storey_m:.2} m) of {}",
+                if *cuts_into_own_body { "its own channel body" } else { "the channel body it cuts into" }
+            ),
+            CoarserFill { above, below, classes, bodies_below, available_m, window_m } => write!(
+                f,
+                "channel fill above reaches {}, {classes} Wentworth classes coarser than the coarsest of the {bodies_below} \
+                 channel fill{} in the {} below ({})",
+                above.name(),
+                if *bodies_below == 1 { "" } else { "s" },
+                WindowText(*available_m, *window_m),
+                below.name()
+            ),
+            AmalgamatedOverIsolated { storeys, isolated_below, available_m, window_m } => write!(
+                f,
+                "a multi-story body of {storeys} storeys above only single-story bodies ({isolated_below}) in the {} below",
+                WindowText(*available_m, *window_m)
+            ),
             ErodesIntoPaleosol { development } => {
                 write!(f, "erodes directly into a paleosol of {} development", development.name())
             }
@@ -103,19 +181,16 @@ impl fmt::Display for Evidence {
                 "its {relief_m:.2} m relief reaches a paleosol of {} development {depth_m:.2} m below",
                 development.name()
             ),
-            InterfluvePaleosol { development } => write!(
+            InterfluvePaleosol { development, poorly_drained } => write!(
                 f,
-                "paleosol of {} development caps floodplain fines (possible interfluve equivalent)",
-                development.name()
+                "paleosol of {} development{} caps floodplain fines with no channel on it (possible interfluve equivalent)",
+                development.name(),
+                if *poorly_drained { ", poorly drained," } else { "" }
             ),
             SandstoneTopPaleosol { development } => write!(
                 f,
-                "paleosol of {} development caps a sandstone (a long break in deposition above the channel)",
+                "paleosol of {} development caps a sandstone with no channel on it (a long break in deposition)",
                 development.name()
-            ),
-            ProportionRise { below, above, window_m } => write!(
-                f,
-                "channel-body proportion rises from {below:.2} in the {window_m} m below to {above:.2} in the {window_m} m above"
             ),
             CoarseGrained { coarsest } => write!(f, "coarse-grained: up to {}", coarsest.name()),
             BlockyProfile => f.write_str("blocky grain-size profile"),
@@ -138,16 +213,16 @@ pub enum Undetermined {
     NoThickness,
     /// Too much of the stretch is covered.
     MostlyCovered { percent: f64, base_m: f64, top_m: f64 },
-    /// No channel body in the stretch (or no exposure to measure a proportion on).
-    NoChannelBody { base_m: f64, top_m: f64 },
-    /// A multi-story body, but too little channel deposit around it for low accommodation.
-    MultiStoryTooLittle { base_m: f64, proportion: f64, min: f64 },
-    /// A single-story body, but too much channel deposit around it for high accommodation.
-    SingleStoryTooMuch { base_m: f64, proportion: f64, max: f64 },
-    /// Too few isolated bodies in a row for a high-accommodation call.
+    /// Fewer signs than a call needs.
+    TooFewSigns { signs: usize, needed: usize },
+    /// Signs point both ways in equal number.
+    Mixed { low: usize, high: usize },
+    /// The proportion lies within the margin of a threshold, so it gives no sign.
+    NearThreshold { proportion: f64, threshold: f64, margin: f64 },
+    /// Isolated bodies, but too few for a sign of high accommodation.
     TooFewIsolated { bodies: usize, needed: usize },
-    /// The stretch's body is seen only in part, so its stacking is unknown.
-    PartlySeenBody { base_m: f64 },
+    /// Every body in the stretch is seen only in part, so stacking gives no sign.
+    PartlySeenBodies { bodies: usize },
 }
 
 impl fmt::Display for Undetermined {
@@ -158,24 +233,63 @@ impl fmt::Display for Undetermined {
             MostlyCovered { percent, base_m, top_m } => {
                 write!(f, "mostly covered ({percent}% of {base_m:.2}–{top_m:.2} m)")
             }
-            NoChannelBody { base_m, top_m } => write!(f, "no channel body between {base_m:.2} and {top_m:.2} m"),
-            MultiStoryTooLittle { base_m, proportion, min } => write!(
+            TooFewSigns { signs, needed } => {
+                write!(f, "{signs} sign{} found, a call needs {needed}", if *signs == 1 { "" } else { "s" })
+            }
+            Mixed { low, high } => write!(f, "mixed: {low} sign(s) of low and {high} of high accommodation"),
+            NearThreshold { proportion, threshold, margin } => write!(
                 f,
-                "multi-story body at {base_m:.2} m but channel-body proportion only {proportion:.2} (low accommodation needs ≥ {min:.2})"
-            ),
-            SingleStoryTooMuch { base_m, proportion, max } => write!(
-                f,
-                "single-story body at {base_m:.2} m but channel-body proportion {proportion:.2} (high accommodation needs ≤ {max:.2})"
-            ),
-            PartlySeenBody { base_m } => write!(
-                f,
-                "channel body at {base_m:.2} m seen only in part (cut by the section's base or top or a covered interval): stacking undetermined"
+                "channel-body proportion {proportion:.2} is within {margin:.2} of the {threshold:.2} threshold (no sign either way)"
             ),
             TooFewIsolated { bodies, needed } => write!(
                 f,
-                "only {bodies} isolated single-story bod{} (high accommodation needs {needed} in a row)",
+                "only {bodies} isolated single-story bod{} (a sign of high accommodation needs {needed})",
                 if *bodies == 1 { "y" } else { "ies" }
             ),
+            PartlySeenBodies { bodies } => write!(
+                f,
+                "{bodies} channel bod{} seen only in part (cut by the section's base or top or a covered interval): stacking unknown",
+                if *bodies == 1 { "y" } else { "ies" }
+            ),
+        }
+    }
+}
+
+/// One sign for a regime in a stretch.
+#[derive(Debug, Clone, PartialEq)]
+pub enum RegimeSign {
+    /// Low: most bodies multi-story (amalgamated).
+    Amalgamated { multi: usize, bodies: usize },
+    /// High: single-story bodies isolated in fines, several of them.
+    Isolated { single: usize, bodies: usize },
+    /// Low: a high channel-body proportion.
+    SandRich { proportion: f64, min: f64 },
+    /// High: a low channel-body proportion.
+    MudRich { proportion: f64, max: f64 },
+    /// Low: mature, well-drained paleosols are the majority (Wright & Marriott 1993).
+    MatureSoils { mature: usize, profiles: usize },
+    /// High: immature or poorly drained paleosols are the majority (Kraus 1999).
+    ImmatureOrWetSoils { count: usize, profiles: usize },
+}
+
+impl fmt::Display for RegimeSign {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        use RegimeSign::*;
+        match self {
+            Amalgamated { multi, bodies } => {
+                write!(f, "{multi} of {bodies} channel bodies multi-story (amalgamated)")
+            }
+            Isolated { single, bodies } => {
+                write!(f, "{single} of {bodies} channel bodies single-story, isolated in floodplain fines")
+            }
+            SandRich { proportion, min } => write!(f, "channel-body proportion {proportion:.2} (≥ {min:.2})"),
+            MudRich { proportion, max } => write!(f, "channel-body proportion {proportion:.2} (≤ {max:.2})"),
+            MatureSoils { mature, profiles } => {
+                write!(f, "{mature} of {profiles} paleosols mature and well drained")
+            }
+            ImmatureOrWetSoils { count, profiles } => {
+                write!(f, "{count} of {profiles} paleosols immature or poorly drained")
+            }
         }
     }
 }
@@ -183,60 +297,42 @@ impl fmt::Display for Undetermined {
 /// The reasoning behind one accommodation-regime interval.
 #[derive(Debug, Clone, PartialEq)]
 pub enum RegimeWhy {
-    /// Amalgamated, sand-rich stacking.
-    Low { bodies: usize, storeys: usize, amalgamated_bases: usize, proportion: Option<f64>, min: f64 },
-    /// Single-story bodies isolated in fines.
-    High { bodies: usize, proportion: Option<f64>, max: f64 },
-    /// The reasons of every stretch in the interval, in order (repeats are written once).
-    Undetermined { reasons: Vec<Undetermined> },
+    /// Called low or high: the signs for the call and any against it.
+    Called { signs: Vec<RegimeSign>, against: Vec<RegimeSign> },
+    /// No call: the signs found each way and why they do not make one.
+    Undetermined { signs: Vec<RegimeSign>, reasons: Vec<Undetermined> },
     /// Free text (examples and hand-made interpretations).
     Note(String),
 }
 
-/// "0.42", or "none (no exposure)".
-struct ProportionText(Option<f64>);
-
-impl fmt::Display for ProportionText {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        match self.0 {
-            Some(p) => write!(f, "{p:.2}"),
-            None => f.write_str("none (no exposure)"),
+/// Sentences joined with "; ".
+fn join(f: &mut fmt::Formatter<'_>, items: impl Iterator<Item = String>) -> fmt::Result {
+    for (k, text) in items.enumerate() {
+        if k > 0 {
+            f.write_str("; ")?;
         }
+        f.write_str(&text)?;
     }
+    Ok(())
 }
 
 impl fmt::Display for RegimeWhy {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
-            RegimeWhy::Low { bodies, storeys, amalgamated_bases, proportion, min } => write!(
-                f,
-                "{bodies} multi-story channel bod{} ({storeys} storeys, {amalgamated_bases} storey base{} on channel sand) and a \
-                 channel-body proportion of {} (≥ {min:.2}): amalgamated, sand-rich stacking suggests low accommodation",
-                if *bodies == 1 { "y" } else { "ies" },
-                if *amalgamated_bases == 1 { "" } else { "s" },
-                ProportionText(*proportion),
-            ),
-            RegimeWhy::High { bodies, proportion, max } => write!(
-                f,
-                "{bodies} single-story channel bodies isolated in floodplain fines and a channel-body proportion of {} \
-                 (≤ {max:.2}): suggests high accommodation",
-                ProportionText(*proportion),
-            ),
-            RegimeWhy::Undetermined { reasons } => {
+            RegimeWhy::Called { signs, against } => {
+                join(f, signs.iter().map(ToString::to_string))?;
+                if !against.is_empty() {
+                    f.write_str("; against: ")?;
+                    join(f, against.iter().map(ToString::to_string))?;
+                }
+                Ok(())
+            }
+            RegimeWhy::Undetermined { signs, reasons } => {
                 f.write_str("evidence too thin or mixed to call a regime: ")?;
-                // Each sentence once, in first-seen order; a set keeps long intervals linear.
-                let mut seen = std::collections::HashSet::new();
-                let mut first = true;
-                for text in reasons.iter().map(ToString::to_string) {
-                    if seen.contains(&text) {
-                        continue;
-                    }
-                    if !first {
-                        f.write_str("; ")?;
-                    }
-                    first = false;
-                    f.write_str(&text)?;
-                    seen.insert(text);
+                join(f, reasons.iter().map(ToString::to_string))?;
+                if !signs.is_empty() {
+                    f.write_str("; signs found: ")?;
+                    join(f, signs.iter().map(ToString::to_string))?;
                 }
                 Ok(())
             }
@@ -253,14 +349,21 @@ mod tests {
 
     #[test]
     fn sentences_read_as_written_out_by_hand() {
-        let e =
-            Evidence::GrainJump { classes: 3, from: WentworthClass::Silt, to: WentworthClass::MediumSand };
-        assert_eq!(e.to_string(), "grain size jumps up 3 Wentworth classes, from silt to medium sand");
-        let e = Evidence::ProportionRise { below: 0.2, above: 0.8, window_m: 10.0 };
+        let e = Evidence::CoarserFill {
+            above: WentworthClass::VeryCoarseSand,
+            below: WentworthClass::MediumSand,
+            classes: 2,
+            bodies_below: 1,
+            available_m: 6.5,
+            window_m: 10.0,
+        };
         assert_eq!(
             e.to_string(),
-            "channel-body proportion rises from 0.20 in the 10 m below to 0.80 in the 10 m above"
+            "channel fill above reaches very coarse sand, 2 Wentworth classes coarser than the coarsest of the 1 \
+             channel fill in the 6.50 m (all the section has of the 10 m window) below (medium sand)"
         );
+        assert_eq!(e.kind(), Some(EvidenceKind::BasinwardFaciesShift));
+        assert_eq!(Evidence::SingleStoryBase.kind(), None);
         assert_eq!(
             serde_json::to_value(Evidence::BlockyProfile).ok(),
             Some("blocky grain-size profile".into())
@@ -268,20 +371,19 @@ mod tests {
     }
 
     #[test]
-    fn undetermined_reasons_are_written_once_each_in_order() {
+    fn regime_reasons_read_in_order() {
         let why = RegimeWhy::Undetermined {
+            signs: vec![RegimeSign::Amalgamated { multi: 2, bodies: 2 }],
             reasons: vec![
-                Undetermined::NoChannelBody { base_m: 0.0, top_m: 2.0 },
-                Undetermined::TooFewIsolated { bodies: 1, needed: 2 },
-                Undetermined::NoChannelBody { base_m: 0.0, top_m: 2.0 },
+                Undetermined::NearThreshold { proportion: 0.52, threshold: 0.5, margin: 0.05 },
+                Undetermined::TooFewSigns { signs: 1, needed: 2 },
             ],
         };
         assert_eq!(
             why.to_string(),
-            "evidence too thin or mixed to call a regime: no channel body between 0.00 and 2.00 m; \
-             only 1 isolated single-story body (high accommodation needs 2 in a row)"
+            "evidence too thin or mixed to call a regime: channel-body proportion 0.52 is within 0.05 of the 0.50 \
+             threshold (no sign either way); 1 sign found, a call needs 2; signs found: 2 of 2 channel bodies \
+             multi-story (amalgamated)"
         );
-        let high = RegimeWhy::High { bodies: 3, proportion: None, max: 0.3 };
-        assert!(high.to_string().contains("proportion of none (no exposure) (≤ 0.30)"), "{high}");
     }
 }

@@ -15,10 +15,11 @@ pub mod evidence;
 mod paleosols;
 pub mod params;
 mod proportion;
+pub mod sensitivity;
 mod style;
 pub mod types;
 
-pub use evidence::{Evidence, RegimeWhy, Undetermined};
+pub use evidence::{Evidence, EvidenceKind, RegimeSign, RegimeWhy, Undetermined};
 pub use params::RuleParams;
 pub use types::*;
 
@@ -48,6 +49,12 @@ use column::Column;
 /// assert_eq!(result.channel_proportion, Some(0.2)); // 2 m of channel sand in 10 m
 /// ```
 pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
+    interpret_with(section, params, false)
+}
+
+/// [`interpret`], listing every candidate when `all_candidates` is set: weak paleosol tops with
+/// no evidence too (`aggrade interpret --all-candidates`, the review list's toggle).
+pub fn interpret_with(section: &Section, params: &RuleParams, all_candidates: bool) -> Interpretation {
     let column = Column::new(section);
     let paleosols = paleosols::profiles(section, &column, params);
     let profile_of = paleosols::profile_of_bed(section.beds.len(), &paleosols);
@@ -56,35 +63,31 @@ pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
     let mut channel_bodies = bodies::channel_bodies(section, &elements, &mut storeys, params);
     style::add_style_hints(section, &column, &elements, &storeys, &mut channel_bodies, params);
     let found = boundaries::Found { storeys: &storeys, bodies: &channel_bodies, paleosols: &paleosols };
-    let candidates = boundaries::candidates(section, &column, &found, params);
+    let (candidates, unlisted_candidates) =
+        boundaries::candidates(section, &column, &found, params, all_candidates);
 
-    // Intervals for proportions: accepted boundaries; failing those, strong candidates.
-    // The first decision recorded for a bed counts, as in `Section::decision_for`.
+    // Cuts for regimes and proportions: accepted boundaries; failing those, strong candidates not
+    // rejected (unlisted candidates are weak, so never cut). The first decision recorded for a
+    // bed counts, as in `Section::decision_for`.
     let mut first_decision = std::collections::BTreeMap::new();
     for d in &section.review {
         first_decision.entry(d.bed).or_insert(d.state);
     }
-    let accepted_ids: std::collections::BTreeSet<_> = first_decision
-        .into_iter()
-        .filter(|(_, state)| *state == ReviewState::Accepted)
-        .map(|(bed, _)| bed)
+    let accepted: Vec<f64> = (0..section.beds.len())
+        .filter(|&i| first_decision.get(&section.beds[i].id) == Some(&ReviewState::Accepted))
+        .map(|i| column.bounds_m[i])
         .collect();
-    let accepted: Vec<f64> = if accepted_ids.is_empty() {
-        Vec::new()
-    } else {
-        (0..section.beds.len())
-            .filter(|&i| accepted_ids.contains(&section.beds[i].id))
-            .map(|i| column.bounds_m[i])
-            .collect()
-    };
-    let cuts = if accepted.is_empty() {
-        candidates
-            .iter()
-            .filter(|c| c.review != ReviewState::Rejected && c.score > params.boundary_interval_min_score)
-            .map(|c| c.height_m)
-            .collect()
-    } else {
+    let cuts_are_accepted = !accepted.is_empty();
+    let cut_heights: Vec<f64> = if cuts_are_accepted {
         accepted
+    } else {
+        let mut strong: Vec<f64> = candidates
+            .iter()
+            .filter(|c| c.review != ReviewState::Rejected && c.strength == Strength::Strong)
+            .map(|c| c.height_m)
+            .collect();
+        strong.sort_by(f64::total_cmp);
+        strong
     };
 
     Interpretation {
@@ -93,10 +96,14 @@ pub fn interpret(section: &Section, params: &RuleParams) -> Interpretation {
         exposed_thickness_m: column.exposed_total_m(),
         channel_proportion: column::proportion_of(column.channel_total_m(), column.exposed_total_m()),
         channel_proportion_bounds: proportion::bounds(&column),
-        interval_proportions: proportion::interval_proportions(&column, &cuts),
+        interval_proportions: proportion::interval_proportions(&column, &cut_heights),
         proportion_curve: proportion::proportion_curve(&column, params),
-        accommodation: accommodation::regimes(&column, &channel_bodies, params),
+        accommodation: accommodation::regimes(&column, &channel_bodies, &paleosols, &cut_heights, params),
         sequence_boundary_candidates: candidates,
+        unlisted_candidates,
+        cut_heights,
+        cuts_are_accepted,
+        params: params.clone(),
         elements,
         storeys,
         channel_bodies,

@@ -91,6 +91,11 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
             continue;
         }
         let on_sandstone = beds[first..=last].iter().any(is_sand_or_gravel);
+        let poorly_drained = beds[first..=last].iter().any(|b| {
+            b.paleosol_features
+                .iter()
+                .any(|f| matches!(f, PaleosolFeature::Gleying | PaleosolFeature::Mottling))
+        });
         out.push(PaleosolProfile {
             base_m: column.bounds_m[first],
             top_m: column.bounds_m[last + 1],
@@ -102,6 +107,7 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
             carbonate_stage,
             raised_by,
             on_sandstone,
+            poorly_drained,
         });
     }
     out

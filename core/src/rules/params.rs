@@ -73,37 +73,34 @@ pub struct RuleParams {
     pub window_m: f64,
     /// Spacing of the points of the proportion curve, metres. Default 0.5 m: common practice.
     pub curve_step_m: f64,
-    /// With no accepted boundary, candidates scoring above this split the section into
-    /// intervals for proportions. Default 0.5: common practice (half of the full evidence).
-    pub boundary_interval_min_score: f64,
-    /// Grain size at the base of the bed above a boundary coarser than the top of the bed below
-    /// by at least this many Wentworth classes counts as an abrupt upward jump. Default 4 classes
-    /// (e.g. silt to coarse sand, fine sand to pebble): common practice, chosen to exceed the
-    /// usual mud-to-fine-sand step at any channel base.
-    pub grain_jump_min_classes: usize,
-    /// Erosional relief larger than this (or than the storey below) counts as evidence of
-    /// incision beyond one channel's scour. Default 3 m: common practice.
+    /// Erosional relief larger than this counts as *incision* evidence even where no storey
+    /// thickness is at hand to compare it with. Default 3 m: common practice (deeper than the
+    /// scours of most single channels; from memory, after Gibling 2006's compilation of channel
+    /// and valley dimensions).
     pub relief_limit_m: f64,
-    /// Height of the windows above and below a boundary compared for a jump in channel-body
-    /// proportion, metres. Default 10 m: common practice (same as the curve window).
+    /// Erosional relief larger than this many times the thickest storey of the body the surface
+    /// cuts into (or, cutting into fines, of its own body) counts as *incision*: a valley is
+    /// deeper than the channels that filled it (Gibling 2006; Holbrook 2001). Default 1.0:
+    /// common practice (relief beyond one channel's depth).
+    pub incision_relief_ratio: f64,
+    /// Height of the stretch below a channel-body base whose channel fills it is compared with
+    /// (for a *basinward facies shift*), metres. Default 10 m: common practice (several storey
+    /// thicknesses, as the curve window).
     pub boundary_window_m: f64,
-    /// The proportion in the window above must exceed the one below by at least this. Default
-    /// 0.3: common practice.
-    pub proportion_jump_min: f64,
-    /// Weight of "base of a multi-story body". Defaults of the channel-base weights sum to 1, so
-    /// a base with every item scores 1 (our choice).
-    pub weight_multistory_base: f64,
-    /// Weight of "abrupt upward jump in grain size".
-    pub weight_grain_jump: f64,
-    /// Weight of "erosional relief larger than the storey below or the relief limit".
-    pub weight_relief: f64,
-    /// Weight of "sits on or truncates a strongly developed paleosol".
-    pub weight_on_strong_paleosol: f64,
-    /// Weight of "channel-body proportion above clearly exceeds the one below".
-    pub weight_proportion_jump: f64,
-    /// Weight of "strongly developed paleosol capping floodplain fines" (interfluve
-    /// equivalent; Kraus 1999: thick, well developed paleosols form during stability at
-    /// unconformities).
+    /// The channel fill above a base counts as markedly coarser than the fills below when its
+    /// coarsest grain exceeds the coarsest of every channel fill in the window below by at least
+    /// this many Wentworth classes. Default 2 classes (e.g. medium to very coarse sand): common
+    /// practice (one class is within the spread of one river's deposits).
+    pub facies_shift_min_classes: usize,
+    /// Weight of *incision* in a candidate's score (which only orders candidates within a
+    /// strength class; see `docs/interpretation-rules.md`). Default 0.3: our choice.
+    pub weight_incision: f64,
+    /// Weight of a *basinward facies shift*. Default 0.25: our choice.
+    pub weight_facies_shift: f64,
+    /// Weight of a base *on or truncating a mature paleosol profile*. Default 0.25: our choice.
+    pub weight_on_mature_paleosol: f64,
+    /// Weight of an *interfluve paleosol* (a mature profile capping floodplain fines, no channel
+    /// on it; Kraus 1999; McCarthy & Plint 1998). Default 0.3: our choice.
     pub weight_interfluve_paleosol: f64,
     /// A stretch is called low accommodation when its bodies are multi-story and its
     /// channel-body proportion is at least this. Default 0.5: Allen 1978 (connectedness rises
@@ -116,6 +113,10 @@ pub struct RuleParams {
     /// A high-accommodation call needs at least this many isolated bodies in a row. Default 2:
     /// common practice (one isolated body may be a local avulsion).
     pub high_min_isolated_bodies: usize,
+    /// A channel-body proportion within this of the low or the high threshold gives no sign
+    /// either way: the stretch says "near the threshold" rather than flipping on 0.01. Default
+    /// 0.05: common practice (a few metres of sand in a typical stretch).
+    pub regime_margin: f64,
     /// A stretch more than this fraction covered is undetermined. Default 0.5: common practice.
     pub max_covered_fraction: f64,
     /// Grain-size change (phi) between the base and the top of a body or storey needed to call it
@@ -148,20 +149,18 @@ impl Default for RuleParams {
             vertic_calcic_raises: true,
             window_m: 10.0,
             curve_step_m: 0.5,
-            boundary_interval_min_score: 0.5,
-            grain_jump_min_classes: 4,
             relief_limit_m: 3.0,
+            incision_relief_ratio: 1.0,
             boundary_window_m: 10.0,
-            proportion_jump_min: 0.3,
-            weight_multistory_base: 0.2,
-            weight_grain_jump: 0.2,
-            weight_relief: 0.15,
-            weight_on_strong_paleosol: 0.25,
-            weight_proportion_jump: 0.2,
-            weight_interfluve_paleosol: 0.25,
+            facies_shift_min_classes: 2,
+            weight_incision: 0.3,
+            weight_facies_shift: 0.25,
+            weight_on_mature_paleosol: 0.25,
+            weight_interfluve_paleosol: 0.3,
             low_min_proportion: 0.5,
             high_max_proportion: 0.3,
             high_min_isolated_bodies: 2,
+            regime_margin: 0.05,
             max_covered_fraction: 0.5,
             profile_min_phi_change: 1.0,
             braided_min_coarsest: WentworthClass::VeryCoarseSand,
@@ -195,11 +194,10 @@ impl RuleParams {
             ("relief_limit_m", self.relief_limit_m),
             ("min_storey_m", self.min_storey_m),
             ("profile_min_phi_change", self.profile_min_phi_change),
-            ("weight_multistory_base", self.weight_multistory_base),
-            ("weight_grain_jump", self.weight_grain_jump),
-            ("weight_relief", self.weight_relief),
-            ("weight_on_strong_paleosol", self.weight_on_strong_paleosol),
-            ("weight_proportion_jump", self.weight_proportion_jump),
+            ("incision_relief_ratio", self.incision_relief_ratio),
+            ("weight_incision", self.weight_incision),
+            ("weight_facies_shift", self.weight_facies_shift),
+            ("weight_on_mature_paleosol", self.weight_on_mature_paleosol),
             ("weight_interfluve_paleosol", self.weight_interfluve_paleosol),
         ];
         for (name, v) in non_negative {
@@ -208,8 +206,7 @@ impl RuleParams {
             }
         }
         let fractions = [
-            ("boundary_interval_min_score", self.boundary_interval_min_score),
-            ("proportion_jump_min", self.proportion_jump_min),
+            ("regime_margin", self.regime_margin),
             ("low_min_proportion", self.low_min_proportion),
             ("high_max_proportion", self.high_max_proportion),
             ("max_covered_fraction", self.max_covered_fraction),
@@ -232,6 +229,112 @@ impl RuleParams {
     }
 }
 
+/// Parameter names earlier versions used and this one no longer reads (the boundary evidence was
+/// rebuilt from independent items). A partial object naming them is read with a warning, not
+/// refused, so older project and parameter files still open.
+pub const RETIRED: &[&str] = &[
+    "boundary_interval_min_score",
+    "grain_jump_min_classes",
+    "proportion_jump_min",
+    "weight_multistory_base",
+    "weight_grain_jump",
+    "weight_relief",
+    "weight_on_strong_paleosol",
+    "weight_proportion_jump",
+];
+
+/// A partial parameter object read: the full set and the warnings (retired names ignored).
+#[derive(Debug, Clone, PartialEq)]
+pub struct PartialRead {
+    pub params: RuleParams,
+    pub warnings: Vec<String>,
+}
+
+impl RuleParams {
+    /// Read a partial JSON object (the rest from the defaults), naming every field at fault:
+    /// unknown names, values of the wrong type, and values out of range ([`RuleParams::problems`]).
+    /// Retired names are skipped with a warning.
+    pub fn from_partial(value: &serde_json::Value) -> Result<PartialRead, Vec<String>> {
+        let Some(fields) = value.as_object() else {
+            return Err(vec![format!(
+                "rule parameters: got {}; valid is a JSON object such as {{\"window_m\": 20}}",
+                short_json(value)
+            )]);
+        };
+        let mut kept = serde_json::Map::new();
+        let mut warnings = Vec::new();
+        let mut problems = Vec::new();
+        for (name, v) in fields {
+            if RETIRED.contains(&name.as_str()) {
+                warnings.push(format!("{name}: no longer used by the rules; ignored"));
+                continue;
+            }
+            let one = serde_json::Value::Object([(name.clone(), v.clone())].into_iter().collect());
+            match serde_json::from_value::<RuleParams>(one) {
+                Ok(_) => {
+                    kept.insert(name.clone(), v.clone());
+                }
+                Err(e) if e.to_string().starts_with("unknown field") => problems.push(format!(
+                    "{name}: not a rule parameter; valid names are listed in docs/interpretation-rules.md"
+                )),
+                Err(e) => problems.push(format!("{name}: got {}; {e}", short_json(v))),
+            }
+        }
+        if !problems.is_empty() {
+            return Err(problems);
+        }
+        let params: RuleParams = serde_json::from_value(serde_json::Value::Object(kept))
+            .map_err(|e| vec![format!("rule parameters: {e}")])?;
+        let out_of_range = params.problems();
+        if !out_of_range.is_empty() {
+            return Err(out_of_range);
+        }
+        Ok(PartialRead { params, warnings })
+    }
+
+    /// The parameters a project holds (`rule_params`, a partial object; the defaults where it
+    /// holds none). The project readers refuse faulty ones, so an error here means a project
+    /// built in code with bad values; it names them.
+    pub fn of_project(project: &crate::model::Project) -> Result<RuleParams, Vec<String>> {
+        RuleParams::from_partial(&serde_json::Value::Object(project.rule_params.clone())).map(|r| r.params)
+    }
+
+    /// The fields that differ from the defaults, as a partial JSON object (what a project file
+    /// stores): empty for the default rules.
+    pub fn changed(&self) -> serde_json::Map<String, serde_json::Value> {
+        let (Ok(serde_json::Value::Object(mine)), Ok(serde_json::Value::Object(defaults))) =
+            (serde_json::to_value(self), serde_json::to_value(RuleParams::default()))
+        else {
+            return serde_json::Map::new();
+        };
+        mine.into_iter().filter(|(k, v)| defaults.get(k) != Some(v)).collect()
+    }
+
+    /// Which rules produced a result, in words for a printout's footer: "default rules", or
+    /// "rules changed from the defaults: window_m = 20, lag_limit_m = 0.3".
+    pub fn summary(&self) -> String {
+        let changed = self.changed();
+        if changed.is_empty() {
+            return "default rules".to_string();
+        }
+        let items: Vec<String> = changed.iter().map(|(k, v)| format!("{k} = {}", short_json(v))).collect();
+        format!("rules changed from the defaults: {}", items.join(", "))
+    }
+}
+
+/// A JSON value in at most 40 characters, for messages.
+fn short_json(v: &serde_json::Value) -> String {
+    let text = match v {
+        serde_json::Value::String(s) => s.clone(),
+        other => other.to_string(),
+    };
+    if text.chars().count() > 40 {
+        format!("{}…", text.chars().take(40).collect::<String>())
+    } else {
+        text
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -242,6 +345,35 @@ mod tests {
         let p: RuleParams = serde_json::from_str(r#"{"window_m": 20.0}"#).expect("partial params parse");
         assert_eq!(p.window_m, 20.0);
         assert_eq!(p.drape_limit_m, RuleParams::default().drape_limit_m);
+    }
+
+    #[test]
+    fn partial_objects_name_their_faults_and_skip_retired_names() {
+        let read = RuleParams::from_partial(&serde_json::json!({"window_m": 20, "weight_grain_jump": 0.3}))
+            .expect("reads");
+        assert_eq!(read.params.window_m, 20.0);
+        assert_eq!(read.warnings, ["weight_grain_jump: no longer used by the rules; ignored"]);
+        let errs = RuleParams::from_partial(
+            &serde_json::json!({"windw_m": 20, "lag_limit_m": "x", "drape_limit_m": -1}),
+        )
+        .expect_err("refused");
+        assert_eq!(errs.len(), 2, "{errs:?}");
+        assert!(errs[0].starts_with("lag_limit_m: got x;"), "{errs:?}");
+        assert!(errs[1].starts_with("windw_m: not a rule parameter"), "{errs:?}");
+        let errs = RuleParams::from_partial(&serde_json::json!({"drape_limit_m": -1})).expect_err("range");
+        assert!(errs[0].starts_with("drape_limit_m: got -1"), "{errs:?}");
+        assert!(RuleParams::from_partial(&serde_json::json!([1])).is_err());
+    }
+
+    #[test]
+    fn changed_fields_round_trip_and_summarise() {
+        let p = RuleParams { window_m: 20.0, lag_limit_m: 0.3, ..RuleParams::default() };
+        let changed = p.changed();
+        assert_eq!(changed.len(), 2);
+        let back = RuleParams::from_partial(&serde_json::Value::Object(changed)).expect("reads").params;
+        assert_eq!(back, p);
+        assert_eq!(RuleParams::default().summary(), "default rules");
+        assert_eq!(p.summary(), "rules changed from the defaults: lag_limit_m = 0.3, window_m = 20.0");
     }
 
     #[test]

@@ -40,7 +40,7 @@ pub struct Storey {
 }
 
 /// How the storeys of a channel body are stacked.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
 pub enum Stacking {
     /// Two or more storeys: amalgamated.
     #[serde(rename = "multi-story")]
@@ -120,6 +120,13 @@ pub struct ChannelBody {
     pub style_hint: Option<StyleHint>,
     /// Indices into `Interpretation::storeys`.
     pub storey_indices: Vec<usize>,
+    /// Share of the sensitivity runs (0–1) in which the body came out the same (same base, top
+    /// and stacking); only after a sensitivity run.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub stability: Option<f64>,
+    /// The parameter change nearest the values used that makes the body come out differently.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub flipped_by: Option<Flip>,
 }
 
 impl ChannelBody {
@@ -168,6 +175,9 @@ pub struct PaleosolProfile {
     /// True when the soil formed in sandstone or conglomerate (a profile including such a bed: a
     /// soil on a sandstone top).
     pub on_sandstone: bool,
+    /// True when a bed of the profile is logged with gleying or mottling: a high or fluctuating
+    /// water table, poor drainage (Kraus 1999; Wright & Marriott 1993).
+    pub poorly_drained: bool,
 }
 
 /// The whole-section channel-body proportion with covered intervals counted one way or the other.
@@ -229,6 +239,53 @@ pub enum CandidateKind {
     PaleosolTop,
     /// Both at one boundary.
     ChannelBaseOnPaleosol,
+    /// A bed base the geologist tagged as an incision surface, neither of the above.
+    TaggedSurface,
+}
+
+/// How much independent evidence a candidate sequence boundary has (see
+/// `docs/interpretation-rules.md` for the combination).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Strength {
+    /// A channel base or paleosol top with no evidence beyond being one.
+    Weak,
+    /// One independent kind of evidence.
+    Moderate,
+    /// Two or more independent kinds, or a very strongly developed interfluve paleosol.
+    Strong,
+}
+
+impl Strength {
+    /// The word as printed (`strong`, `moderate`, `weak`).
+    pub fn name(self) -> &'static str {
+        match self {
+            Strength::Strong => "strong",
+            Strength::Moderate => "moderate",
+            Strength::Weak => "weak",
+        }
+    }
+}
+
+/// One parameter value, among the sensitivity runs, that changes a result.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Flip {
+    /// The parameter's name as in the parameter file (`splay_limit_m`).
+    pub parameter: String,
+    /// The value that changes the result.
+    pub value: f64,
+}
+
+impl CandidateKind {
+    /// The kind in words ("channel-body base").
+    pub fn name(self) -> &'static str {
+        match self {
+            CandidateKind::ChannelBodyBase => "channel-body base",
+            CandidateKind::PaleosolTop => "paleosol top",
+            CandidateKind::ChannelBaseOnPaleosol => "channel-body base on a paleosol",
+            CandidateKind::TaggedSurface => "tagged incision surface",
+        }
+    }
 }
 
 /// A candidate sequence boundary at one bed boundary, with everything found there.
@@ -241,9 +298,25 @@ pub struct BoundaryCandidate {
     /// Id of that bed (the key for review decisions).
     pub bed_id: BedId,
     pub kind: CandidateKind,
-    /// 0–1, from the weighted evidence.
+    /// From the independent evidence items found (see [`Strength`]).
+    pub strength: Strength,
+    /// 0–1, the weights of the independent evidence found; orders candidates within a strength
+    /// class and is not a probability.
     pub score: f64,
     pub evidence: Vec<Evidence>,
+    /// The geologist's name for the surface at this bed base, if any.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub surface_name: Option<String>,
+    /// The geologist's correlation label on the decision, if any.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub label: Option<String>,
+    /// Share of the sensitivity runs (0–1) in which the candidate came out the same (listed with
+    /// at least moderate strength, or not); only after a sensitivity run.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub stability: Option<f64>,
+    /// The parameter change nearest the values used that changes it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub flipped_by: Option<Flip>,
     /// The geologist's decision, carried over from the section's review list.
     pub review: ReviewState,
     /// The geologist's note on it, if any.
@@ -274,8 +347,18 @@ pub struct Interpretation {
     pub interval_proportions: Vec<IntervalProportion>,
     pub proportion_curve: Vec<CurvePoint>,
     pub accommodation: Vec<RegimeInterval>,
-    /// Sorted by score, highest first.
+    /// Strongest first, then by score, then by height. Weak paleosol tops with no evidence are
+    /// left out unless all candidates were asked for.
     pub sequence_boundary_candidates: Vec<BoundaryCandidate>,
+    /// How many weak paleosol tops with no evidence were left out of the list.
+    pub unlisted_candidates: usize,
+    /// The heights the regimes and interval proportions were cut at: accepted boundaries, else
+    /// strong candidates not rejected.
+    pub cut_heights: Vec<f64>,
+    /// True when `cut_heights` are accepted boundaries (false: strong candidates).
+    pub cuts_are_accepted: bool,
+    /// The full parameter set the rules ran with.
+    pub params: super::params::RuleParams,
     /// "Candidates for expert review" caution.
     pub caution: String,
 }

@@ -165,7 +165,7 @@ impl ColumnCtx<'_> {
             .filter(|c| self.opts.show_rejected || c.review != ReviewState::Rejected);
         for c in cands {
             let y = t.y_mm(c.height_m);
-            let (stroke, label, color) = boundary_style(c.review, c.score);
+            let (stroke, label, color) = boundary_style(c.review, c.strength, candidate_name(c));
             out.push(Item::Polyline { points: vec![PtMm { x: x_start, y }, PtMm { x: x_end, y }], stroke });
             if let Some(lt) = tr.boundary_labels {
                 text(out, x0 + lt.x_mm + 0.8, y + 0.9, &label, SMALL_PT, color);
@@ -174,17 +174,23 @@ impl ColumnCtx<'_> {
     }
 }
 
-/// A label and stroke for a boundary in a review state.
-pub fn boundary_style(review: ReviewState, score: f64) -> (Stroke, String, Rgba) {
-    let score = if score.is_finite() { score } else { 0.0 };
+/// The name a boundary is printed with: the geologist's correlation label, else the surface's
+/// name.
+pub fn candidate_name(c: &BoundaryCandidate) -> Option<&str> {
+    c.label.as_deref().or(c.surface_name.as_deref())
+}
+
+/// A label and stroke for a boundary in a review state: "SB? strong", "SB moderate · Red Cap",
+/// "rej. weak". The strength class, never a bare number that reads like a probability.
+pub fn boundary_style(review: ReviewState, strength: Strength, name: Option<&str>) -> (Stroke, String, Rgba) {
+    let named = |head: &str| match name.map(str::trim).filter(|n| !n.is_empty()) {
+        Some(n) => format!("{head} {} \u{b7} {n}", strength.name()),
+        None => format!("{head} {}", strength.name()),
+    };
     match review {
-        ReviewState::Candidate => {
-            (dashed(0.35, BOUNDARY_RED, &[2.0, 1.0]), format!("SB? {score:.2}"), BOUNDARY_RED)
-        }
-        ReviewState::Accepted => (solid(0.55, BOUNDARY_RED), format!("SB {score:.2}"), BOUNDARY_RED),
-        ReviewState::Rejected => {
-            (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), format!("rej. {score:.2}"), REJECTED_GREY)
-        }
+        ReviewState::Candidate => (dashed(0.35, BOUNDARY_RED, &[2.0, 1.0]), named("SB?"), BOUNDARY_RED),
+        ReviewState::Accepted => (solid(0.55, BOUNDARY_RED), named("SB"), BOUNDARY_RED),
+        ReviewState::Rejected => (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), named("rej."), REJECTED_GREY),
     }
 }
 

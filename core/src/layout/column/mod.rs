@@ -16,7 +16,7 @@ mod tests;
 mod tracks;
 
 pub use beds::{draw_contact, paleosol_bar_mm};
-pub use interpretation::{body_bracket, body_labels, boundary_style, BracketEnd};
+pub use interpretation::{body_bracket, body_labels, boundary_style, candidate_name, BracketEnd};
 pub use tracks::{Track, Tracks, GRAIN_CLASS_STEP_MM, GRAIN_MIN_WIDTH_MM};
 
 use crate::layout::curve_track::{self, CurvePlace, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_TRACKS};
@@ -29,7 +29,7 @@ use crate::layout::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_sy
 use crate::layout::text::{fit_size, text, text_up, width};
 use crate::layout::transform::{GrainScale, HeightTransform};
 use crate::model::{Bed, Contact, LengthUnit, PaleosolDevelopment, ReviewState, Section, WentworthClass};
-use crate::rules::{Censor, ChannelBody, Interpretation, Regime, Stacking};
+use crate::rules::{BoundaryCandidate, Censor, ChannelBody, Interpretation, Regime, Stacking, Strength};
 use serde::Serialize;
 
 /// Phi at which beds with no grain size (non-clastic rocks logged without one, covered

@@ -8,7 +8,7 @@ use super::{
     LINK_TEAL, STRIP_MM, TIE_VIOLET,
 };
 use crate::layout::column::{
-    body_bracket, body_labels, boundary_style, BracketEnd, ColumnCtx, TITLE_BAND_MM,
+    body_bracket, body_labels, boundary_style, candidate_name, BracketEnd, ColumnCtx, TITLE_BAND_MM,
 };
 use crate::layout::items::{Item, PtMm, RectMm, Rgba, Stroke};
 use crate::layout::legend::{legend_entries, LegendEntry};
@@ -54,6 +54,7 @@ pub(super) fn header(
     sections: &[Section],
     opts: &PanelOptions,
     meta: &PrintMeta,
+    rules: &str,
     out: &mut Vec<Item>,
 ) {
     let m = sheet.margin;
@@ -107,7 +108,8 @@ pub(super) fn header(
         PositionSource::FileOrder => "positions: none given, file order".to_string(),
     };
     let mut facts = vec![source];
-    facts.push(format!("boundary candidates scoring below {:.2} not drawn", opts.min_candidate_score));
+    facts.push(format!("candidates weaker than {} not drawn", opts.min_candidate_strength.name()));
+    facts.push(format!("interpreted with {rules}"));
     if !meta.printed_on.is_empty() {
         facts.push(format!("printed {}", meta.printed_on));
     }
@@ -311,7 +313,7 @@ pub(super) fn strip(
     cands.sort_by(|a, b| a.height_m.total_cmp(&b.height_m));
     for c in cands {
         let y = t.y_mm(c.height_m);
-        let (stroke, label, colour) = boundary_style(c.review, c.score);
+        let (stroke, label, colour) = boundary_style(c.review, c.strength, candidate_name(c));
         out.push(Item::Polyline { points: vec![PtMm { x: line_start, y }, PtMm { x: line_end, y }], stroke });
         labels.push((y, label, colour));
     }
@@ -418,9 +420,7 @@ fn shown(c: &BoundaryCandidate, opts: &PanelOptions) -> bool {
     match c.review {
         ReviewState::Accepted => true,
         ReviewState::Rejected => opts.layout.show_rejected,
-        ReviewState::Candidate => {
-            c.score >= opts.min_candidate_score || !opts.min_candidate_score.is_finite()
-        }
+        ReviewState::Candidate => c.strength >= opts.min_candidate_strength,
     }
 }
 

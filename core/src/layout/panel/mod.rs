@@ -95,9 +95,9 @@ pub struct PanelOptions {
     pub min_gap_mm: f64,
     /// Printed at the top; empty gives "Correlation panel".
     pub title: String,
-    /// Candidate sequence boundaries scoring below this are left off the panel (accepted ones
-    /// are always drawn); by default the score above which the rules cut proportion intervals.
-    pub min_candidate_score: f64,
+    /// Candidate sequence boundaries weaker than this are left off the panel (accepted ones are
+    /// always drawn); by default `strong`, the class at which the rules cut intervals.
+    pub min_candidate_strength: crate::rules::Strength,
 }
 
 impl Default for PanelOptions {
@@ -108,7 +108,7 @@ impl Default for PanelOptions {
             horizontal_scale_denominator: None,
             min_gap_mm: 10.0,
             title: String::new(),
-            min_candidate_score: crate::rules::RuleParams::default().boundary_interval_min_score,
+            min_candidate_strength: crate::rules::Strength::Strong,
         }
     }
 }
@@ -298,7 +298,13 @@ pub fn panel_layout(
 
     // Header, legend and key.
     let mut items: Vec<Item> = Vec::new();
-    draw::header(&sheet, &horizontal, sections, opts, meta, &mut items);
+    // Which rules: those of the first interpretation, or a warning when they differ.
+    let rules = match interps.first() {
+        Some(first) if interps.iter().all(|i| i.params == first.params) => first.params.summary(),
+        Some(_) => "DIFFERENT rules per column (see each column's printout)".to_string(),
+        None => "default rules".to_string(),
+    };
+    draw::header(&sheet, &horizontal, sections, opts, meta, &rules, &mut items);
     draw_legend(&entries, sheet.margin, sheet.y_legend, sheet.usable_w, &mut items);
     let any_link = markers.iter().any(|m| m.markers.iter().any(|m| m.link.is_some()));
     draw::key(sheet.margin, sheet.y_key, any_link, &mut items);
