@@ -36,6 +36,8 @@ fn body(base: f64, top: f64, stories: usize) -> ChannelBody {
         profile: GrainProfile::Unknown,
         style_hint: None,
         storey_indices: Vec::new(),
+        stability: None,
+        flipped_by: None,
     }
 }
 

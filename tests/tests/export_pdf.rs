@@ -51,6 +51,10 @@ fn no_interp(section: &Section) -> Interpretation {
         proportion_curve: Vec::new(),
         accommodation: Vec::new(),
         sequence_boundary_candidates: Vec::new(),
+        unlisted_candidates: 0,
+        cut_heights: Vec::new(),
+        cuts_are_accepted: false,
+        params: aggrade_core::rules::RuleParams::default(),
         caution: aggrade_core::REVIEW_CAUTION.into(),
     }
 }

@@ -28,6 +28,7 @@ mod panel_pdf;
 mod reference_fgdc_patterns;
 mod reference_grain_units;
 mod rules_demo_sections;
+mod rules_evidence;
 mod rules_handworked;
 mod rules_literature;
 mod rules_properties;

@@ -4,16 +4,17 @@
 
 use aggrade_core::model::{
     BaseRank, Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
-    Project, ReviewDecision, ReviewState, Section, Structure,
+    Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind,
 };
 use aggrade_core::rules::{
-    interpret, CandidateKind, Element, FluvialStyle, Interpretation, Regime, RuleParams, Stacking,
+    interpret, CandidateKind, Element, EvidenceKind, FluvialStyle, Interpretation, Regime, RuleParams, Stacking,
+    Strength,
 };
 
 /// A section from lines `THICKNESS LITHOLOGY GRAIN[>GRAIN_TOP] [CONTACT] [paleosol=DEV] [relief=R]
-/// [stage=N] [rank=RANK] [soil:FEATURE…] [STRUCTURE…]`, thicknesses (and relief) in `unit`,
+/// [stage=N] [rank=RANK] [incision=NAME] [soil:FEATURE…] [STRUCTURE…]`, thicknesses (and relief) in `unit`,
 /// contacts sharp unless given.
-fn section_in(unit: LengthUnit, name: &str, spec: &str) -> Section {
+pub(crate) fn section_in(unit: LengthUnit, name: &str, spec: &str) -> Section {
     let mut s = Section::new(name);
     s.display_unit = unit;
     for (i, line) in spec.lines().map(str::trim).filter(|l| !l.is_empty()).enumerate() {
@@ -30,6 +31,8 @@ fn section_in(unit: LengthUnit, name: &str, spec: &str) -> Section {
                 bed.base_rank = Some(BaseRank::parse(r).expect("base rank"));
             } else if let Some(f) = w.strip_prefix("soil:") {
                 bed.paleosol_features.push(PaleosolFeature::parse(f).expect("paleosol feature"));
+            } else if let Some(n) = w.strip_prefix("incision=") {
+                bed.base_surface = Some(Surface { name: n.to_string(), kind: SurfaceKind::Incision });
             } else if let Some(r) = w.strip_prefix("relief=") {
                 bed.base_relief_m = Some(unit.to_metres(r.parse().expect("relief")));
             } else if let Some(c) = Contact::parse(w) {
@@ -47,7 +50,7 @@ fn section_in(unit: LengthUnit, name: &str, spec: &str) -> Section {
     s
 }
 
-fn section(name: &str, spec: &str) -> Section {
+pub(crate) fn section(name: &str, spec: &str) -> Section {
     section_in(LengthUnit::Metre, name, spec)
 }
 
@@ -82,16 +85,18 @@ const ISOLATED: &str = "
 fn isolated_bodies_in_mudstone() {
     // Working: bodies 4–6 m and 12–13.5 m, one storey each, nothing but mudstone around them.
     // Channel 2 + 1.5 = 3.5 m of 20 m exposed → 0.175.
-    // Regimes: 0–4 m no body → undetermined; 4–12 m proportion 2/8 = 0.25 ≤ 0.30 and 12–20 m
-    // 1.5/8 = 0.1875 ≤ 0.30, both single-story: two isolated bodies in a row → high, 4–20 m.
+    // Regimes: no boundary is strong enough to cut, so one stretch 0–20 m: two single-story
+    // bodies (a sign of high, Shanley & McCabe 1994) and a proportion of 0.175 ≤ 0.30 (a second
+    // sign; Larue & Hovadik 2006) → high.
     let r = interpret(&section("Isolated", ISOLATED), &RuleParams::default());
     assert_bodies(&r, &[(4.0, 6.0, 1, Stacking::SingleStory), (12.0, 13.5, 1, Stacking::SingleStory)]);
     assert!(r.channel_bodies.iter().all(|b| b.amalgamated_bases == 0));
     assert!(close(r.channel_proportion.expect("exposed"), 0.175));
     let regimes: Vec<(f64, f64, Regime)> =
         r.accommodation.iter().map(|a| (a.base_m, a.top_m, a.regime)).collect();
-    assert_eq!(regimes, vec![(0.0, 4.0, Regime::Undetermined), (4.0, 20.0, Regime::High)]);
-    assert!(r.accommodation[1].why.to_string().contains("2 single-story"), "{}", r.accommodation[1].why);
+    assert_eq!(regimes, vec![(0.0, 20.0, Regime::High)]);
+    let why = r.accommodation[0].why.to_string();
+    assert!(why.contains("2 of 2 channel bodies single-story") && why.contains("0.17 (≤ 0.30)"), "{why}");
     assert_eq!(r.caution, aggrade_core::REVIEW_CAUTION);
 }
 
@@ -370,40 +375,61 @@ fn a_full_base_level_cycle_ranks_the_two_incisions_first() {
     // single-story 19–20.5; weak paleosol 20.5–26.5; 0.5 m splay; fines 27–32; single-story
     // 32–33.5; fines 33.5–38; very strong paleosol 38–40; multi-story 40–46 (5 m relief); fines 46–48.
     //
-    // Working for 5 m: multi-story base 0.2 + jump silt→pebble 7 classes ≥ 4: 0.2 + relief 4 > 3 m:
-    // 0.15 + on a strong paleosol: 0.25 + proportion 0.00 below (0–5) → 8/10 = 0.80 above: 0.2
-    // = 1.00. For 40 m: the same items; proportion 1.5/10 = 0.15 below → 6/8 = 0.75 above (window
-    // clipped at the top) = 1.00. Next best: 32 m, only the proportion jump (0 → 3.5/10 = 0.35):
-    // 0.20. 19 m and the weak paleosol top at 26.5 m: 0.
+    // Working, with the evidence kinds of Van Wagoner et al. 1990 and Posamentier & Allen 1999
+    // (each kind once; being a channel base is none):
+    // 40 m: incision (5 m relief > the 4 m thickest storey of its own body; Gibling 2006),
+    //   basinward facies shift (pebble fill over the medium-sand fill of the 32 m body, 4
+    //   Wentworth classes ≥ 2; and amalgamated over isolated in the 10 m below), on a mature
+    //   paleosol (very strong, 38–40 m) → 3 kinds, strong, score 0.30 + 0.25 + 0.25 = 0.80.
+    // 5 m: incision (4 m relief > the 3 m relief limit; its thickest storey is 4.2 m), on a
+    //   mature paleosol (strong, 3–5 m); no channel fill below to compare → 2 kinds, strong, 0.55.
+    // 19 m and 32 m: channel bases and nothing more → weak, 0. The weak paleosol top at 26.5 m
+    //   is not listed.
     let s = cycle();
     let r = interpret(&s, &RuleParams::default());
     let c = &r.sequence_boundary_candidates;
-    let ranked: Vec<(f64, f64, CandidateKind)> = c.iter().map(|c| (c.height_m, c.score, c.kind)).collect();
-    assert_eq!(c.len(), 5, "{ranked:?}");
-    assert!(close(c[0].height_m, 5.0) && close(c[1].height_m, 40.0), "{ranked:?}");
+    let ranked: Vec<(f64, Strength, f64)> = c.iter().map(|c| (c.height_m, c.strength, c.score)).collect();
+    assert_eq!(c.len(), 4, "{ranked:?}");
+    assert_eq!(r.unlisted_candidates, 1);
+    assert!(close(c[0].height_m, 40.0) && close(c[0].score, 0.8), "{ranked:?}");
+    assert!(close(c[1].height_m, 5.0) && close(c[1].score, 0.55), "{ranked:?}");
     for top in &c[..2] {
-        assert!(close(top.score, 1.0), "{ranked:?}");
+        assert_eq!(top.strength, Strength::Strong, "{ranked:?}");
         assert_eq!(top.kind, CandidateKind::ChannelBaseOnPaleosol);
-        assert_eq!(top.evidence.len(), 5, "{:?}", top.evidence);
     }
-    assert!(c[2..].iter().all(|o| o.score < c[1].score), "{ranked:?}");
-    assert!(close(c[2].height_m, 32.0) && close(c[2].score, 0.2), "{ranked:?}");
+    let kinds = |c: &aggrade_core::rules::BoundaryCandidate| {
+        let mut k: Vec<EvidenceKind> = c.evidence.iter().filter_map(|e| e.kind()).collect();
+        k.dedup();
+        k
+    };
+    assert_eq!(
+        kinds(&c[0]),
+        [EvidenceKind::Incision, EvidenceKind::BasinwardFaciesShift, EvidenceKind::OnMaturePaleosol]
+    );
+    assert_eq!(kinds(&c[1]), [EvidenceKind::Incision, EvidenceKind::OnMaturePaleosol]);
+    for weak in &c[2..] {
+        assert_eq!((weak.strength, weak.score), (Strength::Weak, 0.0), "{ranked:?}");
+    }
 
-    // Regimes: below the first body undetermined; the amalgamated body (8 of 14 m = 0.57) low;
-    // two isolated bodies in fines (3 of 21 m = 0.14) high; the top body (6 of 8 m) low.
+    // Regimes, one per stretch between the strong candidates (5 and 40 m):
+    // 0–5 m: no body; one mature, well-drained soil: 1 sign → undetermined.
+    // 5–40 m: 2 of 3 bodies single-story (a sign of high); proportion (8 + 1.5 + 1.5)/35 = 0.314,
+    //   within 0.05 of the 0.30 threshold → no sign; soils: one weak, one very strong → no
+    //   majority. 1 sign → undetermined (the first rules called this stretch low, then high).
+    // 40–48 m: amalgamated, 6/8 = 0.75 ≥ 0.50: 2 signs → low.
     let regimes: Vec<(f64, f64, Regime)> =
         r.accommodation.iter().map(|a| (a.base_m, a.top_m, a.regime)).collect();
     assert_eq!(
         regimes,
-        vec![
-            (0.0, 5.0, Regime::Undetermined),
-            (5.0, 19.0, Regime::Low),
-            (19.0, 40.0, Regime::High),
-            (40.0, 48.0, Regime::Low)
-        ]
+        vec![(0.0, 5.0, Regime::Undetermined), (5.0, 40.0, Regime::Undetermined), (40.0, 48.0, Regime::Low)]
+    );
+    assert!(
+        r.accommodation[1].why.to_string().contains("0.31 is within 0.05 of the 0.30 threshold"),
+        "{}",
+        r.accommodation[1].why
     );
 
-    // No decisions yet: candidates above 0.5 (5 and 40 m) cut the proportions:
+    // No decisions yet: the strong candidates (5 and 40 m) cut the proportions:
     // 0–5: 0; 5–40: (8 + 1.5 + 1.5)/35; 40–48: 6/8.
     let iv: Vec<(f64, f64, f64)> = r
         .interval_proportions
@@ -572,8 +598,9 @@ fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
     // (Machette 1985, after Gile et al. 1966) makes a profile at least strongly developed;
     // slickensides with carbonate nodules (vertic and calcic features) raise it one grade more.
     // Working: beds 2–3 (2.0–3.8 m) are one profile, logged at most moderate → strong by stage III
-    // → very strong by the vertic–calcic pair. One candidate at its top (3.8 m), scored as an
-    // interfluve paleosol (0.25); the first rules gave one candidate per bed (3.0 and 3.8 m).
+    // → very strong by the vertic–calcic pair. One candidate at its top (3.8 m): a very strongly
+    // developed interfluve paleosol, strong on its own (McCarthy & Plint 1998), score 0.30; the
+    // first rules gave one candidate per bed (3.0 and 3.8 m).
     let s = section("Horizons", HORIZONS);
     let r = interpret(&s, &RuleParams::default());
     assert_eq!(r.paleosols.len(), 1);
@@ -586,7 +613,8 @@ fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
     );
     let c = &r.sequence_boundary_candidates;
     assert_eq!(c.len(), 1, "{c:?}");
-    assert!(close(c[0].height_m, 3.8) && close(c[0].score, 0.25), "{c:?}");
+    assert!(close(c[0].height_m, 3.8) && close(c[0].score, 0.3), "{c:?}");
+    assert_eq!(c[0].strength, Strength::Strong);
     assert_eq!((r.elements[1], r.elements[2]), (Element::Paleosol, Element::Paleosol));
 
     // Without the vertic–calcic raise: strong (stage III alone). With stage III no longer enough
@@ -659,9 +687,15 @@ fn bodies_cut_by_the_section_or_a_cover_are_censored() {
     let censored: Vec<Vec<Censor>> = r.channel_bodies.iter().map(|b| b.censored.clone()).collect();
     assert_eq!(censored, vec![vec![Censor::Base], vec![Censor::Top], vec![Censor::Top]]);
     assert_eq!(r.channel_bodies[0].thickness_text(), "\u{2265} 2.50 m");
-    // Its stretch gets no regime, and says why.
-    assert_eq!(r.accommodation[0].regime, Regime::Undetermined);
-    assert!(r.accommodation[0].why.to_string().contains("seen only in part"), "{}", r.accommodation[0].why);
+    // One stretch (no strong candidate): the one body seen whole is amalgamated and channel
+    // deposits are 7.2/12.4 = 0.58 of the exposure → low; the sentence counts the two bodies
+    // seen only in part, which give no stacking sign.
+    assert_eq!(r.accommodation[0].regime, Regime::Low);
+    assert!(
+        r.accommodation[0].why.to_string().contains("1 of 1 channel bodies multi-story (amalgamated) (2 more seen only in part)"),
+        "{}",
+        r.accommodation[0].why
+    );
     let base = r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, 5.5)).expect("candidate");
     assert!(base.evidence.iter().any(|e| e.to_string().contains("seen only in part")), "{base:?}");
 

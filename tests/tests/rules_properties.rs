@@ -104,7 +104,33 @@ fn check_invariants(s: &Section, r: &Interpretation) -> Result<(), TestCaseError
         prop_assert!((0.0..=1.0).contains(&c.score));
     }
     for w in r.sequence_boundary_candidates.windows(2) {
-        prop_assert!(w[0].score >= w[1].score, "not sorted by score");
+        prop_assert!(
+            w[0].strength > w[1].strength || (w[0].strength == w[1].strength && w[0].score >= w[1].score),
+            "not sorted by strength, then score"
+        );
+    }
+    // The strength follows the count of independent evidence kinds (a very strong interfluve
+    // soil alone is strong).
+    for c in &r.sequence_boundary_candidates {
+        let kinds: std::collections::BTreeSet<_> = c.evidence.iter().filter_map(|e| e.kind()).collect();
+        let expected = match kinds.len() {
+            0 => aggrade_core::rules::Strength::Weak,
+            1 if c.evidence.iter().any(|e| {
+                matches!(
+                    e,
+                    aggrade_core::rules::Evidence::InterfluvePaleosol {
+                        development: aggrade_core::model::PaleosolDevelopment::VeryStrong,
+                        ..
+                    }
+                )
+            }) =>
+            {
+                aggrade_core::rules::Strength::Strong
+            }
+            1 => aggrade_core::rules::Strength::Moderate,
+            _ => aggrade_core::rules::Strength::Strong,
+        };
+        prop_assert_eq!(c.strength, expected);
     }
     // Regime intervals tile the section.
     prop_assert!(r.accommodation.first().is_some_and(|a| a.base_m == 0.0));

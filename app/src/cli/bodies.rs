@@ -6,7 +6,7 @@ use aggrade_core::analysis::bodies::{
     write_proportion_curve_csv,
 };
 use aggrade_core::analysis::decompaction::{decompact_section, write_decompaction_csv, DecompactionParams};
-use aggrade_core::rules::{interpret, Element, Interpretation, RuleParams};
+use aggrade_core::rules::{interpret, Element, Interpretation};
 use anyhow::Context;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
@@ -37,6 +37,8 @@ pub struct BodiesArgs {
     /// With --burial-depth: write each bed's present and decompacted thickness here.
     #[arg(long, requires = "burial_depth")]
     pub decompacted_csv: Option<PathBuf>,
+    #[command(flatten)]
+    pub rules: super::rules_args::RulesArgs,
 }
 
 fn create(path: &Path) -> anyhow::Result<std::io::BufWriter<std::fs::File>> {
@@ -54,7 +56,7 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
             anyhow::bail!("--burial-depth {d}: give the depth of the section top in metres, 0 or more");
         }
     }
-    let params = RuleParams::default();
+    let params = args.rules.resolve(&project, &args.file)?;
     let mut out = String::new();
     let interpretations: Vec<Interpretation> = sections.iter().map(|s| interpret(s, &params)).collect();
     let rows = body_table(interpretations.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));

@@ -2,7 +2,7 @@
 
 use aggrade_core::export::{write_pdf, write_png, write_svg, PdfInfo};
 use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
-use aggrade_core::rules::{interpret, RuleParams};
+use aggrade_core::rules::interpret;
 use anyhow::{bail, Context};
 use std::path::PathBuf;
 
@@ -39,6 +39,8 @@ pub struct ExportArgs {
     /// Also draw sequence-boundary candidates the geologist rejected.
     #[arg(long)]
     pub show_rejected: bool,
+    #[command(flatten)]
+    pub rules: super::rules_args::RulesArgs,
 }
 
 /// Parse a scale "100" or "1:100" into N.
@@ -77,8 +79,9 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
     let scale = parse_scale(&args.scale)?;
     let project = super::load_input(&args.file)?;
     let section = super::one_section(&project, &args.file, args.section.as_deref())?;
-    // Default rule parameters, as `aggrade interpret` uses without --params.
-    let interp = interpret(section, &RuleParams::default());
+    // The project's rule parameters (with --params laid over them), as `aggrade interpret` uses.
+    let params = args.rules.resolve(&project, &args.file)?;
+    let interp = interpret(section, &params);
     let when = creation_time()?;
     let meta = PrintMeta {
         printed_on: aggrade_core::export::civil_date(when),

@@ -2,9 +2,11 @@
 //! or one JSON object.
 
 use aggrade_core::analysis::bodies::censor_name;
-use aggrade_core::model::{LengthUnit, Section};
-use aggrade_core::rules::{interpret, GrainProfile, Interpretation, MaturitySign, Regime, RuleParams};
-use anyhow::{anyhow, bail, Context};
+use aggrade_core::model::{LengthUnit, Project, Section};
+use aggrade_core::rules::{
+    interpret_with, sensitivity, GrainProfile, Interpretation, MaturitySign, Regime, RuleParams,
+};
+use anyhow::{bail, Context};
 use std::fmt::Write as _;
 use std::io::Write as _;
 use std::path::{Path, PathBuf};
@@ -23,9 +25,15 @@ pub struct InterpretArgs {
     /// Height of the moving window of the channel-body proportion curve, metres (default 10).
     #[arg(long = "window-m", value_name = "METRES", allow_negative_numbers = true)]
     pub window_m: Option<f64>,
-    /// Rule parameters as a JSON object; fields left out keep their defaults.
-    #[arg(long, value_name = "FILE")]
-    pub params: Option<PathBuf>,
+    #[command(flatten)]
+    pub rules: super::rules_args::RulesArgs,
+    /// List every candidate boundary, also weak paleosol tops with no evidence beyond the soil.
+    #[arg(long)]
+    pub all_candidates: bool,
+    /// Re-run the rules over the documented ranges of the key thresholds and report how often
+    /// each candidate and each channel body comes out the same ("stability" in the JSON).
+    #[arg(long)]
+    pub sensitivity: bool,
 }
 
 /// Run `aggrade interpret`.
@@ -33,15 +41,16 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
     let project = super::load_input(&args.file)?;
     let section = super::one_section(&project, &args.file, args.section.as_deref())?;
     check_lengths(section, &args.file)?;
-    let params = rule_params(args)?;
-    let result = interpret(section, &params);
+    let params = rule_params(args, &project)?;
+    let mut result = interpret_with(section, &params, args.all_candidates);
+    let runs = if args.sensitivity { Some(sensitivity::annotate(section, &params, &mut result)) } else { None };
     let mut out = std::io::BufWriter::new(std::io::stdout().lock());
     if args.json {
         // Streamed: the JSON of a long section runs to tens of megabytes, never held in memory.
         serde_json::to_writer_pretty(&mut out, &result).context("writing the interpretation as JSON")?;
         out.write_all(b"\n").context("writing to standard output")?;
     } else {
-        out.write_all(report(section, &result, &params).as_bytes()).context("writing to standard output")?;
+        out.write_all(report(section, &result, &params, runs).as_bytes()).context("writing to standard output")?;
     }
     out.flush().context("writing to standard output")?;
     Ok(())
@@ -63,50 +72,18 @@ fn check_lengths(section: &Section, file: &Path) -> anyhow::Result<()> {
     Ok(())
 }
 
-/// Defaults, then the parameter file, then `--window-m`; every invalid value is reported.
-fn rule_params(args: &InterpretArgs) -> anyhow::Result<RuleParams> {
-    let mut params = match &args.params {
-        Some(path) => {
-            let text =
-                std::fs::read_to_string(path).with_context(|| format!("{}: cannot read", path.display()))?;
-            parse_params(&text, path)?
-        }
-        None => RuleParams::default(),
-    };
+/// The project's parameters, then the parameter file, then `--window-m`; every invalid value is
+/// reported.
+fn rule_params(args: &InterpretArgs, project: &Project) -> anyhow::Result<RuleParams> {
+    let mut params = args.rules.resolve(project, &args.file)?;
     if let Some(w) = args.window_m {
         params.window_m = w;
-    }
-    let problems = params.problems();
-    if !problems.is_empty() {
-        let source = match (&args.params, args.window_m) {
-            (Some(p), _) => format!(" (from {} and the command line)", p.display()),
-            (None, _) => " (--window-m sets window_m)".to_string(),
-        };
-        bail!("invalid rule parameters{source}: {}", problems.join("; "));
-    }
-    Ok(params)
-}
-
-/// Parse a parameter file, naming the field at fault (serde alone reports only line and column).
-fn parse_params(text: &str, path: &Path) -> anyhow::Result<RuleParams> {
-    let value: serde_json::Value = serde_json::from_str(text).map_err(|e| {
-        anyhow!(
-            "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters",
-            path.display(),
-            e.line(),
-            e.column()
-        )
-    })?;
-    let Some(fields) = value.as_object() else {
-        bail!("{}: valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}", path.display());
-    };
-    for (name, v) in fields {
-        let one = serde_json::Value::Object([(name.clone(), v.clone())].into_iter().collect());
-        if let Err(e) = serde_json::from_value::<RuleParams>(one) {
-            bail!("{}: field {name:?}, value {v}: {e}", path.display());
+        let problems = params.problems();
+        if !problems.is_empty() {
+            bail!("invalid rule parameters (--window-m sets window_m): {}", problems.join("; "));
         }
     }
-    serde_json::from_value(value).with_context(|| path.display().to_string())
+    Ok(params)
 }
 
 fn regime_name(r: Regime) -> &'static str {
@@ -136,7 +113,7 @@ fn fmt_proportion(p: Option<f64>) -> String {
 }
 
 /// The readable report: bodies, stacking, proportions, regimes, ranked candidates, the caution.
-pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> String {
+pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: Option<usize>) -> String {
     let mut s = String::new();
     // Writing to a String cannot fail; the results are ignored for that reason.
     let _ = writeln!(s, "Section {:?}: interpretation", r.section);
@@ -172,9 +149,12 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
         } else {
             String::new()
         };
+        let stable = sensitivity::stability_text(b.stability, b.flipped_by.as_ref())
+            .map(|t| format!("; {t}"))
+            .unwrap_or_default();
         let _ = writeln!(
             s,
-            "  {}. {:.2}–{:.2} m ({}): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}{censored}",
+            "  {}. {:.2}–{:.2} m ({}): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}{censored}{stable}",
             k + 1,
             b.base_m,
             b.top_m,
@@ -230,23 +210,41 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
         );
     }
 
-    let _ = writeln!(s, "\nChannel-body proportion by interval:");
+    let _ = writeln!(
+        s,
+        "\nChannel-body proportion by interval ({}):",
+        if r.cuts_are_accepted {
+            "between accepted boundaries"
+        } else if r.cut_heights.is_empty() {
+            "no accepted boundary and no strong candidate: the whole section"
+        } else {
+            "between strong candidates; none accepted yet"
+        }
+    );
     for iv in &r.interval_proportions {
         let _ = writeln!(s, "  {:.2}–{:.2} m: {}", iv.base_m, iv.top_m, fmt_proportion(iv.proportion));
     }
 
-    let _ = writeln!(s, "\nAccommodation regime:");
+    let _ = writeln!(s, "\nAccommodation regime (one call per interval above):");
     for a in &r.accommodation {
         let _ = writeln!(s, "  {:.2}–{:.2} m: {} — {}", a.base_m, a.top_m, regime_name(a.regime), a.why);
     }
 
     let _ = writeln!(
         s,
-        "\nCandidate sequence boundaries, highest score first ({}):",
+        "\nCandidate sequence boundaries, strongest first ({}):",
         r.sequence_boundary_candidates.len()
     );
     if r.sequence_boundary_candidates.is_empty() {
         let _ = writeln!(s, "  none");
+    }
+    if r.unlisted_candidates > 0 {
+        let _ = writeln!(
+            s,
+            "  ({} weak paleosol top{} with no other evidence not listed; --all-candidates lists them)",
+            r.unlisted_candidates,
+            if r.unlisted_candidates == 1 { "" } else { "s" }
+        );
     }
     for (k, c) in r.sequence_boundary_candidates.iter().enumerate() {
         let review = match c.review {
@@ -254,14 +252,15 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
             aggrade_core::model::ReviewState::Accepted => "accepted",
             aggrade_core::model::ReviewState::Rejected => "rejected",
         };
-        let _ = writeln!(
-            s,
-            "  {}. {:.2} m, score {:.2}, {}, {review}",
-            k + 1,
-            c.height_m,
-            c.score,
-            c.kind.name()
-        );
+        let named = match (&c.label, &c.surface_name) {
+            (Some(l), _) => format!(" \"{l}\""),
+            (None, Some(n)) => format!(" \"{n}\""),
+            _ => String::new(),
+        };
+        let _ = writeln!(s, "  {}. {:.2} m{named}, {}, {}, {review}", k + 1, c.height_m, c.strength.name(), c.kind.name());
+        if let Some(t) = sensitivity::stability_text(c.stability, c.flipped_by.as_ref()) {
+            let _ = writeln!(s, "     {t}");
+        }
         for e in &c.evidence {
             let _ = writeln!(s, "     - {e}");
         }
@@ -276,6 +275,14 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams) -> Str
         params.curve_step_m,
         params.window_m
     );
+    if let Some(n) = runs {
+        let _ = writeln!(
+            s,
+            "Sensitivity: {n} runs, one key threshold moved at a time over its documented range \
+             (docs/interpretation-rules.md); \"stable\" counts the runs with the same outcome."
+        );
+    }
+    let _ = writeln!(s, "Interpreted with {}.", params.summary());
     let _ = writeln!(s, "\n{}", r.caution);
     s
 }

@@ -9,6 +9,7 @@ pub mod import;
 pub mod interpret;
 pub mod link;
 pub mod panel;
+pub mod rules_args;
 pub mod stats;
 
 use aggrade_core::model::{Project, Section};

@@ -4,7 +4,7 @@ use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{
     panel_layout, Datum, LayoutOptions, Orientation, PanelError, PanelOptions, Paper, PrintMeta,
 };
-use aggrade_core::rules::{interpret, Interpretation, RuleParams};
+use aggrade_core::rules::{interpret, Interpretation};
 use anyhow::{anyhow, bail, Context};
 use std::path::PathBuf;
 
@@ -42,6 +42,8 @@ pub struct PanelArgs {
     /// Date printed in the header, e.g. 2026-12-01 (none by default, for reproducible output).
     #[arg(long = "printed-on", value_name = "DATE")]
     pub printed_on: Option<String>,
+    #[command(flatten)]
+    pub rules: super::rules_args::RulesArgs,
 }
 
 /// PDF creation date: `SOURCE_DATE_EPOCH` when set (reproducible-builds convention), else a fixed
@@ -66,7 +68,7 @@ pub fn run(args: &PanelArgs) -> anyhow::Result<()> {
     let paper = Paper::parse(&args.paper)
         .ok_or_else(|| anyhow!("--paper {:?}: valid are a4, a3, letter, tall", args.paper))?;
     let project = &super::load_input(&args.file)?;
-    let params = RuleParams::default();
+    let params = args.rules.resolve(&project, &args.file)?;
     let interps: Vec<Interpretation> = project.sections.iter().map(|s| interpret(s, &params)).collect();
     let opts = PanelOptions {
         datum: Datum::parse(&args.datum),

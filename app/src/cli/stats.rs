@@ -1,5 +1,6 @@
 //! `aggrade stats`: paleocurrent statistics and facies-transition analysis per section, and per
-//! interval between accepted sequence boundaries.
+//! interval between sequence boundaries: accepted ones, or where none is accepted yet, the strong
+//! candidates of the rules run with the project's parameters (`--params` overrides).
 
 use aggrade_core::analysis::markov::{
     analyse_sequence, lithology_sequence, TransitionAnalysis, TransitionParams,
@@ -35,6 +36,8 @@ pub struct StatsArgs {
     /// Rose-diagram bin width in degrees (must divide 360).
     #[arg(long, default_value_t = 30.0)]
     pub bin_width: f64,
+    #[command(flatten)]
+    pub rules: super::rules_args::RulesArgs,
 }
 
 /// The states of the facies-transition analysis.
@@ -99,19 +102,33 @@ fn stretch(
 /// Heights of accepted boundaries, section base and top included, ascending.
 pub fn interval_bounds(section: &Section) -> Vec<f64> {
     let bases = section.base_heights_m();
-    let mut cuts: Vec<f64> = section
+    let cuts: Vec<f64> = section
         .review
         .iter()
         .filter(|d| d.state == ReviewState::Accepted)
         .filter_map(|d| section.bed_index(d.bed).map(|i| bases[i]))
-        .filter(|h| *h > 0.0)
         .collect();
+    bounds_from_cuts(section.total_thickness_m(), &cuts)
+}
+
+/// Cut heights inside the section, with its base and top, ascending and each once.
+pub fn bounds_from_cuts(total_m: f64, cuts_m: &[f64]) -> Vec<f64> {
+    let mut cuts: Vec<f64> = cuts_m.iter().copied().filter(|h| *h > 0.0 && *h < total_m).collect();
     cuts.sort_by(f64::total_cmp);
     cuts.dedup();
     let mut bounds = vec![0.0];
     bounds.extend(cuts);
-    bounds.push(section.total_thickness_m());
+    bounds.push(total_m);
     bounds
+}
+
+/// What the intervals are between, in words.
+pub fn cuts_text(cuts_are_accepted: bool) -> &'static str {
+    if cuts_are_accepted {
+        "between accepted sequence boundaries"
+    } else {
+        "between strong candidate sequence boundaries; none accepted yet"
+    }
 }
 
 fn paleocurrents_json(s: &Stretch, args: &StatsArgs, kind: DataKind) -> Value {
@@ -335,11 +352,13 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
             args.bin_width
         );
     }
+    let rules = args.rules.resolve(&project, &args.file)?;
     let mut values = Vec::new();
     let mut out = String::new();
     for s in &sections {
         let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params, args.states);
-        let bounds = interval_bounds(s);
+        let interp = aggrade_core::rules::interpret(s, &rules);
+        let bounds = bounds_from_cuts(s.total_thickness_m(), &interp.cut_heights);
         let intervals: Vec<Stretch> = if bounds.len() > 2 {
             bounds
                 .windows(2)
@@ -358,6 +377,8 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
         if args.json {
             let mut v = section_json(s, &whole, &intervals, args, kind);
             v["top"] = json!(s.total_thickness_m());
+            v["intervals_between"] =
+                json!(if interp.cuts_are_accepted { "accepted boundaries" } else { "strong candidates" });
             values.push(v);
         } else {
             writeln!(
@@ -387,11 +408,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 )?;
             }
             for st in &intervals {
-                writeln!(
-                    out,
-                    "Interval {:.2}–{:.2} m (between accepted sequence boundaries)",
-                    st.base_m, st.top_m
-                )?;
+                writeln!(out, "Interval {:.2}–{:.2} m ({})", st.base_m, st.top_m, cuts_text(interp.cuts_are_accepted))?;
                 print_stretch(&mut out, st)?;
             }
             writeln!(out)?;
@@ -399,9 +416,11 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
     }
     if args.json {
         let mut v = if values.len() == 1 { values.remove(0) } else { json!({ "sections": values }) };
+        v["rules"] = json!(rules.summary());
         v["caution"] = json!(aggrade_core::REVIEW_CAUTION);
         writeln!(out, "{}", serde_json::to_string_pretty(&v)?)?;
     } else {
+        writeln!(out, "Interpreted with {}.", rules.summary())?;
         writeln!(out, "{}", aggrade_core::REVIEW_CAUTION)?;
     }
     emit_stdout(&out)

@@ -12,4 +12,5 @@ mod interpret;
 mod kill_during_save;
 mod link;
 mod panel;
+mod rules_params;
 mod stats;

@@ -6,6 +6,8 @@
 //! | --- | --- |
 //! | most bodies multi-story (amalgamated) | several single-story bodies, most bodies isolated |
 //! | channel-body proportion ≥ `low_min_proportion` + margin | proportion ≤ `high_max_proportion` − margin |
+//!
+//! (the proportion gives a sign only where the stretch holds a channel body)
 //! | most paleosols mature and well drained | most paleosols immature or poorly drained |
 //!
 //! Stacking and proportion after Allen (1978), Bridge & Leeder (1979) and Shanley & McCabe
@@ -53,13 +55,14 @@ fn call(
     let multi = bodies.iter().filter(|b| b.stacking == Stacking::MultiStory).count();
     let single = bodies.iter().filter(|b| b.stacking == Stacking::SingleStory).count();
     let told = multi + single;
+    let partly_seen = bodies.len() - told;
     if told == 0 && !bodies.is_empty() {
         reasons.push(Undetermined::PartlySeenBodies { bodies: bodies.len() });
     } else if multi * 2 > told {
-        low.push(RegimeSign::Amalgamated { multi, bodies: told });
+        low.push(RegimeSign::Amalgamated { multi, bodies: told, partly_seen });
     } else if single * 2 > told {
         if single >= params.high_min_isolated_bodies {
-            high.push(RegimeSign::Isolated { single, bodies: told });
+            high.push(RegimeSign::Isolated { single, bodies: told, partly_seen });
         } else {
             reasons.push(Undetermined::TooFewIsolated {
                 bodies: single,
@@ -68,8 +71,11 @@ fn call(
         }
     }
 
-    // Channel-body proportion, with a margin around each threshold.
-    if exposed_m > 0.0 {
+    // Channel-body proportion, with a margin around each threshold; a stretch of floodplain
+    // alone says nothing about how channel bodies stack.
+    if bodies.is_empty() {
+        reasons.push(Undetermined::NoChannelBody { base_m, top_m });
+    } else if exposed_m > 0.0 {
         let p = channel_m / exposed_m;
         let margin = params.regime_margin;
         let (lo, hi) = (params.low_min_proportion, params.high_max_proportion);

@@ -244,9 +244,11 @@ pub fn candidates(
 
 /// The strength class and ordering score of a candidate from its evidence items.
 ///
-/// - `strong`: two or more independent kinds, or a very strongly developed, well-drained
-///   interfluve paleosol on its own (the interfluve expression of a sequence boundary: McCarthy
-///   & Plint 1998; Wright & Marriott 1993);
+/// - `strong`: two or more independent kinds, or a very strongly developed interfluve paleosol
+///   on its own (the interfluve expression of a sequence boundary: McCarthy & Plint 1998; Wright
+///   & Marriott 1993). Drainage does not weaken it: interfluve profiles are often gleyed near
+///   their top as the water table rose over them afterwards (McCarthy & Plint 1998; from
+///   memory); drainage weighs in the regimes instead;
 /// - `moderate`: one kind;
 /// - `weak`: none (a channel base or paleosol top and nothing more).
 ///

@@ -213,6 +213,8 @@ pub enum Undetermined {
     NoThickness,
     /// Too much of the stretch is covered.
     MostlyCovered { percent: f64, base_m: f64, top_m: f64 },
+    /// No channel body in the stretch: its proportion gives no sign.
+    NoChannelBody { base_m: f64, top_m: f64 },
     /// Fewer signs than a call needs.
     TooFewSigns { signs: usize, needed: usize },
     /// Signs point both ways in equal number.
@@ -233,6 +235,10 @@ impl fmt::Display for Undetermined {
             MostlyCovered { percent, base_m, top_m } => {
                 write!(f, "mostly covered ({percent}% of {base_m:.2}–{top_m:.2} m)")
             }
+            NoChannelBody { base_m, top_m } => write!(
+                f,
+                "no channel body between {base_m:.2} and {top_m:.2} m (its channel-body proportion gives no sign)"
+            ),
             TooFewSigns { signs, needed } => {
                 write!(f, "{signs} sign{} found, a call needs {needed}", if *signs == 1 { "" } else { "s" })
             }
@@ -259,9 +265,9 @@ impl fmt::Display for Undetermined {
 #[derive(Debug, Clone, PartialEq)]
 pub enum RegimeSign {
     /// Low: most bodies multi-story (amalgamated).
-    Amalgamated { multi: usize, bodies: usize },
+    Amalgamated { multi: usize, bodies: usize, partly_seen: usize },
     /// High: single-story bodies isolated in fines, several of them.
-    Isolated { single: usize, bodies: usize },
+    Isolated { single: usize, bodies: usize, partly_seen: usize },
     /// Low: a high channel-body proportion.
     SandRich { proportion: f64, min: f64 },
     /// High: a low channel-body proportion.
@@ -276,12 +282,14 @@ impl fmt::Display for RegimeSign {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         use RegimeSign::*;
         match self {
-            Amalgamated { multi, bodies } => {
-                write!(f, "{multi} of {bodies} channel bodies multi-story (amalgamated)")
+            Amalgamated { multi, bodies, partly_seen } => {
+                write!(f, "{multi} of {bodies} channel bodies multi-story (amalgamated){}", PartlySeen(*partly_seen))
             }
-            Isolated { single, bodies } => {
-                write!(f, "{single} of {bodies} channel bodies single-story, isolated in floodplain fines")
-            }
+            Isolated { single, bodies, partly_seen } => write!(
+                f,
+                "{single} of {bodies} channel bodies single-story, isolated in floodplain fines{}",
+                PartlySeen(*partly_seen)
+            ),
             SandRich { proportion, min } => write!(f, "channel-body proportion {proportion:.2} (≥ {min:.2})"),
             MudRich { proportion, max } => write!(f, "channel-body proportion {proportion:.2} (≤ {max:.2})"),
             MatureSoils { mature, profiles } => {
@@ -290,6 +298,18 @@ impl fmt::Display for RegimeSign {
             ImmatureOrWetSoils { count, profiles } => {
                 write!(f, "{count} of {profiles} paleosols immature or poorly drained")
             }
+        }
+    }
+}
+
+/// " (2 more seen only in part)", or nothing.
+struct PartlySeen(usize);
+
+impl fmt::Display for PartlySeen {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self.0 {
+            0 => Ok(()),
+            n => write!(f, " ({n} more seen only in part)"),
         }
     }
 }
@@ -373,7 +393,7 @@ mod tests {
     #[test]
     fn regime_reasons_read_in_order() {
         let why = RegimeWhy::Undetermined {
-            signs: vec![RegimeSign::Amalgamated { multi: 2, bodies: 2 }],
+            signs: vec![RegimeSign::Amalgamated { multi: 2, bodies: 2, partly_seen: 0 }],
             reasons: vec![
                 Undetermined::NearThreshold { proportion: 0.52, threshold: 0.5, margin: 0.05 },
                 Undetermined::TooFewSigns { signs: 1, needed: 2 },

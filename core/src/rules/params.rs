@@ -274,9 +274,10 @@ impl RuleParams {
                 Ok(_) => {
                     kept.insert(name.clone(), v.clone());
                 }
-                Err(e) if e.to_string().starts_with("unknown field") => problems.push(format!(
-                    "{name}: not a rule parameter; valid names are listed in docs/interpretation-rules.md"
-                )),
+                Err(e) if e.to_string().starts_with("unknown field") => problems.push(match nearest_name(name) {
+                    Some(near) => format!("{name}: not a rule parameter; did you mean {near}?"),
+                    None => format!("{name}: not a rule parameter (see docs/interpretation-rules.md for the names)"),
+                }),
                 Err(e) => problems.push(format!("{name}: got {}; {e}", short_json(v))),
             }
         }
@@ -322,6 +323,29 @@ impl RuleParams {
     }
 }
 
+/// The parameter name closest to a misspelt one (at most 3 edits away), for messages.
+fn nearest_name(name: &str) -> Option<String> {
+    let serde_json::Value::Object(all) = serde_json::to_value(RuleParams::default()).ok()? else {
+        return None;
+    };
+    let distance = |a: &str, b: &str| {
+        // Levenshtein distance, one row at a time.
+        let b: Vec<char> = b.chars().collect();
+        let mut row: Vec<usize> = (0..=b.len()).collect();
+        for (i, ca) in a.chars().enumerate() {
+            let mut prev = row[0];
+            row[0] = i + 1;
+            for (j, cb) in b.iter().enumerate() {
+                let cur = row[j + 1];
+                row[j + 1] = (prev + usize::from(ca != *cb)).min(row[j] + 1).min(cur + 1);
+                prev = cur;
+            }
+        }
+        row[b.len()]
+    };
+    all.keys().map(|k| (distance(name, k), k)).filter(|(d, _)| *d <= 3).min().map(|(_, k)| k.clone())
+}
+
 /// A JSON value in at most 40 characters, for messages.
 fn short_json(v: &serde_json::Value) -> String {
     let text = match v {
@@ -359,7 +383,7 @@ mod tests {
         .expect_err("refused");
         assert_eq!(errs.len(), 2, "{errs:?}");
         assert!(errs[0].starts_with("lag_limit_m: got x;"), "{errs:?}");
-        assert!(errs[1].starts_with("windw_m: not a rule parameter"), "{errs:?}");
+        assert_eq!(errs[1], "windw_m: not a rule parameter; did you mean window_m?");
         let errs = RuleParams::from_partial(&serde_json::json!({"drape_limit_m": -1})).expect_err("range");
         assert!(errs[0].starts_with("drape_limit_m: got -1"), "{errs:?}");
         assert!(RuleParams::from_partial(&serde_json::json!([1])).is_err());
