@@ -1,5 +1,6 @@
 //! Benchmark: interpreting a generated 10,000-bed section (target: well under 10 ms), and the
-//! same rules on 1,000 / 10,000 / 100,000 beds to read off how the time grows.
+//! same rules on 1,000 / 10,000 / 100,000 beds to read off how the time grows, and the
+//! sensitivity check (every parameter variant) on 500 beds.
 //!
 //! `AGGRADE_BENCH_WRITE=FILE cargo bench --workspace --bench interpret` also writes the
 //! generated section as a project file, for timing the whole `aggrade interpret --json` process.
@@ -7,7 +8,7 @@
 use aggrade_core::model::{
     Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, Project, Section, WentworthClass,
 };
-use aggrade_core::rules::{interpret, RuleParams};
+use aggrade_core::rules::{interpret, sensitivity, RuleParams};
 use criterion::{black_box, criterion_group, criterion_main, BenchmarkId, Criterion};
 
 /// A deterministic section of `n` beds mixing channel storeys, drapes, overbank fines, splays,
@@ -83,5 +84,20 @@ fn bench_interpret(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench_interpret);
+/// The sensitivity check behind the review list's "Check stability" button: the rules re-run
+/// over every documented parameter variant of a 500-bed section (target: one click, well under
+/// 100 ms).
+fn bench_sensitivity(c: &mut Criterion) {
+    let section = generated_section(500);
+    let params = RuleParams::default();
+    let base = interpret(&section, &params);
+    c.bench_function("sensitivity 500 beds", |b| {
+        b.iter(|| {
+            let mut r = base.clone();
+            sensitivity::annotate(black_box(&section), black_box(&params), &mut r)
+        })
+    });
+}
+
+criterion_group!(benches, bench_interpret, bench_sensitivity);
 criterion_main!(benches);

@@ -50,15 +50,29 @@ fn an_interfluve_soil_and_a_facies_shift_outrank_ordinary_meander_belt_bases() {
     let c = &r.sequence_boundary_candidates;
     let ranked: Vec<(f64, Strength, f64)> = c.iter().map(|c| (c.height_m, c.strength, c.score)).collect();
     assert_eq!(ranked.len(), 5, "{ranked:?}");
-    assert!(close(ranked[0].0, 17.0) && ranked[0].1 == Strength::Strong && close(ranked[0].2, 0.3), "{ranked:?}");
-    assert!(close(ranked[1].0, 27.0) && ranked[1].1 == Strength::Moderate && close(ranked[1].2, 0.25), "{ranked:?}");
+    assert!(
+        close(ranked[0].0, 17.0) && ranked[0].1 == Strength::Strong && close(ranked[0].2, 0.3),
+        "{ranked:?}"
+    );
+    assert!(
+        close(ranked[1].0, 27.0) && ranked[1].1 == Strength::Moderate && close(ranked[1].2, 0.25),
+        "{ranked:?}"
+    );
     let ordinary: Vec<f64> = ranked[2..].iter().map(|r| r.0).collect();
     assert_eq!(ordinary, [4.0, 11.0, 21.0], "{ranked:?}");
     assert!(ranked[2..].iter().all(|r| r.1 == Strength::Weak && r.2 == 0.0), "{ranked:?}");
     // The facies shift is said in words with the window actually used.
     let shift = c[1].evidence.iter().map(ToString::to_string).collect::<Vec<_>>().join(" | ");
-    assert!(shift.contains("2 Wentworth classes coarser than the coarsest of the 1 channel fill in the 10 m below"), "{shift}");
-    assert_eq!(c[1].evidence.iter().filter(|e| e.kind() == Some(EvidenceKind::BasinwardFaciesShift)).count(), 2);
+    assert!(
+        shift.contains(
+            "2 Wentworth classes coarser than the coarsest of the 1 channel fill in the 10 m below"
+        ),
+        "{shift}"
+    );
+    assert_eq!(
+        c[1].evidence.iter().filter(|e| e.kind() == Some(EvidenceKind::BasinwardFaciesShift)).count(),
+        2
+    );
     // The strong interfluve soil cuts the proportion intervals (the first rules could not reach
     // the cutting score with a soil alone).
     assert_eq!(r.cut_heights, [17.0]);
@@ -85,7 +99,8 @@ fn a_surface_just_below_a_thick_body_does_not_inherit_its_proportion_rise() {
     ";
     let p = RuleParams { boundary_window_m: 20.0, ..RuleParams::default() };
     let r = interpret(&section("Below", spec), &p);
-    let at = |h: f64| r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, h)).expect("candidate");
+    let at =
+        |h: f64| r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, h)).expect("candidate");
     let low = at(10.0);
     assert_eq!(low.strength, Strength::Weak, "{low:?}");
     assert!(low.evidence.iter().all(|e| e.kind().is_none()), "{:?}", low.evidence);
@@ -113,9 +128,13 @@ fn a_regime_stretch_ends_at_an_accepted_boundary_and_keeps_a_margin() {
     let r = interpret(&s, &RuleParams::default());
     assert_eq!(r.cut_heights, [27.0]);
     assert!(r.cuts_are_accepted);
-    let regimes: Vec<(f64, f64, Regime)> = r.accommodation.iter().map(|a| (a.base_m, a.top_m, a.regime)).collect();
+    let regimes: Vec<(f64, f64, Regime)> =
+        r.accommodation.iter().map(|a| (a.base_m, a.top_m, a.regime)).collect();
     assert_eq!(regimes, [(0.0, 27.0, Regime::High), (27.0, 35.0, Regime::Undetermined)]);
-    assert!(r.accommodation.iter().all(|a| !(a.base_m < 27.0 && a.top_m > 27.0)), "no stretch straddles 27 m");
+    assert!(
+        r.accommodation.iter().all(|a| !(a.base_m < 27.0 && a.top_m > 27.0)),
+        "no stretch straddles 27 m"
+    );
     let why = r.accommodation[0].why.to_string();
     assert!(why.contains("against: 1 of 1 paleosols mature and well drained"), "{why}");
     let why = r.accommodation[1].why.to_string();
@@ -142,7 +161,9 @@ fn gleyed_immature_soils_weigh_for_high_accommodation() {
     let r = interpret(&section("Wet", wet), &RuleParams::default());
     assert_eq!(r.accommodation[0].regime, Regime::High);
     assert!(r.accommodation[0].why.to_string().contains("2 of 2 paleosols immature or poorly drained"));
-    let dry = wet.replace("paleosol=weak soil:gleying", "paleosol=very_strong").replace("paleosol=weak soil:mottling", "paleosol=very_strong");
+    let dry = wet
+        .replace("paleosol=weak soil:gleying", "paleosol=very_strong")
+        .replace("paleosol=weak soil:mottling", "paleosol=very_strong");
     let r = interpret(&section("Dry", &dry), &RuleParams::default());
     let why = r.accommodation.iter().map(|a| a.why.to_string()).collect::<Vec<_>>().join(" / ");
     assert!(why.contains("paleosols mature and well drained"), "{why}");
@@ -170,13 +191,17 @@ fn a_knife_edge_pick_is_reported_unstable_and_names_its_parameter() {
     let mut r = interpret(&s, &p);
     let runs = annotate(&s, &p, &mut r);
     assert_eq!(runs, 38);
-    let at = |h: f64| r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, h)).expect("candidate");
+    let at =
+        |h: f64| r.sequence_boundary_candidates.iter().find(|c| close(c.height_m, h)).expect("candidate");
     let edge = at(5.0);
     assert_eq!(edge.strength, Strength::Moderate);
     assert!(close(edge.stability.expect("stability"), 36.0 / 38.0), "{edge:?}");
     let flip = edge.flipped_by.as_ref().expect("the flipping parameter");
     assert_eq!((flip.parameter.as_str(), flip.value), ("relief_limit_m", 3.75));
     let soil = at(13.0);
-    assert_eq!((soil.strength, soil.stability, soil.flipped_by.as_ref()), (Strength::Strong, Some(1.0), None));
+    assert_eq!(
+        (soil.strength, soil.stability, soil.flipped_by.as_ref()),
+        (Strength::Strong, Some(1.0), None)
+    );
     assert!(r.channel_bodies.iter().all(|b| b.stability.is_some_and(|s| (0.0..=1.0).contains(&s))));
 }

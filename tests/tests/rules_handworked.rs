@@ -7,8 +7,8 @@ use aggrade_core::model::{
     Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind,
 };
 use aggrade_core::rules::{
-    interpret, CandidateKind, Element, EvidenceKind, FluvialStyle, Interpretation, Regime, RuleParams, Stacking,
-    Strength,
+    interpret, CandidateKind, Element, EvidenceKind, FluvialStyle, Interpretation, Regime, RuleParams,
+    Stacking, Strength,
 };
 
 /// A section from lines `THICKNESS LITHOLOGY GRAIN[>GRAIN_TOP] [CONTACT] [paleosol=DEV] [relief=R]
@@ -692,7 +692,10 @@ fn bodies_cut_by_the_section_or_a_cover_are_censored() {
     // seen only in part, which give no stacking sign.
     assert_eq!(r.accommodation[0].regime, Regime::Low);
     assert!(
-        r.accommodation[0].why.to_string().contains("1 of 1 channel bodies multi-story (amalgamated) (2 more seen only in part)"),
+        r.accommodation[0]
+            .why
+            .to_string()
+            .contains("1 of 1 channel bodies multi-story (amalgamated) (2 more seen only in part)"),
         "{}",
         r.accommodation[0].why
     );

@@ -43,14 +43,16 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
     check_lengths(section, &args.file)?;
     let params = rule_params(args, &project)?;
     let mut result = interpret_with(section, &params, args.all_candidates);
-    let runs = if args.sensitivity { Some(sensitivity::annotate(section, &params, &mut result)) } else { None };
+    let runs =
+        if args.sensitivity { Some(sensitivity::annotate(section, &params, &mut result)) } else { None };
     let mut out = std::io::BufWriter::new(std::io::stdout().lock());
     if args.json {
         // Streamed: the JSON of a long section runs to tens of megabytes, never held in memory.
         serde_json::to_writer_pretty(&mut out, &result).context("writing the interpretation as JSON")?;
         out.write_all(b"\n").context("writing to standard output")?;
     } else {
-        out.write_all(report(section, &result, &params, runs).as_bytes()).context("writing to standard output")?;
+        out.write_all(report(section, &result, &params, runs).as_bytes())
+            .context("writing to standard output")?;
     }
     out.flush().context("writing to standard output")?;
     Ok(())
@@ -257,7 +259,14 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
             (None, Some(n)) => format!(" \"{n}\""),
             _ => String::new(),
         };
-        let _ = writeln!(s, "  {}. {:.2} m{named}, {}, {}, {review}", k + 1, c.height_m, c.strength.name(), c.kind.name());
+        let _ = writeln!(
+            s,
+            "  {}. {:.2} m{named}, {}, {}, {review}",
+            k + 1,
+            c.height_m,
+            c.strength.name(),
+            c.kind.name()
+        );
         if let Some(t) = sensitivity::stability_text(c.stability, c.flipped_by.as_ref()) {
             let _ = writeln!(s, "     {t}");
         }

@@ -68,7 +68,7 @@ pub fn run(args: &PanelArgs) -> anyhow::Result<()> {
     let paper = Paper::parse(&args.paper)
         .ok_or_else(|| anyhow!("--paper {:?}: valid are a4, a3, letter, tall", args.paper))?;
     let project = &super::load_input(&args.file)?;
-    let params = args.rules.resolve(&project, &args.file)?;
+    let params = args.rules.resolve(project, &args.file)?;
     let interps: Vec<Interpretation> = project.sections.iter().map(|s| interpret(s, &params)).collect();
     let opts = PanelOptions {
         datum: Datum::parse(&args.datum),

@@ -28,7 +28,8 @@ impl RulesArgs {
         let Some(path) = &self.params else {
             return Ok(from_project.params);
         };
-        let text = std::fs::read_to_string(path).with_context(|| format!("{}: cannot read", path.display()))?;
+        let text =
+            std::fs::read_to_string(path).with_context(|| format!("{}: cannot read", path.display()))?;
         let value: serde_json::Value = serde_json::from_str(&text).map_err(|e| {
             anyhow!(
                 "{}: line {}, column {}: {e}; valid is a JSON object of rule parameters",

@@ -408,7 +408,13 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 )?;
             }
             for st in &intervals {
-                writeln!(out, "Interval {:.2}–{:.2} m ({})", st.base_m, st.top_m, cuts_text(interp.cuts_are_accepted))?;
+                writeln!(
+                    out,
+                    "Interval {:.2}–{:.2} m ({})",
+                    st.base_m,
+                    st.top_m,
+                    cuts_text(interp.cuts_are_accepted)
+                )?;
                 print_stretch(&mut out, st)?;
             }
             writeln!(out)?;

@@ -14,6 +14,8 @@ pub struct Actions {
     pub end_gesture: bool,
     /// Scroll the canvas so this height (m) is in view.
     pub scroll_to_height_m: Option<f64>,
+    /// Run the stability check on the selected section.
+    pub check_stability: bool,
 }
 
 impl Actions {

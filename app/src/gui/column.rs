@@ -15,8 +15,9 @@ use std::sync::Arc;
 /// rules take well under a millisecond, are brought up to date within the frame.
 pub const BACKGROUND_RULES_MIN_BEDS: usize = 2_000;
 
-/// What an interpretation was computed from: document revision, section, rule parameters.
-type RulesKey = (u64, usize, RuleParams);
+/// What an interpretation was computed from: document revision, section, rule parameters, and
+/// whether every candidate boundary was listed.
+type RulesKey = (u64, usize, RuleParams, bool);
 
 /// Rules and layout running on a worker thread for one state of the document.
 struct Refreshing {
@@ -27,7 +28,7 @@ struct Refreshing {
 /// The interpretation of the selected section and its laid-out column, with what they were
 /// computed from.
 pub struct Cache {
-    /// What the interpretation was computed from: document revision, section, rule parameters.
+    /// What the interpretation was computed from (see [`RulesKey`]).
     rules_key: RulesKey,
     pub interp: Interpretation,
     /// What the strip was laid out from, besides the interpretation.
@@ -98,7 +99,10 @@ pub struct Column {
 /// What the column is computed from this frame.
 pub struct Inputs<'a> {
     pub doc: &'a Document,
+    /// The project's rule parameters (the defaults when they are faulty).
     pub params: &'a RuleParams,
+    /// List every candidate boundary, weak paleosol tops with no evidence too.
+    pub all_candidates: bool,
     pub layout: &'a LayoutOptions,
     /// The heights in the canvas's view (strip y, mm), once known.
     pub view_y_mm: Option<(f64, f64)>,
@@ -145,7 +149,7 @@ impl Column {
     pub fn refresh(&mut self, inputs: &Inputs<'_>) {
         self.collect_worker(false);
         let doc = inputs.doc;
-        let rules_key = (doc.revision, doc.selected_section, inputs.params.clone());
+        let rules_key = (doc.revision, doc.selected_section, inputs.params.clone(), inputs.all_candidates);
         let view = inputs.view_y_mm;
         let section = doc.section();
         let total_m = section.total_thickness_m();
@@ -169,7 +173,7 @@ impl Column {
             }
             old => {
                 let w = old.as_ref().and_then(|c| c.window_for(view, total_m));
-                (engine::interpret(section, inputs.params), w)
+                (engine::interpret_with(section, inputs.params, inputs.all_candidates), w)
             }
         };
         self.cache = Some(Cache::build(section, interp, rules_key, inputs.layout, window_m));
@@ -186,13 +190,13 @@ impl Column {
         // than changing this one), so nothing is copied for it.
         let project = Arc::clone(&inputs.doc.project);
         let selected = inputs.doc.selected_section.min(project.sections.len().saturating_sub(1));
-        let (params, layout) = (inputs.params.clone(), inputs.layout.clone());
+        let (params, layout, all) = (inputs.params.clone(), inputs.layout.clone(), inputs.all_candidates);
         let (tx, rx) = std::sync::mpsc::channel();
         let key = rules_key.clone();
         let waker = self.waker.clone();
         let spawned = std::thread::Builder::new().name("aggrade-rules".into()).spawn(move || {
             let Some(section) = project.sections.get(selected) else { return };
-            let interp = engine::interpret(section, &params);
+            let interp = engine::interpret_with(section, &params, all);
             // The window may have moved on to another document; then nobody listens.
             let _ = tx.send(Cache::build(section, interp, key, &layout, window_m));
             if let Some(wake) = waker {
@@ -202,7 +206,7 @@ impl Column {
         // No thread to be had (the system is out of them): bring it up to date in the frame.
         if spawned.is_err() {
             let section = inputs.doc.section();
-            let interp = engine::interpret(section, inputs.params);
+            let interp = engine::interpret_with(section, inputs.params, inputs.all_candidates);
             self.cache = Some(Cache::build(section, interp, rules_key, inputs.layout, window_m));
             return;
         }
@@ -260,7 +264,7 @@ mod tests {
     use aggrade_core::model::Project;
 
     fn inputs<'a>(doc: &'a Document, params: &'a RuleParams, layout: &'a LayoutOptions) -> Inputs<'a> {
-        Inputs { doc, params, layout, view_y_mm: None }
+        Inputs { doc, params, all_candidates: false, layout, view_y_mm: None }
     }
 
     fn thicken_first_bed(doc: &mut Document) {

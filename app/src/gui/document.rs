@@ -49,6 +49,9 @@ pub enum Edit {
     SetTrace { trace: Option<aggrade_core::trace::TraceSheet> },
     /// A tracing click on a bed boundary: cut the bed at this height (metres), or add a bed on top.
     TraceBoundary { height_m: f64 },
+    /// Set the project's rule parameters: the fields that differ from the defaults
+    /// (`RuleParams::changed`), as the project file stores them; empty for the default rules.
+    SetRuleParams { params: serde_json::Map<String, serde_json::Value> },
 }
 
 /// Why an edit was refused; shown to the user as is.
@@ -501,6 +504,12 @@ impl Work {
                     aggrade_core::trace::Cut::OnTop { bed } => bed,
                 });
             }
+            Edit::SetRuleParams { params } => {
+                // Checked as the project file's reader checks them, so that the project opens again.
+                aggrade_core::rules::RuleParams::from_partial(&serde_json::Value::Object(params.clone()))
+                    .map_err(|faults| EditError(format!("rule parameters refused: {}", faults.join("; "))))?;
+                self.project.rule_params = params;
+            }
         }
         Ok(())
     }
@@ -659,6 +668,25 @@ mod tests {
         assert!(d.undo());
         assert!(d.undo());
         assert!(d.section().curves.is_empty());
+    }
+
+    #[test]
+    fn rule_parameters_are_the_projects_undoable_and_checked() {
+        use aggrade_core::rules::RuleParams;
+        let mut d = doc_with_beds(2);
+        let wider = RuleParams { window_m: 20.0, ..RuleParams::default() }.changed();
+        d.apply(Edit::SetRuleParams { params: wider.clone() }).expect("valid parameters");
+        assert_eq!(d.project.rule_params, wider);
+        assert_eq!(RuleParams::of_project(&d.project).map(|p| p.window_m), Ok(20.0));
+        let bad: serde_json::Map<String, serde_json::Value> =
+            [("window_m".to_string(), serde_json::json!(0.0))].into_iter().collect();
+        let e = d.apply(Edit::SetRuleParams { params: bad }).expect_err("a window of 0 m");
+        assert!(e.0.contains("window_m: got 0"), "{e}");
+        assert_eq!(d.project.rule_params, wider, "a refused edit changes nothing");
+        assert!(d.undo());
+        assert!(d.project.rule_params.is_empty(), "undo restores the default rules");
+        assert!(d.redo());
+        assert_eq!(d.project.rule_params, wider);
     }
 
     #[test]

@@ -27,6 +27,7 @@ mod painter;
 mod plots;
 mod recovery;
 mod review;
+mod stability;
 mod table;
 mod theme;
 mod trace;
@@ -115,7 +116,12 @@ pub fn headless_fallback(file: Option<&Path>, out: &Path) -> anyhow::Result<()> 
         },
     };
     let section = project.sections.first().context("the project holds no section")?;
-    let interp = engine::interpret(section, &engine::RuleParams::default());
+    // The project's own rule parameters; faulty ones are named, and the defaults used.
+    let rules = engine::project_rules(&project);
+    if let Some(problem) = &rules.problem {
+        eprintln!("{problem}");
+    }
+    let interp = engine::interpret(section, &rules.params);
     let now = std::time::SystemTime::now()
         .duration_since(std::time::UNIX_EPOCH)
         .map(|d| d.as_secs() as i64)

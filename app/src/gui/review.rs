@@ -1,14 +1,16 @@
-//! The review panel: candidate sequence boundaries ranked by score with their evidence, the
-//! geologist's accept / reject / note, and the rule parameters that re-run the rules live.
+//! The review panel: candidate sequence boundaries, strongest first, with their evidence and
+//! stability, the geologist's accept / reject / note, and the project's rule parameters.
 
 use super::actions::{gesture_key, Actions};
 use super::document::{Document, Edit};
-use super::engine::RuleParams;
+use super::engine::{ProjectRules, RuleParams};
 use super::field::{committed_field_in_memory, problem_label, FieldLook};
+use super::stability::SLOW_CHECK_MIN_BEDS;
 use super::table::show_length;
 use super::theme;
 use aggrade_core::model::{PaleosolDevelopment, Project, ReviewState};
-use aggrade_core::rules::Interpretation;
+use aggrade_core::rules::sensitivity::stability_text;
+use aggrade_core::rules::{BoundaryCandidate, Interpretation, Strength};
 
 /// How many candidates are listed at a time.
 const REVIEW_PAGE: usize = 25;
@@ -85,12 +87,62 @@ fn link_ui(
     });
 }
 
+/// What the candidate list is drawn from.
+pub struct List<'a> {
+    /// The selected section's interpretation (marked with stabilities after a check).
+    pub interp: &'a Interpretation,
+    /// The toggle listing weak paleosol tops with no evidence too.
+    pub all_candidates: &'a mut bool,
+    /// Runs of the stability check the interpretation is marked from, if one was run.
+    pub stability_runs: Option<usize>,
+}
+
+/// Hover text of a candidate's score.
+pub const SCORE_TIP: &str = "orders candidates within a class; not a probability";
+
+/// The colour of a strength class's badge.
+fn strength_colour(s: Strength) -> egui::Color32 {
+    match s {
+        Strength::Strong => theme::STRONG,
+        Strength::Moderate => theme::MODERATE,
+        Strength::Weak => theme::WEAK,
+    }
+}
+
+/// What the list says when it holds no candidate: what the rules look for, and the weak
+/// paleosol tops left out, if any.
+pub fn no_candidates_text(unlisted: usize) -> String {
+    let mut t = String::from(
+        "No candidates: the rules found no erosional channel-body base, no paleosol top with beds above it and no \
+         base tagged as an incision surface.",
+    );
+    if unlisted > 0 {
+        t = format!(
+            "No listed candidates: {unlisted} weak paleosol top{} with no further evidence {} not listed.",
+            if unlisted == 1 { "" } else { "s" },
+            if unlisted == 1 { "is" } else { "are" }
+        );
+    }
+    t
+}
+
+/// The toggle's label: how many weak paleosol tops are left out of the list.
+pub fn toggle_text(all_candidates: bool, unlisted: usize) -> String {
+    if all_candidates {
+        "Show weak paleosol tops (listed)".to_string()
+    } else {
+        format!("Show weak paleosol tops ({unlisted} not listed)")
+    }
+}
+
 /// Draw the candidate list.
-pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut Actions) {
+pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) {
+    let interp = list.interp;
     let unit = doc.section().display_unit;
     ui.label(
         egui::RichText::new(
-            "Candidate sequence boundaries, best supported first. Each is a suggestion for you to judge.",
+            "Candidate sequence boundaries, strongest first (by the independent evidence found). Each \
+             is a suggestion for you to judge.",
         )
         .small()
         .color(theme::TEXT_DIM),
@@ -111,9 +163,39 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
             interp.paleosols.len()
         ));
     }
+    ui.horizontal(|ui| {
+        ui.checkbox(list.all_candidates, toggle_text(*list.all_candidates, interp.unlisted_candidates))
+            .on_hover_text("Also list paleosol tops that are weak (no evidence beyond being a paleosol top)");
+    });
+    ui.horizontal(|ui| {
+        let beds = doc.section().beds.len();
+        let mut tip = String::from(
+            "Run the rules again with each key threshold moved in turn over a documented range, and show \
+             how often each candidate and channel body comes out the same",
+        );
+        if beds > SLOW_CHECK_MIN_BEDS {
+            tip.push_str(&format!("; with {beds} beds this may take a few seconds"));
+        }
+        if ui.button("Check stability").on_hover_text(tip).clicked() {
+            out.check_stability = true;
+        }
+        if beds > SLOW_CHECK_MIN_BEDS {
+            ui.label(egui::RichText::new("may take a few seconds").small().color(theme::TEXT_DIM));
+        }
+    });
+    if let Some(runs) = list.stability_runs {
+        ui.label(
+            egui::RichText::new(format!(
+                "Stability from {runs} runs, each with one threshold moved: the share in which a candidate \
+                 is listed at least moderate (or not) as here."
+            ))
+            .small()
+            .color(theme::TEXT_DIM),
+        );
+    }
     ui.separator();
     if interp.sequence_boundary_candidates.is_empty() {
-        ui.label("No candidates: no erosional channel-body base or strongly developed paleosol was found.");
+        ui.label(no_candidates_text(interp.unlisted_candidates));
     }
     // Long sections can have hundreds of candidates: list the best ones, more on request.
     let shown_id = egui::Id::unique("review_shown");
@@ -139,12 +221,28 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                         out.scroll_to_height_m = Some(c.height_m);
                         out.select = Some(Some(c.bed_id));
                     }
+                    strength_badge(ui, c);
                     ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
                         ui.label(egui::RichText::new(badge).color(colour).strong());
                     });
                 });
-                ui.label(egui::RichText::new(c.kind.name()).color(theme::TEXT_DIM));
-                score_bar(ui, c.score);
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(egui::RichText::new(c.kind.name()).color(theme::TEXT_DIM));
+                    if let Some(name) = &c.surface_name {
+                        ui.label(egui::RichText::new(format!("surface {name}")).strong())
+                            .on_hover_text("The name you gave the surface at this bed base");
+                    }
+                    if let Some(label) = &c.label {
+                        ui.label(egui::RichText::new(format!("label {label}")).strong())
+                            .on_hover_text("The correlation label on your decision");
+                    }
+                });
+                if let Some(text) = stability_text(c.stability, c.flipped_by.as_ref()) {
+                    ui.label(egui::RichText::new(text).small()).on_hover_text(
+                        "Share of the stability runs in which this candidate is listed at least moderate (or \
+                         not) as here, and the nearest threshold change that alters that",
+                    );
+                }
                 for e in &c.evidence {
                     ui.label(format!("• {e}"));
                 }
@@ -222,7 +320,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
                     REVIEW_PAGE.min(total - shown),
                     total - shown
                 ))
-                .on_hover_text("List further, lower-scoring candidates");
+                .on_hover_text("List further, weaker candidates");
             if more.clicked() {
                 ui.data_mut(|d| d.insert_temp(shown_id, shown + REVIEW_PAGE));
             }
@@ -230,19 +328,12 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, interp: &Interpretation, out: &mut 
     });
 }
 
-/// The score as a number and a thin bar.
-fn score_bar(ui: &mut egui::Ui, score: f64) {
-    ui.horizontal(|ui| {
-        ui.label(egui::RichText::new(format!("score {score:.2}")).small().strong());
-        let (rect, r) =
-            ui.allocate_exact_size(egui::vec2(ui.available_width().min(200.0), 6.0), egui::Sense::hover());
-        let p = ui.painter();
-        p.rect_filled(rect, 3.0, egui::Color32::from_gray(225));
-        let mut fill = rect;
-        fill.set_width(rect.width() * score.clamp(0.0, 1.0) as f32);
-        p.rect_filled(fill, 3.0, theme::ACCENT);
-        r.on_hover_text("Weighted evidence, 0–1");
-    });
+/// The strength class as a coloured badge; the score only on hover.
+fn strength_badge(ui: &mut egui::Ui, c: &BoundaryCandidate) {
+    let colour = strength_colour(c.strength);
+    let text = egui::RichText::new(c.strength.name()).small().strong().color(egui::Color32::WHITE);
+    ui.add(egui::Button::new(text).fill(colour).stroke(egui::Stroke::NONE).sense(egui::Sense::hover()))
+        .on_hover_text(format!("score {:.2}: {SCORE_TIP}", c.score));
 }
 
 /// A paleosol development term in its serialised form.
@@ -279,15 +370,30 @@ pub fn read_param(
     }
 }
 
-/// Edit any parameter struct field by field through its serde form: numbers as committed fields,
-/// switches as check boxes. Returns true when something changed.
-pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
-    let Ok(serde_json::Value::Object(mut map)) = serde_json::to_value(&*params) else {
+/// The project's rule parameters, field by field through their serde form: numbers as committed
+/// fields, switches as check boxes, each change one undoable edit of the project
+/// ([`Edit::SetRuleParams`], storing the fields that differ from the defaults). `stored` is what
+/// the project holds.
+pub fn params_ui(
+    ui: &mut egui::Ui,
+    rules: &ProjectRules,
+    stored: &serde_json::Map<String, serde_json::Value>,
+    out: &mut Actions,
+) {
+    if let Some(problem) = &rules.problem {
+        ui.colored_label(theme::WARN, problem);
+    }
+    ui.label(
+        egui::RichText::new(format!("Saved with the project; {}.", rules.params.summary()))
+            .small()
+            .color(theme::TEXT_DIM),
+    );
+    let before = rules.params.clone();
+    let Ok(serde_json::Value::Object(mut map)) = serde_json::to_value(&before) else {
         ui.label("These parameters cannot be shown.");
-        return false;
+        return;
     };
     let mut changed = false;
-    let before = params.clone();
     egui::Grid::new("rule_params").num_columns(2).spacing([10.0, 4.0]).show(ui, |ui| {
         for (name, value) in map.iter_mut() {
             let label = name.replace('_', " ");
@@ -296,7 +402,7 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
                     let lab = ui.label(label).id;
                     let stored = n.to_string();
                     let tip = format!(
-                        "Rule parameter `{name}`; the rules run again when you press Enter or leave the field"
+                        "Rule parameter `{name}`, saved with the project; the rules run again when you press Enter or leave the field"
                     );
                     let look = FieldLook { hint: "", tip: &tip, width: 90.0, char_limit: 40 };
                     let count = n.is_u64();
@@ -332,12 +438,15 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
                             }
                         })
                         .response
-                        .on_hover_text(format!("Rule parameter `{name}`"));
+                        .on_hover_text(format!("Rule parameter `{name}`, saved with the project"));
                     ui.end_row();
                 }
                 serde_json::Value::Bool(b) => {
                     ui.label(label);
-                    changed |= ui.checkbox(b, "").on_hover_text(format!("Rule parameter `{name}`")).changed();
+                    changed |= ui
+                        .checkbox(b, "")
+                        .on_hover_text(format!("Rule parameter `{name}`, saved with the project"))
+                        .changed();
                     ui.end_row();
                 }
                 _ => {}
@@ -345,20 +454,19 @@ pub fn params_ui(ui: &mut egui::Ui, params: &mut RuleParams) -> bool {
         }
     });
     if changed {
-        match serde_json::from_value::<RuleParams>(serde_json::Value::Object(map)) {
-            Ok(p) => *params = p,
-            Err(_) => return false,
+        if let Ok(edited) = serde_json::from_value::<RuleParams>(serde_json::Value::Object(map)) {
+            if edited != before {
+                out.edit(Edit::SetRuleParams { params: edited.changed() });
+            }
         }
     }
     if ui
-        .button("Restore defaults")
-        .on_hover_text("Put every rule parameter back to its documented default")
+        .add_enabled(!stored.is_empty(), egui::Button::new("Restore defaults"))
+        .on_hover_text("Put every rule parameter back to its documented default (Ctrl+Z takes it back)")
         .clicked()
     {
-        *params = RuleParams::default();
-        changed = true;
+        out.edit(Edit::SetRuleParams { params: serde_json::Map::new() });
     }
-    changed
 }
 
 #[cfg(test)]
@@ -375,6 +483,17 @@ mod tests {
         assert!(read_link(&long).is_err(), "41 characters (82 bytes)");
         let at_limit = "é".repeat(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS);
         assert_eq!(read_link(&at_limit), Ok(Some(at_limit.clone())), "the limit counts characters");
+    }
+
+    #[test]
+    fn the_list_tells_what_it_leaves_out() {
+        assert_eq!(toggle_text(false, 3), "Show weak paleosol tops (3 not listed)");
+        assert_eq!(toggle_text(true, 0), "Show weak paleosol tops (listed)");
+        assert!(no_candidates_text(0).contains("no erosional channel-body base, no paleosol top"));
+        assert_eq!(
+            no_candidates_text(2),
+            "No listed candidates: 2 weak paleosol tops with no further evidence are not listed."
+        );
     }
 
     #[test]

@@ -13,6 +13,10 @@ pub const TEXT_DIM: Color32 = Color32::from_rgb(110, 116, 122);
 pub const WARN: Color32 = Color32::from_rgb(160, 82, 20);
 pub const ACCEPTED: Color32 = Color32::from_rgb(40, 130, 70);
 pub const REJECTED: Color32 = Color32::from_rgb(150, 150, 150);
+/// Badges of the strength classes of candidate boundaries: one hue, darker for stronger.
+pub const STRONG: Color32 = Color32::from_rgb(28, 66, 130);
+pub const MODERATE: Color32 = Color32::from_rgb(84, 116, 176);
+pub const WEAK: Color32 = Color32::from_rgb(122, 132, 152);
 
 /// DejaVu Sans (free licence, shipped in `assets/fonts`): covers φ, →, −, ° and the like, and
 /// matches the printed column's lettering.

@@ -65,7 +65,12 @@ fn json_follows_the_contract_on_the_cycle_fixture() {
     assert_eq!(v["unlisted_candidates"], 1);
     // The full parameter set used is echoed.
     assert_eq!(v["params"]["window_m"], 10.0);
-    assert_eq!(v["params"].as_object().map(|o| o.len()), serde_json::to_value(aggrade_core::rules::RuleParams::default()).ok().and_then(|d| d.as_object().map(|o| o.len())));
+    assert_eq!(
+        v["params"].as_object().map(|o| o.len()),
+        serde_json::to_value(aggrade_core::rules::RuleParams::default())
+            .ok()
+            .and_then(|d| d.as_object().map(|o| o.len()))
+    );
     assert!(cands[0].get("stability").is_none(), "stability only with --sensitivity");
 
     let regimes: Vec<&str> = v["accommodation"]

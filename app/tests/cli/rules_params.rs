@@ -94,7 +94,8 @@ fn all_candidates_and_sensitivity_from_the_command_line() {
     let dir = tempfile::tempdir().expect("temp dir");
     let p = cycle_with(dir.path(), serde_json::json!({}));
     let p = p.to_str().expect("utf-8");
-    let v: Value = serde_json::from_str(&run_ok(&["interpret", p, "--json", "--all-candidates"])).expect("json");
+    let v: Value =
+        serde_json::from_str(&run_ok(&["interpret", p, "--json", "--all-candidates"])).expect("json");
     let cands = v["sequence_boundary_candidates"].as_array().expect("candidates");
     assert_eq!(cands.len(), 5, "the weak soil top at 26.5 m is listed when asked for");
     assert!(cands.iter().any(|c| c["height"] == 26.5 && c["strength"] == "weak"));

@@ -100,8 +100,10 @@ fn accepting_a_candidate_is_kept_when_rules_rerun() {
     let d = h.state().doc.section().decision_for(top.bed_id).cloned().expect("decision stored");
     assert_eq!(d.state, ReviewState::Accepted);
     // Re-running the rules with other parameters keeps the decision on that bed's boundary.
-    h.state_mut().params.window_m = 4.0;
+    let narrower = aggrade_core::rules::RuleParams { window_m: 4.0, ..Default::default() }.changed();
+    h.state_mut().apply(Edit::SetRuleParams { params: narrower });
     h.run();
+    assert_eq!(h.state_mut().interpretation().params.window_m, 4.0, "the rules ran again");
     let again = h
         .state_mut()
         .interpretation()

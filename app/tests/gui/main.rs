@@ -11,5 +11,6 @@ mod editing;
 mod fields;
 mod import;
 mod recovery;
+mod rules;
 mod trace;
 mod views;

@@ -265,13 +265,7 @@ pub fn strength_and_score(evidence: &[Evidence], params: &RuleParams) -> (Streng
         })
         .sum();
     let mature_interfluve = evidence.iter().any(|e| {
-        matches!(
-            e,
-            Evidence::InterfluvePaleosol {
-                development: PaleosolDevelopment::VeryStrong,
-                poorly_drained: false
-            }
-        )
+        matches!(e, Evidence::InterfluvePaleosol { development: PaleosolDevelopment::VeryStrong, .. })
     });
     let strength = match kinds.len() {
         0 => Strength::Weak,

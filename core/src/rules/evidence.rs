@@ -283,7 +283,11 @@ impl fmt::Display for RegimeSign {
         use RegimeSign::*;
         match self {
             Amalgamated { multi, bodies, partly_seen } => {
-                write!(f, "{multi} of {bodies} channel bodies multi-story (amalgamated){}", PartlySeen(*partly_seen))
+                write!(
+                    f,
+                    "{multi} of {bodies} channel bodies multi-story (amalgamated){}",
+                    PartlySeen(*partly_seen)
+                )
             }
             Isolated { single, bodies, partly_seen } => write!(
                 f,

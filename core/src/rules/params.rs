@@ -274,10 +274,14 @@ impl RuleParams {
                 Ok(_) => {
                     kept.insert(name.clone(), v.clone());
                 }
-                Err(e) if e.to_string().starts_with("unknown field") => problems.push(match nearest_name(name) {
-                    Some(near) => format!("{name}: not a rule parameter; did you mean {near}?"),
-                    None => format!("{name}: not a rule parameter (see docs/interpretation-rules.md for the names)"),
-                }),
+                Err(e) if e.to_string().starts_with("unknown field") => {
+                    problems.push(match nearest_name(name) {
+                        Some(near) => format!("{name}: not a rule parameter; did you mean {near}?"),
+                        None => format!(
+                            "{name}: not a rule parameter (see docs/interpretation-rules.md for the names)"
+                        ),
+                    })
+                }
                 Err(e) => problems.push(format!("{name}: got {}; {e}", short_json(v))),
             }
         }

@@ -19,10 +19,11 @@ use super::canvas::Canvas;
 use super::chooser::Chooser;
 use super::column::{self, Column};
 use super::document::{Document, Edit};
-use super::engine::{LayoutOptions, RuleParams};
+use super::engine::{project_rules, LayoutOptions, ProjectRules, RuleParams};
 use super::files::{self, FileDialogs};
 use super::inspector::Inspector;
 use super::recovery::{self, Autosaver, FoundBackup};
+use super::stability::Stability;
 use super::table::BedTable;
 use super::views::Views;
 use super::{demo, theme};
@@ -76,8 +77,9 @@ impl Notice {
 /// The window's state.
 pub struct AggradeApp {
     pub doc: Document,
-    pub params: RuleParams,
     pub layout: LayoutOptions,
+    /// The review list shows every candidate boundary, weak paleosol tops with no evidence too.
+    pub all_candidates: bool,
     pub tab: Tab,
     pub recent: Vec<PathBuf>,
     /// A message in a dialog.
@@ -93,6 +95,8 @@ pub struct AggradeApp {
     modal: Option<Modal>,
     /// The trace window (beside the column, not a pop-up).
     tracing: Tracing,
+    /// The last stability check, while the document is as it was checked.
+    stability: Option<Stability>,
     /// Aggrade's data folder (backups, the import mapping last used).
     data_dir: PathBuf,
     /// The interpretation and laid-out column on screen.
@@ -149,8 +153,8 @@ impl AggradeApp {
         chooser.start_dir = doc.path.as_ref().and_then(|p| p.parent()).map(Path::to_path_buf);
         AggradeApp {
             doc,
-            params: RuleParams::default(),
             layout: LayoutOptions::default(),
+            all_candidates: false,
             tab: Tab::Review,
             recent,
             message,
@@ -161,6 +165,7 @@ impl AggradeApp {
             inspector: Inspector::default(),
             modal: None,
             tracing: Tracing::default(),
+            stability: None,
             data_dir: config.data_dir.clone(),
             column: Column::default(),
             chooser,
@@ -175,7 +180,29 @@ impl AggradeApp {
 
     /// The current interpretation (computed on demand; waits for a worker if one is running).
     pub fn interpretation(&mut self) -> &Interpretation {
-        &self.column.settled(&column_inputs(&self.doc, &self.params, &self.layout, &self.canvas)).interp
+        let params = self.rules().params;
+        let inputs = column_inputs(&self.doc, &params, self.all_candidates, &self.layout, &self.canvas);
+        &self.column.settled(&inputs).interp
+    }
+
+    /// The rule parameters the window runs with: the project's (see [`ProjectRules`]).
+    pub fn rules(&self) -> ProjectRules {
+        project_rules(&self.doc.project)
+    }
+
+    /// The stability check of the document as it is now, if one was run.
+    pub fn stability(&self) -> Option<&Stability> {
+        self.stability.as_ref().filter(|s| s.is_for(&self.doc, self.all_candidates))
+    }
+
+    /// Run the stability check on the selected section with the project's parameters (on this
+    /// thread: some forty runs of the rules).
+    pub fn check_stability(&mut self) {
+        let params = self.rules().params;
+        let s = Stability::check(&self.doc, &params, self.all_candidates);
+        self.status =
+            format!("Stability checked: {} runs of the rules, each with one threshold moved", s.runs);
+        self.stability = Some(s);
     }
 
     /// True while the column drawn is from before the last edit (a worker is bringing it up
@@ -268,12 +295,26 @@ impl AggradeApp {
 
     /// Bring the column up to date for this frame (see [`Column::refresh`]).
     fn refresh(&mut self) {
-        self.column.refresh(&column_inputs(&self.doc, &self.params, &self.layout, &self.canvas));
+        let params = self.rules().params;
+        self.column.refresh(&column_inputs(
+            &self.doc,
+            &params,
+            self.all_candidates,
+            &self.layout,
+            &self.canvas,
+        ));
     }
 
     /// Bring the column up to date now, waiting for a worker if one runs.
     fn settle(&mut self) {
-        self.column.settle(&column_inputs(&self.doc, &self.params, &self.layout, &self.canvas));
+        let params = self.rules().params;
+        self.column.settle(&column_inputs(
+            &self.doc,
+            &params,
+            self.all_candidates,
+            &self.layout,
+            &self.canvas,
+        ));
     }
 
     /// Apply one edit now (used by scripted runs and tests as well as the panels).
@@ -291,6 +332,9 @@ impl AggradeApp {
         }
         if actions.end_gesture {
             self.doc.end_gesture();
+        }
+        if actions.check_stability {
+            self.check_stability();
         }
         if let Some(sel) = actions.select {
             self.doc.selected_bed = sel;
@@ -337,6 +381,10 @@ impl AggradeApp {
             }
         });
         self.apply_actions(actions);
+        // A stability check holds for the document as it was checked only.
+        if self.stability.is_some() && self.stability().is_none() {
+            self.stability = None;
+        }
         self.views_ui(&ctx);
         self.trace_ui(&ctx);
         self.dialogs_ui(&ctx);
@@ -426,14 +474,16 @@ impl AggradeApp {
     }
 }
 
-/// What the column is computed from: the document, the rule and layout settings, the view.
+/// What the column is computed from: the document, the project's rule parameters, the
+/// candidate list and layout settings, the view.
 fn column_inputs<'a>(
     doc: &'a Document,
     params: &'a RuleParams,
+    all_candidates: bool,
     layout: &'a LayoutOptions,
     canvas: &Canvas,
 ) -> column::Inputs<'a> {
-    column::Inputs { doc, params, layout, view_y_mm: canvas.view_y_mm() }
+    column::Inputs { doc, params, all_candidates, layout, view_y_mm: canvas.view_y_mm() }
 }
 
 /// A path made absolute against the working folder (kept as given if that cannot be had), so

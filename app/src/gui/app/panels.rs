@@ -123,8 +123,13 @@ impl AggradeApp {
         egui::Panel::bottom("status").show(ui, |ui| {
             // The caution first, from the right; the status takes the room left, cut short with
             // "…" (whole on hover) rather than written over the caution.
+            let problem = self.rules().problem;
             ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
                 ui.label(egui::RichText::new(aggrade_core::REVIEW_CAUTION).small().color(theme::WARN));
+                if let Some(p) = &problem {
+                    ui.label(egui::RichText::new("Default rules used").small().strong().color(theme::WARN))
+                        .on_hover_text(p);
+                }
                 ui.with_layout(egui::Layout::left_to_right(egui::Align::Center), |ui| {
                     ui.add(egui::Label::new(&self.status).truncate()).on_hover_text(&self.status);
                 });
@@ -157,10 +162,19 @@ impl AggradeApp {
             match self.tab {
                 Tab::Inspector => self.inspector.ui(ui, &self.doc, actions),
                 Tab::Review => {
+                    let rules = self.rules();
                     egui::CollapsingHeader::new("Rule parameters").show(ui, |ui| {
-                        review::params_ui(ui, &mut self.params);
+                        review::params_ui(ui, &rules, &self.doc.project.rule_params, actions);
                     });
-                    review::ui(ui, &self.doc, &cache.interp, actions);
+                    // The checked interpretation is the one on screen, marked with stabilities.
+                    let checked =
+                        self.stability.as_ref().filter(|s| s.is_for(&self.doc, self.all_candidates));
+                    let list = review::List {
+                        interp: checked.map_or(&cache.interp, |s| &s.interp),
+                        all_candidates: &mut self.all_candidates,
+                        stability_runs: checked.map(|s| s.runs),
+                    };
+                    review::ui(ui, &self.doc, list, actions);
                 }
                 Tab::Plots => plots::ui(ui, &self.doc, &cache.interp),
                 Tab::Section => section_ui(ui, &self.doc, actions),
@@ -173,7 +187,9 @@ impl AggradeApp {
             .duration_since(std::time::UNIX_EPOCH)
             .map(|d| d.as_secs() as i64)
             .unwrap_or(0);
-        let out = self.views.ui(ctx, &self.doc, &self.params, &mut self.chooser, now);
+        let params = self.rules().params;
+        let checked = self.stability.as_ref().filter(|s| s.is_for(&self.doc, self.all_candidates));
+        let out = self.views.ui(ctx, &self.doc, &params, checked.map(|s| &s.interp), &mut self.chooser, now);
         if let Some(s) = out.status {
             self.status = s;
         }

@@ -98,6 +98,7 @@ impl AggradeApp {
             self.chooser.start_dir = Some(dir.to_path_buf());
         }
         self.column.clear();
+        self.stability = None;
         self.canvas = Canvas::default();
     }
 

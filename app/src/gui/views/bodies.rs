@@ -12,6 +12,7 @@ use aggrade_core::analysis::bodies::{
 use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams, SectionDecompaction};
 use aggrade_core::analysis::AnalysisError;
 use aggrade_core::model::{GrainSize, Project};
+use aggrade_core::rules::sensitivity::stability_text;
 use aggrade_core::rules::{ChannelBody, Element, Interpretation, ProportionBounds};
 
 /// Default burial depth offered, m (a round figure to start from; the user types the real one).
@@ -120,6 +121,23 @@ pub fn row_cells(r: &BodyRow, decompacted_m: Option<f64>) -> Vec<String> {
         cells.push(format!("{d:.2}"));
     }
     cells
+}
+
+/// The stability of each table row's body, in the rows' order, from a stability check of one
+/// section: its words for that section's bodies ("stable in 96 % of runs"), "not checked" for
+/// the other sections' (a body is matched by section, base and top, as the table lists it).
+pub fn stability_cells(rows: &[BodyRow], checked: &Interpretation) -> Vec<String> {
+    let of_body: std::collections::HashMap<(u64, u64), &ChannelBody> =
+        checked.channel_bodies.iter().map(|b| ((b.base_m.to_bits(), b.top_m.to_bits()), b)).collect();
+    rows.iter()
+        .map(|r| {
+            let body = (r.section == checked.section)
+                .then(|| of_body.get(&(r.base_m.to_bits(), r.top_m.to_bits())))
+                .flatten();
+            body.and_then(|b| stability_text(b.stability, b.flipped_by.as_ref()))
+                .unwrap_or_else(|| "not checked".to_string())
+        })
+        .collect()
 }
 
 /// Which CSV to write.
@@ -384,9 +402,27 @@ impl BodiesView {
         if r.decompacted_m.iter().any(Option::is_some) {
             header.push("decompacted (m)");
         }
-        let rows: Vec<Vec<String>> =
+        let mut rows: Vec<Vec<String>> =
             r.rows.iter().zip(&r.decompacted_m).map(|(b, d)| row_cells(b, *d)).collect();
+        if let Some(checked) = v.stability {
+            header.push("stability");
+            for (row, cell) in rows.iter_mut().zip(stability_cells(&r.rows, checked)) {
+                row.push(cell);
+            }
+        }
         text_table(ui, "bodies_table", &header, &rows);
+        if let Some(checked) = v.stability {
+            ui.label(
+                egui::RichText::new(format!(
+                    "Stability: share of the runs of the rules, each with one threshold moved, in which the \
+                     body came out the same (same beds, same stacking); {} only, from \"Check stability\" in \
+                     the review list.",
+                    checked.section
+                ))
+                .small()
+                .color(theme::TEXT_DIM),
+            );
+        }
         if r.summary.as_ref().is_some_and(|s| s.censored > 0) {
             ui.label(
                 egui::RichText::new(
@@ -443,6 +479,25 @@ mod tests {
         let off = compute(&p, &i, None);
         assert!(off.decompacted_m.iter().all(Option::is_none) && off.decompacted_summary.is_none());
         assert_eq!(off.rows, r.rows, "the table itself does not depend on decompaction");
+    }
+
+    #[test]
+    fn stability_is_shown_for_the_checked_sections_bodies_only() {
+        let (p, mut i) = demo();
+        let runs =
+            aggrade_core::rules::sensitivity::annotate(&p.sections[0], &RuleParams::default(), &mut i[0]);
+        assert!(runs > 0);
+        let r = compute(&p, &i, None);
+        let cells = stability_cells(&r.rows, &i[0]);
+        assert_eq!(cells.len(), r.rows.len());
+        for (row, cell) in r.rows.iter().zip(&cells) {
+            if row.section == i[0].section {
+                assert!(cell.starts_with("stable in "), "{cell}");
+            } else {
+                assert_eq!(cell, "not checked");
+            }
+        }
+        assert!(cells.iter().any(|c| c.starts_with("stable in ")), "the checked section has bodies");
     }
 
     #[test]

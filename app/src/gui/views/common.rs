@@ -10,6 +10,9 @@ pub struct ViewCtx<'a> {
     pub project: &'a Project,
     /// `interps[i]` interprets `project.sections[i]`.
     pub interps: &'a [Interpretation],
+    /// The selected section's interpretation marked by a stability check, while the document is
+    /// as it was checked.
+    pub stability: Option<&'a Interpretation>,
     /// Grows whenever `interps` is recomputed: the views key their own caches on it.
     pub generation: u64,
     /// The document's file name, for suggested export names and printed subtitles.

@@ -82,12 +82,14 @@ impl Views {
         self.recomputations += 1;
     }
 
-    /// Draw the open view windows.
+    /// Draw the open view windows. `params` are the project's rule parameters; `stability` the
+    /// selected section's interpretation marked by a stability check of the document as it is.
     pub fn ui(
         &mut self,
         ctx: &egui::Context,
         doc: &Document,
         params: &RuleParams,
+        stability: Option<&Interpretation>,
         dialogs: &mut Chooser,
         now_secs: i64,
     ) -> ViewsOutcome {
@@ -100,6 +102,7 @@ impl Views {
         let mut vctx = ViewCtx {
             project: &doc.project,
             interps: &shared.interps,
+            stability,
             generation: self.generation,
             doc_name: doc.display_name(),
             dialogs,

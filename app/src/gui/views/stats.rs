@@ -3,7 +3,7 @@
 //! transitions that occur more often than chance.
 
 use super::common::{caution, fmt_p, text_table, ViewCtx};
-use crate::cli::stats::{interval_bounds, state_sequence, StateKind};
+use crate::cli::stats::{bounds_from_cuts, interval_bounds, state_sequence, StateKind};
 use crate::gui::theme;
 use aggrade_core::analysis::markov::{analyse_sequence, TransitionAnalysis, TransitionParams};
 use aggrade_core::analysis::paleocurrents::{
@@ -12,6 +12,7 @@ use aggrade_core::analysis::paleocurrents::{
 };
 use aggrade_core::analysis::AnalysisError;
 use aggrade_core::model::Project;
+use aggrade_core::rules::Interpretation;
 use egui::{Color32, Pos2, Rect, Shape, Stroke, Vec2};
 
 /// Rose bin widths offered (each divides 360°).
@@ -22,7 +23,7 @@ pub const BIN_WIDTHS_DEG: [f64; 7] = [5.0, 10.0, 15.0, 20.0, 30.0, 45.0, 60.0];
 pub enum RoseOf {
     /// Every reading of the chosen section.
     Section,
-    /// The readings of one interval between accepted boundaries (index into the intervals).
+    /// The readings of one interval between boundaries (index into the intervals).
     Interval(usize),
 }
 
@@ -80,16 +81,20 @@ pub struct StatsResult {
     pub per_section: Vec<SummaryRow>,
     pub per_interval: Vec<SummaryRow>,
     pub per_bed: Vec<SummaryRow>,
-    /// Interval bounds of the chosen section (base, accepted boundaries, top), m.
+    /// Interval bounds of the chosen section (base, the boundaries cut at, top), m.
     pub interval_bounds_m: Vec<f64>,
+    /// True when the intervals are cut at accepted boundaries; false when at strong candidate
+    /// boundaries, none being accepted yet (as the rules cut the regimes).
+    pub cuts_are_accepted: bool,
     pub rose: Result<RoseBins, NoSummary>,
     /// Mean of the readings in the rose (for its arrow).
     pub rose_mean: Option<CircularSummary>,
     pub transitions: Result<TransitionAnalysis, NoSummary>,
 }
 
-/// Compute what the view shows for a project.
-pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
+/// Compute what the view shows for a project; `interps[i]` interprets `project.sections[i]` (the
+/// intervals are cut where the rules cut them: accepted boundaries, else strong candidates).
+pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) -> StatsResult {
     let params = CircularParams { kind: c.kind, ..Default::default() };
     let per_section = project
         .sections
@@ -105,12 +110,21 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
             per_interval: Vec::new(),
             per_bed: Vec::new(),
             interval_bounds_m: Vec::new(),
+            cuts_are_accepted: false,
             rose: Err(NoSummary::NoSection),
             rose_mean: None,
             transitions: Err(NoSummary::NoSection),
         };
     };
-    let bounds = interval_bounds(section);
+    let interp = interps.get(c.section.min(project.sections.len().saturating_sub(1)));
+    let (bounds, cuts_are_accepted) = match interp {
+        Some(it) => (bounds_from_cuts(section.total_thickness_m(), &it.cut_heights), it.cuts_are_accepted),
+        None => {
+            let accepted =
+                section.review.iter().any(|d| d.state == aggrade_core::model::ReviewState::Accepted);
+            (interval_bounds(section), accepted)
+        }
+    };
     let per_interval = match per_interval(section, &bounds, &params) {
         Ok(list) => list
             .into_iter()
@@ -156,9 +170,19 @@ pub fn compute(project: &Project, c: &StatsChoices) -> StatsResult {
         per_interval,
         per_bed,
         interval_bounds_m: bounds,
+        cuts_are_accepted,
         rose,
         rose_mean,
         transitions,
+    }
+}
+
+/// What the intervals lie between, in words.
+pub fn intervals_text(cuts_are_accepted: bool) -> &'static str {
+    if cuts_are_accepted {
+        "between accepted boundaries"
+    } else {
+        "between strong candidate boundaries (none accepted yet)"
     }
 }
 
@@ -351,7 +375,7 @@ impl StatsView {
             return;
         }
         self.computations += 1;
-        self.cache = Some((key, compute(v.project, &self.choices)));
+        self.cache = Some((key, compute(v.project, v.interps, &self.choices)));
     }
 
     /// Draw the window.
@@ -406,9 +430,15 @@ impl StatsView {
         ui.label(egui::RichText::new("Per section").strong());
         let rows: Vec<Vec<String>> = r.per_section.iter().map(summary_cells).collect();
         text_table(ui, "stats_per_section", &SUMMARY_HEADER, &rows);
-        ui.label(egui::RichText::new("Per interval (between accepted sequence boundaries)").strong());
+        ui.label(
+            egui::RichText::new(format!("Per interval ({})", intervals_text(r.cuts_are_accepted))).strong(),
+        );
         if r.interval_bounds_m.len() <= 2 {
-            ui.label("No accepted boundary in this section: the interval is the whole section.");
+            ui.label(if r.cuts_are_accepted {
+                "The accepted boundaries lie at the section's base or top: the interval is the whole section."
+            } else {
+                "No accepted boundary and no strong candidate in this section: the interval is the whole section."
+            });
         }
         let rows: Vec<Vec<String>> = r.per_interval.iter().map(summary_cells).collect();
         text_table(ui, "stats_per_interval", &SUMMARY_HEADER, &rows);
@@ -645,9 +675,39 @@ mod tests {
     }
 
     #[test]
+    fn intervals_are_cut_where_the_rules_cut_them_and_say_at_what() {
+        use aggrade_core::model::{ReviewDecision, ReviewState};
+        use aggrade_core::rules::{interpret, RuleParams};
+        let mut p = crate::gui::demo::demo_project();
+        p.sections.truncate(1);
+        p.sections[0].review.clear();
+        let interps = |p: &Project| -> Vec<Interpretation> {
+            p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect()
+        };
+        let open = interps(&p);
+        assert!(!open[0].cuts_are_accepted);
+        assert!(!open[0].cut_heights.is_empty(), "the demo has strong candidates");
+        let r = compute(&p, &open, &StatsChoices::default());
+        assert!(!r.cuts_are_accepted);
+        assert_eq!(r.interval_bounds_m[1..r.interval_bounds_m.len() - 1], open[0].cut_heights[..]);
+        assert_eq!(
+            intervals_text(r.cuts_are_accepted),
+            "between strong candidate boundaries (none accepted yet)"
+        );
+        // Accept one boundary: the intervals are cut there alone.
+        let c = &open[0].sequence_boundary_candidates[0];
+        p.sections[0].review.push(ReviewDecision::new(c.bed_id, ReviewState::Accepted, ""));
+        let r = compute(&p, &interps(&p), &StatsChoices::default());
+        assert!(r.cuts_are_accepted);
+        assert_eq!(r.interval_bounds_m.len(), 3);
+        assert!((r.interval_bounds_m[1] - c.height_m).abs() < 1e-9);
+        assert_eq!(intervals_text(true), "between accepted boundaries");
+    }
+
+    #[test]
     fn a_project_without_readings_says_so() {
         let p = Project::new(vec![aggrade_core::model::Section::new("Empty")]);
-        let r = compute(&p, &StatsChoices::default());
+        let r = compute(&p, &[], &StatsChoices::default());
         assert!(r.per_section[0].summary.is_err());
         let rose = r.rose.expect("no readings is a valid, empty rose");
         assert_eq!(rose.n, 0);
