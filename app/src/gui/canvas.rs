@@ -7,6 +7,7 @@ use super::document::{Document, Edit};
 use super::engine::Strip;
 use super::painter::{self, ItemIndex, MmToScreen};
 use super::theme;
+use super::trace::backdrop::{behind_column, CanvasBackdrop, CanvasPlace};
 use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 use egui::{Color32, CursorIcon, Pos2, Rect, Sense, Shape, Vec2};
 
@@ -68,6 +69,18 @@ pub fn dragged_grain(
         GrainEnd::Both if now == start => (base, top),
         GrainEnd::Both => (shift(base), shift(top)),
     }
+}
+
+/// The highest height (metres) the sheet's image reaches: its upper corners read on the height
+/// scale; `None` when not calibrated.
+fn sheet_top_height_m(sheet: &aggrade_core::trace::TraceSheet, size: [u32; 2]) -> Option<f64> {
+    use aggrade_core::trace::Pt;
+    let (w, h) = (f64::from(size[0]), f64::from(size[1]));
+    [Pt::new(0.0, 0.0), Pt::new(w, 0.0), Pt::new(0.0, h), Pt::new(w, h)]
+        .into_iter()
+        .filter_map(|p| sheet.height_at(p).ok())
+        .filter(|m| m.is_finite())
+        .reduce(f64::max)
 }
 
 /// View state of the canvas (kept between frames).
@@ -152,6 +165,7 @@ impl Canvas {
         doc: &Document,
         strip: &Strip,
         index: &mut ItemIndex,
+        backdrop: Option<&CanvasBackdrop>,
         out: &mut Actions,
     ) {
         let (rect, response) = ui.allocate_exact_size(ui.available_size(), Sense::click_and_drag());
@@ -198,8 +212,12 @@ impl Canvas {
             self.top_mm -= (scroll.y / self.zoom) as f64;
         }
         let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
-        self.top_mm =
-            self.top_mm.clamp(-view_h_mm * 0.5, (strip.height_mm - view_h_mm * 0.5).max(-view_h_mm * 0.5));
+        // A sheet behind the column may reach above the beds traced so far: let the view follow.
+        let sheet_top_mm = backdrop
+            .and_then(|b| sheet_top_height_m(&b.sheet, b.image_size))
+            .map_or(0.0, |h| strip.heights.y_mm(h).min(0.0));
+        let lowest_top = -view_h_mm * 0.5 + sheet_top_mm;
+        self.top_mm = self.top_mm.clamp(lowest_top, (strip.height_mm - view_h_mm * 0.5).max(lowest_top));
         self.last_view_h_mm = Some(view_h_mm);
 
         let t = MmToScreen {
@@ -216,6 +234,22 @@ impl Canvas {
         painter.rect_filled(rect, 0.0, theme::CANVAS_BG);
         let paper = Rect::from_min_max(t.pos(-4.0, -2.0), t.pos(strip.width_mm + 4.0, strip.height_mm));
         painter.rect_filled(paper.intersect(rect), 0.0, Color32::WHITE);
+        // The traced sheet behind the beds, at its calibrated heights and grain sizes.
+        if let Some(b) = backdrop {
+            let gs = strip.grain_scale;
+            let y_of_height = |m: f64| t.pos(0.0, strip.heights.y_mm(m)).y;
+            let x_of_rank =
+                |r: f64| t.pos(gs.left_mm + gs.min_width_mm + gs.class_step_mm * (r + 0.5), 0.0).x;
+            let place = CanvasPlace {
+                y_of_height: &y_of_height,
+                x_of_rank: &x_of_rank,
+                left_x: t.pos(gs.left_mm, 0.0).x,
+                points_per_m,
+            };
+            if let Some(mesh) = behind_column(&b.sheet, b.image_size, b.texture, &place, b.opacity) {
+                painter.add(Shape::mesh(mesh));
+            }
+        }
 
         // Items in the visible range, with a margin so lines crossing the edge are not cut short.
         let lo = self.top_mm - 5.0;

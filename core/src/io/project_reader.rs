@@ -2,7 +2,9 @@
 //! path (serde alone stops at the first) and unknown fields become warnings. The JSON is either a
 //! parsed tree or raw text whose beds are read one by one straight into the typed model (a tree
 //! is built only for a bed or section that needs its fields named). Raw text is split into its
-//! sections and beds by serde_json itself: each is a [`RawValue`], a checked slice of the file.
+//! sections and beds by serde_json itself: each is a [`RawValue`], a checked slice of the file,
+//! and a bad bed's problems take their lines from its slice: the slice's offset in the file gives
+//! the bed's first line, a scan of the slice alone the line of the field within it.
 
 use super::curve_fields::{check_curve, CURVE_FIELDS};
 use super::field_check::{check, describe, first_wrong_field, FieldCheck};
@@ -391,6 +393,13 @@ pub fn read_project_raw(root: &str, check: &BedsToCheck) -> FieldRead {
 fn read_node(root: Node<'_>, check: &BedsToCheck) -> FieldRead {
     let mut problems = Vec::new();
     let mut warnings = Vec::new();
+    // The file's text when read raw: a bed's slice lies inside it, and the slice's offset gives
+    // the bed's line.
+    let text = match root {
+        Node::Raw(r) => Some(r),
+        Node::Tree(_) => None,
+    };
+    let mut lines = LineCounter::default();
     let Some(Split { fields: obj, items: section_nodes }) = root.split("sections") else {
         problems.push(Problem::new(
             "",
@@ -439,7 +448,13 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> FieldRead {
                 }
             }
             let bpath = format!("{path}.beds[{j}]");
+            let (p0, w0) = (problems.len(), warnings.len());
             read_bed(&bv.value(), &bpath, &mut beds, &mut problems, &mut warnings);
+            if let (Some(text), Node::Raw(raw)) = (text, bv) {
+                let first = lines.line_of(text, raw);
+                locate_in_bed(raw, first, &bpath, &mut problems[p0..]);
+                locate_in_bed(raw, first, &bpath, &mut warnings[w0..]);
+            }
         }
         if problems.len() == before {
             // The section's own fields, with the beds already built.
@@ -457,6 +472,46 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> FieldRead {
     };
     let project = problems.is_empty().then_some(Project { format_version, sections, rule_params });
     FieldRead { project, problems, warnings }
+}
+
+/// Line numbers of slices of one text, counted forward from the last slice asked for (beds come
+/// in file order, so a whole file's worth of bad beds costs one pass over it).
+#[derive(Default)]
+struct LineCounter {
+    offset: usize,
+    line: usize,
+}
+
+impl LineCounter {
+    /// The 1-based line on which `slice`, a part of `text`, starts; `None` when it is not a part.
+    fn line_of(&mut self, text: &str, slice: &str) -> Option<usize> {
+        let offset = (slice.as_ptr() as usize).checked_sub(text.as_ptr() as usize)?;
+        if offset > text.len() {
+            return None;
+        }
+        if offset < self.offset || self.line == 0 {
+            *self = LineCounter { offset: 0, line: 1 };
+        }
+        self.line += text.as_bytes()[self.offset..offset].iter().filter(|&&b| b == b'\n').count();
+        self.offset = offset;
+        Some(self.line)
+    }
+}
+
+/// Lines for the problems of one bed read from its raw slice: the slice's first line in the file
+/// plus the line of the field within the slice (found by scanning the slice alone).
+fn locate_in_bed(raw: &str, first_line: Option<usize>, bpath: &str, found: &mut [Problem]) {
+    let Some(first) = first_line else { return };
+    let relative =
+        |p: &Problem| p.location.strip_prefix(bpath).map(|r| r.trim_start_matches('.').to_string());
+    let wanted: Vec<String> =
+        found.iter().filter(|p| p.line.is_none()).filter_map(relative).filter(|r| !r.is_empty()).collect();
+    let refs: Vec<&str> = wanted.iter().map(String::as_str).collect();
+    let within = super::json_scan::lines_of(raw, &refs);
+    for p in found.iter_mut().filter(|p| p.line.is_none()) {
+        let line_in_bed = relative(p).and_then(|r| within.get(&r).copied()).unwrap_or(1);
+        p.line = Some(first + line_in_bed - 1);
+    }
 }
 
 /// Read one bed from a tree: every bad field named, unknown fields as warnings.
@@ -588,6 +643,26 @@ mod tests {
         assert!(problems.is_empty() && warnings.is_empty(), "{problems:?} {warnings:?}");
         let project = project.expect("project");
         assert_eq!(project.sections[0].beds[0].thickness_m, 2.5);
+    }
+
+    #[test]
+    fn a_bad_beds_line_comes_from_its_slice_offset() {
+        // Line 1 `{`, line 2 version, line 3 sections, line 4 section name, line 5 `"beds": [`,
+        // line 6 a good bed, line 7 the bad bed's `{`, line 8 its thickness (−2).
+        let text = "{\n\"format_version\": 1,\n\"sections\": [{\n\"name\": \"A\",\n\"beds\": [\n\
+                    {\"id\": 1, \"thickness_m\": 1.0, \"lithology\": \"mudstone\", \"grain_base\": \"silt\"},\n\
+                    {\"id\": 2,\n \"thickness_m\": \"thick\", \"lithology\": \"mudstone\", \"grain_base\": \"silt\"}\n]}]}";
+        let read = read_project_raw(text, &BedsToCheck::default());
+        let p = read
+            .problems
+            .iter()
+            .find(|p| p.location.ends_with("beds[1].thickness_m"))
+            .expect("the bad field");
+        assert_eq!(p.line, Some(8), "{:?}", read.problems);
+        let mut lines = LineCounter::default();
+        assert_eq!(lines.line_of(text, &text[text.find("\"beds\"").expect("beds")..]), Some(5));
+        assert_eq!(lines.line_of(text, &text[..1]), Some(1), "counting again from the start");
+        assert_eq!(lines.line_of(text, "elsewhere"), None);
     }
 
     #[test]

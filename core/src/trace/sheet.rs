@@ -228,12 +228,19 @@ impl TraceSheet {
     /// The Wentworth class at an image pixel: the nearest class on the calibrated scale, held to
     /// the classes that exist.
     pub fn grain_at(&self, p: Pt) -> Result<WentworthClass, SheetError> {
+        let rank = self.grain_rank_at(p)?.round();
+        let last = (WentworthClass::ALL.len() - 1) as f64;
+        Ok(WentworthClass::from_rank(rank.clamp(0.0, last) as usize))
+    }
+
+    /// The position across the grain-size scale at an image pixel, in Wentworth class ranks
+    /// (clay 0, silt 1 …), not rounded and not held to the scale: used to lay the sheet behind
+    /// the column's grain-size axis.
+    pub fn grain_rank_at(&self, p: Pt) -> Result<f64, SheetError> {
         let g = self.grain_scale.ok_or(SheetError::NoGrainScale)?;
         let t = self.along(p, g.fine_px, g.coarse_px, false, "grain-size-scale")?;
         let (r0, r1) = (g.fine.rank() as f64, g.coarse.rank() as f64);
-        let rank = (r0 + t * (r1 - r0)).round();
-        let last = (WentworthClass::ALL.len() - 1) as f64;
-        Ok(WentworthClass::from_rank(rank.clamp(0.0, last) as usize))
+        Ok(r0 + t * (r1 - r0))
     }
 
     /// The image pixel at a height, on the vertical through `near` (the inverse of `height_at`,

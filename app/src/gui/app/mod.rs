@@ -372,8 +372,10 @@ impl AggradeApp {
         self.left_panel(ui, &mut actions);
         self.right_panel(ui, &mut actions);
         egui::CentralPanel::default().frame(egui::Frame::NONE).show(ui, |ui| {
+            let backdrop =
+                self.tracing.view.as_mut().and_then(|v| v.canvas_backdrop(ui.ctx(), self.doc.section()));
             if let Some(c) = self.column.current_mut() {
-                self.canvas.ui(ui, &self.doc, &c.strip, &mut c.index, &mut actions);
+                self.canvas.ui(ui, &self.doc, &c.strip, &mut c.index, backdrop.as_ref(), &mut actions);
                 // Scrolled or zoomed past the laid-out heights: lay out around the new view next frame.
                 if !c.covers(self.canvas.view_y_mm()) {
                     ui.ctx().request_repaint();

@@ -10,7 +10,7 @@ use aggrade_core::model::{Bed, GrainSize, Lithology, Section, WentworthClass};
 use aggrade_core::trace::image::{SheetImage, SheetImageError};
 use aggrade_core::trace::snap::{snap_to_line, SnapParams};
 use aggrade_core::trace::{bed_at, GrainScale, HeightScale, Pt, TraceSheet};
-use backdrop::{display_pixels, Placement};
+use backdrop::{display_pixels, CanvasBackdrop, Placement};
 use egui::{Color32, Sense, Stroke, Vec2};
 use std::path::{Path, PathBuf};
 
@@ -49,6 +49,8 @@ pub struct TraceView {
     pan: Vec2,
     /// Snap boundary clicks to the darkest pencil line near them.
     pub snap: bool,
+    /// Lay the calibrated sheet behind the column canvas too.
+    pub behind_column: bool,
     low_text: String,
     high_text: String,
     fine: WentworthClass,
@@ -122,12 +124,41 @@ impl TraceView {
             zoom: 1.0,
             pan: Vec2::ZERO,
             snap: true,
+            behind_column: true,
             low_text: "0".into(),
             high_text: "1".into(),
             fine: WentworthClass::Clay,
             coarse: WentworthClass::Pebble,
             typed: String::new(),
             note: String::new(),
+        })
+    }
+
+    /// The display copy as a texture, made again when brightness or contrast change.
+    fn ensure_texture(&mut self, ctx: &egui::Context, view: &aggrade_core::trace::BackdropView) {
+        let key = [((view.brightness * 1000.0) as i32) as u32, ((view.contrast * 1000.0) as i32) as u32];
+        if self.texture.as_ref().is_none_or(|(_, k)| *k != key) {
+            let pixels = display_pixels(&self.image, view);
+            let tex = ctx.load_texture("trace-sheet", pixels, egui::TextureOptions::LINEAR);
+            self.texture = Some((tex, key));
+        }
+    }
+
+    /// What the column canvas needs to lay the sheet behind it: the texture, the full image size
+    /// in pixels (the calibration's units) and the opacity; `None` when switched off or when the
+    /// height scale is not calibrated yet.
+    pub fn canvas_backdrop(&mut self, ctx: &egui::Context, section: &Section) -> Option<CanvasBackdrop> {
+        let sheet = section.trace.as_ref()?;
+        if !self.behind_column || sheet.height_scale.is_none() {
+            return None;
+        }
+        self.ensure_texture(ctx, &sheet.view);
+        let (tex, _) = self.texture.as_ref()?;
+        Some(CanvasBackdrop {
+            sheet: sheet.clone(),
+            texture: tex.id(),
+            image_size: [self.image.width, self.image.height],
+            opacity: sheet.view.opacity,
         })
     }
 
@@ -311,16 +342,14 @@ impl TraceView {
                     self.mode = Mode::Look;
                 }
                 ui.checkbox(&mut self.snap, "Snap to pencil lines");
+                ui.checkbox(&mut self.behind_column, "Show behind the column").on_hover_text(
+                    "Lay the sheet behind the column at its calibrated heights (and grain sizes), at the opacity set above",
+                );
                 if ui.button("Take the sheet off").on_hover_text("Remove the image and its calibration from the section (Ctrl+Z brings it back)").clicked() {
                     outcome = Outcome::Apply(Box::new(Edit::SetTrace { trace: None }), None);
                 }
             });
-            let key = [((view.brightness * 1000.0) as i32) as u32, ((view.contrast * 1000.0) as i32) as u32];
-            if self.texture.as_ref().is_none_or(|(_, k)| *k != key) {
-                let pixels = display_pixels(&self.image, &view);
-                let tex = ctx.load_texture("trace-sheet", pixels, egui::TextureOptions::LINEAR);
-                self.texture = Some((tex, key));
-            }
+            self.ensure_texture(ctx, &view);
             let (rect, response) = ui.allocate_exact_size(ui.available_size().max(Vec2::splat(100.0)) - Vec2::new(0.0, 22.0), Sense::click_and_drag());
             let size = Vec2::new(self.image.width as f32, self.image.height as f32);
             let place = Placement::fit(rect, size, view.rotation_deg, self.zoom, self.pan);
