@@ -53,15 +53,21 @@ pub fn candidates(
     // What sits at each bed boundary (indexed by the bed above it); most have nothing.
     let mut sites: Vec<Site> = Vec::new();
     sites.resize_with(n, Site::default);
+    // A channel base is a site when erosional, or when it rests on a paleosol profile's top
+    // (a channel on the soil, whatever its contact: then the soil is no interfluve).
+    let mut body_starting_at: Vec<Option<usize>> = vec![None; n];
     for (k, body) in bodies.iter().enumerate() {
         let (first, _) = body_beds(body, storeys);
+        body_starting_at[first] = Some(k);
         if beds[first].base_contact == Contact::Erosional {
             sites[first].body = Some(k);
         }
     }
     for (k, p) in paleosols.iter().enumerate() {
         if p.last_bed + 1 < n {
-            sites[p.last_bed + 1].on_paleosol = Some(k);
+            let j = p.last_bed + 1;
+            sites[j].on_paleosol = Some(k);
+            sites[j].body = sites[j].body.or(body_starting_at[j]);
         }
     }
     for (i, bed) in beds.iter().enumerate() {
@@ -148,8 +154,11 @@ pub fn candidates(
         if let Some(b) = body {
             let w = params.boundary_window_m;
             let available_m = w.min(height_m);
-            let below_bodies: Vec<&ChannelBody> =
-                bodies.iter().filter(|o| o.top_m <= height_m + TOL && o.top_m > height_m - w + TOL).collect();
+            // Bodies are in rising order and do not overlap, so their tops rise too: the bodies
+            // ending in the window are found by two bisections, not a scan per base.
+            let lo = bodies.partition_point(|o| o.top_m <= height_m - w + TOL);
+            let hi = bodies.partition_point(|o| o.top_m <= height_m + TOL);
+            let below_bodies: &[ChannelBody] = bodies.get(lo..hi).unwrap_or_default();
             let coarsest_below: Option<WentworthClass> =
                 below_bodies.iter().filter_map(|o| o.grain_coarsest.map(|g| g.class())).max();
             if let (Some(up), Some(down)) = (b.grain_coarsest.map(|g| g.class()), coarsest_below) {
@@ -180,7 +189,11 @@ pub fn candidates(
         // with no channel on it.
         if body.is_some() {
             if let Some(p) = mature_profile(j - 1) {
-                evidence.push(Evidence::ErodesIntoPaleosol { development: p.maturity });
+                evidence.push(if above.base_contact == Contact::Erosional {
+                    Evidence::ErodesIntoPaleosol { development: p.maturity }
+                } else {
+                    Evidence::RestsOnPaleosol { development: p.maturity }
+                });
             } else if let (Some(r), Some(s)) = (relief_m, last_mature[j - 1]) {
                 let depth_m = height_m - column.bounds_m[s + 1];
                 if depth_m < r - TOL {
@@ -372,5 +385,30 @@ mod tests {
         assert_eq!(all.sequence_boundary_candidates.len(), 1);
         assert_eq!(all.sequence_boundary_candidates[0].strength, Strength::Weak);
         assert_eq!(all.unlisted_candidates, 0);
+    }
+
+    #[test]
+    fn a_channel_on_a_mature_soil_is_no_interfluve_whatever_its_contact() {
+        // Mud 0–3 | very strong paleosol 3–4 | sharp-based channel sand 4–6 (thick, cross-bedded:
+        // a channel storey by the decision table) | mud 6–9. The soil has a channel on it, so it
+        // is evidence of a channel base on a mature profile (one kind, moderate), not an
+        // interfluve paleosol (strong on its own).
+        let mut channel =
+            Bed::new(BedId(0), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
+        channel.structures.push(crate::model::Structure::TroughCrossBedding);
+        let s = section(vec![
+            mud(3.0, PaleosolDevelopment::None),
+            mud(1.0, PaleosolDevelopment::VeryStrong),
+            channel,
+            mud(3.0, PaleosolDevelopment::None),
+        ]);
+        let r = interpret(&s, &RuleParams::default());
+        assert_eq!(r.channel_bodies.len(), 1, "{:?}", r.elements);
+        let c = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 2).expect("candidate");
+        assert_eq!(c.kind, CandidateKind::ChannelBaseOnPaleosol);
+        assert_eq!(c.strength, Strength::Moderate, "{c:?}");
+        let words: Vec<String> = c.evidence.iter().map(ToString::to_string).collect();
+        assert!(words.iter().any(|w| w.contains("rests directly on a paleosol of very strong")), "{words:?}");
+        assert!(words.iter().all(|w| !w.contains("interfluve")), "{words:?}");
     }
 }

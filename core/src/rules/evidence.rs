@@ -51,9 +51,9 @@ pub enum EvidenceKind {
 pub enum Evidence {
     /// Site: the base of a multi-story body.
     MultiStoryBase { storeys: usize },
-    /// Site: the erosional base of a single-story body.
+    /// Site: the base of a single-story body.
     SingleStoryBase,
-    /// Site: the erosional base of a body seen only in part (one storey seen).
+    /// Site: the base of a body seen only in part (one storey seen).
     PartlySeenBodyBase,
     /// Site: the top of a paleosol profile short of mature.
     PaleosolTop { development: PaleosolDevelopment },
@@ -76,8 +76,10 @@ pub enum Evidence {
     },
     /// Facies shift: an amalgamated body above only isolated ones in the stretch below.
     AmalgamatedOverIsolated { storeys: usize, isolated_below: usize, available_m: f64, window_m: f64 },
-    /// On a mature paleosol: a channel base directly on a mature profile.
+    /// On a mature paleosol: an erosional channel base directly on a mature profile.
     ErodesIntoPaleosol { development: PaleosolDevelopment },
+    /// On a mature paleosol: a channel base of another contact directly on a mature profile.
+    RestsOnPaleosol { development: PaleosolDevelopment },
     /// On a mature paleosol: a channel base whose relief reaches down to a mature profile.
     ReliefReachesPaleosol { relief_m: f64, development: PaleosolDevelopment, depth_m: f64 },
     /// Interfluve paleosol: a mature profile on floodplain fines, with no channel on it.
@@ -113,7 +115,9 @@ impl Evidence {
                 Some(EvidenceKind::Incision)
             }
             CoarserFill { .. } | AmalgamatedOverIsolated { .. } => Some(EvidenceKind::BasinwardFaciesShift),
-            ErodesIntoPaleosol { .. } | ReliefReachesPaleosol { .. } => Some(EvidenceKind::OnMaturePaleosol),
+            ErodesIntoPaleosol { .. } | RestsOnPaleosol { .. } | ReliefReachesPaleosol { .. } => {
+                Some(EvidenceKind::OnMaturePaleosol)
+            }
             InterfluvePaleosol { .. } | SandstoneTopPaleosol { .. } => Some(EvidenceKind::InterfluvePaleosol),
             _ => None,
         }
@@ -141,9 +145,9 @@ impl fmt::Display for Evidence {
             MultiStoryBase { storeys } => {
                 write!(f, "base of a multi-story (amalgamated) channel body of {storeys} storeys")
             }
-            SingleStoryBase => f.write_str("erosional base of a single-story channel body"),
+            SingleStoryBase => f.write_str("base of a single-story channel body"),
             PartlySeenBodyBase => f.write_str(
-                "erosional base of a channel body seen only in part (stacking undetermined)",
+                "base of a channel body seen only in part (stacking undetermined)",
             ),
             PaleosolTop { development } => write!(f, "top of a paleosol of {} development", development.name()),
             NamedSurface { name } => write!(f, "the geologist's surface \"{name}\""),
@@ -175,6 +179,9 @@ impl fmt::Display for Evidence {
             ),
             ErodesIntoPaleosol { development } => {
                 write!(f, "erodes directly into a paleosol of {} development", development.name())
+            }
+            RestsOnPaleosol { development } => {
+                write!(f, "channel base rests directly on a paleosol of {} development", development.name())
             }
             ReliefReachesPaleosol { relief_m, development, depth_m } => write!(
                 f,
