@@ -40,9 +40,10 @@ fn an_interfluve_soil_and_a_facies_shift_outrank_ordinary_meander_belt_bases() {
     //   the interfluve expression of a sequence boundary (McCarthy & Plint 1998; Kraus 1999):
     //   strong on its own, score 0.30.
     // - 27 m: a basinward facies shift (Van Wagoner et al. 1990; Posamentier & Allen 1999): the
-    //   fill reaches very coarse sand, 2 Wentworth classes above the medium sand of the one fill
-    //   in the 10 m below (17–27 m), and the body is amalgamated over an isolated one. Two items
-    //   of one kind count once: moderate, score 0.25.
+    //   fill is mostly coarse sand (thickness-weighted median of 2 m very coarse → coarse and 2 m
+    //   coarse → medium, half of each bed at each end), 2 Wentworth classes above the one fill in
+    //   the 10 m below (17–27 m: medium → fine, median fine sand), and the body is amalgamated
+    //   over an isolated one. Two items of one kind count once: moderate, score 0.25.
     // - 4, 11 and 21 m: sand on mud and nothing more. The first rules scored these for the
     //   grain-size step, for the proportion rise in the window above (which held the channel
     //   itself) and, at 21 and 27 m, for multi-story bases; none is evidence now: weak, score 0.

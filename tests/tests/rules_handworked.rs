@@ -378,8 +378,9 @@ fn a_full_base_level_cycle_ranks_the_two_incisions_first() {
     // Working, with the evidence kinds of Van Wagoner et al. 1990 and Posamentier & Allen 1999
     // (each kind once; being a channel base is none):
     // 40 m: incision (5 m relief > the 4 m thickest storey of its own body; Gibling 2006),
-    //   basinward facies shift (pebble fill over the medium-sand fill of the 32 m body, 4
-    //   Wentworth classes ≥ 2; and amalgamated over isolated in the 10 m below), on a mature
+    //   basinward facies shift (a fill mostly of coarse sand — the thickness-weighted median of
+    //   2 m pebble and 4 m coarse sand — over the 32 m body's medium-to-fine fill, median fine
+    //   sand: 2 Wentworth classes ≥ 2; and amalgamated over isolated in the 10 m below), on a mature
     //   paleosol (very strong, 38–40 m) → 3 kinds, strong, score 0.30 + 0.25 + 0.25 = 0.80.
     // 5 m: incision (4 m relief > the 3 m relief limit; its thickest storey is 4.2 m), on a
     //   mature paleosol (strong, 3–5 m); no channel fill below to compare → 2 kinds, strong, 0.55.

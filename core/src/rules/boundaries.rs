@@ -90,6 +90,17 @@ pub fn candidates(
         decisions.entry(d.bed).or_insert(d);
     }
 
+    // Each body's fill grain: the thickness-weighted median Wentworth class of its sand and
+    // gravel beds, basal lags left out (a lag is the floor of a storey, not its fill: one
+    // pebble lag must not make a medium-sand fill read as gravel).
+    let fill_grain: Vec<Option<WentworthClass>> = bodies
+        .iter()
+        .map(|b| {
+            let (first, last) = body_beds(b, storeys);
+            fill_median(&beds[first..=last.min(n.saturating_sub(1)).max(first)], params)
+        })
+        .collect();
+
     let thickest_storey = |body: &ChannelBody| {
         body.storey_indices.iter().map(|&k| storeys[k].top_m - storeys[k].base_m).fold(0.0, f64::max)
     };
@@ -151,7 +162,7 @@ pub fn candidates(
 
         // Basinward facies shift: the fill above against the channel fills of the stretch below
         // (whole bodies ending within the window; never the mud under this base).
-        if let Some(b) = body {
+        if let (Some(k), Some(b)) = (site.body, body) {
             let w = params.boundary_window_m;
             let available_m = w.min(height_m);
             // Bodies are in rising order and do not overlap, so their tops rise too: the bodies
@@ -160,8 +171,8 @@ pub fn candidates(
             let hi = bodies.partition_point(|o| o.top_m <= height_m + TOL);
             let below_bodies: &[ChannelBody] = bodies.get(lo..hi).unwrap_or_default();
             let coarsest_below: Option<WentworthClass> =
-                below_bodies.iter().filter_map(|o| o.grain_coarsest.map(|g| g.class())).max();
-            if let (Some(up), Some(down)) = (b.grain_coarsest.map(|g| g.class()), coarsest_below) {
+                fill_grain.get(lo..hi).unwrap_or_default().iter().flatten().max().copied();
+            if let (Some(up), Some(down)) = (fill_grain[k], coarsest_below) {
                 let classes = up.rank().saturating_sub(down.rank());
                 if classes >= params.facies_shift_min_classes.max(1) {
                     evidence.push(Evidence::CoarserFill {
@@ -253,6 +264,34 @@ pub fn candidates(
     });
     let mut slots: Vec<Option<BoundaryCandidate>> = found.into_iter().map(Some).collect();
     (order.into_iter().filter_map(|k| slots[k].take()).collect(), unlisted)
+}
+
+/// The thickness-weighted median Wentworth class of the sand and gravel beds of a fill, basal
+/// lags left out; a graded bed counts half at its base class and half at its top class. `None`
+/// when no such bed has a grain size.
+fn fill_median(beds: &[crate::model::Bed], params: &RuleParams) -> Option<WentworthClass> {
+    let mut parts: Vec<(WentworthClass, f64)> = Vec::new();
+    for bed in beds.iter().filter(|b| is_sand_or_gravel(b) && !super::elements::is_lag(b, params)) {
+        let t = bed.usable_thickness_m();
+        let (base, top) = (bed.grain_base.or(bed.grain_top), bed.grain_top.or(bed.grain_base));
+        if let (Some(b), Some(u)) = (base, top) {
+            parts.push((b.class(), t / 2.0));
+            parts.push((u.class(), t / 2.0));
+        }
+    }
+    let total: f64 = parts.iter().map(|p| p.1).sum();
+    if total.is_nan() || total <= 0.0 {
+        return None;
+    }
+    parts.sort_by_key(|p| p.0);
+    let mut run = 0.0;
+    for (class, t) in parts {
+        run += t;
+        if run >= total / 2.0 - TOL {
+            return Some(class);
+        }
+    }
+    None
 }
 
 /// The strength class and ordering score of a candidate from its evidence items.
@@ -410,5 +449,35 @@ mod tests {
         let words: Vec<String> = c.evidence.iter().map(ToString::to_string).collect();
         assert!(words.iter().any(|w| w.contains("rests directly on a paleosol of very strong")), "{words:?}");
         assert!(words.iter().all(|w| !w.contains("interfluve")), "{words:?}");
+    }
+
+    #[test]
+    fn a_thin_pebble_lag_does_not_make_a_fill_coarse() {
+        // Two medium-sand channels in mud, 5 m apart; the upper one has a 0.2 m pebble lag at its
+        // base (thinner than the 0.5 m lag limit: the storey's floor, not its fill). Fill
+        // against fill, both are medium sand: no facies shift. Read by its coarsest grain, the
+        // upper fill would be pebble, 4 classes coarser than the lower: a false shift.
+        let sand = |t: f64, class: WentworthClass| {
+            let mut b = Bed::new(BedId(0), t, Lithology::Sandstone, Some(GrainSize::Class(class)));
+            b.base_contact = Contact::Erosional;
+            b
+        };
+        let mut lag = sand(0.2, WentworthClass::Pebble);
+        lag.lithology = Lithology::Conglomerate;
+        let mut upper = sand(2.0, WentworthClass::MediumSand);
+        upper.base_contact = Contact::Sharp;
+        let none = PaleosolDevelopment::None;
+        let s = section(vec![
+            mud(3.0, none),
+            sand(2.0, WentworthClass::MediumSand),
+            mud(5.0, none),
+            lag,
+            upper,
+            mud(3.0, none),
+        ]);
+        let r = interpret(&s, &RuleParams::default());
+        let c = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 3).expect("the lagged base");
+        assert!(c.evidence.iter().all(|e| e.kind().is_none()), "{:?}", c.evidence);
+        assert_eq!(c.strength, Strength::Weak);
     }
 }

@@ -65,7 +65,8 @@ pub enum Evidence {
     ReliefOverLimit { relief_m: f64, limit_m: f64 },
     /// Incision: erosional relief beyond the thickest storey of the body it cuts into.
     ReliefOverStorey { relief_m: f64, storey_m: f64, cuts_into_own_body: bool },
-    /// Facies shift: the channel fill above is coarser than every fill in the stretch below.
+    /// Facies shift: the channel fill above (its thickness-weighted median class, lags left out)
+    /// is coarser than every fill in the stretch below.
     CoarserFill {
         above: WentworthClass,
         below: WentworthClass,
@@ -165,8 +166,8 @@ impl fmt::Display for Evidence {
             ),
             CoarserFill { above, below, classes, bodies_below, available_m, window_m } => write!(
                 f,
-                "channel fill above reaches {}, {classes} Wentworth classes coarser than the coarsest of the {bodies_below} \
-                 channel fill{} in the {} below ({})",
+                "channel fill above is mostly {}, {classes} Wentworth classes coarser than the coarsest of the {bodies_below} \
+                 channel fill{} in the {} below ({}; thickness-weighted median grain, lags left out)",
                 above.name(),
                 if *bodies_below == 1 { "" } else { "s" },
                 WindowText(*available_m, *window_m),
@@ -390,8 +391,9 @@ mod tests {
         };
         assert_eq!(
             e.to_string(),
-            "channel fill above reaches very coarse sand, 2 Wentworth classes coarser than the coarsest of the 1 \
-             channel fill in the 6.50 m (all the section has of the 10 m window) below (medium sand)"
+            "channel fill above is mostly very coarse sand, 2 Wentworth classes coarser than the coarsest of the 1 \
+             channel fill in the 6.50 m (all the section has of the 10 m window) below (medium sand; \
+             thickness-weighted median grain, lags left out)"
         );
         assert_eq!(e.kind(), Some(EvidenceKind::BasinwardFaciesShift));
         assert_eq!(Evidence::SingleStoryBase.kind(), None);

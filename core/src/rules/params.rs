@@ -88,8 +88,9 @@ pub struct RuleParams {
     /// thicknesses, as the curve window).
     pub boundary_window_m: f64,
     /// The channel fill above a base counts as markedly coarser than the fills below when its
-    /// coarsest grain exceeds the coarsest of every channel fill in the window below by at least
-    /// this many Wentworth classes. Default 2 classes (e.g. medium to very coarse sand): common
+    /// grain (the thickness-weighted median class of its sand and gravel beds, basal lags left
+    /// out) exceeds that of every channel fill in the window below by at least this many
+    /// Wentworth classes. Default 2 classes (e.g. medium to very coarse sand): common
     /// practice (one class is within the spread of one river's deposits).
     pub facies_shift_min_classes: usize,
     /// Weight of *incision* in a candidate's score (which only orders candidates within a
