@@ -74,7 +74,7 @@ impl LegendEntry {
             LegendEntry::Regime(Regime::Low) => "low accommodation".into(),
             LegendEntry::Regime(Regime::High) => "high accommodation".into(),
             LegendEntry::Regime(Regime::Undetermined) => "accommodation undetermined".into(),
-            LegendEntry::Boundary(ReviewState::Candidate) => "seq. boundary candidate, score".into(),
+            LegendEntry::Boundary(ReviewState::Candidate) => "seq. boundary candidate, strength".into(),
             LegendEntry::Boundary(ReviewState::Accepted) => "seq. boundary, accepted".into(),
             LegendEntry::Boundary(ReviewState::Rejected) => "candidate rejected".into(),
         }
