@@ -12,7 +12,7 @@ use super::column::{is_sand_or_gravel, Column, TOL};
 use super::evidence::{Evidence, EvidenceKind};
 use super::params::RuleParams;
 use super::types::{
-    BoundaryCandidate, CandidateKind, ChannelBody, PaleosolProfile, Stacking, Storey, Strength,
+    BoundaryCandidate, CandidateKind, Censor, ChannelBody, PaleosolProfile, Stacking, Storey, Strength,
 };
 use crate::model::{Contact, PaleosolDevelopment, Section, SurfaceKind, WentworthClass};
 use std::collections::{BTreeMap, BTreeSet};
@@ -58,6 +58,11 @@ pub fn candidates(
     let mut body_starting_at: Vec<Option<usize>> = vec![None; n];
     for (k, body) in bodies.iter().enumerate() {
         let (first, _) = body_beds(body, storeys);
+        // A body whose base is not seen (it lies on a covered interval) has no base to offer:
+        // where the surface is, somewhere in the cover, is unknown.
+        if body.censored.contains(&Censor::Base) {
+            continue;
+        }
         body_starting_at[first] = Some(k);
         if beds[first].base_contact == Contact::Erosional {
             sites[first].body = Some(k);
@@ -82,6 +87,21 @@ pub fn candidates(
     for i in 0..n {
         let prev = if i > 0 { last_mature[i - 1] } else { None };
         last_mature.push(if mature_profile(i).is_some() { Some(i) } else { prev });
+    }
+
+    // Mature profiles that a channel's relief cuts down into further up: their tops are no
+    // interfluve (a channel did come down on them), whatever lies on them at the section.
+    let mut cut_by_channel: Vec<Option<f64>> = vec![None; paleosols.len()];
+    for (j, site) in sites.iter().enumerate().skip(1) {
+        let relief = beds[j].base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
+        if let (Some(_), Some(r), Some(s)) = (site.body, relief, last_mature[j - 1]) {
+            let depth_m = column.bounds_m[j] - column.bounds_m[s + 1];
+            if depth_m < r - TOL && beds[j].base_contact == Contact::Erosional {
+                if let Some(k) = profile_of[s] {
+                    cut_by_channel[k].get_or_insert(column.bounds_m[j]);
+                }
+            }
+        }
     }
 
     // The first decision recorded for a bed wins, as in `Section::decision_for`.
@@ -120,7 +140,9 @@ pub fn candidates(
         // What the surface is (site descriptions; no weight).
         if let Some(b) = body {
             evidence.push(match b.stacking {
-                Stacking::MultiStory => Evidence::MultiStoryBase { storeys: b.stories },
+                Stacking::MultiStory => {
+                    Evidence::MultiStoryBase { storeys: b.stories, amalgamated_bases: b.amalgamated_bases }
+                }
                 Stacking::SingleStory => Evidence::SingleStoryBase,
                 Stacking::Undetermined => Evidence::PartlySeenBodyBase,
             });
@@ -186,7 +208,11 @@ pub fn candidates(
                 }
             }
             let isolated = below_bodies.iter().filter(|o| o.stacking == Stacking::SingleStory).count();
-            if b.stacking == Stacking::MultiStory && isolated > 0 && isolated == below_bodies.len() {
+            if b.stacking == Stacking::MultiStory
+                && b.amalgamated_bases > 0
+                && isolated > 0
+                && isolated == below_bodies.len()
+            {
                 evidence.push(Evidence::AmalgamatedOverIsolated {
                     storeys: b.stories,
                     isolated_below: isolated,
@@ -212,8 +238,15 @@ pub fn candidates(
                     evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
                 }
             }
-        } else if let Some(p) = profile_below.filter(|p| p.maturity.is_strong()) {
-            if is_sand_or_gravel(below) {
+        } else if let Some((k, p)) =
+            site.on_paleosol.map(|k| (k, &paleosols[k])).filter(|(_, p)| p.maturity.is_strong())
+        {
+            if above.is_covered() {
+                // Whether a channel rests on it is not seen.
+                evidence.push(Evidence::TopCovered { development: p.maturity });
+            } else if let Some(at_m) = cut_by_channel[k] {
+                evidence.push(Evidence::CutByChannelAbove { development: p.maturity, at_m });
+            } else if is_sand_or_gravel(below) {
                 evidence.push(Evidence::SandstoneTopPaleosol { development: p.maturity });
             } else {
                 evidence.push(Evidence::InterfluvePaleosol {
@@ -224,7 +257,8 @@ pub fn candidates(
         }
 
         let (strength, score) = strength_and_score(&evidence, params);
-        if !all && strength == Strength::Weak && body.is_none() && surface_name.is_none() {
+        let mature_here = profile_below.is_some_and(|p| p.maturity.is_strong());
+        if !all && strength == Strength::Weak && body.is_none() && surface_name.is_none() && !mature_here {
             unlisted += 1;
             continue;
         }
@@ -353,7 +387,8 @@ mod tests {
     fn relief_reaching_a_strong_paleosol_counts_as_truncating_it() {
         // mud 0–3 | strong paleosol 3–4 | mud 4–4.5 | channel 4.5–6.5 (erosional, 1 m relief).
         // The paleosol top lies 0.5 m below the channel base, within the 1 m relief: truncated.
-        // Its own top (4 m) is overlain by mud: an interfluve-type candidate of its own.
+        // Its own top (4 m) is then no interfluve — a channel came down on it — and is listed
+        // (a mature soil) as weak, saying so; the evidence goes with the channel base.
         let mut channel =
             Bed::new(BedId(0), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
         channel.base_contact = Contact::Erosional;
@@ -377,16 +412,48 @@ mod tests {
         assert_eq!(base.strength, Strength::Moderate, "one kind of evidence: {base:?}");
         let top = at(4.0).expect("paleosol-top candidate");
         assert_eq!(top.kind, CandidateKind::PaleosolTop);
-        assert_eq!(top.strength, Strength::Moderate);
-        assert!((top.score - p.weight_interfluve_paleosol).abs() < 1e-12, "{top:?}");
+        assert_eq!(top.strength, Strength::Weak, "{top:?}");
+        assert!(top
+            .evidence
+            .iter()
+            .any(|e| e.to_string().contains("the channel based at 4.50 m cuts down into")));
 
-        // With 0.4 m of relief the channel does not reach the paleosol.
+        // With 0.4 m of relief the channel does not reach the paleosol, whose top is then an
+        // interfluve-type candidate of its own (one kind, moderate).
         let mut shallow = s.clone();
         shallow.beds[3].base_relief_m = Some(0.4);
         let r = interpret(&shallow, &p);
         let base = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 3).expect("candidate");
         assert!(base.evidence.iter().all(|e| !e.to_string().contains("relief reaches")), "{base:?}");
         assert_eq!(base.strength, Strength::Weak, "a channel base and nothing more: {base:?}");
+        let top = r.sequence_boundary_candidates.iter().find(|c| c.bed_index == 2).expect("soil top");
+        assert_eq!(top.strength, Strength::Moderate);
+        assert!((top.score - p.weight_interfluve_paleosol).abs() < 1e-12, "{top:?}");
+    }
+
+    #[test]
+    fn a_soil_under_a_cover_is_no_interfluve_and_a_base_on_a_cover_is_no_candidate() {
+        // mud 0–3 | very strong paleosol 3–4 | covered 4–6 | channel 6–8 (erosional) | mud 8–10.
+        // Whether anything rests on the soil is not seen: listed (a mature soil) but weak. The
+        // channel's base lies somewhere in the cover: not offered as a candidate.
+        let mut channel =
+            Bed::new(BedId(0), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
+        channel.base_contact = Contact::Erosional;
+        let s = section(vec![
+            mud(3.0, PaleosolDevelopment::None),
+            mud(1.0, PaleosolDevelopment::VeryStrong),
+            Bed::new(BedId(0), 2.0, Lithology::Covered, None),
+            channel,
+            mud(2.0, PaleosolDevelopment::None),
+        ]);
+        let r = interpret(&s, &RuleParams::default());
+        let c = &r.sequence_boundary_candidates;
+        assert_eq!(c.len(), 1, "{c:?}");
+        assert_eq!((c[0].bed_index, c[0].strength), (2, Strength::Weak));
+        assert!(c[0]
+            .evidence
+            .iter()
+            .any(|e| e.to_string().contains("whether a channel rests on it is not seen")));
     }
 
     #[test]

@@ -50,13 +50,19 @@ pub enum EvidenceKind {
 #[derive(Debug, Clone, PartialEq)]
 pub enum Evidence {
     /// Site: the base of a multi-story body.
-    MultiStoryBase { storeys: usize },
+    MultiStoryBase { storeys: usize, amalgamated_bases: usize },
     /// Site: the base of a single-story body.
     SingleStoryBase,
     /// Site: the base of a body seen only in part (one storey seen).
     PartlySeenBodyBase,
     /// Site: the top of a paleosol profile short of mature.
     PaleosolTop { development: PaleosolDevelopment },
+    /// Site: a mature profile's top under a covered interval: whether a channel rests on it is not
+    /// seen, so it is no interfluve evidence.
+    TopCovered { development: PaleosolDevelopment },
+    /// Site: a mature profile's top that a channel's relief cuts down into further up (at
+    /// `at_m`): no interfluve; the evidence goes with that channel's base.
+    CutByChannelAbove { development: PaleosolDevelopment, at_m: f64 },
     /// Site: a bed base the geologist named, of a kind other than an incision surface.
     NamedSurface { name: String },
     /// Incision: the geologist tagged the bed base as an incision surface.
@@ -143,15 +149,26 @@ impl fmt::Display for Evidence {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         use Evidence::*;
         match self {
-            MultiStoryBase { storeys } => {
-                write!(f, "base of a multi-story (amalgamated) channel body of {storeys} storeys")
-            }
+            MultiStoryBase { storeys, amalgamated_bases } => write!(
+                f,
+                "base of a multi-story channel body of {storeys} storeys ({amalgamated_bases} resting on channel sand)"
+            ),
             SingleStoryBase => f.write_str("base of a single-story channel body"),
             PartlySeenBodyBase => f.write_str(
                 "base of a channel body seen only in part (stacking undetermined)",
             ),
             PaleosolTop { development } => write!(f, "top of a paleosol of {} development", development.name()),
             NamedSurface { name } => write!(f, "the geologist's surface \"{name}\""),
+            TopCovered { development } => write!(
+                f,
+                "top of a paleosol of {} development under a covered interval: whether a channel rests on it is not seen",
+                development.name()
+            ),
+            CutByChannelAbove { development, at_m } => write!(
+                f,
+                "top of a paleosol of {} development that the channel based at {at_m:.2} m cuts down into (no interfluve)",
+                development.name()
+            ),
             IncisionTagged { name } if name.trim().is_empty() => {
                 f.write_str("tagged by the geologist as an incision surface")
             }

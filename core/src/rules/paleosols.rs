@@ -91,11 +91,22 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
             continue;
         }
         let on_sandstone = beds[first..=last].iter().any(is_sand_or_gravel);
-        let poorly_drained = beds[first..=last].iter().any(|b| {
+        // Drainage is read from the horizons that carry the profile's maturity (its most
+        // developed beds and those of its highest carbonate stage): a mottled weak horizon
+        // under a stage IV calcic horizon does not make a mature, well-drained soil wet
+        // (Kraus 1999; Machette 1985).
+        let profile = &beds[first..=last];
+        let key = |b: &&Bed| {
+            b.paleosol == logged_development
+                || (carbonate_stage.is_some() && b.carbonate_stage == carbonate_stage)
+        };
+        let wet = |b: &&Bed| {
             b.paleosol_features
                 .iter()
                 .any(|f| matches!(f, PaleosolFeature::Gleying | PaleosolFeature::Mottling))
-        });
+                || b.structures.contains(&Structure::Mottling)
+        };
+        let poorly_drained = profile.iter().filter(key).any(|b| wet(&b));
         out.push(PaleosolProfile {
             base_m: column.bounds_m[first],
             top_m: column.bounds_m[last + 1],
