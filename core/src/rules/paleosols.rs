@@ -157,6 +157,26 @@ mod tests {
     }
 
     #[test]
+    fn drainage_is_read_from_the_horizons_that_carry_the_maturity() {
+        // A mottled weak horizon under a stage IV calcic horizon (Machette 1985: a well-drained,
+        // long-lived soil): the profile is mature and well drained. Gleying in the calcic
+        // horizon itself makes it poorly drained (Kraus 1999).
+        use PaleosolDevelopment::*;
+        let mut wet_below = mud(Weak);
+        wet_below.paleosol_features.push(PaleosolFeature::Mottling);
+        let mut calcic = mud(Strong);
+        calcic.carbonate_stage = Some(4);
+        calcic.paleosol_features.push(PaleosolFeature::CarbonateNodules);
+        let p = run(vec![mud(None), wet_below.clone(), calcic.clone(), mud(None)], &RuleParams::default());
+        assert_eq!(p.len(), 1);
+        assert_eq!((p[0].maturity, p[0].poorly_drained), (VeryStrong, false));
+        let mut gleyed = calcic;
+        gleyed.paleosol_features.push(PaleosolFeature::Gleying);
+        let p = run(vec![mud(None), wet_below, gleyed, mud(None)], &RuleParams::default());
+        assert!(p[0].poorly_drained);
+    }
+
+    #[test]
     fn horizons_logged_as_beds_make_one_profile() {
         // A (weak) over Bk (moderate, nodules, stage II) over plain mud: one profile of two beds,
         // maturity moderate (stage II is below the stage III threshold).
