@@ -1,7 +1,10 @@
 //! Property tests of the interpretation rules on generated sections: proportions stay in 0–1,
 //! bodies never overlap and lie inside the section, covered intervals between bodies change no
 //! channel-deposit thickness, and the unit thicknesses were entered in does not matter; storeys,
-//! bodies, censoring and stacking agree with each other and the proportion lies between its bounds.
+//! bodies, censoring and stacking agree with each other and the proportion lies between its bounds;
+//! candidates are sorted by strength and their strength follows their evidence kinds; regimes
+//! never straddle a cut (accepted boundaries, else strong candidates); listing every candidate
+//! adds only weak soil tops and changes nothing else.
 
 use aggrade_core::model::{
     Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, Section, WentworthClass,
@@ -151,6 +154,66 @@ proptest! {
         let s = build(&beds, LengthUnit::Metre);
         let r = interpret(&s, &RuleParams::default());
         check_invariants(&s, &r)?;
+    }
+
+    #[test]
+    fn regimes_never_straddle_a_cut_and_accepted_boundaries_are_the_cuts(
+        beds in prop::collection::vec(bed_strategy(), 1..60),
+        accept in prop::collection::vec(any::<prop::sample::Index>(), 0..3),
+    ) {
+        // The rule (Shanley & McCabe 1994 read stacking within sequences): one regime per
+        // stretch between accepted boundaries, else strong candidates; never across one.
+        use aggrade_core::model::{ReviewDecision, ReviewState};
+        use aggrade_core::rules::Strength;
+        let mut s = build(&beds, LengthUnit::Metre);
+        for k in &accept {
+            let i = k.index(s.beds.len());
+            s.review.push(ReviewDecision::new(s.beds[i].id, ReviewState::Accepted, ""));
+        }
+        let r = interpret(&s, &RuleParams::default());
+        let bases = s.base_heights_m();
+        let total = s.total_thickness_m();
+        if accept.is_empty() {
+            let mut strong: Vec<f64> = r.sequence_boundary_candidates.iter()
+                .filter(|c| c.strength == Strength::Strong).map(|c| c.height_m).collect();
+            strong.sort_by(f64::total_cmp);
+            prop_assert_eq!(&r.cut_heights, &strong);
+            prop_assert!(!r.cuts_are_accepted || r.cut_heights.is_empty());
+        } else {
+            prop_assert!(r.cuts_are_accepted);
+            for k in &accept {
+                let h = bases[k.index(s.beds.len())];
+                prop_assert!(r.cut_heights.iter().any(|c| (c - h).abs() < 1e-9), "accepted {} not a cut", h);
+            }
+        }
+        for a in &r.accommodation {
+            for &c in r.cut_heights.iter().filter(|c| **c > 1e-9 && **c < total - 1e-9) {
+                prop_assert!(!(a.base_m < c - 1e-9 && a.top_m > c + 1e-9),
+                    "regime {}–{} straddles the cut at {}", a.base_m, a.top_m, c);
+            }
+        }
+    }
+
+    #[test]
+    fn listing_every_candidate_adds_only_the_unlisted_weak_soil_tops(
+        beds in prop::collection::vec(bed_strategy(), 0..60)
+    ) {
+        use aggrade_core::rules::{interpret_with, CandidateKind, Strength};
+        let s = build(&beds, LengthUnit::Metre);
+        let p = RuleParams::default();
+        let some = interpret(&s, &p);
+        let all = interpret_with(&s, &p, true);
+        prop_assert_eq!(all.unlisted_candidates, 0);
+        prop_assert_eq!(all.sequence_boundary_candidates.len(),
+            some.sequence_boundary_candidates.len() + some.unlisted_candidates);
+        let listed: std::collections::BTreeSet<usize> =
+            some.sequence_boundary_candidates.iter().map(|c| c.bed_index).collect();
+        for c in all.sequence_boundary_candidates.iter().filter(|c| !listed.contains(&c.bed_index)) {
+            prop_assert_eq!((c.strength, c.kind), (Strength::Weak, CandidateKind::PaleosolTop));
+        }
+        // The rest of the interpretation does not depend on the listing.
+        prop_assert_eq!(&some.accommodation, &all.accommodation);
+        prop_assert_eq!(&some.cut_heights, &all.cut_heights);
     }
 
     #[test]
