@@ -287,8 +287,9 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
     if let Some(n) = runs {
         let _ = writeln!(
             s,
-            "Sensitivity: {n} runs, one key threshold moved at a time over its documented range \
-             (docs/interpretation-rules.md); \"stable\" counts the runs with the same outcome."
+            "Sensitivity: {n} runs, one key threshold moved at a time (lengths and the relief ratio \
+             ×0.5, ×0.75, ×1.25, ×1.5; the regime proportion thresholds ±0.05, ±0.1; the facies-shift \
+             class count ±1); \"stable\" counts the runs with the same outcome."
         );
     }
     let _ = writeln!(s, "Interpreted with {}.", params.summary());
