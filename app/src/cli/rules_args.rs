@@ -19,8 +19,7 @@ impl RulesArgs {
     /// The parameters to run with: the project's, then `--params`. Warnings (retired names) go to
     /// standard error; every fault is named with its file and field.
     pub fn resolve(&self, project: &Project, file: &Path) -> anyhow::Result<RuleParams> {
-        let mut fields = project.rule_params.clone();
-        let from_project = RuleParams::from_partial(&serde_json::Value::Object(fields.clone()))
+        let from_project = RuleParams::from_fields(&project.rule_params)
             .map_err(|faults| anyhow!("{}: rule_params: {}", file.display(), faults.join("; ")))?;
         for w in &from_project.warnings {
             eprintln!("aggrade: warning: {}: rule_params.{w}", file.display());
@@ -42,13 +41,14 @@ impl RulesArgs {
             bail!("{}: valid is a JSON object of rule parameters, e.g. {{\"window_m\": 20}}", path.display());
         };
         // The file's own faults first, named against the file.
-        let own = RuleParams::from_partial(&value)
+        let own = RuleParams::from_fields(over)
             .map_err(|faults| anyhow!("{}: {}", path.display(), faults.join("; ")))?;
         for w in &own.warnings {
             eprintln!("aggrade: warning: {}: {w}", path.display());
         }
+        let mut fields = project.rule_params.clone();
         fields.extend(over.iter().map(|(k, v)| (k.clone(), v.clone())));
-        RuleParams::from_partial(&serde_json::Value::Object(fields)).map(|r| r.params).map_err(|faults| {
+        RuleParams::from_fields(&fields).map(|r| r.params).map_err(|faults| {
             anyhow!(
                 "{} laid over the rule_params of {}: {}",
                 path.display(),

@@ -9,7 +9,7 @@ use aggrade_core::analysis::paleocurrents::{
     circular_summary, per_bed, readings_in_interval, rose_bins, section_readings, CircularParams,
     CircularSummary, DataKind, RoseParams,
 };
-use aggrade_core::model::{LithologyFamily, ReviewState, Section};
+use aggrade_core::model::{LithologyFamily, Section};
 use serde_json::{json, Value};
 use std::fmt::Write as _;
 use std::path::PathBuf;
@@ -97,18 +97,6 @@ fn stretch(
         readings,
         transitions: analyse_sequence(&seq, &TransitionParams::default()).map_err(|e| e.to_string()),
     }
-}
-
-/// Heights of accepted boundaries, section base and top included, ascending.
-pub fn interval_bounds(section: &Section) -> Vec<f64> {
-    let bases = section.base_heights_m();
-    let cuts: Vec<f64> = section
-        .review
-        .iter()
-        .filter(|d| d.state == ReviewState::Accepted)
-        .filter_map(|d| section.bed_index(d.bed).map(|i| bases[i]))
-        .collect();
-    bounds_from_cuts(section.total_thickness_m(), &cuts)
 }
 
 /// Cut heights inside the section, with its base and top, ascending and each once.

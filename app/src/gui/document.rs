@@ -506,7 +506,7 @@ impl Work {
             }
             Edit::SetRuleParams { params } => {
                 // Checked as the project file's reader checks them, so that the project opens again.
-                aggrade_core::rules::RuleParams::from_partial(&serde_json::Value::Object(params.clone()))
+                aggrade_core::rules::RuleParams::from_fields(&params)
                     .map_err(|faults| EditError(format!("rule parameters refused: {}", faults.join("; "))))?;
                 self.project.rule_params = params;
             }

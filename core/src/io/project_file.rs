@@ -138,7 +138,7 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
 
 /// Warnings for rule-parameter names this version no longer reads.
 fn retired_params(project: &Project) -> Vec<Problem> {
-    crate::rules::RuleParams::from_partial(&Value::Object(project.rule_params.clone()))
+    crate::rules::RuleParams::from_fields(&project.rule_params)
         .map(|read| read.warnings.into_iter().map(|w| Problem::new("rule_params", w)).collect())
         .unwrap_or_default()
 }

@@ -265,9 +265,7 @@ pub fn validate_project(project: &Project) -> Vec<Problem> {
         ));
         return out;
     }
-    if let Err(faults) =
-        crate::rules::RuleParams::from_partial(&serde_json::Value::Object(project.rule_params.clone()))
-    {
+    if let Err(faults) = crate::rules::RuleParams::from_fields(&project.rule_params) {
         out.extend(faults.into_iter().map(|f| Problem::new("rule_params", f)));
     }
     let mut names: HashMap<String, usize> = HashMap::new();

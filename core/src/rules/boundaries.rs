@@ -89,18 +89,25 @@ pub fn candidates(
         last_mature.push(if mature_profile(i).is_some() { Some(i) } else { prev });
     }
 
-    // Mature profiles that a channel's relief cuts down into further up: their tops are no
-    // interfluve (a channel did come down on them), whatever lies on them at the section.
-    let mut cut_by_channel: Vec<Option<f64>> = vec![None; paleosols.len()];
-    for (j, site) in sites.iter().enumerate().skip(1) {
-        let relief = beds[j].base_relief_m.filter(|r| r.is_finite() && *r > 0.0);
-        if let (Some(_), Some(r), Some(s)) = (site.body, relief, last_mature[j - 1]) {
+    // For each channel site with erosional relief: the highest mature paleosol bed its relief
+    // reaches down to, and how far below the base that bed's top lies. Read once, it gives the
+    // channel its evidence and tells the soil's own top that it is no interfluve (a channel did
+    // come down on it, whatever lies on it at the section).
+    let reaches: Vec<Option<(usize, f64)>> = (0..n)
+        .map(|j| {
+            sites[j].body?;
+            let r = beds[j]
+                .base_relief_m
+                .filter(|r| r.is_finite() && *r > 0.0 && beds[j].base_contact == Contact::Erosional)?;
+            let s = last_mature[j.checked_sub(1)?]?;
             let depth_m = column.bounds_m[j] - column.bounds_m[s + 1];
-            if depth_m < r - TOL && beds[j].base_contact == Contact::Erosional {
-                if let Some(k) = profile_of[s] {
-                    cut_by_channel[k].get_or_insert(column.bounds_m[j]);
-                }
-            }
+            (depth_m < r - TOL).then_some((s, depth_m))
+        })
+        .collect();
+    let mut cut_by_channel: Vec<Option<f64>> = vec![None; paleosols.len()];
+    for (j, &(s, _)) in reaches.iter().enumerate().filter_map(|(j, r)| r.as_ref().map(|r| (j, r))) {
+        if let Some(k) = profile_of[s] {
+            cut_by_channel[k].get_or_insert(column.bounds_m[j]);
         }
     }
 
@@ -231,12 +238,9 @@ pub fn candidates(
                 } else {
                     Evidence::RestsOnPaleosol { development: p.maturity }
                 });
-            } else if let (Some(r), Some(s)) = (relief_m, last_mature[j - 1]) {
-                let depth_m = height_m - column.bounds_m[s + 1];
-                if depth_m < r - TOL {
-                    let development = mature_profile(s).map_or(beds[s].paleosol, |p| p.maturity);
-                    evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
-                }
+            } else if let (Some(r), Some((s, depth_m))) = (relief_m, reaches[j]) {
+                let development = mature_profile(s).map_or(beds[s].paleosol, |p| p.maturity);
+                evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
             }
         } else if let Some((k, p)) =
             site.on_paleosol.map(|k| (k, &paleosols[k])).filter(|(_, p)| p.maturity.is_strong())

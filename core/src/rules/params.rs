@@ -256,12 +256,20 @@ impl RuleParams {
     /// unknown names, values of the wrong type, and values out of range ([`RuleParams::problems`]).
     /// Retired names are skipped with a warning.
     pub fn from_partial(value: &serde_json::Value) -> Result<PartialRead, Vec<String>> {
-        let Some(fields) = value.as_object() else {
-            return Err(vec![format!(
+        match value.as_object() {
+            Some(fields) => RuleParams::from_fields(fields),
+            None => Err(vec![format!(
                 "rule parameters: got {}; valid is a JSON object such as {{\"window_m\": 20}}",
                 short_json(value)
-            )]);
-        };
+            )]),
+        }
+    }
+
+    /// [`RuleParams::from_partial`] of an object's fields, as a project stores them
+    /// (`Project::rule_params`).
+    pub fn from_fields(
+        fields: &serde_json::Map<String, serde_json::Value>,
+    ) -> Result<PartialRead, Vec<String>> {
         let mut kept = serde_json::Map::new();
         let mut warnings = Vec::new();
         let mut problems = Vec::new();
@@ -302,7 +310,7 @@ impl RuleParams {
     /// holds none). The project readers refuse faulty ones, so an error here means a project
     /// built in code with bad values; it names them.
     pub fn of_project(project: &crate::model::Project) -> Result<RuleParams, Vec<String>> {
-        RuleParams::from_partial(&serde_json::Value::Object(project.rule_params.clone())).map(|r| r.params)
+        RuleParams::from_fields(&project.rule_params).map(|r| r.params)
     }
 
     /// The fields that differ from the defaults, as a partial JSON object (what a project file

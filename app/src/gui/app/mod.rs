@@ -295,26 +295,20 @@ impl AggradeApp {
 
     /// Bring the column up to date for this frame (see [`Column::refresh`]).
     fn refresh(&mut self) {
-        let params = self.rules().params;
-        self.column.refresh(&column_inputs(
-            &self.doc,
-            &params,
-            self.all_candidates,
-            &self.layout,
-            &self.canvas,
-        ));
+        self.with_column_inputs(Column::refresh);
     }
 
     /// Bring the column up to date now, waiting for a worker if one runs.
     fn settle(&mut self) {
+        self.with_column_inputs(Column::settle);
+    }
+
+    /// Hand the column this frame's inputs (the document, the project's rules, the listing
+    /// choice, the layout and the view).
+    fn with_column_inputs(&mut self, step: impl FnOnce(&mut Column, &column::Inputs<'_>)) {
         let params = self.rules().params;
-        self.column.settle(&column_inputs(
-            &self.doc,
-            &params,
-            self.all_candidates,
-            &self.layout,
-            &self.canvas,
-        ));
+        let inputs = column_inputs(&self.doc, &params, self.all_candidates, &self.layout, &self.canvas);
+        step(&mut self.column, &inputs);
     }
 
     /// Apply one edit now (used by scripted runs and tests as well as the panels).

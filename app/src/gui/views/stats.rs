@@ -3,7 +3,7 @@
 //! transitions that occur more often than chance.
 
 use super::common::{caution, fmt_p, text_table, ViewCtx};
-use crate::cli::stats::{bounds_from_cuts, interval_bounds, state_sequence, StateKind};
+use crate::cli::stats::{bounds_from_cuts, cuts_text, state_sequence, StateKind};
 use crate::gui::theme;
 use aggrade_core::analysis::markov::{analyse_sequence, TransitionAnalysis, TransitionParams};
 use aggrade_core::analysis::paleocurrents::{
@@ -116,15 +116,17 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
             transitions: Err(NoSummary::NoSection),
         };
     };
-    let interp = interps.get(c.section.min(project.sections.len().saturating_sub(1)));
-    let (bounds, cuts_are_accepted) = match interp {
-        Some(it) => (bounds_from_cuts(section.total_thickness_m(), &it.cut_heights), it.cuts_are_accepted),
-        None => {
-            let accepted =
-                section.review.iter().any(|d| d.state == aggrade_core::model::ReviewState::Accepted);
-            (interval_bounds(section), accepted)
-        }
+    // The views get one interpretation per section; should one be missing, the section is
+    // interpreted here with the project's rules, so the intervals are always the rules' own.
+    let interp = match interps.get(c.section.min(project.sections.len().saturating_sub(1))) {
+        Some(it) => std::borrow::Cow::Borrowed(it),
+        None => std::borrow::Cow::Owned(aggrade_core::rules::interpret(
+            section,
+            &crate::gui::engine::project_rules(project).params,
+        )),
     };
+    let bounds = bounds_from_cuts(section.total_thickness_m(), &interp.cut_heights);
+    let cuts_are_accepted = interp.cuts_are_accepted;
     let per_interval = match per_interval(section, &bounds, &params) {
         Ok(list) => list
             .into_iter()
@@ -174,15 +176,6 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
         rose,
         rose_mean,
         transitions,
-    }
-}
-
-/// What the intervals lie between, in words.
-pub fn intervals_text(cuts_are_accepted: bool) -> &'static str {
-    if cuts_are_accepted {
-        "between accepted boundaries"
-    } else {
-        "between strong candidate boundaries (none accepted yet)"
     }
 }
 
@@ -430,9 +423,7 @@ impl StatsView {
         ui.label(egui::RichText::new("Per section").strong());
         let rows: Vec<Vec<String>> = r.per_section.iter().map(summary_cells).collect();
         text_table(ui, "stats_per_section", &SUMMARY_HEADER, &rows);
-        ui.label(
-            egui::RichText::new(format!("Per interval ({})", intervals_text(r.cuts_are_accepted))).strong(),
-        );
+        ui.label(egui::RichText::new(format!("Per interval ({})", cuts_text(r.cuts_are_accepted))).strong());
         if r.interval_bounds_m.len() <= 2 {
             ui.label(if r.cuts_are_accepted {
                 "The accepted boundaries lie at the section's base or top: the interval is the whole section."
@@ -691,8 +682,8 @@ mod tests {
         assert!(!r.cuts_are_accepted);
         assert_eq!(r.interval_bounds_m[1..r.interval_bounds_m.len() - 1], open[0].cut_heights[..]);
         assert_eq!(
-            intervals_text(r.cuts_are_accepted),
-            "between strong candidate boundaries (none accepted yet)"
+            cuts_text(r.cuts_are_accepted),
+            "between strong candidate sequence boundaries; none accepted yet"
         );
         // Accept one boundary: the intervals are cut there alone.
         let c = &open[0].sequence_boundary_candidates[0];
@@ -701,7 +692,7 @@ mod tests {
         assert!(r.cuts_are_accepted);
         assert_eq!(r.interval_bounds_m.len(), 3);
         assert!((r.interval_bounds_m[1] - c.height_m).abs() < 1e-9);
-        assert_eq!(intervals_text(true), "between accepted boundaries");
+        assert_eq!(cuts_text(true), "between accepted sequence boundaries");
     }
 
     #[test]
