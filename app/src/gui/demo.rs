@@ -1,25 +1,43 @@
-//! An invented demo section (the "Brackenford Draw" section in the imaginary Ulvane Flats) used
-//! when no file is given and `sample_sections/demo.aggrade` cannot be read. Demo data only.
+//! The one demo: the project shipped as `sample_sections/demo.aggrade` (four invented sections in
+//! the imaginary Tamsin Ridge badlands), built into the program so that a start with no file and
+//! a start whose file could not be read show the same demo wherever Aggrade is installed.
+//!
+//! Behind the tests only: a generated section (the invented "Brackenford Draw"), and long
+//! sections repeated from it, used as test data; the window never shows them.
 
+use aggrade_core::model::Project;
+#[cfg(any(test, feature = "test-hooks"))]
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, PaleosolFeature, Project, Section,
-    Structure, Surface, SurfaceKind, WentworthClass,
+    Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, PaleosolFeature, Section, Structure,
+    Surface, SurfaceKind, WentworthClass,
 };
 
-/// The demo project file shipped with the program, if present.
-pub fn demo_file() -> Option<std::path::PathBuf> {
-    let p = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/demo.aggrade");
-    p.exists().then_some(p)
+/// The demo project's text: the same bytes as `sample_sections/demo.aggrade`.
+const DEMO_TEXT: &str = include_str!("../../../sample_sections/demo.aggrade");
+
+/// The name the demo goes by in the window and in messages.
+pub const DEMO_NAME: &str = "the demo project (invented Tamsin Ridge sections)";
+
+/// The demo project, read from the text built into the program with the project file's own
+/// reader. An error (a build whose demo file does not read, which a test rules out) is the
+/// reader's message.
+pub fn demo() -> Result<Project, String> {
+    aggrade_core::io::read_project_text(DEMO_TEXT).map(|r| r.project).map_err(|problems| {
+        let lines: Vec<String> = problems.iter().map(ToString::to_string).collect();
+        format!("the built-in demo project does not read: {}", lines.join("; "))
+    })
 }
 
+#[cfg(any(test, feature = "test-hooks"))]
 fn bed(t: f64, l: Lithology, base: WentworthClass, top: WentworthClass) -> Bed {
     let mut b = Bed::new(BedId(0), t, l, Some(GrainSize::Class(base)));
     b.grain_top = Some(GrainSize::Class(top));
     b
 }
 
-/// One invented section with a base-level cycle: a paleosol cut by amalgamated channels, then
+/// Test data: one invented section with a base-level cycle: a paleosol cut by amalgamated channels, then
 /// isolated channels in floodplain fines, capped by a strong paleosol and a second incision.
+#[cfg(any(test, feature = "test-hooks"))]
 pub fn demo_section() -> Section {
     use Lithology::*;
     use WentworthClass::*;
@@ -125,7 +143,8 @@ pub fn demo_section() -> Section {
     s
 }
 
-/// The demo as a project.
+/// Test data: [`demo_section`] as a project (not the demo the window shows: that is [`demo`]).
+#[cfg(any(test, feature = "test-hooks"))]
 pub fn demo_project() -> Project {
     Project::new(vec![demo_section()])
 }
@@ -142,4 +161,20 @@ pub fn long_section(n_beds: usize) -> Section {
         s.beds.push(b);
     }
     s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_built_in_demo_is_the_shipped_file_and_reads_without_warnings() {
+        let shipped =
+            std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/demo.aggrade");
+        let loaded = aggrade_core::io::load(&shipped).expect("the shipped demo reads");
+        assert!(loaded.warnings.is_empty(), "{:?}", loaded.warnings);
+        assert_eq!(demo().expect("the built-in demo reads"), loaded.project);
+        let names: Vec<&str> = loaded.project.sections.iter().map(|s| s.name.as_str()).collect();
+        assert_eq!(names, ["Corrie Wash", "Halloway Bluff", "Sedge Creek", "Pell Butte"]);
+    }
 }

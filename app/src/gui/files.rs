@@ -104,11 +104,112 @@ pub fn save(path: &Path, project: &Project) -> Result<DiskStamp, SaveFileError> 
         .ok_or_else(|| SaveFileError::Gone { path: path.to_path_buf() })
 }
 
-/// Most recent first, no duplicates, at most 8.
+/// How many files the Open recent list keeps.
+pub const RECENT_MAX: usize = 8;
+
+/// Most recent first, no duplicates, at most [`RECENT_MAX`].
 pub fn push_recent(recent: &mut Vec<PathBuf>, path: &Path) {
     recent.retain(|p| p != path);
     recent.insert(0, path.to_path_buf());
-    recent.truncate(8);
+    recent.truncate(RECENT_MAX);
+}
+
+/// The files behind File ▸ Open recent, kept in Aggrade's data folder (`recent.json`) and shared
+/// by every window. An addition takes the folder's lock, reads the list on disk, puts the file in
+/// front of it and writes it back (a temporary file, then a rename), so two windows open at once
+/// never drop each other's files, and a list that cannot be written is still kept in memory.
+#[derive(Debug)]
+pub struct RecentFiles {
+    dir: PathBuf,
+    list: Vec<PathBuf>,
+    /// When the list was last read from disk (the menu reads it again now and then).
+    read_at: Option<std::time::Instant>,
+}
+
+impl RecentFiles {
+    /// The file holding the list.
+    pub const FILE: &'static str = "recent.json";
+    const LOCK: &'static str = "recent.lock";
+
+    /// The list kept in `data_dir`. `older` is a list from before it was kept there (the window
+    /// state of an older version): it is taken only while the folder holds no list yet.
+    pub fn load(data_dir: &Path, older: Vec<PathBuf>) -> Self {
+        let mut r = RecentFiles { dir: data_dir.to_path_buf(), list: Vec::new(), read_at: None };
+        match r.read_disk() {
+            Some(list) => r.list = list,
+            None => {
+                for p in older.iter().rev() {
+                    push_recent(&mut r.list, p);
+                }
+            }
+        }
+        r.read_at = Some(std::time::Instant::now());
+        r
+    }
+
+    /// The files, most recent first.
+    pub fn list(&self) -> &[PathBuf] {
+        &self.list
+    }
+
+    /// Read the list again if it was read more than a second ago (another window may have added
+    /// to it); files only this window knows of stay after the ones on disk.
+    pub fn refresh(&mut self) {
+        if self.read_at.is_some_and(|t| t.elapsed() < std::time::Duration::from_secs(1)) {
+            return;
+        }
+        self.read_at = Some(std::time::Instant::now());
+        if let Some(disk) = self.read_disk() {
+            self.list = merged(&disk, &self.list);
+        }
+    }
+
+    /// Put a file in front of the list, here and on disk (read, merge, write under the lock).
+    /// An error says why the list could not be stored; the file is in the menu all the same.
+    pub fn add(&mut self, path: &Path) -> Result<(), String> {
+        push_recent(&mut self.list, path);
+        let stored = self.store(path);
+        self.read_at = Some(std::time::Instant::now());
+        stored.map_err(|e| format!("the Open recent list could not be stored in {}: {e}", self.dir.display()))
+    }
+
+    fn store(&mut self, path: &Path) -> std::io::Result<()> {
+        std::fs::create_dir_all(&self.dir)?;
+        let lock = std::fs::OpenOptions::new()
+            .create(true)
+            .truncate(false)
+            .write(true)
+            .open(self.dir.join(Self::LOCK))?;
+        lock.lock()?;
+        let mut list = merged(&self.read_disk().unwrap_or_default(), &self.list);
+        push_recent(&mut list, path);
+        let json = serde_json::to_string_pretty(&list).map_err(std::io::Error::other)?;
+        let tmp = self.dir.join(format!("{}.{}.tmp", Self::FILE, std::process::id()));
+        std::fs::write(&tmp, json)?;
+        std::fs::rename(&tmp, self.dir.join(Self::FILE)).inspect_err(|_| {
+            let _ = std::fs::remove_file(&tmp);
+        })?;
+        self.list = list;
+        Ok(())
+    }
+
+    /// The list on disk; `None` when there is none (or it does not read: it is written anew).
+    fn read_disk(&self) -> Option<Vec<PathBuf>> {
+        let text = std::fs::read_to_string(self.dir.join(Self::FILE)).ok()?;
+        serde_json::from_str::<Vec<PathBuf>>(&text).ok()
+    }
+}
+
+/// `first`, then what of `then` is not in it, at most [`RECENT_MAX`].
+fn merged(first: &[PathBuf], then: &[PathBuf]) -> Vec<PathBuf> {
+    let mut out: Vec<PathBuf> = Vec::new();
+    for p in first.iter().chain(then) {
+        if !out.contains(p) {
+            out.push(p.clone());
+        }
+    }
+    out.truncate(RECENT_MAX);
+    out
 }
 
 #[cfg(test)]
@@ -126,6 +227,40 @@ mod tests {
             push_recent(&mut r, Path::new(&format!("f{i}")));
         }
         assert_eq!(r.len(), 8);
+    }
+
+    #[test]
+    fn two_windows_adding_files_keep_each_others() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let mut a = RecentFiles::load(dir.path(), Vec::new());
+        let mut b = RecentFiles::load(dir.path(), Vec::new());
+        a.add(Path::new("/x/a.aggrade")).expect("stored");
+        b.add(Path::new("/x/b.aggrade")).expect("stored");
+        a.add(Path::new("/x/c.aggrade")).expect("stored");
+        let want =
+            [PathBuf::from("/x/c.aggrade"), PathBuf::from("/x/b.aggrade"), PathBuf::from("/x/a.aggrade")];
+        assert_eq!(a.list(), want);
+        let third = RecentFiles::load(dir.path(), vec![PathBuf::from("/old/one.aggrade")]);
+        assert_eq!(third.list(), want, "an older list is taken only when the folder holds none");
+        // The other window sees the addition once it reads the list again.
+        b.read_at = None;
+        b.refresh();
+        assert_eq!(b.list(), want);
+    }
+
+    #[test]
+    fn an_older_list_seeds_the_first_one_and_a_list_that_cannot_be_stored_is_kept() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let older = vec![PathBuf::from("/o/1.aggrade"), PathBuf::from("/o/2.aggrade")];
+        let r = RecentFiles::load(dir.path(), older.clone());
+        assert_eq!(r.list(), older);
+        // A data folder that is a file: nothing can be written under it.
+        let blocked = dir.path().join("not-a-folder");
+        std::fs::write(&blocked, "x").expect("write");
+        let mut r = RecentFiles::load(&blocked, Vec::new());
+        let e = r.add(Path::new("/x/a.aggrade")).expect_err("cannot be stored");
+        assert!(e.contains("not-a-folder"), "{e}");
+        assert_eq!(r.list(), [PathBuf::from("/x/a.aggrade")]);
     }
 
     #[test]

@@ -47,9 +47,9 @@ pub use views::Views;
 /// and a few constants the tests compare with. Behind the `test-hooks` feature.
 #[cfg(feature = "test-hooks")]
 pub mod test_hooks {
-    /// The demo section and generated long sections.
+    /// The demo the window shows, and generated test sections (a short one and long ones).
     pub mod demo {
-        pub use crate::gui::demo::{demo_project, long_section};
+        pub use crate::gui::demo::{demo, demo_project, long_section, DEMO_NAME};
     }
     /// Opening and saving project files as the window does.
     pub mod files {
@@ -110,10 +110,7 @@ pub fn run(file: Option<PathBuf>) -> anyhow::Result<()> {
 pub fn headless_fallback(file: Option<&Path>, out: &Path) -> anyhow::Result<()> {
     let project = match file {
         Some(p) => files::open(p).map_err(|e| anyhow::anyhow!("{e}"))?.0,
-        None => match demo::demo_file().map(|p| files::open(&p)) {
-            Some(Ok((p, _))) => p,
-            _ => demo::demo_project(),
-        },
+        None => demo::demo().map_err(|e| anyhow::anyhow!("{e}"))?,
     };
     let section = project.sections.first().context("the project holds no section")?;
     // The project's own rule parameters; faulty ones are named, and the defaults used.

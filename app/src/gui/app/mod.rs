@@ -81,7 +81,8 @@ pub struct AggradeApp {
     /// The review list shows every candidate boundary, weak paleosol tops with no evidence too.
     pub all_candidates: bool,
     pub tab: Tab,
-    pub recent: Vec<PathBuf>,
+    /// File ▸ Open recent (shared with the other windows through the data folder).
+    recent: files::RecentFiles,
     /// A message in a dialog.
     pub message: Option<Notice>,
     /// Last status line.
@@ -114,19 +115,14 @@ pub struct AggradeApp {
 
 impl AggradeApp {
     /// Build the window state: open the file (or the demo) and look for work left by a crash.
+    /// A file that cannot be read leaves its error in a dialog (it names the file, the line and
+    /// the field) and the status bar, and the window shows the same demo as a start with no file.
     pub fn new(config: AppConfig) -> Self {
         let mut message = None;
         let mut status = String::from("Ready");
-        let mut recent = config.recent;
-        let demo_doc = || {
-            let mut doc = match demo::demo_file().map(|p| files::open(&p)) {
-                Some(Ok((project, _))) => Document::new(project, None),
-                _ => Document::new(demo::demo_project(), None),
-            };
-            doc.demo = true;
-            doc
-        };
+        let mut recent = files::RecentFiles::load(&config.data_dir, config.recent);
         let file = config.file.as_deref().map(absolute);
+        let mut start_dir = None;
         let doc = match &file {
             Some(path) => match files::open(path) {
                 Ok((project, warnings)) => {
@@ -134,23 +130,38 @@ impl AggradeApp {
                         message = Some(Notice::about_file("Opened with warnings", warnings.join("\n"), path));
                     }
                     status = format!("Opened {}", path.display());
-                    files::push_recent(&mut recent, path);
+                    if let Err(e) = recent.add(path) {
+                        status = format!("{status}; {e}");
+                    }
                     let mut doc = Document::new(project, is_project_file(path).then(|| path.clone()));
                     doc.disk = files::DiskStamp::read(path).ok().flatten();
                     doc
                 }
                 Err(e) => {
-                    message = Some(Notice::about_file("Could not open the file", e.to_string(), path));
-                    demo_doc()
+                    let name = path
+                        .file_name()
+                        .map_or_else(|| path.display().to_string(), |n| n.to_string_lossy().into_owned());
+                    message = Some(Notice::about_file(
+                        format!("Could not open {name}"),
+                        format!(
+                            "{e}\n\nThe file is left as it is. The window shows {} instead; \
+                             correct the file and open it again with File ▸ Open.",
+                            demo::DEMO_NAME
+                        ),
+                        path,
+                    ));
+                    status = format!("Could not open {}; showing {}", path.display(), demo::DEMO_NAME);
+                    start_dir = path.parent().map(Path::to_path_buf);
+                    demo_document(&mut message)
                 }
             },
-            None => demo_doc(),
+            None => demo_document(&mut message),
         };
         let found_backups = recovery::find_backups(&config.data_dir);
         let mut autosaver = Autosaver::new(&config.data_dir);
         autosaver.follow(&doc);
         let mut chooser = Chooser::new(config.dialogs);
-        chooser.start_dir = doc.path.as_ref().and_then(|p| p.parent()).map(Path::to_path_buf);
+        chooser.start_dir = doc.path.as_ref().and_then(|p| p.parent()).map(Path::to_path_buf).or(start_dir);
         AggradeApp {
             doc,
             layout: LayoutOptions::default(),
@@ -225,6 +236,11 @@ impl AggradeApp {
     /// The backups offered back (one line each: the file, when, what it holds).
     pub fn offered_backups(&self) -> Vec<String> {
         self.found_backups.iter().map(FoundBackup::describe).collect()
+    }
+
+    /// The files under File ▸ Open recent, most recent first.
+    pub fn recent_files(&self) -> &[PathBuf] {
+        self.recent.list()
     }
 
     /// The file chooser (tests point Aggrade's own chooser at a folder).
@@ -470,6 +486,22 @@ impl AggradeApp {
     }
 }
 
+/// The demo document (the same at every start that shows it); a demo that does not read (a
+/// broken build) gives an empty section and a message saying so.
+fn demo_document(message: &mut Option<Notice>) -> Document {
+    match demo::demo() {
+        Ok(project) => {
+            let mut doc = Document::new(project, None);
+            doc.demo = true;
+            doc
+        }
+        Err(e) => {
+            message.get_or_insert_with(|| Notice::new("The demo could not be shown", e));
+            Document::new(aggrade_core::model::Project::new(Vec::new()), None)
+        }
+    }
+}
+
 /// What the column is computed from: the document, the project's rule parameters, the
 /// candidate list and layout settings, the view.
 fn column_inputs<'a>(
@@ -493,14 +525,10 @@ fn is_project_file(path: &Path) -> bool {
     matches!(aggrade_core::io::FileKind::of(path), Some(aggrade_core::io::FileKind::Project))
 }
 
+// The Open recent list is kept in the data folder (see `files::RecentFiles`), not in eframe's
+// window state: one window's state would overwrite another's list when both close.
 impl eframe::App for AggradeApp {
     fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
         self.ui_main(ui);
-    }
-
-    fn save(&mut self, storage: &mut dyn eframe::Storage) {
-        if let Ok(json) = serde_json::to_string(&self.recent) {
-            storage.set_string("aggrade.recent", json);
-        }
     }
 }

@@ -240,6 +240,12 @@ impl AggradeApp {
                 self.replace_document(doc);
                 self.autosaver.adopt(f, &self.doc);
                 self.status = "Restored unsaved work; save to keep it".into();
+                // The file the work belongs to is one opened again.
+                if let Some(p) = path.as_deref().filter(|p| p.is_file()) {
+                    if let Err(e) = self.recent.add(p) {
+                        self.status = format!("{}; {e}", self.status);
+                    }
+                }
                 if !unstored.is_empty() {
                     self.message = Some(Notice::new(
                         "Values that were not stored",

@@ -38,10 +38,12 @@ impl AggradeApp {
                 ui.menu_button("File", |ui| {
                     self.menu_items(ui, ctx, &[Command::New, Command::Open]);
                     ui.menu_button("Open recent", |ui| {
-                        if self.recent.is_empty() {
+                        // Another window may have opened files since.
+                        self.recent.refresh();
+                        if self.recent.list().is_empty() {
                             ui.label("No recent files");
                         }
-                        for p in self.recent.clone() {
+                        for p in self.recent.list().to_vec() {
                             if ui
                                 .button(p.display().to_string())
                                 .on_hover_text("Open this file again")

@@ -112,8 +112,10 @@ impl AggradeApp {
                 self.autosaver.clear();
                 self.replace_document(doc);
                 self.autosaver.follow(&self.doc);
-                files::push_recent(&mut self.recent, path);
                 self.status = format!("Opened {}", path.display());
+                if let Err(e) = self.recent.add(path) {
+                    self.status = format!("{}; {e}", self.status);
+                }
                 if self.autosaver.file_open_elsewhere {
                     self.status.push_str(" — it is open in another Aggrade window too; saving asks before overwriting its changes");
                 }
@@ -224,8 +226,10 @@ impl AggradeApp {
                 self.autosaver.clear();
                 self.autosaver.follow(&self.doc);
                 self.chooser.start_dir = path.parent().map(Path::to_path_buf);
-                files::push_recent(&mut self.recent, &path);
                 self.status = format!("Saved {}", path.display());
+                if let Err(e) = self.recent.add(&absolute(&path)) {
+                    self.status = format!("{}; {e}", self.status);
+                }
                 if self.inspector.has_unstored_text() {
                     self.status.push_str(
                         "; values typed in the Bed tab that do not read were not stored and are not in the file",
