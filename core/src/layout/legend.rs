@@ -1,13 +1,16 @@
 //! The legend: only the patterns, lines and symbols a printout actually uses.
 
-use super::column::{boundary_style, draw_contact, paleosol_bar_mm, ColumnCtx};
+use super::column::{
+    boundary_style, draw_contact, paleosol_bar_mm, stacking_code, stacking_words, surface_name, ColumnCtx,
+};
 use super::items::{Item, PtMm, RectMm};
+use super::options::LayoutOptions;
 use super::patterns::fill_bed;
 use super::style::*;
 use super::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
 use super::text::{fit_size, text};
-use crate::model::{Contact, Lithology, PaleosolDevelopment, ReviewState, Structure};
-use crate::rules::{Regime, Stacking};
+use crate::model::{Contact, Lithology, PaleosolDevelopment, ReviewState, Section, Structure};
+use crate::rules::{Interpretation, Regime, Stacking, Strength};
 use serde::Serialize;
 
 /// One line of the legend.
@@ -27,6 +30,10 @@ pub enum LegendEntry {
     IntervalProportion,
     Regime(Regime),
     Boundary(ReviewState),
+    /// An open candidate boundary of a strength class (its line is thicker the stronger).
+    BoundaryStrength(Strength),
+    /// A surface the geologist named at a bed base, printed by its name.
+    NamedSurface,
 }
 
 /// Width of one legend column, mm.
@@ -50,7 +57,9 @@ impl LegendEntry {
             LegendEntry::ProportionCurve => (7, 0),
             LegendEntry::IntervalProportion => (7, 1),
             LegendEntry::Regime(r) => (8, r as usize),
-            LegendEntry::Boundary(b) => (9, b as usize),
+            LegendEntry::Boundary(b) => (9, b as usize * 10),
+            LegendEntry::BoundaryStrength(s) => (9, 1 + s as usize),
+            LegendEntry::NamedSurface => (10, 0),
         }
     }
 
@@ -64,19 +73,27 @@ impl LegendEntry {
             LegendEntry::PaleocurrentArrow => "paleocurrent (north up)".into(),
             LegendEntry::PaleocurrentRose => "paleocurrent rose, 30\u{b0} sectors".into(),
             LegendEntry::Paleosol(d) => format!("paleosol, {}", d.name()),
-            LegendEntry::Storey => "storey".into(),
-            LegendEntry::Body(Stacking::MultiStory) => "channel body, multi-story".into(),
-            LegendEntry::Body(Stacking::SingleStory) => "channel body, single-story".into(),
-            LegendEntry::Body(Stacking::Undetermined) => "channel body, stacking undetermined".into(),
+            LegendEntry::Storey => "storey (one channel fill)".into(),
+            LegendEntry::Body(st @ Stacking::MultiStory) => {
+                format!("{} channel body: {} \u{b7} n storeys", stacking_words(st), stacking_code(st))
+            }
+            LegendEntry::Body(st @ Stacking::SingleStory) => {
+                format!("{} channel body ({})", stacking_words(st), stacking_code(st))
+            }
+            LegendEntry::Body(st @ Stacking::Undetermined) => {
+                format!("channel body, 1 storey seen ({})", stacking_code(st))
+            }
             LegendEntry::CensoredBody => "body end not seen: thickness \u{2265}".into(),
             LegendEntry::ProportionCurve => "channel-body proportion (window)".into(),
             LegendEntry::IntervalProportion => "proportion per interval".into(),
             LegendEntry::Regime(Regime::Low) => "low accommodation".into(),
             LegendEntry::Regime(Regime::High) => "high accommodation".into(),
             LegendEntry::Regime(Regime::Undetermined) => "accommodation undetermined".into(),
-            LegendEntry::Boundary(ReviewState::Candidate) => "seq. boundary candidate, strength".into(),
-            LegendEntry::Boundary(ReviewState::Accepted) => "seq. boundary, accepted".into(),
-            LegendEntry::Boundary(ReviewState::Rejected) => "candidate rejected".into(),
+            LegendEntry::Boundary(ReviewState::Candidate) => "SB? sequence-boundary candidate".into(),
+            LegendEntry::Boundary(ReviewState::Accepted) => "SB sequence boundary, accepted".into(),
+            LegendEntry::Boundary(ReviewState::Rejected) => "rej. candidate rejected".into(),
+            LegendEntry::BoundaryStrength(s) => format!("SB? with {} evidence", s.name()),
+            LegendEntry::NamedSurface => "named surface at a bed base".into(),
         }
     }
 }
@@ -121,16 +138,34 @@ pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
             v.push(LegendEntry::IntervalProportion);
         }
         v.extend(it.accommodation.iter().map(|r| LegendEntry::Regime(r.regime)));
+        let shown: Vec<_> = it
+            .sequence_boundary_candidates
+            .iter()
+            .filter(|c| ctx.opts.show_rejected || c.review != ReviewState::Rejected)
+            .collect();
+        v.extend(shown.iter().map(|c| LegendEntry::Boundary(c.review)));
         v.extend(
-            it.sequence_boundary_candidates
+            shown
                 .iter()
-                .filter(|c| ctx.opts.show_rejected || c.review != ReviewState::Rejected)
-                .map(|c| LegendEntry::Boundary(c.review)),
+                .filter(|c| c.review == ReviewState::Candidate)
+                .map(|c| LegendEntry::BoundaryStrength(c.strength)),
         );
+        let labelled = |i: usize| shown.iter().any(|c| c.bed_index == i);
+        if ctx.section.beds.iter().enumerate().any(|(i, b)| surface_name(b).is_some() && !labelled(i)) {
+            v.push(LegendEntry::NamedSurface);
+        }
+    } else if ctx.section.beds.iter().any(|b| surface_name(b).is_some()) {
+        v.push(LegendEntry::NamedSurface);
     }
     v.sort_by_key(|e| e.sort_key());
     v.dedup();
     v
+}
+
+/// The entries the column of `section` uses, laid out with `opts` (the screen legend lists
+/// exactly what the printed one would).
+pub fn column_legend(section: &Section, interp: &Interpretation, opts: &LayoutOptions) -> Vec<LegendEntry> {
+    legend_entries(&ColumnCtx::new(section, interp, opts))
 }
 
 /// Height (mm) the legend takes in a given width.
@@ -163,7 +198,8 @@ pub fn draw_legend(entries: &[LegendEntry], x: f64, y: f64, width_mm: f64, out: 
     legend_height_mm(entries.len(), width_mm)
 }
 
-fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
+/// The sample drawn beside an entry's words, in the rectangle `r` (8 × 3.4 mm on paper).
+pub fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
     let mid = PtMm { x: r.x + r.w / 2.0, y: r.y + r.h / 2.0 };
     match e {
         LegendEntry::Lithology(l) => {
@@ -189,10 +225,8 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
         }),
         LegendEntry::Storey | LegendEntry::Body(_) => {
             let (w, label) = match e {
-                LegendEntry::Storey => (THIN_MM, None),
-                LegendEntry::Body(Stacking::MultiStory) => (LINE_MM * 1.4, Some("MS")),
-                LegendEntry::Body(Stacking::Undetermined) => (LINE_MM * 1.4, Some("\u{2265}1")),
-                _ => (LINE_MM * 1.4, Some("SS")),
+                LegendEntry::Body(st) => (LINE_MM * 1.4, Some(stacking_code(st))),
+                _ => (THIN_MM, None),
             };
             let x = r.x + 2.5;
             out.push(Item::Polyline {
@@ -242,11 +276,25 @@ fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
             stroke: Some(solid(HAIR_MM, GREY)),
         }),
         LegendEntry::Boundary(state) => {
-            let (stroke, _, _) = boundary_style(state, crate::rules::Strength::Weak, None);
+            let (stroke, _, _) = boundary_style(state, Strength::Moderate, None);
             out.push(Item::Polyline {
                 points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + r.w, y: mid.y }],
                 stroke,
             });
+        }
+        LegendEntry::BoundaryStrength(s) => {
+            let (stroke, _, _) = boundary_style(ReviewState::Candidate, s, None);
+            out.push(Item::Polyline {
+                points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + r.w, y: mid.y }],
+                stroke,
+            });
+        }
+        LegendEntry::NamedSurface => {
+            out.push(Item::Polyline {
+                points: vec![PtMm { x: r.x, y: mid.y }, PtMm { x: r.x + 1.2, y: mid.y }],
+                stroke: solid(THIN_MM * 2.0, INK),
+            });
+            text(out, r.x + 1.6, mid.y + 0.9, "name", SMALL_PT, INK);
         }
     }
 }
@@ -301,5 +349,42 @@ mod tests {
         let shown = LayoutOptions { show_rejected: true, ..Default::default() };
         let ctx = ColumnCtx::new(&demo, &interp, &shown);
         assert!(legend_entries(&ctx).contains(&LegendEntry::Boundary(ReviewState::Rejected)));
+    }
+
+    #[test]
+    fn the_legend_uses_the_columns_words_and_shows_strengths_and_named_surfaces() {
+        use crate::model::{Surface, SurfaceKind};
+        let mut s = sample_section();
+        s.beds[9].base_surface = Some(Surface { name: "Ash-3".into(), kind: SurfaceKind::Other });
+        let interp = sample_interpretation(&s);
+        let entries = column_legend(&s, &interp, &LayoutOptions::default());
+        assert!(entries.contains(&LegendEntry::Body(Stacking::MultiStory)));
+        // The sample's one open candidate has moderate evidence.
+        assert!(entries.contains(&LegendEntry::BoundaryStrength(Strength::Moderate)));
+        assert!(!entries.contains(&LegendEntry::BoundaryStrength(Strength::Strong)));
+        assert!(entries.contains(&LegendEntry::NamedSurface));
+        let labels: Vec<String> = entries.iter().map(|e| e.label()).collect();
+        assert!(labels.contains(&"multi-storey channel body: MS \u{b7} n storeys".to_string()), "{labels:?}");
+        assert!(labels.contains(&"single-storey channel body (SS)".to_string()));
+        assert!(labels.iter().all(|l| !l.contains("story")), "one spelling: storey");
+        // The code beside the legend's bracket is the one beside the column's.
+        let mut items = Vec::new();
+        draw_swatch(
+            LegendEntry::Body(Stacking::MultiStory),
+            RectMm { x: 0.0, y: 0.0, w: 8.0, h: 3.4 },
+            &mut items,
+        );
+        let codes: Vec<&str> = items
+            .iter()
+            .filter_map(|i| if let Item::Text { text, .. } = i { Some(text.as_str()) } else { None })
+            .collect();
+        let [_, _, short] = crate::layout::column::body_labels(&interp.channel_bodies[0]);
+        assert_eq!(codes, vec!["MS"]);
+        assert!(short.starts_with("MS"));
+        // Sorted and without repeats, whatever order the column met them in.
+        let mut sorted = entries.clone();
+        sorted.sort_by_key(|e| e.sort_key());
+        sorted.dedup();
+        assert_eq!(sorted, entries);
     }
 }

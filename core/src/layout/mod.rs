@@ -37,11 +37,13 @@ mod symbols;
 mod text;
 mod transform;
 
-pub use column::{BedBox, Tracks, NO_GRAIN_SIZE_PHI};
+pub use column::{
+    column_help_at, column_tracks, BedBox, Pointed, Track, TrackKind, Tracks, NO_GRAIN_SIZE_PHI,
+};
 pub use curve_track::CURVE_COLOURS;
 pub(crate) use font::{metrics, text_width_mm, DEJAVU_SANS, MM_PER_PT};
 pub use items::*;
-pub use legend::{legend_entries, LegendEntry};
+pub use legend::{column_legend, draw_swatch, legend_entries, LegendEntry};
 pub use options::{LayoutOptions, Orientation, Paper, PrintMeta};
 pub use page::{pages, Page, PageSegment};
 pub use panel::{

@@ -1,6 +1,7 @@
 //! The frame of a segment: the height axis, the track titles above and the grain-size scale
 //! (with curve value axes) below.
 
+use super::help::TrackKind;
 use super::*;
 
 impl ColumnCtx<'_> {
@@ -47,13 +48,14 @@ impl ColumnCtx<'_> {
         };
         let axis_label = format!("height ({unit})");
         let mut rotated: Vec<(Track, String)> = vec![(tr.axis, axis_label)];
-        rotated.push((tr.structures, "structures".into()));
-        rotated.push((tr.paleocurrents, "paleocurrent".into()));
-        rotated.push((tr.paleosols, "paleosol".into()));
+        let title = |k: TrackKind| k.title_lines().join(" ");
+        rotated.push((tr.structures, title(TrackKind::Structures)));
+        rotated.push((tr.paleocurrents, title(TrackKind::Paleocurrents)));
+        rotated.push((tr.paleosols, title(TrackKind::Paleosols)));
         if let (Some(s), Some(b), Some(r)) = (tr.storeys, tr.bodies, tr.regime) {
-            rotated.push((s, "storeys".into()));
-            rotated.push((b, "channel bodies".into()));
-            rotated.push((r, "accommodation".into()));
+            rotated.push((s, title(TrackKind::Storeys)));
+            rotated.push((b, title(TrackKind::Bodies)));
+            rotated.push((r, title(TrackKind::Regime)));
         }
         for (track, label) in rotated {
             let Some(size) = fit_size(&label, TITLE_BAND_MM - 2.0, SMALL_PT, 4.0) else { continue };
@@ -61,15 +63,15 @@ impl ColumnCtx<'_> {
             let cx = x0 + track.x_mm + track.w_mm / 2.0;
             text_up(out, cx + asc / 2.0, y_bottom, &label, size, INK);
         }
-        let lithology_lines = ["lithology", "grain size \u{2192}"];
-        centred_lines(x0, tr.lithology, (y_bottom - 3.5, 3.0), &lithology_lines, TEXT_PT, out);
+        let lithology_lines = TrackKind::Lithology.title_lines();
+        centred_lines(x0, tr.lithology, (y_bottom - 3.5, 3.0), lithology_lines, TEXT_PT, out);
         if let Some(p) = tr.proportion {
-            centred_lines(x0, p, (y_bottom - 3.2, 2.6), &["channel-body", "proportion"], SMALL_PT, out);
+            centred_lines(x0, p, (y_bottom - 3.2, 2.6), TrackKind::Proportion.title_lines(), SMALL_PT, out);
         }
         if let Some(l) = tr.boundary_labels {
-            for (line, label) in [(0.0, "sequence"), (1.0, "boundary"), (2.0, "candidates")] {
+            for (line, label) in TrackKind::BoundaryLabels.title_lines().iter().enumerate() {
                 let size = fit_size(label, l.w_mm, SMALL_PT, 4.0).unwrap_or(4.0);
-                text(out, x0 + l.x_mm + 0.8, y_bottom - 5.8 + line * 2.6, label, size, INK);
+                text(out, x0 + l.x_mm + 0.8, y_bottom - 5.8 + line as f64 * 2.6, label, size, INK);
             }
         }
         for (k, p) in self.curve_tracks(x0) {

@@ -174,23 +174,96 @@ impl ColumnCtx<'_> {
     }
 }
 
+impl ColumnCtx<'_> {
+    /// Names of the surfaces logged at bed bases in the segment, where no boundary line shown
+    /// already carries a label: in the boundary-label track when the interpretation is shown (a
+    /// short tick and the name), else at the right of the lithology track. Drawn on screen and
+    /// on paper alike.
+    pub(super) fn draw_surface_names(&self, part: &Part<'_>, out: &mut Vec<Item>) {
+        let Part { lo, hi, x0, t } = *part;
+        let labelled: Vec<usize> = if self.opts.show_interpretation {
+            let all = &self.interp.sequence_boundary_candidates;
+            self.spans
+                .candidates_in(lo, hi)
+                .map(|k| &all[k])
+                .filter(|c| self.opts.show_rejected || c.review != ReviewState::Rejected)
+                .map(|c| c.bed_index)
+                .collect()
+        } else {
+            Vec::new()
+        };
+        for i in self.beds_in(lo, hi) {
+            let Some(name) = surface_name(&self.section.beds[i]) else { continue };
+            let base = self.bases_m[i];
+            if base < lo - 1e-9 || base > hi + 1e-9 || labelled.contains(&i) {
+                continue;
+            }
+            let y = t.y_mm(base);
+            match self.tracks.boundary_labels {
+                Some(lt) => {
+                    let x = x0 + lt.x_mm;
+                    out.push(Item::Polyline {
+                        points: vec![PtMm { x, y }, PtMm { x: x + 1.2, y }],
+                        stroke: solid(THIN_MM * 2.0, INK),
+                    });
+                    let size = fit_size(name, lt.w_mm - 2.0, SMALL_PT, 4.0).unwrap_or(4.0);
+                    text(out, x + 1.6, y + 0.9, name, size, INK);
+                }
+                None => {
+                    let lt = self.tracks.lithology;
+                    let size = fit_size(name, lt.w_mm / 2.0, SMALL_PT, 4.0).unwrap_or(4.0);
+                    let w = width(name, size);
+                    text(out, x0 + lt.x_mm + lt.w_mm - 0.5 - w, y - 0.5, name, size, INK);
+                }
+            }
+        }
+    }
+}
+
+/// The geologist's name for the surface at a bed's base, trimmed; `None` when there is none.
+pub fn surface_name(bed: &Bed) -> Option<&str> {
+    bed.base_surface.as_ref().map(|s| s.name.trim()).filter(|n| !n.is_empty())
+}
+
 /// The name a boundary is printed with: the geologist's correlation label, else the surface's
 /// name.
 pub fn candidate_name(c: &BoundaryCandidate) -> Option<&str> {
     c.label.as_deref().or(c.surface_name.as_deref())
 }
 
-/// A label and stroke for a boundary in a review state: "SB? strong", "SB moderate · Red Cap",
-/// "rej. weak". The strength class, never a bare number that reads like a probability.
+/// A label and stroke for a boundary in a review state: its name when it has one ("SB? RG-E1"
+/// open, "SB RG-E1" accepted, "rej. RG-E1" rejected), else its strength class ("SB? strong") —
+/// never a bare number that reads like a probability. The line of an open candidate is thicker
+/// the stronger its evidence, so a named candidate still shows its strength class.
 pub fn boundary_style(review: ReviewState, strength: Strength, name: Option<&str>) -> (Stroke, String, Rgba) {
-    let named = |head: &str| match name.map(str::trim).filter(|n| !n.is_empty()) {
-        Some(n) => format!("{head} {} \u{b7} {n}", strength.name()),
+    let label = |head: &str| match name.map(str::trim).filter(|n| !n.is_empty()) {
+        Some(n) => format!("{head} {n}"),
         None => format!("{head} {}", strength.name()),
     };
     match review {
-        ReviewState::Candidate => (dashed(0.35, BOUNDARY_RED, &[2.0, 1.0]), named("SB?"), BOUNDARY_RED),
-        ReviewState::Accepted => (solid(0.55, BOUNDARY_RED), named("SB"), BOUNDARY_RED),
-        ReviewState::Rejected => (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), named("rej."), REJECTED_GREY),
+        ReviewState::Candidate => {
+            (dashed(candidate_line_mm(strength), BOUNDARY_RED, &[2.0, 1.0]), label("SB?"), BOUNDARY_RED)
+        }
+        ReviewState::Accepted => (solid(0.55, BOUNDARY_RED), label("SB"), BOUNDARY_RED),
+        ReviewState::Rejected => (dashed(0.25, REJECTED_GREY, &[0.5, 0.8]), label("rej."), REJECTED_GREY),
+    }
+}
+
+/// Line width (mm) of an open candidate boundary of a strength class: thicker for stronger.
+pub fn candidate_line_mm(strength: Strength) -> f64 {
+    match strength {
+        Strength::Weak => 0.25,
+        Strength::Moderate => 0.38,
+        Strength::Strong => 0.5,
+    }
+}
+
+/// The review state in words, as the hover help and the legend say it.
+pub fn review_words(review: ReviewState) -> &'static str {
+    match review {
+        ReviewState::Candidate => "open: a candidate for your review",
+        ReviewState::Accepted => "accepted by the geologist",
+        ReviewState::Rejected => "rejected by the geologist",
     }
 }
 
@@ -206,20 +279,64 @@ pub enum BracketEnd {
     Open,
 }
 
-/// Labels for a body, longest first: the stacking with its thickness ("≥" before a censored
-/// one), the stacking alone, a short code.
-pub fn body_labels(body: &ChannelBody) -> [String; 3] {
-    let (long, short) = match body.stacking {
-        Stacking::MultiStory => (format!("multi-story ({})", body.stories), format!("MS{}", body.stories)),
-        Stacking::SingleStory => ("single-story".to_string(), "SS".to_string()),
-        Stacking::Undetermined => ("1 storey seen".to_string(), "\u{2265}1".to_string()),
-    };
-    let thick = if body.is_censored() {
-        format!("\u{2265}{:.1}", body.thickness_m)
+/// The stacking of a body as the column and its legend write it.
+pub fn stacking_words(stacking: Stacking) -> &'static str {
+    match stacking {
+        Stacking::MultiStory => "multi-storey",
+        Stacking::SingleStory => "single-storey",
+        Stacking::Undetermined => "stacking undetermined",
+    }
+}
+
+/// The short code of a stacking, as beside a narrow bracket and in the legend ("MS", "SS",
+/// "≥1" for a body of which one storey is seen).
+pub fn stacking_code(stacking: Stacking) -> &'static str {
+    match stacking {
+        Stacking::MultiStory => "MS",
+        Stacking::SingleStory => "SS",
+        Stacking::Undetermined => "\u{2265}1",
+    }
+}
+
+/// "2 storeys", "1 storey".
+pub fn storeys_words(n: usize) -> String {
+    if n == 1 {
+        "1 storey".to_string()
     } else {
-        format!("{:.1}", body.thickness_m)
+        format!("{n} storeys")
+    }
+}
+
+/// Labels for a body, longest first, every one saying what its number counts: the stacking with
+/// its storeys and thickness ("multi-storey · 2 storeys · 5.40 m", "≥" before a censored one),
+/// the code with them ("MS · 2 storeys · 5.4 m"), the code with the storeys ("MS · 2 storeys").
+pub fn body_labels(body: &ChannelBody) -> [String; 3] {
+    let code = stacking_code(body.stacking);
+    let thick = if body.is_censored() {
+        format!("\u{2265}{:.1} m", body.thickness_m)
+    } else {
+        format!("{:.1} m", body.thickness_m)
     };
-    [format!("{long}, {}", body.thickness_text()), format!("{short} {thick} m"), short]
+    match body.stacking {
+        Stacking::MultiStory => {
+            let storeys = storeys_words(body.stories);
+            [
+                format!("multi-storey \u{b7} {storeys} \u{b7} {}", body.thickness_text()),
+                format!("{code} \u{b7} {storeys} \u{b7} {thick}"),
+                format!("{code} \u{b7} {storeys}"),
+            ]
+        }
+        Stacking::SingleStory => [
+            format!("single-storey \u{b7} {}", body.thickness_text()),
+            format!("{code} \u{b7} {thick}"),
+            code.to_string(),
+        ],
+        Stacking::Undetermined => [
+            format!("1 storey seen \u{b7} {}", body.thickness_text()),
+            format!("{code} storey \u{b7} {thick}"),
+            code.to_string(),
+        ],
+    }
 }
 
 /// A body bracket at x from yb (base) to yt (top) with the given ends (base, top).
@@ -272,4 +389,80 @@ fn bracket(
         pts.push(PtMm { x: x - tick, y: y_base });
     }
     out.push(Item::Polyline { points: pts, stroke: solid(width, BODY_BLUE) });
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::layout::sample::{sample_interpretation, sample_section};
+    use crate::layout::{column_strip, pages, PrintMeta};
+    use crate::model::{Surface, SurfaceKind};
+
+    fn texts(items: &[Item]) -> Vec<&str> {
+        items
+            .iter()
+            .filter_map(|it| match it {
+                Item::Text { text, .. } => Some(text.as_str()),
+                _ => None,
+            })
+            .collect()
+    }
+
+    #[test]
+    fn a_boundary_is_labelled_by_its_name_else_its_strength_class() {
+        let label = |r, s, n| boundary_style(r, s, n).1;
+        assert_eq!(label(ReviewState::Candidate, Strength::Strong, Some("RG-E1")), "SB? RG-E1");
+        assert_eq!(label(ReviewState::Accepted, Strength::Strong, Some(" RG-E1 ")), "SB RG-E1");
+        assert_eq!(label(ReviewState::Rejected, Strength::Weak, Some("RG-E1")), "rej. RG-E1");
+        assert_eq!(label(ReviewState::Candidate, Strength::Strong, None), "SB? strong");
+        assert_eq!(label(ReviewState::Candidate, Strength::Moderate, Some("  ")), "SB? moderate");
+        // The strength still shows on a named candidate: its line is thicker the stronger.
+        let w = |s| boundary_style(ReviewState::Candidate, s, Some("RG-E1")).0.width_mm;
+        assert!(w(Strength::Weak) < w(Strength::Moderate) && w(Strength::Moderate) < w(Strength::Strong));
+    }
+
+    #[test]
+    fn body_labels_say_what_their_number_counts() {
+        let i = sample_interpretation(&sample_section());
+        let [long, mid, short] = body_labels(&i.channel_bodies[0]);
+        assert_eq!(long, "multi-storey \u{b7} 2 storeys \u{b7} 6.70 m");
+        assert_eq!(mid, "MS \u{b7} 2 storeys \u{b7} 6.7 m");
+        assert_eq!(short, "MS \u{b7} 2 storeys");
+        let [long, _, short] = body_labels(&i.channel_bodies[1]);
+        assert!(long.starts_with("single-storey \u{b7} "), "{long}");
+        assert_eq!(short, "SS");
+        for b in &i.channel_bodies {
+            assert!(body_labels(b).iter().all(|l| !l.contains("story")), "one spelling: storey");
+        }
+    }
+
+    #[test]
+    fn surface_names_are_drawn_on_screen_and_paper_with_or_without_the_interpretation() {
+        let mut s = sample_section();
+        // A named surface that the rules list (the candidate at bed 15's base) and one they do
+        // not (bed 10's base).
+        s.beds[14].base_surface = Some(Surface { name: "RG-E1".into(), kind: SurfaceKind::Incision });
+        s.beds[9].base_surface = Some(Surface { name: "Ash-3".into(), kind: SurfaceKind::Other });
+        let mut i = sample_interpretation(&s);
+        i.sequence_boundary_candidates[1].surface_name = Some("RG-E1".into());
+        let opts = LayoutOptions::default();
+        let strip = column_strip(&s, &i, &opts);
+        let on_screen = texts(&strip.items);
+        assert!(on_screen.contains(&"SB? RG-E1"), "{on_screen:?}");
+        assert!(on_screen.contains(&"Ash-3"));
+        assert!(!on_screen.iter().any(|t| t.contains("strong \u{b7}") || *t == "RG-E1"), "named once");
+        assert!(on_screen.contains(&"SB strong"), "an unnamed boundary shows its strength class");
+        let meta = PrintMeta::default();
+        let paper: Vec<String> = pages(&s, &i, &opts, &meta)
+            .iter()
+            .flat_map(|p| texts(&p.items).into_iter().map(str::to_string).collect::<Vec<_>>())
+            .collect();
+        assert!(paper.iter().any(|t| t == "SB? RG-E1") && paper.iter().any(|t| t == "Ash-3"));
+        // Without the interpretation both names are still on the column.
+        let bare = LayoutOptions { show_interpretation: false, ..Default::default() };
+        let strip = column_strip(&s, &i, &bare);
+        let on_screen = texts(&strip.items);
+        assert!(on_screen.contains(&"RG-E1") && on_screen.contains(&"Ash-3"), "{on_screen:?}");
+        assert!(!on_screen.iter().any(|t| t.starts_with("SB")));
+    }
 }

@@ -5,18 +5,24 @@
 //!
 //! [`ColumnCtx`] holds one section's heights and tracks; its drawing is split by part of the
 //! segment: `tracks` (where each track sits), `beds` (outline, pattern, contact, symbols),
-//! `interpretation` (storeys, bodies, proportion, regime, boundaries) and `frame` (axis, titles,
-//! scale). Each draws one [`Part`] (heights, left edge, height transform) of the column.
+//! `interpretation` (storeys, bodies, proportion, regime, boundaries, surface names) and `frame`
+//! (axis, titles, scale). Each draws one [`Part`] (heights, left edge, height transform) of the
+//! column. `help` puts into words what a point of the column shows (hover help on screen).
 
 mod beds;
 mod frame;
+mod help;
 mod interpretation;
 #[cfg(test)]
 mod tests;
 mod tracks;
 
 pub use beds::{draw_contact, paleosol_bar_mm};
-pub use interpretation::{body_bracket, body_labels, boundary_style, candidate_name, BracketEnd};
+pub use help::{column_help_at, column_tracks, Pointed, TrackKind};
+pub use interpretation::{
+    body_bracket, body_labels, boundary_style, candidate_name, review_words, stacking_code, stacking_words,
+    storeys_words, surface_name, BracketEnd,
+};
 pub use tracks::{Track, Tracks, GRAIN_CLASS_STEP_MM, GRAIN_MIN_WIDTH_MM};
 
 use crate::layout::curve_track::{self, CurvePlace, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_TRACKS};
@@ -210,6 +216,7 @@ impl<'a> ColumnCtx<'a> {
         if self.opts.show_interpretation {
             self.draw_interpretation(&part, out);
         }
+        self.draw_surface_names(&part, out);
         for (k, place) in self.curve_tracks(x0) {
             curve_track::draw_curve(&self.section.curves[k], &place, lo, hi, t, out);
         }
