@@ -143,8 +143,8 @@ print(json.dumps([list(csv.reader(open(p, newline=""))) for p in sys.argv[1:]]))
         "formula-looking text gets a leading apostrophe (OWASP CSV injection advice)"
     );
     assert_eq!(t[1][3], "5.500");
-    assert_eq!(t[1][5], "multi-story");
-    assert_eq!(t[2][5], "single-story");
+    assert_eq!(t[1][5], "multi-storey");
+    assert_eq!(t[2][5], "single-storey");
     let c = &o[1];
     assert_eq!(c[1], serde_json::json!(["'=Sable", "1.000", "0.2500"]));
     assert_eq!(c[2][2], "", "no exposure → empty cell");

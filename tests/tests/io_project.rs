@@ -379,3 +379,42 @@ fn correlation_labels_round_trip_and_bad_ones_are_named_with_their_line() {
         "{problems:?}"
     );
 }
+
+#[test]
+fn review_states_read_old_and_new_words_and_refuse_others_naming_the_valid_ones() {
+    let text = |state: &str| {
+        format!(
+            r#"{{
+  "format_version": 1,
+  "sections": [
+    {{
+      "name": "Sedge Creek",
+      "beds": [
+        {{"id": 1, "thickness_m": 1.0, "lithology": "mudstone", "grain_base": "silt", "grain_top": "silt"}},
+        {{"id": 2, "thickness_m": 2.0, "lithology": "sandstone", "grain_base": "fine sand", "grain_top": "fine sand"}}
+      ],
+      "review": [
+        {{"bed": 2, "state": "{state}", "note": "scour?"}}
+      ]
+    }}
+  ]
+}}"#
+        )
+    };
+    let state_of = |s: &str| read_project_text(&text(s)).map(|r| r.project.sections[0].review[0].state);
+    assert_eq!(state_of("unreviewed").ok(), Some(ReviewState::Candidate));
+    assert_eq!(state_of("candidate").ok(), Some(ReviewState::Candidate), "the old word is still read");
+    assert_eq!(state_of("accepted").ok(), Some(ReviewState::Accepted));
+    let written =
+        aggrade_core::io::project_to_json(&read_project_text(&text("candidate")).expect("reads").project)
+            .expect("encode");
+    assert!(written.contains("\"state\": \"unreviewed\""), "written with the new word: {written}");
+    let problems = state_of("open").expect_err("not a review state");
+    let message = problems[0].to_string();
+    assert!(
+        message.contains("sections[0].review[0]")
+            && message.contains("open")
+            && message.contains("unreviewed"),
+        "{message}"
+    );
+}

@@ -29,7 +29,7 @@ fn stackings(r: &Interpretation) -> Vec<(usize, Stacking)> {
 #[test]
 fn corrie_wash_isolated_channels_a_proximal_splay_and_a_soil_on_a_sandstone_top() {
     let (s, r) = demo("Corrie Wash");
-    // Isolated single-story bodies in floodplain mudstone; none seen only in part.
+    // Isolated single-storey bodies in floodplain mudstone; none seen only in part.
     assert!(r.channel_bodies.iter().all(|b| b.stacking == Stacking::SingleStory && b.censored.is_empty()));
     assert_eq!(r.channel_bodies.len(), 5, "{:?}", stackings(&r));
     // The 1.4 m gradational-based, coarsening-up, rippled sand (bed 8) is a proximal splay.

@@ -12,7 +12,7 @@ fn close(a: f64, b: f64) -> bool {
     (a - b).abs() < 1e-9
 }
 
-/// A meander belt: three ordinary single-story channels in floodplain mud, a very strongly
+/// A meander belt: three ordinary single-storey channels in floodplain mud, a very strongly
 /// developed soil on the floodplain with no channel on it, and a coarser amalgamated body.
 const BELT: &str = "
     4.0 mudstone silt
@@ -46,7 +46,7 @@ fn an_interfluve_soil_and_a_facies_shift_outrank_ordinary_meander_belt_bases() {
     //   over an isolated one. Two items of one kind count once: moderate, score 0.25.
     // - 4, 11 and 21 m: sand on mud and nothing more. The first rules scored these for the
     //   grain-size step, for the proportion rise in the window above (which held the channel
-    //   itself) and, at 21 and 27 m, for multi-story bases; none is evidence now: weak, score 0.
+    //   itself) and, at 21 and 27 m, for multi-storey bases; none is evidence now: weak, score 0.
     let r = interpret(&section("Belt", BELT), &RuleParams::default());
     let c = &r.sequence_boundary_candidates;
     let ranked: Vec<(f64, Strength, f64)> = c.iter().map(|c| (c.height_m, c.strength, c.score)).collect();
@@ -119,7 +119,7 @@ fn a_surface_just_below_a_thick_body_does_not_inherit_its_proportion_rise() {
 fn a_regime_stretch_ends_at_an_accepted_boundary_and_keeps_a_margin() {
     // Shanley & McCabe 1994; Wright & Marriott 1993; Kraus 1999. The belt above with the base at
     // 27 m accepted (bed 10): accepted boundaries cut, strong candidates then do not.
-    // 0–27 m: three single-story bodies (a sign of high), channel 6/27 = 0.22 ≤ 0.30 − 0.05 (a
+    // 0–27 m: three single-storey bodies (a sign of high), channel 6/27 = 0.22 ≤ 0.30 − 0.05 (a
     //   sign of high), one mature well-drained soil (a sign of low): 2 against 1 → high.
     // 27–35 m: one amalgamated body (a sign of low); channel 4/8 = 0.50, within 0.05 of the 0.50
     //   threshold: no sign → 1 sign, undetermined. With no margin, 0.50 ≥ 0.50 is a second sign

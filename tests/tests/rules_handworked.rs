@@ -85,7 +85,7 @@ const ISOLATED: &str = "
 fn isolated_bodies_in_mudstone() {
     // Working: bodies 4–6 m and 12–13.5 m, one storey each, nothing but mudstone around them.
     // Channel 2 + 1.5 = 3.5 m of 20 m exposed → 0.175.
-    // Regimes: no boundary is strong enough to cut, so one stretch 0–20 m: two single-story
+    // Regimes: no boundary is strong enough to cut, so one stretch 0–20 m: two single-storey
     // bodies (a sign of high, Shanley & McCabe 1994) and a proportion of 0.175 ≤ 0.30 (a second
     // sign; Larue & Hovadik 2006) → high.
     let r = interpret(&section("Isolated", ISOLATED), &RuleParams::default());
@@ -96,7 +96,7 @@ fn isolated_bodies_in_mudstone() {
         r.accommodation.iter().map(|a| (a.base_m, a.top_m, a.regime)).collect();
     assert_eq!(regimes, vec![(0.0, 20.0, Regime::High)]);
     let why = r.accommodation[0].why.to_string();
-    assert!(why.contains("2 of 2 channel bodies single-story") && why.contains("0.17 (≤ 0.30)"), "{why}");
+    assert!(why.contains("2 of 2 channel bodies single-storey") && why.contains("0.17 (≤ 0.30)"), "{why}");
     assert_eq!(r.caution, aggrade_core::REVIEW_CAUTION);
 }
 
@@ -157,7 +157,7 @@ const DRAPES: &str = "
 #[test]
 fn drapes_thicker_than_the_limit_split_bodies() {
     // Working with the 0.5 m drape limit: 0.6 m of mud is not a drape; 0.2 + 0.3 = 0.5 m of fines
-    // in a row is not thinner than 0.5 m either. Three single-story bodies: 2–4, 4.6–6.6,
+    // in a row is not thinner than 0.5 m either. Three single-storey bodies: 2–4, 4.6–6.6,
     // 7.1–9.1 m; channel 6 m of 12 m = 0.5.
     let s = section("Drapes", DRAPES);
     let r = interpret(&s, &RuleParams::default());
@@ -352,7 +352,7 @@ fn the_same_section_in_feet_and_metres_gives_the_same_answers() {
     // (10 ft) to 3.048 + 2.4384 + 0.48768 + 2.1336 = 8.10768 m; one storey from
     // 8.10768 + 6.096 + 0.9144 + 4.572 = 19.69008 m, 1.8288 m thick. Its top lies against the
     // 12 ft covered interval, so only part of it is seen: stacking undetermined (it was called
-    // single-story before censoring was read; one storey seen does not make a body single-story).
+    // single-storey before censoring was read; one storey seen does not make a body single-storey).
     assert_bodies(
         &a,
         &[(3.048, 8.10768, 2, Stacking::MultiStory), (19.69008, 21.51888, 1, Stacking::Undetermined)],
@@ -371,9 +371,9 @@ fn cycle() -> Section {
 #[test]
 fn a_full_base_level_cycle_ranks_the_two_incisions_first() {
     // tests/data/rules/base_level_cycle.aggrade, beds (m): fines 0–3, strong paleosol 3–5;
-    // multi-story body 5–13 (pebbly base, 4 m relief; 3 storeys, one 0.2 m drape); fines 13–19;
-    // single-story 19–20.5; weak paleosol 20.5–26.5; 0.5 m splay; fines 27–32; single-story
-    // 32–33.5; fines 33.5–38; very strong paleosol 38–40; multi-story 40–46 (5 m relief); fines 46–48.
+    // multi-storey body 5–13 (pebbly base, 4 m relief; 3 storeys, one 0.2 m drape); fines 13–19;
+    // single-storey 19–20.5; weak paleosol 20.5–26.5; 0.5 m splay; fines 27–32; single-storey
+    // 32–33.5; fines 33.5–38; very strong paleosol 38–40; multi-storey 40–46 (5 m relief); fines 46–48.
     //
     // Working, with the evidence kinds of Van Wagoner et al. 1990 and Posamentier & Allen 1999
     // (each kind once; being a channel base is none):
@@ -414,7 +414,7 @@ fn a_full_base_level_cycle_ranks_the_two_incisions_first() {
 
     // Regimes, one per stretch between the strong candidates (5 and 40 m):
     // 0–5 m: no body; one mature, well-drained soil: 1 sign → undetermined.
-    // 5–40 m: 2 of 3 bodies single-story (a sign of high); proportion (8 + 1.5 + 1.5)/35 = 0.314,
+    // 5–40 m: 2 of 3 bodies single-storey (a sign of high); proportion (8 + 1.5 + 1.5)/35 = 0.314,
     //   within 0.05 of the 0.30 threshold → no sign; soils: one weak, one very strong → no
     //   majority. 1 sign → undetermined (the first rules called this stretch low, then high).
     // 40–48 m: amalgamated, 6/8 = 0.75 ≥ 0.50: 2 signs → low.
@@ -535,7 +535,7 @@ fn a_basal_lag_floors_the_storey_above_and_a_thin_scour_is_no_storey() {
 fn the_geologists_rank_of_a_base_overrides_the_rules() {
     // Storey surfaces are often tagged in the field (Miall 1996): the tag beats any rule.
     // Same beds as above. Ranking the 0.6 m scour (bed 4) a storey surface gives three storeys;
-    // ranking the upper lag (bed 5) a body base splits the body there (two single-story bodies).
+    // ranking the upper lag (bed 5) a body base splits the body there (two single-storey bodies).
     // Ranking the upper lag within the storey lets the sand from 5.5 m reach 8.0 m (2.5 m ≥
     // 1.0 m), so the rules then put the storey surface at 5.5 m; ranking both bases within the
     // storey leaves one storey.
@@ -575,7 +575,7 @@ fn channel_or_splay_is_read_from_all_the_signs_not_thickness_alone() {
     // 7.5–7.7 m: 0.2 m very fine sand, scoured base, ripples only: channel 1 (erosional base)
     //   against splay 3 (ripples, thin, grain) → splay, no channel body and no style hint.
     // 10.7–11.9 m: 1.2 m, sharp base, trough cross-bedding, fining up (φ 1.5 → 2.5): channel 3
-    //   against splay 1 (base) → a single-story channel body.
+    //   against splay 1 (base) → a single-storey channel body.
     // The first rules made bodies of the first two (by thickness and by the scoured base).
     let r = interpret(&section("Channel or splay", CHANNEL_OR_SPLAY), &RuleParams::default());
     assert_eq!(
@@ -669,11 +669,11 @@ const CENSORED: &str = "
 #[test]
 fn bodies_cut_by_the_section_or_a_cover_are_censored() {
     // Common practice: a body seen only in part gives a minimum thickness, and one storey seen
-    // does not make it single-story (a truncated measurement is a lower bound).
+    // does not make it single-storey (a truncated measurement is a lower bound).
     // Beds (m): sand 0–2.5 (section base) | mud 2.5–5.5 | sand 5.5–7.5 | covered 7.5–9 |
     // mud 9–11 | sand 11–12.2 (E) | sand 12.2–13.7 (E, 1.5 ≥ 1 m: a storey) | drape 13.7–13.9 (top).
     // Working: body 1 censored at its base, body 2 at its top (the cover), both one storey →
-    // undetermined; body 3 two storeys → multi-story, censored at its top (only a 0.2 m drape,
+    // undetermined; body 3 two storeys → multi-storey, censored at its top (only a 0.2 m drape,
     // thinner than the 0.5 m drape limit, lies between it and the section top).
     let r = interpret(&section("Censored", CENSORED), &RuleParams::default());
     assert_bodies(
@@ -696,7 +696,7 @@ fn bodies_cut_by_the_section_or_a_cover_are_censored() {
         r.accommodation[0]
             .why
             .to_string()
-            .contains("1 of 1 channel bodies multi-story (amalgamated) (2 more seen only in part)"),
+            .contains("1 of 1 channel bodies multi-storey (amalgamated) (2 more seen only in part)"),
         "{}",
         r.accommodation[0].why
     );
@@ -739,7 +739,7 @@ fn the_json_carries_the_new_results_under_their_contract_names() {
     let v = serde_json::to_value(&r).expect("serialises");
     assert_eq!(v["channel_bodies"][0]["stacking"], "undetermined");
     assert_eq!(v["channel_bodies"][0]["censored"], serde_json::json!(["base"]));
-    assert_eq!(v["channel_bodies"][2]["stacking"], "multi-story");
+    assert_eq!(v["channel_bodies"][2]["stacking"], "multi-storey");
     assert_eq!(v["storeys"][3]["body"], 2);
     assert!(v["storeys"][0]["base"].is_number() && v["storeys"][0]["top"].is_number());
     assert!(v["channel_proportion_bounds"]["covered_as_fines"].is_number());

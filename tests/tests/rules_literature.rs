@@ -65,8 +65,8 @@ fn regime_thresholds_against_connectivity_studies() {
 
 #[test]
 fn stacking_reads_as_in_shanley_and_mccabe_1994() {
-    // Shanley & McCabe 1994 (AAPG Bull. 78): low accommodation → amalgamated multi-story bodies
-    // with little floodplain; high accommodation → isolated single-story bodies in thick fines.
+    // Shanley & McCabe 1994 (AAPG Bull. 78): low accommodation → amalgamated multi-storey bodies
+    // with little floodplain; high accommodation → isolated single-storey bodies in thick fines.
     let channel = |t| bed(t, Lithology::Sandstone, WentworthClass::MediumSand, Contact::Erosional);
     // With no boundary the whole section is one stretch: one amalgamated body of three storeys
     // and 9/11 = 0.82 channel deposits are two signs of low accommodation.
@@ -75,7 +75,7 @@ fn stacking_reads_as_in_shanley_and_mccabe_1994() {
     assert_eq!(r.accommodation.len(), 1);
     assert_eq!(r.accommodation[0].regime, Regime::Low, "{}", r.accommodation[0].why);
 
-    // Two isolated single-story bodies and 3/23 = 0.13 channel deposits: two signs of high.
+    // Two isolated single-storey bodies and 3/23 = 0.13 channel deposits: two signs of high.
     let high = section(vec![mud(4.0), channel(1.5), mud(8.0), channel(1.5), mud(8.0)]);
     let r = interpret(&high, &RuleParams::default());
     assert_eq!(r.accommodation[0].regime, Regime::High, "{}", r.accommodation[0].why);

@@ -117,3 +117,22 @@ fn version_1_demo_excerpt_saves_back_byte_identical() {
     let original: serde_json::Value = serde_json::from_str(&text).expect("valid JSON");
     assert_eq!(reparsed, original);
 }
+
+/// Version 1 files written before the review state was named "unreviewed" say "candidate": they
+/// open with the state unreviewed (note and correlation label kept) and are saved with the new
+/// word.
+#[test]
+fn a_review_state_written_as_candidate_opens_as_unreviewed_and_saves_as_unreviewed() {
+    use aggrade_core::model::ReviewState;
+    let p = open("v1_review_candidate.aggrade");
+    let d = &p.sections[0].review[0];
+    assert_eq!(d.state, ReviewState::Candidate);
+    assert_eq!(d.state.name(), "unreviewed");
+    assert_eq!(d.note, "check the scour at the east end");
+    assert_eq!(d.link_label(), Some("SB-1"));
+    let saved = aggrade_core::io::project_to_json(&p).expect("encodes");
+    assert!(saved.contains("\"state\": \"unreviewed\""), "{saved}");
+    assert!(!saved.contains("\"candidate\""), "{saved}");
+    let again = aggrade_core::io::read_project_text(&saved).expect("reads again").project;
+    assert_eq!(again, p);
+}

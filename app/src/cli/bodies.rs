@@ -92,7 +92,7 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
             )?;
             writeln!(
                 out,
-                "stacking: {} multi-story, {} single-story, {} undetermined",
+                "stacking: {} multi-storey, {} single-storey, {} undetermined",
                 s.multi_story, s.single_story, s.undetermined
             )?;
             if s.censored > 0 {

@@ -114,24 +114,28 @@ fn fmt_proportion(p: Option<f64>) -> String {
     p.map_or("n/a (no exposure)".to_string(), |p| format!("{p:.2}"))
 }
 
+/// "5.00–13.00 ft": a stretch of section in the display unit.
+fn span(base_m: f64, top_m: f64, unit: LengthUnit) -> String {
+    format!("{:.2}–{:.2} {unit}", unit.from_metres(base_m), unit.from_metres(top_m))
+}
+
 /// The readable report: bodies, stacking, proportions, regimes, ranked candidates, the caution.
+/// Every height, thickness and length in it, evidence included, is in the section's display unit
+/// (the JSON keeps metres).
 pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: Option<usize>) -> String {
     let mut s = String::new();
+    let u = section.display_unit;
     // Writing to a String cannot fail; the results are ignored for that reason.
     let _ = writeln!(s, "Section {:?}: interpretation", r.section);
-    if section.display_unit != LengthUnit::Metre {
-        let _ = writeln!(
-            s,
-            "(logged in {}; all heights here are metres above the section base)",
-            section.display_unit
-        );
+    if u != LengthUnit::Metre {
+        let _ = writeln!(s, "(logged in {u}: heights are {u} above the section base; --json gives metres)");
     }
     let _ = writeln!(
         s,
-        "Thickness {:.2} m, exposed {:.2} m, channel deposits {:.2} m; channel-body proportion {}",
-        r.total_thickness_m,
-        r.exposed_thickness_m,
-        r.channel_thickness_m(),
+        "Thickness {}, exposed {}, channel deposits {}; channel-body proportion {}",
+        u.length(r.total_thickness_m),
+        u.length(r.exposed_thickness_m),
+        u.length(r.channel_thickness_m()),
         r.proportion_text()
     );
 
@@ -156,11 +160,10 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
             .unwrap_or_default();
         let _ = writeln!(
             s,
-            "  {}. {:.2}–{:.2} m ({}): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}{censored}{stable}",
+            "  {}. {} ({}): {}, {} storey{}, {} amalgamated base{}{grain}, profile {}{censored}{stable}",
             k + 1,
-            b.base_m,
-            b.top_m,
-            b.thickness_text(),
+            span(b.base_m, b.top_m, u),
+            b.thickness_text_in(u),
             b.stacking.name(),
             b.stories,
             if b.stories == 1 { "" } else { "s" },
@@ -176,7 +179,7 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
             let _ = writeln!(
                 s,
                 "     style hint: {style} ({})",
-                h.evidence.iter().map(ToString::to_string).collect::<Vec<_>>().join("; ")
+                h.evidence.iter().map(|e| e.worded(u).to_string()).collect::<Vec<_>>().join("; ")
             );
         }
     }
@@ -201,10 +204,9 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         }
         let _ = writeln!(
             s,
-            "  {}. {:.2}–{:.2} m: {} maturity, {} bed{} ({})",
+            "  {}. {}: {} maturity, {} bed{} ({})",
             k + 1,
-            p.base_m,
-            p.top_m,
+            span(p.base_m, p.top_m, u),
             p.maturity.name(),
             p.beds.len(),
             if p.beds.len() == 1 { "" } else { "s" },
@@ -224,12 +226,13 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         }
     );
     for iv in &r.interval_proportions {
-        let _ = writeln!(s, "  {:.2}–{:.2} m: {}", iv.base_m, iv.top_m, fmt_proportion(iv.proportion));
+        let _ = writeln!(s, "  {}: {}", span(iv.base_m, iv.top_m, u), fmt_proportion(iv.proportion));
     }
 
     let _ = writeln!(s, "\nAccommodation regime (one call per interval above):");
     for a in &r.accommodation {
-        let _ = writeln!(s, "  {:.2}–{:.2} m: {} — {}", a.base_m, a.top_m, regime_name(a.regime), a.why);
+        let _ =
+            writeln!(s, "  {}: {} — {}", span(a.base_m, a.top_m, u), regime_name(a.regime), a.why.worded(u));
     }
 
     let _ = writeln!(
@@ -249,11 +252,7 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         );
     }
     for (k, c) in r.sequence_boundary_candidates.iter().enumerate() {
-        let review = match c.review {
-            aggrade_core::model::ReviewState::Candidate => "not yet reviewed",
-            aggrade_core::model::ReviewState::Accepted => "accepted",
-            aggrade_core::model::ReviewState::Rejected => "rejected",
-        };
+        let review = c.review.name();
         let named = match (&c.label, &c.surface_name) {
             (Some(l), _) => format!(" \"{l}\""),
             (None, Some(n)) => format!(" \"{n}\""),
@@ -261,9 +260,9 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         };
         let _ = writeln!(
             s,
-            "  {}. {:.2} m{named}, {}, {}, {review}",
+            "  {}. {}{named}, {}, {}, {review}",
             k + 1,
-            c.height_m,
+            u.length(c.height_m),
             c.strength.name(),
             c.kind.name()
         );
@@ -271,7 +270,7 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
             let _ = writeln!(s, "     {t}");
         }
         for e in &c.evidence {
-            let _ = writeln!(s, "     - {e}");
+            let _ = writeln!(s, "     - {}", e.worded(u));
         }
         if !c.note.is_empty() {
             let _ = writeln!(s, "     note: {}", c.note);
@@ -279,10 +278,10 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
     }
     let _ = writeln!(
         s,
-        "\nProportion curve: {} points, every {} m in a {} m window (use --json for the values)",
+        "\nProportion curve: {} points, every {} {u} in a {} {u} window (use --json for the values)",
         r.proportion_curve.len(),
-        params.curve_step_m,
-        params.window_m
+        u.length(params.curve_step_m).number_trimmed(),
+        u.length(params.window_m).number_trimmed()
     );
     if let Some(n) = runs {
         let _ = writeln!(

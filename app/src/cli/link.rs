@@ -1,6 +1,6 @@
-//! `aggrade link`: give an accepted boundary a correlation label (e.g. SB-2), so that the
-//! correlation panel ties it to the accepted boundaries with the same label in neighbouring
-//! sections; or take the label off.
+//! `aggrade link`: set the correlation label (e.g. SB-2) of an accepted boundary, so that the
+//! correlation panel ties it to the accepted boundaries with the same correlation label in
+//! neighbouring sections; or take the correlation label off.
 
 use aggrade_core::io::check_link_label;
 use aggrade_core::model::{BedId, Project, ReviewState};
@@ -29,15 +29,8 @@ pub struct LinkArgs {
     pub out: Option<PathBuf>,
 }
 
-fn state_name(state: ReviewState) -> &'static str {
-    match state {
-        ReviewState::Accepted => "accepted",
-        ReviewState::Rejected => "rejected",
-        ReviewState::Candidate => "still a candidate",
-    }
-}
-
-/// Other accepted boundaries carrying `label`, as "Section bed N (h m)", for the report.
+/// Other accepted boundaries carrying the correlation label `label`, as "Section bed N (h m)"
+/// (in each section's display unit), for the report.
 fn others_with(project: &Project, label: &str, except: (usize, BedId)) -> Vec<String> {
     let mut out = Vec::new();
     for (i, s) in project.sections.iter().enumerate() {
@@ -47,7 +40,7 @@ fn others_with(project: &Project, label: &str, except: (usize, BedId)) -> Vec<St
                 continue;
             }
             let h = s.bed_index(d.bed).map(|k| heights[k]).unwrap_or(f64::NAN);
-            out.push(format!("{} bed {} ({h:.2} m)", s.name, d.bed.0));
+            out.push(format!("{} bed {} ({})", s.name, d.bed.0, s.display_unit.length(h)));
         }
     }
     out
@@ -62,7 +55,9 @@ pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
     let bed = BedId(args.bed);
     let label = match &args.label {
         Some(l) if l.trim().is_empty() => {
-            bail!("--label {l:?}: must not be blank; to take a boundary's label off, use --remove")
+            bail!(
+                "--label {l:?}: must not be blank; to take a boundary's correlation label off, use --remove"
+            )
         }
         Some(l) => {
             check_link_label(l).map_err(|why| anyhow!("--label {l:?}: {why}"))?;
@@ -80,11 +75,12 @@ pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
             if ids.is_empty() { "none".to_string() } else { ids.join(", ") }
         );
     };
-    let height_m = section.base_heights_m()[k];
+    // The boundary's height, in the section's display unit.
+    let height = section.display_unit.length(section.base_heights_m()[k]);
     let Some(decision) = section.review.iter_mut().find(|d| d.bed == bed) else {
         bail!(
-            "{file}: the boundary at the base of bed {} ({height_m:.2} m) in {name:?} has no review decision; \
-             only an accepted boundary can be linked (accept it first, e.g. in the app's review list)",
+            "{file}: the boundary at the base of bed {} ({height}) in {name:?} has no review decision; \
+             only an accepted boundary can carry a correlation label (accept it first, e.g. in the app's review list)",
             args.bed
         );
     };
@@ -92,35 +88,39 @@ pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
         Some(label) => {
             if decision.state != ReviewState::Accepted {
                 bail!(
-                    "{file}: the boundary at the base of bed {} ({height_m:.2} m) in {name:?} is {}; \
-                     only an accepted boundary can be linked (accept it first, e.g. in the app's review list)",
+                    "{file}: the boundary at the base of bed {} ({height}) in {name:?} is {}; \
+                     only an accepted boundary can carry a correlation label (accept it first, e.g. in the app's review list)",
                     args.bed,
-                    state_name(decision.state)
+                    decision.state.name()
                 );
             }
             let previous = decision.link.replace(label.clone());
             let others = others_with(&project, &label, (index, bed));
             match previous.as_deref().map(str::trim) {
-                Some(p) if p == label => eprintln!("bed {} in {name:?} already carries {label:?}", args.bed),
+                Some(p) if p == label => {
+                    eprintln!("bed {} in {name:?} already carries the correlation label {label:?}", args.bed)
+                }
                 Some(p) => eprintln!(
-                    "relabelled the boundary at the base of bed {} ({height_m:.2} m) in {name:?}: {p:?} → {label:?}",
+                    "changed the correlation label of the boundary at the base of bed {} ({height}) in {name:?}: {p:?} → {label:?}",
                     args.bed
                 ),
                 None => eprintln!(
-                    "linked the boundary at the base of bed {} ({height_m:.2} m) in {name:?} as {label:?}",
+                    "set the correlation label of the boundary at the base of bed {} ({height}) in {name:?} to {label:?}",
                     args.bed
                 ),
             }
             if others.is_empty() {
-                eprintln!("no other accepted boundary carries {label:?} yet: nothing is tied until one does");
+                eprintln!(
+                    "no other accepted boundary carries the correlation label {label:?} yet: nothing is tied until one does"
+                );
             } else {
-                eprintln!("{label:?} is also on: {}", others.join("; "));
+                eprintln!("the correlation label {label:?} is also on: {}", others.join("; "));
             }
         }
         None => {
             let Some(previous) = decision.link.take() else {
                 bail!(
-                    "{file}: the boundary at the base of bed {} ({height_m:.2} m) in {name:?} has no correlation label to remove",
+                    "{file}: the boundary at the base of bed {} ({height}) in {name:?} has no correlation label to remove",
                     args.bed
                 );
             };
@@ -130,7 +130,7 @@ pub fn run(args: &LinkArgs) -> anyhow::Result<()> {
                 !(d.bed == bed && d.state == ReviewState::Candidate && d.note.is_empty() && d.link.is_none())
             });
             eprintln!(
-                "removed the correlation label {previous:?} from the boundary at the base of bed {} ({height_m:.2} m) in {name:?}",
+                "removed the correlation label {previous:?} from the boundary at the base of bed {} ({height}) in {name:?}",
                 args.bed
             );
         }

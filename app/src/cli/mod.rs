@@ -51,8 +51,9 @@ pub enum Command {
     /// Attach a measured curve (e.g. gamma ray) from a LAS 1.2/2.0 file or a plain CSV/TXT table
     /// to a section, remove one, or list them.
     Curve(curve::CurveArgs),
-    /// Give an accepted boundary a correlation label (e.g. SB-2) that ties it on the correlation
-    /// panel to accepted boundaries with the same label in neighbouring sections, or remove one.
+    /// Set the correlation label (e.g. SB-2) of an accepted boundary: the correlation panel ties
+    /// it to accepted boundaries with the same correlation label in neighbouring sections.
+    /// `--remove` takes the correlation label off.
     Link(link::LinkArgs),
 }
 

@@ -73,6 +73,33 @@ pub fn export_to(
     })
 }
 
+/// Scales offered in the scale row's menu (common practice for measured sections).
+pub const COMMON_SCALES: [f64; 6] = [10.0, 20.0, 50.0, 100.0, 200.0, 500.0];
+
+/// The scale, shown once: "Scale 1:" with the denominator to type or drag, and a menu of common
+/// scales that sets it.
+pub fn scale_row(ui: &mut egui::Ui, o: &mut LayoutOptions) {
+    ui.horizontal(|ui| {
+        let lab = ui.label("Scale").id;
+        ui.add(egui::DragValue::new(&mut o.scale_denominator).range(1.0..=100_000.0).speed(1.0).prefix("1:"))
+            .labelled_by(lab)
+            .on_hover_text("Any scale 1:N: type or drag N");
+        ui.menu_button("Common scales", |ui| {
+            for s in COMMON_SCALES {
+                if ui.button(format!("1:{s}")).clicked() {
+                    o.scale_denominator = s;
+                    ui.close();
+                }
+            }
+        });
+    });
+}
+
+/// The line above the preview (the scale is in the row above, not repeated here).
+pub fn pages_line(pages: usize) -> String {
+    format!("{pages} page{} · preview of page 1", if pages == 1 { "" } else { "s" })
+}
+
 impl ExportDialog {
     /// Draw the dialog.
     pub fn ui(
@@ -89,18 +116,7 @@ impl ExportDialog {
             ctx,
             |ui| {
                 let o = &mut self.options;
-                ui.horizontal(|ui| {
-                    ui.label("Scale 1 :");
-                    egui::ComboBox::from_id_salt("scale")
-                        .selected_text(format!("{}", o.scale_denominator))
-                        .show_ui(ui, |ui| {
-                            for s in [10.0, 20.0, 50.0, 100.0, 200.0, 500.0] {
-                                ui.selectable_value(&mut o.scale_denominator, s, format!("{s}"));
-                            }
-                        });
-                    ui.add(egui::DragValue::new(&mut o.scale_denominator).range(1.0..=100_000.0).speed(1.0))
-                        .on_hover_text("Any scale 1:N");
-                });
+                scale_row(ui, o);
                 ui.horizontal(|ui| {
                     ui.label("Paper");
                     egui::ComboBox::from_id_salt("paper").selected_text(o.paper.name()).show_ui(ui, |ui| {
@@ -131,11 +147,7 @@ impl ExportDialog {
                         Some(Preview { options: self.options.clone(), revision, pages, first_page_index });
                 }
                 let Some(Preview { pages, first_page_index, .. }) = self.preview.as_mut() else { return };
-                ui.label(format!(
-                    "{} page(s) at {} · preview of page 1",
-                    pages.len(),
-                    self.options.scale_label()
-                ));
+                ui.label(pages_line(pages.len()));
                 if let Some(page) = pages.first() {
                     let zoom = (340.0 / page.height_mm as f32).min(260.0 / page.width_mm as f32);
                     let (rect, _) = ui.allocate_exact_size(
@@ -187,5 +199,36 @@ impl ExportDialog {
             return Outcome::Closed;
         }
         outcome
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use egui_kittest::kittest::Queryable;
+
+    /// Widgets whose shown text holds the scale's denominator.
+    fn showing(h: &egui_kittest::Harness<'_, LayoutOptions>, text: &str) -> usize {
+        h.query_all_by(|n| n.value().or_else(|| n.label()).is_some_and(|l| l.contains(text))).count()
+    }
+
+    #[test]
+    fn the_scale_is_shown_once_and_a_common_scale_sets_it() {
+        let mut options = LayoutOptions { scale_denominator: 250.0, ..LayoutOptions::default() };
+        let mut h = egui_kittest::Harness::new_ui_state(
+            |ui, o: &mut LayoutOptions| scale_row(ui, o),
+            options.clone(),
+        );
+        h.run();
+        assert_eq!(showing(&h, "250"), 1, "the denominator appears in one widget only");
+        h.get_by_label("Common scales").click();
+        h.run();
+        h.get_by_label("1:200").click();
+        h.run();
+        options.scale_denominator = 200.0;
+        assert_eq!(h.state().scale_denominator, options.scale_denominator);
+        assert_eq!(showing(&h, "250"), 0);
+        assert_eq!(pages_line(1), "1 page · preview of page 1");
+        assert_eq!(pages_line(3), "3 pages · preview of page 1");
     }
 }

@@ -34,7 +34,7 @@ pub fn read_link(text: &str) -> Result<Option<String>, String> {
     if label.is_empty() {
         return Ok(None);
     }
-    aggrade_core::io::check_link_label(label).map_err(|why| format!("Link: {why}"))?;
+    aggrade_core::io::check_link_label(label).map_err(|why| format!("correlation label: {why}"))?;
     Ok(Some(label.to_string()))
 }
 
@@ -52,7 +52,7 @@ fn link_ui(
     out: &mut Actions,
 ) {
     ui.horizontal(|ui| {
-        let lab = ui.label("Link").id;
+        let lab = ui.label("Correlation label").id;
         let look = FieldLook {
             hint: LINK_HINT,
             tip: "Accepted boundaries with the same label in neighbouring sections are tied on the correlation panel. Stored when you press Enter or leave the field",
@@ -135,6 +135,11 @@ pub fn toggle_text(all_candidates: bool, unlisted: usize) -> String {
     }
 }
 
+/// One line of a candidate's evidence, its lengths in the section's display unit.
+pub fn evidence_line(e: &aggrade_core::rules::Evidence, unit: aggrade_core::model::LengthUnit) -> String {
+    format!("• {}", e.worded(unit))
+}
+
 /// Draw the candidate list.
 pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) {
     let interp = list.interp;
@@ -205,9 +210,9 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) 
     egui::ScrollArea::vertical().id_salt("review_list").show(ui, |ui| {
         for (rank, c) in interp.sequence_boundary_candidates.iter().enumerate().take(shown) {
             let (badge, colour) = match c.review {
-                ReviewState::Candidate => ("open", theme::WARN),
-                ReviewState::Accepted => ("accepted", theme::ACCEPTED),
-                ReviewState::Rejected => ("rejected", theme::REJECTED),
+                ReviewState::Candidate => (c.review.name(), theme::WARN),
+                ReviewState::Accepted => (c.review.name(), theme::ACCEPTED),
+                ReviewState::Rejected => (c.review.name(), theme::REJECTED),
             };
             egui::Frame::group(ui.style()).inner_margin(8.0).show(ui, |ui| {
                 ui.set_width(ui.available_width());
@@ -244,7 +249,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) 
                     );
                 }
                 for e in &c.evidence {
-                    ui.label(format!("• {e}"));
+                    ui.label(evidence_line(e, unit));
                 }
                 ui.horizontal(|ui| {
                     let accept = ui
@@ -268,8 +273,8 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) 
                         });
                     }
                     let reset = ui
-                        .add_enabled(c.review != ReviewState::Candidate, egui::Button::new("Reopen"))
-                        .on_hover_text("Take back your decision");
+                        .add_enabled(c.review != ReviewState::Candidate, egui::Button::new("Mark unreviewed"))
+                        .on_hover_text("Take back your decision: the boundary is unreviewed again");
                     if reset.clicked() {
                         out.edit(Edit::SetReview {
                             bed: c.bed_id,
@@ -478,7 +483,7 @@ mod tests {
         assert_eq!(read_link("  SB-2 "), Ok(Some("SB-2".to_string())));
         assert_eq!(read_link("   "), Ok(None), "blank takes the label off");
         let e = read_link("SB\u{7}").expect_err("control character");
-        assert!(e.starts_with("Link: must not hold control characters"), "{e}");
+        assert!(e.starts_with("correlation label: must not hold control characters"), "{e}");
         let long = "é".repeat(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS + 1);
         assert!(read_link(&long).is_err(), "41 characters (82 bytes)");
         let at_limit = "é".repeat(aggrade_core::io::limits::MAX_LINK_LABEL_CHARS);

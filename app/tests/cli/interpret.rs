@@ -48,10 +48,10 @@ fn json_follows_the_contract_on_the_cycle_fixture() {
     assert_eq!(
         got,
         vec![
-            (5.0, 13.0, 3, "multi-story"),
-            (19.0, 20.5, 1, "single-story"),
-            (32.0, 33.5, 1, "single-story"),
-            (40.0, 46.0, 2, "multi-story")
+            (5.0, 13.0, 3, "multi-storey"),
+            (19.0, 20.5, 1, "single-storey"),
+            (32.0, 33.5, 1, "single-storey"),
+            (40.0, 46.0, 2, "multi-storey")
         ]
     );
 
@@ -80,7 +80,7 @@ fn json_follows_the_contract_on_the_cycle_fixture() {
         .map(|a| a["regime"].as_str().unwrap_or(""))
         .collect();
     assert_eq!(regimes, vec!["undetermined", "undetermined", "low"]);
-    assert!(v["accommodation"][2]["why"].as_str().is_some_and(|w| w.contains("multi-story")));
+    assert!(v["accommodation"][2]["why"].as_str().is_some_and(|w| w.contains("multi-storey")));
 
     // Curve every 0.5 m from 0 to 48 m: 97 points. At 10 m the 10 m window is 5–15 m:
     // channel 5–13 = 8 m → 0.8.
@@ -107,7 +107,7 @@ fn readable_report_names_bodies_candidates_and_the_caution() {
     let text = stdout(&o);
     for needle in [
         "Channel bodies (4)",
-        "5.00–13.00 m (8.00 m): multi-story, 3 storeys",
+        "5.00–13.00 m (8.00 m): multi-storey, 3 storeys",
         "40.00–48.00 m: low",
         "1. 40.00 m, strong, channel-body base on a paleosol",
         "1 weak paleosol top with no other evidence not listed",
@@ -148,7 +148,7 @@ fn several_sections_need_a_section_name() {
 
     // Beds 0–3 mudstone, 3–5 strong paleosol, 5–7 conglomerate: one body of one storey. It
     // reaches the section top, so it is seen only in part: stacking undetermined, censored at
-    // its top (it was called single-story before censoring was read).
+    // its top (it was called single-storey before censoring was read).
     let v = json_of(&["interpret", p, "--json", "--section", "corran gap"]);
     assert_eq!(v["section"], "Corran Gap");
     assert!(close(num(&v["total_thickness"]), 7.0));
@@ -254,7 +254,7 @@ fn json_and_report_carry_censoring_profiles_bounds_and_storey_bodies() {
     assert_eq!(
         got,
         vec![
-            ("multi-story", serde_json::json!(["top"])),
+            ("multi-storey", serde_json::json!(["top"])),
             ("undetermined", serde_json::json!(["base"])),
             ("undetermined", serde_json::json!(["base"]))
         ]
@@ -277,7 +277,8 @@ fn json_and_report_carry_censoring_profiles_bounds_and_storey_bodies() {
     assert!(o.status.success(), "{}", stderr(&o));
     let text = stdout(&o);
     for needle in [
-        "(\u{2265} 8.69 m): multi-story, 3 storeys",
+        // Logged in feet: 8.6868 m is 28.50 ft (1 ft = 0.3048 m exactly, 1959 agreement).
+        "(\u{2265} 28.50 ft): multi-storey, 3 storeys",
         "[top not seen: thickness a minimum]",
         "undetermined, 1 storey",
         "with covered as fines",
@@ -313,8 +314,99 @@ fn bodies_csv_names_censored_ends_and_the_summary_counts_undetermined_bodies() {
     let ends: Vec<&str> = lines.map(|l| l.rsplit(',').next().unwrap_or("")).collect();
     assert_eq!(ends, vec!["top", "base", "base"]);
     let out = stdout(&o);
-    assert!(out.contains("stacking: 1 multi-story, 0 single-story, 2 undetermined"), "{out}");
+    assert!(out.contains("stacking: 1 multi-storey, 0 single-storey, 2 undetermined"), "{out}");
     assert!(out.contains("3 bodies seen only in part"), "{out}");
     assert!(out.contains("counting covered intervals as fines"), "{out}");
     assert!(out.contains("covered intervals decompacted as shale"), "{out}");
+}
+
+/// Lengths written in metres in a report: a number followed by the unit symbol "m" standing alone
+/// ("3.05 m", "10 m window"), not "m" starting a word.
+fn metre_lengths(text: &str) -> Vec<String> {
+    let words: Vec<&str> = text.split_whitespace().collect();
+    words
+        .windows(2)
+        .filter(|w| {
+            let unit = w[1].trim_end_matches([',', ')', ';', ':', '.']);
+            unit == "m"
+                && w[0].trim_start_matches(['(', '≥']).chars().last().is_some_and(|c| c.is_ascii_digit())
+        })
+        .map(|w| format!("{} {}", w[0], w[1]))
+        .collect()
+}
+
+#[test]
+fn a_section_logged_in_feet_reads_in_feet_and_a_metre_section_in_metres() {
+    // Pell Butte (invented demo) is logged in feet: every height, thickness and length of the
+    // report, evidence sentences and regime reasons included, is in feet; --json keeps metres.
+    let demo = demo_file();
+    let path = demo.to_str().expect("utf-8 path");
+    let o = aggrade(&["interpret", path, "--section", "Pell Butte", "--all-candidates"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    assert_eq!(metre_lengths(&text), Vec::<String>::new(), "lengths in metres in a feet report:\n{text}");
+    // 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959): the default 10 m
+    // window is 32.81 ft, the base of the lowest body 6.88848 m is 22.60 ft.
+    for needle in [
+        "(logged in ft: heights are ft above the section base; --json gives metres)",
+        "1. 22.60–51.10 ft (\u{2265} 28.50 ft): multi-storey",
+        "no channel body between 0.00 and 22.60 ft",
+        "every 1.64 ft in a 32.81 ft window",
+        "22.60 ft \"SB-1\", strong",
+    ] {
+        assert!(text.contains(needle), "report lacks {needle:?}:\n{text}");
+    }
+    let v = json_of(&["interpret", path, "--section", "Pell Butte", "--json"]);
+    let base = num(&v["sequence_boundary_candidates"][0]["height"]);
+    assert!((base - 22.6 * 0.3048).abs() < 1e-6, "JSON heights stay in metres: {base}");
+
+    // A section logged in metres reads in metres, as before.
+    let cycle = fixture("base_level_cycle.aggrade");
+    let o = aggrade(&["interpret", cycle.to_str().expect("utf-8 path")]);
+    let text = stdout(&o);
+    assert!(!text.contains(" ft"), "{text}");
+    assert!(!text.contains("logged in"), "{text}");
+    for needle in [
+        "Thickness 48.00 m, exposed 48.00 m, channel deposits 17.00 m",
+        "every 0.5 m in a 10 m window",
+        "1. 40.00 m, strong, channel-body base on a paleosol, unreviewed",
+    ] {
+        assert!(text.contains(needle), "report lacks {needle:?}:\n{text}");
+    }
+}
+
+#[test]
+fn the_review_state_reads_unreviewed_and_old_files_saying_candidate_still_open() {
+    // The cycle fixture with decisions written in the old word ("candidate") and the new one.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let text = std::fs::read_to_string(fixture("base_level_cycle.aggrade")).expect("fixture");
+    let mut v: Value = serde_json::from_str(&text).expect("fixture parses");
+    let bed_at_40 = v["sections"][0]["beds"]
+        .as_array()
+        .expect("beds")
+        .iter()
+        .scan(0.0, |h, b| {
+            let base = *h;
+            *h += num(&b["thickness_m"]);
+            Some((base, b["id"].clone()))
+        })
+        .find(|(base, _)| close(*base, 40.0))
+        .map(|(_, id)| id)
+        .expect("a bed based at 40 m");
+    v["sections"][0]["review"] =
+        serde_json::json!([{"bed": bed_at_40, "state": "candidate", "note": "look again"}]);
+    let old = dir.path().join("old.aggrade");
+    std::fs::write(&old, v.to_string()).expect("write");
+    let p = old.to_str().expect("utf-8 path");
+
+    let o = aggrade(&["interpret", p]);
+    assert!(o.status.success(), "an old file's \"candidate\" state is read: {}", stderr(&o));
+    let report = stdout(&o);
+    assert!(report.contains("1. 40.00 m, strong, channel-body base on a paleosol, unreviewed"), "{report}");
+    assert!(report.contains("note: look again"), "{report}");
+    for old_word in ["not yet reviewed", "still a candidate", "open"] {
+        assert!(!report.contains(old_word), "{old_word:?} in:\n{report}");
+    }
+    let j = json_of(&["interpret", p, "--json"]);
+    assert_eq!(j["sequence_boundary_candidates"][0]["review"], "unreviewed");
 }

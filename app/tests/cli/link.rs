@@ -16,7 +16,8 @@ fn run(args: &[&str]) -> Output {
 }
 
 /// Two invented sections, each with an accepted boundary at the base of bed 2 (3 m in Ash Draw,
-/// 1.5 m in Birch Cut); bed 3 of Ash Draw is a candidate left open, bed 1 has no decision.
+/// 1.5 m in Birch Cut); bed 3 of Ash Draw is unreviewed (with a note; written in the old word
+/// "candidate", which is still read), bed 1 has no decision.
 const PROJECT: &str = r#"{
   "format_version": 1,
   "sections": [
@@ -76,10 +77,10 @@ fn link_two_sections_then_remove_one_label() {
     let err = text(&r.stderr);
     assert!(r.status.success(), "{err}");
     assert!(
-        err.contains("linked the boundary at the base of bed 2 (3.00 m) in \"Ash Draw\" as \"SB-2\""),
+        err.contains("set the correlation label of the boundary at the base of bed 2 (3.00 m) in \"Ash Draw\" to \"SB-2\""),
         "{err}"
     );
-    assert!(err.contains("no other accepted boundary carries \"SB-2\" yet"), "{err}");
+    assert!(err.contains("no other accepted boundary carries the correlation label \"SB-2\" yet"), "{err}");
     assert_eq!(std::fs::read_to_string(&src).expect("read"), PROJECT, "--out leaves the source alone");
     assert_eq!(stored_link(&out, 0, 2).as_deref(), Some("SB-2"));
 
@@ -87,7 +88,7 @@ fn link_two_sections_then_remove_one_label() {
     let r = run(&["link", o, "--section", "birch cut", "--bed", "2", "--label", " SB-2 "]);
     let err = text(&r.stderr);
     assert!(r.status.success(), "{err}");
-    assert!(err.contains("\"SB-2\" is also on: Ash Draw bed 2 (3.00 m)"), "{err}");
+    assert!(err.contains("the correlation label \"SB-2\" is also on: Ash Draw bed 2 (3.00 m)"), "{err}");
     assert_eq!(stored_link(&out, 1, 2).as_deref(), Some("SB-2"));
     assert!(dir.path().join("linked.aggrade.bak").exists(), "the previous file is kept as .bak");
 
@@ -131,10 +132,14 @@ fn refuses_what_cannot_be_linked_and_leaves_the_file_alone() {
         assert!(!err.contains("panicked"), "{err}");
         assert_eq!(std::fs::read_to_string(&src).expect("read"), PROJECT, "{args:?} changed the file");
     };
-    // A candidate left open, and a boundary with no decision at all.
+    // An unreviewed boundary, and a boundary with no decision at all.
     refused(
         &["link", s, "--section", "Ash Draw", "--bed", "3", "--label", "SB-3"],
-        &["two.aggrade", "bed 3 (5.00 m) in \"Ash Draw\" is still a candidate", "only an accepted boundary"],
+        &[
+            "two.aggrade",
+            "bed 3 (5.00 m) in \"Ash Draw\" is unreviewed",
+            "only an accepted boundary can carry a correlation label",
+        ],
     );
     refused(
         &["link", s, "--section", "Ash Draw", "--bed", "1", "--label", "SB-3"],

@@ -1,7 +1,7 @@
 //! The rules in the real window (egui_kittest, driven by label and keyboard): the parameters are
 //! the project's (typed in the panel, undone, saved and opened again), the review list shows
 //! strength classes and lists weak paleosol tops on request, and "Check stability" marks each
-//! candidate with its stability.
+//! candidate with its stability; a feet section's review card words its lengths in feet.
 
 use super::harness::{app_with, harness_of};
 use aggrade::gui::{AggradeApp, Document, Tab};
@@ -164,4 +164,50 @@ fn check_stability_marks_each_candidate_and_lapses_with_an_edit() {
     h.run();
     assert!(h.state().stability().is_none());
     assert!(!shown_containing(&h, "stable in "));
+}
+
+/// The review card of a section logged in feet: the evidence's lengths in feet, the review state
+/// named "unreviewed" until decided, and the accepted boundary's "Correlation label" field.
+#[test]
+fn the_review_card_words_lengths_in_feet_and_names_the_review_state_unreviewed() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut project = (*weak_soil_section().project).clone();
+    let s = &mut project.sections[0];
+    s.display_unit = aggrade_core::model::LengthUnit::Foot;
+    // 3.048 m = 10 ft of erosional relief (1 ft = 0.3048 m exactly, international yard and pound
+    // agreement 1959): beyond the 2 m storey.
+    s.beds[3].base_relief_m = Some(3.048);
+    let mut h = review(Some(Document::new(project, None)), data.path(), vec![]);
+    let listed = h.state_mut().interpretation().clone();
+    let channel = &listed.sequence_boundary_candidates[0];
+    assert!(
+        channel.evidence.iter().any(|e| matches!(e, aggrade_core::rules::Evidence::ReliefOverStorey { .. })),
+        "{:?}",
+        channel.evidence
+    );
+    // The 2 m storey is 6.56 ft.
+    assert!(shown_containing(&h, "erosional relief of 10.00 ft exceeds the thickest storey (6.56 ft)"));
+    let evidence_lines: Vec<String> = h
+        .query_all_by(|n| n.value().is_some_and(|l| l.starts_with("• ")))
+        .filter_map(|n| n.value())
+        .collect();
+    assert!(!evidence_lines.is_empty());
+    for line in &evidence_lines {
+        assert!(
+            !line.contains(" m ") && !line.ends_with(" m"),
+            "a length in metres on a feet section: {line}"
+        );
+    }
+    assert!(h.query_by_label("unreviewed").is_some(), "the review state's badge");
+    assert!(!shown_containing(&h, "open"), "the old word for the state is gone");
+
+    h.get_by_label("Accept").click();
+    h.run();
+    h.run();
+    assert!(h.query_by_label("accepted").is_some());
+    assert!(h.query_by_label("Correlation label").is_some(), "the accepted boundary's label field");
+    h.get_by_label("Mark unreviewed").click();
+    h.run();
+    h.run();
+    assert!(h.query_by_label("unreviewed").is_some());
 }

@@ -130,14 +130,28 @@ pub struct LatLon {
     pub lon_deg: f64,
 }
 
-/// Review state of a candidate sequence boundary.
+/// Review state of a candidate sequence boundary: unreviewed, accepted or rejected.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum ReviewState {
+    /// Not yet reviewed: written `"unreviewed"`; files written before that word was chosen say
+    /// `"candidate"`, which is still read.
     #[default]
+    #[serde(rename = "unreviewed", alias = "candidate")]
     Candidate,
     Accepted,
     Rejected,
+}
+
+impl ReviewState {
+    /// The word shown, printed and written (`unreviewed`, `accepted`, `rejected`).
+    pub fn name(self) -> &'static str {
+        match self {
+            ReviewState::Candidate => "unreviewed",
+            ReviewState::Accepted => "accepted",
+            ReviewState::Rejected => "rejected",
+        }
+    }
 }
 
 /// The geologist's decision on the candidate at one bed boundary (the base of `bed`). Kept in

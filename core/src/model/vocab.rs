@@ -1,5 +1,5 @@
 //! Closed vocabularies of the log: sedimentary structures, basal contacts, paleosol development
-//! and features, and length units.
+//! and features, and length units (with lengths written in a display unit).
 
 use super::grain::normalise_term;
 use serde::{Deserialize, Serialize};
@@ -173,6 +173,40 @@ impl LengthUnit {
     pub fn from_metres(self, metres: f64) -> f64 {
         metres / self.metres()
     }
+
+    /// A length held in metres, to be written in this unit: `format!("{}", ft.length(3.048))`
+    /// gives "10.00 ft" (two decimals unless the format asks for another precision).
+    pub fn length(self, metres: f64) -> Length {
+        Length { metres, unit: self }
+    }
+}
+
+/// A length held in metres and written in a display unit with the unit's symbol ("10.00 ft");
+/// see [`LengthUnit::length`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Length {
+    pub metres: f64,
+    pub unit: LengthUnit,
+}
+
+impl Length {
+    /// The number alone in the display unit, to at most two decimals without trailing zeros
+    /// ("10", "32.81").
+    pub fn number_trimmed(self) -> String {
+        let s = format!("{:.2}", self.unit.from_metres(self.metres));
+        if s.contains('.') {
+            s.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            s
+        }
+    }
+}
+
+impl fmt::Display for Length {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let digits = f.precision().unwrap_or(2);
+        write!(f, "{:.*} {}", digits, self.unit.from_metres(self.metres), self.unit.name())
+    }
 }
 
 #[cfg(test)]
@@ -192,5 +226,16 @@ mod tests {
         assert_eq!(PaleosolDevelopment::parse("Very_Strong"), Some(PaleosolDevelopment::VeryStrong));
         assert_eq!(Structure::parse("trough"), None);
         assert_eq!(Contact::parse(""), None);
+    }
+
+    #[test]
+    fn a_length_is_written_in_its_display_unit() {
+        // 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959).
+        assert_eq!(LengthUnit::Foot.length(3.048).to_string(), "10.00 ft");
+        assert_eq!(LengthUnit::Metre.length(3.048).to_string(), "3.05 m");
+        assert_eq!(format!("{:.1}", LengthUnit::Centimetre.length(0.25)), "25.0 cm");
+        assert_eq!(LengthUnit::Metre.length(10.0).number_trimmed(), "10");
+        assert_eq!(LengthUnit::Metre.length(12.5).number_trimmed(), "12.5");
+        assert_eq!(LengthUnit::Foot.length(10.0).number_trimmed(), "32.81");
     }
 }

@@ -4,7 +4,7 @@
 //!
 //! | low accommodation | high accommodation |
 //! | --- | --- |
-//! | most bodies multi-story (amalgamated) | several single-story bodies, most bodies isolated |
+//! | most bodies multi-storey (amalgamated) | several single-storey bodies, most bodies isolated |
 //! | channel-body proportion ≥ `low_min_proportion` + margin | proportion ≤ `high_max_proportion` − margin |
 //!
 //! (the proportion gives a sign only where the stretch holds a channel body)
@@ -175,7 +175,7 @@ mod tests {
 
     #[test]
     fn mostly_covered_stretch_is_undetermined_and_says_why() {
-        // Mud 0–1 m, multi-story body 1–5 m, then 10 m covered and 2 m mud: with no boundary the
+        // Mud 0–1 m, multi-storey body 1–5 m, then 10 m covered and 2 m mud: with no boundary the
         // stretch is the whole 17 m, 10/17 = 59 % covered (> 50 %), so no call despite the
         // amalgamated body.
         use Lithology::{Covered, Mudstone, Sandstone};

@@ -2,10 +2,12 @@
 //! it is shown or written: interpreting a long section no longer formats thousands of sentences
 //! that nobody reads, and the words stay in one place.
 //!
-//! Each value displays as one sentence and serialises as that sentence, so the JSON output and
-//! the screen read exactly as before.
+//! Lengths are held in metres. Each value displays as one sentence with its lengths in metres,
+//! and serialises as that sentence (the JSON output, whose heights are metres); `worded(unit)`
+//! writes the same sentence with its lengths in a section's display unit, for the window and the
+//! readable report.
 
-use crate::model::{PaleosolDevelopment, WentworthClass};
+use crate::model::{LengthUnit, PaleosolDevelopment, WentworthClass};
 use serde::{Serialize, Serializer};
 use std::fmt;
 
@@ -49,9 +51,9 @@ pub enum EvidenceKind {
 /// [`EvidenceKind`] (see [`Evidence::kind`]).
 #[derive(Debug, Clone, PartialEq)]
 pub enum Evidence {
-    /// Site: the base of a multi-story body.
+    /// Site: the base of a multi-storey body.
     MultiStoryBase { storeys: usize, amalgamated_bases: usize },
-    /// Site: the base of a single-story body.
+    /// Site: the base of a single-storey body.
     SingleStoryBase,
     /// Site: the base of a body seen only in part (one storey seen).
     PartlySeenBodyBase,
@@ -131,29 +133,54 @@ impl Evidence {
     }
 }
 
-/// "10 m", or "6.50 m (of a 10 m window)" when the section ends sooner.
-struct WindowText(f64, f64);
+/// An item of evidence or a regime's reasoning worded with its lengths in a display unit (see
+/// [`Evidence::worded`], [`RegimeWhy::worded`]).
+#[derive(Debug, Clone, Copy)]
+pub struct Worded<'a, T> {
+    item: &'a T,
+    unit: LengthUnit,
+}
+
+/// "10 m", or "6.50 m (all the section has of the 10 m window)" when the section ends sooner;
+/// in the display unit.
+struct WindowText(f64, f64, LengthUnit);
 
 impl fmt::Display for WindowText {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let (available, window) = (self.0, self.1);
+        let (available, window, u) = (self.0, self.1, self.2);
+        let window_text = format!("{} {u}", u.length(window).number_trimmed());
         if available + 1e-9 < window {
-            write!(f, "{available:.2} m (all the section has of the {window} m window)")
+            write!(f, "{} (all the section has of the {window_text} window)", u.length(available))
         } else {
-            write!(f, "{window} m")
+            f.write_str(&window_text)
         }
+    }
+}
+
+impl Evidence {
+    /// The sentence with its lengths in `unit` (a section's display unit).
+    pub fn worded(&self, unit: LengthUnit) -> Worded<'_, Evidence> {
+        Worded { item: self, unit }
     }
 }
 
 impl fmt::Display for Evidence {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        self.worded(LengthUnit::Metre).fmt(f)
+    }
+}
+
+impl fmt::Display for Worded<'_, Evidence> {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         use Evidence::*;
-        match self {
+        let u = self.unit;
+        let len = |m: f64| u.length(m);
+        match self.item {
             MultiStoryBase { storeys, amalgamated_bases } => write!(
                 f,
-                "base of a multi-story channel body of {storeys} storeys ({amalgamated_bases} resting on channel sand)"
+                "base of a multi-storey channel body of {storeys} storeys ({amalgamated_bases} resting on channel sand)"
             ),
-            SingleStoryBase => f.write_str("base of a single-story channel body"),
+            SingleStoryBase => f.write_str("base of a single-storey channel body"),
             PartlySeenBodyBase => f.write_str(
                 "base of a channel body seen only in part (stacking undetermined)",
             ),
@@ -166,19 +193,22 @@ impl fmt::Display for Evidence {
             ),
             CutByChannelAbove { development, at_m } => write!(
                 f,
-                "top of a paleosol of {} development that the channel based at {at_m:.2} m cuts down into (no interfluve)",
-                development.name()
+                "top of a paleosol of {} development that the channel based at {} cuts down into (no interfluve)",
+                development.name(),
+                len(*at_m)
             ),
             IncisionTagged { name } if name.trim().is_empty() => {
                 f.write_str("tagged by the geologist as an incision surface")
             }
             IncisionTagged { name } => write!(f, "tagged by the geologist as an incision surface (\"{name}\")"),
             ReliefOverLimit { relief_m, limit_m } => {
-                write!(f, "erosional relief of {relief_m:.2} m exceeds the {limit_m:.2} m relief limit")
+                write!(f, "erosional relief of {} exceeds the {} relief limit", len(*relief_m), len(*limit_m))
             }
             ReliefOverStorey { relief_m, storey_m, cuts_into_own_body } => write!(
                 f,
-                "erosional relief of {relief_m:.2} m exceeds the thickest storey ({storey_m:.2} m) of {}",
+                "erosional relief of {} exceeds the thickest storey ({}) of {}",
+                len(*relief_m),
+                len(*storey_m),
                 if *cuts_into_own_body { "its own channel body" } else { "the channel body it cuts into" }
             ),
             CoarserFill { above, below, classes, bodies_below, available_m, window_m } => write!(
@@ -187,13 +217,13 @@ impl fmt::Display for Evidence {
                  channel fill{} in the {} below ({}; thickness-weighted median grain, lags left out)",
                 above.name(),
                 if *bodies_below == 1 { "" } else { "s" },
-                WindowText(*available_m, *window_m),
+                WindowText(*available_m, *window_m, u),
                 below.name()
             ),
             AmalgamatedOverIsolated { storeys, isolated_below, available_m, window_m } => write!(
                 f,
-                "a multi-story body of {storeys} storeys above only single-story bodies ({isolated_below}) in the {} below",
-                WindowText(*available_m, *window_m)
+                "a multi-storey body of {storeys} storeys above only single-storey bodies ({isolated_below}) in the {} below",
+                WindowText(*available_m, *window_m, u)
             ),
             ErodesIntoPaleosol { development } => {
                 write!(f, "erodes directly into a paleosol of {} development", development.name())
@@ -203,8 +233,10 @@ impl fmt::Display for Evidence {
             }
             ReliefReachesPaleosol { relief_m, development, depth_m } => write!(
                 f,
-                "its {relief_m:.2} m relief reaches a paleosol of {} development {depth_m:.2} m below",
-                development.name()
+                "its {} relief reaches a paleosol of {} development {} below",
+                len(*relief_m),
+                development.name(),
+                len(*depth_m)
             ),
             InterfluvePaleosol { development, poorly_drained } => write!(
                 f,
@@ -220,11 +252,11 @@ impl fmt::Display for Evidence {
             CoarseGrained { coarsest } => write!(f, "coarse-grained: up to {}", coarsest.name()),
             BlockyProfile => f.write_str("blocky grain-size profile"),
             DownstreamAccretion => f.write_str("downstream-accretion surfaces recorded"),
-            LittleMud { mud_m } => write!(f, "little mud inside the body ({mud_m:.2} m of drapes)"),
+            LittleMud { mud_m } => write!(f, "little mud inside the body ({} of drapes)", len(*mud_m)),
             FiningStoreys { fining, storeys } => write!(f, "{fining} of {storeys} storeys fine upward"),
             LateralAccretion => f.write_str("lateral-accretion surfaces recorded"),
             ThickOverbank { overbank_m, body_m } => {
-                write!(f, "thick overbank fines above ({overbank_m:.2} m over a {body_m:.2} m body)")
+                write!(f, "thick overbank fines above ({} over a {} body)", len(*overbank_m), len(*body_m))
             }
             Note(text) => f.write_str(text),
         }
@@ -252,17 +284,34 @@ pub enum Undetermined {
     PartlySeenBodies { bodies: usize },
 }
 
+impl Undetermined {
+    /// The reason with its lengths in `unit` (a section's display unit).
+    pub fn worded(&self, unit: LengthUnit) -> Worded<'_, Undetermined> {
+        Worded { item: self, unit }
+    }
+}
+
 impl fmt::Display for Undetermined {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        self.worded(LengthUnit::Metre).fmt(f)
+    }
+}
+
+impl fmt::Display for Worded<'_, Undetermined> {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         use Undetermined::*;
-        match self {
+        let u = self.unit;
+        let number = |m: f64| u.from_metres(m);
+        match self.item {
             NoThickness => f.write_str("the section has no thickness"),
             MostlyCovered { percent, base_m, top_m } => {
-                write!(f, "mostly covered ({percent}% of {base_m:.2}–{top_m:.2} m)")
+                write!(f, "mostly covered ({percent}% of {:.2}–{:.2} {u})", number(*base_m), number(*top_m))
             }
             NoChannelBody { base_m, top_m } => write!(
                 f,
-                "no channel body between {base_m:.2} and {top_m:.2} m (its channel-body proportion gives no sign)"
+                "no channel body between {:.2} and {:.2} {u} (its channel-body proportion gives no sign)",
+                number(*base_m),
+                number(*top_m)
             ),
             TooFewSigns { signs, needed } => {
                 write!(f, "{signs} sign{} found, a call needs {needed}", if *signs == 1 { "" } else { "s" })
@@ -274,7 +323,7 @@ impl fmt::Display for Undetermined {
             ),
             TooFewIsolated { bodies, needed } => write!(
                 f,
-                "only {bodies} isolated single-story bod{} (a sign of high accommodation needs {needed})",
+                "only {bodies} isolated single-storey bod{} (a sign of high accommodation needs {needed})",
                 if *bodies == 1 { "y" } else { "ies" }
             ),
             PartlySeenBodies { bodies } => write!(
@@ -289,9 +338,9 @@ impl fmt::Display for Undetermined {
 /// One sign for a regime in a stretch.
 #[derive(Debug, Clone, PartialEq)]
 pub enum RegimeSign {
-    /// Low: most bodies multi-story (amalgamated).
+    /// Low: most bodies multi-storey (amalgamated).
     Amalgamated { multi: usize, bodies: usize, partly_seen: usize },
-    /// High: single-story bodies isolated in fines, several of them.
+    /// High: single-storey bodies isolated in fines, several of them.
     Isolated { single: usize, bodies: usize, partly_seen: usize },
     /// Low: a high channel-body proportion.
     SandRich { proportion: f64, min: f64 },
@@ -310,13 +359,13 @@ impl fmt::Display for RegimeSign {
             Amalgamated { multi, bodies, partly_seen } => {
                 write!(
                     f,
-                    "{multi} of {bodies} channel bodies multi-story (amalgamated){}",
+                    "{multi} of {bodies} channel bodies multi-storey (amalgamated){}",
                     PartlySeen(*partly_seen)
                 )
             }
             Isolated { single, bodies, partly_seen } => write!(
                 f,
-                "{single} of {bodies} channel bodies single-story, isolated in floodplain fines{}",
+                "{single} of {bodies} channel bodies single-storey, isolated in floodplain fines{}",
                 PartlySeen(*partly_seen)
             ),
             SandRich { proportion, min } => write!(f, "channel-body proportion {proportion:.2} (≥ {min:.2})"),
@@ -365,9 +414,23 @@ fn join(f: &mut fmt::Formatter<'_>, items: impl Iterator<Item = String>) -> fmt:
     Ok(())
 }
 
+impl RegimeWhy {
+    /// The reasoning with its lengths in `unit` (a section's display unit).
+    pub fn worded(&self, unit: LengthUnit) -> Worded<'_, RegimeWhy> {
+        Worded { item: self, unit }
+    }
+}
+
 impl fmt::Display for RegimeWhy {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        match self {
+        self.worded(LengthUnit::Metre).fmt(f)
+    }
+}
+
+impl fmt::Display for Worded<'_, RegimeWhy> {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let u = self.unit;
+        match self.item {
             RegimeWhy::Called { signs, against } => {
                 join(f, signs.iter().map(ToString::to_string))?;
                 if !against.is_empty() {
@@ -378,7 +441,7 @@ impl fmt::Display for RegimeWhy {
             }
             RegimeWhy::Undetermined { signs, reasons } => {
                 f.write_str("evidence too thin or mixed to call a regime: ")?;
-                join(f, reasons.iter().map(ToString::to_string))?;
+                join(f, reasons.iter().map(|r| r.worded(u).to_string()))?;
                 if !signs.is_empty() {
                     f.write_str("; signs found: ")?;
                     join(f, signs.iter().map(ToString::to_string))?;
@@ -421,6 +484,50 @@ mod tests {
     }
 
     #[test]
+    fn lengths_are_worded_in_the_display_unit_and_metres_stay_as_they_were() {
+        // 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959): 3.048 m relief
+        // is 10 ft, a 1.524 m limit 5 ft, a 10 m window 32.81 ft.
+        let relief = Evidence::ReliefOverLimit { relief_m: 3.048, limit_m: 1.524 };
+        assert_eq!(relief.to_string(), "erosional relief of 3.05 m exceeds the 1.52 m relief limit");
+        assert_eq!(
+            relief.worded(LengthUnit::Foot).to_string(),
+            "erosional relief of 10.00 ft exceeds the 5.00 ft relief limit"
+        );
+        let reach = Evidence::ReliefReachesPaleosol {
+            relief_m: 3.048,
+            development: PaleosolDevelopment::Strong,
+            depth_m: 0.6096,
+        };
+        assert_eq!(
+            reach.worded(LengthUnit::Foot).to_string(),
+            "its 10.00 ft relief reaches a paleosol of strong development 2.00 ft below"
+        );
+        let shift = Evidence::AmalgamatedOverIsolated {
+            storeys: 2,
+            isolated_below: 1,
+            available_m: 10.0,
+            window_m: 10.0,
+        };
+        assert!(shift.to_string().ends_with("in the 10 m below"), "{shift}");
+        assert!(shift.worded(LengthUnit::Foot).to_string().ends_with("in the 32.81 ft below"));
+        let why = RegimeWhy::Undetermined {
+            signs: vec![],
+            reasons: vec![Undetermined::NoChannelBody { base_m: 0.0, top_m: 3.048 }],
+        };
+        assert_eq!(
+            why.worded(LengthUnit::Foot).to_string(),
+            "evidence too thin or mixed to call a regime: no channel body between 0.00 and 10.00 ft (its \
+             channel-body proportion gives no sign)"
+        );
+        assert!(why.to_string().contains("between 0.00 and 3.05 m"), "{why}");
+        // A sentence with no length reads the same in any unit.
+        assert_eq!(
+            Evidence::SingleStoryBase.worded(LengthUnit::Foot).to_string(),
+            Evidence::SingleStoryBase.to_string()
+        );
+    }
+
+    #[test]
     fn regime_reasons_read_in_order() {
         let why = RegimeWhy::Undetermined {
             signs: vec![RegimeSign::Amalgamated { multi: 2, bodies: 2, partly_seen: 0 }],
@@ -433,7 +540,7 @@ mod tests {
             why.to_string(),
             "evidence too thin or mixed to call a regime: channel-body proportion 0.52 is within 0.05 of the 0.50 \
              threshold (no sign either way); 1 sign found, a call needs 2; signs found: 2 of 2 channel bodies \
-             multi-story (amalgamated)"
+             multi-storey (amalgamated)"
         );
     }
 }

@@ -103,11 +103,11 @@ pub struct RuleParams {
     /// Weight of an *interfluve paleosol* (a mature profile capping floodplain fines, no channel
     /// on it; Kraus 1999; McCarthy & Plint 1998). Default 0.3: our choice.
     pub weight_interfluve_paleosol: f64,
-    /// A stretch is called low accommodation when its bodies are multi-story and its
+    /// A stretch is called low accommodation when its bodies are multi-storey and its
     /// channel-body proportion is at least this. Default 0.5: Allen 1978 (connectedness rises
     /// sharply above ~50 % channel deposits; from memory).
     pub low_min_proportion: f64,
-    /// A stretch is called high accommodation when its bodies are single-story and its
+    /// A stretch is called high accommodation when its bodies are single-storey and its
     /// proportion is at most this. Default 0.3: Larue & Hovadik 2006 (connectivity falls steeply
     /// below ~30 % net-to-gross, i.e. bodies become isolated).
     pub high_max_proportion: f64,

@@ -4,7 +4,7 @@
 //! the suffix (`base`, `top`, `height`) to keep the `aggrade interpret --json` contract.
 
 use super::evidence::{Evidence, RegimeWhy};
-use crate::model::{BedId, GrainSize, PaleosolDevelopment, ReviewState};
+use crate::model::{BedId, GrainSize, LengthUnit, PaleosolDevelopment, ReviewState};
 use serde::Serialize;
 
 /// The depositional element a bed is read as.
@@ -39,14 +39,16 @@ pub struct Storey {
     pub body: usize,
 }
 
-/// How the storeys of a channel body are stacked.
+/// How the storeys of a channel body are stacked. Written `multi-storey`, `single-storey` (the
+/// spelling of "storey" used everywhere); output written before that choice said `multi-story`,
+/// `single-story`, which [`Stacking::parse`] still reads.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
 pub enum Stacking {
     /// Two or more storeys: amalgamated.
-    #[serde(rename = "multi-story")]
+    #[serde(rename = "multi-storey")]
     MultiStory,
     /// One storey encased in floodplain fines: isolated.
-    #[serde(rename = "single-story")]
+    #[serde(rename = "single-storey")]
     SingleStory,
     /// One storey seen, but the body is cut by the section's base or top or by a covered
     /// interval: more storeys may lie in the part not seen.
@@ -55,12 +57,28 @@ pub enum Stacking {
 }
 
 impl Stacking {
-    /// The term as shown and written (`multi-story`, `single-story`, `undetermined`).
+    /// The term as shown and written (`multi-storey`, `single-storey`, `undetermined`).
     pub fn name(self) -> &'static str {
         match self {
-            Stacking::MultiStory => "multi-story",
-            Stacking::SingleStory => "single-story",
+            Stacking::MultiStory => "multi-storey",
+            Stacking::SingleStory => "single-storey",
             Stacking::Undetermined => "undetermined",
+        }
+    }
+
+    /// The term as written now or before (`multi-story`, `single-story`), in any case, with
+    /// spaces, hyphens or underscores.
+    pub fn parse(text: &str) -> Option<Stacking> {
+        let norm: String = text
+            .trim()
+            .chars()
+            .map(|c| if c == ' ' || c == '_' { '-' } else { c.to_ascii_lowercase() })
+            .collect();
+        match norm.as_str() {
+            "multi-storey" | "multi-story" => Some(Stacking::MultiStory),
+            "single-storey" | "single-story" => Some(Stacking::SingleStory),
+            "undetermined" => Some(Stacking::Undetermined),
+            _ => None,
         }
     }
 }
@@ -108,6 +126,7 @@ pub struct ChannelBody {
     pub top_m: f64,
     #[serde(rename = "thickness")]
     pub thickness_m: f64,
+    /// How many storeys the body has (the JSON key keeps its first spelling, `stories`).
     pub stories: usize,
     pub stacking: Stacking,
     /// Ends not seen (`base`, `top`); when not empty the thickness is a minimum.
@@ -137,8 +156,13 @@ impl ChannelBody {
 
     /// Thickness as written for people: "≥ 4.20 m" when censored, "4.20 m" otherwise.
     pub fn thickness_text(&self) -> String {
+        self.thickness_text_in(LengthUnit::Metre)
+    }
+
+    /// [`ChannelBody::thickness_text`] in a section's display unit ("≥ 13.78 ft").
+    pub fn thickness_text_in(&self, unit: LengthUnit) -> String {
         let at_least = if self.is_censored() { "\u{2265} " } else { "" };
-        format!("{at_least}{:.2} m", self.thickness_m)
+        format!("{at_least}{}", unit.length(self.thickness_m))
     }
 }
 
@@ -361,4 +385,44 @@ pub struct Interpretation {
     pub params: super::params::RuleParams,
     /// "Candidates for expert review" caution.
     pub caution: String,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn stacking_is_written_storey_and_read_in_either_spelling() {
+        assert_eq!(serde_json::to_value(Stacking::MultiStory).ok(), Some("multi-storey".into()));
+        assert_eq!(serde_json::to_value(Stacking::SingleStory).ok(), Some("single-storey".into()));
+        for s in [Stacking::MultiStory, Stacking::SingleStory, Stacking::Undetermined] {
+            assert_eq!(Stacking::parse(s.name()), Some(s));
+        }
+        assert_eq!(Stacking::parse("multi-story"), Some(Stacking::MultiStory));
+        assert_eq!(Stacking::parse(" Single_Story "), Some(Stacking::SingleStory));
+        assert_eq!(Stacking::parse("storeyed"), None);
+    }
+
+    #[test]
+    fn a_censored_thickness_is_a_minimum_in_the_display_unit() {
+        let body = ChannelBody {
+            base_m: 0.0,
+            top_m: 4.2672,
+            thickness_m: 4.2672,
+            stories: 2,
+            stacking: Stacking::MultiStory,
+            censored: vec![Censor::Top],
+            amalgamated_bases: 1,
+            grain_finest: None,
+            grain_coarsest: None,
+            profile: GrainProfile::Unknown,
+            style_hint: None,
+            storey_indices: vec![0, 1],
+            stability: None,
+            flipped_by: None,
+        };
+        // 4.2672 m = 14 ft exactly (1 ft = 0.3048 m, international yard and pound agreement 1959).
+        assert_eq!(body.thickness_text(), "\u{2265} 4.27 m");
+        assert_eq!(body.thickness_text_in(LengthUnit::Foot), "\u{2265} 14.00 ft");
+    }
 }

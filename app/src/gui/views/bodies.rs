@@ -312,7 +312,7 @@ impl BodiesView {
                 &[
                     "thickness (m)",
                     "count",
-                    "multi / single / undetermined",
+                    "multi-storey / single-storey / undetermined",
                     "mean",
                     "median",
                     "P10",
@@ -507,7 +507,7 @@ mod tests {
         let cells = row_cells(&r.rows[0], None);
         assert_eq!(cells.len(), 8);
         assert_eq!(cells[0], r.rows[0].section);
-        assert!(["multi-story", "single-story", "undetermined"].contains(&cells[5].as_str()));
+        assert!(["multi-storey", "single-storey", "undetermined"].contains(&cells[5].as_str()));
         assert_eq!(row_cells(&r.rows[0], Some(1.234))[8], "1.23");
     }
 }
