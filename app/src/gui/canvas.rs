@@ -3,20 +3,25 @@
 //! and a right-click menu inserts, splits, merges and deletes beds.
 
 use super::actions::{gesture_key, Actions};
+use super::column::Cache;
+use super::column_help::{self, HEADER_H};
 use super::document::{Document, Edit};
 use super::engine::Strip;
-use super::painter::{self, ItemIndex, MmToScreen};
+use super::painter::{self, MmToScreen};
 use super::theme;
 use super::trace::backdrop::{behind_column, CanvasBackdrop, CanvasPlace};
+use aggrade_core::layout::{column_tracks, Item};
 use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 use egui::{Color32, CursorIcon, Pos2, Rect, Sense, Shape, Vec2};
 
 /// Width of the height ruler on the left, points.
 const RULER_W: f32 = 58.0;
-/// Height of the grain-size scale header, points.
-const HEADER_H: f32 = 24.0;
-/// How close (points) the pointer must be to a boundary or edge to grab it.
+/// How close (points) the pointer must be to a bed's right edge to grab it.
 const GRAB_PT: f32 = 5.0;
+/// Height (points) of the band, centred on a bed's top, that grabs the top to drag it.
+pub const GRAB_TOP_PT: f32 = 10.0;
+/// Width of the outline round the selected bed, points.
+const SELECT_OUTLINE_PT: f32 = 2.5;
 
 #[derive(Debug, Clone, Copy, PartialEq)]
 enum DragKind {
@@ -90,6 +95,9 @@ pub struct Canvas {
     pub zoom: f32,
     /// Strip y (mm) shown at the top of the view.
     pub top_mm: f64,
+    /// Strip x (mm) at the left of the view, right of the ruler (the strip pans sideways when
+    /// wider than the view).
+    pub left_mm: f64,
     drag: Option<DragKind>,
     context_bed: Option<BedId>,
     last_total_m: Option<f64>,
@@ -112,6 +120,7 @@ impl Default for Canvas {
         Canvas {
             zoom: 2.5,
             top_mm: 0.0,
+            left_mm: 0.0,
             drag: None,
             context_bed: None,
             last_total_m: None,
@@ -158,29 +167,38 @@ impl Canvas {
         self.last_view_h_mm.map(|h| (self.top_mm, self.top_mm + h))
     }
 
-    /// Draw the canvas and collect what the user did.
+    /// Draw the canvas (header, ruler, column, the legend beside it when shown) and collect what
+    /// the user did.
     pub fn ui(
         &mut self,
         ui: &mut egui::Ui,
         doc: &Document,
-        strip: &Strip,
-        index: &mut ItemIndex,
+        column: &mut Cache,
         backdrop: Option<&CanvasBackdrop>,
         out: &mut Actions,
     ) {
-        let (rect, response) = ui.allocate_exact_size(ui.available_size(), Sense::click_and_drag());
+        let area = ui.available_rect_before_wrap();
+        ui.advance_cursor_after_rect(area);
+        let (area, legend_rect) = column_help::split_for_legend(ui.ctx(), area);
+        let header = Rect::from_min_size(area.min, Vec2::new(area.width(), HEADER_H));
+        let rect = Rect::from_min_max(Pos2::new(area.left(), header.bottom()), area.max);
+        let response = ui.interact(rect, ui.scope_id().with("column-canvas"), Sense::click_and_drag());
+        let strip = &column.strip;
         let painter = ui.painter_at(rect);
         let mm_per_m = strip.heights.mm_per_m();
+        let total = doc.section().total_thickness_m();
+        // The column's top line, strip y (mm): the titles above it are drawn in the header.
+        let column_top_mm = strip.heights.y_mm(total);
         if !self.fitted && strip.width_mm > 0.0 {
             // First frame: fit the strip's width into the view, and show the top of the section.
             let avail = rect.width() - RULER_W - 40.0;
             self.zoom = (avail / strip.width_mm as f32).clamp(1.5, 6.0);
+            self.top_mm = column_top_mm - 4.0;
             self.fitted = true;
         }
-        let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
+        let view_h_mm = (rect.height() / self.zoom) as f64;
 
         // Keep the part below a dragged bed still while the section grows or shrinks above it.
-        let total = doc.section().total_thickness_m();
         if let (Some(last), Some(DragKind::Top { .. })) = (self.last_total_m, self.drag) {
             self.top_mm += (total - last) * mm_per_m;
         }
@@ -189,7 +207,7 @@ impl Canvas {
             self.top_mm = strip.heights.y_mm(h) - view_h_mm / 2.0;
         }
 
-        // Zoom (ctrl+wheel, pinch, +/- keys) about the pointer; wheel pans.
+        // Zoom (ctrl+wheel, pinch, +/- keys) about the pointer; the wheel pans (sideways too).
         let hovered = response.hovered() || response.contains_pointer();
         let typing = ui.memory(|m| m.focused().is_some());
         let (mut zoom_f, scroll) = ui.input(|i| (i.zoom_delta(), i.smooth_scroll_delta()));
@@ -202,16 +220,25 @@ impl Canvas {
                     zoom_f /= 1.25;
                 }
             });
+            // The legend's key, unless the pointer is over a window of its own (the trace window
+            // takes letters).
+            let over_window = ui.input(|i| i.pointer.hover_pos()).and_then(|p| ui.ctx().layer_id_at(p));
+            let free = over_window.is_none_or(|l| l.order == egui::Order::Background);
+            if free && ui.input(|i| i.key_pressed(column_help::LEGEND_KEY) && i.modifiers.is_none()) {
+                let shown = column_help::legend_shown(ui.ctx());
+                column_help::set_legend_shown(ui.ctx(), !shown);
+            }
         }
         if zoom_f != 1.0 {
             let anchor_y = response.hover_pos().map(|p| p.y).unwrap_or(rect.center().y);
-            let anchor_mm = self.top_mm + ((anchor_y - rect.top() - HEADER_H) / self.zoom) as f64;
+            let anchor_mm = self.top_mm + ((anchor_y - rect.top()) / self.zoom) as f64;
             self.zoom = (self.zoom * zoom_f).clamp(0.02, 60.0);
-            self.top_mm = anchor_mm - ((anchor_y - rect.top() - HEADER_H) / self.zoom) as f64;
-        } else if hovered && scroll.y != 0.0 {
+            self.top_mm = anchor_mm - ((anchor_y - rect.top()) / self.zoom) as f64;
+        } else if hovered && scroll != Vec2::ZERO {
             self.top_mm -= (scroll.y / self.zoom) as f64;
+            self.left_mm -= (scroll.x / self.zoom) as f64;
         }
-        let view_h_mm = ((rect.height() - HEADER_H) / self.zoom) as f64;
+        let view_h_mm = (rect.height() / self.zoom) as f64;
         // A sheet behind the column may reach above the beds traced so far: let the view follow.
         let sheet_top_mm = backdrop
             .and_then(|b| sheet_top_height_m(&b.sheet, b.image_size))
@@ -219,11 +246,14 @@ impl Canvas {
         let lowest_top = -view_h_mm * 0.5 + sheet_top_mm;
         self.top_mm = self.top_mm.clamp(lowest_top, (strip.height_mm - view_h_mm * 0.5).max(lowest_top));
         self.last_view_h_mm = Some(view_h_mm);
+        // Sideways only as far as the strip reaches past the view.
+        let view_w_mm = ((rect.width() - RULER_W - 14.0) / self.zoom) as f64;
+        self.left_mm = self.left_mm.clamp(0.0, (strip.width_mm + 6.0 - view_w_mm).max(0.0));
 
         let t = MmToScreen {
             origin: Pos2::new(
-                rect.left() + RULER_W + 14.0,
-                rect.top() + HEADER_H - self.top_mm as f32 * self.zoom,
+                rect.left() + RULER_W + 14.0 - self.left_mm as f32 * self.zoom,
+                rect.top() - self.top_mm as f32 * self.zoom,
             ),
             zoom: self.zoom,
         };
@@ -251,34 +281,47 @@ impl Canvas {
             }
         }
 
-        // Items in the visible range, with a margin so lines crossing the edge are not cut short.
+        // Items in the visible range, with a margin so lines crossing the edge are not cut short;
+        // the track titles above the column are left to the header, which stays in view.
         let lo = self.top_mm - 5.0;
         let hi = self.top_mm + view_h_mm + 5.0;
-        let which = index.visible(lo, hi);
+        let mut which = column.index.visible(lo, hi);
+        which.retain(|&i| strip.items.get(i as usize).is_some_and(|it| below_titles(it, column_top_mm)));
         self.last_drawn_items = which.len();
         self.shapes.clear();
         painter::shapes(&strip.items, &which, &t, &mut self.shapes);
         painter.extend(self.shapes.drain(..));
         painter::texts(&strip.items, &which, &t, &painter);
 
-        // Selection.
+        // Selection: an outline round the bed and a bar beside the ruler; the bed's own colours
+        // stay as they are, so a selected sandstone still looks like sandstone.
         let sel_index = doc.selected_bed.and_then(|id| doc.bed_index(id));
-        if let Some(b) = sel_index.and_then(|i| strip.bed_boxes.iter().find(|b| b.bed_index == i)) {
-            let r = Rect::from_min_max(
-                t.pos(b.rect.x, b.rect.y),
-                t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h),
-            );
-            painter.rect_filled(r, 0.0, theme::SELECT_FILL);
+        let selected = sel_index.and_then(|i| strip.bed_boxes.iter().find(|b| b.bed_index == i)).map(|b| {
+            Rect::from_min_max(t.pos(b.rect.x, b.rect.y), t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h))
+        });
+        if let Some(r) = selected {
             painter.rect_stroke(
-                r.expand(1.0),
+                r.expand(1.5),
                 1.0,
-                egui::Stroke::new(2.0, theme::ACCENT),
+                egui::Stroke::new(SELECT_OUTLINE_PT, theme::ACCENT),
                 egui::StrokeKind::Outside,
             );
         }
 
-        self.draw_header(&painter, rect, strip, &t);
         self.draw_ruler(&painter, rect, doc.section().display_unit, total, strip, &t);
+        if let Some(r) = selected {
+            let bar = Rect::from_min_max(
+                Pos2::new(rect.left() + RULER_W - 6.0, r.top()),
+                Pos2::new(rect.left() + RULER_W - 1.0, r.bottom().max(r.top() + 3.0)),
+            );
+            painter.rect_filled(bar, 1.0, theme::ACCENT);
+        }
+        let corner = Rect::from_min_size(header.min, Vec2::new(RULER_W, HEADER_H));
+        let tracks = column_tracks(doc.section(), column.layout());
+        column_help::draw_header(ui, header, corner, &tracks, doc.section(), strip, &t);
+        if let Some(r) = legend_rect {
+            column_help::legend_panel(ui, r, doc.section(), &column.interp, column.layout());
+        }
 
         // Interaction.
         let pointer = response.hover_pos().or(response.interact_pointer_pos());
@@ -308,7 +351,11 @@ impl Canvas {
         }
         if response.dragged() {
             match self.drag {
-                Some(DragKind::Pan) => self.top_mm -= (response.drag_delta().y / self.zoom) as f64,
+                Some(DragKind::Pan) => {
+                    let d = response.drag_delta();
+                    self.top_mm -= (d.y / self.zoom) as f64;
+                    self.left_mm -= (d.x / self.zoom) as f64;
+                }
                 Some(DragKind::Top { bed, t0_m, start_y, gesture }) => {
                     ui.ctx().set_cursor_icon(CursorIcon::ResizeVertical);
                     if let Some(p) = pointer {
@@ -357,30 +404,65 @@ impl Canvas {
             }
         }
         let context_bed = self.context_bed;
+        // Hover help for what the pointer rests on (not while dragging: the drag has the pointer).
+        let still = self.drag.is_none() && !ui.input(|i| i.pointer.any_down());
+        let help = response.hover_pos().filter(|p| still && p.x > rect.left() + RULER_W).and_then(|p| {
+            column_help::help_at_pointer(doc.section(), &column.interp, column.layout(), strip, &t, p)
+        });
+        let response = match help {
+            Some(text) => response.on_hover_text_at_pointer(text),
+            None => response,
+        };
         response.context_menu(|ui| bed_menu(ui, doc, context_bed, out));
     }
 
-    /// What a drag starting at `p` would move.
+    /// What a drag starting at `p` would move: a bed's top within half of [`GRAB_TOP_PT`] of
+    /// its line, across the whole width of the beds on either side of it; else a bed's right
+    /// edge within [`GRAB_PT`].
     fn grab_target(&self, p: Pos2, strip: &Strip, beds: &[Bed], t: &MmToScreen) -> Option<DragKind> {
         let y = t.y_mm(p.y);
         let x = t.x_mm(p.x);
-        let k = strip.box_at_y(y)?;
-        let b = strip.bed_boxes.get(k)?;
-        let i = b.bed_index;
-        let top_screen = t.pos(0.0, b.rect.y).y;
-        let base_screen = t.pos(0.0, b.rect.y + b.rect.h).y;
-        let right = t.pos(b.rect.x + b.rect.w, 0.0).x;
-        let in_column = x >= -1.0 && p.x <= right + GRAB_PT;
-        let gesture = gesture_key(("canvas", i, p.x.to_bits(), p.y.to_bits()));
-        if in_column && (p.y - top_screen).abs() <= GRAB_PT {
-            let bed = beds.get(i)?;
-            return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
+        let half = GRAB_TOP_PT / 2.0;
+        let gesture = |i: usize| gesture_key(("canvas", i, p.x.to_bits(), p.y.to_bits()));
+        let screen_rect = |k: usize| {
+            strip.bed_boxes.get(k).map(|b| {
+                Rect::from_min_max(t.pos(b.rect.x, b.rect.y), t.pos(b.rect.x + b.rect.w, b.rect.y + b.rect.h))
+            })
+        };
+        // The line nearest the pointer, seen from the box under it or (above the column's top)
+        // the box just below it.
+        let k = strip.box_at_y(y).or_else(|| strip.box_at_y(y + (half / t.zoom) as f64))?;
+        let r = screen_rect(k)?;
+        // Box k's top is bed k's top; its base is the top of the box below (k - 1).
+        let line = if (p.y - r.top()).abs() <= half {
+            Some(k)
+        } else if (p.y - r.bottom()).abs() <= half && k > 0 {
+            Some(k - 1)
+        } else {
+            None
+        };
+        if let Some(lower) = line {
+            // Across the bed whose top it is and the one resting on it, whichever is wider.
+            let right = [screen_rect(lower), screen_rect(lower + 1)]
+                .into_iter()
+                .flatten()
+                .map(|r| r.right())
+                .fold(f32::NEG_INFINITY, f32::max);
+            let left = screen_rect(lower).map_or(r.left(), |r| r.left());
+            if p.x >= left - GRAB_PT && p.x <= right + GRAB_PT {
+                let i = strip.bed_boxes[lower].bed_index;
+                let bed = beds.get(i)?;
+                return Some(DragKind::Top {
+                    bed: bed.id,
+                    t0_m: bed.thickness_m,
+                    start_y: p.y,
+                    gesture: gesture(i),
+                });
+            }
         }
-        if in_column && (p.y - base_screen).abs() <= GRAB_PT && k > 0 {
-            let bed = beds.get(strip.bed_boxes[k - 1].bed_index)?;
-            return Some(DragKind::Top { bed: bed.id, t0_m: bed.thickness_m, start_y: p.y, gesture });
-        }
+        let i = strip.bed_boxes.get(k)?.bed_index;
         let bed = beds.get(i)?;
+        let (top_screen, base_screen, right) = (r.top(), r.bottom(), r.right());
         // The right edge at the pointer's height (a graded bed's edge slopes from base to top).
         let frac_from_base =
             (((base_screen - p.y) / (base_screen - top_screen).max(1.0)) as f64).clamp(0.0, 1.0);
@@ -391,45 +473,12 @@ impl Canvas {
             }
             _ => right,
         };
-        if (p.x - edge).abs() <= GRAB_PT && !bed.is_covered() {
+        if (p.x - edge).abs() <= GRAB_PT && !bed.is_covered() && p.y >= top_screen && p.y <= base_screen {
             let end = grain_end_at(bed, frac_from_base);
             let start = strip.grain_scale.class_at(x);
-            return Some(DragKind::Grain { bed: bed.id, end, start, gesture });
+            return Some(DragKind::Grain { bed: bed.id, end, start, gesture: gesture(i) });
         }
         None
-    }
-
-    fn draw_header(&self, painter: &egui::Painter, rect: Rect, strip: &Strip, t: &MmToScreen) {
-        let bar = Rect::from_min_size(rect.min, Vec2::new(rect.width(), HEADER_H));
-        painter.rect_filled(bar, 0.0, theme::PANEL_BG);
-        painter
-            .line_segment([bar.left_bottom(), bar.right_bottom()], egui::Stroke::new(1.0, theme::RULE_LINE));
-        let font = egui::FontId::proportional(10.5);
-        let mut last_x = f32::NEG_INFINITY;
-        for c in WentworthClass::ALL {
-            let x = t.pos(strip.grain_scale.class_centre_x_mm(c), 0.0).x;
-            painter.line_segment(
-                [Pos2::new(x, bar.bottom() - 5.0), Pos2::new(x, bar.bottom())],
-                egui::Stroke::new(1.0, theme::TEXT_DIM),
-            );
-            if x - last_x > 16.0 && x < rect.right() - 6.0 {
-                painter.text(
-                    Pos2::new(x, bar.bottom() - 6.0),
-                    egui::Align2::CENTER_BOTTOM,
-                    c.short_label(),
-                    font.clone(),
-                    theme::TEXT_DIM,
-                );
-                last_x = x;
-            }
-        }
-        painter.text(
-            Pos2::new(rect.left() + 6.0, bar.center().y),
-            egui::Align2::LEFT_CENTER,
-            "grain size",
-            egui::FontId::proportional(10.0),
-            theme::TEXT_DIM,
-        );
     }
 
     fn draw_ruler(
@@ -441,10 +490,7 @@ impl Canvas {
         strip: &Strip,
         t: &MmToScreen,
     ) {
-        let bar = Rect::from_min_max(
-            Pos2::new(rect.left(), rect.top() + HEADER_H),
-            Pos2::new(rect.left() + RULER_W, rect.bottom()),
-        );
+        let bar = Rect::from_min_max(rect.min, Pos2::new(rect.left() + RULER_W, rect.bottom()));
         painter.rect_filled(bar, 0.0, theme::PANEL_BG);
         painter.line_segment([bar.right_top(), bar.right_bottom()], egui::Stroke::new(1.0, theme::RULE_LINE));
         let unit_m = unit.metres();
@@ -507,6 +553,12 @@ impl Canvas {
             theme::TEXT_DIM,
         );
     }
+}
+
+/// Is an item of the strip drawn below the track titles (so on the canvas, not in its header)?
+fn below_titles(item: &Item, column_top_mm: f64) -> bool {
+    let b = item.bounds();
+    b.y + b.h >= column_top_mm - 1.0
 }
 
 /// A plain new bed for the insert commands.

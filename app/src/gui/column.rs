@@ -45,6 +45,11 @@ impl Cache {
         self.rules_key.0
     }
 
+    /// The layout options the strip was laid out with.
+    pub fn layout(&self) -> &LayoutOptions {
+        &self.layout_key
+    }
+
     /// Lay out an interpretation of `section` for the heights `window_m` (all when `None`) and
     /// index the items for drawing.
     fn build(

@@ -13,6 +13,7 @@ mod app;
 mod canvas;
 mod chooser;
 mod column;
+mod column_help;
 mod curve_dialog;
 mod demo;
 mod document;

@@ -346,7 +346,7 @@ mod tests {
         write_bodies_csv(&rows, &mut buf).expect("in memory");
         let text = String::from_utf8(buf).expect("utf8");
         assert!(text.contains("\"'=HYPERLINK(\"\"x\"\")\""), "{text}");
-        assert!(text.contains(",0.000,1.500,1.500,1,single-story,,,"), "{text}");
+        assert!(text.contains(",0.000,1.500,1.500,1,single-storey,,,"), "{text}");
         // A censored body: its ends are named and its thickness shown as a minimum.
         let mut cut = body(0.0, 1.5, 1);
         cut.stacking = Stacking::Undetermined;

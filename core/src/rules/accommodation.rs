@@ -197,7 +197,7 @@ mod tests {
     }
 
     #[test]
-    fn multi_story_body_in_thick_fines_is_mixed_evidence() {
+    fn multi_storey_body_in_thick_fines_is_mixed_evidence() {
         // Two storeys 1–3 m in 11 m: amalgamated (a sign of low) but a proportion of
         // 2/11 = 0.18 ≤ 0.30 (a sign of high): one each, undetermined.
         use Lithology::{Mudstone, Sandstone};

@@ -385,7 +385,7 @@ impl AggradeApp {
             let backdrop =
                 self.tracing.view.as_mut().and_then(|v| v.canvas_backdrop(ui.ctx(), self.doc.section()));
             if let Some(c) = self.column.current_mut() {
-                self.canvas.ui(ui, &self.doc, &c.strip, &mut c.index, backdrop.as_ref(), &mut actions);
+                self.canvas.ui(ui, &self.doc, c, backdrop.as_ref(), &mut actions);
                 // Scrolled or zoomed past the laid-out heights: lay out around the new view next frame.
                 if !c.covers(self.canvas.view_y_mm()) {
                     ui.ctx().request_repaint();
