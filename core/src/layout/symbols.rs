@@ -1,7 +1,9 @@
-//! Small vector symbols of our own design: sedimentary structures, paleocurrent arrows and roses.
+//! Small vector symbols of our own design: sedimentary structures, paleocurrent arrows, fans and
+//! roses.
 
 use super::items::{Item, PtMm, Rgba};
-use super::style::{solid, INK, THIN_MM};
+use super::style::{solid, GREY, INK, SMALL_PT, THIN_MM};
+use super::text::{text, width};
 use crate::model::Structure;
 
 /// Maps unit coordinates (−0.5…0.5, y down) of a symbol box onto the page.
@@ -238,6 +240,87 @@ pub fn paleocurrent_rose(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out
     }
 }
 
+/// Readings up to this many are drawn as a fan of rays; more as a rose.
+pub const FAN_MAX_READINGS: usize = 3;
+
+/// Vector mean of azimuths (degrees clockwise from north) and the mean resultant length R̄
+/// (0–1): the direction of the sum of unit vectors and its length over n (Mardia & Jupp 2000,
+/// "Directional Statistics", §2.2). `None` when there are no readings or they cancel (R̄ ≈ 0).
+pub fn vector_mean(readings_deg: &[f64]) -> Option<(f64, f64)> {
+    let (mut s, mut c, mut n) = (0.0, 0.0, 0usize);
+    for a in readings_deg.iter().filter(|a| a.is_finite()) {
+        let r = a.to_radians();
+        s += r.sin();
+        c += r.cos();
+        n += 1;
+    }
+    if n == 0 {
+        return None;
+    }
+    let rbar = (s * s + c * c).sqrt() / n as f64;
+    (rbar > 1e-9).then(|| (s.atan2(c).to_degrees().rem_euclid(360.0), rbar))
+}
+
+/// The point `length_mm` from `centre` towards `azimuth_deg` (north up the page).
+fn toward(centre: PtMm, azimuth_deg: f64, length_mm: f64) -> PtMm {
+    let a = azimuth_deg.to_radians();
+    PtMm { x: centre.x + length_mm * a.sin(), y: centre.y - length_mm * a.cos() }
+}
+
+/// A fan of a few readings from one centre: a thin grey ray per reading out to `radius_mm`, each
+/// ending in a short tick, and the vector mean as a bold arrow from the centre, R̄ × radius long
+/// (left out when the readings cancel). Rays that start at a common centre stay apart at their
+/// tips however close the readings are to each other in space, unlike arrows drawn through the
+/// centre, which pile into one cluster.
+pub fn paleocurrent_fan(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out: &mut Vec<Item>) {
+    let readings: Vec<f64> = readings_deg.iter().copied().filter(|a| a.is_finite()).collect();
+    for &a in &readings {
+        let tip = toward(centre, a, radius_mm);
+        out.push(Item::Polyline { points: vec![centre, tip], stroke: solid(THIN_MM, GREY) });
+        // A tick across the tip, so each ray ends visibly.
+        let t = radius_mm * 0.12;
+        out.push(Item::Polyline {
+            points: vec![toward(tip, a + 90.0, t), toward(tip, a - 90.0, t)],
+            stroke: solid(THIN_MM, GREY),
+        });
+    }
+    if let Some((mean, rbar)) = vector_mean(&readings) {
+        let len = (radius_mm * rbar).max(radius_mm * 0.4);
+        let mid = toward(centre, mean, len / 2.0);
+        paleocurrent_arrow(mid, mean, len, INK, out);
+    }
+}
+
+/// Text size of the reading count beside a fan or rose, pt.
+pub const COUNT_PT: f64 = SMALL_PT - 1.0;
+
+/// The mark for the readings of one bed (or of neighbouring beds pooled; see the column's
+/// paleocurrent track), inside a square `2 × radius_mm` wide about `centre`:
+/// - one reading: an arrow through the centre, down-current;
+/// - two or three ([`FAN_MAX_READINGS`]): a fan of rays with the vector-mean arrow;
+/// - more: a rose of 30° sectors.
+///
+/// Fans and roses carry the count of readings at the lower right corner of the square.
+pub fn paleocurrent_mark(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out: &mut Vec<Item>) {
+    let readings: Vec<f64> = readings_deg.iter().copied().filter(|a| a.is_finite()).collect();
+    match readings.len() {
+        0 => {}
+        1 => paleocurrent_arrow(centre, readings[0], (2.0 * radius_mm * 0.9).min(5.0), INK, out),
+        n => {
+            // The figure keeps clear of the count in the corner.
+            let r = radius_mm * 0.85;
+            if n <= FAN_MAX_READINGS {
+                paleocurrent_fan(centre, &readings, r, out);
+            } else {
+                paleocurrent_rose(centre, &readings, r, out);
+            }
+            let label = n.to_string();
+            let w = width(&label, COUNT_PT);
+            text(out, centre.x + radius_mm - w, centre.y + radius_mm, &label, COUNT_PT, INK);
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -298,5 +381,102 @@ mod tests {
         };
         assert!((reach(wedges[0]) - 3.0).abs() < 1e-9);
         assert!((reach(wedges[1]) - 1.0).abs() < 1e-9);
+    }
+
+    /// Ends of the rays of a fan (the grey two-point lines from the centre).
+    fn ray_tips(out: &[Item], centre: PtMm) -> Vec<PtMm> {
+        out.iter()
+            .filter_map(|i| match i {
+                Item::Polyline { points, stroke } if stroke.color == GREY && points[0] == centre => {
+                    Some(points[1])
+                }
+                _ => None,
+            })
+            .collect()
+    }
+
+    #[test]
+    fn three_readings_in_one_bed_give_three_distinct_rays_a_mean_arrow_and_the_count() {
+        let c = PtMm { x: 10.0, y: 10.0 };
+        let readings = [100.0, 130.0, 160.0];
+        let mut out = Vec::new();
+        paleocurrent_mark(c, &readings, 3.5, &mut out);
+        let tips = ray_tips(&out, c);
+        assert_eq!(tips.len(), 3, "one ray per reading");
+        // Each ray ends 0.85 × 3.5 mm from the centre towards its reading (north up, clockwise).
+        for (tip, a) in tips.iter().zip(readings) {
+            let want = toward(c, a, 3.5 * 0.85);
+            assert!((tip.x - want.x).abs() < 1e-9 && (tip.y - want.y).abs() < 1e-9, "{a}: {tip:?}");
+        }
+        // Distinguishable: tips 30° apart at 2.975 mm are 2·r·sin 15° = 1.54 mm apart (computed),
+        // ten line widths.
+        for i in 0..3 {
+            for j in i + 1..3 {
+                let d = ((tips[i].x - tips[j].x).powi(2) + (tips[i].y - tips[j].y).powi(2)).sqrt();
+                assert!(d > 10.0 * THIN_MM, "rays {i} and {j} only {d:.2} mm apart");
+            }
+        }
+        // The vector mean of 100°, 130°, 160° is 130° (symmetric readings); R̄ = (1 + 2 cos 30°)/3
+        // = 0.911 (computed), so the mean arrow is 0.911 × 2.975 mm long, from the centre.
+        let (mean, rbar) = vector_mean(&readings).expect("a mean");
+        assert!(
+            (mean - 130.0).abs() < 1e-9
+                && (rbar - (1.0 + 2.0 * 30f64.to_radians().cos()) / 3.0).abs() < 1e-12
+        );
+        let shaft = out
+            .iter()
+            .find_map(|i| match i {
+                Item::Polyline { points, stroke } if stroke.color == INK => Some(points.clone()),
+                _ => None,
+            })
+            .expect("a mean arrow");
+        let len = ((shaft[1].x - shaft[0].x).powi(2) + (shaft[1].y - shaft[0].y).powi(2)).sqrt();
+        assert!((len - rbar * 3.5 * 0.85).abs() < 1e-9 && (shaft[0].x - c.x).abs() < 1e-9, "{shaft:?}");
+        assert!(shaft[1].x > c.x && shaft[1].y > c.y, "130° points right and down the page");
+        // The count, inside the mark's square.
+        let count = out.iter().find_map(|i| match i {
+            Item::Text { text, pos, .. } => Some((text.clone(), *pos)),
+            _ => None,
+        });
+        let (label, pos) = count.expect("the count is printed");
+        assert_eq!(label, "3");
+        assert!(
+            pos.x >= c.x && pos.x + width("3", COUNT_PT) <= c.x + 3.5 + 1e-9 && pos.y <= c.y + 3.5 + 1e-9
+        );
+    }
+
+    #[test]
+    fn marks_keep_inside_their_square_and_switch_from_arrow_to_fan_to_rose() {
+        let c = PtMm { x: 0.0, y: 0.0 };
+        for n in 1..=8 {
+            let readings: Vec<f64> = (0..n).map(|k| 20.0 + 37.0 * k as f64).collect();
+            let mut out = Vec::new();
+            paleocurrent_mark(c, &readings, 3.0, &mut out);
+            let mut pts = Vec::new();
+            for it in &out {
+                match it {
+                    Item::Polyline { points, .. } | Item::Polygon { points, .. } => {
+                        pts.extend(points.iter().copied())
+                    }
+                    Item::Circle { center, radius_mm, .. } => {
+                        pts.push(PtMm { x: center.x + radius_mm, y: center.y + radius_mm });
+                        pts.push(PtMm { x: center.x - radius_mm, y: center.y - radius_mm });
+                    }
+                    Item::Text { pos, .. } => pts.push(*pos),
+                    _ => {}
+                }
+            }
+            assert!(pts.iter().all(|p| p.x.abs() <= 3.0 + 1e-9 && p.y.abs() <= 3.0 + 1e-9), "{n}: {pts:?}");
+            let rays = ray_tips(&out, c).len();
+            let wedges =
+                out.iter().filter(|i| matches!(i, Item::Polygon { fill: Some(f), .. } if *f != INK)).count();
+            match n {
+                1 => assert_eq!((rays, wedges), (0, 0), "one reading: one arrow"),
+                2 | 3 => assert_eq!((rays, wedges), (n, 0), "a fan"),
+                _ => assert!(rays == 0 && wedges > 0, "a rose"),
+            }
+        }
+        // Readings that cancel have no mean arrow: 90° and 270°.
+        assert_eq!(vector_mean(&[90.0, 270.0]), None);
     }
 }

@@ -31,7 +31,7 @@ use crate::layout::options::LayoutOptions;
 use crate::layout::patterns::fill_bed;
 use crate::layout::spans::InterpretationSpans;
 use crate::layout::style::*;
-use crate::layout::symbols::{paleocurrent_arrow, paleocurrent_rose, structure_symbol};
+use crate::layout::symbols::structure_symbol;
 use crate::layout::text::{fit_size, text, text_up, width};
 use crate::layout::transform::{GrainScale, HeightTransform};
 use crate::model::{Bed, Contact, LengthUnit, PaleosolDevelopment, ReviewState, Section, WentworthClass};
@@ -208,6 +208,7 @@ impl<'a> ColumnCtx<'a> {
             self.draw_bed(i, &part, &g, out, boxes);
         }
         self.draw_paleosol_profiles(&part, out);
+        self.draw_paleocurrent_marks(&part, out);
         // Left edge of the column.
         out.push(Item::Polyline {
             points: vec![PtMm { x: xl, y: y_lo }, PtMm { x: xl, y: y_hi }],
