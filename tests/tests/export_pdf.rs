@@ -1,9 +1,9 @@
 //! Printed columns checked by independent PDF readers (pypdf and pdfplumber from PyPI): paper
 //! sizes, true vertical scale, searchable text, reproducible bytes.
 
-use aggrade_core::export::{write_pdf, write_pdf_in_groups, PdfInfo, PAGES_PER_GROUP};
+use aggrade_core::export::{write_pdf, write_pdf_in_groups, write_pdf_to, PdfInfo, PAGES_PER_GROUP};
 use aggrade_core::layout::sample::{sample_interpretation, sample_section};
-use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::layout::{page_stream, pages, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::model::{Bed, BedId, GrainSize, Lithology, Section, WentworthClass};
 use aggrade_core::rules::Interpretation;
 use serde_json::Value;
@@ -244,42 +244,57 @@ fn long_section_continues_over_pages_with_every_bed() {
 
 #[test]
 fn a_long_export_is_written_in_groups_of_pages_that_read_as_one_document() {
-    // The writer translates a group of pages at a time and joins the groups into one document;
-    // groups of 4 make this section's pages several groups, the last one short.
+    // The writer translates a group of pages at a time and writes each group before the next;
+    // groups of 4 make this section's pages many groups, the last one short. The font is
+    // written once, after the last page, subset to what every page shows, so the group size
+    // changes nothing in the file.
     let (s, i) = aggrade_core::layout::sample::generated_section(2_000);
     let p = pages(&s, &i, &LayoutOptions::default(), &PrintMeta::default());
     assert!(p.len() > 30 && !p.len().is_multiple_of(4), "{} pages", p.len());
+    assert!(p.len() > PAGES_PER_GROUP, "more than one group at the default size");
     let info = PdfInfo { title: "Long export".into(), author: "A. Logger".into(), creation_date: 0 };
     let pdf = write_pdf_in_groups(&p, &info, 4);
     assert!(pdf == write_pdf_in_groups(&p, &info, 4), "two exports of the same pages differ");
-    // The default group size holds these pages in one group: same pages, one font subset.
-    assert!(p.len() <= PAGES_PER_GROUP);
-    let whole = write_pdf(&p, &info);
-    assert!(whole.len() < pdf.len(), "one font subset instead of several is smaller");
+    assert!(pdf == write_pdf(&p, &info), "the group size changes the bytes");
+    assert!(pdf == write_pdf_in_groups(&p, &info, 1), "one page per group changes the bytes");
+    // Pages laid out and written one at a time (a layout iterator into a file) give the same
+    // bytes as all pages laid out first.
     let dir = tempfile::tempdir().expect("dir");
+    let streamed_path = dir.path().join("streamed.pdf");
+    let file = std::io::BufWriter::new(std::fs::File::create(&streamed_path).expect("create"));
+    let opts = LayoutOptions::default();
+    let meta = PrintMeta::default();
+    let stream = page_stream(&s, &i, &opts, &meta);
+    assert_eq!(stream.page_count(), p.len(), "the page count is known before any page is drawn");
+    let n = write_pdf_to(file, stream, &info).expect("write");
+    assert_eq!(n, p.len());
+    assert!(std::fs::read(&streamed_path).expect("read") == pdf, "streamed and collected pages differ");
     let v = probe_pdf(&pdf, &dir);
     // pypdf and pdfplumber both see every page, in order, at the layout's paper size, with its
-    // text readable through the font its group embeds.
-    let n = p.len();
+    // text readable through the one embedded font.
     let plumber = v["pages"].as_array().expect("pages");
     let pypdf_text = v["pypdf"]["text"].as_array().expect("pypdf text");
-    assert_eq!((plumber.len(), pypdf_text.len()), (n, n));
+    let pypdf_sizes = v["pypdf"]["pages"].as_array().expect("pypdf sizes");
+    assert_eq!((plumber.len(), pypdf_text.len(), pypdf_sizes.len()), (n, n, n));
     for (k, page) in plumber.iter().enumerate() {
         let footer = format!("page {} of {n}", k + 1);
         let text = page["text"].as_str().expect("text");
         assert!(text.contains(&footer), "page {}: {text:.200}", k + 1);
         assert!(pypdf_text[k].as_str().is_some_and(|t| t.contains(&footer)), "pypdf, page {}", k + 1);
-        let (w, h) = (page["width"].as_f64().expect("w"), page["height"].as_f64().expect("h"));
-        assert!(
-            (w - p[k].width_mm * 72.0 / 25.4).abs() < 0.01 && (h - p[k].height_mm * 72.0 / 25.4).abs() < 0.01
-        );
-    }
-    // The joined document reads the same as the one written in a single group.
-    let dir1 = tempfile::tempdir().expect("dir");
-    let one = probe_pdf(&whole, &dir1);
-    for (k, page) in plumber.iter().enumerate() {
-        assert_eq!(page["chars"], one["pages"][k]["chars"], "page {}", k + 1);
-        assert_eq!(page["rects"], one["pages"][k]["rects"], "page {}", k + 1);
+        // The segment heads: the height range each page shows, as the layout placed it.
+        for seg in &p[k].segments {
+            let head = format!("{:.2}\u{2013}{:.2} m", seg.base_m, seg.top_m);
+            assert!(text.contains(&head), "page {}: {head} not in {text:.300}", k + 1);
+        }
+        let (w_pt, h_pt) = (p[k].width_mm * 72.0 / 25.4, p[k].height_mm * 72.0 / 25.4);
+        for (w, h) in [
+            (page["width"].as_f64().expect("w"), page["height"].as_f64().expect("h")),
+            (pypdf_sizes[k][0].as_f64().expect("w"), pypdf_sizes[k][1].as_f64().expect("h")),
+        ] {
+            // ISO 216 A4: 210 × 297 mm = 595.276 × 841.890 pt.
+            assert!((w - w_pt).abs() < 0.01 && (h - h_pt).abs() < 0.01, "page {}: {w} × {h} pt", k + 1);
+            assert!((w - 595.276).abs() < 0.01 && (h - 841.890).abs() < 0.01);
+        }
     }
 }
 

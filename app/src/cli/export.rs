@@ -1,7 +1,7 @@
 //! `aggrade export`: the interpreted column to PDF, SVG or PNG at a true scale.
 
-use aggrade_core::export::{write_pdf, write_png, write_svg, PdfInfo};
-use aggrade_core::layout::{pages, LayoutOptions, Orientation, Paper, PrintMeta};
+use aggrade_core::export::{write_pdf_to, write_png, write_svg, PdfInfo};
+use aggrade_core::layout::{page_stream, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::rules::interpret;
 use anyhow::{bail, Context};
 use std::path::PathBuf;
@@ -103,16 +103,19 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
             show_rejected: args.show_rejected,
             ..Default::default()
         };
-        let p = pages(section, &interp, &opts, &meta);
+        // Pages are laid out and written a group at a time: memory stays the same for a
+        // section of any length.
+        let p = page_stream(section, &interp, &opts, &meta);
         let info =
             PdfInfo { title: section.name.clone(), author: section.logged_by.clone(), creation_date: when };
-        let bytes = write_pdf(&p, &info);
-        std::fs::write(out, bytes).with_context(|| format!("cannot write {}", out.display()))?;
+        let file = std::fs::File::create(out).with_context(|| format!("cannot write {}", out.display()))?;
+        let n = write_pdf_to(std::io::BufWriter::new(file), p, &info)
+            .with_context(|| format!("cannot write {}", out.display()))?;
         eprintln!(
             "wrote {} ({} page{}, scale {})",
             out.display(),
-            p.len(),
-            if p.len() == 1 { "" } else { "s" },
+            n,
+            if n == 1 { "" } else { "s" },
             opts.scale_label()
         );
     }
@@ -125,17 +128,16 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
             show_rejected: args.show_rejected,
             ..Default::default()
         };
-        let p = pages(section, &interp, &opts, &meta);
-        let paths: Vec<PathBuf> = if p.len() == 1 {
-            vec![out.clone()]
-        } else {
-            let stem =
-                out.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "page".into());
-            (1..=p.len()).map(|k| out.with_file_name(format!("{stem}-{k}.{ext}"))).collect()
-        };
-        for (page, path) in p.iter().zip(&paths) {
-            let bytes = if ext == "png" { write_png(page, args.dpi)? } else { write_svg(page).into_bytes() };
-            std::fs::write(path, bytes).with_context(|| format!("cannot write {}", path.display()))?;
+        // One page laid out, written and dropped at a time.
+        let p = page_stream(section, &interp, &opts, &meta);
+        let n = p.page_count();
+        let stem = out.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "page".into());
+        for (k, page) in p.enumerate() {
+            let path =
+                if n == 1 { out.clone() } else { out.with_file_name(format!("{stem}-{}.{ext}", k + 1)) };
+            let bytes =
+                if ext == "png" { write_png(&page, args.dpi)? } else { write_svg(&page).into_bytes() };
+            std::fs::write(&path, bytes).with_context(|| format!("cannot write {}", path.display()))?;
             eprintln!("wrote {}", path.display());
         }
     }

@@ -1,10 +1,12 @@
 //! PDF, SVG and PNG writers that translate layout pages item by item.
 
 mod pdf;
+mod pdf_content;
+mod pdf_font;
 mod png;
 mod svg;
 
-pub use pdf::{write_pdf, write_pdf_in_groups, PdfInfo, PAGES_PER_GROUP};
+pub use pdf::{write_pdf, write_pdf_in_groups, write_pdf_to, PdfInfo, PdfWriter, PAGES_PER_GROUP};
 pub use png::{px_per_mm, rasterise, write_png, PngError, DPI_RANGE, MAX_PNG_PIXELS};
 pub use svg::write_svg;
 

@@ -1,16 +1,18 @@
-//! PDF writer: translates layout pages item by item into PDF operations (printpdf), with the
-//! DejaVu Sans font embedded so text is the same everywhere and selectable.
+//! PDF writer: puts layout pages out one group at a time, so memory does not grow with the
+//! section; the file (ISO 32000-1: header, objects, cross-reference table, trailer) is written
+//! here around content streams from `pdf_content.rs` and the font from `pdf_font.rs`.
 //!
 //! No drawing decision lives here: positions, sizes, colours and dashes come from the items.
-//! Only the coordinate flip (mm, y down → pt, y up) and text anchoring happen here.
+//! Each page is two objects written as soon as its group is done (its compressed content stream
+//! and its page dictionary); what every page refers to (the resources, the font, the page tree)
+//! has a fixed object number and is written after the last page, the font subset to the glyphs
+//! the whole document shows.
 
-use crate::layout::{text_width_mm, DEJAVU_SANS};
-use crate::layout::{Anchor, Item, Page, PtMm, RectMm, Rgba, Stroke};
-use printpdf::{
-    Color, FontId, Line, LineDashPattern, LinePoint, Mm, Op, PaintMode, ParsedFont, PdfDocument, PdfFont,
-    PdfFontHandle, PdfPage, PdfSaveOptions, Point, Polygon, PolygonRing, Pt, Rect, Rgb, TextItem, TextMatrix,
-    WindingOrder,
-};
+use super::pdf_content::{uint, ContentWriter, FONT_RESOURCE, PT_PER_MM};
+use super::pdf_font::{font_objects, stream_object, ObjectBody};
+use crate::layout::Page;
+use std::collections::BTreeMap;
+use std::io::{self, Write};
 
 /// Document facts written into the PDF's information dictionary.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -22,375 +24,359 @@ pub struct PdfInfo {
     pub creation_date: i64,
 }
 
-/// PostScript points per millimetre.
-const PT_PER_MM: f64 = 72.0 / 25.4;
+/// Pages translated together, spread over the processor's cores, before any of them is written.
+/// Memory holds one group's pages and their compressed content; the file's bytes do not depend on
+/// the group size.
+pub const PAGES_PER_GROUP: usize = 32;
 
-/// Bezier handle length for a quarter circle (4/3·(√2 − 1)).
-const KAPPA: f64 = 0.552_284_749_830_793_4;
+/// Object numbers fixed in advance, because every page refers to them; they are written last.
+const CATALOG: u32 = 1;
+const PAGE_TREE: u32 = 2;
+const RESOURCES: u32 = 3;
+const FONT: u32 = 4;
+/// The first number handed out for pages.
+const FIRST_FREE: u32 = 5;
 
-/// Resource name of the embedded font (fixed, so output is reproducible).
-const FONT_RESOURCE: &str = "F1";
+/// Deflate (zlib's fast level) when it makes the data smaller; `None` to store it as it is.
+pub(super) fn deflate(data: &[u8]) -> Option<Vec<u8>> {
+    let mut encoder =
+        flate2::write::ZlibEncoder::new(Vec::with_capacity(data.len() / 4 + 64), flate2::Compression::fast());
+    encoder.write_all(data).ok()?;
+    let compressed = encoder.finish().ok()?;
+    (compressed.len() + 19 < data.len()).then_some(compressed)
+}
 
-/// Translates one page's items into operations, tracking graphics state to skip repeats.
-struct PageWriter {
+/// A page translated and compressed, ready to write.
+struct Translated {
+    width_mm: f64,
     height_mm: f64,
-    ops: Vec<Op>,
-    fill: Option<Rgba>,
-    stroke_color: Option<Rgba>,
-    width_mm: Option<f64>,
-    dash: Option<Vec<f64>>,
-    font: PdfFontHandle,
+    content: ObjectBody,
 }
 
-fn color(c: Rgba) -> Color {
-    Color::Rgb(Rgb {
-        r: f32::from(c.0) / 255.0,
-        g: f32::from(c.1) / 255.0,
-        b: f32::from(c.2) / 255.0,
-        icc_profile: None,
-    })
+/// Translate pages (in parallel when there are several cores), collecting the glyphs they show.
+fn translate(pages: &[Page], glyphs: &mut BTreeMap<u16, char>) -> Vec<Translated> {
+    fn one(page: &Page, glyphs: &mut BTreeMap<u16, char>) -> Translated {
+        let content = ContentWriter::new(page, glyphs).page(page);
+        Translated {
+            width_mm: page.width_mm,
+            height_mm: page.height_mm,
+            content: stream_object(b"", &content),
+        }
+    }
+    let threads = std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1).clamp(1, 8);
+    if threads == 1 || pages.len() < 2 {
+        return pages.iter().map(|p| one(p, glyphs)).collect();
+    }
+    let per = pages.len().div_ceil(threads);
+    let parts: Vec<(Vec<Translated>, BTreeMap<u16, char>)> = std::thread::scope(|scope| {
+        let handles: Vec<_> = pages
+            .chunks(per)
+            .map(|chunk| {
+                scope.spawn(move || {
+                    let mut seen = BTreeMap::new();
+                    let done: Vec<Translated> = chunk.iter().map(|p| one(p, &mut seen)).collect();
+                    (done, seen)
+                })
+            })
+            .collect();
+        // A worker only panics on a defect; re-raise it here rather than lose pages.
+        handles.into_iter().map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e))).collect()
+    });
+    let mut out = Vec::with_capacity(pages.len());
+    for (done, seen) in parts {
+        out.extend(done);
+        // The first character seen for a glyph wins, in page order, as in one pass.
+        for (g, c) in seen {
+            glyphs.entry(g).or_insert(c);
+        }
+    }
+    out
 }
 
-fn pt(v_mm: f64) -> Pt {
-    Pt((v_mm * PT_PER_MM) as f32)
+/// Writes a PDF page by page to any [`Write`]: pages given to [`PdfWriter::add_page`] are kept
+/// until a group is full, then translated, compressed and written; [`PdfWriter::finish`] writes
+/// the rest. The same pages and info give the same bytes, whatever the group size.
+pub struct PdfWriter<W: Write> {
+    out: W,
+    /// Bytes written so far (the next object's offset).
+    pos: u64,
+    /// Offset of each object, by number − 1 (0 until written).
+    offsets: Vec<u64>,
+    page_ids: Vec<u32>,
+    glyphs: BTreeMap<u16, char>,
+    info: PdfInfo,
+    pending: Vec<Page>,
+    pages_per_group: usize,
 }
 
-/// A paint is drawn unless it is fully transparent (partial alpha is printed opaque).
-fn visible(c: &Rgba) -> bool {
-    c.3 > 0
-}
-
-impl PageWriter {
-    fn point(&self, p: PtMm) -> Point {
-        Point { x: pt(p.x), y: pt(self.height_mm - p.y) }
+impl<W: Write> PdfWriter<W> {
+    /// Start a PDF on `out` (writes the header), grouping [`PAGES_PER_GROUP`] pages.
+    pub fn new(out: W, info: &PdfInfo) -> io::Result<Self> {
+        Self::with_group_size(out, info, PAGES_PER_GROUP)
     }
 
-    fn lp(&self, p: PtMm, bezier: bool) -> LinePoint {
-        LinePoint { p: self.point(p), bezier }
+    /// Start a PDF that translates `pages_per_group` pages at a time (at least 1).
+    pub fn with_group_size(out: W, info: &PdfInfo, pages_per_group: usize) -> io::Result<Self> {
+        let mut w = PdfWriter {
+            out,
+            pos: 0,
+            offsets: vec![0; (FIRST_FREE - 1) as usize],
+            page_ids: Vec::new(),
+            glyphs: BTreeMap::new(),
+            info: info.clone(),
+            pending: Vec::new(),
+            pages_per_group: pages_per_group.max(1),
+        };
+        // PDF 1.7; the second line's bytes above 127 mark the file as binary (ISO 32000-1 §7.5.2).
+        w.put(b"%PDF-1.7\n%\xE2\xE3\xCF\xD3\n")?;
+        Ok(w)
     }
 
-    fn set_fill(&mut self, c: Rgba) {
-        if self.fill != Some(c) {
-            self.ops.push(Op::SetFillColor { col: color(c) });
-            self.fill = Some(c);
-        }
+    /// Pages added so far.
+    pub fn page_count(&self) -> usize {
+        self.page_ids.len() + self.pending.len()
     }
 
-    fn set_stroke(&mut self, s: &Stroke) {
-        if self.stroke_color != Some(s.color) {
-            self.ops.push(Op::SetOutlineColor { col: color(s.color) });
-            self.stroke_color = Some(s.color);
+    /// Add a page; it is written when its group is full (or at [`PdfWriter::finish`]).
+    pub fn add_page(&mut self, page: Page) -> io::Result<()> {
+        self.pending.push(page);
+        if self.pending.len() >= self.pages_per_group {
+            let group = std::mem::take(&mut self.pending);
+            self.write_pages(&group)?;
         }
-        if self.width_mm != Some(s.width_mm) {
-            self.ops.push(Op::SetOutlineThickness { pt: pt(s.width_mm.max(0.0)) });
-            self.width_mm = Some(s.width_mm);
-        }
-        if self.dash.as_ref() != Some(&s.dash_mm) {
-            let pattern: Vec<f32> = s.dash_mm.iter().map(|d| (d.max(0.0) * PT_PER_MM) as f32).collect();
-            let dash = if pattern.iter().any(|d| *d > 0.0) {
-                LineDashPattern::new(0.0, &pattern)
-            } else {
-                LineDashPattern::solid()
-            };
-            self.ops.push(Op::SetLineDashPattern { dash });
-            self.dash = Some(s.dash_mm.clone());
-        }
+        Ok(())
     }
 
-    /// Set state for a fill/stroke pair; returns the paint mode, or `None` if nothing shows.
-    fn paint(&mut self, fill: &Option<Rgba>, stroke: &Option<Stroke>) -> Option<PaintMode> {
-        let fill = fill.filter(visible);
-        let stroke = stroke.as_ref().filter(|s| visible(&s.color) && s.width_mm > 0.0);
-        if let Some(c) = fill {
-            self.set_fill(c);
+    /// Translate and write pages now, in groups (pages still waiting from
+    /// [`PdfWriter::add_page`] go first).
+    pub fn add_pages(&mut self, pages: &[Page]) -> io::Result<()> {
+        let waiting = std::mem::take(&mut self.pending);
+        self.write_pages(&waiting)?;
+        for group in pages.chunks(self.pages_per_group) {
+            self.write_pages(group)?;
         }
-        if let Some(s) = stroke {
-            self.set_stroke(s);
-        }
-        match (fill.is_some(), stroke.is_some()) {
-            (true, true) => Some(PaintMode::FillStroke),
-            (true, false) => Some(PaintMode::Fill),
-            (false, true) => Some(PaintMode::Stroke),
-            (false, false) => None,
-        }
+        Ok(())
     }
 
-    fn polygon(&mut self, points: Vec<LinePoint>, mode: PaintMode) {
-        self.ops.push(Op::DrawPolygon {
-            polygon: Polygon {
-                rings: vec![PolygonRing { points }],
-                mode,
-                winding_order: WindingOrder::NonZero,
-            },
-        });
+    fn put(&mut self, bytes: &[u8]) -> io::Result<()> {
+        self.out.write_all(bytes)?;
+        self.pos += bytes.len() as u64;
+        Ok(())
     }
 
-    fn item(&mut self, item: &Item) {
-        match item {
-            Item::Rect { rect, fill, stroke } => {
-                let Some(mode) = self.paint(fill, stroke) else { return };
-                let RectMm { x, y, w, h } = *rect;
-                self.ops.push(Op::DrawRectangle {
-                    rectangle: Rect {
-                        x: pt(x),
-                        y: pt(self.height_mm - y - h),
-                        width: pt(w),
-                        height: pt(h),
-                        mode: Some(mode),
-                        winding_order: Some(WindingOrder::NonZero),
-                    },
-                });
+    fn new_id(&mut self) -> u32 {
+        self.offsets.push(0);
+        self.offsets.len() as u32
+    }
+
+    /// Write object `id` with its body.
+    fn object(&mut self, id: u32, body: &[u8]) -> io::Result<()> {
+        if let Some(slot) = self.offsets.get_mut(id as usize - 1) {
+            *slot = self.pos;
+        }
+        let mut head = Vec::with_capacity(16);
+        uint(&mut head, u64::from(id));
+        head.extend_from_slice(b" 0 obj\n");
+        self.put(&head)?;
+        self.put(body)?;
+        self.put(b"\nendobj\n")
+    }
+
+    fn write_pages(&mut self, pages: &[Page]) -> io::Result<()> {
+        if pages.is_empty() {
+            return Ok(());
+        }
+        let translated = translate(pages, &mut self.glyphs);
+        for t in translated {
+            let content = self.new_id();
+            self.object(content, &t.content)?;
+            let page = self.new_id();
+            let mut d = b"<< /Type /Page /Parent ".to_vec();
+            uint(&mut d, u64::from(PAGE_TREE));
+            d.extend_from_slice(b" 0 R /MediaBox [0 0 ");
+            super::pdf_content::num(&mut d, t.width_mm * PT_PER_MM, 3);
+            d.push(b' ');
+            super::pdf_content::num(&mut d, t.height_mm * PT_PER_MM, 3);
+            d.extend_from_slice(b"] /Resources ");
+            uint(&mut d, u64::from(RESOURCES));
+            d.extend_from_slice(b" 0 R /Contents ");
+            uint(&mut d, u64::from(content));
+            d.extend_from_slice(b" 0 R >>");
+            self.object(page, &d)?;
+            self.page_ids.push(page);
+        }
+        Ok(())
+    }
+
+    /// Write the remaining pages, the font, page tree, catalogue, information dictionary,
+    /// cross-reference table and trailer; gives back the output.
+    pub fn finish(mut self) -> io::Result<W> {
+        let waiting = std::mem::take(&mut self.pending);
+        self.write_pages(&waiting)?;
+
+        let next = self.offsets.len() as u32 + 1;
+        let (font, next) = font_objects(&self.glyphs, FONT, next);
+        for _ in self.offsets.len() as u32 + 1..next {
+            self.offsets.push(0);
+        }
+        for (id, body) in &font {
+            self.object(*id, body)?;
+        }
+        drop(font);
+
+        let mut r = b"<< /Font << /".to_vec();
+        r.extend_from_slice(FONT_RESOURCE.as_bytes());
+        r.push(b' ');
+        uint(&mut r, u64::from(FONT));
+        r.extend_from_slice(b" 0 R >> /ProcSet [/PDF /Text] >>");
+        self.object(RESOURCES, &r)?;
+
+        let mut t = b"<< /Type /Pages /Count ".to_vec();
+        uint(&mut t, self.page_ids.len() as u64);
+        t.extend_from_slice(b" /Kids [");
+        for (k, id) in self.page_ids.iter().enumerate() {
+            if k > 0 {
+                t.push(if k % 16 == 0 { b'\n' } else { b' ' });
             }
-            Item::Polygon { points, fill, stroke } => {
-                if points.len() < 2 {
-                    return;
-                }
-                let Some(mode) = self.paint(fill, stroke) else { return };
-                let pts = points.iter().map(|p| self.lp(*p, false)).collect();
-                self.polygon(pts, mode);
-            }
-            Item::Polyline { points, stroke } => {
-                if points.len() < 2 || !visible(&stroke.color) || stroke.width_mm <= 0.0 {
-                    return;
-                }
-                self.set_stroke(stroke);
-                let pts = points.iter().map(|p| self.lp(*p, false)).collect();
-                self.ops.push(Op::DrawLine { line: Line { points: pts, is_closed: false } });
-            }
-            Item::Circle { center, radius_mm, fill, stroke } => {
-                let r = *radius_mm;
-                if r.is_nan() || r <= 0.0 {
-                    return;
-                }
-                let Some(mode) = self.paint(fill, stroke) else { return };
-                let (cx, cy, k) = (center.x, center.y, r * KAPPA);
-                let p = |x: f64, y: f64| PtMm { x: cx + x, y: cy + y };
-                // Four cubic arcs: end points normal, the two handles of each arc marked bezier.
-                let seq = [
-                    (p(r, 0.0), false),
-                    (p(r, k), true),
-                    (p(k, r), true),
-                    (p(0.0, r), false),
-                    (p(-k, r), true),
-                    (p(-r, k), true),
-                    (p(-r, 0.0), false),
-                    (p(-r, -k), true),
-                    (p(-k, -r), true),
-                    (p(0.0, -r), false),
-                    (p(k, -r), true),
-                    (p(r, -k), true),
-                    (p(r, 0.0), false),
-                ];
-                let pts = seq.iter().map(|(q, b)| self.lp(*q, *b)).collect();
-                self.polygon(pts, mode);
-            }
-            Item::Text { pos, text, size_pt, color: c, anchor, rotation_deg } => {
-                if text.is_empty() || !visible(c) || size_pt.is_nan() || *size_pt <= 0.0 {
-                    return;
-                }
-                let w = text_width_mm(text, *size_pt);
-                let shift = match anchor {
-                    Anchor::Start => 0.0,
-                    Anchor::Middle => -w / 2.0,
-                    Anchor::End => -w,
-                };
-                let a = rotation_deg.to_radians();
-                let (cos, sin) = (a.cos(), a.sin());
-                // Anchor shift runs along the baseline, which points (cos, −sin) on a y-down page.
-                let start = PtMm { x: pos.x + shift * cos, y: pos.y - shift * sin };
-                let at = self.point(start);
-                self.set_fill(*c);
-                self.ops.push(Op::StartTextSection);
-                self.ops.push(Op::SetFont { font: self.font.clone(), size: Pt(*size_pt as f32) });
-                self.ops.push(Op::SetTextMatrix {
-                    matrix: TextMatrix::Raw([
-                        cos as f32,
-                        sin as f32,
-                        -sin as f32,
-                        cos as f32,
-                        at.x.0,
-                        at.y.0,
-                    ]),
-                });
-                self.ops.push(Op::ShowText { items: vec![TextItem::Text(text.clone())] });
-                self.ops.push(Op::EndTextSection);
-            }
+            uint(&mut t, u64::from(*id));
+            t.extend_from_slice(b" 0 R");
         }
+        t.extend_from_slice(b"] >>");
+        self.object(PAGE_TREE, &t)?;
+
+        let mut c = b"<< /Type /Catalog /Pages ".to_vec();
+        uint(&mut c, u64::from(PAGE_TREE));
+        c.extend_from_slice(b" 0 R >>");
+        self.object(CATALOG, &c)?;
+
+        let info_id = self.new_id();
+        let body = info_dictionary(&self.info);
+        self.object(info_id, &body)?;
+
+        // Cross-reference table: one 20-byte line per object (ISO 32000-1 §7.5.4).
+        let xref_at = self.pos;
+        let mut x = Vec::with_capacity(self.offsets.len() * 20 + 64);
+        x.extend_from_slice(b"xref\n0 ");
+        uint(&mut x, self.offsets.len() as u64 + 1);
+        x.extend_from_slice(b"\n0000000000 65535 f \n");
+        for off in &self.offsets {
+            let digits = format!("{off:010}");
+            x.extend_from_slice(digits.as_bytes());
+            x.extend_from_slice(b" 00000 n \n");
+        }
+        x.extend_from_slice(b"trailer\n<< /Size ");
+        uint(&mut x, self.offsets.len() as u64 + 1);
+        x.extend_from_slice(b" /Root ");
+        uint(&mut x, u64::from(CATALOG));
+        x.extend_from_slice(b" 0 R /Info ");
+        uint(&mut x, u64::from(info_id));
+        x.extend_from_slice(b" 0 R >>\nstartxref\n");
+        uint(&mut x, xref_at);
+        x.extend_from_slice(b"\n%%EOF\n");
+        self.put(&x)?;
+        self.out.flush()?;
+        Ok(self.out)
     }
 }
 
-/// The embedded font, parsed once per export (each group of pages gets a copy).
-fn parsed_font() -> Option<ParsedFont> {
-    let mut warnings = Vec::new();
-    ParsedFont::from_bytes(DEJAVU_SANS, 0, &mut warnings)
-}
-
-/// The printpdf document of the pages: info, the embedded font and each page's operations.
-fn document(pages: &[Page], info: &PdfInfo, font: &Option<ParsedFont>) -> PdfDocument {
-    let mut doc = PdfDocument::new(&info.title);
-    let date = printpdf::OffsetDateTime::from_unix_timestamp(info.creation_date)
-        .or_else(|_| printpdf::OffsetDateTime::from_unix_timestamp(0));
-    if let Ok(date) = date {
-        doc.metadata.info.creation_date = date;
-        doc.metadata.info.modification_date = date;
-        doc.metadata.info.metadata_date = date;
+/// A text string as UTF-16BE with its byte-order mark, in hex (ISO 32000-1 §7.9.2.2).
+fn text_string(out: &mut Vec<u8>, s: &str) {
+    out.extend_from_slice(b"<FEFF");
+    for u in s.encode_utf16() {
+        super::pdf_content::hex16(out, u);
     }
-    doc.metadata.info.author = info.author.clone();
-    doc.metadata.info.creator = "Aggrade".to_string();
-    doc.metadata.info.producer = "Aggrade".to_string();
-    let font_id = FontId(FONT_RESOURCE.to_string());
-    let font = match font {
-        Some(parsed) => {
-            doc.resources.fonts.map.insert(font_id.clone(), PdfFont::new(parsed.clone()));
-            PdfFontHandle::External(font_id)
-        }
-        // The font is compiled in; if it ever failed to parse, fall back to a standard font
-        // rather than failing the export.
-        None => PdfFontHandle::Builtin(printpdf::BuiltinFont::Helvetica),
-    };
-    let pdf_pages = pages
-        .iter()
-        .map(|page| {
-            let mut w = PageWriter {
-                height_mm: page.height_mm,
-                ops: Vec::with_capacity(page.items.len() * 2),
-                fill: None,
-                stroke_color: None,
-                width_mm: None,
-                dash: None,
-                font: font.clone(),
-            };
-            for item in &page.items {
-                w.item(item);
-            }
-            PdfPage::new(Mm(page.width_mm as f32), Mm(page.height_mm as f32), w.ops)
-        })
-        .collect();
-    doc.with_pages(pdf_pages);
-    doc
+    out.push(b'>');
 }
 
-/// Pages translated together by [`write_pdf`]. Each group goes through printpdf, becomes PDF
-/// objects and is compressed before the next group is started, so a long section never holds
-/// every page's operations and uncompressed content at once (that took about 30 KB per bed: 2.9 GB
-/// for a 100,000-bed export). Each group embeds the subset of the font its own pages use, so
-/// smaller groups cost file size (about 1.8 % at 64 pages, 7 % at 16) and time.
-pub const PAGES_PER_GROUP: usize = 64;
+/// `D:YYYYMMDDHHmmSSZ` (ISO 32000-1 §7.9.4) of a Unix time; times before 1970 are written as 1970.
+fn pdf_date(unix_s: i64) -> String {
+    let t = unix_s.max(0);
+    let day = super::civil_date(t).replace('-', "");
+    let s = t.rem_euclid(86_400);
+    format!("D:{day}{:02}{:02}{:02}Z", s / 3600, s / 60 % 60, s % 60)
+}
+
+fn info_dictionary(info: &PdfInfo) -> Vec<u8> {
+    let mut d = b"<< /Title ".to_vec();
+    text_string(&mut d, &info.title);
+    if !info.author.is_empty() {
+        d.extend_from_slice(b" /Author ");
+        text_string(&mut d, &info.author);
+    }
+    let date = pdf_date(info.creation_date);
+    for key in ["CreationDate", "ModDate"] {
+        d.extend_from_slice(format!(" /{key} ({date})").as_bytes());
+    }
+    d.extend_from_slice(b" /Creator (Aggrade) /Producer (Aggrade) >>");
+    d
+}
 
 /// Write pages to a PDF file's bytes. Same pages and info give the same bytes.
 pub fn write_pdf(pages: &[Page], info: &PdfInfo) -> Vec<u8> {
     write_pdf_in_groups(pages, info, PAGES_PER_GROUP)
 }
 
-/// [`write_pdf`] with a chosen number of pages per group (at least 1).
+/// [`write_pdf`] translating `pages_per_group` pages at a time (at least 1); the bytes are the
+/// same for every group size.
 pub fn write_pdf_in_groups(pages: &[Page], info: &PdfInfo, pages_per_group: usize) -> Vec<u8> {
-    let mut groups = pages.chunks(pages_per_group.max(1));
-    let font = parsed_font();
-    let mut lo = group_document(groups.next().unwrap_or(&[]), info, &font);
-    for group in groups {
-        append_pages(&mut lo, group_document(group, info, &font));
-    }
-    let mut bytes = Vec::new();
-    if lo.save_to(&mut bytes).is_err() {
-        // Writing to memory cannot fail short of allocation failure; fall back to printpdf's
-        // own serialiser.
-        let mut warnings = Vec::new();
-        return document(pages, info, &font).save(&PdfSaveOptions::default(), &mut warnings);
-    }
-    bytes
+    let written = PdfWriter::with_group_size(Vec::new(), info, pages_per_group)
+        .and_then(|mut w| w.add_pages(pages).map(|()| w))
+        .and_then(PdfWriter::finish);
+    // Writing to memory only fails if memory runs out, which aborts before this.
+    written.unwrap_or_default()
 }
 
-/// One group of pages as a compressed lopdf document.
-fn group_document(pages: &[Page], info: &PdfInfo, font: &Option<ParsedFont>) -> lopdf::Document {
-    let doc = document(pages, info, font);
-    let mut warnings = Vec::new();
-    let mut lo = doc.to_lopdf_document(&PdfSaveOptions::default(), &mut warnings);
-    // The operations are in the content streams now: free them before compressing.
-    drop(doc);
-    // printpdf fills the trailer ID from a process-wide counter; drop it (it is optional for
-    // unencrypted files) so that the same input gives the same bytes.
-    lo.trailer.remove(b"ID");
-    compress_streams(&mut lo);
-    lo
+/// Write pages as they come (e.g. from [`crate::layout::page_stream`]) to `out`, a group at a
+/// time, never holding more than one group: the way to print a section of any length. Returns
+/// the number of pages written.
+pub fn write_pdf_to<W: Write>(
+    out: W,
+    pages: impl IntoIterator<Item = Page>,
+    info: &PdfInfo,
+) -> io::Result<usize> {
+    let mut w = PdfWriter::new(out, info)?;
+    for page in pages {
+        w.add_page(page)?;
+    }
+    let n = w.page_count();
+    w.finish()?;
+    Ok(n)
 }
 
-/// Deflate every stream, spread over the available cores, at zlib's fast level: lopdf's own
-/// `compress` uses the slowest level, which dominated the time for long sections (about 2.5 s of
-/// 3.4 s for 10,000 beds) for a few per cent smaller files. Each stream's bytes are the same as
-/// compressing in sequence.
-fn compress_streams(lo: &mut lopdf::Document) {
-    let mut streams: Vec<_> = lo
-        .objects
-        .values_mut()
-        .filter_map(|o| o.as_stream_mut().ok())
-        .filter(|s| s.allows_compression)
-        .collect();
-    let threads = std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1).clamp(1, 8);
-    let per = streams.len().div_ceil(threads).max(1);
-    std::thread::scope(|scope| {
-        for chunk in streams.chunks_mut(per) {
-            scope.spawn(move || {
-                for stream in chunk.iter_mut() {
-                    deflate_fast(stream);
-                }
-            });
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn dates_in_pdf_form() {
+        // 1 796 083 200 s is 2026-12-01 00:00 UTC (see `civil_date`); 3,723 s later is 01:02:03.
+        assert_eq!(pdf_date(1_796_083_200), "D:20261201000000Z");
+        assert_eq!(pdf_date(1_796_083_200 + 3_723), "D:20261201010203Z");
+        assert_eq!(pdf_date(-5), "D:19700101000000Z");
+    }
+
+    #[test]
+    fn the_cross_reference_table_points_at_every_object() {
+        let page = Page { width_mm: 210.0, height_mm: 297.0, items: Vec::new(), segments: Vec::new() };
+        let pdf = write_pdf(&[page.clone(), page], &PdfInfo::default());
+        let text = |from: usize| String::from_utf8_lossy(&pdf[from..]).into_owned();
+        let tail = text(pdf.len() - 40);
+        let start: usize = tail
+            .rsplit("startxref\n")
+            .next()
+            .and_then(|t| t.lines().next())
+            .map_or(0, |l| l.parse().expect("offset"));
+        let table = text(start);
+        assert!(table.starts_with("xref\n0 "), "startxref points at the table");
+        let count: usize =
+            table.lines().nth(1).and_then(|l| l.split(' ').nth(1)).expect("count").parse().expect("n");
+        for (k, line) in table.lines().skip(3).take(count - 1).enumerate() {
+            assert_eq!(line.len(), 19, "line {line:?} (20 bytes with its newline)");
+            let off: usize = line[..10].parse().expect("offset");
+            assert!(text(off).starts_with(&format!("{} 0 obj\n", k + 1)), "object {} at {off}", k + 1);
         }
-    });
-}
-
-/// Move the pages of `part` (with everything they refer to) to the end of `doc`'s page tree.
-fn append_pages(doc: &mut lopdf::Document, mut part: lopdf::Document) {
-    use lopdf::Object;
-    let Ok(tree) = doc.catalog().and_then(|c| c.get(b"Pages")).and_then(Object::as_reference) else {
-        return;
-    };
-    part.renumber_objects_with(doc.max_id + 1);
-    let added: Vec<lopdf::ObjectId> = part.get_pages().into_values().collect();
-    // The part's own catalogue, page tree, metadata and information dictionary are not carried
-    // over: its pages join `doc`'s tree (their numbers stay unused: free entries in the xref).
-    let catalog = part.trailer.get(b"Root").and_then(Object::as_reference).ok();
-    let info = part.trailer.get(b"Info").and_then(Object::as_reference).ok();
-    let from_catalog = |key: &[u8]| {
-        catalog
-            .and_then(|c| part.get_dictionary(c).ok())
-            .and_then(|c| c.get(key).and_then(Object::as_reference).ok())
-    };
-    let (tree_of_part, metadata) = (from_catalog(b"Pages"), from_catalog(b"Metadata"));
-    for id in [catalog, info, tree_of_part, metadata].into_iter().flatten() {
-        part.objects.remove(&id);
-    }
-    for id in &added {
-        if let Ok(page) = part.get_object_mut(*id).and_then(Object::as_dict_mut) {
-            page.set("Parent", tree);
-        }
-    }
-    doc.max_id = doc.max_id.max(part.max_id);
-    // One by one: the new numbers all sort after the old ones (`append` would rebuild the whole map).
-    doc.objects.extend(std::mem::take(&mut part.objects));
-    if let Ok(node) = doc.get_object_mut(tree).and_then(Object::as_dict_mut) {
-        let mut kids = node.get(b"Kids").and_then(Object::as_array).cloned().unwrap_or_default();
-        kids.extend(added.into_iter().map(Object::Reference));
-        node.set("Count", kids.len() as i64);
-        node.set("Kids", kids);
-    }
-}
-
-/// Deflate one stream's content at zlib's fast level and mark it FlateDecode. A stream that
-/// already has a filter, or that would not shrink, or that fails to deflate is left as it is
-/// (still a valid PDF).
-fn deflate_fast(stream: &mut lopdf::Stream) {
-    use std::io::Write;
-    if stream.dict.get(b"Filter").is_ok() {
-        return;
-    }
-    let mut encoder = flate2::write::ZlibEncoder::new(Vec::new(), flate2::Compression::fast());
-    if encoder.write_all(&stream.content).is_err() {
-        return;
-    }
-    if let Ok(compressed) = encoder.finish() {
-        if compressed.len() + 19 < stream.content.len() {
-            stream.dict.set("Filter", "FlateDecode");
-            stream.set_content(compressed);
-        }
+        let text = text(0);
+        assert!(text.contains("/Type /Pages /Count 2"));
+        assert!(text.ends_with("%%EOF\n"));
     }
 }

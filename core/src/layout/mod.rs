@@ -45,7 +45,7 @@ pub(crate) use font::{metrics, text_width_mm, DEJAVU_SANS, MM_PER_PT};
 pub use items::*;
 pub use legend::{column_legend, draw_swatch, legend_entries, LegendEntry};
 pub use options::{LayoutOptions, Orientation, Paper, PrintMeta};
-pub use page::{pages, Page, PageSegment};
+pub use page::{page_stream, pages, Page, PageSegment, PageStream};
 pub use panel::{
     haversine_m, panel_layout, panel_pages, panel_positions, section_markers, Datum, HorizontalScale, Marker,
     PanelColumn, PanelError, PanelLayout, PanelOptions, PositionSource, Positions, SectionMarkers, TieLine,

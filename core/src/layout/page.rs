@@ -3,7 +3,7 @@
 
 use super::column::{BedBox, ColumnCtx, SCALE_BAND_MM, TITLE_BAND_MM};
 use super::items::{Item, PtMm};
-use super::legend::{draw_legend, legend_entries, legend_height_mm};
+use super::legend::{draw_legend, legend_entries, legend_height_mm, LegendEntry};
 use super::options::{LayoutOptions, PrintMeta};
 use super::style::*;
 use super::text::{fit_size, text, width, wrap};
@@ -79,13 +79,54 @@ fn footer_lines(rules: &str, page_w: f64, margin: f64) -> Vec<String> {
     wrap(&format!("{REVIEW_CAUTION} Interpreted with {rules}."), page_w - 2.0 * margin - 28.0, FOOTER_PT)
 }
 
-/// Lay out printed pages of the interpreted column.
+/// Lay out printed pages of the interpreted column, all at once. [`page_stream`] gives the same
+/// pages one at a time.
 pub fn pages(
     section: &Section,
     interp: &Interpretation,
     opts: &LayoutOptions,
     meta: &PrintMeta,
 ) -> Vec<Page> {
+    page_stream(section, interp, opts, meta).collect()
+}
+
+/// Where one printed page's column goes: planned before any page is drawn, so the page count
+/// (for "page k of n") is known while pages are drawn one at a time.
+#[derive(Debug, Clone)]
+struct PagePlan {
+    /// The first page carries the legend.
+    legend: bool,
+    /// y (mm) where the segment heads start.
+    y_top: f64,
+    /// Height ranges (m) of the segments, left to right.
+    segments: Vec<(f64, f64)>,
+}
+
+/// Printed pages of the interpreted column, laid out one at a time as they are asked for (an
+/// iterator), so a writer can put each page out before the next is drawn and memory does not
+/// grow with the section. The pages are the same, item for item, as [`pages`] gives.
+pub struct PageStream<'a> {
+    ctx: ColumnCtx<'a>,
+    opts: &'a LayoutOptions,
+    meta: &'a PrintMeta,
+    rules: String,
+    entries: Vec<LegendEntry>,
+    frame: Frame,
+    header_h: f64,
+    usable_w: f64,
+    curves_note: Option<String>,
+    plan: Vec<PagePlan>,
+    next: usize,
+}
+
+/// Lay out the printed pages lazily: the page breaks are worked out first (cheap: heights only),
+/// then each page is drawn when the iterator reaches it.
+pub fn page_stream<'a>(
+    section: &'a Section,
+    interp: &'a Interpretation,
+    opts: &'a LayoutOptions,
+    meta: &'a PrintMeta,
+) -> PageStream<'a> {
     let mut ctx = ColumnCtx::new(section, interp, opts);
     let rules = interp.params.summary();
     let entries = legend_entries(&ctx);
@@ -126,23 +167,20 @@ pub fn pages(
     let per_page = (((usable_w + SEGMENT_GAP_MM) / (strip_w + SEGMENT_GAP_MM)).floor() as usize).max(1);
     let legend_h = legend_height_mm(entries.len(), usable_w);
 
-    let mut pages: Vec<Page> = Vec::new();
+    let mut plan: Vec<PagePlan> = Vec::new();
     let mut cur = 0.0_f64;
     let mut first = true;
     let eps = 1e-9;
     loop {
-        let mut page =
-            Page { width_mm: frame.width, height_mm: frame.height, items: Vec::new(), segments: Vec::new() };
-        draw_header(section, opts, meta, &frame, header_h, &mut page.items);
         let mut y_top = margin + header_h;
         if first {
-            draw_legend(&entries, margin, y_top, usable_w, &mut page.items);
             y_top += legend_h + if legend_h > 0.0 { 2.0 } else { 0.0 };
         }
+        let mut page = PagePlan { legend: first, y_top, segments: Vec::new() };
         let room_mm = if tall { total_mm } else { frame.column_room(y_top) };
         if room_mm < MIN_COLUMN_MM && !tall && first && ctx.total_m > 0.0 {
             // The legend leaves no room: the column starts on the next page.
-            pages.push(page);
+            plan.push(page);
             first = false;
             continue;
         }
@@ -159,16 +197,47 @@ pub fn pages(
             } else {
                 break_height(&ctx.tops_m, cur, cur + cap_m)
             };
+            page.segments.push((cur, end));
+            cur = end;
+        }
+        plan.push(page);
+        if cur >= ctx.total_m - eps {
+            break;
+        }
+    }
+    PageStream { ctx, opts, meta, rules, entries, frame, header_h, usable_w, curves_note, plan, next: 0 }
+}
+
+impl PageStream<'_> {
+    /// How many pages the column prints to (all of them, drawn or not yet).
+    pub fn page_count(&self) -> usize {
+        self.plan.len()
+    }
+
+    /// Draw page `index` (0-based) of the plan.
+    fn draw_page(&self, index: usize) -> Page {
+        let (ctx, opts, frame) = (&self.ctx, self.opts, &self.frame);
+        let plan = &self.plan[index];
+        let margin = frame.margin;
+        let strip_w = ctx.tracks.width_mm;
+        let mut page =
+            Page { width_mm: frame.width, height_mm: frame.height, items: Vec::new(), segments: Vec::new() };
+        draw_header(ctx.section, opts, self.meta, frame, self.header_h, &mut page.items);
+        if plan.legend {
+            draw_legend(&self.entries, margin, margin + self.header_h, self.usable_w, &mut page.items);
+        }
+        let y_top = plan.y_top;
+        for (k, &(cur, end)) in plan.segments.iter().enumerate() {
             let x0 = margin + k as f64 * (strip_w + SEGMENT_GAP_MM);
             let y_titles = y_top + SEGMENT_HEAD_MM;
             let y_col_top = y_titles + TITLE_BAND_MM + PAD_MM;
-            let y_base = y_col_top + (end - cur) * mm_per_m;
+            let y_base = y_col_top + (end - cur) * (1000.0 / opts.scale());
             let heights = HeightTransform::new(y_base, cur, opts.scale());
             let mut boxes = Vec::new();
             let unit = ctx.section.display_unit;
             let head = segment_head(cur, end, unit);
             text(&mut page.items, x0, y_top + 3.2, &head, TEXT_PT, INK);
-            if let Some(note) = &curves_note {
+            if let Some(note) = &self.curves_note {
                 let x = x0 + width(&head, TEXT_PT) + 3.0;
                 let size = fit_size(note, x0 + strip_w - x, SMALL_PT, 3.5).unwrap_or(3.5);
                 text(&mut page.items, x, y_top + 3.2, note, size, GREY);
@@ -177,19 +246,31 @@ pub fn pages(
             ctx.draw_range(cur, end, x0, &heights, &mut page.items, &mut boxes);
             ctx.draw_scale(x0, y_base + PAD_MM, &mut page.items);
             page.segments.push(PageSegment { base_m: cur, top_m: end, x_mm: x0, heights, bed_boxes: boxes });
-            cur = end;
         }
-        pages.push(page);
-        if cur >= ctx.total_m - eps {
-            break;
-        }
+        draw_footer(frame, &self.rules, index + 1, self.plan.len(), &mut page.items);
+        page
     }
-    let n = pages.len();
-    for (i, page) in pages.iter_mut().enumerate() {
-        draw_footer(&frame, &rules, i + 1, n, &mut page.items);
-    }
-    pages
 }
+
+impl Iterator for PageStream<'_> {
+    type Item = Page;
+
+    fn next(&mut self) -> Option<Page> {
+        if self.next >= self.plan.len() {
+            return None;
+        }
+        let page = self.draw_page(self.next);
+        self.next += 1;
+        Some(page)
+    }
+
+    fn size_hint(&self) -> (usize, Option<usize>) {
+        let left = self.plan.len() - self.next;
+        (left, Some(left))
+    }
+}
+
+impl ExactSizeIterator for PageStream<'_> {}
 
 /// Where a segment starting at `from` and able to reach `limit` should end: the highest bed top
 /// in the upper part of its range, or `limit` (cutting a bed) if there is none.
