@@ -359,8 +359,8 @@ impl ColumnCtx<'_> {
     }
 
     /// The structure whose symbol lies at `dx` mm into the structure track, placed as the
-    /// column draws them: symbols of `(0.9 × bed height).clamp(2, 3.6)` mm, 1 mm apart, the last
-    /// place given to "+n" when they do not all fit.
+    /// column draws them (`draw_structures`): symbols of `(0.9 × bed height).clamp(2, 3.6)` mm,
+    /// 1 mm apart, and when they do not all fit as many as leave room for "+n" in the track.
     fn structure_help(&self, i: usize, dx: f64) -> Option<String> {
         let bed = &self.section.beds[i];
         if bed.structures.is_empty() {
@@ -372,7 +372,12 @@ impl ColumnCtx<'_> {
         let pitch = size + 1.0;
         let fit = ((w + 1.0) / pitch).floor().max(1.0) as usize;
         let n = bed.structures.len();
-        let shown = if n > fit { fit - 1 } else { n };
+        let more = |shown: usize| format!("+{}", n - shown);
+        let shown = if n <= fit {
+            n
+        } else {
+            (0..fit).rev().find(|&k| k as f64 * pitch + width(&more(k), SMALL_PT) <= w).unwrap_or(0)
+        };
         let k = (dx / pitch).floor().max(0.0) as usize;
         let names: Vec<&str> = bed.structures.iter().map(|s| s.name()).collect();
         Some(if k < shown {
@@ -446,7 +451,7 @@ pub fn column_tracks(section: &Section, opts: &LayoutOptions) -> Tracks {
 mod tests {
     use super::*;
     use crate::layout::sample::{sample_interpretation, sample_section};
-    use crate::model::{Surface, SurfaceKind};
+    use crate::model::{Structure, Surface, SurfaceKind};
 
     fn pointed(x_mm: f64, height_m: f64) -> Pointed {
         Pointed { x_mm, height_m, tolerance_m: 0.05 }
@@ -546,6 +551,18 @@ mod tests {
         let at = |dx: f64| ctx.help_at(pointed(tr.structures.x_mm + dx, h));
         assert_eq!(at(1.8).as_deref(), Some("Mud clasts (bed 5)."));
         assert_eq!(at(4.6 + 1.8).as_deref(), Some("Trough cross-bedding (bed 5)."));
+        // Five symbols do not fit the 14 mm track: two, then "+3" for the rest.
+        let mut crowded = s.clone();
+        crowded.beds[4].structures = vec![
+            Structure::MudClasts,
+            Structure::TroughCrossBedding,
+            Structure::BasalLag,
+            Structure::Imbrication,
+            Structure::Massive,
+        ];
+        let c2 = ColumnCtx::new(&crowded, &i, &opts);
+        let more = c2.help_at(pointed(tr.structures.x_mm + 2.0 * 4.6 + 1.0, h)).expect("the count");
+        assert_eq!(more, "Bed 5 also shows: basal lag, imbrication, massive.");
         // Bed 4 has six readings: a rose.
         let h4 = (ctx.bases_m[3] + ctx.tops_m[3]) / 2.0;
         let pc = ctx.help_at(pointed(mid(tr.paleocurrents), h4)).expect("readings");
