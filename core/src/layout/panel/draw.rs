@@ -2,10 +2,10 @@
 //! strip, the datum line and the tie lines, all placed by the [`Sheet`].
 
 use super::markers::{find_marker, Marker};
-use super::positions::{fmt_distance, fmt_scale, Horizontal, PositionSource, Sheet};
+use super::positions::{fmt_distance, PositionSource, Sheet};
 use super::{
-    Datum, PanelColumn, PanelOptions, TieLine, DATUM_BLUE, FLAG_ORANGE, LABEL_PITCH_MM, LINK_LINE_MM,
-    LINK_TEAL, STRIP_MM, TIE_VIOLET,
+    Datum, HorizontalScale, PanelColumn, PanelOptions, TieLine, DATUM_BLUE, FLAG_ORANGE, LABEL_PITCH_MM,
+    LINK_LINE_MM, LINK_TEAL, STRIP_MM, TIE_VIOLET,
 };
 use crate::layout::column::{
     body_bracket, body_labels, boundary_style, candidate_name, BracketEnd, ColumnCtx, TITLE_BAND_MM,
@@ -15,7 +15,7 @@ use crate::layout::legend::{legend_entries, LegendEntry};
 use crate::layout::options::{LayoutOptions, PrintMeta};
 use crate::layout::style::*;
 use crate::layout::text::{fit_size, text, text_up, width};
-use crate::model::{LengthUnit, ReviewState, Section};
+use crate::model::{ReviewState, Section};
 use crate::rules::{BoundaryCandidate, Censor, Interpretation};
 
 /// Legend entries of the panel: rock entries of every column, then the panel's interpretation
@@ -46,79 +46,153 @@ pub(super) fn legend(
     entries
 }
 
-/// The page header: title, vertical and horizontal scales, datum, where positions came from, the
-/// distance bar and a rule under it all.
-pub(super) fn header(
-    sheet: &Sheet,
-    horizontal: &Horizontal,
-    sections: &[Section],
-    opts: &PanelOptions,
-    meta: &PrintMeta,
-    rules: &str,
-    out: &mut Vec<Item>,
-) {
+/// One line of the page header: text, size (pt) and colour.
+#[derive(Debug, Clone, PartialEq)]
+pub(super) struct HeaderLine {
+    pub text: String,
+    pub size_pt: f64,
+    pub colour: Rgba,
+}
+
+/// What the header says under the title, before wrapping: the datum, the horizontal scale in
+/// words, where positions came from and which rules, and the document's name.
+pub(super) struct HeaderText {
+    title: String,
+    vertical: String,
+    statements: Vec<HeaderLine>,
+    /// Whether a distance bar is drawn (some gap at the horizontal scale).
+    pub bar: Option<f64>,
+}
+
+/// Width kept free at the right of the header for the vertical scale and the distance bar, mm.
+const HEADER_RIGHT_MM: f64 = 46.0;
+/// Baseline of the first line under the title, below the margin, mm.
+const HEADER_FIRST_MM: f64 = 10.5;
+/// Space from the last header line's baseline to the rule under the header, mm.
+const HEADER_RULE_GAP_MM: f64 = 2.5;
+
+impl HeaderText {
+    pub fn new(
+        scale: &HorizontalScale,
+        gaps: usize,
+        sections: &[Section],
+        order: &[usize],
+        opts: &PanelOptions,
+        meta: &PrintMeta,
+        rules: &str,
+    ) -> Self {
+        let title = if opts.title.trim().is_empty() { "Correlation panel" } else { opts.title.trim() };
+        let datum = match &opts.datum {
+            Datum::Base => "datum: section base (every column hung on its base)".to_string(),
+            Datum::Named(n) => format!(
+                "datum: {n} (columns hung on it; a column without it is hung on its base and flagged)"
+            ),
+        };
+        let (h_line, not_to_scale) = scale.statement(gaps);
+        let first = order.first().map(|&i| sections[i].name.as_str()).unwrap_or("");
+        let source = match scale.source {
+            PositionSource::PanelPosition => {
+                "positions: panel positions given in the project (m along the panel)".to_string()
+            }
+            PositionSource::Coordinates => format!(
+                "positions: great-circle (haversine) distance from {:?}, Earth mean radius 6371.0 km",
+                sections.first().map(|s| s.name.as_str()).unwrap_or(first)
+            ),
+            PositionSource::FileOrder => "positions: none given, file order".to_string(),
+        };
+        let mut facts = vec![source];
+        facts.push(format!("candidates weaker than {} not drawn", opts.min_candidate_strength.name()));
+        facts.push(format!("interpreted with {rules}"));
+        if !meta.printed_on.is_empty() {
+            facts.push(format!("printed {}", meta.printed_on));
+        }
+        let mut statements = vec![
+            HeaderLine { text: datum, size_pt: TEXT_PT + 1.0, colour: DATUM_BLUE },
+            HeaderLine {
+                text: h_line,
+                size_pt: TEXT_PT,
+                colour: if not_to_scale { FLAG_ORANGE } else { INK },
+            },
+            HeaderLine { text: facts.join("  \u{b7}  "), size_pt: SMALL_PT + 0.5, colour: GREY },
+        ];
+        if !meta.subtitle.is_empty() {
+            statements.push(HeaderLine { text: meta.subtitle.clone(), size_pt: SMALL_PT, colour: GREY });
+        }
+        let bar = scale.denominator.filter(|_| scale.widened_gaps.len() < gaps);
+        HeaderText {
+            title: title.to_string(),
+            vertical: format!("vertical scale {}", opts.layout.scale_label()),
+            statements,
+            bar,
+        }
+    }
+
+    /// Width the statements are wrapped to on a page `usable_w` wide (mm): clear of the vertical
+    /// scale and distance bar on the right, and at most 55 % of the width, so that the lines stay
+    /// on the page even where a screen draws small type larger than print (up to 1.7 times).
+    pub fn wrap_width(usable_w: f64) -> f64 {
+        (usable_w - HEADER_RIGHT_MM - 6.0).min(0.55 * usable_w).max(40.0)
+    }
+
+    /// The statements wrapped for a page `usable_w` wide, with the baseline of each line below
+    /// the top margin (mm).
+    pub fn lines(&self, usable_w: f64) -> Vec<(f64, HeaderLine)> {
+        let w = Self::wrap_width(usable_w);
+        let mut y = HEADER_FIRST_MM;
+        let mut out = Vec::new();
+        for st in &self.statements {
+            for part in wrap_at_spaces(&st.text, w, st.size_pt) {
+                out.push((y, HeaderLine { text: part, ..st.clone() }));
+                y += st.size_pt * 0.3528 * 1.3;
+            }
+            y += 0.3;
+        }
+        out
+    }
+
+    /// Height of the header block on a page `usable_w` wide, down to just below its rule, mm.
+    pub fn height_mm(&self, usable_w: f64) -> f64 {
+        let last = self.lines(usable_w).last().map(|l| l.0).unwrap_or(HEADER_FIRST_MM);
+        last + HEADER_RULE_GAP_MM + 2.0
+    }
+}
+
+/// Break text into lines no wider than `max_w_mm` at ordinary spaces only, so that a scale
+/// grouped with thin spaces ("1:25 000") is never split across lines; a word longer than a line
+/// stays whole.
+fn wrap_at_spaces(s: &str, max_w_mm: f64, size_pt: f64) -> Vec<String> {
+    let mut lines = Vec::new();
+    let mut line = String::new();
+    for word in s.split(' ').filter(|w| !w.is_empty()) {
+        let candidate = if line.is_empty() { word.to_string() } else { format!("{line} {word}") };
+        if !line.is_empty() && width(&candidate, size_pt) > max_w_mm {
+            lines.push(std::mem::take(&mut line));
+            line = word.to_string();
+        } else {
+            line = candidate;
+        }
+    }
+    if !line.is_empty() {
+        lines.push(line);
+    }
+    lines
+}
+
+/// The page header: the title with the vertical scale on the right, then the datum, the
+/// horizontal scale in words, where positions came from, which rules and the document's name,
+/// each wrapped within the page; the distance bar under the vertical scale; and a rule.
+pub(super) fn header(sheet: &Sheet, head: &HeaderText, out: &mut Vec<Item>) {
     let m = sheet.margin;
     let right = sheet.page_w - m;
-    let (denominator, widened, n_gaps) =
-        (horizontal.denominator, horizontal.widened_gaps.len(), horizontal.deltas.len());
-    let positions = &horizontal.positions;
-    let title = if opts.title.trim().is_empty() { "Correlation panel" } else { opts.title.trim() };
-    let v = format!("vertical scale {}", opts.layout.scale_label());
-    let vw = width(&v, 10.0);
-    text(out, right - vw, m + 5.0, &v, 10.0, INK);
-    let size = fit_size(title, right - m - vw - 6.0, 14.0, 6.0).unwrap_or(6.0);
-    text(out, m, m + 5.5, title, size, INK);
-    let datum = match &opts.datum {
-        Datum::Base => "datum: section base (every column hung on its base)".to_string(),
-        Datum::Named(n) => {
-            format!("datum: {n} (columns hung on it; a column without it is hung on its base and flagged)")
-        }
-    };
-    text(out, m, m + 10.5, &datum, TEXT_PT + 1.0, DATUM_BLUE);
-    let (h_line, h_colour) = match denominator {
-        Some(h) if widened == 0 || n_gaps == 0 => (
-            format!(
-                "horizontal scale {} (gaps between columns; column widths show grain size)",
-                fmt_scale(h)
-            ),
-            INK,
-        ),
-        Some(_) if widened == n_gaps => (
-            "horizontal: NOT to scale (every gap widened to the minimum; distances above the columns)"
-                .to_string(),
-            FLAG_ORANGE,
-        ),
-        Some(h) => (
-            format!("horizontal scale {} (gaps between columns) except gaps marked n.t.s.", fmt_scale(h)),
-            FLAG_ORANGE,
-        ),
-        None => ("horizontal: columns in file order, NOT to scale".to_string(), FLAG_ORANGE),
-    };
-    let hw = width(&h_line, TEXT_PT);
-    text(out, right - hw, m + 10.5, &h_line, TEXT_PT, h_colour);
-    let first = positions.order.first().map(|&i| sections[i].name.as_str()).unwrap_or("");
-    let source = match positions.source {
-        PositionSource::PanelPosition => {
-            "positions: panel positions given in the project (m along the panel)".to_string()
-        }
-        PositionSource::Coordinates => format!(
-            "positions: great-circle (haversine) distance from {:?}, Earth mean radius 6371.0 km",
-            sections.first().map(|s| s.name.as_str()).unwrap_or(first)
-        ),
-        PositionSource::FileOrder => "positions: none given, file order".to_string(),
-    };
-    let mut facts = vec![source];
-    facts.push(format!("candidates weaker than {} not drawn", opts.min_candidate_strength.name()));
-    facts.push(format!("interpreted with {rules}"));
-    if !meta.printed_on.is_empty() {
-        facts.push(format!("printed {}", meta.printed_on));
+    let vw = width(&head.vertical, 10.0);
+    text(out, right - vw, m + 5.0, &head.vertical, 10.0, INK);
+    let size = fit_size(&head.title, right - m - vw - 6.0, 14.0, 6.0).unwrap_or(6.0);
+    text(out, m, m + 5.5, &head.title, size, INK);
+    for (y, l) in head.lines(sheet.usable_w) {
+        text(out, m, m + y, &l.text, l.size_pt, l.colour);
     }
-    text(out, m, m + 14.5, &facts.join("  \u{b7}  "), SMALL_PT + 0.5, GREY);
-    if let (Some(h), true) = (denominator, widened < n_gaps) {
-        distance_bar(h, right, m + 15.5, out);
-    }
-    if !meta.subtitle.is_empty() {
-        text(out, m, m + 17.5, &meta.subtitle, SMALL_PT, GREY);
+    if let Some(h) = head.bar {
+        distance_bar(h, right, m + 10.0, out);
     }
     let y = m + sheet.header_h - 2.0;
     out.push(Item::Polyline {
@@ -161,6 +235,17 @@ fn distance_bar(denominator: f64, right: f64, y: f64, out: &mut Vec<Item>) {
     }
 }
 
+/// How an interval's channel-body proportion is written in the strip and the key: "channel 45 %"
+/// (a percentage named as such, never a bare "p", which reads as a p-value).
+pub fn interval_proportion_label(p: f64) -> String {
+    format!("channel {:.0} %", 100.0 * p)
+}
+
+/// A proportion (0–1) as a whole percentage: "21 %".
+fn percent(p: f64) -> String {
+    format!("{:.0} %", 100.0 * p)
+}
+
 /// The key row: the panel's own lines and labels.
 /// The linked-tie entry is shown only when some section has a correlation label.
 pub(super) fn key(x: f64, y: f64, any_link: bool, out: &mut Vec<Item>) {
@@ -174,11 +259,14 @@ pub(super) fn key(x: f64, y: f64, any_link: bool, out: &mut Vec<Item>) {
                     stroke: s,
                 });
             }
+            // A sample of text takes as much room as it needs before its label.
+            let mut swatch_w: f64 = 9.0;
             if let Some((t, c)) = swatch_text {
                 text(out, cx, row + 0.9, t, SMALL_PT, c);
+                swatch_w = swatch_w.max(width(t, SMALL_PT));
             }
-            text(out, cx + 11.0, row + 0.9, label, SMALL_PT + 0.5, INK);
-            cx += 11.0 + width(label, SMALL_PT + 0.5) + 6.0;
+            text(out, cx + swatch_w + 2.0, row + 0.9, label, SMALL_PT + 0.5, INK);
+            cx += swatch_w + 2.0 + width(label, SMALL_PT + 0.5) + 6.0;
         };
     entry(Some(solid(0.35, DATUM_BLUE)), None, "datum", out);
     entry(Some(dashed(0.3, TIE_VIOLET, &[1.8, 1.0])), None, "tie line, same surface name", out);
@@ -191,7 +279,12 @@ pub(super) fn key(x: f64, y: f64, any_link: bool, out: &mut Vec<Item>) {
             out,
         );
     }
-    entry(None, Some(("p 0.45", CURVE_GREEN)), "channel-body proportion between accepted boundaries", out);
+    entry(
+        None,
+        Some((&interval_proportion_label(0.45), CURVE_GREEN)),
+        "channel-body proportion of the interval between accepted boundaries",
+        out,
+    );
     entry(None, Some(("n.t.s.", FLAG_ORANGE)), "gap not to horizontal scale", out);
 }
 
@@ -215,10 +308,8 @@ pub(super) fn head(
         _ => format!("at {}", fmt_distance(column.distance_m)),
     };
     text(out, x, y + 6.8, &pos, SMALL_PT + 0.5, GREY);
-    let (unit, unit_name) = match s.display_unit {
-        LengthUnit::Foot => (LengthUnit::Foot, "ft"),
-        _ => (LengthUnit::Metre, "m"),
-    };
+    let unit = super::notes::height_unit(s);
+    let unit_name = unit.name();
     let (datum_line, colour) = match column.datum_height_m {
         Some(_) if datum_label == "section base" => {
             (format!("hung on base; {:.1} {unit_name} thick", unit.from_metres(total(it))), INK)
@@ -229,14 +320,14 @@ pub(super) fn head(
     let size = fit_size(&datum_line, w - 1.0, SMALL_PT + 0.5, 4.0).unwrap_or(4.0);
     text(out, x, y + 9.8, &datum_line, size, colour);
     let p = match (it.channel_proportion, it.channel_proportion_bounds) {
-        (Some(p), Some(b)) if it.has_cover() => {
-            format!(
-                "channel-body proportion {p:.2} ({:.2}\u{2013}{:.2} with cover)",
-                b.covered_as_fines, b.covered_as_channel
-            )
-        }
-        (Some(p), _) => format!("channel-body proportion {p:.2}"),
-        (None, _) => "channel-body proportion: no exposure".to_string(),
+        (Some(p), Some(b)) if it.has_cover() => format!(
+            "channel bodies {} of exposed thickness ({}\u{2013}{} with cover)",
+            percent(p),
+            percent(b.covered_as_fines).trim_end_matches(" %"),
+            percent(b.covered_as_channel)
+        ),
+        (Some(p), _) => format!("channel bodies {} of exposed thickness", percent(p)),
+        (None, _) => "channel bodies: no exposure".to_string(),
     };
     let size = fit_size(&p, w - 1.0, SMALL_PT + 0.5, 3.5).unwrap_or(3.5);
     text(out, x, y + 12.8, &p, size, CURVE_GREEN);
@@ -332,7 +423,7 @@ pub(super) fn strip(
         for ip in &it.interval_proportions {
             if let Some(p) = ip.proportion.filter(|p| p.is_finite()) {
                 let y = t.y_mm((ip.base_m + ip.top_m) / 2.0);
-                labels.push((y, format!("p {p:.2}"), CURVE_GREEN));
+                labels.push((y, interval_proportion_label(p), CURVE_GREEN));
             }
         }
     }

@@ -205,7 +205,9 @@ pub fn tie_pairs(left: &[Marker], right: &[Marker]) -> (Vec<TiePair>, Option<(us
 /// columns whose unnamed accepted boundaries cannot be paired, then correlation labels that found
 /// no match in a neighbour. A tie runs from the right edge of the left column's strip to just
 /// left of the right column's lithology track (`lithology_x_mm` from the column's left edge).
+/// `sections` are the project's (for the unit heights are written in).
 pub(super) fn tie_lines(
+    sections: &[Section],
     columns: &[PanelColumn],
     markers: &[SectionMarkers],
     lithology_x_mm: f64,
@@ -252,8 +254,9 @@ pub(super) fn tie_lines(
         for (i, m) in markers[c.section_index].markers.iter().enumerate() {
             if let Some(l) = m.link.as_ref().filter(|_| !linked_ends.contains(&(k, i))) {
                 notes.push(format!(
-                    "{}: correlation label {l:?} at {:.2} m has no match in a neighbouring column: not tied.",
-                    c.name, m.height_m
+                    "{}: correlation label {l:?} at {} has no match in a neighbouring column: not tied.",
+                    c.name,
+                    super::notes::height_text(&sections[c.section_index], m.height_m)
                 ));
             }
         }

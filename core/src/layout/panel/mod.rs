@@ -57,8 +57,6 @@ use serde::Serialize;
 pub const STRIP_MM: f64 = 15.0;
 /// Height of the block above each column with its name, position, datum and proportion, mm.
 const HEAD_MM: f64 = 15.0;
-/// Height of the page header, mm.
-const HEADER_MM: f64 = 21.0;
 /// Padding between blocks, mm.
 const PAD_MM: f64 = 3.0;
 /// Height of the key row for the panel's own lines, mm.
@@ -200,6 +198,39 @@ pub struct HorizontalScale {
     pub widened_gaps: Vec<usize>,
 }
 
+impl HorizontalScale {
+    /// The horizontal scale in words, said once and the same on the page and on screen, for a
+    /// panel with `gaps` gaps between its columns; and whether some gap is not to scale (the
+    /// statement is then flagged). A scale is printed only when some gap is drawn at it: when
+    /// every gap had to be widened to the minimum the panel says only that it is not to scale.
+    pub fn statement(&self, gaps: usize) -> (String, bool) {
+        let widened = self.widened_gaps.len();
+        match self.denominator {
+            None => ("horizontal: columns in file order, NOT to scale".to_string(), true),
+            Some(_) if gaps == 0 => ("horizontal: one column, no gaps to scale".to_string(), false),
+            Some(h) if widened == 0 => (
+                format!(
+                    "horizontal scale {} (gaps between columns; column widths show grain size)",
+                    positions::fmt_scale(h)
+                ),
+                false,
+            ),
+            Some(_) if widened >= gaps => (
+                "horizontal: NOT to scale (every gap widened to the minimum; distances above the columns)"
+                    .to_string(),
+                true,
+            ),
+            Some(h) => (
+                format!(
+                    "horizontal scale {} (gaps between columns), except the gaps marked n.t.s., widened to the minimum",
+                    positions::fmt_scale(h)
+                ),
+                true,
+            ),
+        }
+    }
+}
+
 /// A laid-out panel: the page plus its geometry (for tests and the screen).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PanelLayout {
@@ -291,20 +322,26 @@ pub fn panel_layout(
         legend_entries: entries.len(),
         notes: &notes,
     };
-    let sheet = Sheet::plan(opts, meta, &contents, tracks);
-    if sheet.enlarged {
-        notes.push(notes::enlarged_note(&opts.layout, &sheet));
-    }
-
-    // Header, legend and key.
-    let mut items: Vec<Item> = Vec::new();
     // Which rules: those of the first interpretation, or a warning when they differ.
     let rules = match interps.first() {
         Some(first) if interps.iter().all(|i| i.params == first.params) => first.params.summary(),
         Some(_) => "DIFFERENT rules per column (see each column's printout)".to_string(),
         None => "default rules".to_string(),
     };
-    draw::header(&sheet, &horizontal, sections, opts, meta, &rules, &mut items);
+    let scale = HorizontalScale {
+        source: horizontal.positions.source,
+        denominator: horizontal.denominator,
+        widened_gaps: horizontal.widened_gaps.clone(),
+    };
+    let head = draw::HeaderText::new(&scale, horizontal.deltas.len(), sections, order, opts, meta, &rules);
+    let sheet = Sheet::plan(opts, &head, &contents, tracks);
+    if sheet.enlarged {
+        notes.push(notes::enlarged_note(&opts.layout, &sheet));
+    }
+
+    // Header, legend and key.
+    let mut items: Vec<Item> = Vec::new();
+    draw::header(&sheet, &head, &mut items);
     draw_legend(&entries, sheet.margin, sheet.y_legend, sheet.usable_w, &mut items);
     let any_link = markers.iter().any(|m| m.markers.iter().any(|m| m.link.is_some()));
     draw::key(sheet.margin, sheet.y_key, any_link, &mut items);
@@ -351,7 +388,7 @@ pub fn panel_layout(
 
     // Datum line, tie lines, then the notes and the footer.
     draw::datum_line(&columns, &opts.datum, &sheet, &mut items);
-    let (ties, tie_notes) = markers::tie_lines(&columns, &markers, tracks.lithology.x_mm);
+    let (ties, tie_notes) = markers::tie_lines(sections, &columns, &markers, tracks.lithology.x_mm);
     draw::ties(&ties, &mut items);
     notes.extend(tie_notes);
     notes::draw_notes_and_footer(&notes, &sheet, &mut items);
@@ -360,11 +397,7 @@ pub fn panel_layout(
         page: Page { width_mm: sheet.page_w, height_mm: sheet.page_h, items, segments },
         columns,
         ties,
-        horizontal: HorizontalScale {
-            source: positions.source,
-            denominator: horizontal.denominator,
-            widened_gaps: horizontal.widened_gaps.clone(),
-        },
+        horizontal: scale,
         datum_y_mm: sheet.datum_y,
         notes,
         page_enlarged: sheet.enlarged,

@@ -10,7 +10,21 @@ use crate::layout::items::{Item, PtMm};
 use crate::layout::options::LayoutOptions;
 use crate::layout::style::{solid, GREY, HAIR_MM, INK, TEXT_PT};
 use crate::layout::text::{text, width, wrap};
-use crate::model::Section;
+use crate::model::{LengthUnit, Section};
+
+/// The unit a section's heights are written in on the panel: feet for a section logged in feet,
+/// else metres (a centimetre section's heights read best in metres).
+pub(super) fn height_unit(section: &Section) -> LengthUnit {
+    match section.display_unit {
+        LengthUnit::Foot => LengthUnit::Foot,
+        _ => LengthUnit::Metre,
+    }
+}
+
+/// A height (m) of `section` as written on the panel: "24.60 m", "80.71 ft".
+pub(super) fn height_text(section: &Section, height_m: f64) -> String {
+    height_unit(section).length(height_m).to_string()
+}
 
 /// Notes about each section's datum and markers, in panel order.
 pub(super) fn section_notes(
@@ -37,14 +51,16 @@ pub(super) fn section_notes(
         }
         for (l, h) in &markers[i].repeated_links {
             notes.push(format!(
-                "{}: correlation label {l:?} is on more than one accepted boundary; the lowest is tied, not the one at {h:.2} m.",
-                sections[i].name
+                "{}: correlation label {l:?} is on more than one accepted boundary; the lowest is tied, not the one at {}.",
+                sections[i].name,
+                height_text(&sections[i], *h)
             ));
         }
         for (l, h) in &markers[i].unaccepted_links {
             notes.push(format!(
-                "{}: correlation label {l:?} at {h:.2} m is on a boundary that is not accepted: kept, not drawn.",
-                sections[i].name
+                "{}: correlation label {l:?} at {} is on a boundary that is not accepted: kept, not drawn.",
+                sections[i].name,
+                height_text(&sections[i], *h)
             ));
         }
     }

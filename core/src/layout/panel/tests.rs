@@ -284,3 +284,154 @@ fn tall_page_when_the_panel_does_not_fit() {
     assert!(!l.page_enlarged);
     assert_eq!((l.page.width_mm, l.page.height_mm), (420.0, 297.0));
 }
+
+/// Every text of a page with its size: (text, x, baseline y, size pt, rotation).
+fn texts(l: &PanelLayout) -> Vec<(String, f64, f64, f64)> {
+    l.page
+        .items
+        .iter()
+        .filter_map(|it| match it {
+            Item::Text { text, pos, size_pt, rotation_deg, .. } if rotation_deg.abs() < 1e-9 => {
+                Some((text.clone(), pos.x, pos.y, *size_pt))
+            }
+            _ => None,
+        })
+        .collect()
+}
+
+#[test]
+fn the_header_stays_within_the_page_and_its_lines_do_not_collide() {
+    use crate::layout::text::width;
+    let mut p = three();
+    // A long datum name and title, a file name and a date, on the narrowest paper.
+    for s in &mut p.sections[..2] {
+        s.beds[1].base_surface = Some(Surface {
+            name: "SB-1 regional incision surface traced along the whole escarpment".into(),
+            kind: SurfaceKind::Incision,
+        });
+    }
+    let meta =
+        PrintMeta { printed_on: "2026-12-01".into(), subtitle: "a-long-project-file-name.aggrade".into() };
+    for (paper, orientation) in [(Paper::A4, Orientation::Portrait), (Paper::A3, Orientation::Landscape)] {
+        let mut o = opts("SB-1 regional incision surface traced along the whole escarpment");
+        o.layout.paper = paper;
+        o.layout.orientation = orientation;
+        o.title = "Correlation of the fluvial sections along the northern escarpment, upper member".into();
+        let l = panel_layout(&p, &interps(&p), &o, &meta).expect("panel");
+        let m = LayoutOptions::default().margin_mm.clamp(3.0, 40.0);
+        // The header: texts above the rule under it (the first full-width line on the page).
+        let rule_y = l
+            .page
+            .items
+            .iter()
+            .find_map(|it| match it {
+                Item::Polyline { points, .. }
+                    if points.len() == 2
+                        && (points[0].x - m).abs() < 1e-9
+                        && (points[1].x - (l.page.width_mm - m)).abs() < 1e-9 =>
+                {
+                    Some(points[0].y)
+                }
+                _ => None,
+            })
+            .expect("the rule under the header");
+        let head: Vec<_> = texts(&l).into_iter().filter(|t| t.2 < rule_y).collect();
+        assert!(head.len() >= 5, "{head:?}");
+        let mut boxes = Vec::new();
+        for (t, x, y, size) in &head {
+            let right = x + width(t, *size);
+            assert!(
+                *x >= m - 1e-9 && right <= l.page.width_mm - m + 1e-9,
+                "{paper:?}: {t:?} runs off the page"
+            );
+            // Statements under the title are wrapped to at most 55 % of the width, so a screen
+            // that draws small type up to 1.7 × larger still keeps them on the page.
+            if *size < 8.0 && !t.starts_with('0') && t != "1 km" && !t.ends_with(" m") && !t.ends_with(" km")
+            {
+                assert!(
+                    right - m <= 0.55 * (l.page.width_mm - 2.0 * m) + 1e-9,
+                    "{paper:?}: {t:?} is too wide"
+                );
+            }
+            boxes.push((*x, right, y - size * 0.3528 * 0.75, *y + size * 0.3528 * 0.2, t.clone()));
+        }
+        for (i, a) in boxes.iter().enumerate() {
+            for b in &boxes[i + 1..] {
+                let overlap = a.0 < b.1 && b.0 < a.1 && a.2 < b.3 && b.2 < a.3;
+                assert!(!overlap, "{paper:?}: header texts {:?} and {:?} overlap", a.4, b.4);
+            }
+        }
+        // The legend starts below the header.
+        assert!(head.iter().any(|t| t.0.starts_with("datum: SB-1 regional")));
+    }
+}
+
+#[test]
+fn the_horizontal_scale_is_said_once_and_consistently() {
+    let p = three();
+    let all_page_text = |l: &PanelLayout| texts(l).into_iter().map(|t| t.0).collect::<Vec<_>>().join("\n");
+    // At 1:1 000 000 both gaps (300 m and 500 m: 0.3 and 0.5 mm) are widened: the page says
+    // they are not to scale and prints no horizontal scale.
+    let o = PanelOptions { horizontal_scale_denominator: Some(1_000_000.0), ..opts("base") };
+    let l = panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).expect("panel");
+    assert_eq!(l.horizontal.widened_gaps, vec![0, 1]);
+    let (said, flagged) = l.horizontal.statement(2);
+    assert!(flagged && said.contains("NOT to scale") && !said.contains("1:"), "{said}");
+    let text = all_page_text(&l);
+    assert!(text.contains(&said));
+    assert!(!text.contains("1:1\u{2009}000\u{2009}000") && !text.contains("1:1000000"), "no scale printed");
+    // At 1:10 000 no gap is widened: the scale is printed once, and nothing says "not to scale".
+    let o = PanelOptions { horizontal_scale_denominator: Some(10_000.0), ..opts("base") };
+    let l = panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).expect("panel");
+    let (said, flagged) = l.horizontal.statement(2);
+    assert!(!flagged && said.starts_with("horizontal scale 1:10\u{2009}000"), "{said}");
+    let text = all_page_text(&l);
+    assert_eq!(text.matches("1:10\u{2009}000").count(), 1, "{text}");
+    assert!(!text.contains("NOT to horizontal scale") && !text.contains("NOT to scale"));
+    // At 1:50 000 the 300 m gap (6 mm) is widened, the 500 m one (10 mm) is not: the scale once,
+    // with the exception.
+    let o = PanelOptions { horizontal_scale_denominator: Some(50_000.0), ..opts("base") };
+    let l = panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).expect("panel");
+    assert_eq!(l.horizontal.widened_gaps, vec![0]);
+    let (said, flagged) = l.horizontal.statement(2);
+    assert!(flagged && said.contains("1:50\u{2009}000") && said.contains("except the gaps marked n.t.s."));
+    assert_eq!(all_page_text(&l).matches("1:50\u{2009}000").count(), 1);
+}
+
+#[test]
+fn interval_proportions_read_as_channel_percentages_not_p_values() {
+    let mut p = three();
+    // Accept SB-1 in A so its intervals are printed.
+    p.sections[0].review.push(ReviewDecision::new(BedId(2), ReviewState::Accepted, ""));
+    let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+    let t = texts(&l);
+    assert!(!t.iter().any(|(s, ..)| s.starts_with("p ")), "no bare p: {t:?}");
+    // A: mudstone 0–3 m, sandstone 3–5 m (a channel body), mudstone 5–9 m; cut at 3 m: below it
+    // 0 %, above it 2 of 6 m = 33 % (computed).
+    assert!(t.iter().any(|(s, ..)| s == "channel 0 %"), "{t:?}");
+    assert!(t.iter().any(|(s, ..)| s == "channel 33 %"), "{t:?}");
+    // The key explains the label.
+    assert!(t.iter().any(|(s, ..)| s == "channel 45 %"));
+    assert!(t
+        .iter()
+        .any(|(s, ..)| s == "channel-body proportion of the interval between accepted boundaries"));
+    assert_eq!(draw::interval_proportion_label(0.456), "channel 46 %");
+}
+
+#[test]
+fn heights_in_notes_and_heads_are_in_the_section_display_unit() {
+    use crate::model::LengthUnit;
+    let mut p = three();
+    p.sections[2].display_unit = LengthUnit::Foot;
+    // C (at 300 m, between A and B) has a label no neighbour has, at 5 m = 16.40 ft (5 / 0.3048).
+    accept(&mut p.sections[2], 2, Some("SB-9"));
+    let l = panel_layout(&p, &interps(&p), &opts("base"), &PrintMeta::default()).expect("panel");
+    assert!(
+        l.notes.iter().any(|n| n
+            == "C: correlation label \"SB-9\" at 16.40 ft has no match in a neighbouring column: not tied."),
+        "{:?}",
+        l.notes
+    );
+    // C is 6 m = 19.7 ft thick.
+    assert!(texts(&l).iter().any(|(s, ..)| s == "hung on base; 19.7 ft thick"));
+}
