@@ -37,6 +37,13 @@ pub enum Edit {
     SetDisplayUnit { unit: LengthUnit },
     /// Change the section's descriptive fields.
     SetSectionInfo { name: String, locality: String, logged_by: String, notes: String },
+    /// Set where and when the section was logged and its place on the correlation panel
+    /// (metres along the line); refused with the field's message when out of range.
+    SetSectionPlace {
+        coordinates: Option<aggrade_core::model::LatLon>,
+        date_logged: Option<String>,
+        panel_position_m: Option<f64>,
+    },
     /// Add a new empty section and select it.
     AddSection { section: Section },
     /// Replace the whole project (an import into the open document).
@@ -457,6 +464,19 @@ impl Work {
                 s.locality = locality;
                 s.logged_by = logged_by;
                 s.notes = notes;
+            }
+            Edit::SetSectionPlace { coordinates, date_logged, panel_position_m } => {
+                let s = self.section();
+                s.coordinates = coordinates;
+                s.date_logged = date_logged;
+                s.panel_position_m = panel_position_m;
+                let fields = ["coordinates.lat_deg", "coordinates.lon_deg", "date_logged", "panel_position_m"];
+                let problem = aggrade_core::io::validate_section(s)
+                    .into_iter()
+                    .find(|p| fields.contains(&p.location.as_str()));
+                if let Some(p) = problem {
+                    return Err(EditError(p.to_string()));
+                }
             }
             Edit::AddSection { section } => {
                 if self.project.sections.iter().any(|s| s.name == section.name) {

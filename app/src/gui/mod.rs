@@ -28,6 +28,7 @@ mod painter;
 mod plots;
 mod recovery;
 mod review;
+mod section_details;
 mod stability;
 mod table;
 mod theme;

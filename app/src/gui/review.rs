@@ -1,5 +1,6 @@
-//! The review panel: candidate sequence boundaries, strongest first, with their evidence and
-//! stability, the geologist's accept / reject / note, and the project's rule parameters.
+//! The review list: candidate sequence boundaries, strongest first, with their evidence and
+//! stability, the geologist's accept / reject / note / correlation label, and the project's rule
+//! parameters.
 
 use super::actions::{gesture_key, Actions};
 use super::document::{Document, Edit};
@@ -238,7 +239,7 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) 
                             .on_hover_text("The name you gave the surface at this bed base");
                     }
                     if let Some(label) = &c.label {
-                        ui.label(egui::RichText::new(format!("label {label}")).strong())
+                        ui.label(egui::RichText::new(format!("correlation label {label}")).strong())
                             .on_hover_text("The correlation label on your decision");
                     }
                 });

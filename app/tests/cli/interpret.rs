@@ -366,6 +366,7 @@ fn a_section_logged_in_feet_reads_in_feet_and_a_metre_section_in_metres() {
     let text = stdout(&o);
     assert!(!text.contains(" ft"), "{text}");
     assert!(!text.contains("logged in"), "{text}");
+    assert!(metre_lengths(&text).contains(&"48.00 m,".to_string()), "the check above sees metres: {text}");
     for needle in [
         "Thickness 48.00 m, exposed 48.00 m, channel deposits 17.00 m",
         "every 0.5 m in a 10 m window",

@@ -12,5 +12,6 @@ mod fields;
 mod import;
 mod recovery;
 mod rules;
+mod section_details;
 mod trace;
 mod views;
