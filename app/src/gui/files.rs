@@ -122,8 +122,6 @@ pub fn push_recent(recent: &mut Vec<PathBuf>, path: &Path) {
 pub struct RecentFiles {
     dir: PathBuf,
     list: Vec<PathBuf>,
-    /// When the list was last read from disk (the menu reads it again now and then).
-    read_at: Option<std::time::Instant>,
 }
 
 impl RecentFiles {
@@ -134,7 +132,7 @@ impl RecentFiles {
     /// The list kept in `data_dir`. `older` is a list from before it was kept there (the window
     /// state of an older version): it is taken only while the folder holds no list yet.
     pub fn load(data_dir: &Path, older: Vec<PathBuf>) -> Self {
-        let mut r = RecentFiles { dir: data_dir.to_path_buf(), list: Vec::new(), read_at: None };
+        let mut r = RecentFiles { dir: data_dir.to_path_buf(), list: Vec::new() };
         match r.read_disk() {
             Some(list) => r.list = list,
             None => {
@@ -143,7 +141,6 @@ impl RecentFiles {
                 }
             }
         }
-        r.read_at = Some(std::time::Instant::now());
         r
     }
 
@@ -152,13 +149,9 @@ impl RecentFiles {
         &self.list
     }
 
-    /// Read the list again if it was read more than a second ago (another window may have added
-    /// to it); files only this window knows of stay after the ones on disk.
+    /// Read the list again (another window may have added to it); files only this window knows
+    /// of stay after the ones on disk.
     pub fn refresh(&mut self) {
-        if self.read_at.is_some_and(|t| t.elapsed() < std::time::Duration::from_secs(1)) {
-            return;
-        }
-        self.read_at = Some(std::time::Instant::now());
         if let Some(disk) = self.read_disk() {
             self.list = merged(&disk, &self.list);
         }
@@ -168,9 +161,8 @@ impl RecentFiles {
     /// An error says why the list could not be stored; the file is in the menu all the same.
     pub fn add(&mut self, path: &Path) -> Result<(), String> {
         push_recent(&mut self.list, path);
-        let stored = self.store(path);
-        self.read_at = Some(std::time::Instant::now());
-        stored.map_err(|e| format!("the Open recent list could not be stored in {}: {e}", self.dir.display()))
+        self.store(path)
+            .map_err(|e| format!("the Open recent list could not be stored in {}: {e}", self.dir.display()))
     }
 
     fn store(&mut self, path: &Path) -> std::io::Result<()> {
@@ -243,7 +235,6 @@ mod tests {
         let third = RecentFiles::load(dir.path(), vec![PathBuf::from("/old/one.aggrade")]);
         assert_eq!(third.list(), want, "an older list is taken only when the folder holds none");
         // The other window sees the addition once it reads the list again.
-        b.read_at = None;
         b.refresh();
         assert_eq!(b.list(), want);
     }

@@ -13,8 +13,8 @@ use aggrade::gui::test_hooks::{files, recovery};
 use aggrade::gui::{Document, Edit};
 use aggrade_core::io::limits::{MAX_LINK_LABEL_CHARS, MAX_STRING_CHARS};
 use aggrade_core::model::{
-    Bed, BedId, GrainSize, GrainSizeRule, IndexDirection, LengthUnit, Lithology, MeasuredCurve, Project,
-    ReviewState, Section, Surface, SurfaceKind, WentworthClass,
+    Bed, BedId, GrainSize, GrainSizeRule, IndexDirection, LatLon, LengthUnit, Lithology, MeasuredCurve,
+    Project, ReviewState, Section, Surface, SurfaceKind, WentworthClass,
 };
 use proptest::prelude::*;
 use std::path::Path;
@@ -77,6 +77,12 @@ enum Op {
         locality: String,
         logged_by: String,
         notes: String,
+    },
+    /// Coordinates, date logged and panel position (the Section details dialog's `SetSectionPlace`).
+    SectionPlace {
+        coordinates: Option<LatLon>,
+        date_logged: Option<String>,
+        panel_position_m: Option<f64>,
     },
     AddSection(String),
     SelectSection(usize),
@@ -214,6 +220,30 @@ fn curve() -> impl Strategy<Value = MeasuredCurve> {
         })
 }
 
+/// Coordinates, in WGS84's ranges (latitude ±90°, longitude ±180°) or just past them, or not
+/// numbers.
+fn coordinates() -> impl Strategy<Value = Option<LatLon>> {
+    let degrees = |limit: f64| {
+        prop_oneof![
+            8 => -limit..=limit,
+            1 => prop::sample::select(vec![limit, -limit, limit + 1e-9, -limit - 0.5, f64::NAN, f64::INFINITY]),
+        ]
+    };
+    prop::option::of(
+        (degrees(90.0), degrees(180.0)).prop_map(|(lat_deg, lon_deg)| LatLon { lat_deg, lon_deg }),
+    )
+}
+
+/// A date logged: a real day, one that is not (2023 is no leap year), or not a date at all.
+fn date_logged() -> impl Strategy<Value = Option<String>> {
+    prop::option::of(prop_oneof![
+        4 => (1900u32..2100, 1u32..13, 1u32..29).prop_map(|(y, m, d)| format!("{y:04}-{m:02}-{d:02}")),
+        1 => Just("2024-02-29".to_string()),
+        1 => Just("2023-02-29".to_string()),
+        1 => "\\PC{0,10}",
+    ])
+}
+
 fn change() -> impl Strategy<Value = Change> {
     prop_oneof![
         thickness().prop_map(Change::Thickness),
@@ -257,6 +287,15 @@ fn op() -> impl Strategy<Value = Op> {
         1 => prop::sample::select(vec![LengthUnit::Metre, LengthUnit::Centimetre, LengthUnit::Foot]).prop_map(Op::Unit),
         1 => (prop_oneof![3 => "Section [1-4]", 1 => "section [1-4]", 3 => "\\PC{0,10}"], text(), text(), text())
             .prop_map(|(name, locality, logged_by, notes)| Op::SectionInfo { name, locality, logged_by, notes }),
+        1 => (coordinates(), date_logged(), prop::option::of(prop_oneof![
+                8 => -1.0e5f64..1.0e5,
+                1 => prop::sample::select(vec![f64::NAN, f64::INFINITY, 1.0e12]),
+            ]))
+            .prop_map(|(coordinates, date_logged, panel_position_m)| Op::SectionPlace {
+                coordinates,
+                date_logged,
+                panel_position_m,
+            }),
         1 => prop_oneof!["Section [1-6]", "SECTION [1-6]", "\\PC{0,10}"].prop_map(Op::AddSection),
         1 => (0usize..5).prop_map(Op::SelectSection),
         2 => curve().prop_map(Op::Attach),
@@ -415,6 +454,14 @@ fn run_op(doc: &mut Document, op: &Op, log: &mut Vec<String>) {
                 locality: locality.clone(),
                 logged_by: logged_by.clone(),
                 notes: notes.clone(),
+            };
+            edit(doc, e, None, log);
+        }
+        Op::SectionPlace { coordinates, date_logged, panel_position_m } => {
+            let e = Edit::SetSectionPlace {
+                coordinates: *coordinates,
+                date_logged: date_logged.clone(),
+                panel_position_m: *panel_position_m,
             };
             edit(doc, e, None, log);
         }

@@ -22,6 +22,7 @@ pub enum Command {
     StatsView,
     BodiesView,
     AddSection,
+    SectionDetails,
     AttachCurve,
     TraceImage,
     ShowTrace,
@@ -29,7 +30,7 @@ pub enum Command {
 
 impl Command {
     /// Every command, in menu order.
-    pub const ALL: [Command; 19] = [
+    pub const ALL: [Command; 20] = [
         Command::New,
         Command::Open,
         Command::ImportCsv,
@@ -45,6 +46,7 @@ impl Command {
         Command::PanelView,
         Command::StatsView,
         Command::BodiesView,
+        Command::SectionDetails,
         Command::AddSection,
         Command::TraceImage,
         Command::ShowTrace,
@@ -52,7 +54,8 @@ impl Command {
     ];
 
     /// Shortcuts in the order they must be tested (Ctrl+Shift+Z before Ctrl+Z).
-    pub const WITH_SHORTCUTS: [Command; 11] = [
+    pub const WITH_SHORTCUTS: [Command; 12] = [
+        Command::SectionDetails,
         Command::PanelView,
         Command::StatsView,
         Command::BodiesView,
@@ -85,6 +88,7 @@ impl Command {
             Command::StatsView => "Statistics",
             Command::BodiesView => "Channel bodies",
             Command::AddSection => "Add empty section",
+            Command::SectionDetails => "Section details…",
             Command::AttachCurve => "Attach measured curve (LAS)…",
             Command::TraceImage => "Trace from image…",
             Command::ShowTrace => "Show the traced sheet",
@@ -112,6 +116,9 @@ impl Command {
             Command::StatsView => "Paleocurrents, rose diagram and facies transitions",
             Command::BodiesView => "Channel bodies of every section, thickness summary, CSV export",
             Command::AddSection => "Start a new section in this project",
+            Command::SectionDetails => {
+                "Name, locality, who logged it and when, coordinates, display unit, panel position and notes of the section shown"
+            }
             Command::AttachCurve => {
                 "Read a curve such as gamma ray from a LAS 2.0 file and draw it beside the column"
             }
@@ -138,6 +145,7 @@ impl Command {
             Command::PanelView => KeyboardShortcut::new(cs, Key::P),
             Command::StatsView => KeyboardShortcut::new(cs, Key::T),
             Command::BodiesView => KeyboardShortcut::new(cs, Key::B),
+            Command::SectionDetails => KeyboardShortcut::new(cs, Key::D),
             Command::ImportCsv
             | Command::ImportTable
             | Command::ZoomIn

@@ -23,6 +23,7 @@ use super::engine::{project_rules, LayoutOptions, ProjectRules, RuleParams};
 use super::files::{self, FileDialogs};
 use super::inspector::Inspector;
 use super::recovery::{self, Autosaver, FoundBackup};
+use super::section_details::SectionDetails;
 use super::stability::Stability;
 use super::table::BedTable;
 use super::views::Views;
@@ -83,6 +84,8 @@ pub struct AggradeApp {
     pub tab: Tab,
     /// File ▸ Open recent (shared with the other windows through the data folder).
     recent: files::RecentFiles,
+    /// File ▸ Open recent was shown in the last frame (the list is read again as it opens).
+    recent_menu_open: bool,
     /// A message in a dialog.
     pub message: Option<Notice>,
     /// Last status line.
@@ -94,6 +97,9 @@ pub struct AggradeApp {
     inspector: Inspector,
     /// The pop-up dialog or question showing, if any.
     modal: Option<Modal>,
+    /// The Section details dialog, when open (kept apart from `modal`: a question asked over it,
+    /// such as "Save changes?", must not close it and lose what was typed).
+    details: Option<SectionDetails>,
     /// The trace window (beside the column, not a pop-up).
     tracing: Tracing,
     /// The last stability check, while the document is as it was checked.
@@ -110,6 +116,9 @@ pub struct AggradeApp {
     after_save: Option<Pending>,
     allow_close: bool,
     last_title: String,
+    /// The status message as the status bar last saw it, and the document revision then: the
+    /// message stands until the document changes.
+    status_shown: Option<(String, u64)>,
     styled: bool,
 }
 
@@ -138,11 +147,8 @@ impl AggradeApp {
                     doc
                 }
                 Err(e) => {
-                    let name = path
-                        .file_name()
-                        .map_or_else(|| path.display().to_string(), |n| n.to_string_lossy().into_owned());
                     message = Some(Notice::about_file(
-                        format!("Could not open {name}"),
+                        "Could not open the file",
                         format!(
                             "{e}\n\nThe file is left as it is. The window shows {} instead; \
                              correct the file and open it again with File ▸ Open.",
@@ -168,6 +174,7 @@ impl AggradeApp {
             all_candidates: false,
             tab: Tab::Review,
             recent,
+            recent_menu_open: false,
             message,
             status,
             views: Views::default(),
@@ -175,6 +182,7 @@ impl AggradeApp {
             table: BedTable::default(),
             inspector: Inspector::default(),
             modal: None,
+            details: None,
             tracing: Tracing::default(),
             stability: None,
             data_dir: config.data_dir.clone(),
@@ -185,6 +193,7 @@ impl AggradeApp {
             after_save: None,
             allow_close: false,
             last_title: String::new(),
+            status_shown: None,
             styled: false,
         }
     }
@@ -304,6 +313,31 @@ impl AggradeApp {
         self.canvas.scroll_to_height(height_m);
     }
 
+    /// Is the Section details dialog open?
+    pub fn section_details_open(&self) -> bool {
+        self.details.is_some()
+    }
+
+    /// Open the Section details dialog on the section shown (Section ▸ Section details…).
+    pub fn open_section_details(&mut self) {
+        if self.details.is_none() {
+            self.details = Some(SectionDetails::open(self.doc.section(), self.doc.selected_section));
+        }
+    }
+
+    /// Values typed that were not stored: in the Bed tab (they do not read) or in the Section
+    /// details dialog (not applied yet).
+    pub fn has_unstored_text(&self) -> bool {
+        self.inspector.has_unstored_text() || self.details.as_ref().is_some_and(SectionDetails::is_changed)
+    }
+
+    /// One line for each value typed and not stored (kept in the window's backup).
+    fn unstored_texts(&self) -> Vec<String> {
+        let mut lines = self.inspector.unstored_texts(&self.doc);
+        lines.extend(self.details.iter().flat_map(SectionDetails::unstored_lines));
+        lines
+    }
+
     /// This window's backup file.
     pub fn recovery_path(&self) -> PathBuf {
         self.autosaver.path()
@@ -354,9 +388,68 @@ impl AggradeApp {
         }
     }
 
-    /// The window title: file name with a mark while there are unsaved changes.
+    /// The window title: the file's name (or, before the first save, the sections'), with a
+    /// mark while there are unsaved changes.
     pub fn title(&self) -> String {
-        format!("{}{} — Aggrade", if self.doc.dirty { "● " } else { "" }, self.doc.display_name())
+        let name = match self.file_name() {
+            Some(file) => file,
+            None if self.doc.demo => {
+                format!("Demo project: {} (not saved to a file)", sections_phrase(&self.doc))
+            }
+            None => format!("{} (not saved to a file)", capitalised(&sections_phrase(&self.doc))),
+        };
+        format!("{}{name} — Aggrade", if self.doc.dirty { "● " } else { "" })
+    }
+
+    /// The sentence of the "Save changes?" question naming what has unsaved changes.
+    pub fn unsaved_changes_sentence(&self) -> String {
+        let sections = sections_phrase(&self.doc);
+        match self.file_name() {
+            Some(file) => format!("{file} ({sections}) has unsaved changes."),
+            None if self.doc.demo => {
+                format!(
+                    "The demo project ({sections}) has unsaved changes and has never been saved to a file."
+                )
+            }
+            None => {
+                format!("The project with {sections} has unsaved changes and has never been saved to a file.")
+            }
+        }
+    }
+
+    /// What the status bar says: the last message while nothing was changed since it was given;
+    /// after an edit, what is true of the document now (its file, and whether it has unsaved
+    /// changes).
+    pub fn status_line(&self) -> String {
+        let fresh = self
+            .status_shown
+            .as_ref()
+            .is_none_or(|(text, rev)| *text != self.status || *rev == self.doc.revision);
+        if fresh {
+            return self.status.clone();
+        }
+        let name = self.file_name().unwrap_or_else(|| {
+            if self.doc.demo {
+                "Demo project".into()
+            } else {
+                "Not saved to a file yet".into()
+            }
+        });
+        let beds = self.doc.section().beds.len();
+        let place = format!("{} ({})", self.doc.section().name, plural(beds, "bed", "beds"));
+        if self.doc.dirty {
+            format!("{name}: unsaved changes · {place} · Ctrl+S saves")
+        } else {
+            format!("{name}: no unsaved changes · {place}")
+        }
+    }
+
+    /// The name of the document's file, if it has one.
+    fn file_name(&self) -> Option<String> {
+        let path = self.doc.path.as_ref()?;
+        Some(
+            path.file_name().map_or_else(|| path.display().to_string(), |n| n.to_string_lossy().into_owned()),
+        )
     }
 
     /// Draw the whole window (eframe calls this; tests call it through a harness).
@@ -404,7 +497,7 @@ impl AggradeApp {
         // Autosave unsaved changes into this window's own backup, with any typed values that did
         // not read; a failure is reported, never fatal.
         self.autosaver.follow(&self.doc);
-        self.autosaver.set_unstored(self.inspector.unstored_texts(&self.doc));
+        self.autosaver.set_unstored(self.unstored_texts());
         let now = ctx.input(|i| i.time);
         if let Err(e) = self.autosaver.tick(&self.doc, now) {
             self.status = format!("Autosave failed: {e}");
@@ -415,7 +508,7 @@ impl AggradeApp {
 
         // Closing with unsaved changes asks first.
         if ctx.input(|i| i.viewport().close_requested()) && !self.allow_close {
-            if self.doc.dirty || self.inspector.has_unstored_text() {
+            if self.doc.dirty || self.has_unstored_text() {
                 ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
                 self.modal = Some(Modal::Confirm(Pending::Quit));
             } else {
@@ -448,6 +541,7 @@ impl AggradeApp {
         // Bed navigation and deletion from the keyboard when no text field has the focus.
         if ctx.memory(|m| m.focused().is_none())
             && !matches!(self.modal, Some(Modal::Confirm(_)))
+            && self.details.is_none()
             && self.message.is_none()
         {
             let (up, down, del) = ctx.input_mut(|i| {
@@ -484,6 +578,29 @@ impl AggradeApp {
             }
         }
     }
+}
+
+/// "3 beds", "1 bed": a count with its noun.
+pub(crate) fn plural(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
+/// The document's sections named: "section “A”", "sections “A” and “B”", "sections “A”, “B”
+/// and 2 more".
+fn sections_phrase(doc: &Document) -> String {
+    let names: Vec<String> = doc.project.sections.iter().map(|s| format!("“{}”", s.name)).collect();
+    match names.as_slice() {
+        [] => "no section".into(),
+        [one] => format!("section {one}"),
+        [a, b] => format!("sections {a} and {b}"),
+        [a, b, rest @ ..] => format!("sections {a}, {b} and {} more", rest.len()),
+    }
+}
+
+/// The text with its first letter in capitals.
+fn capitalised(text: &str) -> String {
+    let mut c = text.chars();
+    c.next().map(|f| f.to_uppercase().chain(c).collect()).unwrap_or_default()
 }
 
 /// The demo document (the same at every start that shows it); a demo that does not read (a

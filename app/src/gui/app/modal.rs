@@ -3,12 +3,14 @@
 //! the message dialog, which can show over any of them.
 
 use super::{absolute, AggradeApp, Notice};
+use crate::gui::actions::gesture_key;
 use crate::gui::chooser::PickFor;
 use crate::gui::curve_dialog::{self, CurveDialog};
 use crate::gui::document::{Document, Edit};
 use crate::gui::export_dialog::{self, ExportDialog};
 use crate::gui::files::{self, DiskState};
 use crate::gui::import_dialog::{self, ImportDialog};
+use crate::gui::section_details;
 use crate::gui::theme;
 use std::path::{Path, PathBuf};
 
@@ -40,13 +42,24 @@ pub(super) enum Pending {
 
 impl AggradeApp {
     pub(super) fn dialogs_ui(&mut self, ctx: &egui::Context) {
+        // First, so that a question asked over it ("Save changes?") shows on top.
+        self.section_details_ui(ctx);
         self.recovery_ui(ctx);
         if let Some(Modal::Confirm(action)) = &self.modal {
             let action = action.clone();
             egui::Modal::new(egui::Id::unique("confirm")).show(ctx, |ui| {
                 ui.heading("Save changes?");
                 if self.doc.dirty {
-                    ui.label(format!("{} has unsaved changes.", self.doc.display_name()));
+                    ui.label(self.unsaved_changes_sentence());
+                }
+                if self.details.as_ref().is_some_and(|d| d.is_changed()) {
+                    ui.label(
+                        egui::RichText::new(
+                            "What was typed in the Section details dialog is not applied yet and is not \
+                             saved; Cancel and apply it there to keep it.",
+                        )
+                        .color(theme::WARN),
+                    );
                 }
                 if self.inspector.has_unstored_text() {
                     ui.label(
@@ -167,6 +180,55 @@ impl AggradeApp {
                 }
             }
         }
+    }
+
+    /// The Section details dialog: applied as one undo step on the section it was opened on;
+    /// refused edits leave it open with the reason and the typed texts.
+    fn section_details_ui(&mut self, ctx: &egui::Context) {
+        let Some(mut dlg) = self.details.take() else { return };
+        let others: Vec<&str> = self
+            .doc
+            .project
+            .sections
+            .iter()
+            .enumerate()
+            .filter(|(i, _)| *i != dlg.section)
+            .map(|(_, s)| s.name.as_str())
+            .collect();
+        match dlg.ui(ctx, &others) {
+            section_details::Outcome::Open => self.details = Some(dlg),
+            section_details::Outcome::Closed => {}
+            section_details::Outcome::Apply { section, edits } => match self.apply_together(section, edits) {
+                Ok(()) => {
+                    self.status = format!(
+                        "Section details of {} changed (Ctrl+Z takes the change back)",
+                        self.doc.section().name
+                    );
+                }
+                Err(why) => {
+                    dlg.refused(why);
+                    self.details = Some(dlg);
+                }
+            },
+        }
+    }
+
+    /// Apply edits to section `section` as one undo step: all of them, or (one refused) none.
+    fn apply_together(&mut self, section: usize, edits: Vec<Edit>) -> Result<(), String> {
+        if section >= self.doc.project.sections.len() {
+            return Err("the section is no longer in the project (an undo took it away)".into());
+        }
+        let mut trial = self.doc.clone();
+        if trial.selected_section != section {
+            trial.select_section(section);
+        }
+        let gesture = gesture_key(("section details", trial.revision));
+        for e in edits {
+            trial.apply_in_gesture(e, Some(gesture)).map_err(|e| e.to_string())?;
+        }
+        trial.end_gesture();
+        self.doc = trial;
+        Ok(())
     }
 
     /// The offer of backups left by windows that did not close normally.

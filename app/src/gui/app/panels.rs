@@ -1,7 +1,7 @@
 //! The menu bar, status bar and side panels of the window.
 
 use super::{AggradeApp, Command, Notice, Pending, Tab};
-use crate::gui::actions::{gesture_key, Actions};
+use crate::gui::actions::Actions;
 use crate::gui::canvas;
 use crate::gui::document::{Document, Edit};
 use crate::gui::{plots, review, theme};
@@ -33,13 +33,17 @@ impl AggradeApp {
     }
 
     pub(super) fn menu_bar(&mut self, ui: &mut egui::Ui, ctx: &egui::Context, actions: &mut Actions) {
+        let recent_was_open = std::mem::take(&mut self.recent_menu_open);
         egui::Panel::top("menu").show(ui, |ui| {
             egui::MenuBar::new().ui(ui, |ui| {
                 ui.menu_button("File", |ui| {
                     self.menu_items(ui, ctx, &[Command::New, Command::Open]);
                     ui.menu_button("Open recent", |ui| {
-                        // Another window may have opened files since.
-                        self.recent.refresh();
+                        // Read again as the submenu opens: another window may have opened files.
+                        if !recent_was_open {
+                            self.recent.refresh();
+                        }
+                        self.recent_menu_open = true;
                         if self.recent.list().is_empty() {
                             ui.label("No recent files");
                         }
@@ -91,7 +95,7 @@ impl AggradeApp {
                         }
                     }
                     ui.separator();
-                    self.menu_item(ui, ctx, Command::AddSection);
+                    self.menu_items(ui, ctx, &[Command::SectionDetails, Command::AddSection]);
                     ui.separator();
                     self.menu_item(ui, ctx, Command::TraceImage);
                     if self.doc.section().trace.is_some() && !self.trace_window_open() {
@@ -114,7 +118,7 @@ impl AggradeApp {
                 ui.separator();
                 ui.label(egui::RichText::new(&self.doc.section().name).strong());
                 ui.label(
-                    egui::RichText::new(format!("{} beds", self.doc.section().beds.len()))
+                    egui::RichText::new(super::plural(self.doc.section().beds.len(), "bed", "beds"))
                         .color(theme::TEXT_DIM),
                 );
             });
@@ -122,6 +126,10 @@ impl AggradeApp {
     }
 
     pub(super) fn status_bar(&mut self, ui: &mut egui::Ui) {
+        // A new message stands from the document revision it was first shown at.
+        if self.status_shown.as_ref().is_none_or(|(text, _)| *text != self.status) {
+            self.status_shown = Some((self.status.clone(), self.doc.revision));
+        }
         egui::Panel::bottom("status").show(ui, |ui| {
             // The caution first, from the right; the status takes the room left, cut short with
             // "…" (whole on hover) rather than written over the caution.
@@ -133,7 +141,8 @@ impl AggradeApp {
                         .on_hover_text(p);
                 }
                 ui.with_layout(egui::Layout::left_to_right(egui::Align::Center), |ui| {
-                    ui.add(egui::Label::new(&self.status).truncate()).on_hover_text(&self.status);
+                    let line = self.status_line();
+                    ui.add(egui::Label::new(&line).truncate()).on_hover_text(&line);
                 });
             });
         });
@@ -179,7 +188,11 @@ impl AggradeApp {
                     review::ui(ui, &self.doc, list, actions);
                 }
                 Tab::Plots => plots::ui(ui, &self.doc, &cache.interp),
-                Tab::Section => section_ui(ui, &self.doc, actions),
+                Tab::Section => {
+                    if section_ui(ui, &self.doc, actions) {
+                        self.open_section_details();
+                    }
+                }
             }
         });
     }
@@ -201,31 +214,43 @@ impl AggradeApp {
     }
 }
 
-fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+/// The Section tab: every detail of the section shown, the unit switch, and the button that
+/// opens the Section details dialog where they are edited.
+fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
     let s = doc.section();
-    let (mut name, mut locality, mut logged_by, mut notes) =
-        (s.name.clone(), s.locality.clone(), s.logged_by.clone(), s.notes.clone());
-    let mut changed = false;
+    let unit = s.display_unit;
+    let none = || egui::RichText::new("—").color(theme::TEXT_DIM);
+    let text_or_none = |t: &str| if t.trim().is_empty() { none() } else { egui::RichText::new(t) };
     egui::Grid::new("section_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
         ui.label("Name");
-        let limit = aggrade_core::io::limits::MAX_STRING_CHARS;
-        fn line(text: &mut String, limit: usize) -> egui::TextEdit<'_> {
-            egui::TextEdit::singleline(text).char_limit(limit)
-        }
-        changed |= ui.add(line(&mut name, limit)).on_hover_text("The section's name").changed();
+        ui.label(egui::RichText::new(&s.name).strong());
         ui.end_row();
         ui.label("Locality");
-        changed |=
-            ui.add(line(&mut locality, limit)).on_hover_text("Where the section was measured").changed();
+        ui.label(text_or_none(&s.locality));
         ui.end_row();
         ui.label("Logged by");
-        changed |= ui.add(line(&mut logged_by, limit)).on_hover_text("Who measured it").changed();
+        ui.label(text_or_none(&s.logged_by));
+        ui.end_row();
+        ui.label("Date logged");
+        ui.label(text_or_none(s.date_logged.as_deref().unwrap_or("")));
+        ui.end_row();
+        ui.label("Coordinates");
+        match s.coordinates {
+            Some(c) => ui.label(format!("{:.5}°, {:.5}° (WGS84 latitude, longitude)", c.lat_deg, c.lon_deg)),
+            None => ui.label(none()),
+        };
+        ui.end_row();
+        ui.label("Panel position");
+        match s.panel_position_m {
+            Some(m) => ui.label(format!("{:.2} {} along the line", unit.from_metres(m), unit.name())),
+            None => ui.label(egui::RichText::new("— (placed by its order)").color(theme::TEXT_DIM)),
+        };
         ui.end_row();
         ui.label("Units");
         ui.horizontal(|ui| {
             for u in LengthUnit::ALL {
                 if ui
-                    .selectable_label(s.display_unit == *u, u.name())
+                    .selectable_label(unit == *u, u.name())
                     .on_hover_text("Show and type thicknesses in this unit")
                     .clicked()
                 {
@@ -236,23 +261,19 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
         ui.end_row();
     });
     ui.label("Notes");
-    changed |= ui
-        .add(
-            egui::TextEdit::multiline(&mut notes)
-                .desired_width(f32::INFINITY)
-                .char_limit(aggrade_core::io::limits::MAX_STRING_CHARS),
-        )
-        .on_hover_text("Notes on the section")
-        .changed();
-    if changed {
-        let g = gesture_key(("section", doc.selected_section));
-        out.edit_in(Edit::SetSectionInfo { name, locality, logged_by, notes }, g);
-    }
+    ui.add(egui::Label::new(text_or_none(&s.notes)).wrap());
+    ui.add_space(4.0);
+    let open = ui
+        .button(Command::SectionDetails.label())
+        .on_hover_text(format!("{} (Ctrl+Shift+D)", Command::SectionDetails.tooltip()))
+        .clicked();
     ui.separator();
+    let length = |m: f64| format!("{:.2} {}", unit.from_metres(m), unit.name());
     ui.label(format!(
-        "Total thickness {:.2} m · exposed {:.2} m · {} beds",
-        s.total_thickness_m(),
-        s.exposed_thickness_m(),
-        s.beds.len()
+        "Total thickness {} · exposed {} · {}",
+        length(s.total_thickness_m()),
+        length(s.exposed_thickness_m()),
+        super::plural(s.beds.len(), "bed", "beds")
     ));
+    open
 }

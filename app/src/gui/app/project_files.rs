@@ -37,14 +37,18 @@ impl AggradeApp {
             Command::Export => self.modal = Some(Modal::Export(ExportDialog::default())),
             Command::Quit => ctx.send_viewport_cmd(egui::ViewportCommand::Close),
             Command::Undo => {
-                if !self.doc.undo() {
-                    self.status = "Nothing to undo".into();
-                }
+                self.status = if self.doc.undo() {
+                    "Undid the last change (Ctrl+Shift+Z does it again)".into()
+                } else {
+                    "Nothing to undo".into()
+                };
             }
             Command::Redo => {
-                if !self.doc.redo() {
-                    self.status = "Nothing to redo".into();
-                }
+                self.status = if self.doc.redo() {
+                    "Did the undone change again".into()
+                } else {
+                    "Nothing to redo".into()
+                };
             }
             Command::ZoomIn => self.canvas.zoom *= 1.25,
             Command::ZoomOut => self.canvas.zoom /= 1.25,
@@ -59,6 +63,7 @@ impl AggradeApp {
                 }
                 self.apply(Edit::AddSection { section: Section::new(format!("Section {k}")) });
             }
+            Command::SectionDetails => self.open_section_details(),
             Command::AttachCurve => self.pick_curve(),
             Command::TraceImage => self.pick_trace_image(),
             Command::ShowTrace => self.show_traced_sheet(),
@@ -66,7 +71,7 @@ impl AggradeApp {
     }
 
     pub(super) fn guard(&mut self, action: Pending, ctx: &egui::Context) {
-        if self.doc.dirty || self.inspector.has_unstored_text() {
+        if self.doc.dirty || self.has_unstored_text() {
             self.modal = Some(Modal::Confirm(action));
         } else {
             self.proceed(action, ctx);
