@@ -51,9 +51,10 @@ pub enum Command {
     /// Attach a measured curve (e.g. gamma ray) from a LAS 1.2/2.0 file or a plain CSV/TXT table
     /// to a section, remove one, or list them.
     Curve(curve::CurveArgs),
-    /// Set the correlation label (e.g. SB-2) of an accepted boundary: the correlation panel ties
-    /// it to accepted boundaries with the same correlation label in neighbouring sections.
-    /// `--remove` takes the correlation label off.
+    /// Set or remove the correlation label (e.g. SB-2) of an accepted boundary.
+    ///
+    /// The correlation panel ties accepted boundaries with the same correlation label in
+    /// neighbouring sections; `--remove` takes the correlation label off.
     Link(link::LinkArgs),
 }
 
