@@ -8,8 +8,8 @@
 //! has a fixed object number and is written after the last page, the font subset to the glyphs
 //! the whole document shows.
 
-use super::pdf_content::{uint, ContentWriter, FONT_RESOURCE, PT_PER_MM};
-use super::pdf_font::{font_objects, stream_object, ObjectBody};
+use super::pdf_content::{num, uint, ContentWriter, FONT_RESOURCE, PT_PER_MM};
+use super::pdf_font::font_objects;
 use crate::layout::Page;
 use std::collections::BTreeMap;
 use std::io::{self, Write};
@@ -37,60 +37,103 @@ const FONT: u32 = 4;
 /// The first number handed out for pages.
 const FIRST_FREE: u32 = 5;
 
-/// Deflate (zlib's fast level) when it makes the data smaller; `None` to store it as it is.
-pub(super) fn deflate(data: &[u8]) -> Option<Vec<u8>> {
-    let mut encoder =
-        flate2::write::ZlibEncoder::new(Vec::with_capacity(data.len() / 4 + 64), flate2::Compression::fast());
-    encoder.write_all(data).ok()?;
-    let compressed = encoder.finish().ok()?;
-    (compressed.len() + 19 < data.len()).then_some(compressed)
+/// A zlib compressor and its output buffer, kept from one stream to the next: a new compressor
+/// for every page cost as much again in fresh memory (its window and tables) as compressing.
+pub(super) struct Deflater {
+    z: flate2::Compress,
+    buf: Vec<u8>,
 }
 
-/// A page translated and compressed, ready to write.
+impl Deflater {
+    pub(super) fn new() -> Self {
+        Deflater { z: flate2::Compress::new(flate2::Compression::fast(), true), buf: Vec::new() }
+    }
+
+    /// `data` deflated (zlib format, fast level), or `None` if that does not make it smaller
+    /// (or fails): store it as it is.
+    pub(super) fn deflate(&mut self, data: &[u8]) -> Option<&[u8]> {
+        self.z.reset();
+        self.buf.clear();
+        self.buf.reserve(data.len() / 2 + 64);
+        loop {
+            let done = usize::try_from(self.z.total_in()).ok()?;
+            let status =
+                self.z.compress_vec(&data[done..], &mut self.buf, flate2::FlushCompress::Finish).ok()?;
+            if status == flate2::Status::StreamEnd {
+                break;
+            }
+            self.buf.reserve(self.buf.capacity().max(4096));
+        }
+        (self.buf.len() + 19 < data.len()).then_some(&self.buf)
+    }
+}
+
+/// Append a stream object's body: `<< … /Length n [/Filter /FlateDecode] >> stream … endstream`,
+/// compressed when that helps.
+pub(super) fn stream_into(out: &mut Vec<u8>, dict_entries: &[u8], data: &[u8], z: &mut Deflater) {
+    let (body, filter): (&[u8], &[u8]) = match z.deflate(data) {
+        Some(c) => (c, b" /Filter /FlateDecode"),
+        None => (data, b""),
+    };
+    out.reserve(body.len() + dict_entries.len() + 64);
+    out.extend_from_slice(b"<< ");
+    out.extend_from_slice(dict_entries);
+    out.extend_from_slice(b"/Length ");
+    uint(out, body.len() as u64);
+    out.extend_from_slice(filter);
+    out.extend_from_slice(b" >>\nstream\n");
+    out.extend_from_slice(body);
+    out.extend_from_slice(b"\nendstream");
+}
+
+/// A page translated and compressed, ready to write: its size and where its content stream's
+/// object body lies in its worker's buffer.
 struct Translated {
     width_mm: f64,
     height_mm: f64,
-    content: ObjectBody,
+    body: std::ops::Range<usize>,
 }
 
-/// Translate pages (in parallel when there are several cores), collecting the glyphs they show.
-fn translate(pages: &[Page], glyphs: &mut BTreeMap<u16, char>) -> Vec<Translated> {
-    fn one(page: &Page, glyphs: &mut BTreeMap<u16, char>) -> Translated {
-        let content = ContentWriter::new(page, glyphs).page(page);
-        Translated {
+/// One worker's share of a group: the pages in order, their object bodies end to end, and the
+/// glyphs they show.
+struct Share {
+    pages: Vec<Translated>,
+    bodies: Vec<u8>,
+    glyphs: BTreeMap<u16, char>,
+}
+
+/// Translate and compress consecutive pages, reusing one content buffer and one compressor.
+fn translate_share(pages: &[Page]) -> Share {
+    let mut share =
+        Share { pages: Vec::with_capacity(pages.len()), bodies: Vec::new(), glyphs: BTreeMap::new() };
+    let mut z = Deflater::new();
+    let mut content = Vec::new();
+    for page in pages {
+        content = ContentWriter::new(page, content, &mut share.glyphs).page(page);
+        let start = share.bodies.len();
+        stream_into(&mut share.bodies, b"", &content, &mut z);
+        share.pages.push(Translated {
             width_mm: page.width_mm,
             height_mm: page.height_mm,
-            content: stream_object(b"", &content),
-        }
+            body: start..share.bodies.len(),
+        });
     }
+    share
+}
+
+/// Translate pages, spread over the processor's cores (at most 8) in consecutive shares.
+fn translate(pages: &[Page]) -> Vec<Share> {
     let threads = std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1).clamp(1, 8);
     if threads == 1 || pages.len() < 2 {
-        return pages.iter().map(|p| one(p, glyphs)).collect();
+        return vec![translate_share(pages)];
     }
     let per = pages.len().div_ceil(threads);
-    let parts: Vec<(Vec<Translated>, BTreeMap<u16, char>)> = std::thread::scope(|scope| {
-        let handles: Vec<_> = pages
-            .chunks(per)
-            .map(|chunk| {
-                scope.spawn(move || {
-                    let mut seen = BTreeMap::new();
-                    let done: Vec<Translated> = chunk.iter().map(|p| one(p, &mut seen)).collect();
-                    (done, seen)
-                })
-            })
-            .collect();
+    std::thread::scope(|scope| {
+        let handles: Vec<_> =
+            pages.chunks(per).map(|chunk| scope.spawn(move || translate_share(chunk))).collect();
         // A worker only panics on a defect; re-raise it here rather than lose pages.
         handles.into_iter().map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e))).collect()
-    });
-    let mut out = Vec::with_capacity(pages.len());
-    for (done, seen) in parts {
-        out.extend(done);
-        // The first character seen for a glyph wins, in page order, as in one pass.
-        for (g, c) in seen {
-            glyphs.entry(g).or_insert(c);
-        }
-    }
-    out
+    })
 }
 
 /// Writes a PDF page by page to any [`Write`]: pages given to [`PdfWriter::add_page`] are kept
@@ -186,24 +229,29 @@ impl<W: Write> PdfWriter<W> {
         if pages.is_empty() {
             return Ok(());
         }
-        let translated = translate(pages, &mut self.glyphs);
-        for t in translated {
-            let content = self.new_id();
-            self.object(content, &t.content)?;
-            let page = self.new_id();
-            let mut d = b"<< /Type /Page /Parent ".to_vec();
-            uint(&mut d, u64::from(PAGE_TREE));
-            d.extend_from_slice(b" 0 R /MediaBox [0 0 ");
-            super::pdf_content::num(&mut d, t.width_mm * PT_PER_MM, 3);
-            d.push(b' ');
-            super::pdf_content::num(&mut d, t.height_mm * PT_PER_MM, 3);
-            d.extend_from_slice(b"] /Resources ");
-            uint(&mut d, u64::from(RESOURCES));
-            d.extend_from_slice(b" 0 R /Contents ");
-            uint(&mut d, u64::from(content));
-            d.extend_from_slice(b" 0 R >>");
-            self.object(page, &d)?;
-            self.page_ids.push(page);
+        for share in translate(pages) {
+            // The first character seen for a glyph wins, in page order, as in one pass.
+            for (g, c) in share.glyphs {
+                self.glyphs.entry(g).or_insert(c);
+            }
+            for t in share.pages {
+                let content = self.new_id();
+                self.object(content, &share.bodies[t.body])?;
+                let page = self.new_id();
+                let mut d = b"<< /Type /Page /Parent ".to_vec();
+                uint(&mut d, u64::from(PAGE_TREE));
+                d.extend_from_slice(b" 0 R /MediaBox [0 0 ");
+                num(&mut d, t.width_mm * PT_PER_MM, 3);
+                d.push(b' ');
+                num(&mut d, t.height_mm * PT_PER_MM, 3);
+                d.extend_from_slice(b"] /Resources ");
+                uint(&mut d, u64::from(RESOURCES));
+                d.extend_from_slice(b" 0 R /Contents ");
+                uint(&mut d, u64::from(content));
+                d.extend_from_slice(b" 0 R >>");
+                self.object(page, &d)?;
+                self.page_ids.push(page);
+            }
         }
         Ok(())
     }

@@ -1,5 +1,7 @@
 //! One page's items as a PDF content stream (ISO 32000-1 §8–9 operators), written straight to
-//! bytes: the coordinate flip (mm, y down → pt, y up) and text anchoring happen here, nothing else.
+//! bytes. The stream starts by setting the coordinate system to the layout's own (millimetres from
+//! the top left, y down), so items are written in their own numbers; text anchoring is the only
+//! other thing that happens here.
 //!
 //! Text is shown in the embedded font through the Identity-H encoding, each character as its glyph
 //! index in DejaVu Sans (two bytes); the glyphs a page uses are reported so the document's font
@@ -21,37 +23,38 @@ pub(super) const FONT_RESOURCE: &str = "F1";
 /// Append a number with at most `decimals` decimals (trailing zeros dropped; `-0` is `0`; a
 /// non-finite value, which the layout never gives, is written as `0` so the file stays valid).
 pub(super) fn num(out: &mut Vec<u8>, v: f64, decimals: u32) {
-    let scale = 10_i64.pow(decimals);
+    let scale = 10_u64.pow(decimals);
     let scaled = v * scale as f64;
     if !scaled.is_finite() || scaled.abs() >= 9.0e18 {
         out.push(b'0');
         return;
     }
-    let r = scaled.round() as i64;
-    if r < 0 {
+    // Round half away from zero (a cast truncates toward zero).
+    let a = (scaled.abs() + 0.5) as u64;
+    if a == 0 {
+        out.push(b'0');
+        return;
+    }
+    if scaled < 0.0 {
         out.push(b'-');
     }
-    let a = r.unsigned_abs();
-    let (int, mut frac) = (a / scale as u64, a % scale as u64);
+    let (int, mut frac) = (a / scale, a % scale);
     uint(out, int);
     if frac != 0 {
-        let mut digits = decimals;
+        let mut digits = decimals as usize;
         while frac % 10 == 0 {
             frac /= 10;
             digits -= 1;
         }
         out.push(b'.');
-        let start = out.len();
-        for _ in 0..digits {
-            out.push(b'0');
-        }
-        let mut k = out.len();
-        while frac > 0 {
+        let mut buf = [b'0'; 20];
+        let mut k = digits;
+        while frac > 0 && k > 0 {
             k -= 1;
-            out[k] = b'0' + (frac % 10) as u8;
+            buf[k] = b'0' + (frac % 10) as u8;
             frac /= 10;
         }
-        debug_assert!(k >= start);
+        out.extend_from_slice(&buf[..digits]);
     }
 }
 
@@ -70,9 +73,9 @@ pub(super) fn uint(out: &mut Vec<u8>, mut v: u64) {
     out.extend_from_slice(&buf[k..]);
 }
 
-/// Coordinates: 0.001 pt (0.35 µm) is far below what a printer or screen shows.
+/// Coordinates and lengths, in mm: 0.01 mm (10 µm) is a quarter of a 600 dpi printer's dot.
 fn coord(out: &mut Vec<u8>, v: f64) {
-    num(out, v, 3);
+    num(out, v, 2);
     out.push(b' ');
 }
 
@@ -102,7 +105,6 @@ impl Paint {
 /// Translates one page's items into content-stream bytes, tracking the graphics state so that
 /// repeats of a colour, width or dash are not written again.
 pub(super) struct ContentWriter<'g> {
-    height_mm: f64,
     out: Vec<u8>,
     fill: Option<Rgba>,
     stroke_color: Option<Rgba>,
@@ -113,16 +115,22 @@ pub(super) struct ContentWriter<'g> {
 }
 
 impl<'g> ContentWriter<'g> {
-    pub(super) fn new(page: &Page, glyphs: &'g mut BTreeMap<u16, char>) -> Self {
-        ContentWriter {
-            height_mm: page.height_mm,
-            out: Vec::with_capacity(page.items.len() * 48 + 256),
-            fill: None,
-            stroke_color: None,
-            width_mm: None,
-            dash: None,
-            glyphs,
-        }
+    /// A writer for `page`'s content that writes into `buf` (emptied first, so one buffer can
+    /// serve page after page).
+    pub(super) fn new(page: &Page, mut buf: Vec<u8>, glyphs: &'g mut BTreeMap<u16, char>) -> Self {
+        buf.clear();
+        buf.reserve(page.items.len() * 40 + 256);
+        let mut w =
+            ContentWriter { out: buf, fill: None, stroke_color: None, width_mm: None, dash: None, glyphs };
+        // The layout's coordinates: x right and y down from the top left corner, in mm
+        // (ISO 32000-1 §8.3.4: the `cm` operator sets the current transformation matrix).
+        num(&mut w.out, PT_PER_MM, 8);
+        w.out.extend_from_slice(b" 0 0 ");
+        num(&mut w.out, -PT_PER_MM, 8);
+        w.out.extend_from_slice(b" 0 ");
+        num(&mut w.out, page.height_mm * PT_PER_MM, 6);
+        w.out.extend_from_slice(b" cm\n");
+        w
     }
 
     /// The content stream of a whole page.
@@ -133,10 +141,10 @@ impl<'g> ContentWriter<'g> {
         self.out
     }
 
-    /// A point on the page: mm from the top left → pt from the bottom left.
+    /// A point on the page, mm from the top left.
     fn point(&mut self, p: PtMm) {
-        coord(&mut self.out, p.x * PT_PER_MM);
-        coord(&mut self.out, (self.height_mm - p.y) * PT_PER_MM);
+        coord(&mut self.out, p.x);
+        coord(&mut self.out, p.y);
     }
 
     fn rgb(&mut self, c: Rgba) {
@@ -162,7 +170,7 @@ impl<'g> ContentWriter<'g> {
             self.stroke_color = Some(s.color);
         }
         if self.width_mm != Some(s.width_mm) {
-            coord(&mut self.out, s.width_mm.max(0.0) * PT_PER_MM);
+            coord(&mut self.out, s.width_mm.max(0.0));
             self.out.extend_from_slice(b"w\n");
             self.width_mm = Some(s.width_mm);
         }
@@ -170,7 +178,7 @@ impl<'g> ContentWriter<'g> {
             self.out.push(b'[');
             if s.dash_mm.iter().any(|d| *d > 0.0) {
                 for d in &s.dash_mm {
-                    coord(&mut self.out, d.max(0.0) * PT_PER_MM);
+                    coord(&mut self.out, d.max(0.0));
                 }
             }
             self.out.extend_from_slice(b"] 0 d\n");
@@ -212,10 +220,9 @@ impl<'g> ContentWriter<'g> {
             Item::Rect { rect, fill, stroke } => {
                 let Some(mode) = self.paint(fill, stroke) else { return };
                 let RectMm { x, y, w, h } = *rect;
-                coord(&mut self.out, x * PT_PER_MM);
-                coord(&mut self.out, (self.height_mm - y - h) * PT_PER_MM);
-                coord(&mut self.out, w * PT_PER_MM);
-                coord(&mut self.out, h * PT_PER_MM);
+                for v in [x, y, w, h] {
+                    coord(&mut self.out, v);
+                }
                 self.out.extend_from_slice(b"re\n");
                 self.out.extend_from_slice(mode.op());
             }
@@ -271,8 +278,13 @@ impl<'g> ContentWriter<'g> {
                     Anchor::Middle => -w / 2.0,
                     Anchor::End => -w,
                 };
-                let a = rotation_deg.to_radians();
-                let (cos, sin) = (a.cos(), a.sin());
+                // Quarter turns exactly (the column's titles stand at 90°).
+                let (cos, sin) = match *rotation_deg {
+                    r if r == 0.0 => (1.0, 0.0),
+                    r if r == 90.0 => (0.0, 1.0),
+                    r if r == -90.0 || r == 270.0 => (0.0, -1.0),
+                    r => (r.to_radians().cos(), r.to_radians().sin()),
+                };
                 // Anchor shift runs along the baseline, which points (cos, −sin) on a y-down page.
                 let start = PtMm { x: pos.x + shift * cos, y: pos.y - shift * sin };
                 self.set_fill(*c);
@@ -281,8 +293,11 @@ impl<'g> ContentWriter<'g> {
                 self.out.push(b' ');
                 num(&mut self.out, *size_pt, 3);
                 self.out.extend_from_slice(b" Tf\n");
-                for v in [cos, sin, -sin, cos] {
-                    num(&mut self.out, v, 5);
+                // Text space is in points with y up: undo the page's mm scale and y flip, then
+                // turn by the rotation (counter-clockwise on the page).
+                let k = 1.0 / PT_PER_MM;
+                for v in [cos * k, -sin * k, -sin * k, -cos * k] {
+                    num(&mut self.out, v, 6);
                     self.out.push(b' ');
                 }
                 self.point(start);
@@ -364,11 +379,11 @@ mod tests {
             segments: Vec::new(),
         };
         let mut glyphs = BTreeMap::new();
-        let bytes = ContentWriter::new(&page, &mut glyphs).page(&page);
+        let bytes = ContentWriter::new(&page, Vec::new(), &mut glyphs).page(&page);
         let s = String::from_utf8(bytes).expect("ascii");
-        // 25.4 mm = 72 pt; the rectangle's bottom edge is 100 − 25.4 = 74.6 mm (211.465 pt) above the
-        // page's foot.
-        assert!(s.contains("1 0 0 rg\n0 211.465 72 72 re\nf\n"), "{s}");
+        // Millimetres from the top left: 1 mm = 72/25.4 pt, the page's top at 100 mm = 283.465 pt.
+        assert!(s.starts_with("2.83464567 0 0 -2.83464567 0 283.464567 cm\n"), "{s}");
+        assert!(s.contains("1 0 0 rg\n0 0 25.4 25.4 re\nf\n"), "{s}");
         let (a, phi) = (metrics().glyph_id('A'), metrics().glyph_id('φ'));
         assert!(a != 0 && phi != 0, "DejaVu Sans has both glyphs");
         let mut hex = Vec::new();
@@ -376,7 +391,8 @@ mod tests {
         hex16(&mut hex, phi);
         let shown = format!("<{}> Tj", String::from_utf8(hex).expect("ascii"));
         assert!(s.contains(&shown), "{s}");
-        assert!(s.contains("0 0 0 rg\nBT\n/F1 10 Tf\n1 0 0 1 0 0 Tm\n"), "{s}");
+        // Text upright at 10 pt: the page's scale and flip undone (25.4/72 = 0.352778).
+        assert!(s.contains("0 0 0 rg\nBT\n/F1 10 Tf\n0.352778 0 0 -0.352778 0 100 Tm\n"), "{s}");
         assert_eq!(glyphs.get(&phi), Some(&'φ'));
         assert_eq!(s.matches(" re\n").count(), 1, "the invisible rectangle is skipped");
     }

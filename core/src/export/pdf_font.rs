@@ -94,22 +94,10 @@ fn facts() -> Facts {
     }
 }
 
-/// `<< … /Length n [/Filter /FlateDecode] >> stream … endstream`, compressed when that helps.
-pub(super) fn stream_object(dict_entries: &[u8], data: &[u8]) -> ObjectBody {
-    let compressed = super::pdf::deflate(data);
-    let (body, filter): (&[u8], &[u8]) = match &compressed {
-        Some(c) => (c, b" /Filter /FlateDecode"),
-        None => (data, b""),
-    };
-    let mut out = Vec::with_capacity(body.len() + dict_entries.len() + 64);
-    out.extend_from_slice(b"<< ");
-    out.extend_from_slice(dict_entries);
-    out.extend_from_slice(b"/Length ");
-    uint(&mut out, body.len() as u64);
-    out.extend_from_slice(filter);
-    out.extend_from_slice(b" >>\nstream\n");
-    out.extend_from_slice(body);
-    out.extend_from_slice(b"\nendstream");
+/// A stream object's body, compressed when that helps.
+fn stream_object(dict_entries: &[u8], data: &[u8]) -> ObjectBody {
+    let mut out = Vec::new();
+    super::pdf::stream_into(&mut out, dict_entries, data, &mut super::pdf::Deflater::new());
     out
 }
 
