@@ -137,8 +137,8 @@ fn translate(pages: &[Page]) -> Vec<Share> {
 }
 
 /// Writes a PDF page by page to any [`Write`]: pages given to [`PdfWriter::add_page`] are kept
-/// until a group is full, then translated, compressed and written; [`PdfWriter::finish`] writes
-/// the rest. The same pages and info give the same bytes, whatever the group size.
+/// until a group is full, then translated and compressed (in the background, while the next group
+/// is laid out) and written; [`PdfWriter::finish`] writes the rest. The same pages and info give the same bytes, whatever the group size.
 pub struct PdfWriter<W: Write> {
     out: W,
     /// Bytes written so far (the next object's offset).
@@ -150,6 +150,9 @@ pub struct PdfWriter<W: Write> {
     info: PdfInfo,
     pending: Vec<Page>,
     pages_per_group: usize,
+    /// The group being translated in the background while the next one is laid out, with its
+    /// page count.
+    in_flight: Option<(std::thread::JoinHandle<Vec<Share>>, usize)>,
 }
 
 impl<W: Write> PdfWriter<W> {
@@ -169,6 +172,7 @@ impl<W: Write> PdfWriter<W> {
             info: info.clone(),
             pending: Vec::new(),
             pages_per_group: pages_per_group.max(1),
+            in_flight: None,
         };
         // PDF 1.7; the second line's bytes above 127 mark the file as binary (ISO 32000-1 §7.5.2).
         w.put(b"%PDF-1.7\n%\xE2\xE3\xCF\xD3\n")?;
@@ -177,15 +181,29 @@ impl<W: Write> PdfWriter<W> {
 
     /// Pages added so far.
     pub fn page_count(&self) -> usize {
-        self.page_ids.len() + self.pending.len()
+        self.page_ids.len() + self.pending.len() + self.in_flight.as_ref().map_or(0, |(_, n)| *n)
     }
 
-    /// Add a page; it is written when its group is full (or at [`PdfWriter::finish`]).
+    /// Add a page; it is written when its group is full (or at [`PdfWriter::finish`]). A full
+    /// group is translated in the background while the caller lays out the next one; it is
+    /// written when that one is full, so at most two groups are held.
     pub fn add_page(&mut self, page: Page) -> io::Result<()> {
         self.pending.push(page);
         if self.pending.len() >= self.pages_per_group {
             let group = std::mem::take(&mut self.pending);
-            self.write_pages(&group)?;
+            self.collect()?;
+            let n = group.len();
+            self.in_flight = Some((std::thread::spawn(move || translate(&group)), n));
+        }
+        Ok(())
+    }
+
+    /// Write the group translated in the background, if there is one.
+    fn collect(&mut self) -> io::Result<()> {
+        if let Some((handle, _)) = self.in_flight.take() {
+            // The translation only panics on a defect; re-raise it here rather than lose pages.
+            let shares = handle.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
+            self.write_shares(shares)?;
         }
         Ok(())
     }
@@ -193,6 +211,7 @@ impl<W: Write> PdfWriter<W> {
     /// Translate and write pages now, in groups (pages still waiting from
     /// [`PdfWriter::add_page`] go first).
     pub fn add_pages(&mut self, pages: &[Page]) -> io::Result<()> {
+        self.collect()?;
         let waiting = std::mem::take(&mut self.pending);
         self.write_pages(&waiting)?;
         for group in pages.chunks(self.pages_per_group) {
@@ -229,7 +248,12 @@ impl<W: Write> PdfWriter<W> {
         if pages.is_empty() {
             return Ok(());
         }
-        for share in translate(pages) {
+        self.write_shares(translate(pages))
+    }
+
+    /// Write translated pages: each one's content stream, then its page dictionary.
+    fn write_shares(&mut self, shares: Vec<Share>) -> io::Result<()> {
+        for share in shares {
             // The first character seen for a glyph wins, in page order, as in one pass.
             for (g, c) in share.glyphs {
                 self.glyphs.entry(g).or_insert(c);
@@ -259,6 +283,7 @@ impl<W: Write> PdfWriter<W> {
     /// Write the remaining pages, the font, page tree, catalogue, information dictionary,
     /// cross-reference table and trailer; gives back the output.
     pub fn finish(mut self) -> io::Result<W> {
+        self.collect()?;
         let waiting = std::mem::take(&mut self.pending);
         self.write_pages(&waiting)?;
 

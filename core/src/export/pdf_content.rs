@@ -22,40 +22,53 @@ pub(super) const FONT_RESOURCE: &str = "F1";
 
 /// Append a number with at most `decimals` decimals (trailing zeros dropped; `-0` is `0`; a
 /// non-finite value, which the layout never gives, is written as `0` so the file stays valid).
+#[inline]
 pub(super) fn num(out: &mut Vec<u8>, v: f64, decimals: u32) {
+    write_num(out, v, decimals, None);
+}
+
+/// [`num`], then `suffix`, built on the stack and appended in one copy (numbers are most of a
+/// content stream). Inlined, so each call's `decimals` is a constant and its divisions are cheap.
+#[inline(always)]
+fn write_num(out: &mut Vec<u8>, v: f64, decimals: u32, suffix: Option<u8>) {
     let scale = 10_u64.pow(decimals);
     let scaled = v * scale as f64;
-    if !scaled.is_finite() || scaled.abs() >= 9.0e18 {
-        out.push(b'0');
-        return;
+    let mut buf = [0u8; 32];
+    let mut k = buf.len();
+    if let Some(c) = suffix {
+        k -= 1;
+        buf[k] = c;
     }
-    // Round half away from zero (a cast truncates toward zero).
-    let a = (scaled.abs() + 0.5) as u64;
-    if a == 0 {
-        out.push(b'0');
-        return;
-    }
-    if scaled < 0.0 {
-        out.push(b'-');
-    }
-    let (int, mut frac) = (a / scale, a % scale);
-    uint(out, int);
+    // Round half away from zero (a cast truncates toward zero); NaN fails the comparison.
+    let a = if scaled.abs() < 9.0e18 { (scaled.abs() + 0.5) as u64 } else { 0 };
+    let (mut int, mut frac) = (a / scale, a % scale);
     if frac != 0 {
-        let mut digits = decimals as usize;
+        let mut digits = decimals;
         while frac % 10 == 0 {
             frac /= 10;
             digits -= 1;
         }
-        out.push(b'.');
-        let mut buf = [b'0'; 20];
-        let mut k = digits;
-        while frac > 0 && k > 0 {
+        for _ in 0..digits {
             k -= 1;
             buf[k] = b'0' + (frac % 10) as u8;
             frac /= 10;
         }
-        out.extend_from_slice(&buf[..digits]);
+        k -= 1;
+        buf[k] = b'.';
     }
+    loop {
+        k -= 1;
+        buf[k] = b'0' + (int % 10) as u8;
+        int /= 10;
+        if int == 0 {
+            break;
+        }
+    }
+    if a != 0 && scaled < 0.0 {
+        k -= 1;
+        buf[k] = b'-';
+    }
+    out.extend_from_slice(&buf[k..]);
 }
 
 /// Append an unsigned integer in decimal.
@@ -75,8 +88,7 @@ pub(super) fn uint(out: &mut Vec<u8>, mut v: u64) {
 
 /// Coordinates and lengths, in mm: 0.01 mm (10 µm) is a quarter of a 600 dpi printer's dot.
 fn coord(out: &mut Vec<u8>, v: f64) {
-    num(out, v, 2);
-    out.push(b' ');
+    write_num(out, v, 2, Some(b' '));
 }
 
 /// A paint is drawn unless it is fully transparent (partial alpha is printed opaque).
@@ -150,8 +162,7 @@ impl<'g> ContentWriter<'g> {
     fn rgb(&mut self, c: Rgba) {
         for v in [c.0, c.1, c.2] {
             // Four decimals: within 0.00005 of the 8-bit value.
-            num(&mut self.out, f64::from(v) / 255.0, 4);
-            self.out.push(b' ');
+            write_num(&mut self.out, f64::from(v) / 255.0, 4, Some(b' '));
         }
     }
 
@@ -297,8 +308,7 @@ impl<'g> ContentWriter<'g> {
                 // turn by the rotation (counter-clockwise on the page).
                 let k = 1.0 / PT_PER_MM;
                 for v in [cos * k, -sin * k, -sin * k, -cos * k] {
-                    num(&mut self.out, v, 6);
-                    self.out.push(b' ');
+                    write_num(&mut self.out, v, 6, Some(b' '));
                 }
                 self.point(start);
                 self.out.extend_from_slice(b"Tm\n<");
