@@ -5,7 +5,7 @@
 //! changes applied together are one undo step. The reading rules are pure functions, tested here.
 
 use super::document::Edit;
-use super::field::{mark_invalid, problem_label};
+use super::field::{mark_invalid, INVALID};
 use super::theme;
 use aggrade_core::io::limits::{MAX_PANEL_POSITION_M, MAX_STRING_CHARS};
 use aggrade_core::model::{LatLon, LengthUnit, Section};
@@ -186,7 +186,7 @@ pub fn read_date(text: &str) -> Result<Option<String>, String> {
     }
     aggrade_core::io::check_iso_date(t)
         .map(|()| Some(t.to_string()))
-        .map_err(|why| format!("{why}, got {t:?}; write YYYY-MM-DD, e.g. 2026-07-14"))
+        .map_err(|why| format!("{why}, got {t:?} (e.g. 2026-07-14)"))
 }
 
 /// Read one coordinate in decimal degrees within ±`limit`; a hemisphere letter (`pos` or `neg`,
@@ -457,13 +457,19 @@ impl SectionDetails {
             );
             ui.add_space(6.0);
             egui::Grid::new("section_details_grid").num_columns(2).spacing([12.0, 6.0]).show(ui, |ui| {
-                for f in Field::ALL {
+                for f in Field::ALL.into_iter().filter(|f| *f != Field::Notes) {
                     if f == Field::PanelPosition {
                         self.unit_row(ui);
                     }
-                    self.field_row(ui, f);
+                    let label = ui.label(self.label(f)).id;
+                    self.field(ui, f, label);
+                    ui.end_row();
                 }
             });
+            // The notes below, across the dialog: a long text has room.
+            ui.add_space(2.0);
+            let label = ui.label(self.label(Field::Notes)).id;
+            self.field(ui, Field::Notes, label);
             ui.add_space(4.0);
             ui.label(
                 egui::RichText::new(
@@ -474,7 +480,7 @@ impl SectionDetails {
                 .color(theme::TEXT_DIM),
             );
             if let Some(note) = &self.note {
-                problem_label(ui, note);
+                problem_line(ui, note, 600.0);
             }
             ui.add_space(6.0);
             ui.horizontal(|ui| {
@@ -502,20 +508,26 @@ impl SectionDetails {
         outcome
     }
 
-    fn field_row(&mut self, ui: &mut egui::Ui, f: Field) {
-        let label = match f {
+    /// The label of a field (the panel position's names the unit it is typed in).
+    fn label(&self, f: Field) -> String {
+        match f {
             Field::PanelPosition => format!("{} ({})", f.label(), self.unit.name()),
             _ => f.label().to_string(),
-        };
-        let label_id = ui.label(&label).id;
+        }
+    }
+
+    /// A field's text box, named by its label, framed in red with its problem under it while
+    /// it does not read.
+    fn field(&mut self, ui: &mut egui::Ui, f: Field, label_id: egui::Id) {
+        let label = self.label(f);
         ui.vertical(|ui| {
             let text = &mut self.texts[f.index()];
-            let edit = if f == Field::Notes {
-                egui::TextEdit::multiline(text).desired_rows(3)
+            let (edit, width) = if f == Field::Notes {
+                (egui::TextEdit::multiline(text).desired_rows(4), ui.available_width().max(560.0))
             } else {
-                egui::TextEdit::singleline(text)
+                (egui::TextEdit::singleline(text), 420.0)
             };
-            let resp = ui.add(edit.hint_text(f.hint()).desired_width(400.0).char_limit(MAX_STRING_CHARS));
+            let resp = ui.add(edit.hint_text(f.hint()).desired_width(width).char_limit(MAX_STRING_CHARS));
             let resp = resp.labelled_by(label_id).on_hover_text(f.tip());
             if self.focus == Some(f) {
                 resp.request_focus();
@@ -523,10 +535,9 @@ impl SectionDetails {
             }
             if let Some(p) = &self.problems[f.index()] {
                 mark_invalid(ui, resp.rect);
-                problem_label(ui, &format!("{label}: {p}"));
+                problem_line(ui, &format!("{label}: {p}"), resp.rect.width());
             }
         });
-        ui.end_row();
     }
 
     fn unit_row(&mut self, ui: &mut egui::Ui) {
@@ -544,6 +555,14 @@ impl SectionDetails {
         });
         ui.end_row();
     }
+}
+
+/// A problem under a field, in the colour of text that does not read, wrapped at `width`.
+fn problem_line(ui: &mut egui::Ui, text: &str, width: f32) {
+    ui.scope(|ui| {
+        ui.set_max_width(width);
+        ui.add(egui::Label::new(egui::RichText::new(text).color(INVALID).small()).wrap());
+    });
 }
 
 #[cfg(test)]

@@ -617,3 +617,45 @@ fn a_typed_value_that_did_not_read_survives_a_crash_and_is_listed_after_restore(
         notice.text
     );
 }
+
+/// Every way a file is opened puts it in File ▸ Open recent: Aggrade's own chooser (shown when
+/// the system's cannot be) and a restore of unsaved work that belongs to a file.
+#[test]
+fn files_opened_in_aggrades_own_chooser_or_restored_enter_open_recent() {
+    use egui::Modifiers;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let data = dir.path().join("data");
+    let work = dir.path().join("work");
+    std::fs::create_dir_all(&work).expect("dir");
+    let file = work.join("camp log.aggrade");
+    aggrade_core::io::save_project(&file, &Project::new(vec![Section::new("Camp")])).expect("saved");
+    {
+        let mut h = harness_with_chooser(app_with(None, &data, Box::new(aggrade::gui::NoSystemDialogs)));
+        h.run();
+        h.state_mut().chooser_mut().start_dir = Some(work.clone());
+        h.key_press_modifiers(Modifiers::COMMAND, Key::O);
+        h.run();
+        h.get_by_label_contains("camp log.aggrade").click();
+        h.run();
+        h.get_by_label("Open this file").click();
+        h.run();
+        h.run();
+        assert_eq!(h.state().doc.path.as_deref(), Some(file.as_path()), "{}", h.state().status);
+        assert_eq!(h.state().recent_files(), [file.clone()]);
+        // Unsaved work on it, then the window dies: its backup stays.
+        let bed = aggrade::gui::test_hooks::new_bed();
+        h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });
+        h.run();
+        h.run();
+    }
+    // The list is gone (a new data folder for the list only would do the same): the restore
+    // puts the file back in it.
+    std::fs::remove_file(data.join("recent.json")).expect("the list was kept in the data folder");
+    let mut h = harness_of(app_with(None, &data, Box::new(ScriptedDialogs::default())));
+    h.run();
+    assert!(h.state().recent_files().is_empty());
+    h.get_by_label("Restore").click();
+    h.run();
+    assert_eq!(h.state().doc.path.as_deref(), Some(file.as_path()));
+    assert_eq!(h.state().recent_files(), [file]);
+}

@@ -146,7 +146,7 @@ fn bad_details_are_marked_with_their_message_kept_as_typed_and_never_stored() {
     assert!(h.state().section_details_open(), "the dialog stays open");
     for message in [
         "already named \"Pell Butte\"",
-        "write YYYY-MM-DD",
+        "not a date in the form YYYY-MM-DD, got \"18/06/2026\"",
         "between -90 and 90 degrees, got 95",
         "\"far\" is not a distance",
     ] {
@@ -182,7 +182,10 @@ fn bad_details_are_marked_with_their_message_kept_as_typed_and_never_stored() {
     type_into(&mut h, "Date logged", "2026-06-18");
     type_into(&mut h, "Latitude (°)", "-45");
     type_into(&mut h, "Panel position (m)", "-12,5");
-    apply(&mut h);
+    // Ctrl+Enter applies from the keyboard, with the focus in a field.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Enter);
+    h.run();
+    h.run();
     assert!(!h.state().section_details_open());
     let s = section(&h);
     assert_eq!(s.date_logged.as_deref(), Some("2026-06-18"));

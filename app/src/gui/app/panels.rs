@@ -226,7 +226,7 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
         ui.label(egui::RichText::new(&s.name).strong());
         ui.end_row();
         ui.label("Locality");
-        ui.label(text_or_none(&s.locality));
+        ui.add(egui::Label::new(text_or_none(&s.locality)).wrap());
         ui.end_row();
         ui.label("Logged by");
         ui.label(text_or_none(&s.logged_by));
@@ -236,7 +236,9 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
         ui.end_row();
         ui.label("Coordinates");
         match s.coordinates {
-            Some(c) => ui.label(format!("{:.5}°, {:.5}° (WGS84 latitude, longitude)", c.lat_deg, c.lon_deg)),
+            Some(c) => ui
+                .label(format!("{}°, {}°", trimmed(c.lat_deg, 6), trimmed(c.lon_deg, 6)))
+                .on_hover_text("WGS84 latitude and longitude of the section base, decimal degrees"),
             None => ui.label(none()),
         };
         ui.end_row();
@@ -276,4 +278,14 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
         super::plural(s.beds.len(), "bed", "beds")
     ));
     open
+}
+
+/// A number with at most `decimals` decimals and no trailing zeros.
+fn trimmed(v: f64, decimals: usize) -> String {
+    let s = format!("{v:.decimals$}");
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s
+    }
 }
