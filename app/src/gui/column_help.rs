@@ -151,7 +151,7 @@ pub fn draw_header(
         .scope(|ui| {
             ui.spacing_mut().button_padding = Vec2::new(3.0, 2.0);
             let label = egui::RichText::new("Legend").size(11.0);
-            ui.put(button, egui::Button::selectable(shown, label).frame(true))
+            ui.put(button, egui::Button::new(label).selected(shown))
         })
         .inner
         .on_hover_text(format!(

@@ -30,7 +30,7 @@ pub enum LegendEntry {
     IntervalProportion,
     Regime(Regime),
     Boundary(ReviewState),
-    /// An open candidate boundary of a strength class (its line is thicker the stronger).
+    /// An unreviewed candidate boundary of a strength class (its line is thicker the stronger).
     BoundaryStrength(Strength),
     /// A surface the geologist named at a bed base, printed by its name.
     NamedSurface,
@@ -89,9 +89,9 @@ impl LegendEntry {
             LegendEntry::Regime(Regime::Low) => "low accommodation".into(),
             LegendEntry::Regime(Regime::High) => "high accommodation".into(),
             LegendEntry::Regime(Regime::Undetermined) => "accommodation undetermined".into(),
-            LegendEntry::Boundary(ReviewState::Candidate) => "SB? sequence-boundary candidate".into(),
-            LegendEntry::Boundary(ReviewState::Accepted) => "SB sequence boundary, accepted".into(),
-            LegendEntry::Boundary(ReviewState::Rejected) => "rej. candidate rejected".into(),
+            LegendEntry::Boundary(ReviewState::Candidate) => "SB? candidate boundary, unreviewed".into(),
+            LegendEntry::Boundary(ReviewState::Accepted) => "SB boundary accepted".into(),
+            LegendEntry::Boundary(ReviewState::Rejected) => "rej. boundary rejected".into(),
             LegendEntry::BoundaryStrength(s) => format!("SB? with {} evidence", s.name()),
             LegendEntry::NamedSurface => "named surface at a bed base".into(),
         }

@@ -86,10 +86,11 @@ impl TrackKind {
                  by the rules: a candidate for your review."
             }
             TrackKind::BoundaryLabels => {
-                "Sequence-boundary candidates (red lines): SB? open, SB accepted, rej. rejected, \
-                 labelled with the surface's name or correlation label, else the strength of their \
-                 evidence (weak, moderate, strong); a thicker line has stronger evidence. Names of \
-                 other surfaces logged at bed bases. Point at a line for its evidence."
+                "Candidate sequence boundaries (red lines): SB? unreviewed, SB accepted, rej. \
+                 rejected; labelled with the surface name or correlation label, else the strength \
+                 class of their evidence (weak, moderate, strong), and the thicker an unreviewed \
+                 line, the stronger its evidence. Names of other surfaces at bed bases. Point at a \
+                 line for its evidence."
             }
             TrackKind::Curve(_) => "A measured curve against height; its value axis is under the column.",
         }
@@ -307,17 +308,18 @@ impl ColumnCtx<'_> {
     fn boundary_help(&self, c: &BoundaryCandidate) -> String {
         let (_, label, _) = boundary_style(c.review, c.strength, candidate_name(c));
         let mut lines = vec![
-            format!("{label}: sequence-boundary candidate at {}", self.height_words(c.height_m)),
-            format!("{}; {} evidence; {}", c.kind.name(), c.strength.name(), review_words(c.review)),
+            format!("{label}: candidate sequence boundary at {}", self.height_words(c.height_m)),
+            format!("{}; strength class {}; {}", c.kind.name(), c.strength.name(), review_words(c.review)),
         ];
         if let Some(n) = &c.surface_name {
             if c.label.as_deref().is_some_and(|l| l != n) {
                 lines.push(format!("surface \"{n}\""));
             }
         }
-        let evidence = c.evidence.iter().find(|e| e.kind().is_some()).or(c.evidence.first());
-        if let Some(e) = evidence {
-            lines.push(format!("evidence: {e}"));
+        match (c.evidence.iter().find(|e| e.kind().is_some()), c.evidence.first()) {
+            (Some(e), _) => lines.push(format!("evidence: {e}")),
+            (None, Some(e)) => lines.push(format!("no independent evidence; {e}")),
+            (None, None) => {}
         }
         lines.join("\n")
     }
@@ -506,9 +508,13 @@ mod tests {
         for x in [mid(ctx.tracks.lithology), mid(ctx.tracks.regime.expect("shown"))] {
             let help = ctx.help_at(pointed(x, h + 0.03)).expect("the line");
             let first = help.lines().next().unwrap_or_default();
-            assert_eq!(first, format!("SB? RG-E1: sequence-boundary candidate at {h:.2} m"));
-            assert!(help.contains("channel-body base; moderate evidence; open: a candidate for your review"));
-            assert!(help.contains("evidence: erosional relief beyond the storey below"), "{help}");
+            assert_eq!(first, format!("SB? RG-E1: candidate sequence boundary at {h:.2} m"));
+            assert!(help.contains("channel-body base; strength class moderate; unreviewed: for you to judge"));
+            // The sample's evidence is a free note, no independent kind.
+            assert!(
+                help.contains("no independent evidence; erosional relief beyond the storey below"),
+                "{help}"
+            );
         }
         // Off the line, the lithology track tells the bed instead.
         let bed = ctx.help_at(pointed(mid(ctx.tracks.lithology), h + 0.5)).expect("a bed");
@@ -525,7 +531,7 @@ mod tests {
         let shown = LayoutOptions { show_rejected: true, ..Default::default() };
         let ctx = ColumnCtx::new(&s, &i, &shown);
         let help = ctx.help_at(pointed(mid(ctx.tracks.lithology), rejected)).expect("the rejected line");
-        assert!(help.starts_with("rej. weak") && help.contains("rejected by the geologist"), "{help}");
+        assert!(help.starts_with("rej. weak") && help.contains("rejected by you"), "{help}");
     }
 
     #[test]

@@ -232,9 +232,9 @@ pub fn candidate_name(c: &BoundaryCandidate) -> Option<&str> {
 }
 
 /// A label and stroke for a boundary in a review state: its name when it has one ("SB? RG-E1"
-/// open, "SB RG-E1" accepted, "rej. RG-E1" rejected), else its strength class ("SB? strong") —
-/// never a bare number that reads like a probability. The line of an open candidate is thicker
-/// the stronger its evidence, so a named candidate still shows its strength class.
+/// unreviewed, "SB RG-E1" accepted, "rej. RG-E1" rejected), else its strength class ("SB?
+/// strong") — never a bare number that reads like a probability. The line of an unreviewed
+/// candidate is thicker the stronger its evidence, so a named one still shows its strength.
 pub fn boundary_style(review: ReviewState, strength: Strength, name: Option<&str>) -> (Stroke, String, Rgba) {
     let label = |head: &str| match name.map(str::trim).filter(|n| !n.is_empty()) {
         Some(n) => format!("{head} {n}"),
@@ -249,7 +249,7 @@ pub fn boundary_style(review: ReviewState, strength: Strength, name: Option<&str
     }
 }
 
-/// Line width (mm) of an open candidate boundary of a strength class: thicker for stronger.
+/// Line width (mm) of an unreviewed candidate boundary of a strength class: thicker for stronger.
 pub fn candidate_line_mm(strength: Strength) -> f64 {
     match strength {
         Strength::Weak => 0.25,
@@ -261,9 +261,9 @@ pub fn candidate_line_mm(strength: Strength) -> f64 {
 /// The review state in words, as the hover help and the legend say it.
 pub fn review_words(review: ReviewState) -> &'static str {
     match review {
-        ReviewState::Candidate => "open: a candidate for your review",
-        ReviewState::Accepted => "accepted by the geologist",
-        ReviewState::Rejected => "rejected by the geologist",
+        ReviewState::Candidate => "unreviewed: for you to judge",
+        ReviewState::Accepted => "accepted by you",
+        ReviewState::Rejected => "rejected by you",
     }
 }
 
