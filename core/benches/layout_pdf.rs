@@ -1,12 +1,16 @@
-//! Layout and PDF of a generated 10,000-bed section (~3.6 km; ~145 A4 pages at 1:100).
+//! Layout and PDF of a generated 10,000-bed section (~3.6 km; 174 A4 pages at 1:100).
 //! Target: under 1 s for layout + PDF (release build). Also 1,000 and 100,000 beds, to read off
 //! how the time grows (it should be about linear in beds, i.e. in pages).
+//!
+//! `pages_and_pdf_streamed` is what `aggrade export --pdf` does: pages laid out one at a time
+//! (`layout::page_stream`) and written a group at a time (`export::write_pdf_to`), here to a sink;
+//! its throughput is reported in pages per second.
 
-use aggrade_core::export::{write_pdf, PdfInfo};
+use aggrade_core::export::{write_pdf, write_pdf_to, PdfInfo};
 use aggrade_core::layout::sample::generated_section;
-use aggrade_core::layout::{column_strip, pages, LayoutOptions, PrintMeta};
+use aggrade_core::layout::{column_strip, page_stream, pages, LayoutOptions, PrintMeta};
 use aggrade_core::rules::{interpret, RuleParams};
-use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
+use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion, Throughput};
 use std::hint::black_box;
 
 fn bench(c: &mut Criterion) {
@@ -30,6 +34,7 @@ fn bench(c: &mut Criterion) {
             items,
             bytes.len() as f64 / 1e6
         );
+        g.throughput(Throughput::Elements(p.len() as u64));
         g.bench_with_input(BenchmarkId::new("pages", n), &n, |b, _| {
             b.iter(|| pages(black_box(&section), &interp, &opts, &meta))
         });
@@ -37,7 +42,14 @@ fn bench(c: &mut Criterion) {
         g.bench_with_input(BenchmarkId::new("pages_and_pdf", n), &n, |b, _| {
             b.iter(|| write_pdf(&pages(black_box(&section), &interp, &opts, &meta), &info))
         });
+        g.bench_with_input(BenchmarkId::new("pages_and_pdf_streamed", n), &n, |b, _| {
+            b.iter(|| {
+                let stream = page_stream(black_box(&section), &interp, &opts, &meta);
+                write_pdf_to(std::io::sink(), stream, &info).expect("a sink takes every byte")
+            })
+        });
         if n == 10_000 {
+            g.throughput(Throughput::Elements(1));
             g.bench_function("column_strip/10000", |b| {
                 b.iter(|| column_strip(black_box(&section), &interp, &opts))
             });

@@ -158,3 +158,66 @@ fn png_is_written_at_the_asked_dpi_and_a_bad_dpi_is_refused() {
     assert!(!o.status.success());
     assert!(stderr(&o).contains("--dpi 5 is outside 10 … 1200"), "{}", stderr(&o));
 }
+
+/// Text of every page of a PDF as pypdf (from PyPI, an independent reader) extracts it.
+fn pypdf_texts(pdf: &Path) -> Vec<String> {
+    let out = Command::new("python3")
+        .args([
+            "-c",
+            "import sys, json, pypdf\nprint(json.dumps([p.extract_text() for p in pypdf.PdfReader(sys.argv[1]).pages]))",
+        ])
+        .arg(pdf)
+        .output()
+        .expect("python3 runs (needed as the independent PDF reader)");
+    assert!(out.status.success(), "pypdf could not read {}: {}", pdf.display(), stderr(&out));
+    serde_json::from_slice(&out.stdout).expect("a JSON list of page texts")
+}
+
+#[test]
+fn a_long_section_is_written_page_by_page_into_one_pdf_and_numbered_svgs() {
+    // 4,000 beds of 0.3 to 0.6 m (1,800 m): at 1:100 on A4 more than twice as many pages as the
+    // writer translates at once, so the file is written in several groups.
+    let dir = tempfile::tempdir().expect("dir");
+    let csv = dir.path().join("long.csv");
+    let mut rows = String::from("thickness_m,lithology,grain_base,grain_top,base_contact\n");
+    let kinds = [("mudstone", "clay"), ("sandstone", "medium sand"), ("siltstone", "silt")];
+    for k in 0..4000 {
+        let (lith, grain) = kinds[k % 3];
+        rows.push_str(&format!("{},{lith},{grain},{grain},sharp\n", 0.3 + 0.1 * (k % 4) as f64));
+    }
+    std::fs::write(&csv, rows).expect("write beds");
+    let pdf = dir.path().join("long.pdf");
+    let svg = dir.path().join("long.svg");
+    let o = aggrade(&[
+        "export",
+        csv.to_str().expect("path"),
+        "--pdf",
+        pdf.to_str().expect("path"),
+        "--svg",
+        svg.to_str().expect("path"),
+        "--paper",
+        "a4",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let said = stderr(&o);
+    let texts = pypdf_texts(&pdf);
+    let n = texts.len();
+    assert!(n > 2 * aggrade_core::export::PAGES_PER_GROUP, "{n} pages");
+    assert!(said.contains(&format!("({n} pages, scale 1:100)")), "{said}");
+    // Every page in order, with its own number and the total, and the review caution.
+    for (k, t) in texts.iter().enumerate() {
+        assert!(t.contains(&format!("page {} of {n}", k + 1)), "page {}: {t:.300}", k + 1);
+        assert!(t.replace('\n', " ").contains("Interpretations are candidates for expert review"));
+    }
+    // ISO 216 A4: 595.276 × 841.890 pt, every page.
+    let sizes = pypdf_pages(&pdf);
+    assert_eq!(sizes.len(), n);
+    assert!(sizes.iter().all(|(w, h)| (w - 595.276).abs() < 0.01 && (h - 841.890).abs() < 0.01));
+    // The SVG pages: one file per PDF page, each a whole document with its own page number.
+    for k in 1..=n {
+        let page = std::fs::read_to_string(dir.path().join(format!("long-{k}.svg"))).expect("SVG page");
+        assert!(page.starts_with("<?xml") && page.trim_end().ends_with("</svg>"), "SVG page {k}");
+        assert!(page.contains(&format!(">page {k} of {n}</text>")), "SVG page {k} lacks its number");
+    }
+    assert!(!dir.path().join(format!("long-{}.svg", n + 1)).exists());
+}
