@@ -277,10 +277,11 @@ pub fn legend_panel(
             ui.label("Nothing drawn yet.");
         }
         for e in &entries {
-            ui.horizontal(|ui| {
+            ui.horizontal_top(|ui| {
                 let (r, _) = ui.allocate_exact_size(SWATCH, Sense::hover());
                 paint_swatch(ui.painter(), *e, r);
-                ui.label(e.label());
+                // Long words wrap within the legend rather than run out of it.
+                ui.add(egui::Label::new(e.label()).wrap());
             });
         }
     });
