@@ -641,7 +641,7 @@ fn files_opened_in_aggrades_own_chooser_or_restored_enter_open_recent() {
         h.run();
         h.run();
         assert_eq!(h.state().doc.path.as_deref(), Some(file.as_path()), "{}", h.state().status);
-        assert_eq!(h.state().recent_files(), [file.clone()]);
+        assert_eq!(h.state().recent_files(), std::slice::from_ref(&file));
         // Unsaved work on it, then the window dies: its backup stays.
         let bed = aggrade::gui::test_hooks::new_bed();
         h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: 0, bed });

@@ -225,7 +225,7 @@ fn a_file_opened_from_the_command_line_enters_open_recent_for_every_window() {
     }
     // `aggrade corrie.aggrade`: the window's config carries the file as main.rs passes it.
     let a = app_with(Some(first.clone()), data.path(), Vec::new());
-    assert_eq!(a.recent_files(), [first.clone()]);
+    assert_eq!(a.recent_files(), std::slice::from_ref(&first));
     // A second window, started meanwhile, opens another file through File ▸ Open.
     let mut other = harness_of(app_with(None, data.path(), vec![Some(second.clone())]));
     other.run();

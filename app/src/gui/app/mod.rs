@@ -220,8 +220,10 @@ impl AggradeApp {
     pub fn check_stability(&mut self) {
         let params = self.rules().params;
         let s = Stability::check(&self.doc, &params, self.all_candidates);
-        self.status =
-            format!("Stability checked: {} runs of the rules, each with one threshold moved", s.runs);
+        self.status = format!(
+            "Stability checked: {} of the rules, each with one threshold moved",
+            plural(s.runs, "run", "runs")
+        );
         self.stability = Some(s);
     }
 

@@ -137,9 +137,9 @@ impl AggradeApp {
                         section.name.push_str(" (imported)");
                     }
                     self.status = format!(
-                        "Imported {} ({} beds){}",
+                        "Imported {} ({}){}",
                         section.name,
-                        section.beds.len(),
+                        super::plural(section.beds.len(), "bed", "beds"),
                         note.map(|n| format!("; {n}")).unwrap_or_default()
                     );
                     self.apply(Edit::AddSection { section });

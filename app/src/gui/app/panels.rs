@@ -267,7 +267,11 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
     ui.add_space(4.0);
     let open = ui
         .button(Command::SectionDetails.label())
-        .on_hover_text(format!("{} (Ctrl+Shift+D)", Command::SectionDetails.tooltip()))
+        .on_hover_text(format!(
+            "{} ({})",
+            Command::SectionDetails.tooltip(),
+            Command::SectionDetails.shortcut_text(ui.ctx()).unwrap_or_default()
+        ))
         .clicked();
     ui.separator();
     let length = |m: f64| format!("{:.2} {}", unit.from_metres(m), unit.name());
