@@ -40,7 +40,8 @@ pub struct AppConfig {
     pub data_dir: PathBuf,
     /// File pickers (the system's, or scripted in tests).
     pub dialogs: Box<dyn FileDialogs>,
-    /// Recently opened files (from the window's saved state).
+    /// Recently opened files kept by an older version in the window's saved state: taken into
+    /// the Open recent list only while `data_dir` holds none (see `files::RecentFiles`).
     pub recent: Vec<PathBuf>,
 }
 
