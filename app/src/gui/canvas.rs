@@ -582,10 +582,7 @@ pub fn bed_menu(ui: &mut egui::Ui, doc: &Document, bed: Option<BedId>, out: &mut
         out.edit(Edit::InsertBed { index: i, bed: new_bed() });
         ui.close();
     }
-    if ui.button("Split in two").on_hover_text("Cut this bed into two halves of equal thickness").clicked() {
-        out.edit(Edit::SplitBed { bed });
-        ui.close();
-    }
+    super::table::split::split_menu(ui, doc, bed, out);
     let can_merge = i + 1 < n;
     if ui
         .add_enabled(can_merge, egui::Button::new("Merge with bed above"))

@@ -26,6 +26,9 @@ pub enum Edit {
     DeleteBed { bed: BedId },
     /// Cut a bed into two equal halves.
     SplitBed { bed: BedId },
+    /// Cut a bed in two at `lower_m` metres above its base (0 < `lower_m` < its thickness): the
+    /// lower part keeps the bed's id and base, the upper part is a new bed with a sharp base.
+    SplitBedAt { bed: BedId, lower_m: f64 },
     /// Join a bed with the one above it (thicknesses add up; the lower bed's fields are kept).
     MergeWithAbove { bed: BedId },
     /// Record the geologist's decision on the candidate boundary at the base of `bed`.
@@ -350,6 +353,28 @@ impl Work {
         }
     }
 
+    /// Cut the bed at index `i` at `lower_m` metres above its base.
+    fn split(&mut self, i: usize, lower_m: f64) -> Result<(), EditError> {
+        let s = self.section();
+        let whole = s.beds[i].thickness_m;
+        if !(lower_m.is_finite() && lower_m > 0.0 && lower_m < whole) {
+            return Err(EditError(format!(
+                "a bed of {whole} m is cut between its base and top (above 0 and below {whole} m), not at {lower_m} m"
+            )));
+        }
+        let mut upper = s.beds[i].clone();
+        upper.id = s.next_bed_id();
+        // The new upper part has a conformable base and no named surface or rank of its own.
+        upper.base_surface = None;
+        upper.base_contact = aggrade_core::model::Contact::Sharp;
+        upper.base_relief_m = None;
+        upper.base_rank = None;
+        s.beds[i].thickness_m = lower_m;
+        upper.thickness_m = whole - lower_m;
+        s.beds.insert(i + 1, upper);
+        Ok(())
+    }
+
     fn run(&mut self, edit: Edit) -> Result<(), EditError> {
         match edit {
             Edit::SetThickness { bed, thickness_m } => {
@@ -386,17 +411,12 @@ impl Work {
             }
             Edit::SplitBed { bed } => {
                 let i = self.index_of(bed)?;
-                let s = self.section();
-                let mut upper = s.beds[i].clone();
-                let half = s.beds[i].thickness_m / 2.0;
-                upper.id = s.next_bed_id();
-                // The new upper half has a conformable base and no named surface of its own.
-                upper.base_surface = None;
-                upper.base_contact = aggrade_core::model::Contact::Sharp;
-                upper.base_relief_m = None;
-                s.beds[i].thickness_m = half;
-                upper.thickness_m = half;
-                s.beds.insert(i + 1, upper);
+                let half = self.section().beds[i].thickness_m / 2.0;
+                self.split(i, half)?;
+            }
+            Edit::SplitBedAt { bed, lower_m } => {
+                let i = self.index_of(bed)?;
+                self.split(i, lower_m)?;
             }
             Edit::MergeWithAbove { bed } => {
                 let i = self.index_of(bed)?;
@@ -470,7 +490,8 @@ impl Work {
                 s.coordinates = coordinates;
                 s.date_logged = date_logged;
                 s.panel_position_m = panel_position_m;
-                let fields = ["coordinates.lat_deg", "coordinates.lon_deg", "date_logged", "panel_position_m"];
+                let fields =
+                    ["coordinates.lat_deg", "coordinates.lon_deg", "date_logged", "panel_position_m"];
                 let problem = aggrade_core::io::validate_section(s)
                     .into_iter()
                     .find(|p| fields.contains(&p.location.as_str()));
@@ -608,6 +629,31 @@ mod tests {
         assert!((d.section().total_thickness_m() - total).abs() < 1e-12);
         let top = d.section().beds[2].id;
         assert!(d.apply(Edit::MergeWithAbove { bed: top }).is_err());
+    }
+
+    #[test]
+    fn a_split_at_a_height_keeps_the_base_below_and_refuses_a_cut_outside_the_bed() {
+        let mut d = doc_with_beds(3);
+        let total = d.section().total_thickness_m();
+        let mut b = d.section().beds[2].clone();
+        b.base_contact = aggrade_core::model::Contact::Erosional;
+        b.base_relief_m = Some(0.5);
+        d.apply(Edit::ReplaceBed { bed: b }).expect("erosional base");
+        // Bed 3 is 3 m thick: cut 0.8 m above its base.
+        d.apply(Edit::SplitBedAt { bed: BedId(3), lower_m: 0.8 }).expect("split");
+        let s = d.section();
+        assert_eq!(s.beds.len(), 4);
+        assert_eq!((s.beds[2].id, s.beds[2].thickness_m), (BedId(3), 0.8));
+        assert!((s.beds[3].thickness_m - 2.2).abs() < 1e-12);
+        assert_eq!(s.beds[2].base_relief_m, Some(0.5), "the base stays with the lower part");
+        assert_eq!(s.beds[3].base_contact, aggrade_core::model::Contact::Sharp);
+        assert!((s.total_thickness_m() - total).abs() < 1e-12);
+        for bad in [0.0, 0.8, 1.0, -1.0, f64::NAN] {
+            assert!(d.apply(Edit::SplitBedAt { bed: BedId(3), lower_m: bad }).is_err(), "{bad}");
+        }
+        assert_eq!(d.section().beds.len(), 4, "a refused cut changes nothing");
+        assert!(d.undo());
+        assert_eq!(d.section().beds.len(), 3);
     }
 
     #[test]

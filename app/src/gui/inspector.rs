@@ -17,10 +17,11 @@
 use super::actions::{gesture_key, Actions};
 use super::document::{Document, Edit};
 use super::field::{committed_field, problem_label, FieldLook, FieldText};
-use super::table::{grain_from_prefix, parse_length, parse_thickness, show_length};
+use super::table::{parse_length, parse_thickness, show_length};
 use super::theme;
 use aggrade_core::io::limits::MAX_STRING_CHARS;
 use aggrade_core::io::MAX_BED_THICKNESS_M;
+use aggrade_core::model::shorthand;
 use aggrade_core::model::{
     BaseRank, Bed, BedId, Contact, GrainSize, GrainSizeRule, LengthUnit, Lithology, PaleosolDevelopment,
     PaleosolFeature, Section, Structure, Surface, SurfaceKind,
@@ -127,7 +128,9 @@ impl Typed {
                     }
                 };
             }
-            Typed::Paleocurrents => bed.paleocurrents_deg = parse_azimuths(text)?,
+            Typed::Paleocurrents => {
+                bed.paleocurrents_deg = shorthand::paleocurrents(text).map_err(|e| format!("{label}: {e}"))?
+            }
             Typed::Samples => {
                 bed.samples =
                     text.split(';').map(|s| s.trim().to_string()).filter(|s| !s.is_empty()).collect();
@@ -153,18 +156,8 @@ fn read_grain(text: &str, lithology: Lithology) -> Result<Option<GrainSize>, Str
     let g = if text.trim().is_empty() {
         None
     } else {
-        match grain_from_prefix(text) {
-            Some(g) => Some(g),
-            // The core's own reason for a measured size (a phi out of range, a diameter of 0).
-            None => match GrainSize::parse(text) {
-                Err(why) if text.chars().any(|c| c.is_ascii_digit()) => return Err(why),
-                _ => {
-                    return Err(format!(
-                        "{text:?} is not a grain size; write a Wentworth class (fine sand, or m, vf…) or a size such as 0.3mm or 1.7phi"
-                    ))
-                }
-            },
-        }
+        // The bed table's and the CSV's reader: a code, a name or a measured size.
+        Some(shorthand::grain_from_code(text).map_err(|e| e.to_string())?)
     };
     match (lithology.grain_size_rule(), g) {
         (GrainSizeRule::Required, None) => {
@@ -489,11 +482,25 @@ impl Inspector {
 
 
             ui.add_space(4.0);
+            // Root traces, slickensides, carbonate nodules and mottling are offered once, as
+            // paleosol features; a bed from an older file or table that holds one as a structure
+            // shows it here, ticked, with a button that moves it to the paleosol features.
             egui::CollapsingHeader::new("Structures").default_open(true).show(ui, |ui| {
                 ui.horizontal_wrapped(|ui| {
                     for s in Structure::ALL {
+                        let soil = shorthand::soil_feature(*s);
                         let mut on = bed.structures.contains(s);
-                        if ui.toggle_value(&mut on, s.name()).on_hover_text(format!("Seen in this bed: {}", s.name())).changed() {
+                        if soil.is_some() && !on {
+                            continue;
+                        }
+                        let (label, tip) = match soil {
+                            Some(_) => (
+                                format!("{} (soil feature)", s.name()),
+                                format!("{} is a paleosol feature, recorded here as a structure (older files and tables). Untick to remove it", s.name()),
+                            ),
+                            None => (s.name().to_string(), format!("Seen in this bed: {} (code {})", s.name(), shorthand::short_code(*s))),
+                        };
+                        if ui.toggle_value(&mut on, label).on_hover_text(tip).changed() {
                             if on {
                                 bed.structures.push(*s);
                                 bed.structures.sort();
@@ -501,14 +508,34 @@ impl Inspector {
                                 bed.structures.retain(|x| x != s);
                             }
                         }
+                        if let Some(f) = soil {
+                            if ui.small_button("→ paleosol").on_hover_text(format!("Record {} as a paleosol feature instead", s.name())).clicked() {
+                                bed.structures.retain(|x| x != s);
+                                if !bed.paleosol_features.contains(&f) {
+                                    bed.paleosol_features.push(f);
+                                    bed.paleosol_features.sort();
+                                }
+                            }
+                        }
                     }
                 });
+                ui.label(
+                    egui::RichText::new("Root traces, slickensides, carbonate nodules and mottling: under Paleosol features")
+                        .small()
+                        .color(theme::TEXT_DIM),
+                );
             });
-            egui::CollapsingHeader::new("Paleosol features").default_open(bed.paleosol != PaleosolDevelopment::None).show(ui, |ui| {
+            let soil_open = bed.paleosol != PaleosolDevelopment::None || !bed.paleosol_features.is_empty();
+            egui::CollapsingHeader::new("Paleosol features").default_open(soil_open).show(ui, |ui| {
                 ui.horizontal_wrapped(|ui| {
                     for f in PaleosolFeature::ALL {
                         let mut on = bed.paleosol_features.contains(f);
-                        if ui.toggle_value(&mut on, f.name()).on_hover_text("Feature of a fossil soil").changed() {
+                        let tip = format!(
+                            "{} seen in this bed: a mark of soil formation (code {} in the bed table's paleosol cell)",
+                            f.name(),
+                            shorthand::short_code(*f)
+                        );
+                        if ui.toggle_value(&mut on, f.name()).on_hover_text(tip).changed() {
                             if on {
                                 bed.paleosol_features.push(*f);
                                 bed.paleosol_features.sort();
@@ -682,22 +709,6 @@ fn roman(v: u8) -> &'static str {
     ["?", "I", "II", "III", "IV", "V", "VI"].get(v as usize).copied().unwrap_or("?")
 }
 
-/// Azimuths separated by `;`, `,` or spaces, each 0–360°.
-pub fn parse_azimuths(text: &str) -> Result<Vec<f64>, String> {
-    let mut v = Vec::new();
-    for part in text.split([';', ',', ' ']).map(str::trim).filter(|p| !p.is_empty()) {
-        match part.parse::<f64>() {
-            Ok(a) if (0.0..=360.0).contains(&a) => v.push(a),
-            _ => {
-                return Err(format!(
-                    "Paleocurrents (°): {part:?} is not an azimuth from 0 to 360°; separate azimuths with ; or spaces"
-                ))
-            }
-        }
-    }
-    Ok(v)
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -766,10 +777,16 @@ mod tests {
     }
 
     #[test]
-    fn azimuths_are_checked() {
-        assert_eq!(parse_azimuths("120; 135,140 0 360"), Ok(vec![120.0, 135.0, 140.0, 0.0, 360.0]));
-        assert!(parse_azimuths("400").is_err());
-        assert!(parse_azimuths("north").is_err());
+    fn azimuths_are_checked_by_the_notations_reader() {
+        let unit = LengthUnit::Metre;
+        let mut b =
+            Bed::new(BedId(1), 1.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)));
+        Typed::Paleocurrents.read("120; 135,140 0 360", &mut b, unit).expect("five azimuths");
+        assert_eq!(b.paleocurrents_deg, vec![120.0, 135.0, 140.0, 0.0, 360.0]);
+        for bad in ["400", "north"] {
+            let e = Typed::Paleocurrents.read(bad, &mut b, unit).expect_err(bad);
+            assert!(e.starts_with("Paleocurrents (°):") && e.contains("0–360"), "{e}");
+        }
         assert_eq!(roman(4), "IV");
     }
 }

@@ -1,33 +1,60 @@
-//! The bed table with a keyboard entry row: type a thickness, the first letters of a lithology
-//! and of a grain size, Tab across, Enter adds the bed above the selected one (or on top).
+//! The bed table: every field of a bed typed from the keyboard in one entry row, cell by cell in
+//! the compact notation the bed-table CSV reads (`aggrade_core::model::shorthand`, one reader for
+//! both), above the section's beds listed top first.
+//!
+//! Keys (`docs/notation.md` has them with every code):
+//! - a digit typed while no field has the focus starts a new bed in the entry row;
+//! - Tab and Shift+Tab move between the row's cells (an empty cell is skipped with one Tab);
+//! - Enter adds the bed on top of the section, wherever the selection is; Ctrl+Enter inserts it
+//!   above the selected bed instead (so does the row's "Insert above" button);
+//! - F2, or a double click on a row, loads the selected bed into the entry row to edit it;
+//!   Enter stores it, Esc (or Cancel) drops the edit and brings back the new bed's row.
+//!
+//! The cells and their reading are in `cells`, the keys (and why the row moves the focus itself)
+//! in `keys`.
 
-use super::actions::Actions;
+mod cells;
+mod keys;
+pub(super) mod split;
+
+use cells::{describe, read_row, Cell, Texts};
+use cells::{new_template, CELLS};
+use keys::RowKey;
+
+use super::actions::{gesture_key, Actions};
 use super::document::{Document, Edit};
 use super::field::{mark_invalid, problem_label};
 use super::theme;
 use aggrade_core::io::limits::MAX_STRING_CHARS;
 use aggrade_core::io::MAX_BED_THICKNESS_M;
-use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
+use aggrade_core::model::shorthand as sh;
+use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology};
 
-/// The fields of the entry row.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum EntryField {
-    Thickness,
-    Lithology,
-    Grain,
+/// An existing bed loaded into the row (F2 or a double click): its section and id, the cells
+/// as typed, and as loaded.
+#[derive(Debug, Clone)]
+struct Edited {
+    section: usize,
+    bed: BedId,
+    texts: Texts,
+    loaded: Texts,
 }
 
-/// Text typed into the entry row.
-#[derive(Debug, Default)]
+/// The entry row and the table below it.
+#[derive(Debug)]
 pub struct BedTable {
-    pub thickness: String,
-    pub lithology: String,
-    pub grain: String,
-    focus_thickness: bool,
-    /// Last problem with the entry row, shown under it.
-    pub problem: Option<String>,
-    /// The entry field the problem is in (framed in red until the row is added).
-    problem_field: Option<EntryField>,
+    /// The new bed's cells (kept while a bed is being edited).
+    new_row: Texts,
+    /// The edited bed's cells, and the texts it was loaded with.
+    edit: Option<Edited>,
+    /// Problems of the row, by cell (framed in red) — found on Enter and on leaving a cell.
+    problems: Vec<(Cell, String)>,
+    /// Typing after a Tab or Enter in the same frame, for the cell that has the focus next.
+    held: Vec<egui::Event>,
+    /// The cell with the focus in the last frame.
+    focused_last: Option<Cell>,
+    /// A note about the row's last action (stored, refused, cancelled).
+    note: Option<String>,
     /// The selection the table last showed: a selection made elsewhere (canvas, review list)
     /// scrolls the table to its row.
     last_selected: Option<BedId>,
@@ -35,10 +62,18 @@ pub struct BedTable {
     visible_rows: std::ops::Range<usize>,
 }
 
-impl BedTable {
-    /// Rows (0 = top of the section) the table showed in the last frame.
-    pub fn rows_shown(&self) -> std::ops::Range<usize> {
-        self.visible_rows.clone()
+impl Default for BedTable {
+    fn default() -> Self {
+        BedTable {
+            new_row: Default::default(),
+            edit: None,
+            problems: Vec::new(),
+            held: Vec::new(),
+            focused_last: None,
+            note: None,
+            last_selected: None,
+            visible_rows: 0..0,
+        }
     }
 }
 
@@ -48,51 +83,20 @@ pub fn follow_offset(row: usize, visible: &std::ops::Range<usize>, row_pitch: f3
     (!visible.contains(&row)).then(|| (row.saturating_sub(3) as f32 * row_pitch).max(0.0))
 }
 
-/// The lithology whose name starts with the typed letters (first in vocabulary order).
-pub fn lithology_from_prefix(text: &str) -> Option<Lithology> {
-    let t = text.trim().to_lowercase();
-    if t.is_empty() {
-        return None;
-    }
-    Lithology::parse(&t).or_else(|| Lithology::ALL.iter().copied().find(|l| l.name().starts_with(&t)))
-}
-
-/// A grain size from a short label (`vf`, `m`), a class-name prefix, or a value with mm / phi.
-pub fn grain_from_prefix(text: &str) -> Option<GrainSize> {
-    let t = text.trim().to_lowercase();
-    if t.is_empty() {
-        return None;
-    }
-    if let Some(c) = WentworthClass::ALL.iter().copied().find(|c| c.short_label() == t) {
-        return Some(GrainSize::Class(c));
-    }
-    if let Ok(g) = GrainSize::parse(&t) {
-        return Some(g);
-    }
-    WentworthClass::ALL.iter().copied().find(|c| c.name().starts_with(&t)).map(GrainSize::Class)
-}
-
 /// A length typed in the section's unit (a trailing m, cm or ft overrides it), in metres; `None`
 /// when the text is not a finite number.
 pub fn parse_length(text: &str, unit: LengthUnit) -> Option<f64> {
-    let t = text.trim().replace(',', ".");
-    let (num, unit) = if let Some(n) = t.strip_suffix("cm") {
-        (n, LengthUnit::Centimetre)
-    } else if let Some(n) = t.strip_suffix("ft") {
-        (n, LengthUnit::Foot)
-    } else if let Some(n) = t.strip_suffix('m') {
-        (n, LengthUnit::Metre)
-    } else {
-        (t.as_str(), unit)
-    };
-    num.trim().parse::<f64>().ok().filter(|v| v.is_finite()).map(|v| unit.to_metres(v))
+    sh::length(text, unit).ok()
 }
 
 /// Parse a thickness typed in the section's unit (a trailing m, cm or ft overrides it): greater
 /// than 0 and at most the core's largest bed thickness.
 pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
-    match parse_length(text, unit) {
-        Some(v) if v > 0.0 && v <= MAX_BED_THICKNESS_M => Ok(v),
+    match sh::thickness_entry(text, unit) {
+        Ok(t) if t.covered_top_m.is_none() && t.thickness_m <= MAX_BED_THICKNESS_M => Ok(t.thickness_m),
+        Ok(t) if t.covered_top_m.is_some() => Err(format!(
+            "{text:?}: a covered top is typed in the bed table's entry row, where it becomes a covered interval of its own"
+        )),
         _ => Err(format!(
             "thickness {text:?} is not a number greater than 0 and at most {MAX_BED_THICKNESS_M} m (e.g. 1.25, 40cm, 3ft)"
         )),
@@ -101,149 +105,310 @@ pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
 
 /// A number in the section's display unit, without trailing zeros.
 pub fn show_length(m: f64, unit: LengthUnit) -> String {
-    let v = unit.from_metres(m);
-    let s = format!("{v:.3}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
+    sh::length_code(m, unit)
 }
 
 impl BedTable {
+    /// Rows (0 = top of the section) the table showed in the last frame.
+    pub fn rows_shown(&self) -> std::ops::Range<usize> {
+        self.visible_rows.clone()
+    }
+
+    /// The texts of the row on show.
+    fn texts(&mut self) -> &mut Texts {
+        match &mut self.edit {
+            Some(e) => &mut e.texts,
+            None => &mut self.new_row,
+        }
+    }
+
     /// Draw the entry row and the table.
     pub fn ui(&mut self, ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+        let ctx = ui.ctx().clone();
         let unit = doc.section().display_unit;
-        ui.horizontal(|ui| {
-            ui.strong("New bed");
-            ui.label(
-                egui::RichText::new("Tab across · Enter adds above the selection")
-                    .small()
-                    .color(theme::TEXT_DIM),
-            );
-        });
-        let mut enter = false;
-        ui.horizontal(|ui| {
-            let w = ui.available_width();
-            let r = ui.add(
-                egui::TextEdit::singleline(&mut self.thickness)
-                    .id_salt("entry_thickness")
-                    .char_limit(MAX_STRING_CHARS)
-                    .hint_text(format!("thickness ({})", unit.name()))
-                    .desired_width(w * 0.31),
-            );
-            let r = r.on_hover_text("Thickness in the section's unit; add cm, m or ft to type another unit");
-            if self.focus_thickness {
-                r.request_focus();
-                self.focus_thickness = false;
+        // An edited bed that is gone (deleted, undone, another section shown): the row becomes a
+        // new bed's, with its text — nothing typed is lost.
+        if let Some(Edited { section, bed, texts, .. }) = &self.edit {
+            if *section != doc.selected_section || doc.bed_index(*bed).is_none() {
+                if self.new_row.iter().all(|t| t.trim().is_empty()) {
+                    self.new_row = texts.clone();
+                    self.note = Some(
+                        "The bed being edited is no longer in this section: its row is a new bed now".into(),
+                    );
+                    self.edit = None;
+                } else {
+                    self.note = Some(
+                        "The bed being edited is no longer in this section: Enter adds the row as a new bed"
+                            .into(),
+                    );
+                }
             }
-            self.mark(ui, &r, EntryField::Thickness);
-            enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
-            let r = ui
-                .add(
-                    egui::TextEdit::singleline(&mut self.lithology)
-                        .id_salt("entry_lithology")
-                        .char_limit(MAX_STRING_CHARS)
-                        .hint_text("lithology")
-                        .desired_width(w * 0.27),
-                )
-                .on_hover_text(
-                    "First letters of a lithology: sa = sandstone, mu = mudstone, co = conglomerate…",
-                );
-            self.mark(ui, &r, EntryField::Lithology);
-            enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
-            let r = ui
-                .add(
-                    egui::TextEdit::singleline(&mut self.grain)
-                        .id_salt("entry_grain")
-                        .char_limit(MAX_STRING_CHARS)
-                        .hint_text("grain")
-                        .desired_width(w * 0.18),
-                )
-                .on_hover_text("Grain size: vf, f, m, c, vc, si, cl, gr, pb…, a class name, or 0.3mm / 2phi");
-            self.mark(ui, &r, EntryField::Grain);
-            enter |= r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
-            if ui.button("Add").on_hover_text("Add this bed above the selected bed (Enter)").clicked() {
-                enter = true;
-            }
-        });
-        // Live reading of what was typed.
-        let lith = lithology_from_prefix(&self.lithology);
-        let grain = grain_from_prefix(&self.grain);
-        let preview = format!(
-            "reads as: {} · {}",
-            lith.map(|l| l.name()).unwrap_or("?"),
-            grain.map(|g| g.to_string()).unwrap_or_else(|| "no grain size".into())
-        );
-        ui.label(egui::RichText::new(preview).small().color(theme::TEXT_DIM));
-        if enter {
-            self.commit(doc, out);
         }
-        if let Some(p) = &self.problem {
+        self.keys_without_focus(&ctx, doc);
+        let (key, typing_in) = self.route_keys(&ctx);
+
+        let editing = match &self.edit {
+            Some(Edited { section, bed, .. }) if *section == doc.selected_section => doc.bed_index(*bed),
+            _ => None,
+        };
+        // Wrapped: the help never widens the panel.
+        ui.horizontal_wrapped(|ui| {
+            match editing {
+                Some(i) => ui.strong(format!("Editing bed {}", i + 1)),
+                None => ui.strong("New bed"),
+            };
+            let help = if editing.is_some() {
+                "Tab across · Enter stores · Esc cancels"
+            } else {
+                "Tab across · Enter adds on top · Ctrl+Enter above the selection · F2 edits the selection"
+            };
+            ui.label(egui::RichText::new(help).small().color(theme::TEXT_DIM)).on_hover_text(
+                "Every key and code of the row: docs/notation.md. Hover a cell for what it takes",
+            );
+        });
+        let mut action = key;
+        let texts_before = self.texts().clone();
+        self.cells_ui(ui, unit);
+        // A cell whose text changed is being fixed: its old problem goes.
+        let now = self.texts().clone();
+        self.problems.retain(|(c, _)| texts_before[*c as usize] == now[*c as usize]);
+        ui.horizontal(|ui| {
+            if editing.is_some() {
+                if ui.button("Store").on_hover_text("Store the edited bed (Enter)").clicked() {
+                    action = Some(RowKey::Commit { above_selection: false });
+                }
+                if ui.button("Cancel").on_hover_text("Drop the edit; the bed stays as it is (Esc)").clicked()
+                {
+                    action = Some(RowKey::Leave);
+                }
+            } else {
+                if ui
+                    .button("Add on top")
+                    .on_hover_text("Add this bed on top of the section (Enter)")
+                    .clicked()
+                {
+                    action = Some(RowKey::Commit { above_selection: false });
+                }
+                let above = doc.selected_bed.and_then(|id| doc.bed_index(id));
+                let label = above
+                    .map_or("Insert above selection".to_string(), |i| format!("Insert above bed {}", i + 1));
+                if ui
+                    .add_enabled(above.is_some(), egui::Button::new(label))
+                    .on_hover_text("Insert this bed directly above the selected bed (Ctrl+Enter)")
+                    .clicked()
+                {
+                    action = Some(RowKey::Commit { above_selection: true });
+                }
+            }
+        });
+        // The live reading of the row.
+        let reading = self.read(doc);
+        let preview = match &reading {
+            Ok(beds) if !self.texts().iter().all(|t| t.trim().is_empty()) => {
+                let mut s = format!("reads as: {}", describe(&beds[0], unit));
+                if let Some(c) = beds.get(1) {
+                    s.push_str(&format!(
+                        "; then {} {} covered",
+                        sh::length_code(c.thickness_m, unit),
+                        unit.name()
+                    ));
+                }
+                s
+            }
+            _ => String::new(),
+        };
+        if !preview.is_empty() {
+            ui.add(egui::Label::new(egui::RichText::new(preview).small().color(theme::TEXT_DIM)).wrap());
+        }
+        match action {
+            Some(RowKey::Step { forward }) => {
+                let from = typing_in.or(self.focused_last).unwrap_or(Cell::Thickness);
+                self.check_cell(doc, from);
+                self.focus(&ctx, from.step(forward));
+            }
+            Some(RowKey::Commit { above_selection }) => self.commit(&ctx, doc, out, above_selection),
+            Some(RowKey::Leave) => {
+                if self.edit.take().is_some() {
+                    self.problems.clear();
+                    self.note = Some("Edit cancelled: the bed is as it was".into());
+                }
+                ctx.memory_mut(|m| {
+                    if let Some(id) = m.focused() {
+                        m.surrender_focus(id);
+                    }
+                });
+            }
+            None => {}
+        }
+        if !self.held.is_empty() {
+            ctx.request_repaint();
+        }
+        self.focused_last = self.focused_cell(&ctx);
+        for (_, p) in &self.problems {
             problem_label(ui, p);
+        }
+        if let Some(n) = &self.note {
+            ui.label(egui::RichText::new(n).small().color(theme::TEXT_DIM));
         }
         ui.separator();
         self.table(ui, doc, out);
     }
 
-    /// Frame an entry field in red while the row's problem is in it.
-    fn mark(&self, ui: &egui::Ui, r: &egui::Response, field: EntryField) {
-        if self.problem.is_some() && self.problem_field == Some(field) {
-            mark_invalid(ui, r.rect);
+    /// The row's cells, on three lines, each with its name above it.
+    fn cells_ui(&mut self, ui: &mut egui::Ui, unit: LengthUnit) {
+        let problems: Vec<Cell> = self.problems.iter().map(|(c, _)| *c).collect();
+        let w = ui.available_width();
+        let gap = ui.spacing().item_spacing.x;
+        for line in Cell::LINES {
+            ui.horizontal(|ui| {
+                let room = w - gap * (line.len() as f32 - 1.0);
+                for (cell, share) in line {
+                    ui.vertical(|ui| {
+                        ui.set_width(room * share);
+                        ui.label(egui::RichText::new(cell.label()).size(10.0).color(theme::TEXT_DIM));
+                        let text = &mut self.texts()[*cell as usize];
+                        let r = ui
+                            .add(
+                                egui::TextEdit::singleline(text)
+                                    .id(cell.id())
+                                    .char_limit(MAX_STRING_CHARS)
+                                    .hint_text(cell.hint(unit))
+                                    .desired_width(room * share),
+                            )
+                            .on_hover_text(cell.tip(unit));
+                        if problems.contains(cell) {
+                            mark_invalid(ui, r.rect);
+                        }
+                    });
+                }
+            });
         }
     }
 
-    /// Read the whole row: the new bed, or the field at fault and why (naming it and what is
-    /// valid). The typed text stays in the row until a bed is added.
-    fn read_row(&self, unit: LengthUnit) -> Result<Bed, (EntryField, String)> {
-        let thickness = parse_thickness(&self.thickness, unit).map_err(|e| (EntryField::Thickness, e))?;
-        let Some(lith) = lithology_from_prefix(&self.lithology) else {
-            return Err((
-                EntryField::Lithology,
-                format!(
-                    "lithology {:?} is not known; valid: {}",
-                    self.lithology,
-                    Lithology::ALL.map(|l| l.name()).join(", ")
-                ),
-            ));
-        };
-        let grain = if lith == Lithology::Covered { None } else { grain_from_prefix(&self.grain) };
-        if grain.is_none() && !self.grain.trim().is_empty() && lith != Lithology::Covered {
-            return Err((
-                EntryField::Grain,
-                format!("grain size {:?} is not known (try vf, f, m, c, 0.3mm, 2phi)", self.grain),
-            ));
-        }
-        let bed = Bed::new(BedId(0), thickness, lith, grain);
-        // The checks a saved file passes (a sandstone needs a grain size, phi within range…).
-        let mut s = aggrade_core::model::Section::new("entry row");
-        s.beds.push(bed.clone());
-        if let Some(p) = aggrade_core::io::validate_section(&s).first() {
-            let field = if p.location.contains("grain") { EntryField::Grain } else { EntryField::Thickness };
-            let what = p.location.strip_prefix("beds[0].").unwrap_or(&p.location).replace('_', " ");
-            return Err((field, format!("{what}: {}", p.message)));
-        }
-        Ok(bed)
-    }
-
-    fn commit(&mut self, doc: &Document, out: &mut Actions) {
+    /// Check one cell on its own as it is left, so a typo is marked before Enter.
+    fn check_cell(&mut self, doc: &Document, cell: Cell) {
+        self.problems.retain(|(c, _)| *c != cell);
+        let mut changed = [false; CELLS];
+        changed[cell as usize] = true;
         let unit = doc.section().display_unit;
-        let bed = match self.read_row(unit) {
+        let template = Bed::new(BedId(0), 1.0, Lithology::Coal, None);
+        // Alone, a grain or lithology cell is judged without the other: only its own notation.
+        if let Err(problems) = read_row(self.texts(), &template, &changed, unit, None) {
+            let own = problems.into_iter().filter(|(c, _)| *c == cell);
+            let own: Vec<(Cell, String)> = match cell {
+                Cell::Lithology if self.texts()[cell as usize].trim().is_empty() => Vec::new(),
+                _ => own.collect(),
+            };
+            self.problems.extend(own);
+        }
+    }
+
+    /// The row read as it stands (for the live reading and for Enter).
+    fn read(&mut self, doc: &Document) -> Result<Vec<Bed>, Vec<(Cell, String)>> {
+        let s = doc.section();
+        let unit = s.display_unit;
+        match self.edit.clone() {
+            Some(Edited { section, bed, texts, loaded }) if section == doc.selected_section => {
+                match s.bed_index(bed) {
+                    Some(i) => {
+                        let changed: [bool; CELLS] = std::array::from_fn(|k| texts[k] != loaded[k]);
+                        let below = i.checked_sub(1).map(|j| s.beds[j].paleosol);
+                        read_row(&texts, &s.beds[i], &changed, unit, below).map(|mut beds| {
+                            beds[0].id = bed;
+                            beds
+                        })
+                    }
+                    None => read_row(
+                        &texts,
+                        &new_template(),
+                        &[true; CELLS],
+                        unit,
+                        s.beds.last().map(|b| b.paleosol),
+                    ),
+                }
+            }
+            _ => {
+                let below = s.beds.last().map(|b| b.paleosol);
+                read_row(&self.new_row, &new_template(), &[true; CELLS], unit, below)
+            }
+        }
+    }
+
+    /// Enter: add the row's bed on top (or above the selection), or store the edited bed.
+    fn commit(&mut self, ctx: &egui::Context, doc: &Document, out: &mut Actions, above_selection: bool) {
+        let s = doc.section();
+        let editing = match &self.edit {
+            Some(Edited { section, bed, texts, loaded }) if *section == doc.selected_section => {
+                s.bed_index(*bed).map(|i| (i, texts == loaded))
+            }
+            _ => None,
+        };
+        if let Some((_, true)) = editing {
+            // Nothing changed: the edit ends, the bed stays as it was.
+            self.edit = None;
+            self.note = None;
+            self.focus(ctx, Cell::Thickness);
+            return;
+        }
+        // Inserted above the selection: the soil below is the selected bed's.
+        let selected = doc.selected_bed.and_then(|id| doc.bed_index(id));
+        let beds = if let (None, true, Some(i)) = (editing, above_selection, selected) {
+            read_row(self.texts(), &new_template(), &[true; CELLS], s.display_unit, Some(s.beds[i].paleosol))
+        } else {
+            self.read(doc)
+        };
+        let beds = match beds {
             Ok(b) => b,
-            Err((field, why)) => {
-                self.problem = Some(why);
-                self.problem_field = Some(field);
+            Err(problems) => {
+                let first = problems[0].0;
+                self.problems = problems;
+                self.note = None;
+                self.focus(ctx, first);
                 return;
             }
         };
-        let index = doc
-            .selected_bed
-            .and_then(|id| doc.bed_index(id))
-            .map(|i| i + 1)
-            .unwrap_or(doc.section().beds.len());
-        out.edit(Edit::InsertBed { index, bed });
-        self.thickness.clear();
-        self.lithology.clear();
-        self.grain.clear();
-        self.problem = None;
-        self.problem_field = None;
-        self.focus_thickness = true;
+        // One undo step for the bed and its covered top.
+        let gesture = gesture_key(("entry row", doc.revision, s.beds.len()));
+        let n = beds.len();
+        match editing {
+            Some((i, _)) => {
+                let mut beds = beds.into_iter();
+                if let Some(bed) = beds.next() {
+                    out.edit_in(Edit::ReplaceBed { bed }, gesture);
+                }
+                for bed in beds {
+                    out.edit_in(Edit::InsertBed { index: i + 1, bed }, gesture);
+                }
+                self.note = Some(format!("Bed {} stored", i + 1));
+                self.edit = None;
+            }
+            None => {
+                let index = match (above_selection, selected) {
+                    (true, Some(i)) => i + 1,
+                    _ => s.beds.len(),
+                };
+                for (k, bed) in beds.into_iter().enumerate() {
+                    out.edit_in(Edit::InsertBed { index: index + k, bed }, gesture);
+                }
+                self.note = Some(if index == s.beds.len() {
+                    format!("Bed {} added on top", index + 1)
+                } else {
+                    format!("Bed inserted as bed {}; the beds above are renumbered", index + 1)
+                });
+                if n > 1 {
+                    self.note.as_mut().map(|t| t.push_str(", with its covered top above"));
+                }
+                // The edited bed's row (if one was left aside) stays; this row is now empty.
+                if self.edit.is_some() {
+                    self.edit = None;
+                } else {
+                    self.new_row = Default::default();
+                }
+            }
+        }
+        out.end_gesture = true;
+        self.problems.clear();
+        self.focus(ctx, Cell::Thickness);
     }
 
     fn table(&mut self, ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
@@ -253,9 +418,9 @@ impl BedTable {
         let heights = s.base_heights_m();
         let row_h = 22.0;
         // Column left edges as fractions of the row; numbers are right-aligned to the next edge.
-        let cols = [0.0f32, 0.11, 0.30, 0.48, 0.80, 1.0];
+        let cols = [0.0f32, 0.09, 0.24, 0.37, 0.62, 0.73, 1.0];
         let top_label = format!("top ({})", unit.name());
-        let header = ["#", top_label.as_str(), "thick.", "lithology", "grain"];
+        let header = ["#", top_label.as_str(), "thick.", "lithology", "grain", "more"];
         let (hrect, _) = ui.allocate_exact_size(egui::vec2(ui.available_width(), 18.0), egui::Sense::hover());
         let font = egui::FontId::proportional(11.5);
         for (k, name) in header.iter().enumerate() {
@@ -266,7 +431,17 @@ impl BedTable {
                 hrect.left() + cols[k] * hrect.width() + 4.0
             };
             let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
-            ui.painter().text(egui::pos2(x, hrect.center().y), align, *name, font.clone(), theme::TEXT_DIM);
+            let clip = egui::Rect::from_x_y_ranges(
+                (hrect.left() + cols[k] * hrect.width())..=(hrect.left() + cols[k + 1] * hrect.width()),
+                hrect.y_range(),
+            );
+            ui.painter().with_clip_rect(clip).text(
+                egui::pos2(x, hrect.center().y),
+                align,
+                *name,
+                font.clone(),
+                theme::TEXT_DIM,
+            );
         }
         let mut area =
             egui::ScrollArea::vertical().id_salt("bed_table").auto_shrink([false, false]).animated(false);
@@ -280,6 +455,7 @@ impl BedTable {
                 area = area.vertical_scroll_offset(offset.min(max));
             }
         }
+        let mut load = None;
         area.show_rows(ui, row_h, n, |ui, range| {
             self.visible_rows = range.clone();
             for row in range {
@@ -327,6 +503,7 @@ impl BedTable {
                     show_length(b.thickness_m, unit),
                     b.lithology.name().to_string(),
                     grain,
+                    more_codes(b, unit),
                 ];
                 for (k, text) in cells.into_iter().enumerate() {
                     let numeric = (1..=2).contains(&k);
@@ -336,27 +513,64 @@ impl BedTable {
                         rect.left() + cols[k] * rect.width() + 4.0
                     };
                     let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
-                    let colour = if k == 0 { theme::TEXT_DIM } else { theme::TEXT };
-                    p.text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
+                    let colour = if k == 0 || k == 5 { theme::TEXT_DIM } else { theme::TEXT };
+                    let clip = egui::Rect::from_x_y_ranges(
+                        (rect.left() + cols[k] * rect.width())..=(rect.left() + cols[k + 1] * rect.width() - 2.0),
+                        rect.y_range(),
+                    );
+                    p.with_clip_rect(clip).text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
                 }
+                let tip = format!(
+                    "{}. Click to select; double-click or F2 to edit in the row above; right-click for insert, split, merge, rank, delete",
+                    describe(b, unit)
+                );
                 let r = match b.base_rank {
-                    Some(rank) => r.on_hover_text(format!(
-                        "Base ranked {} by you. Click to select; right-click for insert, split, merge, rank, delete",
-                        rank.name()
-                    )),
-                    None => r.on_hover_text("Click to select; right-click for insert, split, merge, rank, delete"),
+                    Some(rank) => r.on_hover_text(format!("Base ranked {} by you. {tip}", rank.name())),
+                    None => r.on_hover_text(tip),
                 };
-                if r.clicked() {
+                // Named for screen readers (and the window's tests): "Bed 3: 1.9 m sandstone, …".
+                r.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::accesskit::Role::Row, true, format!("Bed {}: {}", i + 1, describe(b, unit)))
+                });
+                if r.clicked() || r.double_clicked() {
                     // Selected here: the row is in view already, so the table stays put.
                     self.last_selected = Some(b.id);
                     out.select = Some(Some(b.id));
                     out.scroll_to_height_m = Some(heights[i] + b.thickness_m / 2.0);
                 }
+                if r.double_clicked() {
+                    load = Some(b.id);
+                }
                 let id = b.id;
                 r.context_menu(|ui| super::canvas::bed_menu(ui, doc, Some(id), out));
             }
         });
+        if let Some(id) = load {
+            self.load(ui.ctx(), doc, id);
+        }
     }
+}
+
+/// The row's last column: paleosol, structures, a contact other than sharp, paleocurrents and
+/// a named surface, in the notation.
+fn more_codes(b: &Bed, unit: LengthUnit) -> String {
+    let paleosol = sh::PaleosolEntry {
+        development: b.paleosol,
+        features: b.paleosol_features.clone(),
+        carbonate_stage: b.carbonate_stage,
+    };
+    let mut parts = vec![sh::paleosol_code(&paleosol), sh::codes(&b.structures)];
+    if b.base_contact != aggrade_core::model::Contact::Sharp || b.base_relief_m.is_some() {
+        parts.push(sh::contact_code(b.base_contact, b.base_relief_m, unit));
+    }
+    if !b.paleocurrents_deg.is_empty() {
+        parts.push(format!("{}°", sh::paleocurrents_code(&b.paleocurrents_deg)));
+    }
+    if let Some(s) = &b.base_surface {
+        parts.push(s.name.clone());
+    }
+    parts.retain(|p| !p.is_empty());
+    parts.join(" · ")
 }
 
 fn short(g: GrainSize) -> String {
@@ -369,18 +583,27 @@ fn short(g: GrainSize) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use aggrade_core::model::{
+        Contact, PaleosolDevelopment, PaleosolFeature, Structure, WentworthClass as W,
+    };
 
     #[test]
-    fn first_letters_pick_vocabulary_terms() {
-        assert_eq!(lithology_from_prefix("sa"), Some(Lithology::Sandstone));
-        assert_eq!(lithology_from_prefix("Mud"), Some(Lithology::Mudstone));
-        assert_eq!(lithology_from_prefix("co"), Some(Lithology::Conglomerate));
-        assert_eq!(lithology_from_prefix("xyz"), None);
-        assert_eq!(grain_from_prefix("vf"), Some(GrainSize::Class(WentworthClass::VeryFineSand)));
-        assert_eq!(grain_from_prefix("m"), Some(GrainSize::Class(WentworthClass::MediumSand)));
-        assert_eq!(grain_from_prefix("peb"), Some(GrainSize::Class(WentworthClass::Pebble)));
-        // 0.25 mm is φ 2 by Krumbein (1934): φ = −log2(d / 1 mm).
-        assert_eq!(grain_from_prefix("0.25mm"), Some(GrainSize::Phi(2.0)));
+    fn a_row_shows_the_rest_of_the_bed_in_the_notation() {
+        let mut b = Bed::new(BedId(1), 0.4, Lithology::Conglomerate, Some(GrainSize::Class(W::Pebble)));
+        assert_eq!(more_codes(&b, LengthUnit::Metre), "");
+        b.structures = vec![Structure::BasalLag];
+        b.base_contact = Contact::Erosional;
+        b.base_relief_m = Some(1.2);
+        b.paleocurrents_deg = vec![210.0, 225.0];
+        b.base_surface = Some(aggrade_core::model::Surface {
+            name: "RG-E1".into(),
+            kind: aggrade_core::model::SurfaceKind::Incision,
+        });
+        assert_eq!(more_codes(&b, LengthUnit::Metre), "bl · e1.2 · 210 225° · RG-E1");
+        b.paleosol = PaleosolDevelopment::Weak;
+        b.paleosol_features = vec![PaleosolFeature::RootTraces];
+        assert!(more_codes(&b, LengthUnit::Metre).starts_with("w rt · bl"));
+        assert_eq!(short(GrainSize::Class(W::Cobble)), "cbl");
     }
 
     #[test]
@@ -391,27 +614,6 @@ mod tests {
     }
 
     #[test]
-    fn the_entry_row_names_the_field_at_fault() {
-        let row = |t: &str, l: &str, g: &str| BedTable {
-            thickness: t.into(),
-            lithology: l.into(),
-            grain: g.into(),
-            ..BedTable::default()
-        };
-        let unit = LengthUnit::Metre;
-        assert_eq!(row("1.5", "sa", "m").read_row(unit).map(|b| b.thickness_m), Ok(1.5));
-        assert_eq!(row("x", "sa", "m").read_row(unit).map_err(|e| e.0), Err(EntryField::Thickness));
-        assert_eq!(row("1", "zz", "m").read_row(unit).map_err(|e| e.0), Err(EntryField::Lithology));
-        assert_eq!(row("1", "sa", "zz").read_row(unit).map_err(|e| e.0), Err(EntryField::Grain));
-        // The file's checks: a sandstone needs a grain size; no bed is over 1,000 m.
-        let (field, why) = row("1", "sa", "").read_row(unit).expect_err("grain required");
-        assert_eq!(field, EntryField::Grain, "{why}");
-        assert!(why.starts_with("grain base: required for sandstone"), "{why}");
-        assert_eq!(row("1001", "mu", "cl").read_row(unit).map_err(|e| e.0), Err(EntryField::Thickness));
-        assert!(row("2", "cov", "").read_row(unit).is_ok(), "a covered interval takes no grain size");
-    }
-
-    #[test]
     fn thickness_units() {
         assert_eq!(parse_thickness("1.5", LengthUnit::Metre), Ok(1.5));
         assert_eq!(parse_thickness("40cm", LengthUnit::Metre), Ok(0.4));
@@ -419,6 +621,7 @@ mod tests {
         assert!((parse_thickness("10", LengthUnit::Foot).expect("ok") - 3.048).abs() < 1e-12);
         assert!(parse_thickness("-1", LengthUnit::Metre).is_err());
         assert!(parse_thickness("abc", LengthUnit::Metre).is_err());
+        assert!(parse_thickness("4 c1", LengthUnit::Metre).is_err(), "a covered top is the entry row's");
         assert_eq!(show_length(0.3048, LengthUnit::Foot), "1");
     }
 }

@@ -16,3 +16,4 @@ mod rules;
 mod section_details;
 mod trace;
 mod views;
+mod keyboard_log;

@@ -2,28 +2,34 @@
 //! order. Read with every bad cell reported by line and column; written so that it reads back
 //! to the same beds, with formula-looking text cells escaped.
 //!
-//! Columns (header names are case-insensitive; spaces and hyphens count as underscores):
-//! - exactly one of `thickness_m`, `thickness_cm`, `thickness_ft` (required, > 0);
-//! - `lithology` (required): one of the lithology vocabulary;
+//! Columns (header names are case-insensitive; spaces and hyphens count as underscores). Each
+//! cell is read by the compact notation's reader for it ([`crate::model::shorthand`]), the one
+//! the bed table in the window uses, so a cell reads the same in both (`docs/notation.md`):
+//! - exactly one of `thickness_m`, `thickness_cm`, `thickness_ft` (required, > 0, in the
+//!   column's unit); `4.5 c2` is a 4.5 bed whose top 2 are covered, read as two beds (the
+//!   exposed part, and a covered interval above it);
+//! - `lithology`: a lithology name or its first letters (`sa`, `mu`); when empty, the grain
+//!   size names it (sandstone for sand, conglomerate for gravel, mudstone for mud);
 //! - `grain` or `grain_base` / `grain_top`: a Wentworth class name (`fine sand`, `fine_sand`), its
-//!   code (`vf`, `m`, `gr`) or a number with `mm` or `phi`; `grain` may hold base and top in the
-//!   compact notation (`c-m`: coarse fining to medium sand). Empty for covered intervals, optional
-//!   for non-clastic rocks, required for clastic ones. When only one of base/top is filled the
-//!   other takes its value;
+//!   code (`vf`, `m`, `gr`, `pbl`; the older `pb`, `cb`, `bd` too) or a number with `mm` or
+//!   `phi`; `grain` may hold base and top in the compact notation (`c-m`: coarse fining to medium
+//!   sand). Empty for covered intervals, optional for non-clastic rocks, required for clastic
+//!   ones. When only one of base/top is filled the other takes its value;
 //! - `base_contact` (sharp when empty, erosional, gradational, or `s`, `e`, `g`; `e1.2` also
-//!   gives the relief when `base_relief_m` is empty); `base_relief_m` (≥ 0);
+//!   gives the relief, in the thickness column's unit, when `base_relief_m` is empty);
+//!   `base_relief_m` (≥ 0, metres);
 //! - `structures`, `paleosol_features`: full names separated by `;`, or codes separated by spaces
 //!   or commas (`tcb la`); `samples`: a list separated by `;`;
 //! - `paleosol` (none when empty, weak, moderate, strong, very strong, or `w`, `m`, `s`, `vs`,
 //!   optionally followed by feature codes and a stage: `s cn rt III`); `carbonate_stage` (1–6 or
 //!   I–VI);
 //! - `paleocurrents`: azimuths in degrees (0–360) separated by `;`, commas or spaces;
-//! - `surface`: name of a surface at the bed's base; `surface_kind` (optional): its kind, else
-//!   inferred by [`infer_surface_kind`];
+//! - `surface`: name of a surface at the bed's base, optionally with its kind in brackets
+//!   (`T2 (pt)`); `surface_kind` (optional): its kind; else inferred by [`infer_surface_kind`];
 //! - `colour` (or `color`), `fossils`, `notes`: free text;
 //! - `base_rank` (optional): the geologist's rank for the bed's base — `storey surface`, `body
-//!   base` or `within storey` — overriding the rules' reading; empty leaves it to the rules.
-//!   Written only when some bed has one, so other tables are written as before.
+//!   base` or `within storey`, or `ss`, `bb`, `ws` — overriding the rules' reading; empty leaves
+//!   it to the rules. Written only when some bed has one, so other tables are written as before.
 //!
 //! There is no header block: the section takes its name from the caller (the file stem) and its
 //! display unit from the thickness column (ft for `thickness_ft`, cm for `thickness_cm`).
@@ -51,8 +57,8 @@ use super::validate::validate_section;
 use crate::model::grain::normalise_term;
 use crate::model::shorthand::{self, Term};
 use crate::model::{
-    BaseRank, Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
-    Section, Structure, Surface, SurfaceKind,
+    Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section,
+    Structure, Surface, SurfaceKind,
 };
 use std::collections::HashMap;
 
@@ -231,6 +237,13 @@ impl Row<'_> {
         self.problems.push(Problem::new(format!("column {column}"), message).at_line(self.line));
     }
 
+    /// A problem reported at an earlier place in the row's list (a cell read after another
+    /// that it depends on, reported in the order of the columns).
+    fn bad_at(&mut self, at: usize, column: &str, message: String) {
+        let at = at.min(self.problems.len());
+        self.problems.insert(at, Problem::new(format!("column {column}"), message).at_line(self.line));
+    }
+
     fn number(&mut self, column: &str, cell: &str, what: &str) -> Option<f64> {
         match cell.parse::<f64>() {
             Ok(v) if v.is_finite() => Some(v),
@@ -384,39 +397,22 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             }
         }
         let (tcol, unit) = columns.thickness;
-        let thickness_m = match columns.cell(&record, tcol).unwrap_or("") {
+        let thickness = match columns.cell(&record, tcol).unwrap_or("") {
             "" => {
                 row.bad(tcol, format!("required: a thickness in {} > 0", unit.name()));
                 None
             }
-            cell => row.number(tcol, cell, &format!("a thickness in {} > 0", unit.name())).and_then(|v| {
-                if v > 0.0 {
-                    Some(unit.to_metres(v))
-                } else {
-                    row.bad(tcol, format!("must be > 0, got {cell}"));
+            cell => match shorthand::thickness_entry(cell, unit) {
+                Ok(t) => Some(t),
+                Err(e) => {
+                    row.bad(tcol, e.to_string());
                     None
                 }
-            }),
+            },
         };
-        let lithology = match columns.cell(&record, "lithology").unwrap_or("") {
-            "" => {
-                row.bad(
-                    "lithology",
-                    format!("required; valid values are {}", Lithology::ALL.map(|l| l.name()).join(", ")),
-                );
-                None
-            }
-            cell => Lithology::parse(cell).or_else(|| {
-                row.bad(
-                    "lithology",
-                    format!(
-                        "{cell:?} is not known; valid values are {}",
-                        Lithology::ALL.map(|l| l.name()).join(", ")
-                    ),
-                );
-                None
-            }),
-        };
+        // The lithology is read after the grain size (an empty cell takes the grain's rock name)
+        // but reported before it, in the order of the columns.
+        let lithology_at = row.problems.len();
         let (mut grain_base, mut grain_top) = if columns.index.contains_key("grain") {
             // One grain size, or base and top in the compact notation (`c-m`).
             match shorthand::grain_range(columns.cell(&record, "grain").unwrap_or("")) {
@@ -438,18 +434,36 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         if grain_top.is_none() {
             grain_top = grain_base;
         }
+        // By name or first letters; an empty cell takes the lithology the grain size names.
+        let lithology_cell = columns.cell(&record, "lithology").unwrap_or("");
+        let lithology = match shorthand::lithology_entry(lithology_cell, grain_base) {
+            Ok(l) => Some(l),
+            Err(_) if lithology_cell.is_empty() => {
+                row.bad_at(
+                    lithology_at,
+                    "lithology",
+                    format!(
+                        "required when there is no grain size; valid values are {}",
+                        Lithology::ALL.map(|l| l.name()).join(", ")
+                    ),
+                );
+                None
+            }
+            Err(e) => {
+                row.bad_at(lithology_at, "lithology", e.to_string());
+                None
+            }
+        };
         // A contact by name or code, with its relief in metres typed after it (`e1.2`) when the
         // relief column is empty.
-        let (base_contact, relief_in_contact) = match columns.cell(&record, "base_contact").unwrap_or("") {
-            "" => (Contact::Sharp, None),
-            cell => match shorthand::contact_entry(cell) {
-                Ok(entry) => (entry.contact, entry.relief),
+        let (base_contact, relief_in_contact) =
+            match shorthand::contact_entry(columns.cell(&record, "base_contact").unwrap_or(""), unit) {
+                Ok(entry) => (entry.contact, entry.relief_m),
                 Err(e) => {
                     row.bad("base_contact", e.to_string());
                     (Contact::Sharp, None)
                 }
-            },
-        };
+            };
         let base_relief_m = match columns.cell(&record, "base_relief_m").unwrap_or("") {
             "" => relief_in_contact,
             cell => row.number("base_relief_m", cell, "a relief in m ≥ 0").and_then(|v| {
@@ -463,15 +477,12 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         };
         let structures: Vec<Structure> =
             row.terms("structures", columns.cell(&record, "structures"), "structure");
-        let base_rank = match columns.cell(&record, "base_rank").unwrap_or("") {
-            "" => None,
-            cell => BaseRank::parse(cell).or_else(|| {
-                row.bad(
-                    "base_rank",
-                    format!("{cell:?} is not known; valid values are {}", BaseRank::valid_list()),
-                );
+        let base_rank = match shorthand::rank_entry(columns.cell(&record, "base_rank").unwrap_or("")) {
+            Ok(rank) => rank,
+            Err(e) => {
+                row.bad("base_rank", e.to_string());
                 None
-            }),
+            }
         };
         // Development by name or code; the compact notation may add features and a carbonate
         // stage in the same cell (`s cn rt III`).
@@ -509,28 +520,32 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 None
             }),
         };
-        let mut paleocurrents_deg = Vec::new();
-        for item in columns
-            .cell(&record, "paleocurrents")
-            .unwrap_or("")
-            .split(|c: char| c == ';' || c == ',' || c.is_whitespace())
-            .map(str::trim)
-        {
-            if item.is_empty() {
-                continue;
-            }
-            if let Some(a) = row.number("paleocurrents", item, "azimuths in degrees 0–360 separated by ;") {
-                if (0.0..=360.0).contains(&a) {
-                    paleocurrents_deg.push(a);
-                } else {
-                    row.bad("paleocurrents", format!("azimuth {item} is outside 0–360 degrees"));
-                }
-            }
-        }
-        let surface_name = columns.cell(&record, "surface").unwrap_or("").to_string();
+        let paleocurrents_deg = shorthand::paleocurrents(
+            columns.cell(&record, "paleocurrents").unwrap_or(""),
+        )
+        .unwrap_or_else(|e| {
+            row.bad("paleocurrents", e.to_string());
+            Vec::new()
+        });
+        // A name, perhaps with its kind in brackets (`T2 (pt)`); the surface_kind column may
+        // give the kind instead.
+        let surface = shorthand::surface_entry(columns.cell(&record, "surface").unwrap_or(""))
+            .unwrap_or_else(|e| {
+                row.bad("surface", e.to_string());
+                None
+            });
+        let kind_in_surface = surface.as_ref().and_then(|s| s.kind);
+        let surface_name = surface.map(|s| s.name).unwrap_or_default();
         let surface_kind = match columns.cell(&record, "surface_kind").unwrap_or("") {
-            "" => None,
+            "" => kind_in_surface,
             cell => match SurfaceKind::parse(cell) {
+                Some(k) if kind_in_surface.is_some_and(|b| b != k) => {
+                    row.bad(
+                        "surface_kind",
+                        format!("{k} differs from the kind given in the surface column; give it once"),
+                    );
+                    None
+                }
                 Some(k) if !surface_name.is_empty() => Some(k),
                 Some(_) => {
                     row.bad("surface_kind", "given without a surface name in the surface column".to_string());
@@ -553,12 +568,12 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             .map(|s| unescape_formula(s.trim()).to_string())
             .filter(|s| !s.is_empty())
             .collect();
-        let (Some(thickness_m), Some(lithology)) = (thickness_m, lithology) else { continue };
+        let (Some(thickness), Some(lithology)) = (thickness, lithology) else { continue };
         if problems.len() > before {
             continue;
         }
         let id = BedId(section.beds.len() as u64 + 1);
-        let mut bed = Bed::new(id, thickness_m, lithology, None);
+        let mut bed = Bed::new(id, thickness.exposed_m(), lithology, None);
         bed.grain_base = grain_base;
         bed.grain_top = grain_top;
         bed.structures = structures;
@@ -579,6 +594,13 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         section.beds.push(bed);
         lines.push(line);
         surface_kinds.push(surface_kind);
+        // A covered top: a covered interval above the exposed part, from the same row.
+        if let Some(covered) = thickness.covered_top_m {
+            let id = BedId(section.beds.len() as u64 + 1);
+            section.beds.push(Bed::new(id, covered, Lithology::Covered, None));
+            lines.push(line);
+            surface_kinds.push(None);
+        }
     }
     if problems.is_empty() && section.beds.is_empty() {
         problems.push(
@@ -718,7 +740,7 @@ pub fn write_bed_table(section: &Section) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::model::WentworthClass;
+    use crate::model::{BaseRank, WentworthClass};
 
     const TABLE: &str = "\
 Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,paleocurrents,surface,notes,weather
@@ -774,7 +796,7 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
 
     #[test]
     fn reports_lines_and_columns() {
-        let text = "thickness_m,lithology,grain\n1,sandstone,fine sand\n-1,sandston,gravelish\n2,mudstone,\n";
+        let text = "thickness_m,lithology,grain\n1,sandstone,fine sand\n-1,sandstne,gravelish\n2,mudstone,\n";
         let problems = read_bed_table(text, "x").expect_err("refused");
         let got: Vec<(Option<usize>, &str)> =
             problems.iter().map(|p| (p.line, p.location.as_str())).collect();
@@ -835,9 +857,77 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
         let problems = read_bed_table(bad, "x").expect_err("refused");
         assert_eq!((problems[0].line, problems[0].location.as_str()), (Some(2), "column base_rank"));
         assert!(
-            problems[0].message.contains("storey surface, body base, within storey"),
+            problems[0].message.contains("storey surface (ss), body base (bb), within storey (ws)"),
             "{}",
             problems[0].message
         );
+    }
+
+    #[test]
+    fn the_notation_of_the_window_reads_in_every_cell() {
+        // The cells the bed table in the window takes, in a table in feet: a covered top, a
+        // lithology named by its grain size or by first letters, relief in the table's unit,
+        // a surface with its kind, a rank by code.
+        let text = "thickness_ft,lithology,grain,base_contact,surface,base_rank,paleocurrents\n\
+                    4,mu,cl,,,,\n\
+                    6 c2,,c-m,e1.5,RG-1 (pt),bb,200 215\n\
+                    1,,pbl,,,,\n";
+        let s = read_bed_table(text, "x").expect("reads").section;
+        let ft = 0.3048; // m per international foot (1959 agreement)
+        let got: Vec<(Lithology, f64)> = s.beds.iter().map(|b| (b.lithology, b.thickness_m / ft)).collect();
+        assert_eq!(got.len(), 4, "the covered top is a bed of its own: {got:?}");
+        assert_eq!(got[0].0, Lithology::Mudstone);
+        assert_eq!(got[1].0, Lithology::Sandstone, "named from c-m");
+        assert!((got[1].1 - 4.0).abs() < 1e-9 && (got[2].1 - 2.0).abs() < 1e-9, "{got:?}");
+        assert_eq!(got[2].0, Lithology::Covered);
+        assert_eq!(got[3].0, Lithology::Conglomerate, "named from pbl");
+        let sand = &s.beds[1];
+        assert!((sand.base_relief_m.unwrap_or(0.0) - 1.5 * ft).abs() < 1e-12, "relief in feet");
+        assert_eq!(
+            sand.base_surface.as_ref().map(|x| (x.name.as_str(), x.kind)),
+            Some(("RG-1", SurfaceKind::PaleosolTop))
+        );
+        assert_eq!(sand.base_rank, Some(BaseRank::BodyBase));
+        assert_eq!(sand.paleocurrents_deg, vec![200.0, 215.0]);
+        // A problem in a row with a covered top names that row's line.
+        let bad = "thickness_m,lithology,grain\n1,sa,f\n3 c1,sa,\n";
+        let problems = read_bed_table(bad, "x").expect_err("sandstone without a grain size");
+        assert_eq!(
+            (problems[0].line, problems[0].location.as_str()),
+            (Some(3), "column grain"),
+            "{problems:?}"
+        );
+        // No lithology and no grain size: nothing names the rock.
+        let p = read_bed_table("thickness_m,lithology,grain\n1,,\n", "x").expect_err("nothing names it");
+        assert!(p[0].message.contains("required when there is no grain size"), "{}", p[0]);
+        let p = read_bed_table("thickness_m,lithology,surface,surface_kind\n1,coal,T (pt),other\n", "x")
+            .expect_err("two kinds");
+        assert_eq!(p[0].location, "column surface_kind");
+    }
+
+    #[test]
+    fn the_csv_in_the_notation_document_reads_as_its_log_says() {
+        // docs/notation.md shows the 13-bed log as a CSV: it must read, to 13 beds and the
+        // covered top of the last.
+        let doc = include_str!("../../../docs/notation.md");
+        let csv = doc
+            .split("```csv\n")
+            .nth(1)
+            .and_then(|rest| rest.split("```").next())
+            .expect("a csv block in docs/notation.md");
+        let s = read_bed_table(csv, "notation").expect("the documented CSV reads").section;
+        assert_eq!(s.beds.len(), 14);
+        assert!((s.total_thickness_m() - 29.5).abs() < 1e-9);
+        let lith: Vec<Lithology> = s.beds.iter().map(|b| b.lithology).collect();
+        use Lithology::*;
+        assert_eq!(
+            lith,
+            [
+                Mudstone, Siltstone, Mudstone, Conglomerate, Sandstone, Sandstone, Sandstone, Mudstone, Sandstone,
+                Mudstone, Sandstone, Mudstone, Mudstone, Covered
+            ]
+        );
+        assert_eq!(s.beds[3].base_surface.as_ref().map(|x| x.kind), Some(SurfaceKind::Incision));
+        assert_eq!(s.beds[0].paleosol_features, vec![PaleosolFeature::RootTraces]);
     }
 }

@@ -119,7 +119,9 @@ impl WentworthClass {
         }
     }
 
-    /// Short label for the grain-size scale under a column ("vf", "f", "m" …).
+    /// The class's code, shown on the grain-size scale under a column, in the bed table and in
+    /// the compact notation: the abbreviations geologists write on logs (common practice):
+    /// cl, si, vf, f, m, c, vc, gr, pbl, cbl, bld.
     pub fn short_label(self) -> &'static str {
         match self {
             Self::Clay => "cl",
@@ -130,10 +132,26 @@ impl WentworthClass {
             Self::CoarseSand => "c",
             Self::VeryCoarseSand => "vc",
             Self::Granule => "gr",
-            Self::Pebble => "pb",
-            Self::Cobble => "cb",
-            Self::Boulder => "bd",
+            Self::Pebble => "pbl",
+            Self::Cobble => "cbl",
+            Self::Boulder => "bld",
         }
+    }
+
+    /// Other codes read as a class: the codes Aggrade showed before (`pb`, `cb`, `bd`), so that
+    /// older tables still read, and `gran` for granule (common practice).
+    pub const CODE_ALIASES: [(&'static str, WentworthClass); 4] =
+        [("pb", Self::Pebble), ("cb", Self::Cobble), ("bd", Self::Boulder), ("gran", Self::Granule)];
+
+    /// The class a code names ([`WentworthClass::short_label`] or one of
+    /// [`WentworthClass::CODE_ALIASES`]), case-insensitive and trimmed.
+    pub fn from_code(code: &str) -> Option<Self> {
+        let t = code.trim();
+        Self::ALL
+            .iter()
+            .copied()
+            .find(|c| c.short_label().eq_ignore_ascii_case(t))
+            .or_else(|| Self::CODE_ALIASES.iter().find(|(a, _)| a.eq_ignore_ascii_case(t)).map(|(_, c)| *c))
     }
 
     /// Parse a class name: case-insensitive, spaces, underscores or hyphens between words.
@@ -299,6 +317,28 @@ mod tests {
     fn text_round_trip() {
         for g in [GrainSize::Class(WentworthClass::Pebble), GrainSize::Phi(-1.25), GrainSize::Phi(2.4739)] {
             assert_eq!(GrainSize::parse(&g.to_string()), Ok(g));
+        }
+    }
+
+    #[test]
+    fn codes_are_the_usual_abbreviations_and_the_old_ones_still_read() {
+        use WentworthClass as W;
+        // The abbreviations geologists write on logs (common practice).
+        let shown: Vec<&str> = W::ALL.iter().map(|c| c.short_label()).collect();
+        assert_eq!(shown, ["cl", "si", "vf", "f", "m", "c", "vc", "gr", "pbl", "cbl", "bld"]);
+        for c in W::ALL {
+            assert_eq!(W::from_code(c.short_label()), Some(c));
+            assert_eq!(W::from_code(&c.short_label().to_uppercase()), Some(c));
+        }
+        // Codes shown by earlier versions, still in older tables.
+        assert_eq!(W::from_code("pb"), Some(W::Pebble));
+        assert_eq!(W::from_code(" cb "), Some(W::Cobble));
+        assert_eq!(W::from_code("bd"), Some(W::Boulder));
+        assert_eq!(W::from_code("gran"), Some(W::Granule));
+        assert_eq!(W::from_code("pebble"), None, "names are read by parse, not as codes");
+        // No alias shadows another class's code.
+        for (a, _) in W::CODE_ALIASES {
+            assert!(W::ALL.iter().all(|c| c.short_label() != a), "{a}");
         }
     }
 
