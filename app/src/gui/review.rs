@@ -480,7 +480,7 @@ mod tests {
     use super::*;
 
     #[test]
-    fn a_link_is_read_whole_trimmed_and_checked_as_the_file_checks_it() {
+    fn a_correlation_label_is_read_whole_trimmed_and_checked_as_the_file_checks_it() {
         assert_eq!(read_link("  SB-2 "), Ok(Some("SB-2".to_string())));
         assert_eq!(read_link("   "), Ok(None), "blank takes the label off");
         let e = read_link("SB\u{7}").expect_err("control character");
