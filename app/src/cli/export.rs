@@ -1,6 +1,6 @@
 //! `aggrade export`: the interpreted column to PDF, SVG or PNG at a true scale.
 
-use aggrade_core::export::{write_pdf_to, write_png, write_svg, PdfInfo};
+use aggrade_core::export::{write_pdf_to, write_png, write_svg_to, PdfInfo};
 use aggrade_core::layout::{page_stream, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::rules::interpret;
 use anyhow::{bail, Context};
@@ -135,9 +135,15 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
         for (k, page) in p.enumerate() {
             let path =
                 if n == 1 { out.clone() } else { out.with_file_name(format!("{stem}-{}.{ext}", k + 1)) };
-            let bytes =
-                if ext == "png" { write_png(&page, args.dpi)? } else { write_svg(&page).into_bytes() };
-            std::fs::write(&path, bytes).with_context(|| format!("cannot write {}", path.display()))?;
+            if ext == "png" {
+                let bytes = write_png(&page, args.dpi)?;
+                std::fs::write(&path, bytes).with_context(|| format!("cannot write {}", path.display()))?;
+            } else {
+                // Streamed to the file: a tall page's document is never held whole beside its items.
+                std::fs::File::create(&path)
+                    .and_then(|f| write_svg_to(std::io::BufWriter::new(f), &page))
+                    .with_context(|| format!("cannot write {}", path.display()))?;
+            }
             eprintln!("wrote {}", path.display());
         }
     }

@@ -75,7 +75,18 @@ fn points(pts: &[PtMm]) -> String {
 
 /// Write one page as an SVG document whose user unit is 1 mm.
 pub fn write_svg(page: &Page) -> String {
-    let mut s = String::with_capacity(page.items.len() * 80 + 512);
+    let mut out = Vec::with_capacity(page.items.len() * 80 + 512);
+    // Writing to memory cannot fail.
+    let _ = write_svg_to(&mut out, page);
+    // Every piece written is a `str`.
+    String::from_utf8(out).unwrap_or_default()
+}
+
+/// [`write_svg`] to any writer, in pieces of about 64 KB, so a long page (one tall column) never
+/// has its whole document in memory beside its items.
+pub fn write_svg_to<W: std::io::Write>(mut out: W, page: &Page) -> std::io::Result<()> {
+    const PIECE: usize = 64 * 1024;
+    let mut s = String::with_capacity(PIECE + 1024);
     let (w, h) = (n(page.width_mm), n(page.height_mm));
     let _ = writeln!(s, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>");
     let _ = writeln!(
@@ -85,54 +96,63 @@ pub fn write_svg(page: &Page) -> String {
     );
     let _ = writeln!(s, "<rect x=\"0\" y=\"0\" width=\"{w}\" height=\"{h}\" fill=\"#ffffff\"/>");
     for item in &page.items {
-        match item {
-            Item::Rect { rect, fill, stroke } => {
-                let _ = writeln!(
-                    s,
-                    "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\"{}/>",
-                    n(rect.x),
-                    n(rect.y),
-                    n(rect.w.max(0.0)),
-                    n(rect.h.max(0.0)),
-                    paint(fill, stroke)
-                );
-            }
-            Item::Polygon { points: pts, fill, stroke } => {
-                let _ = writeln!(s, "<polygon points=\"{}\"{}/>", points(pts), paint(fill, stroke));
-            }
-            Item::Polyline { points: pts, stroke } => {
-                let _ = writeln!(
-                    s,
-                    "<polyline points=\"{}\" fill=\"none\"{}/>",
-                    points(pts),
-                    stroke_attrs(stroke)
-                );
-            }
-            Item::Circle { center, radius_mm, fill, stroke } => {
-                let _ = writeln!(
-                    s,
-                    "<circle cx=\"{}\" cy=\"{}\" r=\"{}\"{}/>",
-                    n(center.x),
-                    n(center.y),
-                    n(radius_mm.max(0.0)),
-                    paint(fill, stroke)
-                );
-            }
-            Item::Text { pos, text, size_pt, color, anchor, rotation_deg } => {
-                let anchor = match anchor {
-                    Anchor::Start => "start",
-                    Anchor::Middle => "middle",
-                    Anchor::End => "end",
-                };
-                // Font size in user units (mm): 1 pt = 25.4/72 mm.
-                let size_mm = size_pt * 25.4 / 72.0;
-                let rot = if *rotation_deg != 0.0 {
-                    // SVG rotates clockwise on screen; ours is counter-clockwise on the page.
-                    format!(" transform=\"rotate({} {} {})\"", n(-rotation_deg), n(pos.x), n(pos.y))
-                } else {
-                    String::new()
-                };
-                let _ = writeln!(
+        item_svg(&mut s, item);
+        if s.len() >= PIECE {
+            out.write_all(s.as_bytes())?;
+            s.clear();
+        }
+    }
+    s.push_str("</svg>\n");
+    out.write_all(s.as_bytes())?;
+    out.flush()
+}
+
+/// One item as an SVG element on its own line.
+fn item_svg(s: &mut String, item: &Item) {
+    match item {
+        Item::Rect { rect, fill, stroke } => {
+            let _ = writeln!(
+                s,
+                "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\"{}/>",
+                n(rect.x),
+                n(rect.y),
+                n(rect.w.max(0.0)),
+                n(rect.h.max(0.0)),
+                paint(fill, stroke)
+            );
+        }
+        Item::Polygon { points: pts, fill, stroke } => {
+            let _ = writeln!(s, "<polygon points=\"{}\"{}/>", points(pts), paint(fill, stroke));
+        }
+        Item::Polyline { points: pts, stroke } => {
+            let _ =
+                writeln!(s, "<polyline points=\"{}\" fill=\"none\"{}/>", points(pts), stroke_attrs(stroke));
+        }
+        Item::Circle { center, radius_mm, fill, stroke } => {
+            let _ = writeln!(
+                s,
+                "<circle cx=\"{}\" cy=\"{}\" r=\"{}\"{}/>",
+                n(center.x),
+                n(center.y),
+                n(radius_mm.max(0.0)),
+                paint(fill, stroke)
+            );
+        }
+        Item::Text { pos, text, size_pt, color, anchor, rotation_deg } => {
+            let anchor = match anchor {
+                Anchor::Start => "start",
+                Anchor::Middle => "middle",
+                Anchor::End => "end",
+            };
+            // Font size in user units (mm): 1 pt = 25.4/72 mm.
+            let size_mm = size_pt * 25.4 / 72.0;
+            let rot = if *rotation_deg != 0.0 {
+                // SVG rotates clockwise on screen; ours is counter-clockwise on the page.
+                format!(" transform=\"rotate({} {} {})\"", n(-rotation_deg), n(pos.x), n(pos.y))
+            } else {
+                String::new()
+            };
+            let _ = writeln!(
                     s,
                     "<text x=\"{}\" y=\"{}\" font-size=\"{}\" fill=\"{}\" text-anchor=\"{anchor}\"{rot}>{}</text>",
                     n(pos.x),
@@ -141,11 +161,8 @@ pub fn write_svg(page: &Page) -> String {
                     rgb(*color),
                     escape(text)
                 );
-            }
         }
     }
-    s.push_str("</svg>\n");
-    s
 }
 
 #[cfg(test)]
