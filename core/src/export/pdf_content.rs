@@ -290,11 +290,15 @@ impl<'g> ContentWriter<'g> {
                     Anchor::End => -w,
                 };
                 // Quarter turns exactly (the column's titles stand at 90°).
-                let (cos, sin) = match *rotation_deg {
-                    r if r == 0.0 => (1.0, 0.0),
-                    r if r == 90.0 => (0.0, 1.0),
-                    r if r == -90.0 || r == 270.0 => (0.0, -1.0),
-                    r => (r.to_radians().cos(), r.to_radians().sin()),
+                let r = *rotation_deg;
+                let (cos, sin) = if r == 0.0 {
+                    (1.0, 0.0)
+                } else if r == 90.0 {
+                    (0.0, 1.0)
+                } else if r == -90.0 || r == 270.0 {
+                    (0.0, -1.0)
+                } else {
+                    (r.to_radians().cos(), r.to_radians().sin())
                 };
                 // Anchor shift runs along the baseline, which points (cos, −sin) on a y-down page.
                 let start = PtMm { x: pos.x + shift * cos, y: pos.y - shift * sin };
