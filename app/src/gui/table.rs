@@ -275,7 +275,9 @@ impl BedTable {
                                     .hint_text(cell.hint(unit))
                                     .desired_width(room * share),
                             )
-                            .on_hover_text(cell.tip(unit));
+                            .on_hover_ui(|ui| {
+                                ui.label(cell.tip(unit));
+                            });
                         if problems.contains(cell) {
                             mark_invalid(ui, r.rect);
                         }
@@ -395,8 +397,8 @@ impl BedTable {
                 } else {
                     format!("Bed inserted as bed {}; the beds above are renumbered", index + 1)
                 });
-                if n > 1 {
-                    self.note.as_mut().map(|t| t.push_str(", with its covered top above"));
+                if let (true, Some(note)) = (n > 1, self.note.as_mut()) {
+                    note.push_str(", with its covered top above");
                 }
                 // The edited bed's row (if one was left aside) stays; this row is now empty.
                 if self.edit.is_some() {
@@ -520,14 +522,14 @@ impl BedTable {
                     );
                     p.with_clip_rect(clip).text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
                 }
-                let tip = format!(
-                    "{}. Click to select; double-click or F2 to edit in the row above; right-click for insert, split, merge, rank, delete",
-                    describe(b, unit)
-                );
-                let r = match b.base_rank {
-                    Some(rank) => r.on_hover_text(format!("Base ranked {} by you. {tip}", rank.name())),
-                    None => r.on_hover_text(tip),
-                };
+                // Written only while hovered: the table draws thousands of beds a frame apart.
+                let r = r.on_hover_ui(|ui| {
+                    let rank = b.base_rank.map(|r| format!("Base ranked {} by you. ", r.name())).unwrap_or_default();
+                    ui.label(format!(
+                        "{rank}{}. Click to select; double-click or F2 to edit in the row above; right-click for insert, split, merge, rank, delete",
+                        describe(b, unit)
+                    ));
+                });
                 // Named for screen readers (and the window's tests): "Bed 3: 1.9 m sandstone, …".
                 r.widget_info(|| {
                     egui::WidgetInfo::labeled(egui::accesskit::Role::Row, true, format!("Bed {}: {}", i + 1, describe(b, unit)))

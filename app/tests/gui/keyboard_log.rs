@@ -32,10 +32,24 @@ impl Typist {
         (Typist { h, keys: 0 }, data)
     }
 
-    /// Type text one character per frame, as a typist does.
+    /// Type text one character per frame, as a typist does: as a window system reports it, the
+    /// key's press, its text, then its release.
     fn text(&mut self, text: &str) {
         for c in text.chars() {
-            self.h.event(Event::Text(c.to_string()));
+            let key = Key::from_name(&c.to_uppercase().to_string());
+            let event = |pressed| {
+                key.map(|key| Event::Key {
+                    key,
+                    physical_key: None,
+                    pressed,
+                    repeat: false,
+                    modifiers: Modifiers::NONE,
+                })
+            };
+            self.h
+                .input_mut()
+                .events
+                .extend(event(true).into_iter().chain([Event::Text(c.to_string())]).chain(event(false)));
             self.h.step();
             self.keys += 1;
         }

@@ -98,10 +98,12 @@ impl BedTable {
             }
             return;
         }
+        // The first text typed (a window system sends the key's press before its text).
         let starts_bed = ctx.input(|i| {
-            i.events.iter().find(|e| is_typing(e)).is_some_and(
-                |e| matches!(e, egui::Event::Text(t) if t.starts_with(|c: char| c.is_ascii_digit() || c == '.')),
-            )
+            i.events
+                .iter()
+                .find_map(|e| if let egui::Event::Text(t) = e { Some(t) } else { None })
+                .is_some_and(|t| t.starts_with(|c: char| c.is_ascii_digit() || c == '.'))
         });
         if starts_bed && self.edit.is_none() && self.new_row[Cell::Thickness as usize].is_empty() {
             self.focus(ctx, Cell::Thickness);
