@@ -6,7 +6,8 @@ read before it. Prints, and appends to the results file, a Markdown table per si
 of each and the ratio of the medians (peer / aggrade).
 
 Usage: python3 compare.py AGGRADE_BIN PEER_PYTHON OUT_DIR RESULTS.md N:RUNS[:PEER_RUNS] ...
-  e.g. N=10000 with 5 runs each: 10000:5; N=100000 with 3 aggrade runs and 1 peer run: 100000:3:1.
+  e.g. N=10000 with 5 runs each: 10000:5; N=100000 with 3 aggrade runs and 1 peer run: 100000:3:1
+  (PEER_RUNS 0: aggrade alone).
 Called by scripts/bench-export-peer.sh, which makes the beds and the peer's virtual environment.
 """
 import os
@@ -52,6 +53,7 @@ def main():
                     got[who].append(r)
                     print(f"{n} beds, {who} run {k + 1}: {r['wall']:.2f} s wall, {r['user']:.2f} s user, "
                           f"{r['rss_mb']:.0f} MB, load {r['load']}", file=sys.stderr, flush=True)
+        got = {who: rs for who, rs in got.items() if rs}
         med = {who: statistics.median(r["wall"] for r in rs) for who, rs in got.items()}
         lines.append(f"### {n} beds")
         lines.append("")
@@ -64,8 +66,9 @@ def main():
             rss = max(r["rss_mb"] for r in rs)
             lines.append(f"| {who} | {len(rs)} | {walls} | {med[who]:.2f} s | {user:.2f} s | {rss:.0f} MB | {loads} |")
         lines.append("")
-        lines.append(f"**peer / aggrade (medians of wall time): {med['peer'] / med['aggrade']:.0f}×**")
-        lines.append("")
+        if "peer" in med and "aggrade" in med:
+            lines.append(f"**peer / aggrade (medians of wall time): {med['peer'] / med['aggrade']:.0f}×**")
+            lines.append("")
     text = "\n".join(lines)
     print(text)
     with open(results, "a") as f:
