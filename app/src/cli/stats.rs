@@ -9,7 +9,7 @@ use aggrade_core::analysis::paleocurrents::{
     circular_summary, per_bed, readings_in_interval, rose_bins, section_readings, CircularParams,
     CircularSummary, DataKind, RoseParams,
 };
-use aggrade_core::model::{LithologyFamily, Section};
+use aggrade_core::model::{LengthUnit, LithologyFamily, Section};
 use serde_json::{json, Value};
 use std::fmt::Write as _;
 use std::path::PathBuf;
@@ -108,6 +108,20 @@ pub fn bounds_from_cuts(total_m: f64, cuts_m: &[f64]) -> Vec<f64> {
     bounds.extend(cuts);
     bounds.push(total_m);
     bounds
+}
+
+/// The unit a section's heights are written in: feet for a section logged in feet, else metres
+/// (centimetres read poorly for heights of tens of metres). JSON stays in metres.
+pub fn height_unit(section: &Section) -> LengthUnit {
+    match section.display_unit {
+        LengthUnit::Foot => LengthUnit::Foot,
+        _ => LengthUnit::Metre,
+    }
+}
+
+/// A count with its noun in the right number: "1 section", "0 sections", "3 readings".
+pub fn counted(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
 }
 
 /// What the intervals are between, in words.
@@ -346,6 +360,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
     for s in &sections {
         let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params, args.states);
         let interp = aggrade_core::rules::interpret(s, &rules);
+        let unit = height_unit(s);
         let bounds = bounds_from_cuts(s.total_thickness_m(), &interp.cut_heights);
         let intervals: Vec<Stretch> = if bounds.len() > 2 {
             bounds
@@ -371,11 +386,11 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
         } else {
             writeln!(
                 out,
-                "Section {:?}: {:.2} m, {} beds, {} paleocurrent readings",
+                "Section {:?}: {}, {}, {}",
                 s.name,
-                s.total_thickness_m(),
-                s.beds.len(),
-                section_readings(s).len()
+                unit.length(s.total_thickness_m()),
+                counted(s.beds.len(), "bed", "beds"),
+                counted(section_readings(s).len(), "paleocurrent reading", "paleocurrent readings")
             )?;
             print_stretch(&mut out, &whole)?;
             let beds = per_bed(s, &params).unwrap_or_default();
@@ -385,10 +400,10 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
             for b in beds {
                 writeln!(
                     out,
-                    "    bed {} (id {}, base {:.2} m): n = {}, mean {}, R̄ {:.3}, Rayleigh p {}",
+                    "    bed {} (id {}, base {}): n = {}, mean {}, R̄ {:.3}, Rayleigh p {}",
                     b.bed_index + 1,
                     s.beds[b.bed_index].id.0,
-                    b.base_m,
+                    unit.length(b.base_m),
                     b.summary.n,
                     b.summary.mean_azimuth_deg.map(|m| format!("{m:.1}°")).unwrap_or_else(|| "none".into()),
                     b.summary.mean_resultant_length,
@@ -398,9 +413,10 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
             for st in &intervals {
                 writeln!(
                     out,
-                    "Interval {:.2}–{:.2} m ({})",
-                    st.base_m,
-                    st.top_m,
+                    "Interval {:.2}–{:.2} {} ({})",
+                    unit.from_metres(st.base_m),
+                    unit.from_metres(st.top_m),
+                    unit.name(),
                     cuts_text(interp.cuts_are_accepted)
                 )?;
                 print_stretch(&mut out, st)?;

@@ -341,3 +341,52 @@ print(json.dumps({"rows": len(rows), "beds": len(want), "worst": worst}))
     // The CSV rounds to 4 decimals (±0.00005).
     assert!(o["worst"].as_f64().expect("number") < 1e-4, "{o}");
 }
+
+#[test]
+fn stats_text_is_in_the_display_unit_of_a_section_logged_in_feet() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    // Logged in feet: 10 + 5 + 3.3 = 18.3 ft (5.578 m; 1 ft = 0.3048 m exactly, international
+    // yard and pound agreement, 1959).
+    let feet = dir.path().join("feet.csv");
+    std::fs::write(
+        &feet,
+        "thickness_ft,lithology,grain,paleocurrents\n10,mudstone,clay,\n5,sandstone,medium sand,10;20;30\n3.3,mudstone,clay,\n",
+    )
+    .expect("write");
+    let out = aggrade(&["stats", feet.to_str().expect("utf-8")]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8_lossy(&out.stdout).to_string();
+    assert!(text.contains("Section \"feet\": 18.30 ft, 3 beds, 3 paleocurrent readings"), "{text}");
+    assert!(text.contains("bed 2 (id 2, base 10.00 ft): n = 3"), "{text}");
+    // No height or thickness in metres anywhere in the text.
+    for line in
+        text.lines().filter(|l| l.starts_with("Section") || l.starts_with("Interval") || l.contains("base "))
+    {
+        assert!(!line.contains(" m,") && !line.contains(" m)") && !line.contains(" m "), "{line}");
+    }
+    // The JSON stays in metres (its fields are documented in metres): 18.3 ft = 5.57784 m.
+    let v = stdout_json(&aggrade(&["stats", feet.to_str().expect("utf-8"), "--json"]));
+    assert!((v["top"].as_f64().expect("top") - 18.3 * 0.3048).abs() < 1e-9, "{}", v["top"]);
+
+    // One bed, one reading: counted in the singular.
+    let one = dir.path().join("one.csv");
+    std::fs::write(&one, "thickness_m,lithology,grain,paleocurrents\n2,sandstone,fine sand,45\n")
+        .expect("write");
+    let out = aggrade(&["stats", one.to_str().expect("utf-8")]);
+    let text = String::from_utf8_lossy(&out.stdout).to_string();
+    assert!(text.contains("Section \"one\": 2.00 m, 1 bed, 1 paleocurrent reading\n"), "{text}");
+}
+
+#[test]
+fn the_feet_sample_section_reports_in_feet() {
+    let pell = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../sample_sections/pell_butte.csv");
+    let out = aggrade(&["stats", pell.to_str().expect("utf-8")]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8_lossy(&out.stdout).to_string();
+    // The sample's thickness_ft column sums to 141.2 ft.
+    assert!(text.starts_with("Section \"pell_butte\": 141.20 ft, "), "{text}");
+    assert!(
+        text.lines().filter(|l| l.trim_start().starts_with("bed ")).all(|l| l.contains(" ft)")),
+        "{text}"
+    );
+}

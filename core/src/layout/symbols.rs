@@ -2,7 +2,7 @@
 //! roses.
 
 use super::items::{Item, PtMm, Rgba};
-use super::style::{solid, GREY, INK, SMALL_PT, THIN_MM};
+use super::style::{solid, INK, SMALL_PT, THIN_MM};
 use super::text::{text, width};
 use crate::model::Structure;
 
@@ -240,6 +240,10 @@ pub fn paleocurrent_rose(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out
     }
 }
 
+/// Colour of the rays of a fan: dark enough to read at small sizes, apart from the ink of the
+/// mean arrow.
+pub const RAY_GREY: Rgba = Rgba(70, 70, 70, 255);
+
 /// Readings up to this many are drawn as a fan of rays; more as a rose.
 pub const FAN_MAX_READINGS: usize = 3;
 
@@ -267,7 +271,7 @@ fn toward(centre: PtMm, azimuth_deg: f64, length_mm: f64) -> PtMm {
     PtMm { x: centre.x + length_mm * a.sin(), y: centre.y - length_mm * a.cos() }
 }
 
-/// A fan of a few readings from one centre: a thin grey ray per reading out to `radius_mm`, each
+/// A fan of a few readings from one centre: a thin dark grey ray per reading out to `radius_mm`, each
 /// ending in a short tick, and the vector mean as a bold arrow from the centre, R̄ × radius long
 /// (left out when the readings cancel). Rays that start at a common centre stay apart at their
 /// tips however close the readings are to each other in space, unlike arrows drawn through the
@@ -276,12 +280,12 @@ pub fn paleocurrent_fan(centre: PtMm, readings_deg: &[f64], radius_mm: f64, out:
     let readings: Vec<f64> = readings_deg.iter().copied().filter(|a| a.is_finite()).collect();
     for &a in &readings {
         let tip = toward(centre, a, radius_mm);
-        out.push(Item::Polyline { points: vec![centre, tip], stroke: solid(THIN_MM, GREY) });
+        out.push(Item::Polyline { points: vec![centre, tip], stroke: solid(THIN_MM * 1.2, RAY_GREY) });
         // A tick across the tip, so each ray ends visibly.
         let t = radius_mm * 0.12;
         out.push(Item::Polyline {
             points: vec![toward(tip, a + 90.0, t), toward(tip, a - 90.0, t)],
-            stroke: solid(THIN_MM, GREY),
+            stroke: solid(THIN_MM * 1.2, RAY_GREY),
         });
     }
     if let Some((mean, rbar)) = vector_mean(&readings) {
@@ -383,11 +387,11 @@ mod tests {
         assert!((reach(wedges[1]) - 1.0).abs() < 1e-9);
     }
 
-    /// Ends of the rays of a fan (the grey two-point lines from the centre).
+    /// Ends of the rays of a fan (the dark grey two-point lines from the centre).
     fn ray_tips(out: &[Item], centre: PtMm) -> Vec<PtMm> {
         out.iter()
             .filter_map(|i| match i {
-                Item::Polyline { points, stroke } if stroke.color == GREY && points[0] == centre => {
+                Item::Polyline { points, stroke } if stroke.color == RAY_GREY && points[0] == centre => {
                     Some(points[1])
                 }
                 _ => None,

@@ -46,6 +46,13 @@ pub fn fmt_proportion(p: Option<f64>) -> String {
     p.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into())
 }
 
+/// An optional proportion (0–1) as a whole percentage ("21 %"), or "n/a".
+pub fn fmt_percent(p: Option<f64>) -> String {
+    p.map(|p| format!("{:.0} %", 100.0 * p)).unwrap_or_else(|| "n/a".into())
+}
+
+pub use crate::cli::stats::counted;
+
 /// Draw a table of text cells with a bold header row, in a horizontal scroll area when wide.
 pub fn text_table(ui: &mut egui::Ui, id: &str, header: &[&str], rows: &[Vec<String>]) {
     egui::ScrollArea::horizontal().id_salt(id).show(ui, |ui| {
@@ -79,5 +86,10 @@ mod tests {
         assert_eq!(fmt_p(0.01234), "0.0123");
         assert_eq!(fmt_proportion(None), "n/a");
         assert_eq!(fmt_proportion(Some(0.4567)), "0.457");
+        assert_eq!(fmt_percent(Some(0.4567)), "46 %");
+        assert_eq!(fmt_percent(None), "n/a");
+        assert_eq!(counted(1, "section", "sections"), "1 section");
+        assert_eq!(counted(0, "section", "sections"), "0 sections");
+        assert_eq!(counted(2, "reading", "readings"), "2 readings");
     }
 }

@@ -17,7 +17,7 @@ use stats::StatsView;
 use std::path::PathBuf;
 
 #[cfg(feature = "test-hooks")]
-pub use panel::datum_choices;
+pub use panel::{datum_choices, PANE_WIDTH as PANEL_PANE_WIDTH};
 
 /// Enough of a document to tell when it changed: the revision counter, plus the file and the
 /// sections' names and sizes (a newly opened document starts again at revision 0).

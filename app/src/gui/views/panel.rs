@@ -2,18 +2,37 @@
 //! drawn by the same painter as the column (so screen and print agree), with zoom and pan, a
 //! datum picker, tie lines, proportions and export to PDF or SVG.
 
-use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
+use super::common::{caution, counted, fmt_percent, text_table, ViewCtx, ViewsOutcome};
 use crate::gui::chooser::{PickFor, SaveKind};
 use crate::gui::error::{WriteError, Written};
 use crate::gui::painter::{self, ItemIndex, MmToScreen};
+use crate::gui::plots::plot_unit;
 use crate::gui::theme;
 use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
 use aggrade_core::layout::{
     panel_layout, section_markers, Datum, LayoutOptions, Orientation, PanelError, PanelLayout, PanelOptions,
     Paper, PrintMeta,
 };
-use aggrade_core::model::Project;
+use aggrade_core::model::{LengthUnit, Project, Section};
 use std::path::Path;
+
+/// Default width of the controls on the left of the panel window, points: wide enough for the
+/// section table (name, position, datum height, channel bodies) without clipping.
+pub const PANE_WIDTH: f32 = 440.0;
+
+/// A height (m) of `section` in its display unit: "24.60 m", "80.71 ft".
+fn height_text(section: &Section, h: f64) -> String {
+    plot_unit(section).length(h).to_string()
+}
+
+/// The first letter in capitals.
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    match c.next() {
+        Some(f) => f.to_uppercase().chain(c).collect(),
+        None => String::new(),
+    }
+}
 
 /// A level the panel can hang on, as offered in the datum picker.
 #[derive(Debug, Clone, PartialEq)]
@@ -45,7 +64,7 @@ pub fn datum_choices(project: &Project) -> Vec<DatumChoice> {
             }
         }
     }
-    let secs = |count: usize| if count == 1 { "1 section".to_string() } else { format!("{count} sections") };
+    let secs = |count: usize| counted(count, "section", "sections");
     let mut out = vec![DatumChoice { datum: Datum::Base, label: "Section base".into() }];
     for (name, (count, accepted, unnamed)) in named {
         let label = match unnamed {
@@ -230,11 +249,15 @@ impl PanelView {
             .resizable(true)
             .vscroll(false)
             .show(ctx, |ui| {
-                egui::Panel::left("panel_view_controls").resizable(true).default_size(370.0).show(ui, |ui| {
-                    egui::ScrollArea::vertical().id_salt("panel_view_side").show(ui, |ui| {
-                        self.controls(ui, v, out);
+                egui::Panel::left("panel_view_controls")
+                    .resizable(true)
+                    .default_size(PANE_WIDTH)
+                    .min_size(300.0)
+                    .show(ui, |ui| {
+                        egui::ScrollArea::vertical().id_salt("panel_view_side").show(ui, |ui| {
+                            self.controls(ui, v, out);
+                        });
                     });
-                });
                 egui::CentralPanel::default().show(ui, |ui| self.canvas(ui));
             });
         self.open = open;
@@ -243,7 +266,12 @@ impl PanelView {
     fn controls(&mut self, ui: &mut egui::Ui, v: &mut ViewCtx, out: &mut ViewsOutcome) {
         let Some(cache) = self.cache.as_ref() else { return };
         let c = &mut self.choices;
-        let hang = ui.heading("Hang on").id;
+        let hang = ui
+            .heading("Datum")
+            .on_hover_text(
+                "Sections are hung from this surface: each column is moved up or down so that this                  level lines up across the panel",
+            )
+            .id;
         let current = cache
             .choices
             .iter()
@@ -256,12 +284,14 @@ impl PanelView {
             .show_ui(ui, |ui| {
                 for d in &cache.choices {
                     ui.selectable_value(&mut c.datum, d.datum.clone(), &d.label)
-                        .on_hover_text("Line the sections up on this level");
+                        .on_hover_text("Hang the sections from this level");
                 }
             })
             .response
             .labelled_by(hang)
-            .on_hover_text("Datum: the section base, a named surface or an accepted boundary");
+            .on_hover_text(
+                "The level the sections are hung from: the section base, a named surface or an                  accepted boundary",
+            );
         ui.add_space(4.0);
         egui::Grid::new("panel_options").num_columns(2).spacing([8.0, 4.0]).show(ui, |ui| {
             let lab = ui.label("Vertical scale 1 :").id;
@@ -359,70 +389,83 @@ impl PanelView {
         for n in &layout.notes {
             ui.label(egui::RichText::new(n).small().color(theme::WARN));
         }
-        ui.label(match layout.horizontal.denominator {
-            Some(h) => format!("Gaps at 1:{h:.0} of the distance between sections"),
-            None => "Columns in file order, not spaced by distance".into(),
-        });
+        // The page's own words for the horizontal scale, so the two never disagree.
+        let (said, flagged) = layout.horizontal.statement(layout.columns.len().saturating_sub(1));
+        let said = capitalised(&said);
+        if flagged {
+            ui.colored_label(theme::WARN, said);
+        } else {
+            ui.label(said);
+        }
         ui.add_space(4.0);
         ui.label(egui::RichText::new("Sections (left to right)").strong());
+        let section_of = |k: usize| v.project.sections.get(k);
+        let height = |k: usize, h: f64| match section_of(k) {
+            Some(s) => height_text(s, h),
+            None => format!("{h:.2} m"),
+        };
         let rows: Vec<Vec<String>> = layout
             .columns
             .iter()
             .map(|col| {
                 vec![
                     col.name.clone(),
-                    format!("{:.0}", col.distance_m),
-                    col.datum_height_m.map(|h| format!("{h:.2}")).unwrap_or_else(|| "none (base)".into()),
-                    fmt_proportion(col.channel_proportion),
+                    format!("{:.0} m", col.distance_m),
+                    col.datum_height_m
+                        .map(|h| height(col.section_index, h))
+                        .unwrap_or_else(|| "none (base)".into()),
+                    fmt_percent(col.channel_proportion),
                 ]
             })
             .collect();
-        text_table(
-            ui,
-            "panel_sections",
-            &["section", "position (m)", "datum at (m)", "channel proportion"],
-            &rows,
-        );
+        text_table(ui, "panel_sections", &["section", "along panel", "datum at", "channel bodies"], &rows);
         ui.add_space(4.0);
-        ui.label(egui::RichText::new("Proportion per interval").strong());
+        ui.label(egui::RichText::new("Channel bodies per interval").strong());
         let rows: Vec<Vec<String>> = layout
             .columns
             .iter()
             .flat_map(|col| {
+                let unit = section_of(col.section_index).map(plot_unit).unwrap_or(LengthUnit::Metre);
                 v.interps.get(col.section_index).into_iter().flat_map(move |it| {
                     it.interval_proportions.iter().map(move |iv| {
                         vec![
                             col.name.clone(),
-                            format!("{:.2}–{:.2}", iv.base_m, iv.top_m),
-                            fmt_proportion(iv.proportion),
+                            format!(
+                                "{:.2}\u{2013}{:.2} {}",
+                                unit.from_metres(iv.base_m),
+                                unit.from_metres(iv.top_m),
+                                unit.name()
+                            ),
+                            fmt_percent(iv.proportion),
                         ]
                     })
                 })
             })
             .collect();
-        text_table(ui, "panel_intervals", &["section", "interval (m)", "proportion"], &rows);
+        text_table(ui, "panel_intervals", &["section", "interval", "channel bodies"], &rows);
         ui.add_space(4.0);
-        ui.label(egui::RichText::new(format!("Tie lines ({})", layout.ties.len())).strong());
-        let rows: Vec<Vec<String>> = layout
-            .ties
-            .iter()
-            .map(|t| {
-                let name = |k: usize| layout.columns.get(k).map(|c| c.name.clone()).unwrap_or_default();
-                vec![
-                    t.name.clone(),
-                    format!("{} {:.2} m", name(t.left), t.left_height_m),
-                    format!("{} {:.2} m", name(t.right), t.right_height_m),
-                    if t.linked {
-                        "linked".into()
-                    } else if t.accepted {
-                        "accepted".into()
-                    } else {
-                        "named surface".into()
-                    },
-                ]
-            })
-            .collect();
-        text_table(ui, "panel_ties", &["surface or label", "left", "right", "kind"], &rows);
+        ui.label(
+            egui::RichText::new(capitalised(&counted(layout.ties.len(), "tie line", "tie lines"))).strong(),
+        );
+        for t in &layout.ties {
+            let end = |k: usize, h: f64| match layout.columns.get(k) {
+                Some(c) => format!("{} at {}", c.name, height(c.section_index, h)),
+                None => String::new(),
+            };
+            let kind = if t.linked {
+                "linked"
+            } else if t.accepted {
+                "accepted boundaries"
+            } else {
+                "same surface name"
+            };
+            ui.label(format!(
+                "{} ({kind}): {} \u{2013} {}",
+                t.name,
+                end(t.left, t.left_height_m),
+                end(t.right, t.right_height_m)
+            ));
+        }
         ui.add_space(6.0);
         caution(ui);
     }

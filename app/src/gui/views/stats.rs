@@ -2,8 +2,9 @@
 //! the facies-transition analysis (observed, expected, difference, χ²) with a diagram of the
 //! transitions that occur more often than chance.
 
-use super::common::{caution, fmt_p, text_table, ViewCtx};
+use super::common::{caution, counted, fmt_p, text_table, ViewCtx};
 use crate::cli::stats::{bounds_from_cuts, cuts_text, state_sequence, StateKind};
+use crate::gui::plots::plot_unit;
 use crate::gui::theme;
 use aggrade_core::analysis::markov::{analyse_sequence, TransitionAnalysis, TransitionParams};
 use aggrade_core::analysis::paleocurrents::{
@@ -11,7 +12,7 @@ use aggrade_core::analysis::paleocurrents::{
     CircularParams, CircularSummary, DataKind, PetalScale, RoseBin, RoseBins, RoseParams,
 };
 use aggrade_core::analysis::AnalysisError;
-use aggrade_core::model::Project;
+use aggrade_core::model::{LengthUnit, Project};
 use aggrade_core::rules::Interpretation;
 use egui::{Color32, Pos2, Rect, Shape, Stroke, Vec2};
 
@@ -83,6 +84,8 @@ pub struct StatsResult {
     pub per_bed: Vec<SummaryRow>,
     /// Interval bounds of the chosen section (base, the boundaries cut at, top), m.
     pub interval_bounds_m: Vec<f64>,
+    /// The unit the chosen section's heights are shown in (its display unit).
+    pub unit: LengthUnit,
     /// True when the intervals are cut at accepted boundaries; false when at strong candidate
     /// boundaries, none being accepted yet (as the rules cut the regimes).
     pub cuts_are_accepted: bool,
@@ -110,6 +113,7 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
             per_interval: Vec::new(),
             per_bed: Vec::new(),
             interval_bounds_m: Vec::new(),
+            unit: LengthUnit::Metre,
             cuts_are_accepted: false,
             rose: Err(NoSummary::NoSection),
             rose_mean: None,
@@ -126,12 +130,13 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
         )),
     };
     let bounds = bounds_from_cuts(section.total_thickness_m(), &interp.cut_heights);
+    let unit = plot_unit(section);
     let cuts_are_accepted = interp.cuts_are_accepted;
     let per_interval = match per_interval(section, &bounds, &params) {
         Ok(list) => list
             .into_iter()
             .map(|iv| SummaryRow {
-                what: format!("{:.2}–{:.2} m", iv.base_m, iv.top_m),
+                what: span_text(unit, iv.base_m, iv.top_m),
                 summary: iv.summary.ok_or(NoSummary::FewerThanTwo),
             })
             .collect(),
@@ -141,7 +146,7 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
         Ok(list) => list
             .into_iter()
             .map(|b| SummaryRow {
-                what: format!("bed {} (base {:.2} m)", b.bed_index + 1, b.base_m),
+                what: format!("bed {} (base {})", b.bed_index + 1, unit.length(b.base_m)),
                 summary: Ok(b.summary),
             })
             .collect(),
@@ -172,11 +177,17 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
         per_interval,
         per_bed,
         interval_bounds_m: bounds,
+        unit,
         cuts_are_accepted,
         rose,
         rose_mean,
         transitions,
     }
+}
+
+/// A stretch of section between two heights (m) in `unit`: "0.00–24.60 m", "0.00–80.71 ft".
+pub fn span_text(unit: LengthUnit, base_m: f64, top_m: f64) -> String {
+    format!("{:.2}\u{2013}{:.2} {}", unit.from_metres(base_m), unit.from_metres(top_m), unit.name())
 }
 
 /// The cells of a paleocurrent row: n, mean, R̄, circular s.d., Rayleigh z, p.
@@ -449,7 +460,7 @@ impl StatsView {
                 RoseOf::Interval(k) => r
                     .interval_bounds_m
                     .get(k..k + 2)
-                    .map(|w| format!("{:.2}–{:.2} m", w[0], w[1]))
+                    .map(|w| span_text(r.unit, w[0], w[1]))
                     .unwrap_or_default(),
             };
             egui::ComboBox::from_id_salt("rose_of")
@@ -460,7 +471,7 @@ impl StatsView {
                         ui.selectable_value(
                             &mut c.rose_of,
                             RoseOf::Interval(k),
-                            format!("{:.2}–{:.2} m", w[0], w[1]),
+                            span_text(r.unit, w[0], w[1]),
                         );
                     }
                 })
@@ -485,11 +496,11 @@ impl StatsView {
             Ok(rose) => {
                 let most = rose.bins.iter().map(|b| b.count).max().unwrap_or(0);
                 ui.label(format!(
-                    "n = {}, {} bins of {}°, longest petal {} readings{}",
+                    "n = {}, {} of {}°, longest petal {}{}",
                     rose.n,
-                    rose.bins.len(),
+                    counted(rose.bins.len(), "bin", "bins"),
                     rose.params.bin_width_deg,
-                    most,
+                    counted(most, "reading", "readings"),
                     if rose.params.kind == DataKind::Axial {
                         " (axial: each reading drawn both ways)"
                     } else {
@@ -564,8 +575,11 @@ fn transitions_ui(ui: &mut egui::Ui, t: &TransitionAnalysis) {
     });
     let p = t.p_value.map(fmt_p).unwrap_or_else(|| "n/a (fewer than 3 states)".into());
     ui.label(format!(
-        "χ² = {:.2}, G² = {:.2}, dof = {}, p = {p} ({} transitions)",
-        t.chi_square, t.g_square, t.dof, t.transitions
+        "χ² = {:.2}, G² = {:.2}, dof = {}, p = {p} ({})",
+        t.chi_square,
+        t.g_square,
+        t.dof,
+        counted(t.transitions as usize, "transition", "transitions")
     ));
     if t.small_expected_cells * 5 > t.cells {
         ui.colored_label(
@@ -704,5 +718,27 @@ mod tests {
         assert_eq!(rose.n, 0);
         assert!(rose.bins.iter().all(|b| b.count == 0 && b.radius == 0.0));
         assert!(r.transitions.is_err(), "no beds, no transitions");
+    }
+
+    #[test]
+    fn a_section_logged_in_feet_is_shown_in_feet() {
+        use aggrade_core::model::{Bed, BedId, GrainSize, Lithology, Section, WentworthClass};
+        use aggrade_core::rules::{interpret, RuleParams};
+        let mut s = Section::new("Feet");
+        s.display_unit = LengthUnit::Foot;
+        let sand = Some(GrainSize::Class(WentworthClass::MediumSand));
+        // 3.048 m = 10 ft of mudstone, then 1.524 m = 5 ft of sandstone with three readings.
+        s.beds.push(Bed::new(BedId(1), 3.048, Lithology::Mudstone, None));
+        let mut b = Bed::new(BedId(2), 1.524, Lithology::Sandstone, sand);
+        b.paleocurrents_deg = vec![10.0, 20.0, 30.0];
+        s.beds.push(b);
+        let p = Project::new(vec![s]);
+        let interps: Vec<Interpretation> =
+            p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect();
+        let r = compute(&p, &interps, &StatsChoices::default());
+        assert_eq!(r.unit, LengthUnit::Foot);
+        assert_eq!(r.per_bed[0].what, "bed 2 (base 10.00 ft)");
+        assert!(r.per_interval.iter().all(|row| row.what.ends_with(" ft")), "{:?}", r.per_interval);
+        assert_eq!(span_text(LengthUnit::Foot, 0.0, 4.572), "0.00\u{2013}15.00 ft");
     }
 }

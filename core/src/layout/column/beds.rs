@@ -288,6 +288,7 @@ pub fn draw_contact(contact: Contact, xl: f64, xr: f64, y: f64, out: &mut Vec<It
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::layout::symbols::RAY_GREY;
     use crate::model::{BedId, Lithology, Structure};
     use crate::rules::{interpret, RuleParams};
 
@@ -422,7 +423,7 @@ mod tests {
             .iter()
             .filter_map(|it| match it {
                 Item::Polyline { points, stroke }
-                    if stroke.color == GREY && points[0].x == pc.x_mm + pc.w_mm / 2.0 =>
+                    if stroke.color == RAY_GREY && points[0].x == pc.x_mm + pc.w_mm / 2.0 =>
                 {
                     Some(points[0])
                 }
