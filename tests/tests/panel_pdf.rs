@@ -305,3 +305,47 @@ fn linked_boundaries_are_tied_at_their_heights_with_the_label_beside_the_tie() {
     // Nothing pairs Ash Draw's unlabelled boundary: the counts differ (1 and 0), so no note either.
     assert!(!layout.notes.iter().any(|n| n.contains("without surface names")), "{:?}", layout.notes);
 }
+
+#[test]
+fn the_demo_at_1_500_keeps_its_header_on_the_page_and_its_roses_apart() {
+    // The shipped demo project (four sections 1.15–1.45 km apart) at 1:500 on A3 landscape, as
+    // `aggrade panel demo.aggrade --scale 500 --paper a3 --landscape` draws it.
+    let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections");
+    let p = aggrade_core::io::load(&root.join("demo.aggrade")).expect("demo loads").project;
+    let (layout, v) = layout_and_pdf_on(&p, 500.0, "base");
+    let page = &v["pages"][0];
+    let (w, h) = (f(page, "width"), f(page, "height"));
+    // Every word lies on the page inside its margins (12 mm = 34.0 pt; 0.5 pt for rounding).
+    let margin = LayoutOptions::default().margin_mm * PT_PER_MM;
+    for word in page["words"].as_array().expect("words") {
+        let (x0, x1) = (f(word, "x0"), f(word, "x1"));
+        assert!(x0 >= margin - 0.5 && x1 <= w - margin + 0.5, "{word} runs past the margin of a {w} pt page");
+        assert!(f(word, "top") >= 0.0 && f(word, "bottom") <= h);
+    }
+    // Every gap is widened to the minimum at this scale: the page says it is not to scale and
+    // prints no horizontal scale beside it.
+    assert_eq!(layout.horizontal.widened_gaps.len(), layout.columns.len() - 1);
+    let text = v["pypdf"]["text"][0].as_str().expect("text");
+    assert!(text.contains("NOT to scale"), "{text}");
+    assert!(!text.contains("horizontal scale 1:"), "{text}");
+    assert!(!text.contains("Gaps at 1:"));
+    // The roses' reference circles (grey, 130/255) in one column never overlap: their centres
+    // are at least a diameter apart.
+    let grey = [130.0 / 255.0; 3].map(|v: f64| (v * 10000.0).round() / 10000.0);
+    let mut circles: Vec<(f64, f64, f64)> = Vec::new();
+    for s in page["curves"].as_array().expect("curves") {
+        if s["stroke"].as_bool() == Some(true) && colour_is(&s["stroke_colour"], grey) {
+            let (x0, x1, top, bottom) = (f(s, "x0"), f(s, "x1"), f(s, "top"), f(s, "bottom"));
+            if (x1 - x0 - (bottom - top)).abs() < 0.5 {
+                circles.push(((x0 + x1) / 2.0, (top + bottom) / 2.0, (x1 - x0) / 2.0));
+            }
+        }
+    }
+    assert!(circles.len() >= 8, "the demo's beds with four or more readings draw roses: {circles:?}");
+    for (i, a) in circles.iter().enumerate() {
+        for b in &circles[i + 1..] {
+            let d = ((a.0 - b.0).powi(2) + (a.1 - b.1).powi(2)).sqrt();
+            assert!(d >= a.2 + b.2 - 0.05, "roses at {a:?} and {b:?} overlap");
+        }
+    }
+}
