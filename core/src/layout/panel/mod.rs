@@ -136,7 +136,11 @@ impl PanelOptions {
 pub enum PanelError {
     #[error("the project holds no section to put on a panel")]
     NoSections,
-    #[error("{sections} sections but {interpretations} interpretations were given; give one per section, in the same order")]
+    #[error(
+        "{} but {} given; give one interpretation per section, in the same order",
+        notes::counted(*sections, "section", "sections"),
+        notes::counted(*interpretations, "interpretation was", "interpretations were")
+    )]
     InterpretationCount { sections: usize, interpretations: usize },
     #[error("no section has a surface, correlation label or accepted boundary named {datum:?}; valid datums are \"base\"{}", list_names(.available))]
     UnknownDatum { datum: String, available: Vec<String> },

@@ -21,6 +21,11 @@ pub(super) fn height_unit(section: &Section) -> LengthUnit {
     }
 }
 
+/// A count with its noun in the right number: "1 section", "0 sections".
+pub(super) fn counted(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
 /// A height (m) of `section` as written on the panel: "24.60 m", "80.71 ft".
 pub(super) fn height_text(section: &Section, height_m: f64) -> String {
     height_unit(section).length(height_m).to_string()

@@ -254,6 +254,12 @@ fn bad_input_gets_errors_not_panics() {
         panel_layout(&p, &[], &opts("base"), &PrintMeta::default()),
         Err(PanelError::InterpretationCount { sections: 3, interpretations: 0 })
     ));
+    let one = Project::new(vec![p.sections[0].clone()]);
+    let err = panel_layout(&one, &[], &opts("base"), &PrintMeta::default()).expect_err("no interpretation");
+    assert_eq!(
+        err.to_string(),
+        "1 section but 0 interpretations were given; give one interpretation per section, in the same order"
+    );
     let mut o = opts("base");
     o.layout.scale_denominator = 0.0;
     assert!(panel_layout(&p, &interps(&p), &o, &PrintMeta::default()).is_err());
