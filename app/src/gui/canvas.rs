@@ -404,8 +404,16 @@ impl Canvas {
             }
         }
         let context_bed = self.context_bed;
-        // Hover help for what the pointer rests on (not while dragging: the drag has the pointer).
-        let still = self.drag.is_none() && !ui.input(|i| i.pointer.any_down());
+        // Hover help for what the pointer rests on: not while dragging (the drag has the
+        // pointer), nor after the wheel scrolled the column under a pointer that has not moved
+        // since (the help would change under it frame after frame; it comes back with the
+        // pointer's next move).
+        let still = self.drag.is_none()
+            && !ui.input(|i| {
+                i.pointer.any_down()
+                    || i.is_scrolling()
+                    || i.time_since_last_scroll() <= i.pointer.time_since_last_movement()
+            });
         let help = response.hover_pos().filter(|p| still && p.x > rect.left() + RULER_W).and_then(|p| {
             column_help::help_at_pointer(doc.section(), &column.interp, column.layout(), strip, &t, p)
         });
