@@ -86,59 +86,129 @@ pub(super) fn stream_into(out: &mut Vec<u8>, dict_entries: &[u8], data: &[u8], z
     out.extend_from_slice(b"\nendstream");
 }
 
-/// A page translated and compressed, ready to write: its size and where its content stream's
-/// object body lies in its worker's buffer.
+/// A page translated and compressed, ready to write: its size, its content stream's object body
+/// and the glyphs it shows.
 struct Translated {
     width_mm: f64,
     height_mm: f64,
-    body: std::ops::Range<usize>,
-}
-
-/// One worker's share of a group: the pages in order, their object bodies end to end, and the
-/// glyphs they show.
-struct Share {
-    pages: Vec<Translated>,
-    bodies: Vec<u8>,
+    body: Vec<u8>,
     glyphs: BTreeMap<u16, char>,
 }
 
-/// Translate and compress consecutive pages, reusing one content buffer and one compressor.
-fn translate_share(pages: &[Page]) -> Share {
-    let mut share =
-        Share { pages: Vec::with_capacity(pages.len()), bodies: Vec::new(), glyphs: BTreeMap::new() };
-    let mut z = Deflater::new();
-    let mut content = Vec::new();
-    for page in pages {
-        content = ContentWriter::new(page, content, &mut share.glyphs).page(page);
-        let start = share.bodies.len();
-        stream_into(&mut share.bodies, b"", &content, &mut z);
-        share.pages.push(Translated {
-            width_mm: page.width_mm,
-            height_mm: page.height_mm,
-            body: start..share.bodies.len(),
-        });
-    }
-    share
+/// Translates pages one after another, reusing one content buffer and one compressor (a fresh
+/// compressor's window and tables cost as much in new memory as compressing a page).
+struct Translator {
+    z: Deflater,
+    content: Vec<u8>,
 }
 
-/// Translate pages, spread over the processor's cores (at most 8) in consecutive shares.
-fn translate(pages: &[Page]) -> Vec<Share> {
-    let threads = std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1).clamp(1, 8);
+impl Translator {
+    fn new() -> Self {
+        Translator { z: Deflater::new(), content: Vec::new() }
+    }
+
+    fn page(&mut self, page: &Page) -> Translated {
+        let mut glyphs = BTreeMap::new();
+        self.content = ContentWriter::new(page, std::mem::take(&mut self.content), &mut glyphs).page(page);
+        let mut body = Vec::new();
+        stream_into(&mut body, b"", &self.content, &mut self.z);
+        Translated { width_mm: page.width_mm, height_mm: page.height_mm, body, glyphs }
+    }
+}
+
+/// How many threads translate pages: the processor's cores, at most 8.
+fn worker_count() -> usize {
+    std::thread::available_parallelism().map(|n| n.get()).unwrap_or(1).clamp(1, 8)
+}
+
+/// Translate borrowed pages, spread over the cores in consecutive runs; results in page order.
+fn translate(pages: &[Page]) -> Vec<Translated> {
+    let threads = worker_count();
     if threads == 1 || pages.len() < 2 {
-        return vec![translate_share(pages)];
+        let mut t = Translator::new();
+        return pages.iter().map(|p| t.page(p)).collect();
     }
     let per = pages.len().div_ceil(threads);
     std::thread::scope(|scope| {
-        let handles: Vec<_> =
-            pages.chunks(per).map(|chunk| scope.spawn(move || translate_share(chunk))).collect();
+        let handles: Vec<_> = pages
+            .chunks(per)
+            .map(|chunk| {
+                scope.spawn(move || {
+                    let mut t = Translator::new();
+                    chunk.iter().map(|p| t.page(p)).collect::<Vec<_>>()
+                })
+            })
+            .collect();
         // A worker only panics on a defect; re-raise it here rather than lose pages.
-        handles.into_iter().map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e))).collect()
+        handles.into_iter().flat_map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e))).collect()
     })
 }
 
-/// Writes a PDF page by page to any [`Write`]: pages given to [`PdfWriter::add_page`] are kept
-/// until a group is full, then translated and compressed (in the background, while the next group
-/// is laid out) and written; [`PdfWriter::finish`] writes the rest. The same pages and info give the same bytes, whatever the group size.
+/// What a pool worker sends back: the page's number and its translation (or the panic that
+/// stopped it, re-raised by the writer).
+type Done = (usize, std::thread::Result<Translated>);
+
+/// Worker threads that translate owned pages as they are laid out, each keeping its own
+/// compressor and buffer for the whole document. Results come back in any order; the writer
+/// puts them back in page order.
+struct Pool {
+    jobs: Option<std::sync::mpsc::Sender<(usize, Page)>>,
+    results: std::sync::mpsc::Receiver<Done>,
+    workers: Vec<std::thread::JoinHandle<()>>,
+    /// Pages sent to the workers, pages written.
+    sent: usize,
+    written: usize,
+    /// Translations that arrived before an earlier page's.
+    early: BTreeMap<usize, Translated>,
+}
+
+impl Pool {
+    fn new(threads: usize) -> Self {
+        use std::sync::{mpsc, Arc, Mutex};
+        let (jobs, job_rx) = mpsc::channel::<(usize, Page)>();
+        let (done_tx, results) = mpsc::channel::<Done>();
+        let job_rx = Arc::new(Mutex::new(job_rx));
+        let workers = (0..threads)
+            .map(|_| {
+                let (job_rx, done_tx) = (Arc::clone(&job_rx), done_tx.clone());
+                std::thread::spawn(move || {
+                    let mut t = Translator::new();
+                    loop {
+                        // The lock is held only while taking a job; a poisoned lock means
+                        // another worker panicked, which the writer reports.
+                        let job = match job_rx.lock() {
+                            Ok(rx) => rx.recv(),
+                            Err(_) => return,
+                        };
+                        let Ok((index, page)) = job else { return };
+                        let done = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| t.page(&page)));
+                        let failed = done.is_err();
+                        if done_tx.send((index, done)).is_err() || failed {
+                            return;
+                        }
+                    }
+                })
+            })
+            .collect();
+        Pool { jobs: Some(jobs), results, workers, sent: 0, written: 0, early: BTreeMap::new() }
+    }
+}
+
+impl Drop for Pool {
+    fn drop(&mut self) {
+        // Closing the job channel ends the workers.
+        self.jobs = None;
+        for w in self.workers.drain(..) {
+            let _ = w.join();
+        }
+    }
+}
+
+/// Writes a PDF page by page to any [`Write`]. Pages given to [`PdfWriter::add_page`] go to
+/// worker threads as they come and are written, in order, as soon as they are translated; at most
+/// a group's worth ([`PAGES_PER_GROUP`]) is waiting at any time, so memory does not grow with the
+/// document. [`PdfWriter::add_pages`] translates borrowed pages a group at a time. The same pages
+/// and info give the same bytes, whatever the group size and however the pages were added.
 pub struct PdfWriter<W: Write> {
     out: W,
     /// Bytes written so far (the next object's offset).
@@ -148,11 +218,10 @@ pub struct PdfWriter<W: Write> {
     page_ids: Vec<u32>,
     glyphs: BTreeMap<u16, char>,
     info: PdfInfo,
-    pending: Vec<Page>,
     pages_per_group: usize,
-    /// The group being translated in the background while the next one is laid out, with its
-    /// page count.
-    in_flight: Option<(std::thread::JoinHandle<Vec<Share>>, usize)>,
+    /// Started with the first page given by value (none on a single core: pages are then
+    /// translated where they are added).
+    pool: Option<Pool>,
 }
 
 impl<W: Write> PdfWriter<W> {
@@ -161,7 +230,7 @@ impl<W: Write> PdfWriter<W> {
         Self::with_group_size(out, info, PAGES_PER_GROUP)
     }
 
-    /// Start a PDF that translates `pages_per_group` pages at a time (at least 1).
+    /// Start a PDF that holds at most `pages_per_group` pages not yet written (at least 1).
     pub fn with_group_size(out: W, info: &PdfInfo, pages_per_group: usize) -> io::Result<Self> {
         let mut w = PdfWriter {
             out,
@@ -170,9 +239,8 @@ impl<W: Write> PdfWriter<W> {
             page_ids: Vec::new(),
             glyphs: BTreeMap::new(),
             info: info.clone(),
-            pending: Vec::new(),
             pages_per_group: pages_per_group.max(1),
-            in_flight: None,
+            pool: None,
         };
         // PDF 1.7; the second line's bytes above 127 mark the file as binary (ISO 32000-1 §7.5.2).
         w.put(b"%PDF-1.7\n%\xE2\xE3\xCF\xD3\n")?;
@@ -181,41 +249,67 @@ impl<W: Write> PdfWriter<W> {
 
     /// Pages added so far.
     pub fn page_count(&self) -> usize {
-        self.page_ids.len() + self.pending.len() + self.in_flight.as_ref().map_or(0, |(_, n)| *n)
+        self.page_ids.len() + self.pool.as_ref().map_or(0, |p| p.sent - p.written)
     }
 
-    /// Add a page; it is written when its group is full (or at [`PdfWriter::finish`]). A full
-    /// group is translated in the background while the caller lays out the next one; it is
-    /// written when that one is full, so at most two groups are held.
+    /// Add a page: it is translated by a worker while the caller lays out the next ones, and
+    /// written as soon as the pages before it are. Waits for the workers when a group's worth of
+    /// pages is not yet written.
     pub fn add_page(&mut self, page: Page) -> io::Result<()> {
-        self.pending.push(page);
-        if self.pending.len() >= self.pages_per_group {
-            let group = std::mem::take(&mut self.pending);
-            self.collect()?;
-            let n = group.len();
-            self.in_flight = Some((std::thread::spawn(move || translate(&group)), n));
+        let threads = worker_count();
+        if threads == 1 {
+            let t = Translator::new().page(&page);
+            return self.write_translated(t);
         }
-        Ok(())
+        let pool = self.pool.get_or_insert_with(|| Pool::new(threads));
+        let index = pool.sent;
+        if let Some(jobs) = &pool.jobs {
+            if jobs.send((index, page)).is_err() {
+                // Every worker has stopped, which only a panic does: report it.
+                return self.drain(0);
+            }
+        }
+        pool.sent += 1;
+        self.drain(self.pages_per_group)
     }
 
-    /// Write the group translated in the background, if there is one.
-    fn collect(&mut self) -> io::Result<()> {
-        if let Some((handle, _)) = self.in_flight.take() {
-            // The translation only panics on a defect; re-raise it here rather than lose pages.
-            let shares = handle.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
-            self.write_shares(shares)?;
+    /// Write translated pages in order until at most `waiting` pages are still out.
+    fn drain(&mut self, waiting: usize) -> io::Result<()> {
+        loop {
+            let Some(pool) = self.pool.as_mut() else { return Ok(()) };
+            if let Some(t) = pool.early.remove(&pool.written) {
+                pool.written += 1;
+                self.write_translated(t)?;
+                continue;
+            }
+            let out = pool.sent - pool.written;
+            let next = if out > waiting {
+                match pool.results.recv() {
+                    Ok(done) => done,
+                    Err(_) => {
+                        return Err(io::Error::other("the PDF workers stopped before every page was written"))
+                    }
+                }
+            } else {
+                match pool.results.try_recv() {
+                    Ok(done) => done,
+                    Err(_) => return Ok(()),
+                }
+            };
+            let (index, result) = next;
+            // A worker only panics on a defect; re-raise it here rather than lose pages.
+            let t = result.unwrap_or_else(|e| std::panic::resume_unwind(e));
+            pool.early.insert(index, t);
         }
-        Ok(())
     }
 
-    /// Translate and write pages now, in groups (pages still waiting from
-    /// [`PdfWriter::add_page`] go first).
+    /// Translate and write pages now, in groups (pages still out with the workers go first).
     pub fn add_pages(&mut self, pages: &[Page]) -> io::Result<()> {
-        self.collect()?;
-        let waiting = std::mem::take(&mut self.pending);
-        self.write_pages(&waiting)?;
+        self.drain(0)?;
         for group in pages.chunks(self.pages_per_group) {
-            self.write_pages(group)?;
+            for t in translate(group) {
+                self.write_translated(t)?;
+            }
         }
         Ok(())
     }
@@ -244,48 +338,36 @@ impl<W: Write> PdfWriter<W> {
         self.put(b"\nendobj\n")
     }
 
-    fn write_pages(&mut self, pages: &[Page]) -> io::Result<()> {
-        if pages.is_empty() {
-            return Ok(());
+    /// Write a translated page: its content stream, then its page dictionary.
+    fn write_translated(&mut self, t: Translated) -> io::Result<()> {
+        // The first character seen for a glyph wins, in page order.
+        for (g, c) in t.glyphs {
+            self.glyphs.entry(g).or_insert(c);
         }
-        self.write_shares(translate(pages))
-    }
-
-    /// Write translated pages: each one's content stream, then its page dictionary.
-    fn write_shares(&mut self, shares: Vec<Share>) -> io::Result<()> {
-        for share in shares {
-            // The first character seen for a glyph wins, in page order, as in one pass.
-            for (g, c) in share.glyphs {
-                self.glyphs.entry(g).or_insert(c);
-            }
-            for t in share.pages {
-                let content = self.new_id();
-                self.object(content, &share.bodies[t.body])?;
-                let page = self.new_id();
-                let mut d = b"<< /Type /Page /Parent ".to_vec();
-                uint(&mut d, u64::from(PAGE_TREE));
-                d.extend_from_slice(b" 0 R /MediaBox [0 0 ");
-                num(&mut d, t.width_mm * PT_PER_MM, 3);
-                d.push(b' ');
-                num(&mut d, t.height_mm * PT_PER_MM, 3);
-                d.extend_from_slice(b"] /Resources ");
-                uint(&mut d, u64::from(RESOURCES));
-                d.extend_from_slice(b" 0 R /Contents ");
-                uint(&mut d, u64::from(content));
-                d.extend_from_slice(b" 0 R >>");
-                self.object(page, &d)?;
-                self.page_ids.push(page);
-            }
-        }
+        let content = self.new_id();
+        self.object(content, &t.body)?;
+        let page = self.new_id();
+        let mut d = b"<< /Type /Page /Parent ".to_vec();
+        uint(&mut d, u64::from(PAGE_TREE));
+        d.extend_from_slice(b" 0 R /MediaBox [0 0 ");
+        num(&mut d, t.width_mm * PT_PER_MM, 3);
+        d.push(b' ');
+        num(&mut d, t.height_mm * PT_PER_MM, 3);
+        d.extend_from_slice(b"] /Resources ");
+        uint(&mut d, u64::from(RESOURCES));
+        d.extend_from_slice(b" 0 R /Contents ");
+        uint(&mut d, u64::from(content));
+        d.extend_from_slice(b" 0 R >>");
+        self.object(page, &d)?;
+        self.page_ids.push(page);
         Ok(())
     }
 
     /// Write the remaining pages, the font, page tree, catalogue, information dictionary,
     /// cross-reference table and trailer; gives back the output.
     pub fn finish(mut self) -> io::Result<W> {
-        self.collect()?;
-        let waiting = std::mem::take(&mut self.pending);
-        self.write_pages(&waiting)?;
+        self.drain(0)?;
+        self.pool = None;
 
         let next = self.offsets.len() as u32 + 1;
         let (font, next) = font_objects(&self.glyphs, FONT, next);
@@ -451,5 +533,26 @@ mod tests {
         let text = text(0);
         assert!(text.contains("/Type /Pages /Count 2"));
         assert!(text.ends_with("%%EOF\n"));
+    }
+
+    #[test]
+    fn pages_added_one_by_one_give_the_bytes_of_pages_added_together() {
+        use crate::layout::sample::generated_section;
+        use crate::layout::{pages, LayoutOptions, PrintMeta};
+        let (s, i) = generated_section(400);
+        let p = pages(&s, &i, &LayoutOptions::default(), &PrintMeta::default());
+        assert!(p.len() > 4, "{} pages", p.len());
+        let info = PdfInfo { title: "Σ test".into(), author: String::new(), creation_date: 0 };
+        let together = write_pdf(&p, &info);
+        // However few pages may wait (1: the writer waits for each page in turn), the pages
+        // come out in order and the bytes are the same.
+        for waiting in [1, 3, PAGES_PER_GROUP] {
+            let mut w = PdfWriter::with_group_size(Vec::new(), &info, waiting).expect("memory");
+            for page in p.iter().cloned() {
+                w.add_page(page).expect("memory");
+            }
+            assert_eq!(w.page_count(), p.len());
+            assert!(w.finish().expect("memory") == together, "{waiting} pages waiting");
+        }
     }
 }
