@@ -3,6 +3,7 @@
 mod pdf;
 mod pdf_content;
 mod pdf_font;
+mod pdf_stream;
 mod png;
 mod svg;
 

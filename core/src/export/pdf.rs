@@ -10,6 +10,7 @@
 
 use super::pdf_content::{num, uint, ContentWriter, FONT_RESOURCE, PT_PER_MM};
 use super::pdf_font::font_objects;
+use super::pdf_stream::{stream_into, Deflater};
 use crate::layout::Page;
 use std::collections::BTreeMap;
 use std::io::{self, Write};
@@ -36,55 +37,6 @@ const RESOURCES: u32 = 3;
 const FONT: u32 = 4;
 /// The first number handed out for pages.
 const FIRST_FREE: u32 = 5;
-
-/// A zlib compressor and its output buffer, kept from one stream to the next: a new compressor
-/// for every page cost as much again in fresh memory (its window and tables) as compressing.
-pub(super) struct Deflater {
-    z: flate2::Compress,
-    buf: Vec<u8>,
-}
-
-impl Deflater {
-    pub(super) fn new() -> Self {
-        Deflater { z: flate2::Compress::new(flate2::Compression::fast(), true), buf: Vec::new() }
-    }
-
-    /// `data` deflated (zlib format, fast level), or `None` if that does not make it smaller
-    /// (or fails): store it as it is.
-    pub(super) fn deflate(&mut self, data: &[u8]) -> Option<&[u8]> {
-        self.z.reset();
-        self.buf.clear();
-        self.buf.reserve(data.len() / 2 + 64);
-        loop {
-            let done = usize::try_from(self.z.total_in()).ok()?;
-            let status =
-                self.z.compress_vec(&data[done..], &mut self.buf, flate2::FlushCompress::Finish).ok()?;
-            if status == flate2::Status::StreamEnd {
-                break;
-            }
-            self.buf.reserve(self.buf.capacity().max(4096));
-        }
-        (self.buf.len() + 19 < data.len()).then_some(&self.buf)
-    }
-}
-
-/// Append a stream object's body: `<< … /Length n [/Filter /FlateDecode] >> stream … endstream`,
-/// compressed when that helps.
-pub(super) fn stream_into(out: &mut Vec<u8>, dict_entries: &[u8], data: &[u8], z: &mut Deflater) {
-    let (body, filter): (&[u8], &[u8]) = match z.deflate(data) {
-        Some(c) => (c, b" /Filter /FlateDecode"),
-        None => (data, b""),
-    };
-    out.reserve(body.len() + dict_entries.len() + 64);
-    out.extend_from_slice(b"<< ");
-    out.extend_from_slice(dict_entries);
-    out.extend_from_slice(b"/Length ");
-    uint(out, body.len() as u64);
-    out.extend_from_slice(filter);
-    out.extend_from_slice(b" >>\nstream\n");
-    out.extend_from_slice(body);
-    out.extend_from_slice(b"\nendstream");
-}
 
 /// A page translated and compressed, ready to write: its size, its content stream's object body
 /// and the glyphs it shows.

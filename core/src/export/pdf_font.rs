@@ -8,6 +8,7 @@
 //! each glyph its character back, so text is searchable and copies as itself.
 
 use super::pdf_content::{hex16, num, uint};
+use super::pdf_stream::{stream_into, Deflater};
 use crate::layout::{metrics, DEJAVU_SANS};
 use read_fonts::{FontRef, TableProvider};
 use std::collections::BTreeMap;
@@ -97,7 +98,7 @@ fn facts() -> Facts {
 /// A stream object's body, compressed when that helps.
 fn stream_object(dict_entries: &[u8], data: &[u8]) -> ObjectBody {
     let mut out = Vec::new();
-    super::pdf::stream_into(&mut out, dict_entries, data, &mut super::pdf::Deflater::new());
+    stream_into(&mut out, dict_entries, data, &mut Deflater::new());
     out
 }
 
