@@ -308,7 +308,7 @@ pub(super) fn head(
         _ => format!("at {}", fmt_distance(column.distance_m)),
     };
     text(out, x, y + 6.8, &pos, SMALL_PT + 0.5, GREY);
-    let unit = super::notes::height_unit(s);
+    let unit = super::words::height_unit(s);
     let unit_name = unit.name();
     let (datum_line, colour) = match column.datum_height_m {
         Some(_) if datum_label == "section base" => {

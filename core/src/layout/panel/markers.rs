@@ -256,7 +256,7 @@ pub(super) fn tie_lines(
                 notes.push(format!(
                     "{}: correlation label {l:?} at {} has no match in a neighbouring column: not tied.",
                     c.name,
-                    super::notes::height_text(&sections[c.section_index], m.height_m)
+                    super::words::height_text(&sections[c.section_index], m.height_m)
                 ));
             }
         }

@@ -37,6 +37,7 @@ mod notes;
 mod positions;
 #[cfg(test)]
 mod tests;
+mod words;
 
 pub use markers::{section_markers, Datum, Marker, SectionMarkers};
 pub use positions::{haversine_m, panel_positions, PositionSource, Positions, EARTH_MEAN_RADIUS_M};
@@ -338,7 +339,7 @@ pub fn panel_layout(
         widened_gaps: horizontal.widened_gaps.clone(),
     };
     let head = draw::HeaderText::new(&scale, horizontal.deltas.len(), sections, order, opts, meta, &rules);
-    let sheet = Sheet::plan(opts, &head, &contents, tracks);
+    let sheet = Sheet::plan(opts, &|w| head.height_mm(w), &contents, tracks);
     if sheet.enlarged {
         notes.push(notes::enlarged_note(&opts.layout, &sheet));
     }

@@ -4,32 +4,14 @@
 
 use super::markers::SectionMarkers;
 use super::positions::{fmt_distance, Horizontal, Sheet};
+pub(super) use super::words::{counted, height_text};
 use super::{Datum, FLAG_ORANGE, NOTE_LINE_MM, NOTE_PT};
 use crate::layout::column::SCALE_BAND_MM;
 use crate::layout::items::{Item, PtMm};
 use crate::layout::options::LayoutOptions;
 use crate::layout::style::{solid, GREY, HAIR_MM, INK, TEXT_PT};
 use crate::layout::text::{text, width, wrap};
-use crate::model::{LengthUnit, Section};
-
-/// The unit a section's heights are written in on the panel: feet for a section logged in feet,
-/// else metres (a centimetre section's heights read best in metres).
-pub(super) fn height_unit(section: &Section) -> LengthUnit {
-    match section.display_unit {
-        LengthUnit::Foot => LengthUnit::Foot,
-        _ => LengthUnit::Metre,
-    }
-}
-
-/// A count with its noun in the right number: "1 section", "0 sections".
-pub(super) fn counted(n: usize, one: &str, many: &str) -> String {
-    format!("{n} {}", if n == 1 { one } else { many })
-}
-
-/// A height (m) of `section` as written on the panel: "24.60 m", "80.71 ft".
-pub(super) fn height_text(section: &Section, height_m: f64) -> String {
-    height_unit(section).length(height_m).to_string()
-}
+use crate::model::Section;
 
 /// Notes about each section's datum and markers, in panel order.
 pub(super) fn section_notes(

@@ -1,7 +1,6 @@
 //! Positions and scale: where the sections stand along the panel, the horizontal scale of the
 //! gaps between columns, and the page geometry ([`Sheet`]) every drawing step reads.
 
-use super::draw::HeaderText;
 use super::{PanelOptions, HEAD_MM, KEY_ROW_MM, NOTE_LINE_MM, NOTE_PT, PAD_MM};
 use crate::layout::column::{Tracks, SCALE_BAND_MM, TITLE_BAND_MM};
 use crate::layout::legend::legend_height_mm;
@@ -212,7 +211,13 @@ pub(super) struct Contents<'a> {
 impl Sheet {
     /// Size the page for `contents`: the chosen paper when the panel fits it, else a page
     /// lengthened (and widened when the columns need it) to keep the true scale.
-    pub fn plan(opts: &PanelOptions, head: &HeaderText, contents: &Contents<'_>, tracks: Tracks) -> Sheet {
+    /// `header_mm` gives the header's height for a usable page width (mm).
+    pub fn plan(
+        opts: &PanelOptions,
+        header_mm: &dyn Fn(f64) -> f64,
+        contents: &Contents<'_>,
+        tracks: Tracks,
+    ) -> Sheet {
         let margin = opts.margin();
         let paper = opts.layout.page_size_mm();
         let (paper_w, paper_h) = paper.unwrap_or((210.0, 297.0));
@@ -220,7 +225,7 @@ impl Sheet {
         let usable_w = page_w - 2.0 * margin;
         let legend_h = legend_height_mm(contents.legend_entries, usable_w);
         let caution_lines = wrap(REVIEW_CAUTION, usable_w - 28.0, NOTE_PT);
-        let header_h = head.height_mm(usable_w);
+        let header_h = header_mm(usable_w);
         let fixed_h = margin
             + header_h
             + legend_h
