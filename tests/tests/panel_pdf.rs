@@ -299,7 +299,7 @@ fn linked_boundaries_are_tied_at_their_heights_with_the_label_beside_the_tie() {
     );
     // The key explains the line; the layout agrees.
     let chars = page["chars"].as_str().expect("chars");
-    assert!(chars.contains("tie line, linked accepted boundaries"), "key entry");
+    assert!(chars.contains("tie line, accepted boundaries with one correlation label"), "key entry");
     assert_eq!(layout.ties.len(), 1, "{:?}", layout.ties);
     assert!(layout.ties[0].linked && layout.ties[0].name == "SB-4");
     // Nothing pairs Ash Draw's unlabelled boundary: the counts differ (1 and 0), so no note either.

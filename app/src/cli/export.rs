@@ -36,7 +36,7 @@ pub struct ExportArgs {
     /// Landscape instead of portrait.
     #[arg(long)]
     pub landscape: bool,
-    /// Also draw sequence-boundary candidates the geologist rejected.
+    /// Also draw candidate boundaries the geologist rejected.
     #[arg(long)]
     pub show_rejected: bool,
     #[command(flatten)]

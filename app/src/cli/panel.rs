@@ -14,7 +14,7 @@ pub struct PanelArgs {
     /// Project file (.aggrade) or bed-table CSV.
     pub file: PathBuf,
     /// What to hang the sections on: `base`, a surface name (e.g. SB-1), the correlation label of
-    /// linked accepted boundaries (see `aggrade link`), or an accepted boundary (its surface name,
+    /// accepted boundaries (set with `aggrade link`), or an accepted boundary (its surface name,
     /// or `accepted:<section>@<height>` when unnamed). A name is looked up before a label.
     #[arg(long, value_name = "NAME", default_value = "base")]
     pub datum: String,

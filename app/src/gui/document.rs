@@ -456,7 +456,7 @@ impl Work {
                     (Some(d), Some(l)) if d.state == ReviewState::Accepted => d.link = Some(l),
                     (_, Some(_)) => {
                         return Err(EditError(
-                            "only an accepted boundary can be linked; accept it first".into(),
+                            "only an accepted boundary can carry a correlation label; accept it first".into(),
                         ))
                     }
                     (None, None) => {}

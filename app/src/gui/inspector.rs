@@ -383,7 +383,7 @@ impl Inspector {
         egui::ScrollArea::vertical().id_salt("inspector_scroll").show(ui, |ui| {
             egui::Grid::new("bed_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
                 let lab = ui.label(Typed::Thickness.label()).id;
-                committed |= cx.show(ui, lab, Typed::Thickness, &mut fields, &mut bed, FieldLook { hint: &format!("e.g. 1.25 ({})", unit.name()), tip: "Bed thickness in the section's unit; add cm, m or ft to type another unit. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
+                committed |= cx.show(ui, lab, Typed::Thickness, &mut fields, &mut bed, FieldLook { hint: &format!("e.g. 1.25 ({})", unit.name()), tip: "Bed thickness in the section's display unit; add cm, m or ft to type another unit. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
                 ui.end_row();
                 problem_row(ui, &fields, Typed::Thickness);
 
@@ -433,7 +433,7 @@ impl Inspector {
                         fields.get(Typed::Relief).revert();
                     }
                     if bed.base_relief_m.is_some() {
-                        committed |= cx.show(ui, lab, Typed::Relief, &mut fields, &mut bed, FieldLook { hint: "e.g. 0.4", tip: "Erosional relief at the bed's base in the section's unit (0 or more)", width: 110.0, char_limit: MAX_STRING_CHARS });
+                        committed |= cx.show(ui, lab, Typed::Relief, &mut fields, &mut bed, FieldLook { hint: "e.g. 0.4", tip: "Erosional relief at the bed's base in the section's display unit (0 or more)", width: 110.0, char_limit: MAX_STRING_CHARS });
                     }
                 });
                 ui.end_row();

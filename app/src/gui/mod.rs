@@ -68,8 +68,8 @@ pub mod test_hooks {
     pub use crate::gui::canvas::new_bed;
     pub use crate::gui::field::INVALID;
     pub use crate::gui::import_dialog::SAVED_MAPPING_FILE;
-    pub use crate::gui::review::LINK_HINT;
     pub use crate::gui::plots::{histogram, histogram_bars, PROPORTION_PLOT, THICKNESS_PLOT};
+    pub use crate::gui::review::LINK_HINT;
     pub use crate::gui::views::{datum_choices, PANEL_PANE_WIDTH};
 }
 

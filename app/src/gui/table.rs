@@ -83,13 +83,13 @@ pub fn follow_offset(row: usize, visible: &std::ops::Range<usize>, row_pitch: f3
     (!visible.contains(&row)).then(|| (row.saturating_sub(3) as f32 * row_pitch).max(0.0))
 }
 
-/// A length typed in the section's unit (a trailing m, cm or ft overrides it), in metres; `None`
+/// A length typed in the section's display unit (a trailing m, cm or ft overrides it), in metres; `None`
 /// when the text is not a finite number.
 pub fn parse_length(text: &str, unit: LengthUnit) -> Option<f64> {
     sh::length(text, unit).ok()
 }
 
-/// Parse a thickness typed in the section's unit (a trailing m, cm or ft overrides it): greater
+/// Parse a thickness typed in the section's display unit (a trailing m, cm or ft overrides it): greater
 /// than 0 and at most the core's largest bed thickness.
 pub fn parse_thickness(text: &str, unit: LengthUnit) -> Result<f64, String> {
     match sh::thickness_entry(text, unit) {

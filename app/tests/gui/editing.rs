@@ -70,7 +70,8 @@ fn drag_changes_thickness_and_undo_restores_it() {
     h.run();
     for k in 1..=4 {
         h.hover_at(top + up * (k as f32 / 4.0));
-        h.run();
+        // The bed table scrolls to follow the bed being resized, which takes a few frames.
+        h.run_steps(8);
     }
     h.drop_at(top + up);
     h.run();

@@ -923,8 +923,20 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
         assert_eq!(
             lith,
             [
-                Mudstone, Siltstone, Mudstone, Conglomerate, Sandstone, Sandstone, Sandstone, Mudstone, Sandstone,
-                Mudstone, Sandstone, Mudstone, Mudstone, Covered
+                Mudstone,
+                Siltstone,
+                Mudstone,
+                Conglomerate,
+                Sandstone,
+                Sandstone,
+                Sandstone,
+                Mudstone,
+                Sandstone,
+                Mudstone,
+                Sandstone,
+                Mudstone,
+                Mudstone,
+                Covered
             ]
         );
         assert_eq!(s.beds[3].base_surface.as_ref().map(|x| x.kind), Some(SurfaceKind::Incision));

@@ -378,7 +378,8 @@ mod tests {
             .iter()
             .filter_map(|i| if let Item::Text { text, .. } = i { Some(text.as_str()) } else { None })
             .collect();
-        let [_, _, short] = crate::layout::column::body_labels(&interp.channel_bodies[0]);
+        let [_, _, short] =
+            crate::layout::column::body_labels(&interp.channel_bodies[0], crate::model::LengthUnit::Metre);
         assert_eq!(codes, vec!["MS"]);
         assert!(short.starts_with("MS"));
         // Sorted and without repeats, whatever order the column met them in.

@@ -8,7 +8,7 @@
 //!
 //! | cell | notation | example |
 //! | --- | --- | --- |
-//! | thickness | a number in the section's unit (`m`, `cm` or `ft` after it says another), then optionally `c` and the covered top | `4.5 c2`: 4.5, its top 2 covered |
+//! | thickness | a number in the section's display unit (`m`, `cm` or `ft` after it says another), then optionally `c` and the covered top | `4.5 c2`: 4.5, its top 2 covered |
 //! | lithology | a name or its first letters (the first lithology in the list that starts so); empty: named from the grain size | `mu` mudstone, `sa` sandstone |
 //! | grain | a class code or name, a measured size, or base and top joined by `-` or `>` | `c-m` coarse fining to medium sand |
 //! | paleosol | development first, then features and a carbonate stage I–VI | `s cn rt III` |
@@ -434,7 +434,7 @@ pub fn grain_range_code(base: Option<GrainSize>, top: Option<GrainSize>) -> Stri
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct ContactEntry {
     pub contact: Contact,
-    /// Relief in metres (typed in the section's unit); `None` when none was typed.
+    /// Relief in metres (typed in the section's display unit); `None` when none was typed.
     pub relief_m: Option<f64>,
 }
 

@@ -163,7 +163,7 @@ impl AggradeApp {
                     (Tab::Inspector, "Bed", "Every field of the selected bed"),
                     (Tab::Review, "Review", "Candidate sequence boundaries and rule settings"),
                     (Tab::Plots, "Plots", "Proportion, grain size and body thickness plots"),
-                    (Tab::Section, "Section", "Section details and units"),
+                    (Tab::Section, "Section", "Section details and display unit"),
                 ] {
                     ui.selectable_value(&mut self.tab, t, name).on_hover_text(tip);
                 }
@@ -248,7 +248,7 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
             None => ui.label(egui::RichText::new("— (placed by its order)").color(theme::TEXT_DIM)),
         };
         ui.end_row();
-        ui.label("Units");
+        ui.label("Display unit");
         ui.horizontal(|ui| {
             for u in LengthUnit::ALL {
                 if ui

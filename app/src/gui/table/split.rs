@@ -1,5 +1,5 @@
 //! Cutting a bed in two from its menu: "Split in two" halves it, "Split at…" cuts it at a height
-//! above its base typed in the section's unit, half the bed unless another height is typed.
+//! above its base typed in the section's display unit, half the bed unless another height is typed.
 
 use crate::gui::actions::Actions;
 use crate::gui::document::{Document, Edit};
@@ -8,7 +8,7 @@ use aggrade_core::model::shorthand as sh;
 use aggrade_core::model::{BedId, LengthUnit};
 
 /// The bed menu's splits: "Split in two" (halves at once) and "Split at…", which cuts the bed
-/// at a height above its base typed in the section's unit (half its thickness unless another is
+/// at a height above its base typed in the section's display unit (half its thickness unless another is
 /// typed).
 pub fn split_menu(ui: &mut egui::Ui, doc: &Document, bed: BedId, out: &mut Actions) {
     let Some(i) = doc.bed_index(bed) else { return };
@@ -58,7 +58,7 @@ pub fn split_menu(ui: &mut egui::Ui, doc: &Document, bed: BedId, out: &mut Actio
     });
 }
 
-/// A split height typed in the section's unit, checked to lie inside the bed; in metres.
+/// A split height typed in the section's display unit, checked to lie inside the bed; in metres.
 pub fn split_height(text: &str, thickness_m: f64, unit: LengthUnit) -> Result<f64, String> {
     match sh::length(text, unit) {
         Ok(h) if h > 0.0 && h < thickness_m => Ok(h),

@@ -81,7 +81,7 @@ pub fn datum_choices(project: &Project) -> Vec<DatumChoice> {
             continue;
         }
         out.push(DatumChoice {
-            label: format!("{label} (linked, {})", secs(count)),
+            label: format!("{label} (correlation label, {})", secs(count)),
             datum: Datum::Named(label),
         });
     }
@@ -453,7 +453,7 @@ impl PanelView {
                 None => String::new(),
             };
             let kind = if t.linked {
-                "linked"
+                "correlation label"
             } else if t.accepted {
                 "accepted boundaries"
             } else {
@@ -583,7 +583,7 @@ mod tests {
         let labels: Vec<String> = datum_choices(&project).into_iter().map(|d| d.label).collect();
         assert_eq!(
             labels,
-            ["Section base", "SB-1 (1 section, accepted boundary)", "K-1 (linked, 2 sections)"]
+            ["Section base", "SB-1 (1 section, accepted boundary)", "K-1 (correlation label, 2 sections)"]
         );
         assert_eq!(crate::gui::review::link_labels(&project), ["K-1", "SB-1"]);
     }

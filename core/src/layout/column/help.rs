@@ -45,7 +45,7 @@ impl TrackKind {
     /// What the track shows, in a sentence or two (hover help on its header).
     pub fn help(self) -> &'static str {
         match self {
-            TrackKind::Axis => "Height above the base of the section, in the section's unit.",
+            TrackKind::Axis => "Height above the base of the section, in the section's display unit.",
             TrackKind::Lithology => {
                 "Each bed in its rock's pattern, as wide as its grain size (Wentworth classes, mud at \
                  left, gravel at right): a sloping right edge is a bed that fines or coarsens upward. \
@@ -333,7 +333,7 @@ impl ColumnCtx<'_> {
         let open = if b.is_censored() { ", an end not seen: the thickness is a minimum" } else { "" };
         format!(
             "{what}, {} ({}\u{2013}{}){open}.\nA candidate for your review.",
-            b.thickness_text(),
+            b.thickness_text_in(self.section.display_unit),
             self.height_words(b.base_m),
             self.height_words(b.top_m)
         )

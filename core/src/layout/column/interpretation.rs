@@ -34,7 +34,7 @@ impl ColumnCtx<'_> {
                         end(body.top_m <= hi, body.censored.contains(&Censor::Top)),
                     );
                     body_bracket(x, yb, yt, ends, 1.5, LINE_MM * 1.4, out);
-                    for candidate in body_labels(body) {
+                    for candidate in body_labels(body, self.section.display_unit) {
                         if let Some(size) = fit_size(&candidate, yb - yt - 1.0, SMALL_PT, 4.0) {
                             let w = width(&candidate, size);
                             let asc = size * 0.353 * 0.76;
@@ -310,29 +310,26 @@ pub fn storeys_words(n: usize) -> String {
 /// Labels for a body, longest first, every one saying what its number counts: the stacking with
 /// its storeys and thickness ("multi-storey · 2 storeys · 5.40 m", "≥" before a censored one),
 /// the code with them ("MS · 2 storeys · 5.4 m"), the code with the storeys ("MS · 2 storeys").
-pub fn body_labels(body: &ChannelBody) -> [String; 3] {
+pub fn body_labels(body: &ChannelBody, unit: LengthUnit) -> [String; 3] {
     let code = stacking_code(body.stacking);
-    let thick = if body.is_censored() {
-        format!("\u{2265}{:.1} m", body.thickness_m)
-    } else {
-        format!("{:.1} m", body.thickness_m)
-    };
+    let at_least = if body.is_censored() { "\u{2265}" } else { "" };
+    let thick = format!("{at_least}{:.1}", unit.length(body.thickness_m));
     match body.stacking {
         Stacking::MultiStory => {
             let storeys = storeys_words(body.stories);
             [
-                format!("multi-storey \u{b7} {storeys} \u{b7} {}", body.thickness_text()),
+                format!("multi-storey \u{b7} {storeys} \u{b7} {}", body.thickness_text_in(unit)),
                 format!("{code} \u{b7} {storeys} \u{b7} {thick}"),
                 format!("{code} \u{b7} {storeys}"),
             ]
         }
         Stacking::SingleStory => [
-            format!("single-storey \u{b7} {}", body.thickness_text()),
+            format!("single-storey \u{b7} {}", body.thickness_text_in(unit)),
             format!("{code} \u{b7} {thick}"),
             code.to_string(),
         ],
         Stacking::Undetermined => [
-            format!("1 storey seen \u{b7} {}", body.thickness_text()),
+            format!("1 storey seen \u{b7} {}", body.thickness_text_in(unit)),
             format!("{code} storey \u{b7} {thick}"),
             code.to_string(),
         ],
@@ -424,15 +421,18 @@ mod tests {
     #[test]
     fn body_labels_say_what_their_number_counts() {
         let i = sample_interpretation(&sample_section());
-        let [long, mid, short] = body_labels(&i.channel_bodies[0]);
+        let [long, mid, short] = body_labels(&i.channel_bodies[0], LengthUnit::Metre);
         assert_eq!(long, "multi-storey \u{b7} 2 storeys \u{b7} 6.70 m");
         assert_eq!(mid, "MS \u{b7} 2 storeys \u{b7} 6.7 m");
         assert_eq!(short, "MS \u{b7} 2 storeys");
-        let [long, _, short] = body_labels(&i.channel_bodies[1]);
+        let [long, _, short] = body_labels(&i.channel_bodies[1], LengthUnit::Metre);
         assert!(long.starts_with("single-storey \u{b7} "), "{long}");
         assert_eq!(short, "SS");
         for b in &i.channel_bodies {
-            assert!(body_labels(b).iter().all(|l| !l.contains("story")), "one spelling: storey");
+            assert!(
+                body_labels(b, LengthUnit::Metre).iter().all(|l| !l.contains("story")),
+                "one spelling: storey"
+            );
         }
     }
 

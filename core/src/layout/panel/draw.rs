@@ -275,7 +275,7 @@ pub(super) fn key(x: f64, y: f64, any_link: bool, out: &mut Vec<Item>) {
         entry(
             Some(solid(LINK_LINE_MM, LINK_TEAL)),
             None,
-            "tie line, linked accepted boundaries (label on it)",
+            "tie line, accepted boundaries with one correlation label (label on it)",
             out,
         );
     }
@@ -381,7 +381,7 @@ pub(super) fn strip(
         let (yb, yt) = (t.y_mm(body.base_m), t.y_mm(body.top_m));
         let end = |c: Censor| if body.censored.contains(&c) { BracketEnd::Open } else { BracketEnd::Tick };
         body_bracket(xb, yb, yt, (end(Censor::Base), end(Censor::Top)), 1.2, LINE_MM * 1.4, out);
-        let [_, with_thickness, short] = body_labels(body);
+        let [_, with_thickness, short] = body_labels(body, ctx.section.display_unit);
         for label in [with_thickness, short] {
             if let Some(size) = fit_size(&label, yb - yt - 0.4, SMALL_PT - 0.5, 3.0) {
                 let w = width(&label, size);
