@@ -229,7 +229,10 @@ fn labels_typed_in_the_review_list_tie_two_sections_on_the_panel_and_undo_takes_
         )],
         "one linked tie, between the two labelled boundaries"
     );
-    assert!(h.query_by_label_contains("SB-9 (correlation label)").is_some(), "the tie list says how the tie came about");
+    assert!(
+        h.query_by_label_contains("SB-9 (correlation label)").is_some(),
+        "the tie list says how the tie came about"
+    );
     // One undo takes the second label back (the typing was one step); the panel redraws untied.
     h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
     h.run();

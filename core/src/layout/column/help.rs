@@ -384,8 +384,11 @@ impl ColumnCtx<'_> {
         let names: Vec<&str> = bed.structures.iter().map(|s| s.name()).collect();
         Some(if k < shown {
             format!("{} (bed {}).", capitalised(names[k]), i + 1)
+        } else if shown >= n {
+            // Past the last symbol, with none hidden: the empty part of the track.
+            return None;
         } else {
-            format!("Bed {} also shows: {}.", i + 1, names[shown.min(n)..].join(", "))
+            format!("Bed {} also shows: {}.", i + 1, names[shown..].join(", "))
         })
     }
 
@@ -569,6 +572,8 @@ mod tests {
         let c2 = ColumnCtx::new(&crowded, &i, &opts);
         let more = c2.help_at(pointed(tr.structures.x_mm + 2.0 * 4.6 + 1.0, h)).expect("the count");
         assert_eq!(more, "Bed 5 also shows: basal lag, imbrication, massive.");
+        // Right of the last symbol of a bed whose symbols all fit, the track says nothing.
+        assert_eq!(at(12.0), None, "no empty 'also shows' help");
         // Bed 4 has six readings: a rose.
         let h4 = (ctx.bases_m[3] + ctx.tops_m[3]) / 2.0;
         let pc = ctx.help_at(pointed(mid(tr.paleocurrents), h4)).expect("readings");
