@@ -109,6 +109,27 @@ pub fn show_length(m: f64, unit: LengthUnit) -> String {
 }
 
 impl BedTable {
+    /// One line for each cell typed in the entry row and not yet stored (a new bed not yet
+    /// added, or a loaded bed's changed cells), for the window's backup.
+    pub fn unstored_lines(&self) -> Vec<String> {
+        let mut out: Vec<String> = Cell::ALL
+            .iter()
+            .zip(&self.new_row)
+            .filter(|(_, t)| !t.trim().is_empty())
+            .map(|(c, t)| format!("New bed not yet added: {} {t:?}", c.label()))
+            .collect();
+        if let Some(e) = &self.edit {
+            out.extend(
+                Cell::ALL
+                    .iter()
+                    .zip(e.texts.iter().zip(&e.loaded))
+                    .filter(|(_, (t, l))| t != l)
+                    .map(|(c, (t, _))| format!("Bed {} not yet stored: {} {t:?}", e.bed.0, c.label())),
+            );
+        }
+        out
+    }
+
     /// Rows (0 = top of the section) the table showed in the last frame.
     pub fn rows_shown(&self) -> std::ops::Range<usize> {
         self.visible_rows.clone()
@@ -588,6 +609,22 @@ mod tests {
     use aggrade_core::model::{
         Contact, PaleosolDevelopment, PaleosolFeature, Structure, WentworthClass as W,
     };
+
+    #[test]
+    fn cells_typed_and_not_added_are_listed_for_the_backup() {
+        let mut t = BedTable::default();
+        assert!(t.unstored_lines().is_empty(), "an empty row keeps nothing");
+        t.new_row[0] = "2.1".into();
+        t.new_row[2] = "c-m".into();
+        let lines = t.unstored_lines();
+        assert_eq!(
+            lines,
+            vec![
+                "New bed not yet added: thickness \"2.1\"".to_string(),
+                "New bed not yet added: grain \"c-m\"".to_string()
+            ]
+        );
+    }
 
     #[test]
     fn a_row_shows_the_rest_of_the_bed_in_the_notation() {

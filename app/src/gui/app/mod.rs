@@ -336,7 +336,8 @@ impl AggradeApp {
 
     /// One line for each value typed and not stored (kept in the window's backup).
     fn unstored_texts(&self) -> Vec<String> {
-        let mut lines = self.inspector.unstored_texts(&self.doc);
+        let mut lines = self.table.unstored_lines();
+        lines.extend(self.inspector.unstored_texts(&self.doc));
         lines.extend(self.details.iter().flat_map(SectionDetails::unstored_lines));
         lines
     }
