@@ -46,9 +46,20 @@ pub fn fit_size(s: &str, max_w_mm: f64, size_pt: f64, min_pt: f64) -> Option<f64
 
 /// Break text into lines no wider than `max_w_mm` (at spaces; a word longer than a line stays whole).
 pub fn wrap(s: &str, max_w_mm: f64, size_pt: f64) -> Vec<String> {
+    wrap_words(s.split_whitespace(), max_w_mm, size_pt)
+}
+
+/// [`wrap`] breaking at ordinary spaces only, so that a scale grouped with thin or no-break
+/// spaces ("1:25 000") is never split across lines.
+pub fn wrap_at_spaces(s: &str, max_w_mm: f64, size_pt: f64) -> Vec<String> {
+    wrap_words(s.split(' ').filter(|w| !w.is_empty()), max_w_mm, size_pt)
+}
+
+/// Join words into lines no wider than `max_w_mm`; a word longer than a line stays whole.
+fn wrap_words<'a>(words: impl Iterator<Item = &'a str>, max_w_mm: f64, size_pt: f64) -> Vec<String> {
     let mut lines = Vec::new();
     let mut line = String::new();
-    for word in s.split_whitespace() {
+    for word in words {
         let candidate = if line.is_empty() { word.to_string() } else { format!("{line} {word}") };
         if !line.is_empty() && width(&candidate, size_pt) > max_w_mm {
             lines.push(std::mem::take(&mut line));

@@ -14,7 +14,7 @@ use crate::layout::items::{Item, PtMm, RectMm, Rgba, Stroke};
 use crate::layout::legend::{legend_entries, LegendEntry};
 use crate::layout::options::{LayoutOptions, PrintMeta};
 use crate::layout::style::*;
-use crate::layout::text::{fit_size, text, text_up, width};
+use crate::layout::text::{fit_size, text, text_up, width, wrap_at_spaces};
 use crate::model::{ReviewState, Section};
 use crate::rules::{BoundaryCandidate, Censor, Interpretation};
 
@@ -155,27 +155,6 @@ impl HeaderText {
         let last = self.lines(usable_w).last().map(|l| l.0).unwrap_or(HEADER_FIRST_MM);
         last + HEADER_RULE_GAP_MM + 2.0
     }
-}
-
-/// Break text into lines no wider than `max_w_mm` at ordinary spaces only, so that a scale
-/// grouped with thin spaces ("1:25 000") is never split across lines; a word longer than a line
-/// stays whole.
-fn wrap_at_spaces(s: &str, max_w_mm: f64, size_pt: f64) -> Vec<String> {
-    let mut lines = Vec::new();
-    let mut line = String::new();
-    for word in s.split(' ').filter(|w| !w.is_empty()) {
-        let candidate = if line.is_empty() { word.to_string() } else { format!("{line} {word}") };
-        if !line.is_empty() && width(&candidate, size_pt) > max_w_mm {
-            lines.push(std::mem::take(&mut line));
-            line = word.to_string();
-        } else {
-            line = candidate;
-        }
-    }
-    if !line.is_empty() {
-        lines.push(line);
-    }
-    lines
 }
 
 /// The page header: the title with the vertical scale on the right, then the datum, the
