@@ -48,7 +48,7 @@ lag at base,SB-1,sandstone,3.2,very_coarse_sand,0.3mm,Erosional,0.8,trough cross
     assert_eq!(sand.base_contact, Contact::Erosional);
     assert_eq!(sand.base_relief_m, Some(0.8));
     assert_eq!(sand.structures, [Structure::TroughCrossBedding, Structure::MudClasts]);
-    assert_eq!(sand.paleocurrents_deg, [10.0, 355.5, 360.0]);
+    assert_eq!(sand.azimuths().collect::<Vec<_>>(), [10.0, 355.5, 360.0]);
     // 0.3 mm → φ = −log2(0.3) = 1.7370 (Krumbein 1934).
     assert!(matches!(sand.grain_top, Some(GrainSize::Phi(p)) if (p - 1.7370).abs() < 5e-5));
     // Surface kind rule: erosional base → incision surface; a bed above a paleosol → paleosol top
@@ -293,14 +293,14 @@ fn a_field_log_typed_in_the_compact_notation_reads_as_the_full_names_say() {
     assert_eq!(beds[3].base_contact, Contact::Erosional);
     assert_eq!(beds[3].base_relief_m, Some(1.2));
     assert_eq!(beds[3].structures, vec![Structure::BasalLag]);
-    assert_eq!(beds[3].paleocurrents_deg, vec![210.0, 225.0]);
+    assert_eq!(beds[3].azimuths().collect::<Vec<_>>(), vec![210.0, 225.0]);
     assert_eq!(beds[3].grain_base, class(WentworthClass::Pebble));
     assert_eq!(
         (beds[4].grain_base, beds[4].grain_top),
         (class(WentworthClass::CoarseSand), class(WentworthClass::MediumSand))
     );
     assert_eq!(beds[4].structures, vec![Structure::TroughCrossBedding]);
-    assert_eq!(beds[4].paleocurrents_deg, vec![200.0, 215.0, 230.0]);
+    assert_eq!(beds[4].azimuths().collect::<Vec<_>>(), vec![200.0, 215.0, 230.0]);
     assert_eq!(
         (beds[5].grain_base, beds[5].grain_top),
         (class(WentworthClass::MediumSand), class(WentworthClass::FineSand))

@@ -9,7 +9,7 @@ use aggrade_core::io::internals::{
 };
 use aggrade_core::io::{project_to_json, read_project_text, Problem};
 use aggrade_core::model::{
-    BaseRank, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment,
+    Paleocurrent, Sample, BaseRank, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment,
     PaleosolFeature, Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind,
     WentworthClass,
 };
@@ -80,9 +80,9 @@ fn full_bed(rng: &mut Lcg, id: u64) -> Bed {
     b.base_surface = Some(Surface { name: format!("S-{id} \"α\"\\"), kind: rng.pick(SurfaceKind::ALL) });
     b.base_rank = Some(rng.pick(BaseRank::ALL));
     b.colour = "5YR 4/4 red-brown".into();
-    b.paleocurrents_deg = (0..rng.next(6)).map(|_| rng.float(0.0, 360.0)).collect();
+    b.paleocurrents = (0..rng.next(6)).map(|_| Paleocurrent::azimuth(rng.float(0.0, 360.0))).collect();
     b.fossils = "plant fragments; unio shells".into();
-    b.samples = vec![format!("TR-{id}"), "=formula-like text".into()];
+    b.samples = vec![Sample::labelled(format!("TR-{id}")), Sample::labelled("=formula-like text")];
     b.notes = format!("bed {id}: line one\nline two, tab\there, quote \" and unicode φ ≥ 2");
     b
 }
@@ -250,7 +250,7 @@ fn a_bad_bed_deep_in_a_big_file_is_named_with_its_path_and_line() {
         })
         .collect();
     section.beds[98_765].thickness_m = 7.654_321;
-    section.beds[99_998].paleocurrents_deg = vec![12.5, 271.828_125];
+    section.beds[99_998].paleocurrents = vec![Paleocurrent::azimuth(12.5), Paleocurrent::azimuth(271.828_125)];
     let pretty = project_to_json(&Project::new(vec![section])).expect("encode");
     let text = pretty.replacen("7.654321", "\"7.654321 m\"", 1).replacen("271.828125", "\"NE\"", 1);
     assert_eq!(text.len(), pretty.len() + 4 - 6, "both breaks applied");

@@ -3,7 +3,7 @@
 
 use aggrade_core::io::{self, backup_path, read_project_text, save_project, write_atomic};
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
+    Paleocurrent, Sample, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
     Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind, WentworthClass,
 };
 use proptest::prelude::*;
@@ -72,10 +72,10 @@ fn bed(id: u64) -> impl Strategy<Value = Bed> {
                 b.paleosol_features = pf.into_iter().map(|i| PaleosolFeature::ALL[i]).collect();
                 b.carbonate_stage = stage;
                 b.base_surface = surface.map(|(name, k)| Surface { name, kind: SurfaceKind::ALL[k] });
-                b.paleocurrents_deg = pc;
+                b.paleocurrents = pc.into_iter().map(Paleocurrent::azimuth).collect();
                 b.colour = colour;
                 b.fossils = fossils;
-                b.samples = samples;
+                b.samples = samples.into_iter().map(Sample::labelled).collect();
                 b.notes = notes;
                 b
             },
@@ -150,7 +150,7 @@ fn migrates_the_version_0_fixture() {
     assert_eq!(sand.grain_base, Some(GrainSize::Class(WentworthClass::CoarseSand)));
     assert_eq!(sand.grain_top, sand.grain_base);
     assert_eq!(sand.base_contact, Contact::Erosional);
-    assert_eq!(sand.paleocurrents_deg, [20.0, 35.0, 10.0]);
+    assert_eq!(sand.azimuths().collect::<Vec<_>>(), [20.0, 35.0, 10.0]);
     assert_eq!(sand.base_surface, Some(Surface { name: "SB-1".into(), kind: SurfaceKind::Incision }));
     assert!(s.beds[2].is_covered());
     let cm = &p.sections[1];

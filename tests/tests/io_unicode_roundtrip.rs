@@ -12,7 +12,7 @@ use aggrade_core::io::{
     MAX_LINK_LABEL_CHARS, MAX_STRING_CHARS,
 };
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, IndexDirection, LatLon, LengthUnit, Lithology, MeasuredCurve,
+    Paleocurrent, Sample, Bed, BedId, Contact, GrainSize, IndexDirection, LatLon, LengthUnit, Lithology, MeasuredCurve,
     PaleosolDevelopment, PaleosolFeature, Project, ReviewDecision, ReviewState, Section, Structure, Surface,
     SurfaceKind, WentworthClass,
 };
@@ -172,11 +172,11 @@ fn bed(id: u64, text: impl Strategy<Value = BedText>) -> impl Strategy<Value = B
             b.paleosol = PaleosolDevelopment::ALL[p];
             b.paleosol_features = pf.into_iter().map(|i| PaleosolFeature::ALL[i]).collect();
             b.carbonate_stage = stage;
-            b.paleocurrents_deg = pc.into_iter().map(|a| f64::from(a) / 1000.0).collect();
+            b.paleocurrents = pc.into_iter().map(|a| Paleocurrent::azimuth(f64::from(a) / 1000.0)).collect();
             b.base_surface = text.surface.map(|name| Surface { name, kind: SurfaceKind::ALL[kind] });
             b.colour = text.colour;
             b.fossils = text.fossils;
-            b.samples = text.samples;
+            b.samples = text.samples.into_iter().map(Sample::labelled).collect();
             b.notes = text.notes;
             b
         })
@@ -481,7 +481,8 @@ fn bed_table_samples_are_limited_one_by_one_not_as_a_joined_cell() {
     // Three samples of 6,000 characters each are valid; their cell (18,002 characters) is not a
     // text value of its own.
     let mut project = project_with_note(String::new());
-    project.sections[0].beds[0].samples = vec!["α".repeat(6_000), "β".repeat(6_000), "γ".repeat(6_000)];
+    project.sections[0].beds[0].samples =
+        ["α".repeat(6_000), "β".repeat(6_000), "γ".repeat(6_000)].into_iter().map(Sample::labelled).collect();
     assert_eq!(io::validate_project(&project), vec![]);
     let read =
         read_bed_table(&write_bed_table(&project.sections[0]), "t").unwrap_or_else(|p| panic!("{p:?}"));
@@ -491,7 +492,7 @@ fn bed_table_samples_are_limited_one_by_one_not_as_a_joined_cell() {
 #[test]
 fn text_starting_with_an_apostrophe_before_a_formula_character_keeps_it_in_a_bed_table() {
     let mut project = project_with_note("'=not a formula".to_string());
-    project.sections[0].beds[0].samples = vec!["'-7".into(), "''@x".into(), "'plain".into()];
+    project.sections[0].beds[0].samples = ["'-7", "''@x", "'plain"].into_iter().map(Sample::labelled).collect();
     project.sections[0].beds[0].colour = "'".into();
     let read =
         read_bed_table(&write_bed_table(&project.sections[0]), "t").unwrap_or_else(|p| panic!("{p:?}"));

@@ -1,6 +1,6 @@
 //! `aggrade export`: the interpreted column to PDF, SVG or PNG at a true scale.
 
-use aggrade_core::export::{write_pdf_to, write_png, write_svg_to, PdfInfo};
+use aggrade_core::export::{write_pdf_to, write_png, PdfInfo, SvgWriter};
 use aggrade_core::layout::{page_stream, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::rules::interpret;
 use anyhow::{bail, Context};
@@ -128,21 +128,26 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
             show_rejected: args.show_rejected,
             ..Default::default()
         };
-        // One page laid out, written and dropped at a time.
-        let p = page_stream(section, &interp, &opts, &meta);
+        // One page laid out, written and dropped at a time; an SVG page is written as its
+        // column is drawn, a few hundred beds at a time, so even one tall page stays small.
+        let mut p = page_stream(section, &interp, &opts, &meta);
         let n = p.page_count();
+        let (w_mm, h_mm) = p.page_size_mm();
         let stem = out.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| "page".into());
-        for (k, page) in p.enumerate() {
+        for k in 0..n {
             let path =
                 if n == 1 { out.clone() } else { out.with_file_name(format!("{stem}-{}.{ext}", k + 1)) };
             if ext == "png" {
+                let Some(page) = p.next() else { break };
                 let bytes = write_png(&page, args.dpi)?;
                 std::fs::write(&path, bytes).with_context(|| format!("cannot write {}", path.display()))?;
             } else {
-                // Streamed to the file: a tall page's document is never held whole beside its items.
-                std::fs::File::create(&path)
-                    .and_then(|f| write_svg_to(std::io::BufWriter::new(f), &page))
-                    .with_context(|| format!("cannot write {}", path.display()))?;
+                let written = std::fs::File::create(&path).and_then(|f| {
+                    let mut svg = SvgWriter::begin(std::io::BufWriter::new(f), w_mm, h_mm)?;
+                    p.next_in_pieces(|items| svg.items(items)).unwrap_or(Ok(()))?;
+                    svg.finish().map(drop)
+                });
+                written.with_context(|| format!("cannot write {}", path.display()))?;
             }
             eprintln!("wrote {}", path.display());
         }

@@ -1,11 +1,14 @@
 //! `aggrade panel`: a project's sections side by side, hung on a datum, to PDF or SVG.
 
-use aggrade_core::export::{write_pdf, write_svg, PdfInfo};
+use aggrade_core::export::{PdfInfo, PdfWriter, SvgWriter};
 use aggrade_core::layout::{
-    panel_layout, Datum, LayoutOptions, Orientation, PanelError, PanelOptions, Paper, PrintMeta,
+    panel_layout_in_pieces, Datum, Item, LayoutOptions, Orientation, PanelError, PanelOptions, Paper,
+    PrintMeta,
 };
 use aggrade_core::rules::{interpret, Interpretation};
 use anyhow::{anyhow, bail, Context};
+use std::fs::File;
+use std::io::BufWriter;
 use std::path::PathBuf;
 
 /// Arguments of `aggrade panel`.
@@ -57,6 +60,58 @@ fn creation_date() -> anyhow::Result<i64> {
     }
 }
 
+/// The files a panel is written to as it is drawn, and the first error writing them.
+struct PanelFiles {
+    pdf: Option<PdfWriter<BufWriter<File>>>,
+    svg: Option<SvgWriter<BufWriter<File>>>,
+    failed: Option<anyhow::Error>,
+}
+
+impl PanelFiles {
+    /// Write the next items of a page `size` (mm) to every file asked for, making the files with
+    /// the first items; false (and the error kept) when a file cannot be written.
+    fn put(&mut self, args: &PanelArgs, info: &PdfInfo, size: (f64, f64), items: &[Item]) -> bool {
+        let written = self.try_put(args, info, size, items);
+        if let Err(e) = written {
+            self.failed.get_or_insert(e);
+            return false;
+        }
+        true
+    }
+
+    fn try_put(
+        &mut self,
+        args: &PanelArgs,
+        info: &PdfInfo,
+        size: (f64, f64),
+        items: &[Item],
+    ) -> anyhow::Result<()> {
+        if let Some(path) = &args.pdf {
+            let cannot = || format!("{}: cannot write the PDF", path.display());
+            if self.pdf.is_none() {
+                let file = File::create(path).with_context(cannot)?;
+                let mut pdf = PdfWriter::new(BufWriter::new(file), info).with_context(cannot)?;
+                pdf.begin_page(size.0, size.1).with_context(cannot)?;
+                self.pdf = Some(pdf);
+            }
+            if let Some(pdf) = self.pdf.as_mut() {
+                pdf.page_items(items).with_context(cannot)?;
+            }
+        }
+        if let Some(path) = &args.svg {
+            let cannot = || format!("{}: cannot write the SVG", path.display());
+            if self.svg.is_none() {
+                let file = File::create(path).with_context(cannot)?;
+                self.svg = Some(SvgWriter::begin(BufWriter::new(file), size.0, size.1).with_context(cannot)?);
+            }
+            if let Some(svg) = self.svg.as_mut() {
+                svg.items(items).with_context(cannot)?;
+            }
+        }
+        Ok(())
+    }
+}
+
 /// Run `aggrade panel`.
 pub fn run(args: &PanelArgs) -> anyhow::Result<()> {
     if !(args.scale.is_finite() && args.scale > 0.0) {
@@ -87,27 +142,32 @@ pub fn run(args: &PanelArgs) -> anyhow::Result<()> {
         subtitle: args.file.file_name().map(|f| f.to_string_lossy().into_owned()).unwrap_or_default(),
     };
     let file = args.file.display();
-    let layout = panel_layout(project, &interps, &opts, &meta).map_err(|e| match e {
+    let title = if opts.title.is_empty() { "Correlation panel".to_string() } else { opts.title.clone() };
+    let info = PdfInfo { title, author: String::new(), creation_date: creation_date()? };
+    // The panel is written as it is drawn, a piece at a time (a column's beds a few hundred at a
+    // time), so a panel of many long sections never holds all its items or all its PDF content.
+    // The files are made with the first piece, after the datum and the input were found good.
+    let mut out = PanelFiles { pdf: None, svg: None, failed: None };
+    let drawn = panel_layout_in_pieces(project, &interps, &opts, &meta, &mut |size, items| {
+        out.put(args, &info, size, items)
+    });
+    let layout = drawn.map_err(|e| match e {
         PanelError::UnknownDatum { .. } => anyhow!("{file}: --datum: {e}"),
         other => anyhow!("{file}: {other}"),
     })?;
+    if let Some(e) = out.failed.take() {
+        return Err(e);
+    }
     for note in &layout.notes {
         eprintln!("aggrade: note: {note}");
     }
-    if let Some(out) = &args.pdf {
-        let info = PdfInfo {
-            title: if opts.title.is_empty() { "Correlation panel".into() } else { opts.title.clone() },
-            author: String::new(),
-            creation_date: creation_date()?,
-        };
-        let bytes = write_pdf(std::slice::from_ref(&layout.page), &info);
-        std::fs::write(out, bytes).with_context(|| format!("{}: cannot write the PDF", out.display()))?;
-        eprintln!("wrote {}", out.display());
+    if let (Some(pdf), Some(path)) = (out.pdf.take(), &args.pdf) {
+        pdf.finish().with_context(|| format!("{}: cannot write the PDF", path.display()))?;
+        eprintln!("wrote {}", path.display());
     }
-    if let Some(out) = &args.svg {
-        std::fs::write(out, write_svg(&layout.page))
-            .with_context(|| format!("{}: cannot write the SVG", out.display()))?;
-        eprintln!("wrote {}", out.display());
+    if let (Some(svg), Some(path)) = (out.svg.take(), &args.svg) {
+        svg.finish().with_context(|| format!("{}: cannot write the SVG", path.display()))?;
+        eprintln!("wrote {}", path.display());
     }
     Ok(())
 }

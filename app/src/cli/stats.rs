@@ -337,9 +337,9 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
     // Fail early, naming the bed, on readings outside 0–360°.
     for s in &sections {
         for (i, b) in s.beds.iter().enumerate() {
-            if let Some(a) = b.paleocurrents_deg.iter().find(|a| !(0.0..=360.0).contains(*a)) {
+            if let Some(a) = b.azimuths().find(|a| !(0.0..=360.0).contains(a)) {
                 anyhow::bail!(
-                    "{}: section {:?}, bed {} (id {}), field paleocurrents_deg: {a} is not an azimuth; valid values lie between 0 and 360 degrees",
+                    "{}: section {:?}, bed {} (id {}), field paleocurrents: {a} is not an azimuth; valid values lie between 0 and 360 degrees",
                     args.file.display(),
                     s.name,
                     i + 1,

@@ -8,7 +8,7 @@
 use aggrade_core::model::Project;
 #[cfg(any(test, feature = "test-hooks"))]
 use aggrade_core::model::{
-    Bed, BedId, Contact, GrainSize, Lithology, PaleosolDevelopment, PaleosolFeature, Section, Structure,
+    Bed, BedId, Contact, Paleocurrent, GrainSize, Lithology, PaleosolDevelopment, PaleosolFeature, Section, Structure,
     Surface, SurfaceKind, WentworthClass,
 };
 
@@ -78,7 +78,7 @@ pub fn demo_section() -> Section {
         } else {
             b.structures.push(Structure::MudClasts);
         }
-        b.paleocurrents_deg = vec![212.0, 198.0, 225.0, 205.0];
+        b.paleocurrents = [212.0, 198.0, 225.0, 205.0].into_iter().map(Paleocurrent::azimuth).collect();
         beds.push(b);
         if k == 1 {
             beds.push(bed(0.2, Mudstone, Silt, Silt));
@@ -101,7 +101,7 @@ pub fn demo_section() -> Section {
             Structure::TroughCrossBedding,
             Structure::RippleCrossLamination,
         ];
-        b.paleocurrents_deg = vec![140.0, 155.0, 122.0];
+        b.paleocurrents = [140.0, 155.0, 122.0].into_iter().map(Paleocurrent::azimuth).collect();
         if k == 1 {
             // A soil on the sandstone top: its upper 0.6 m rooted and mottled.
             b.thickness_m = t - 0.6;

@@ -71,7 +71,7 @@ impl Typed {
             Typed::GrainBase => "grain_base",
             Typed::GrainTop => "grain_top",
             Typed::Relief => "base_relief_m",
-            Typed::Paleocurrents => "paleocurrents_deg",
+            Typed::Paleocurrents => "paleocurrents",
             Typed::Samples => "samples",
             Typed::SurfaceName => "base_surface.name",
         }
@@ -84,10 +84,8 @@ impl Typed {
             Typed::GrainBase => bed.grain_base.map(|g| g.to_string()).unwrap_or_default(),
             Typed::GrainTop => bed.grain_top.map(|g| g.to_string()).unwrap_or_default(),
             Typed::Relief => bed.base_relief_m.map(|r| show_length(r, unit)).unwrap_or_default(),
-            Typed::Paleocurrents => {
-                bed.paleocurrents_deg.iter().map(|a| format!("{a}")).collect::<Vec<_>>().join("; ")
-            }
-            Typed::Samples => bed.samples.join("; "),
+            Typed::Paleocurrents => shorthand::paleocurrents_code(&bed.paleocurrents),
+            Typed::Samples => shorthand::samples_code(&bed.samples),
             Typed::SurfaceName => bed.base_surface.as_ref().map(|s| s.name.clone()).unwrap_or_default(),
         }
     }
@@ -129,11 +127,10 @@ impl Typed {
                 };
             }
             Typed::Paleocurrents => {
-                bed.paleocurrents_deg = shorthand::paleocurrents(text).map_err(|e| format!("{label}: {e}"))?
+                bed.paleocurrents = shorthand::paleocurrents(text).map_err(|e| format!("{label}: {e}"))?
             }
             Typed::Samples => {
-                bed.samples =
-                    text.split(';').map(|s| s.trim().to_string()).filter(|s| !s.is_empty()).collect();
+                bed.samples = shorthand::samples(text, &bed.samples);
             }
             Typed::SurfaceName => {
                 if text.trim().is_empty() {
@@ -722,7 +719,7 @@ mod tests {
             Bed::new(BedId(1), 1.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)));
         let mut b = sand.clone();
         Typed::Paleocurrents.read("240 225", &mut b, unit).expect("two azimuths");
-        assert_eq!(b.paleocurrents_deg, vec![240.0, 225.0]);
+        assert_eq!(b.azimuths().collect::<Vec<_>>(), vec![240.0, 225.0]);
         let mut b = sand.clone();
         let e = Typed::Paleocurrents.read("240 425", &mut b, unit).expect_err("425 is no azimuth");
         assert!(e.starts_with("Paleocurrents (°): \"425\""), "{e}");
@@ -744,18 +741,18 @@ mod tests {
         assert_eq!(bare.grain_base, Some(GrainSize::Class(WentworthClass::VeryFineSand)));
         let mut b = sand.clone();
         Typed::Samples.read(" CW-1; ;CW-2 ", &mut b, unit).expect("samples");
-        assert_eq!(b.samples, vec!["CW-1".to_string(), "CW-2".to_string()]);
+        assert_eq!(aggrade_core::model::shorthand::samples_code(&b.samples), "CW-1; CW-2");
         let mut b = sand.clone();
         Typed::Relief.read("40cm", &mut b, unit).expect("relief");
         assert_eq!(b.base_relief_m, Some(0.4));
         assert!(Typed::Relief.read("-1", &mut b, unit).is_err());
         // The stored form reads back to the same value.
         let mut b = sand.clone();
-        b.paleocurrents_deg = vec![12.5, 300.0];
+        b.paleocurrents = [12.5, 300.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
         let shown = Typed::Paleocurrents.stored(&b, unit);
         let mut again = sand.clone();
         Typed::Paleocurrents.read(&shown, &mut again, unit).expect("reads back");
-        assert_eq!(again.paleocurrents_deg, b.paleocurrents_deg);
+        assert_eq!(again.paleocurrents, b.paleocurrents);
     }
 
     #[test]
@@ -782,7 +779,7 @@ mod tests {
         let mut b =
             Bed::new(BedId(1), 1.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)));
         Typed::Paleocurrents.read("120; 135,140 0 360", &mut b, unit).expect("five azimuths");
-        assert_eq!(b.paleocurrents_deg, vec![120.0, 135.0, 140.0, 0.0, 360.0]);
+        assert_eq!(b.azimuths().collect::<Vec<_>>(), vec![120.0, 135.0, 140.0, 0.0, 360.0]);
         for bad in ["400", "north"] {
             let e = Typed::Paleocurrents.read(bad, &mut b, unit).expect_err(bad);
             assert!(e.starts_with("Paleocurrents (°):") && e.contains("0–360"), "{e}");

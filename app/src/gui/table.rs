@@ -586,8 +586,8 @@ fn more_codes(b: &Bed, unit: LengthUnit) -> String {
     if b.base_contact != aggrade_core::model::Contact::Sharp || b.base_relief_m.is_some() {
         parts.push(sh::contact_code(b.base_contact, b.base_relief_m, unit));
     }
-    if !b.paleocurrents_deg.is_empty() {
-        parts.push(format!("{}°", sh::paleocurrents_code(&b.paleocurrents_deg)));
+    if !b.paleocurrents.is_empty() {
+        parts.push(format!("{}°", sh::paleocurrents_code(&b.paleocurrents)));
     }
     if let Some(s) = &b.base_surface {
         parts.push(s.name.clone());
@@ -633,7 +633,7 @@ mod tests {
         b.structures = vec![Structure::BasalLag];
         b.base_contact = Contact::Erosional;
         b.base_relief_m = Some(1.2);
-        b.paleocurrents_deg = vec![210.0, 225.0];
+        b.paleocurrents = [210.0, 225.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
         b.base_surface = Some(aggrade_core::model::Surface {
             name: "RG-E1".into(),
             kind: aggrade_core::model::SurfaceKind::Incision,

@@ -329,9 +329,9 @@ fn changed_bed(doc: &Document, s: &Sel, c: &Change) -> Bed {
         Change::Grains(x, y) => (b.grain_base, b.grain_top) = (x, y),
         Change::Notes(t) => b.notes = t,
         Change::Colour(t) => b.colour = t,
-        Change::Paleocurrents(v) => b.paleocurrents_deg = v,
+        Change::Paleocurrents(v) => b.paleocurrents = v.into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect(),
         Change::Relief(r) => b.base_relief_m = r,
-        Change::Samples(v) => b.samples = v,
+        Change::Samples(v) => b.samples = v.into_iter().map(aggrade_core::model::Sample::labelled).collect(),
         Change::Surface(name) => b.base_surface = name.map(|name| Surface { name, kind: SurfaceKind::Other }),
         Change::Carbonate(s) => b.carbonate_stage = s,
     }

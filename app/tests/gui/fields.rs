@@ -52,8 +52,8 @@ fn paleocurrents(h: &Harness<'static, AggradeApp>, id: BedId) -> Vec<f64> {
         .iter()
         .find(|b| b.id == id)
         .expect("bed still there")
-        .paleocurrents_deg
-        .clone()
+        .azimuths()
+        .collect()
 }
 
 fn select(h: &mut Harness<'static, AggradeApp>, id: BedId) {
@@ -77,7 +77,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     let data = tempfile::tempdir().expect("temp dir");
     let mut h = inspector(data.path());
     let beds = h.state().doc.section().beds.clone();
-    let bed = beds.iter().find(|b| b.paleocurrents_deg.is_empty()).expect("a bed without paleocurrents").id;
+    let bed = beds.iter().find(|b| b.paleocurrents.is_empty()).expect("a bed without paleocurrents").id;
     let other = beds.iter().find(|b| b.id != bed).expect("another bed").id;
     select(&mut h, bed);
     let revision = h.state().doc.revision;

@@ -217,7 +217,7 @@ fn a_thirteen_bed_field_log_is_typed_with_no_mouse_and_reads_bed_by_bed() {
             relief_m: b.base_relief_m,
             paleosol: b.paleosol,
             features: b.paleosol_features.clone(),
-            paleocurrents: b.paleocurrents_deg.clone(),
+            paleocurrents: b.azimuths().collect(),
         };
         assert!((got.thickness_m - w.thickness_m).abs() < 1e-9, "bed {}: {got:?}", i + 1);
         assert_eq!(Logged { thickness_m: w.thickness_m, ..got }, *w, "bed {}", i + 1);

@@ -180,9 +180,10 @@ pub fn per_bed(section: &Section, params: &CircularParams) -> Result<Vec<BedPale
     let bases = section.base_heights_m();
     let mut out = Vec::new();
     for (i, bed) in section.beds.iter().enumerate() {
-        if bed.paleocurrents_deg.len() >= 2 {
+        let readings: Vec<f64> = bed.flow_azimuths().collect();
+        if readings.len() >= 2 {
             let summary =
-                circular_summary(&bed.paleocurrents_deg, params).map_err(|e| bed_error(section, i, e))?;
+                circular_summary(&readings, params).map_err(|e| bed_error(section, i, e))?;
             out.push(BedPaleocurrents { bed_index: i, base_m: bases[i], summary });
         }
     }
@@ -208,7 +209,7 @@ pub fn readings_in_interval(section: &Section, base_m: f64, top_m: f64) -> Vec<f
         .iter()
         .zip(bases)
         .filter(|(_, h)| *h >= base_m && *h < top_m)
-        .flat_map(|(b, _)| b.paleocurrents_deg.iter().copied())
+        .flat_map(|(b, _)| b.flow_azimuths())
         .collect()
 }
 
@@ -246,7 +247,7 @@ pub fn per_interval(
 
 /// All readings of a section, beds pooled.
 pub fn section_readings(section: &Section) -> Vec<f64> {
-    section.beds.iter().flat_map(|b| b.paleocurrents_deg.iter().copied()).collect()
+    section.beds.iter().flat_map(|b| b.flow_azimuths()).collect()
 }
 
 /// How petal length relates to the number of readings in a bin.
@@ -417,7 +418,7 @@ mod tests {
         let mut s = Section::new("Test");
         for (i, pcs) in [vec![10.0, 20.0], vec![], vec![200.0, 210.0, 220.0]].into_iter().enumerate() {
             let mut b = Bed::new(BedId(i as u64 + 1), 2.0, Lithology::Sandstone, None);
-            b.paleocurrents_deg = pcs;
+            b.paleocurrents = pcs.into_iter().map(crate::model::Paleocurrent::azimuth).collect();
             s.beds.push(b);
         }
         let r = per_interval(&s, &[0.0, 2.0, 6.0], &CircularParams::default()).expect("valid");

@@ -9,7 +9,7 @@ mod svg;
 
 pub use pdf::{write_pdf, write_pdf_in_groups, write_pdf_to, PdfInfo, PdfWriter, PAGES_PER_GROUP};
 pub use png::{px_per_mm, rasterise, write_png, PngError, DPI_RANGE, MAX_PNG_PIXELS};
-pub use svg::{write_svg, write_svg_to};
+pub use svg::{write_svg, write_svg_to, SvgWriter};
 
 /// The civil date (YYYY-MM-DD, UTC, proleptic Gregorian calendar) of a Unix time, for the
 /// "printed on" line; the time is passed in so output stays reproducible. Uses the

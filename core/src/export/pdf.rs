@@ -8,7 +8,7 @@
 //! has a fixed object number and is written after the last page, the font subset to the glyphs
 //! the whole document shows.
 
-use super::pdf_content::{num, uint, ContentWriter, FONT_RESOURCE, PT_PER_MM};
+use super::pdf_content::{num, uint, ContentWriter, PenState, FONT_RESOURCE, PT_PER_MM};
 use super::pdf_font::font_objects;
 use super::pdf_stream::{stream_into, Deflater};
 use crate::layout::Page;
@@ -29,6 +29,22 @@ pub struct PdfInfo {
 /// Memory holds one group's pages and their compressed content; the file's bytes do not depend on
 /// the group size.
 pub const PAGES_PER_GROUP: usize = 32;
+
+/// Size at which a page written in pieces ([`PdfWriter::begin_page`]) starts a new content
+/// stream, bytes before compression.
+const PIECE_STREAM_BYTES: usize = 1 << 20;
+
+/// A page begun with [`PdfWriter::begin_page`] and not yet ended.
+struct OpenPage {
+    width_mm: f64,
+    height_mm: f64,
+    /// Its content streams written so far.
+    contents: Vec<u32>,
+    /// The graphics state its content has set, and the content not yet written.
+    pen: PenState,
+    buf: Vec<u8>,
+    z: Deflater,
+}
 
 /// Object numbers fixed in advance, because every page refers to them; they are written last.
 const CATALOG: u32 = 1;
@@ -174,6 +190,8 @@ pub struct PdfWriter<W: Write> {
     /// Started with the first page given by value (none on a single core: pages are then
     /// translated where they are added).
     pool: Option<Pool>,
+    /// A page being written in pieces.
+    open: Option<OpenPage>,
 }
 
 impl<W: Write> PdfWriter<W> {
@@ -193,6 +211,7 @@ impl<W: Write> PdfWriter<W> {
             info: info.clone(),
             pages_per_group: pages_per_group.max(1),
             pool: None,
+            open: None,
         };
         // PDF 1.7; the second line's bytes above 127 mark the file as binary (ISO 32000-1 §7.5.2).
         w.put(b"%PDF-1.7\n%\xE2\xE3\xCF\xD3\n")?;
@@ -208,6 +227,9 @@ impl<W: Write> PdfWriter<W> {
     /// written as soon as the pages before it are. Waits for the workers when a group's worth of
     /// pages is not yet written.
     pub fn add_page(&mut self, page: Page) -> io::Result<()> {
+        if self.open.is_some() {
+            self.end_page()?;
+        }
         let threads = worker_count();
         if threads == 1 {
             let t = Translator::new().page(&page);
@@ -257,6 +279,9 @@ impl<W: Write> PdfWriter<W> {
 
     /// Translate and write pages now, in groups (pages still out with the workers go first).
     pub fn add_pages(&mut self, pages: &[Page]) -> io::Result<()> {
+        if self.open.is_some() {
+            self.end_page()?;
+        }
         self.drain(0)?;
         for group in pages.chunks(self.pages_per_group) {
             for t in translate(group) {
@@ -298,18 +323,102 @@ impl<W: Write> PdfWriter<W> {
         }
         let content = self.new_id();
         self.object(content, &t.body)?;
+        self.page_dictionary(t.width_mm, t.height_mm, &[content])
+    }
+
+    /// Start a page whose items come in pieces ([`PdfWriter::page_items`], then
+    /// [`PdfWriter::end_page`]), for a page too large to hold whole (a correlation panel of many
+    /// long sections): its content goes to the file in streams of about 1 MB as the items come.
+    /// Pages added before it are written first.
+    pub fn begin_page(&mut self, width_mm: f64, height_mm: f64) -> io::Result<()> {
+        self.drain(0)?;
+        let mut glyphs = BTreeMap::new();
+        let (buf, pen) = ContentWriter::start(height_mm, Vec::new(), &mut glyphs).pause();
+        let page = OpenPage { width_mm, height_mm, contents: Vec::new(), pen, buf, z: Deflater::new() };
+        self.merge_glyphs(glyphs);
+        self.open = Some(page);
+        Ok(())
+    }
+
+    /// The next items of the page begun with [`PdfWriter::begin_page`], in drawing order.
+    pub fn page_items(&mut self, items: &[crate::layout::Item]) -> io::Result<()> {
+        let Some(mut page) = self.open.take() else {
+            return Err(io::Error::other("page_items without begin_page"));
+        };
+        let mut glyphs = BTreeMap::new();
+        let mut w =
+            ContentWriter::resume(std::mem::take(&mut page.pen), std::mem::take(&mut page.buf), &mut glyphs);
+        // A few hundred items at a time, so no piece's content grows far past the stream size.
+        for chunk in items.chunks(256) {
+            w.items(chunk);
+            if w.len() >= PIECE_STREAM_BYTES {
+                let (buf, pen) = w.pause();
+                let buf = self.content_stream(&mut page, buf)?;
+                w = ContentWriter::resume(pen, buf, &mut glyphs);
+            }
+        }
+        (page.buf, page.pen) = w.pause();
+        self.merge_glyphs(glyphs);
+        self.open = Some(page);
+        Ok(())
+    }
+
+    /// Finish the page begun with [`PdfWriter::begin_page`]: its last content stream and its
+    /// page dictionary, whose `Contents` lists every stream in order.
+    pub fn end_page(&mut self) -> io::Result<()> {
+        let Some(mut page) = self.open.take() else {
+            return Err(io::Error::other("end_page without begin_page"));
+        };
+        let buf = std::mem::take(&mut page.buf);
+        if !buf.is_empty() || page.contents.is_empty() {
+            self.content_stream(&mut page, buf)?;
+        }
+        self.page_dictionary(page.width_mm, page.height_mm, &page.contents)
+    }
+
+    /// Write `content` as the open page's next content stream; gives the buffer back emptied.
+    fn content_stream(&mut self, page: &mut OpenPage, mut content: Vec<u8>) -> io::Result<Vec<u8>> {
+        let mut body = Vec::new();
+        stream_into(&mut body, b"", &content, &mut page.z);
+        let id = self.new_id();
+        self.object(id, &body)?;
+        page.contents.push(id);
+        content.clear();
+        Ok(content)
+    }
+
+    fn merge_glyphs(&mut self, glyphs: BTreeMap<u16, char>) {
+        for (g, c) in glyphs {
+            self.glyphs.entry(g).or_insert(c);
+        }
+    }
+
+    /// Write a page dictionary whose content is the stream objects `contents`, in order.
+    fn page_dictionary(&mut self, width_mm: f64, height_mm: f64, contents: &[u32]) -> io::Result<()> {
         let page = self.new_id();
         let mut d = b"<< /Type /Page /Parent ".to_vec();
         uint(&mut d, u64::from(PAGE_TREE));
         d.extend_from_slice(b" 0 R /MediaBox [0 0 ");
-        num(&mut d, t.width_mm * PT_PER_MM, 3);
+        num(&mut d, width_mm * PT_PER_MM, 3);
         d.push(b' ');
-        num(&mut d, t.height_mm * PT_PER_MM, 3);
+        num(&mut d, height_mm * PT_PER_MM, 3);
         d.extend_from_slice(b"] /Resources ");
         uint(&mut d, u64::from(RESOURCES));
         d.extend_from_slice(b" 0 R /Contents ");
-        uint(&mut d, u64::from(content));
-        d.extend_from_slice(b" 0 R >>");
+        if let [content] = contents {
+            uint(&mut d, u64::from(*content));
+            d.extend_from_slice(b" 0 R >>");
+        } else {
+            d.push(b'[');
+            for (k, id) in contents.iter().enumerate() {
+                if k > 0 {
+                    d.push(if k % 16 == 0 { b'\n' } else { b' ' });
+                }
+                uint(&mut d, u64::from(*id));
+                d.extend_from_slice(b" 0 R");
+            }
+            d.extend_from_slice(b"] >>");
+        }
         self.object(page, &d)?;
         self.page_ids.push(page);
         Ok(())
@@ -320,6 +429,9 @@ impl<W: Write> PdfWriter<W> {
     pub fn finish(mut self) -> io::Result<W> {
         self.drain(0)?;
         self.pool = None;
+        if self.open.is_some() {
+            self.end_page()?;
+        }
 
         let next = self.offsets.len() as u32 + 1;
         let (font, next) = font_objects(&self.glyphs, FONT, next);
@@ -506,5 +618,52 @@ mod tests {
             assert_eq!(w.page_count(), p.len());
             assert!(w.finish().expect("memory") == together, "{waiting} pages waiting");
         }
+    }
+    /// The decompressed content of stream object `id` in `pdf`.
+    fn stream_of(pdf: &[u8], id: u32) -> Vec<u8> {
+        use std::io::Read;
+        let head = format!("\n{id} 0 obj\n");
+        let at = pdf.windows(head.len()).position(|w| w == head.as_bytes()).expect("object") + head.len();
+        let start = at + pdf[at..].windows(7).position(|w| w == b"stream\n").expect("stream") + 7;
+        let end = start + pdf[start..].windows(10).position(|w| w == b"\nendstream").expect("end");
+        let mut out = Vec::new();
+        flate2::read::ZlibDecoder::new(&pdf[start..end]).read_to_end(&mut out).expect("inflates");
+        out
+    }
+
+    /// The object numbers in the first page's `/Contents` (one number or an array).
+    fn contents_of(pdf: &[u8]) -> Vec<u32> {
+        let text = String::from_utf8_lossy(pdf);
+        let after = text.split("/Contents ").nth(1).expect("a page");
+        let list = after.strip_prefix('[').map_or(after, |a| a.split(']').next().unwrap_or(""));
+        let list = list.split(">>").next().unwrap_or("");
+        list.split(" 0 R").filter_map(|n| n.trim().parse().ok()).collect()
+    }
+
+    #[test]
+    fn a_page_written_in_pieces_is_the_page_written_whole() {
+        use crate::layout::sample::generated_section;
+        use crate::layout::{pages, LayoutOptions, Paper, PrintMeta};
+        // One tall page of 3,000 beds: about 2.5 MB of content, so several streams.
+        let (s, i) = generated_section(3_000);
+        let opts = LayoutOptions { paper: Paper::TallSingle, ..Default::default() };
+        let page = pages(&s, &i, &opts, &PrintMeta::default()).remove(0);
+        let info = PdfInfo::default();
+        let whole = write_pdf(std::slice::from_ref(&page), &info);
+        let mut w = PdfWriter::new(Vec::new(), &info).expect("memory");
+        w.begin_page(page.width_mm, page.height_mm).expect("memory");
+        for piece in page.items.chunks(997) {
+            w.page_items(piece).expect("memory");
+        }
+        w.end_page().expect("memory");
+        let pieces = w.finish().expect("memory");
+        let (one, many) = (contents_of(&whole), contents_of(&pieces));
+        assert_eq!(one.len(), 1);
+        assert!(many.len() >= 3, "{} content streams, {} bytes", many.len(), stream_of(&whole, one[0]).len());
+        // Read in order, as a reader joins a page's streams (ISO 32000-1 §7.7.3.3), the pieces
+        // are the whole page's content, byte for byte.
+        let joined: Vec<u8> = many.iter().flat_map(|id| stream_of(&pieces, *id)).collect();
+        assert!(joined == stream_of(&whole, one[0]), "content differs");
+        assert!(String::from_utf8_lossy(&pieces).contains("/Type /Pages /Count 1"));
     }
 }

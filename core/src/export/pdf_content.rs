@@ -114,6 +114,15 @@ impl Paint {
     }
 }
 
+/// The graphics state a piece of a page's content leaves set (colours, line width, dash).
+#[derive(Debug, Clone, Default)]
+pub(super) struct PenState {
+    fill: Option<Rgba>,
+    stroke_color: Option<Rgba>,
+    width_mm: Option<f64>,
+    dash: Option<Vec<f64>>,
+}
+
 /// Translates one page's items into content-stream bytes, tracking the graphics state so that
 /// repeats of a colour, width or dash are not written again.
 pub(super) struct ContentWriter<'g> {
@@ -130,19 +139,50 @@ impl<'g> ContentWriter<'g> {
     /// A writer for `page`'s content that writes into `buf` (emptied first, so one buffer can
     /// serve page after page).
     pub(super) fn new(page: &Page, mut buf: Vec<u8>, glyphs: &'g mut BTreeMap<u16, char>) -> Self {
-        buf.clear();
         buf.reserve(page.items.len() * 40 + 256);
-        let mut w =
-            ContentWriter { out: buf, fill: None, stroke_color: None, width_mm: None, dash: None, glyphs };
+        Self::start(page.height_mm, buf, glyphs)
+    }
+
+    /// The first piece of a page `height_mm` tall whose items come in pieces
+    /// ([`ContentWriter::items`], then [`ContentWriter::pause`] and [`ContentWriter::resume`]).
+    pub(super) fn start(height_mm: f64, mut buf: Vec<u8>, glyphs: &'g mut BTreeMap<u16, char>) -> Self {
+        buf.clear();
+        let mut w = Self::resume(PenState::default(), buf, glyphs);
         // The layout's coordinates: x right and y down from the top left corner, in mm
         // (ISO 32000-1 §8.3.4: the `cm` operator sets the current transformation matrix).
         num(&mut w.out, PT_PER_MM, 8);
         w.out.extend_from_slice(b" 0 0 ");
         num(&mut w.out, -PT_PER_MM, 8);
         w.out.extend_from_slice(b" 0 ");
-        num(&mut w.out, page.height_mm * PT_PER_MM, 6);
+        num(&mut w.out, height_mm * PT_PER_MM, 6);
         w.out.extend_from_slice(b" cm\n");
         w
+    }
+
+    /// Carry on a page's content, appending to `buf`, with the
+    /// graphics state the earlier pieces left: a page's content streams are read as one
+    /// (ISO 32000-1 §7.7.3.3, `Contents` as an array), so what is set stays set.
+    pub(super) fn resume(state: PenState, buf: Vec<u8>, glyphs: &'g mut BTreeMap<u16, char>) -> Self {
+        let PenState { fill, stroke_color, width_mm, dash } = state;
+        ContentWriter { out: buf, fill, stroke_color, width_mm, dash, glyphs }
+    }
+
+    /// The content written so far and the graphics state it leaves.
+    pub(super) fn pause(self) -> (Vec<u8>, PenState) {
+        let ContentWriter { out, fill, stroke_color, width_mm, dash, .. } = self;
+        (out, PenState { fill, stroke_color, width_mm, dash })
+    }
+
+    /// Translate the next items of the page.
+    pub(super) fn items(&mut self, items: &[Item]) {
+        for item in items {
+            self.item(item);
+        }
+    }
+
+    /// Bytes written so far.
+    pub(super) fn len(&self) -> usize {
+        self.out.len()
     }
 
     /// The content stream of a whole page.

@@ -84,27 +84,58 @@ pub fn write_svg(page: &Page) -> String {
 
 /// [`write_svg`] to any writer, in pieces of about 64 KB, so a long page (one tall column) never
 /// has its whole document in memory beside its items.
-pub fn write_svg_to<W: std::io::Write>(mut out: W, page: &Page) -> std::io::Result<()> {
-    const PIECE: usize = 64 * 1024;
-    let mut s = String::with_capacity(PIECE + 1024);
-    let (w, h) = (n(page.width_mm), n(page.height_mm));
-    let _ = writeln!(s, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>");
-    let _ = writeln!(
-        s,
-        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}mm\" height=\"{h}mm\" viewBox=\"0 0 {w} {h}\" \
-         font-family=\"DejaVu Sans, sans-serif\" stroke-linecap=\"butt\" stroke-linejoin=\"miter\">"
-    );
-    let _ = writeln!(s, "<rect x=\"0\" y=\"0\" width=\"{w}\" height=\"{h}\" fill=\"#ffffff\"/>");
-    for item in &page.items {
-        item_svg(&mut s, item);
-        if s.len() >= PIECE {
-            out.write_all(s.as_bytes())?;
-            s.clear();
-        }
+pub fn write_svg_to<W: std::io::Write>(out: W, page: &Page) -> std::io::Result<()> {
+    let mut svg = SvgWriter::begin(out, page.width_mm, page.height_mm)?;
+    svg.items(&page.items)?;
+    svg.finish().map(drop)
+}
+
+/// Size of the pieces an [`SvgWriter`] hands to its writer, bytes.
+const PIECE: usize = 64 * 1024;
+
+/// An SVG document written as its items come: the page's size first, then items in any number
+/// of batches (as [`crate::layout::PageStream::next_in_pieces`] draws them), then the end. The
+/// text goes out in pieces of about 64 KB, so neither the document nor all the page's items
+/// need be in memory.
+pub struct SvgWriter<W: std::io::Write> {
+    out: W,
+    buf: String,
+}
+
+impl<W: std::io::Write> SvgWriter<W> {
+    /// Start a document for a page `width_mm` × `height_mm` (user unit 1 mm, white paper).
+    pub fn begin(out: W, width_mm: f64, height_mm: f64) -> std::io::Result<Self> {
+        let mut s = String::with_capacity(PIECE + 1024);
+        let (w, h) = (n(width_mm), n(height_mm));
+        let _ = writeln!(s, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>");
+        let _ = writeln!(
+            s,
+            "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}mm\" height=\"{h}mm\" viewBox=\"0 0 {w} {h}\" \
+             font-family=\"DejaVu Sans, sans-serif\" stroke-linecap=\"butt\" stroke-linejoin=\"miter\">"
+        );
+        let _ = writeln!(s, "<rect x=\"0\" y=\"0\" width=\"{w}\" height=\"{h}\" fill=\"#ffffff\"/>");
+        Ok(SvgWriter { out, buf: s })
     }
-    s.push_str("</svg>\n");
-    out.write_all(s.as_bytes())?;
-    out.flush()
+
+    /// Write the next items, in drawing order.
+    pub fn items(&mut self, items: &[Item]) -> std::io::Result<()> {
+        for item in items {
+            item_svg(&mut self.buf, item);
+            if self.buf.len() >= PIECE {
+                self.out.write_all(self.buf.as_bytes())?;
+                self.buf.clear();
+            }
+        }
+        Ok(())
+    }
+
+    /// Close the document and flush the writer; gives the writer back.
+    pub fn finish(mut self) -> std::io::Result<W> {
+        self.buf.push_str("</svg>\n");
+        self.out.write_all(self.buf.as_bytes())?;
+        self.out.flush()?;
+        Ok(self.out)
+    }
 }
 
 /// One item as an SVG element on its own line.

@@ -57,7 +57,7 @@ use super::validate::validate_section;
 use crate::model::grain::normalise_term;
 use crate::model::shorthand::{self, Term};
 use crate::model::{
-    Bed, BedId, Contact, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section,
+    Bed, BedId, Contact, Sample, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section,
     Structure, Surface, SurfaceKind,
 };
 use std::collections::HashMap;
@@ -520,7 +520,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 None
             }),
         };
-        let paleocurrents_deg = shorthand::paleocurrents(
+        let paleocurrents = shorthand::paleocurrents(
             columns.cell(&record, "paleocurrents").unwrap_or(""),
         )
         .unwrap_or_else(|e| {
@@ -561,12 +561,13 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             },
         };
         let text = |name: &str| columns.cell(&record, name).unwrap_or("").to_string();
-        let samples: Vec<String> = columns
+        let samples: Vec<Sample> = columns
             .raw_cell(&record, "samples")
             .unwrap_or("")
             .split(';')
             .map(|s| unescape_formula(s.trim()).to_string())
             .filter(|s| !s.is_empty())
+            .map(Sample::labelled)
             .collect();
         let (Some(thickness), Some(lithology)) = (thickness, lithology) else { continue };
         if problems.len() > before {
@@ -583,7 +584,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         bed.paleosol = paleosol;
         bed.paleosol_features = paleosol_features;
         bed.carbonate_stage = carbonate_stage;
-        bed.paleocurrents_deg = paleocurrents_deg;
+        bed.paleocurrents = paleocurrents;
         if !surface_name.is_empty() {
             bed.base_surface = Some(Surface { name: surface_name, kind: SurfaceKind::Other });
         }
@@ -721,12 +722,12 @@ pub fn write_bed_table(section: &Section) -> String {
             bed.paleosol.name().to_string(),
             join(bed.paleosol_features.iter().map(|s| s.name().to_string()).collect()),
             bed.carbonate_stage.map(|s| s.to_string()).unwrap_or_default(),
-            join(bed.paleocurrents_deg.iter().map(|a| format!("{a}")).collect()),
+            shorthand::paleocurrents_code(&bed.paleocurrents),
             bed.base_surface.as_ref().map(|s| escape_formula(&s.name)).unwrap_or_default(),
             bed.base_surface.as_ref().map(|s| s.kind.name().to_string()).unwrap_or_default(),
             escape_formula(&bed.colour),
             escape_formula(&bed.fossils),
-            join(bed.samples.iter().map(|s| escape_formula(s)).collect()),
+            join(bed.samples.iter().map(|s| escape_formula(&s.id)).collect()),
             escape_formula(&bed.notes),
         ];
         let rank = bed.base_rank.map(|r| r.name().to_string()).unwrap_or_default();
@@ -758,7 +759,7 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
         // 1 ft = 0.3048 m exactly (1959 international yard and pound agreement).
         assert_eq!(s.beds[1].thickness_m, 10.0 * 0.3048);
         assert_eq!(s.beds[1].grain_top, Some(GrainSize::Class(WentworthClass::FineSand)));
-        assert_eq!(s.beds[1].paleocurrents_deg, vec![120.0, 135.0]);
+        assert_eq!(s.beds[1].azimuths().collect::<Vec<_>>(), vec![120.0, 135.0]);
         assert_eq!(s.beds[1].structures, vec![Structure::TroughCrossBedding, Structure::LateralAccretion]);
         assert_eq!(s.beds[1].base_surface.as_ref().map(|x| x.kind), Some(SurfaceKind::Incision));
         assert_eq!(s.beds[1].notes, "fines up, 2 storeys");
@@ -888,7 +889,7 @@ Thickness_ft,Lithology,grain_base,grain_top,base_contact,structures,paleosol,pal
             Some(("RG-1", SurfaceKind::PaleosolTop))
         );
         assert_eq!(sand.base_rank, Some(BaseRank::BodyBase));
-        assert_eq!(sand.paleocurrents_deg, vec![200.0, 215.0]);
+        assert_eq!(sand.azimuths().collect::<Vec<_>>(), vec![200.0, 215.0]);
         // A problem in a row with a covered top names that row's line.
         let bad = "thickness_m,lithology,grain\n1,sa,f\n3 c1,sa,\n";
         let problems = read_bed_table(bad, "x").expect_err("sandstone without a grain size");

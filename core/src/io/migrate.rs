@@ -9,6 +9,18 @@
 //! - `"contact"` became `"base_contact"`, `"paleocurrents"` became `"paleocurrents_deg"`;
 //! - a surface was a bare name, `"surface": "SB-1"`; v1 stores `"base_surface": {name, kind}`,
 //!   the kind inferred by [`infer_surface_kind`].
+//!
+//! Version 1 differs from version 2 thus (version 2 adds the whole field record: facies codes,
+//! photos, bioturbation, fossils by name, Munsell colour, lag composition, soil horizons and
+//! drainage on beds; measuring method, uncertainty, bedding, traverse, GPS fixes and channel-body
+//! widths on sections — all optional, so only these change):
+//! - `"paleocurrents_deg": [210, 225]` became `"paleocurrents": [{"azimuth_deg": 210}, …]`, each
+//!   reading able to carry its indicator and dip;
+//! - `"samples": ["SC-1"]` became `"samples": [{"id": "SC-1"}]`, each able to carry its kind and
+//!   height in the bed;
+//! - a `"colour"` that is a Munsell notation (`"10YR 5/4"`) moves to `"munsell"`; colour in
+//!   words stays;
+//! - review states written `"candidate"` are read as `"unreviewed"` (the word since version 2).
 
 use super::field_check::describe;
 use super::problem::Problem;
@@ -117,6 +129,60 @@ pub fn v0_to_v1(root: &mut Value) -> Vec<Problem> {
     problems
 }
 
+/// Rewrite a version-1 tree as version 2 (see the module note). Nothing changes in meaning: a
+/// value of the wrong type is carried over as it is, for the reader to report.
+pub fn v1_to_v2(root: &mut Value) {
+    let Some(obj) = root.as_object_mut() else { return };
+    obj.insert("format_version".into(), Value::from(2u32));
+    let Some(Value::Array(sections)) = obj.get_mut("sections") else { return };
+    for section in sections.iter_mut() {
+        let Some(Value::Array(beds)) = section.get_mut("beds") else { continue };
+        for bed in beds.iter_mut() {
+            let Some(bobj) = bed.as_object_mut() else { continue };
+            if let Some(readings) = bobj.remove("paleocurrents_deg") {
+                let readings = match readings {
+                    Value::Array(items) => Value::Array(
+                        items.into_iter().map(|a| serde_json::json!({ "azimuth_deg": a })).collect(),
+                    ),
+                    other => other,
+                };
+                bobj.entry("paleocurrents").or_insert(readings);
+            }
+            if let Some(Value::Array(samples)) = bobj.get_mut("samples") {
+                for s in samples.iter_mut() {
+                    if s.is_string() {
+                        *s = serde_json::json!({ "id": s.take() });
+                    }
+                }
+            }
+            let munsell = match bobj.get("colour") {
+                Some(Value::String(c)) if !bobj.contains_key("munsell") => {
+                    crate::model::Munsell::parse(c).ok().map(|m| m.to_string())
+                }
+                _ => None,
+            };
+            if let Some(m) = munsell {
+                bobj.remove("colour");
+                bobj.insert("munsell".into(), Value::String(m));
+            }
+        }
+    }
+}
+
+/// The version-1 spelling of a current path whose field was reshaped, for finding the line of a
+/// problem in a migrated file (`…paleocurrents[2].azimuth_deg` → `…paleocurrents_deg[2]`).
+pub(crate) fn v1_path(path: &str) -> Option<String> {
+    if let Some(at) = path.find(".paleocurrents[") {
+        let rest = &path[at + ".paleocurrents".len()..];
+        let index_end = rest.find(']').map_or(rest.len(), |i| i + 1);
+        return Some(format!("{}.paleocurrents_deg{}", &path[..at], &rest[..index_end]));
+    }
+    if let Some(stripped) = path.strip_suffix(".id").filter(|p| p.contains(".samples[")) {
+        return Some(stripped.to_string());
+    }
+    path.strip_suffix(".munsell").map(|head| format!("{head}.colour"))
+}
+
 /// The v0 name of a v1 field, for finding the line of a problem in a migrated file.
 pub(crate) fn v0_field_name(v1_field: &str) -> Option<&'static str> {
     Some(match v1_field {
@@ -134,6 +200,35 @@ pub(crate) fn v0_field_name(v1_field: &str) -> Option<&'static str> {
 mod tests {
     use super::*;
     use serde_json::json;
+
+    #[test]
+    fn migrates_a_v1_tree_without_changing_its_meaning() {
+        let mut v = json!({"format_version": 1, "sections": [{"name": "A", "beds": [
+            {"id": 1, "thickness_m": 2.0, "lithology": "sandstone", "paleocurrents_deg": [210, 225.5],
+             "samples": ["SC-1", "SC-2"], "colour": "10yr 5/4"},
+            {"id": 2, "thickness_m": 1.0, "lithology": "mudstone", "colour": "greenish grey",
+             "paleocurrents_deg": "north"}
+        ]}]});
+        v1_to_v2(&mut v);
+        assert_eq!(v["format_version"], 2);
+        let bed = &v["sections"][0]["beds"][0];
+        assert_eq!(bed["paleocurrents"], json!([{"azimuth_deg": 210}, {"azimuth_deg": 225.5}]));
+        assert!(bed.get("paleocurrents_deg").is_none());
+        assert_eq!(bed["samples"], json!([{"id": "SC-1"}, {"id": "SC-2"}]));
+        assert_eq!(bed["munsell"], "10YR 5/4");
+        assert!(bed.get("colour").is_none());
+        let words = &v["sections"][0]["beds"][1];
+        assert_eq!(words["colour"], "greenish grey");
+        assert!(words.get("munsell").is_none());
+        // A wrong value is carried over for the reader to report, not dropped.
+        assert_eq!(words["paleocurrents"], "north");
+        assert_eq!(
+            v1_path("sections[0].beds[3].paleocurrents[2].azimuth_deg").as_deref(),
+            Some("sections[0].beds[3].paleocurrents_deg[2]")
+        );
+        assert_eq!(v1_path("sections[0].beds[1].samples[0].id").as_deref(), Some("sections[0].beds[1].samples[0]"));
+        assert_eq!(v1_path("sections[0].beds[1].notes"), None);
+    }
 
     #[test]
     fn migrates_a_v0_tree() {

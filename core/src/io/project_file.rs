@@ -90,7 +90,7 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
                             Project::CURRENT_VERSION
                         ),
                     )],
-                    false,
+                    Project::CURRENT_VERSION,
                 ))
             }
             None => {
@@ -100,7 +100,7 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
                         "format_version",
                         format!("must be a whole number 0–{}, got {v}", Project::CURRENT_VERSION),
                     )],
-                    false,
+                    Project::CURRENT_VERSION,
                 ))
             }
         },
@@ -114,10 +114,13 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
         ));
     }
     let FieldRead { project, problems: read_problems, warnings: read_warnings } =
-        if version == 0 && project_reader::is_object(text) {
-            // Version 0 is migrated as a tree.
+        if migrated && project_reader::is_object(text) {
+            // Older versions are migrated as a tree.
             let mut root: Value = serde_json::from_str(text).map_err(syntax_problem)?;
-            problems.extend(migrate::v0_to_v1(&mut root));
+            if version == 0 {
+                problems.extend(migrate::v0_to_v1(&mut root));
+            }
+            migrate::v1_to_v2(&mut root);
             read_project(&root)
         } else {
             read_project_raw(text, &project_reader::beds_with_unknown_fields(&unknown))
@@ -130,9 +133,9 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
     match project {
         Some(project) if problems.is_empty() => {
             warnings.extend(retired_params(&project));
-            Ok(ProjectRead { project, warnings: with_lines(text, warnings, migrated) })
+            Ok(ProjectRead { project, warnings: with_lines(text, warnings, version) })
         }
-        _ => Err(with_lines(text, problems, migrated)),
+        _ => Err(with_lines(text, problems, version)),
     }
 }
 
@@ -152,28 +155,37 @@ fn char_column(text: &str, line: usize, byte_column: usize) -> usize {
     line_text.char_indices().take_while(|(i, c)| i + c.len_utf8() <= byte).count() + 1
 }
 
-/// Attach line numbers to problems located by JSON path.
-fn with_lines(text: &str, mut problems: Vec<Problem>, migrated: bool) -> Vec<Problem> {
+/// A current path as spelt in a file of an older version, when it differs.
+fn older_path(path: &str, version: u32) -> Option<String> {
+    if version >= Project::CURRENT_VERSION {
+        return None;
+    }
+    let v1 = migrate::v1_path(path);
+    if version >= 1 {
+        return v1;
+    }
+    let v1 = v1.unwrap_or_else(|| path.to_string());
+    v0_path(&v1)
+}
+
+/// Attach line numbers to problems located by JSON path, in a file of version `from_version`.
+fn with_lines(text: &str, mut problems: Vec<Problem>, from_version: u32) -> Vec<Problem> {
     let wanted: Vec<String> = problems
         .iter()
         .filter(|p| p.line.is_none() && !p.location.is_empty())
         .flat_map(|p| {
             let mut paths = vec![p.location.clone()];
-            if migrated {
-                if let Some(v0) = v0_path(&p.location) {
-                    paths.push(v0);
-                }
-            }
+            paths.extend(older_path(&p.location, from_version));
             paths
         })
         .collect();
     let refs: Vec<&str> = wanted.iter().map(String::as_str).collect();
     let lines = json_scan::lines_of(text, &refs);
     for p in problems.iter_mut().filter(|p| p.line.is_none()) {
-        let v0 = if migrated { v0_path(&p.location) } else { None };
-        // Prefer the exact v0 field over the v1 path's nearest ancestor.
+        let older = older_path(&p.location, from_version);
+        // Prefer the exact field under its older name over the current path's nearest ancestor.
         let exact = |path: &str| lines.get(path).copied();
-        p.line = v0.as_deref().and_then(exact).or_else(|| exact(&p.location));
+        p.line = older.as_deref().and_then(exact).or_else(|| exact(&p.location));
     }
     for p in problems.iter_mut().filter(|p| p.line.is_none() && p.location.is_empty()) {
         p.line = Some(1); // The root value.

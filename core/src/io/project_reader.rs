@@ -11,8 +11,10 @@ use super::field_check::{check, describe, first_wrong_field, FieldCheck};
 use super::json_scan::KnownFields;
 use super::problem::Problem;
 use crate::model::{
-    BaseRank, Bed, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
-    Project, ReviewDecision, Section, Structure, Surface,
+    BaseRank, BeddingAttitude, Bed, BodyLateral, Contact, Drainage, FaciesCode, FixRole, GpsFix, GrainSize,
+    Indicator, LatLon, LengthUnit, Lithology, MeasuringMethod, Munsell, PaleosolDevelopment, PaleosolFeature,
+    Paleocurrent, Photo, Project, ReviewDecision, Sample, SampleKind, Section, SoilHorizon, Structure, Surface,
+    Traverse,
 };
 use serde::de::{DeserializeOwned, MapAccess, SeqAccess, Visitor};
 use serde::Deserialize;
@@ -33,6 +35,66 @@ enum Kind {
 
 fn string_list(v: &Value) -> Result<(), String> {
     check::<String>(v)
+}
+
+/// One paleocurrent reading, naming the field at fault.
+fn check_paleocurrent(v: &Value) -> Result<(), String> {
+    let whole = check::<Paleocurrent>(v);
+    let Some(obj) = v.as_object() else {
+        return whole.map_err(|_| format!("a reading must be an object {{\"azimuth_deg\": …}}, got {}", describe(v)));
+    };
+    let fields: [(&str, bool, FieldCheck); 3] = [
+        ("azimuth_deg", true, check::<f64>),
+        ("indicator", false, check::<Indicator>),
+        ("dip_deg", false, check::<Option<f64>>),
+    ];
+    first_wrong_field(obj, &fields)?;
+    whole
+}
+
+/// One sample, naming the field at fault.
+fn check_sample(v: &Value) -> Result<(), String> {
+    let whole = check::<Sample>(v);
+    let Some(obj) = v.as_object() else {
+        return whole.map_err(|_| format!("a sample must be an object {{\"id\": …}}, got {}", describe(v)));
+    };
+    let fields: [(&str, bool, FieldCheck); 3] = [
+        ("id", true, check::<String>),
+        ("kind", false, check::<Option<SampleKind>>),
+        ("height_in_bed_m", false, check::<Option<f64>>),
+    ];
+    first_wrong_field(obj, &fields)?;
+    whole
+}
+
+/// One GPS fix, naming the field at fault.
+fn check_fix(v: &Value) -> Result<(), String> {
+    let whole = check::<GpsFix>(v);
+    let Some(obj) = v.as_object() else { return whole };
+    let fields: [(&str, bool, FieldCheck); 6] = [
+        ("role", true, check::<FixRole>),
+        ("height_m", true, check::<f64>),
+        ("lat_deg", true, check::<f64>),
+        ("lon_deg", true, check::<f64>),
+        ("elevation_m", false, check::<Option<f64>>),
+        ("note", false, check::<String>),
+    ];
+    first_wrong_field(obj, &fields)?;
+    whole
+}
+
+/// One channel body's lateral data, naming the field at fault.
+fn check_body_lateral(v: &Value) -> Result<(), String> {
+    let whole = check::<BodyLateral>(v);
+    let Some(obj) = v.as_object() else { return whole };
+    let fields: [(&str, bool, FieldCheck); 4] = [
+        ("base_bed", true, check::<u64>),
+        ("width_m", false, check::<Option<f64>>),
+        ("beyond_outcrop", false, check::<bool>),
+        ("note", false, check::<String>),
+    ];
+    first_wrong_field(obj, &fields)?;
+    whole
 }
 
 /// One review decision, naming the field at fault (serde alone names none).
@@ -62,6 +124,12 @@ const SECTION_FIELDS: &[(&str, Kind)] = &[
     ("date_logged", Kind::Optional(check::<Option<String>>)),
     ("logged_by", Kind::Optional(check::<String>)),
     ("notes", Kind::Optional(check::<String>)),
+    ("method", Kind::Optional(check::<Option<MeasuringMethod>>)),
+    ("thickness_uncertainty_m", Kind::Optional(check::<Option<f64>>)),
+    ("bedding", Kind::Optional(check::<Option<BeddingAttitude>>)),
+    ("traverse", Kind::Optional(check::<Option<Traverse>>)),
+    ("fixes", Kind::List(check_fix)),
+    ("body_lateral", Kind::List(check_body_lateral)),
     ("display_unit", Kind::Optional(check::<LengthUnit>)),
     ("beds", Kind::List(|_| Ok(()))),
     ("review", Kind::List(check_review)),
@@ -85,9 +153,19 @@ const BED_FIELDS: &[(&str, Kind)] = &[
     ("base_surface", Kind::Optional(check::<Option<Surface>>)),
     ("base_rank", Kind::Optional(check::<Option<BaseRank>>)),
     ("colour", Kind::Optional(check::<String>)),
-    ("paleocurrents_deg", Kind::List(check::<f64>)),
+    ("munsell", Kind::Optional(check::<Option<Munsell>>)),
+    ("paleocurrents", Kind::List(check_paleocurrent)),
     ("fossils", Kind::Optional(check::<String>)),
-    ("samples", Kind::List(string_list)),
+    ("trace_fossils", Kind::List(string_list)),
+    ("body_fossils", Kind::List(string_list)),
+    ("bioturbation_index", Kind::Optional(check::<Option<u8>>)),
+    ("samples", Kind::List(check_sample)),
+    ("photos", Kind::List(check::<Photo>)),
+    ("facies", Kind::Optional(check::<Option<FaciesCode>>)),
+    ("lag_composition", Kind::Optional(check::<String>)),
+    ("soil_horizon", Kind::Optional(check::<Option<SoilHorizon>>)),
+    ("drainage", Kind::Optional(check::<Option<Drainage>>)),
+    ("slope_distance_m", Kind::Optional(check::<Option<f64>>)),
     ("notes", Kind::Optional(check::<String>)),
 ];
 

@@ -109,12 +109,21 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
                 ));
             }
         }
-        for (k, a) in bed.paleocurrents_deg.iter().enumerate() {
-            if !(a.is_finite() && (0.0..=360.0).contains(a)) {
+        for (k, p) in bed.paleocurrents.iter().enumerate() {
+            let a = p.azimuth_deg;
+            if !(a.is_finite() && (0.0..=360.0).contains(&a)) {
                 out.push(Problem::new(
-                    format!("beds[{i}].paleocurrents_deg[{k}]"),
-                    format!("an azimuth must lie between 0 and 360 degrees, got {}", show(*a)),
+                    format!("beds[{i}].paleocurrents[{k}].azimuth_deg"),
+                    format!("an azimuth must lie between 0 and 360 degrees, got {}", show(a)),
                 ));
+            }
+            if let Some(d) = p.dip_deg {
+                if !(d.is_finite() && (0.0..=90.0).contains(&d)) {
+                    out.push(Problem::new(
+                        format!("beds[{i}].paleocurrents[{k}].dip_deg"),
+                        format!("a dip must lie between 0 and 90 degrees, got {}", show(d)),
+                    ));
+                }
             }
         }
         if let Some(stage) = bed.carbonate_stage {
@@ -135,7 +144,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
             check_text(&mut out, &at(field), text);
         }
         for (k, s) in bed.samples.iter().enumerate() {
-            check_text(&mut out, &format!("beds[{i}].samples[{k}]"), s);
+            check_text(&mut out, &format!("beds[{i}].samples[{k}].id"), &s.id);
         }
     }
     let mut decided: HashMap<u64, usize> = HashMap::new();
@@ -365,7 +374,7 @@ pub fn check_iso_date(text: &str) -> Result<(), String> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::model::{Bed, BedId, Lithology, ReviewDecision, ReviewState, WentworthClass};
+    use crate::model::{Bed, BedId, Lithology, Paleocurrent, ReviewDecision, ReviewState, WentworthClass};
 
     fn sand(id: u64, t: f64) -> Bed {
         Bed::new(BedId(id), t, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)))
@@ -383,7 +392,7 @@ mod tests {
     fn reports_every_problem_with_its_path() {
         let mut s = Section::new("  ");
         let mut b = sand(1, -1.2);
-        b.paleocurrents_deg = vec![10.0, 361.0];
+        b.paleocurrents = vec![Paleocurrent::azimuth(10.0), Paleocurrent::azimuth(361.0)];
         b.carbonate_stage = Some(7);
         b.base_relief_m = Some(-0.1);
         let mut covered = Bed::new(BedId(1), 1.0, Lithology::Covered, None);
@@ -404,7 +413,7 @@ mod tests {
             "date_logged",
             "beds[0].thickness_m",
             "beds[0].base_relief_m",
-            "beds[0].paleocurrents_deg[1]",
+            "beds[0].paleocurrents[1].azimuth_deg",
             "beds[0].carbonate_stage",
             "beds[1].id",
             "beds[1].grain_top",

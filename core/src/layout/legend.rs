@@ -110,7 +110,7 @@ pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
             v.push(LegendEntry::Contact(bed.base_contact));
         }
         v.extend(bed.structures.iter().map(|s| LegendEntry::Structure(*s)));
-        let n = bed.paleocurrents_deg.iter().filter(|a| a.is_finite()).count();
+        let n = bed.flow_azimuths().filter(|a| a.is_finite()).count();
         if n >= 4 {
             v.push(LegendEntry::PaleocurrentRose);
         } else if n > 0 {

@@ -117,6 +117,8 @@ pub struct PageStream<'a> {
     curves_note: Option<String>,
     plan: Vec<PagePlan>,
     next: usize,
+    /// Heights the column may be cut at between pieces without cutting an interpretation interval.
+    cuts: PieceCuts,
 }
 
 /// Lay out the printed pages lazily: the page breaks are worked out first (cheap: heights only),
@@ -205,7 +207,21 @@ pub fn page_stream<'a>(
             break;
         }
     }
-    PageStream { ctx, opts, meta, rules, entries, frame, header_h, usable_w, curves_note, plan, next: 0 }
+    let cuts = PieceCuts::new(interp);
+    PageStream {
+        ctx,
+        opts,
+        meta,
+        rules,
+        entries,
+        frame,
+        header_h,
+        usable_w,
+        curves_note,
+        plan,
+        next: 0,
+        cuts,
+    }
 }
 
 impl PageStream<'_> {
@@ -214,17 +230,70 @@ impl PageStream<'_> {
         self.plan.len()
     }
 
+    /// Width and height of the paper, mm (every page of one stream has the same).
+    pub fn page_size_mm(&self) -> (f64, f64) {
+        (self.frame.width, self.frame.height)
+    }
+
+    /// The next page, drawn and handed to `piece` a part at a time instead of as one [`Page`]:
+    /// header, legend and track titles first, then the column a few hundred beds at a time
+    /// (cut at bed tops outside every storey, channel body, paleosol profile, regime and
+    /// proportion interval where one is near), then the scale and footer. Written one after
+    /// another, the pieces draw the same page as [`Iterator::next`] gives; a page as tall as the
+    /// whole column (the `tall` paper) so never has all its items in memory at once. `None`
+    /// after the last page; otherwise the first error `piece` returned, if any.
+    pub fn next_in_pieces<E>(
+        &mut self,
+        mut piece: impl FnMut(&[Item]) -> Result<(), E>,
+    ) -> Option<Result<(), E>> {
+        if self.next >= self.plan.len() {
+            return None;
+        }
+        let index = self.next;
+        self.next += 1;
+        let mut items = Vec::new();
+        let result = self.draw_into(index, PIECE_BEDS, &mut items, &mut |items, _segment| {
+            piece(items)?;
+            items.clear();
+            Ok(())
+        });
+        Some(result.and_then(|()| piece(&items)))
+    }
+
     /// Draw page `index` (0-based) of the plan.
     fn draw_page(&self, index: usize) -> Page {
+        let frame = &self.frame;
+        let mut items = Vec::new();
+        let mut segments = Vec::new();
+        let drawn = self.draw_into(index, usize::MAX, &mut items, &mut |_items, segment| {
+            segments.extend(segment);
+            Ok::<(), std::convert::Infallible>(())
+        });
+        match drawn {
+            Ok(()) => Page { width_mm: frame.width, height_mm: frame.height, items, segments },
+            Err(never) => match never {},
+        }
+    }
+
+    /// Draw page `index` into `items`, calling `flush` after each piece of a segment's column
+    /// (with `None`) and after each segment (with the segment). A segment's column is drawn
+    /// `piece_beds` beds at a time at most (`usize::MAX`: whole, and bed boxes kept; otherwise
+    /// the boxes are dropped after each piece).
+    fn draw_into<E>(
+        &self,
+        index: usize,
+        piece_beds: usize,
+        items: &mut Vec<Item>,
+        flush: &mut dyn FnMut(&mut Vec<Item>, Option<PageSegment>) -> Result<(), E>,
+    ) -> Result<(), E> {
         let (ctx, opts, frame) = (&self.ctx, self.opts, &self.frame);
         let plan = &self.plan[index];
         let margin = frame.margin;
         let strip_w = ctx.tracks.width_mm;
-        let mut page =
-            Page { width_mm: frame.width, height_mm: frame.height, items: Vec::new(), segments: Vec::new() };
-        draw_header(ctx.section, opts, self.meta, frame, self.header_h, &mut page.items);
+        let whole = piece_beds == usize::MAX;
+        draw_header(ctx.section, opts, self.meta, frame, self.header_h, items);
         if plan.legend {
-            draw_legend(&self.entries, margin, margin + self.header_h, self.usable_w, &mut page.items);
+            draw_legend(&self.entries, margin, margin + self.header_h, self.usable_w, items);
         }
         let y_top = plan.y_top;
         for (k, &(cur, end)) in plan.segments.iter().enumerate() {
@@ -236,20 +305,113 @@ impl PageStream<'_> {
             let mut boxes = Vec::new();
             let unit = ctx.section.display_unit;
             let head = segment_head(cur, end, unit);
-            text(&mut page.items, x0, y_top + 3.2, &head, TEXT_PT, INK);
+            text(items, x0, y_top + 3.2, &head, TEXT_PT, INK);
             if let Some(note) = &self.curves_note {
                 let x = x0 + width(&head, TEXT_PT) + 3.0;
                 let size = fit_size(note, x0 + strip_w - x, SMALL_PT, 3.5).unwrap_or(3.5);
-                text(&mut page.items, x, y_top + 3.2, note, size, GREY);
+                text(items, x, y_top + 3.2, note, size, GREY);
             }
-            ctx.draw_titles(x0, y_titles, &mut page.items);
-            ctx.draw_range(cur, end, x0, &heights, &mut page.items, &mut boxes);
-            ctx.draw_scale(x0, y_base + PAD_MM, &mut page.items);
-            page.segments.push(PageSegment { base_m: cur, top_m: end, x_mm: x0, heights, bed_boxes: boxes });
+            ctx.draw_titles(x0, y_titles, items);
+            let mut lo = cur;
+            loop {
+                let hi = if whole { end } else { self.piece_top(lo, end, piece_beds) };
+                ctx.draw_range(lo, hi, x0, &heights, items, &mut boxes);
+                if hi >= end {
+                    break;
+                }
+                flush(items, None)?;
+                boxes.clear();
+                lo = hi;
+            }
+            ctx.draw_scale(x0, y_base + PAD_MM, items);
+            flush(items, Some(PageSegment { base_m: cur, top_m: end, x_mm: x0, heights, bed_boxes: boxes }))?;
         }
-        draw_footer(frame, &self.rules, index + 1, self.plan.len(), &mut page.items);
-        page
+        draw_footer(frame, &self.rules, index + 1, self.plan.len(), items);
+        Ok(())
     }
+
+    fn piece_top(&self, lo: f64, end: f64, piece_beds: usize) -> f64 {
+        piece_top(&self.ctx, &self.cuts, lo, end, piece_beds)
+    }
+}
+
+/// Where a piece of a column starting at `lo` ends: at the top of the bed `piece_beds` beds
+/// up, or of a later bed within [`PIECE_SEARCH_BEDS`] whose top cuts no interpretation interval
+/// (then none but regimes and proportion intervals); `end` when it is nearer.
+pub(super) fn piece_top(ctx: &ColumnCtx<'_>, cuts: &PieceCuts, lo: f64, end: f64, piece_beds: usize) -> f64 {
+    let tops = &ctx.tops_m;
+    let eps = 1e-9;
+    let want = tops.partition_point(|&t| t <= lo + eps).saturating_add(piece_beds);
+    if want >= tops.len() || tops[want] >= end - eps {
+        return end;
+    }
+    let last = want.saturating_add(PIECE_SEARCH_BEDS).min(tops.len());
+    for strict in [true, false] {
+        for &h in &tops[want..last] {
+            if h >= end - eps {
+                break;
+            }
+            if cuts.clear_at(h, strict) {
+                return h;
+            }
+        }
+    }
+    tops[want]
+}
+
+/// Beds in one piece of [`PageStream::next_in_pieces`]: a piece's items take a few hundred
+/// kilobytes whatever the length of the page.
+pub(super) const PIECE_BEDS: usize = 200;
+/// How many beds past [`PIECE_BEDS`] a piece may run to end where it cuts no interval.
+const PIECE_SEARCH_BEDS: usize = 1_000;
+
+/// Heights where the interpretation tracks have an interval running across (open intervals,
+/// merged and sorted), so pieces of a column can be cut where nothing is drawn across the cut.
+#[derive(Debug, Default)]
+pub(super) struct PieceCuts {
+    /// Storeys, channel bodies and paleosol profiles.
+    bodies: Vec<(f64, f64)>,
+    /// The same with the accommodation regimes and interval proportions.
+    all: Vec<(f64, f64)>,
+}
+
+impl PieceCuts {
+    pub(super) fn new(interp: &Interpretation) -> Self {
+        let bodies: Vec<(f64, f64)> = interp
+            .storeys
+            .iter()
+            .map(|s| (s.base_m, s.top_m))
+            .chain(interp.channel_bodies.iter().map(|b| (b.base_m, b.top_m)))
+            .chain(interp.paleosols.iter().map(|p| (p.base_m, p.top_m)))
+            .collect();
+        let mut all = bodies.clone();
+        all.extend(interp.accommodation.iter().map(|r| (r.base_m, r.top_m)));
+        all.extend(interp.interval_proportions.iter().map(|p| (p.base_m, p.top_m)));
+        PieceCuts { bodies: merged(bodies), all: merged(all) }
+    }
+
+    /// True when no interval runs across height `h` (only storeys, bodies and paleosols when
+    /// not `strict`).
+    fn clear_at(&self, h: f64, strict: bool) -> bool {
+        let spans = if strict { &self.all } else { &self.bodies };
+        let k = spans.partition_point(|&(_, top)| top <= h);
+        spans.get(k).is_none_or(|&(base, _)| base >= h)
+    }
+}
+
+/// Open intervals sorted by base and merged where they overlap (intervals that only touch stay
+/// apart: their shared end is clear); intervals with a non-finite end are left out.
+fn merged(mut spans: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
+    spans.retain(|(b, t)| b.is_finite() && t.is_finite() && t > b);
+    spans.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let mut out: Vec<(f64, f64)> = Vec::with_capacity(spans.len());
+    for (b, t) in spans {
+        match out.last_mut() {
+            Some(last) if b < last.1 => last.1 = last.1.max(t),
+            _ => out.push((b, t)),
+        }
+    }
+    out
 }
 
 impl Iterator for PageStream<'_> {
@@ -451,6 +613,101 @@ mod paging_tests {
                 }
             }
         }
+    }
+
+    /// The pieces of one page, drawn by `next_in_pieces`.
+    fn pieces_of(stream: &mut PageStream<'_>) -> Vec<Vec<Item>> {
+        let mut pieces = Vec::new();
+        let drawn = stream.next_in_pieces(|items| {
+            pieces.push(items.to_vec());
+            Ok::<(), ()>(())
+        });
+        assert_eq!(drawn, Some(Ok(())));
+        pieces
+    }
+
+    #[test]
+    fn a_tall_page_drawn_in_pieces_prints_as_the_whole_page() {
+        let (s, i) = generated_section(1_500);
+        let meta = PrintMeta { printed_on: "2026-12-03".into(), subtitle: "generated".into() };
+        let opts = LayoutOptions { paper: Paper::TallSingle, ..Default::default() };
+        let whole = pages(&s, &i, &opts, &meta).remove(0);
+        let mut stream = page_stream(&s, &i, &opts, &meta);
+        assert_eq!(stream.page_size_mm(), (whole.width_mm, whole.height_mm));
+        let pieces = pieces_of(&mut stream);
+        assert_eq!(stream.next_in_pieces(|_| Ok::<(), ()>(())), None, "one tall page only");
+        // Held a piece at a time: none holds more than a fraction of the page's items.
+        let largest = pieces.iter().map(Vec::len).max().unwrap_or(0);
+        assert!(pieces.len() >= 6, "{} pieces", pieces.len());
+        assert!(largest * 4 < whole.items.len(), "largest piece {largest} of {} items", whole.items.len());
+        // Written one after another they print the same page: rasterised at 40 dpi, at most one
+        // pixel in a thousand differs visibly (where a tick or label at a cut is drawn twice,
+        // or a dashed line restarts its pattern).
+        let joined = Page {
+            width_mm: whole.width_mm,
+            height_mm: whole.height_mm,
+            items: pieces.concat(),
+            segments: Vec::new(),
+        };
+        let a = crate::export::rasterise(&whole, 40.0).expect("whole page rasterises");
+        let b = crate::export::rasterise(&joined, 40.0).expect("joined pieces rasterise");
+        assert_eq!((a.width(), a.height()), (b.width(), b.height()));
+        let differ = a
+            .data()
+            .chunks_exact(4)
+            .zip(b.data().chunks_exact(4))
+            .filter(|(p, q)| p.iter().zip(q.iter()).any(|(x, y)| x.abs_diff(*y) > 48))
+            .count();
+        let total = (a.width() * a.height()) as usize;
+        assert!(differ * 1000 <= total, "{differ} of {total} pixels differ");
+        // Every bed's name of a surface and every text of the whole page is there.
+        let texts = |items: &[Item]| {
+            let mut t: Vec<String> = items
+                .iter()
+                .filter_map(|it| match it {
+                    Item::Text { text, .. } => Some(text.clone()),
+                    _ => None,
+                })
+                .collect();
+            t.sort();
+            t.dedup();
+            t
+        };
+        assert_eq!(texts(&joined.items), texts(&whole.items));
+    }
+
+    #[test]
+    fn short_pages_come_in_pieces_that_are_the_page_item_for_item() {
+        let (s, i) = generated_section(400);
+        let meta = PrintMeta::default();
+        let opts = LayoutOptions::default();
+        let whole = pages(&s, &i, &opts, &meta);
+        let mut stream = page_stream(&s, &i, &opts, &meta);
+        for page in &whole {
+            assert_eq!(pieces_of(&mut stream).concat(), page.items);
+        }
+        assert_eq!(stream.next_in_pieces(|_| Ok::<(), ()>(())), None);
+    }
+
+    #[test]
+    fn pieces_are_cut_outside_interpretation_intervals() {
+        // Storeys 1–3 and 2–5 overlap into 1–5; a regime 0–8 covers all but its ends.
+        let spans = merged(vec![(2.0, 5.0), (1.0, 3.0), (6.0, 7.0), (7.0, 7.5), (f64::NAN, 9.0)]);
+        assert_eq!(spans, vec![(1.0, 5.0), (6.0, 7.0), (7.0, 7.5)]);
+        let cuts = PieceCuts { bodies: spans, all: merged(vec![(1.0, 5.0), (6.0, 7.5), (0.0, 8.0)]) };
+        for (h, clear) in [
+            (0.5, true),
+            (1.0, true),
+            (3.0, false),
+            (5.0, true),
+            (5.5, true),
+            (7.0, true),
+            (7.2, false),
+            (9.0, true),
+        ] {
+            assert_eq!(cuts.clear_at(h, false), clear, "height {h}");
+        }
+        assert!(!cuts.clear_at(5.5, true) && cuts.clear_at(8.0, true) && cuts.clear_at(0.0, true));
     }
 
     #[test]

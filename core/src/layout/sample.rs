@@ -96,9 +96,10 @@ pub fn sample_section() -> Section {
     beds[7].paleosol = PaleosolDevelopment::VeryStrong;
     beds[9].paleosol = PaleosolDevelopment::Weak;
     beds[16].paleosol = PaleosolDevelopment::Strong;
-    beds[3].paleocurrents_deg = vec![192.0, 205.0, 214.0, 188.0, 230.0, 199.0];
-    beds[6].paleocurrents_deg = vec![150.0];
-    beds[14].paleocurrents_deg = vec![170.0, 240.0];
+    let az = |v: &[f64]| v.iter().map(|a| crate::model::Paleocurrent::azimuth(*a)).collect::<Vec<_>>();
+    beds[3].paleocurrents = az(&[192.0, 205.0, 214.0, 188.0, 230.0, 199.0]);
+    beds[6].paleocurrents = az(&[150.0]);
+    beds[14].paleocurrents = az(&[170.0, 240.0]);
     s.beds = beds;
     s
 }

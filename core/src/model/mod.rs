@@ -2,17 +2,23 @@
 //! log's vocabularies.
 
 pub mod curve;
+pub mod facies;
 pub mod grain;
 pub mod lithology;
+pub mod record;
 pub mod section;
+pub mod setting;
 pub mod shorthand;
 pub mod vocab;
 
 pub use curve::{IndexDirection, MeasuredCurve};
 pub use grain::{mm_to_phi, phi_to_mm, GrainSize, WentworthClass};
+pub use facies::FaciesCode;
 pub use lithology::{GrainSizeRule, Lithology, LithologyFamily};
+pub use record::{HorizonError, Munsell, MunsellError, Paleocurrent, Photo, Sample, SoilHorizon};
+pub use setting::{BeddingAttitude, BodyLateral, GpsFix, Traverse};
 pub use section::{Bed, BedId, LatLon, Project, ReviewDecision, ReviewState, Section, Surface};
 pub use vocab::{
-    BaseRank, Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
-    METRES_PER_FOOT,
+    BaseRank, Contact, Drainage, FixRole, Indicator, LengthUnit, MeasuringMethod, PaleosolDevelopment,
+    PaleosolFeature, SampleKind, Structure, SurfaceKind, METRES_PER_FOOT,
 };

@@ -1,10 +1,14 @@
 //! Sections, beds, named surfaces and review decisions: the record a geologist logs.
 
 use super::curve::MeasuredCurve;
+use super::facies::FaciesCode;
 use super::grain::GrainSize;
 use super::lithology::Lithology;
+use super::record::{Munsell, Paleocurrent, Photo, Sample, SoilHorizon};
+use super::setting::{BeddingAttitude, BodyLateral, GpsFix, Traverse};
 use super::vocab::{
-    BaseRank, Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
+    BaseRank, Contact, Drainage, LengthUnit, MeasuringMethod, PaleosolDevelopment, PaleosolFeature, Structure,
+    SurfaceKind,
 };
 use serde::{Deserialize, Serialize};
 
@@ -55,15 +59,50 @@ pub struct Bed {
     /// overriding the rules. Absent in older files.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub base_rank: Option<BaseRank>,
+    /// Colour in words ("greenish grey").
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub colour: String,
-    /// Paleocurrent azimuths in degrees, 0 ≤ a ≤ 360.
+    /// Colour as a Munsell notation ("10YR 5/4"). Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub munsell: Option<Munsell>,
+    /// Paleocurrent readings as measured (version 1 held bare azimuths, `paleocurrents_deg`).
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
-    pub paleocurrents_deg: Vec<f64>,
+    pub paleocurrents: Vec<Paleocurrent>,
+    /// Fossils in free words (version 1's only fossil field).
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub fossils: String,
+    /// Trace fossils by name ("Skolithos", "Planolites"). Version 2.
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
-    pub samples: Vec<String>,
+    pub trace_fossils: Vec<String>,
+    /// Body fossils by name ("unionid bivalves", "plant fragments"). Version 2.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub body_fossils: Vec<String>,
+    /// Bioturbation index 0–6 (Taylor & Goldring 1993). Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub bioturbation_index: Option<u8>,
+    /// Samples taken (version 1 held bare ids).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub samples: Vec<Sample>,
+    /// Photographs of the bed. Version 2.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub photos: Vec<Photo>,
+    /// The geologist's lithofacies code. `None` leaves the suggested code in force (see
+    /// `facies::suggest`). Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub facies: Option<FaciesCode>,
+    /// What the clasts of a basal lag are ("quartzite pebbles, mud clasts"). Version 2.
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub lag_composition: String,
+    /// Soil-horizon designation of this bed within a paleosol profile ("Bt", "Bk2"). Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub soil_horizon: Option<SoilHorizon>,
+    /// Drainage of the paleosol, as the geologist read it. Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub drainage: Option<Drainage>,
+    /// The distance measured along the ground across this bed, metres, when the thickness was
+    /// worked out from it (see `attitude::true_thickness`). Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub slope_distance_m: Option<f64>,
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub notes: String,
 }
@@ -102,11 +141,32 @@ impl Bed {
             base_surface: None,
             base_rank: None,
             colour: String::new(),
-            paleocurrents_deg: Vec::new(),
+            munsell: None,
+            paleocurrents: Vec::new(),
             fossils: String::new(),
+            trace_fossils: Vec::new(),
+            body_fossils: Vec::new(),
+            bioturbation_index: None,
             samples: Vec::new(),
+            photos: Vec::new(),
+            facies: None,
+            lag_composition: String::new(),
+            soil_horizon: None,
+            drainage: None,
+            slope_distance_m: None,
             notes: String::new(),
         }
+    }
+
+    /// The paleocurrent azimuths as measured, degrees, whatever their indicator.
+    pub fn azimuths(&self) -> impl Iterator<Item = f64> + '_ {
+        self.paleocurrents.iter().map(|p| p.azimuth_deg)
+    }
+
+    /// The azimuths of flow indicators (every reading but accretion-surface dips), degrees, as
+    /// measured.
+    pub fn flow_azimuths(&self) -> impl Iterator<Item = f64> + '_ {
+        self.paleocurrents.iter().filter(|p| p.indicator.is_flow()).map(|p| p.azimuth_deg)
     }
 
     /// True for a covered (unexposed) interval.
@@ -197,6 +257,25 @@ pub struct Section {
     pub logged_by: String,
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub notes: String,
+    /// How thicknesses were measured. Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub method: Option<MeasuringMethod>,
+    /// The geologist's estimate of the ± error of one thickness reading, metres. Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub thickness_uncertainty_m: Option<f64>,
+    /// Bedding attitude at the section. Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub bedding: Option<BeddingAttitude>,
+    /// The traverse along which slope distances were taped. Version 2.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub traverse: Option<Traverse>,
+    /// GPS fixes at the top and at each offset of a composite traverse (the base is
+    /// `coordinates`; a base fix may be repeated here with its elevation). Version 2.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub fixes: Vec<GpsFix>,
+    /// Lateral data on channel bodies (width across the outcrop). Version 2.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub body_lateral: Vec<BodyLateral>,
     /// Unit heights and thicknesses are shown in (m or ft); storage is always metres.
     #[serde(default = "default_display_unit")]
     pub display_unit: LengthUnit,
@@ -232,6 +311,12 @@ impl Section {
             date_logged: None,
             logged_by: String::new(),
             notes: String::new(),
+            method: None,
+            thickness_uncertainty_m: None,
+            bedding: None,
+            traverse: None,
+            fixes: Vec::new(),
+            body_lateral: Vec::new(),
             display_unit: LengthUnit::Metre,
             beds: Vec::new(),
             review: Vec::new(),
@@ -320,7 +405,7 @@ pub struct Project {
 
 impl Project {
     /// The format version this build writes.
-    pub const CURRENT_VERSION: u32 = 1;
+    pub const CURRENT_VERSION: u32 = 2;
 
     /// A project holding the given sections.
     pub fn new(sections: Vec<Section>) -> Self {

@@ -27,8 +27,9 @@
 
 use super::grain::{normalise_term, GrainSize, WentworthClass};
 use super::lithology::Lithology;
+use super::record::{Paleocurrent, Sample};
 use super::vocab::{
-    BaseRank, Contact, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
+    BaseRank, Contact, Indicator, LengthUnit, PaleosolDevelopment, PaleosolFeature, Structure, SurfaceKind,
 };
 use std::fmt;
 
@@ -572,21 +573,72 @@ pub fn paleosol_code(entry: &PaleosolEntry) -> String {
     parts.join(" ")
 }
 
-/// Read paleocurrent azimuths in degrees (0–360), separated by spaces, commas or semicolons.
-pub fn paleocurrents(text: &str) -> Result<Vec<f64>, ShorthandError> {
-    items(text)
-        .map(|s| match s.trim_end_matches('°').parse::<f64>() {
-            Ok(v) if v.is_finite() && (0.0..=360.0).contains(&v) => Ok(v),
-            _ => Err(ShorthandError::Number(format!(
-                "{s:?} is not an azimuth from 0 to 360°: write azimuths 0–360 separated by spaces, commas or ;"
-            ))),
-        })
-        .collect()
+/// Indicator codes of the paleocurrent cell, written after the azimuth (`210t`, `185p/22`).
+pub const INDICATOR_CODES: &[(&str, Indicator)] = &[
+    ("t", Indicator::TroughAxis),
+    ("p", Indicator::PlanarForeset),
+    ("r", Indicator::Ripple),
+    ("i", Indicator::Imbrication),
+    ("pl", Indicator::PartingLineation),
+    ("f", Indicator::FluteCast),
+    ("g", Indicator::GrooveCast),
+    ("a", Indicator::AccretionSurface),
+];
+
+/// Read a paleocurrent cell: readings separated by spaces, commas or `;`. A reading is an
+/// azimuth 0–360, optionally followed by an indicator code (t trough axis, p planar foreset,
+/// r ripple, i imbrication, pl parting lineation, f flute cast, g groove cast, a accretion
+/// surface) and `/dip` in degrees: `210`, `210t`, `185p/22`, `40a/12`.
+pub fn paleocurrents(text: &str) -> Result<Vec<Paleocurrent>, ShorthandError> {
+    items(text).map(paleocurrent).collect()
 }
 
-/// Azimuths written back, separated by spaces.
-pub fn paleocurrents_code(values: &[f64]) -> String {
-    values.iter().map(|v| trim_number(*v)).collect::<Vec<_>>().join(" ")
+fn paleocurrent(item: &str) -> Result<Paleocurrent, ShorthandError> {
+    let bad = || {
+        ShorthandError::Number(format!(
+            "{item:?} is not a paleocurrent reading: write an azimuth from 0 to 360°, optionally an indicator \
+             code ({}) and /dip, e.g. 210, 210t, 185p/22",
+            INDICATOR_CODES.iter().map(|(c, _)| *c).collect::<Vec<_>>().join(" ")
+        ))
+    };
+    let (main, dip) = match item.split_once('/') {
+        Some((m, d)) => (m, Some(d)),
+        None => (item, None),
+    };
+    let main = main.trim().trim_end_matches('°');
+    let split = main.find(|c: char| c.is_ascii_alphabetic()).unwrap_or(main.len());
+    let (number, code) = main.split_at(split);
+    let azimuth_deg = match number.trim().trim_end_matches('°').parse::<f64>() {
+        Ok(v) if v.is_finite() && (0.0..=360.0).contains(&v) => v,
+        _ => return Err(bad()),
+    };
+    let indicator = if code.is_empty() {
+        Indicator::Unspecified
+    } else {
+        let code = code.to_ascii_lowercase();
+        INDICATOR_CODES.iter().find(|(c, _)| *c == code).map(|(_, i)| *i).ok_or_else(bad)?
+    };
+    let dip_deg = match dip {
+        None => None,
+        Some(d) => match d.trim().trim_end_matches('°').parse::<f64>() {
+            Ok(v) if v.is_finite() && (0.0..=90.0).contains(&v) => Some(v),
+            _ => return Err(bad()),
+        },
+    };
+    Ok(Paleocurrent { azimuth_deg, indicator, dip_deg })
+}
+
+/// Readings written back in the cell's form, separated by spaces.
+pub fn paleocurrents_code(values: &[Paleocurrent]) -> String {
+    values
+        .iter()
+        .map(|p| {
+            let code = INDICATOR_CODES.iter().find(|(_, i)| *i == p.indicator).map_or("", |(c, _)| *c);
+            let dip = p.dip_deg.map(|d| format!("/{}", trim_number(d))).unwrap_or_default();
+            format!("{}{code}{dip}", trim_number(p.azimuth_deg))
+        })
+        .collect::<Vec<_>>()
+        .join(" ")
 }
 
 /// A named surface at a bed's base as typed: its name, and its kind when given.
@@ -630,9 +682,19 @@ pub fn rank_entry(text: &str) -> Result<Option<BaseRank>, ShorthandError> {
     term_from_code::<BaseRank>(text, "base rank").map(Some)
 }
 
-/// Read a samples cell: names separated by `;`, each trimmed, empty ones left out.
-pub fn samples(text: &str) -> Vec<String> {
-    text.split(';').map(|s| s.trim().to_string()).filter(|s| !s.is_empty()).collect()
+/// Read a samples cell: ids separated by `;`, each trimmed, empty ones left out. A sample
+/// already on the bed under the same id keeps its kind and height.
+pub fn samples(text: &str, existing: &[Sample]) -> Vec<Sample> {
+    text.split(';')
+        .map(str::trim)
+        .filter(|s| !s.is_empty())
+        .map(|id| existing.iter().find(|s| s.id == id).cloned().unwrap_or_else(|| Sample::labelled(id)))
+        .collect()
+}
+
+/// Sample ids written back in the cell's form.
+pub fn samples_code(samples: &[Sample]) -> String {
+    samples.iter().map(|s| s.id.as_str()).collect::<Vec<_>>().join("; ")
 }
 
 impl fmt::Display for PaleosolEntry {
@@ -849,12 +911,21 @@ mod tests {
 
     #[test]
     fn paleocurrents_read_as_a_list_in_range() {
-        assert_eq!(paleocurrents("200, 215;230"), Ok(vec![200.0, 215.0, 230.0]));
-        assert_eq!(paleocurrents("0 360 12.5°"), Ok(vec![0.0, 360.0, 12.5]));
+        let az = |v: &[f64]| v.iter().map(|a| Paleocurrent::azimuth(*a)).collect::<Vec<_>>();
+        assert_eq!(paleocurrents("200, 215;230"), Ok(az(&[200.0, 215.0, 230.0])));
+        assert_eq!(paleocurrents("0 360 12.5°"), Ok(az(&[0.0, 360.0, 12.5])));
         let e = paleocurrents("400").expect_err("out of range");
-        assert!(e.to_string().contains("\"400\"") && e.to_string().contains("0–360"), "{e}");
+        assert!(e.to_string().contains("\"400\"") && e.to_string().contains("0 to 360"), "{e}");
         assert!(paleocurrents("NE").is_err());
-        assert_eq!(paleocurrents_code(&[200.0, 212.5]), "200 212.5");
+        assert!(paleocurrents("210x").is_err());
+        assert!(paleocurrents("210p/95").is_err());
+        assert_eq!(paleocurrents_code(&az(&[200.0, 212.5])), "200 212.5");
+        let typed = paleocurrents("210t 185P/22 40a/12.5").expect("reads");
+        assert_eq!(typed[0], Paleocurrent { azimuth_deg: 210.0, indicator: Indicator::TroughAxis, dip_deg: None });
+        assert_eq!(typed[1], Paleocurrent { azimuth_deg: 185.0, indicator: Indicator::PlanarForeset, dip_deg: Some(22.0) });
+        assert_eq!(typed[2].indicator, Indicator::AccretionSurface);
+        assert_eq!(paleocurrents_code(&typed), "210t 185p/22 40a/12.5");
+        assert_eq!(paleocurrents(&paleocurrents_code(&typed)), Ok(typed));
     }
 
     #[test]
@@ -882,6 +953,9 @@ mod tests {
         assert_eq!(rank_entry("within storey"), Ok(Some(BaseRank::WithinStorey)));
         assert_eq!(rank_entry(" "), Ok(None));
         assert!(rank_entry("x").is_err());
-        assert_eq!(samples(" CW-1; ;CW-2 "), vec!["CW-1".to_string(), "CW-2".to_string()]);
+        assert_eq!(samples(" CW-1; ;CW-2 ", &[]), vec![Sample::labelled("CW-1"), Sample::labelled("CW-2")]);
+        let kept = Sample { id: "CW-2".into(), kind: Some(crate::model::SampleKind::DetritalZircon), height_in_bed_m: Some(0.4) };
+        assert_eq!(samples("CW-2; CW-3", std::slice::from_ref(&kept)), vec![kept.clone(), Sample::labelled("CW-3")]);
+        assert_eq!(samples_code(&[kept, Sample::labelled("CW-3")]), "CW-2; CW-3");
     }
 }

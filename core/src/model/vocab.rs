@@ -130,6 +130,96 @@ vocabulary! {
     }
 }
 
+vocabulary! {
+    /// What a paleocurrent reading was measured on. The stored azimuth is the direction as
+    /// measured: the plunge direction of a trough axis, the dip direction of a foreset, a ripple's
+    /// lee face or an accretion surface, the dip direction of imbricated clasts (upstream), the
+    /// trend of a lineation or groove (two-way). See `docs/field-record.md`.
+    Indicator {
+        /// A flow direction whose indicator was not written down (all version-1 readings).
+        Unspecified => "unspecified",
+        TroughAxis => "trough axis",
+        PlanarForeset => "planar foreset",
+        Ripple => "ripple",
+        Imbrication => "imbrication",
+        PartingLineation => "parting lineation",
+        FluteCast => "flute cast",
+        GrooveCast => "groove cast",
+        /// The dip direction of lateral-accretion surfaces: roughly across the flow, never pooled
+        /// with flow indicators (Miall 1974).
+        AccretionSurface => "accretion surface",
+    }
+}
+
+vocabulary! {
+    /// What a sample was taken for.
+    SampleKind {
+        HandSpecimen => "hand specimen",
+        ThinSection => "thin section",
+        Palynology => "palynology",
+        DetritalZircon => "detrital zircon",
+        Geochemistry => "geochemistry",
+        GrainSizeAnalysis => "grain size analysis",
+        Paleomagnetism => "paleomagnetism",
+        Radiocarbon => "radiocarbon",
+        Luminescence => "luminescence",
+        Other => "other",
+    }
+}
+
+vocabulary! {
+    /// Soil drainage class (Soil Survey Staff, Soil Survey Manual), read from a paleosol's
+    /// colours and features.
+    Drainage {
+        WellDrained => "well drained",
+        ModeratelyWellDrained => "moderately well drained",
+        SomewhatPoorlyDrained => "somewhat poorly drained",
+        PoorlyDrained => "poorly drained",
+        VeryPoorlyDrained => "very poorly drained",
+    }
+}
+
+vocabulary! {
+    /// How the section's thicknesses were measured.
+    MeasuringMethod {
+        JacobsStaff => "jacob's staff",
+        Tape => "tape",
+        LaserRangefinder => "laser rangefinder",
+        Other => "other",
+    }
+}
+
+vocabulary! {
+    /// Where along the traverse a GPS fix was taken.
+    FixRole {
+        Base => "base",
+        Top => "top",
+        /// The foot of an offset of a composite traverse (the section moves along a marker bed).
+        Offset => "offset",
+    }
+}
+
+impl Drainage {
+    /// True for somewhat poorly drained and wetter.
+    pub fn is_poor(self) -> bool {
+        self >= Drainage::SomewhatPoorlyDrained
+    }
+}
+
+impl Indicator {
+    /// True for indicators of flow direction (everything but accretion-surface dips).
+    pub fn is_flow(self) -> bool {
+        self != Indicator::AccretionSurface
+    }
+}
+
+#[allow(clippy::derivable_impls)]
+impl Default for Indicator {
+    fn default() -> Self {
+        Indicator::Unspecified
+    }
+}
+
 #[allow(clippy::derivable_impls)]
 impl Default for Contact {
     fn default() -> Self {

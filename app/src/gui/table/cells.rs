@@ -181,7 +181,7 @@ impl Cell {
             "base_surface" => Cell::Surface,
             "base_rank" => Cell::Rank,
             "colour" => Cell::Colour,
-            "paleocurrents_deg" => Cell::Paleocurrents,
+            "paleocurrents" | "paleocurrents_deg" => Cell::Paleocurrents,
             "fossils" => Cell::Fossils,
             "samples" => Cell::Samples,
             "notes" => Cell::Notes,
@@ -205,13 +205,13 @@ pub fn bed_cells(bed: &Bed, unit: LengthUnit) -> Texts {
     t[Cell::Paleosol as usize] = sh::paleosol_code(&paleosol);
     t[Cell::Structures as usize] = sh::codes(&bed.structures);
     t[Cell::Contact as usize] = sh::contact_code(bed.base_contact, bed.base_relief_m, unit);
-    t[Cell::Paleocurrents as usize] = sh::paleocurrents_code(&bed.paleocurrents_deg);
+    t[Cell::Paleocurrents as usize] = sh::paleocurrents_code(&bed.paleocurrents);
     t[Cell::Surface as usize] =
         bed.base_surface.as_ref().map(|s| sh::surface_code(&s.name, s.kind)).unwrap_or_default();
     t[Cell::Rank as usize] = bed.base_rank.map(sh::short_code).unwrap_or_default();
     t[Cell::Colour as usize] = bed.colour.clone();
     t[Cell::Fossils as usize] = bed.fossils.clone();
-    t[Cell::Samples as usize] = bed.samples.join("; ");
+    t[Cell::Samples as usize] = sh::samples_code(&bed.samples);
     t[Cell::Notes as usize] = bed.notes.clone();
     t
 }
@@ -291,7 +291,7 @@ pub fn read_row(
     }
     if read(Cell::Paleocurrents) {
         match sh::paleocurrents(text(Cell::Paleocurrents)) {
-            Ok(p) => bed.paleocurrents_deg = p,
+            Ok(p) => bed.paleocurrents = p,
             Err(e) => fail(Cell::Paleocurrents, e.to_string()),
         }
     }
@@ -322,7 +322,7 @@ pub fn read_row(
         bed.fossils = text(Cell::Fossils).trim().to_string();
     }
     if read(Cell::Samples) {
-        bed.samples = sh::samples(text(Cell::Samples));
+        bed.samples = sh::samples(text(Cell::Samples), &bed.samples);
     }
     if read(Cell::Notes) {
         bed.notes = text(Cell::Notes).trim().to_string();
@@ -390,8 +390,8 @@ pub fn describe(bed: &Bed, unit: LengthUnit) -> String {
         }
         parts.push(c);
     }
-    if !bed.paleocurrents_deg.is_empty() {
-        parts.push(format!("paleocurrents {}°", sh::paleocurrents_code(&bed.paleocurrents_deg)));
+    if !bed.paleocurrents.is_empty() {
+        parts.push(format!("paleocurrents {}°", sh::paleocurrents_code(&bed.paleocurrents)));
     }
     if let Some(s) = &bed.base_surface {
         parts.push(format!("surface {} ({}) at its base", s.name, s.kind));
@@ -453,7 +453,7 @@ mod tests {
         assert_eq!(b.paleosol_features, vec![PaleosolFeature::RootTraces]);
         assert_eq!(b.structures, vec![Structure::BasalLag, Structure::Imbrication]);
         assert_eq!((b.base_contact, b.base_relief_m), (Contact::Erosional, Some(1.2)));
-        assert_eq!(b.paleocurrents_deg, vec![210.0, 225.0]);
+        assert_eq!(b.azimuths().collect::<Vec<_>>(), vec![210.0, 225.0]);
         // An erosional base: the surface is an incision surface unless said otherwise.
         assert_eq!(b.base_surface, Some(Surface { name: "RG-E1".into(), kind: SurfaceKind::Incision }));
         assert_eq!(b.base_rank, Some(BaseRank::BodyBase));
@@ -461,7 +461,7 @@ mod tests {
             (b.colour.as_str(), b.fossils.as_str(), b.notes.as_str()),
             ("10YR 6/4", "wood", "lag of mud clasts")
         );
-        assert_eq!(b.samples, vec!["CW-1".to_string(), "CW-2".to_string()]);
+        assert_eq!(aggrade_core::model::shorthand::samples_code(&b.samples), "CW-1; CW-2");
         // The bed written back cell by cell reads back to the same bed.
         let again = read_row(
             &bed_cells(b, LengthUnit::Metre),

@@ -730,7 +730,7 @@ mod tests {
         // 3.048 m = 10 ft of mudstone, then 1.524 m = 5 ft of sandstone with three readings.
         s.beds.push(Bed::new(BedId(1), 3.048, Lithology::Mudstone, None));
         let mut b = Bed::new(BedId(2), 1.524, Lithology::Sandstone, sand);
-        b.paleocurrents_deg = vec![10.0, 20.0, 30.0];
+        b.paleocurrents = [10.0, 20.0, 30.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
         s.beds.push(b);
         let p = Project::new(vec![s]);
         let interps: Vec<Interpretation> =

@@ -157,14 +157,15 @@ impl ColumnCtx<'_> {
     /// never leaving the paleocurrent track (so never over the structure symbols beside it).
     pub(super) fn draw_paleocurrent_marks(&self, part: &Part<'_>, out: &mut Vec<Item>) {
         let Part { lo, hi, x0, t } = *part;
-        let mut wanted: Vec<(f64, &[f64])> = Vec::new();
+        let mut wanted: Vec<(f64, Vec<f64>)> = Vec::new();
         for i in self.beds_in(lo, hi) {
             let bed = &self.section.beds[i];
             let (b, tp) = (self.bases_m[i].max(lo), self.top_m(i).min(hi));
-            if tp <= b || !bed.paleocurrents_deg.iter().any(|a| a.is_finite()) {
+            let readings: Vec<f64> = bed.flow_azimuths().filter(|a| a.is_finite()).collect();
+            if tp <= b || readings.is_empty() {
                 continue;
             }
-            wanted.push(((t.y_mm(b) + t.y_mm(tp)) / 2.0, &bed.paleocurrents_deg));
+            wanted.push(((t.y_mm(b) + t.y_mm(tp)) / 2.0, readings));
         }
         let tr = self.tracks.paleocurrents;
         let radius = mark_radius_mm(tr.w_mm);
@@ -342,7 +343,7 @@ mod tests {
         for k in 0..60 {
             let mut b = Bed::new(BedId(k + 1), 0.4, Lithology::Sandstone, None);
             b.structures = vec![Structure::TroughCrossBedding, Structure::MudClasts, Structure::BasalLag];
-            b.paleocurrents_deg = readings(k);
+            b.paleocurrents = readings(k).into_iter().map(crate::model::Paleocurrent::azimuth).collect();
             s.beds.push(b);
         }
         let it = interpret(&s, &RuleParams::default());

@@ -206,8 +206,7 @@ impl ColumnCtx<'_> {
             TrackKind::Paleocurrents => {
                 let i = self.bed_at(h)?;
                 let readings: Vec<String> = self.section.beds[i]
-                    .paleocurrents_deg
-                    .iter()
+                    .flow_azimuths()
                     .filter(|a| a.is_finite())
                     .map(|a| format!("{a:03.0}\u{b0}"))
                     .collect();

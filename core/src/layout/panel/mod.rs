@@ -46,7 +46,7 @@ use super::column::ColumnCtx;
 use super::items::{Item, PtMm, Rgba};
 use super::legend::draw_legend;
 use super::options::{LayoutOptions, PrintMeta};
-use super::page::{Page, PageSegment};
+use super::page::{piece_top, Page, PageSegment, PieceCuts, PIECE_BEDS};
 use super::transform::HeightTransform;
 use crate::model::{Project, Section};
 use crate::rules::Interpretation;
@@ -297,6 +297,39 @@ pub fn panel_layout(
     opts: &PanelOptions,
     meta: &PrintMeta,
 ) -> Result<PanelLayout, PanelError> {
+    lay_out(project, interps, opts, meta, None)
+}
+
+/// Where [`panel_layout_in_pieces`] hands the items: called with the page's size (width,
+/// height; mm, the same every time) and the next items in drawing order; returns false to stop
+/// drawing (the writer failed).
+pub type PanelSink<'s> = &'s mut dyn FnMut((f64, f64), &[Item]) -> bool;
+
+/// The same panel, drawn into `sink` a piece at a time (header, legend and key; each column a
+/// few hundred beds at a time; its strip, scale and head; the lines across and the notes) instead
+/// of into one page, so a panel of many long sections never holds all its items: written one
+/// after another, the pieces are the page [`panel_layout`] gives (cut between beds, outside
+/// storeys, channel bodies and paleosol profiles where one is near). The layout returned has
+/// everything but the page's items and the bed boxes. Drawing stops early when `sink` returns
+/// false.
+pub fn panel_layout_in_pieces(
+    project: &Project,
+    interps: &[Interpretation],
+    opts: &PanelOptions,
+    meta: &PrintMeta,
+    sink: PanelSink<'_>,
+) -> Result<PanelLayout, PanelError> {
+    lay_out(project, interps, opts, meta, Some(sink))
+}
+
+/// [`panel_layout`] (no sink: every item kept on the page) or [`panel_layout_in_pieces`].
+fn lay_out(
+    project: &Project,
+    interps: &[Interpretation],
+    opts: &PanelOptions,
+    meta: &PrintMeta,
+    mut sink: Option<PanelSink<'_>>,
+) -> Result<PanelLayout, PanelError> {
     let sections = &project.sections;
     check_input(sections, interps, opts)?;
 
@@ -344,12 +377,28 @@ pub fn panel_layout(
         notes.push(notes::enlarged_note(&opts.layout, &sheet));
     }
 
+    // Hands the items drawn so far to the sink and empties them; keeps them when there is none.
+    // False once the sink has refused, and from then on nothing more is drawn.
+    let size = (sheet.page_w, sheet.page_h);
+    let in_pieces = sink.is_some();
+    let mut going = true;
+    let mut flush = |items: &mut Vec<Item>| -> bool {
+        if let Some(sink) = sink.as_mut() {
+            going = going && sink(size, items);
+            items.clear();
+        }
+        going
+    };
+    // After a refusal, the columns are left undrawn.
+    let mut refused;
+
     // Header, legend and key.
     let mut items: Vec<Item> = Vec::new();
     draw::header(&sheet, &head, &mut items);
     draw_legend(&entries, sheet.margin, sheet.y_legend, sheet.usable_w, &mut items);
     let any_link = markers.iter().any(|m| m.markers.iter().any(|m| m.link.is_some()));
     draw::key(sheet.margin, sheet.y_key, any_link, &mut items);
+    refused = !flush(&mut items);
 
     // Columns, left to right.
     let positions = &horizontal.positions;
@@ -377,12 +426,32 @@ pub fn panel_layout(
         let mut boxes = Vec::new();
         ctx.draw_titles(x, sheet.y_titles, &mut items);
         draw::strip_titles(x + tracks.width_mm, sheet.y_titles, &mut items);
-        ctx.draw_range(0.0, ctx.total_m, x, &heights, &mut items, &mut boxes);
+        if refused {
+            // The sink refused: nothing more is drawn.
+            items.clear();
+        } else if in_pieces {
+            // A piece at a time, the bed boxes dropped with each.
+            let cuts = PieceCuts::new(it);
+            let mut lo = 0.0;
+            loop {
+                let hi = piece_top(&ctx, &cuts, lo, ctx.total_m, PIECE_BEDS);
+                ctx.draw_range(lo, hi, x, &heights, &mut items, &mut boxes);
+                boxes.clear();
+                refused = !flush(&mut items);
+                if refused || hi >= ctx.total_m {
+                    break;
+                }
+                lo = hi;
+            }
+        } else {
+            ctx.draw_range(0.0, ctx.total_m, x, &heights, &mut items, &mut boxes);
+        }
         draw::strip(&ctx, &column, &markers[i].markers, opts, &mut items);
         ctx.draw_scale(x, sheet.y_scale, &mut items);
         draw::head(&ctx, &column, positions.source, &opts.datum, sheet.y_heads, &mut items);
         segments.push(PageSegment { base_m: 0.0, top_m: ctx.total_m, x_mm: x, heights, bed_boxes: boxes });
         columns.push(column);
+        refused = !flush(&mut items);
         if let Some(&gap) = horizontal.gaps.get(k) {
             if horizontal.widened_gaps.contains(&k) {
                 draw::not_to_scale(x + slot_w, gap, sheet.y_titles, &mut items);
@@ -397,6 +466,7 @@ pub fn panel_layout(
     draw::ties(&ties, &mut items);
     notes.extend(tie_notes);
     notes::draw_notes_and_footer(&notes, &sheet, &mut items);
+    flush(&mut items);
 
     Ok(PanelLayout {
         page: Page { width_mm: sheet.page_w, height_mm: sheet.page_h, items, segments },

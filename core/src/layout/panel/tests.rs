@@ -441,3 +441,65 @@ fn heights_in_notes_and_heads_are_in_the_section_display_unit() {
     // C is 6 m = 19.7 ft thick.
     assert!(texts(&l).iter().any(|(s, ..)| s == "hung on base; 19.7 ft thick"));
 }
+
+#[test]
+fn a_panel_drawn_in_pieces_prints_as_the_panel_drawn_whole() {
+    use crate::layout::sample::generated_section;
+    // Three long sections (500, 900, 1,300 beds): every column comes in several pieces.
+    let sections: Vec<Section> = [500, 900, 1_300]
+        .iter()
+        .enumerate()
+        .map(|(k, &n)| {
+            let mut s = generated_section(n).0;
+            s.name = format!("G{k}");
+            s.panel_position_m = Some(k as f64 * 500.0);
+            s
+        })
+        .collect();
+    let p = Project::new(sections);
+    let i = interps(&p);
+    let o = PanelOptions {
+        layout: LayoutOptions { scale_denominator: 500.0, ..opts("base").layout },
+        ..opts("base")
+    };
+    let meta = PrintMeta::default();
+    let whole = panel_layout(&p, &i, &o, &meta).expect("panel");
+    let mut pieces: Vec<Vec<Item>> = Vec::new();
+    let mut sizes = Vec::new();
+    let streamed = panel_layout_in_pieces(&p, &i, &o, &meta, &mut |size, items| {
+        sizes.push(size);
+        pieces.push(items.to_vec());
+        true
+    })
+    .expect("panel in pieces");
+    assert!(sizes.iter().all(|s| *s == (whole.page.width_mm, whole.page.height_mm)));
+    assert_eq!(
+        (streamed.columns.clone(), streamed.ties.clone()),
+        (whole.columns.clone(), whole.ties.clone())
+    );
+    assert!(streamed.page.items.is_empty(), "the items went to the sink");
+    let largest = pieces.iter().map(Vec::len).max().unwrap_or(0);
+    assert!(pieces.len() >= 14, "{} pieces", pieces.len());
+    assert!(largest * 5 < whole.page.items.len(), "largest piece {largest} of {}", whole.page.items.len());
+    // One after another, the pieces print the same page: at 60 dpi at most one pixel in a
+    // thousand differs visibly (a tick or a label at a cut drawn twice).
+    let joined = Page { items: pieces.concat(), ..whole.page.clone() };
+    let a = crate::export::rasterise(&whole.page, 60.0).expect("whole panel rasterises");
+    let b = crate::export::rasterise(&joined, 60.0).expect("joined pieces rasterise");
+    let differ = a
+        .data()
+        .chunks_exact(4)
+        .zip(b.data().chunks_exact(4))
+        .filter(|(p, q)| p.iter().zip(q.iter()).any(|(x, y)| x.abs_diff(*y) > 48))
+        .count();
+    let total = (a.width() * a.height()) as usize;
+    assert!(differ * 1000 <= total, "{differ} of {total} pixels differ");
+    // A sink that refuses stops the drawing.
+    let mut calls = 0;
+    let stopped = panel_layout_in_pieces(&p, &i, &o, &meta, &mut |_, _| {
+        calls += 1;
+        false
+    });
+    assert!(stopped.is_ok());
+    assert_eq!(calls, 1, "nothing handed over after the sink refused");
+}
