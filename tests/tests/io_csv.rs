@@ -117,7 +117,7 @@ fn bad_azimuth() {
         2,
         "paleocurrents",
     );
-    assert!(p.message.contains("400") && p.message.contains("0–360"), "{p}");
+    assert!(p.message.contains("400") && p.message.contains("0 to 360"), "{p}");
     only_problem("thickness_m,lithology,grain,paleocurrents\n1,sandstone,fine sand,NE\n", 2, "paleocurrents");
 }
 

@@ -176,7 +176,14 @@ fn bed(id: u64, text: impl Strategy<Value = BedText>) -> impl Strategy<Value = B
             b.base_surface = text.surface.map(|name| Surface { name, kind: SurfaceKind::ALL[kind] });
             b.colour = text.colour;
             b.fossils = text.fossils;
-            b.samples = text.samples.into_iter().map(Sample::labelled).collect();
+            // A sample needs a label, once per bed (validation refuses blank and repeated ids).
+            let mut ids: Vec<String> = Vec::new();
+            for s in text.samples.into_iter().filter(|s| !s.trim().is_empty()) {
+                if !ids.contains(&s) {
+                    ids.push(s);
+                }
+            }
+            b.samples = ids.into_iter().map(Sample::labelled).collect();
             b.notes = text.notes;
             b
         })

@@ -42,7 +42,7 @@ fn every_committed_bad_file_is_refused_with_line_field_and_what_is_valid() {
                 "4 problems",
                 "line 11: sections[0].beds[0].thickness_m: invalid type: string \"three\", expected f64",
                 "line 26: sections[0].beds[1].lithology",
-                "line 50: sections[0].beds[2].paleocurrents_deg: must be a list",
+                "line 50: sections[0].beds[2].paleocurrents: must be a list",
                 "line 66: sections[1].beds: must be a list",
             ],
         ),

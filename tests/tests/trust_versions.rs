@@ -45,16 +45,70 @@ fn every_version_fixture_opens() {
     }
 }
 
-/// The version 0 file (feet and centimetres, old field names) and the version 1 file written
-/// from it hold the same project, and the version 1 file saves back byte for byte: migration
-/// keeps every value.
+/// The version 0 file (feet and centimetres, old field names), the version 1 file written from
+/// it and the version 2 file written from that hold the same project, and the version 2 file
+/// saves back byte for byte: migration keeps every value.
 #[test]
-fn version_0_migrates_to_the_same_project_as_its_version_1_save() {
+fn version_0_and_1_migrate_to_the_same_project_as_their_version_2_save() {
     let v0 = open("v0_corrie_sedge.aggrade");
     let v1 = open("v1_corrie_sedge.aggrade");
+    let v2 = open("v2_corrie_sedge.aggrade");
     assert_eq!(v0, v1);
-    let v1_text = std::fs::read_to_string(fixture("v1_corrie_sedge.aggrade")).expect("readable");
-    assert_eq!(aggrade_core::io::project_to_json(&v1).expect("encodes"), v1_text);
+    assert_eq!(v1, v2);
+    let v2_text = std::fs::read_to_string(fixture("v2_corrie_sedge.aggrade")).expect("readable");
+    assert_eq!(aggrade_core::io::project_to_json(&v2).expect("encodes"), v2_text);
+}
+
+/// A version 2 file with every field of the field record (facies, samples with kind and
+/// height, photos, bioturbation, fossils by name, Munsell colour, lag, soil horizon, drainage,
+/// slope distance, typed paleocurrent readings; method, uncertainty, bedding, traverse, GPS
+/// fixes, channel-body widths) and non-English text reads and saves back byte for byte.
+#[test]
+fn a_version_2_field_record_saves_back_byte_identical() {
+    let text = std::fs::read_to_string(fixture("v2_field_record.aggrade")).expect("readable");
+    let p = open("v2_field_record.aggrade");
+    assert_eq!(aggrade_core::io::project_to_json(&p).expect("encodes"), text);
+    let s = &p.sections[0];
+    assert_eq!(s.bedding.map(|b| (b.dip_deg, b.dip_direction_deg)), Some((12.0, 35.0)));
+    assert_eq!(s.fixes.len(), 2);
+    assert_eq!(s.body_lateral[0].width_m, Some(85.0));
+    let soil = &s.beds[0];
+    assert_eq!(soil.soil_horizon.as_ref().map(|h| h.master()), Some('B'));
+    assert_eq!(soil.munsell.as_ref().map(|m| m.to_string()).as_deref(), Some("10R 6/2"));
+    assert_eq!(soil.facies.map(|f| f.code()), Some("P"));
+    let sand = &s.beds[1];
+    assert_eq!(sand.flow_azimuths().collect::<Vec<_>>(), vec![205.0, 190.0], "accretion dip left out");
+}
+
+/// Version 1 beds held bare azimuths, sample ids as text and a Munsell notation as the colour:
+/// they open as typed readings of unspecified indicator, samples with only an id, and the
+/// notation as the Munsell colour (colour in words stays a colour).
+#[test]
+fn version_1_samples_colours_and_azimuths_open_unchanged_in_meaning() {
+    use aggrade_core::model::Indicator;
+    let raw: serde_json::Value = serde_json::from_str(
+        &std::fs::read_to_string(fixture("v1_samples_and_colours.aggrade")).expect("readable"),
+    )
+    .expect("JSON");
+    let p = open("v1_samples_and_colours.aggrade");
+    for (bed, raw_bed) in p.sections[0].beds.iter().zip(raw["sections"][0]["beds"].as_array().expect("beds")) {
+        let want_az: Vec<f64> = raw_bed["paleocurrents_deg"]
+            .as_array()
+            .map(|a| a.iter().map(|v| v.as_f64().expect("number")).collect())
+            .unwrap_or_default();
+        assert_eq!(bed.azimuths().collect::<Vec<_>>(), want_az);
+        assert!(bed.paleocurrents.iter().all(|r| r.indicator == Indicator::Unspecified && r.dip_deg.is_none()));
+        let want_ids: Vec<&str> = raw_bed["samples"].as_array().expect("samples").iter().map(|v| v.as_str().expect("id")).collect();
+        assert_eq!(bed.samples.iter().map(|s| s.id.as_str()).collect::<Vec<_>>(), want_ids);
+        assert!(bed.samples.iter().all(|s| s.kind.is_none() && s.height_in_bed_m.is_none()));
+    }
+    let beds = &p.sections[0].beds;
+    assert_eq!(beds[0].munsell.as_ref().map(|m| m.to_string()).as_deref(), Some("10YR 5/4"));
+    assert_eq!(beds[0].colour, "");
+    assert_eq!(beds[1].munsell, None);
+    assert_eq!(beds[1].colour, "greenish grey");
+    assert_eq!(beds[0].fossils, "root casts");
+    assert_eq!(beds[0].carbonate_stage, Some(2));
 }
 
 /// Early version 1 files stored a grain size given in mm as phi to 4 decimals (2.3219 for
@@ -105,17 +159,31 @@ fn version_0_thicknesses_convert_exactly() {
     assert_eq!(grain.class().name(), "fine sand");
 }
 
-/// A version 1 file with every field the demo uses reads back to identical JSON when saved
-/// again (nothing dropped, nothing reordered).
+/// A version 1 file with every field the demo uses reads as the version 2 file written from it
+/// (nothing dropped, nothing reordered), and that file saves back byte for byte.
 #[test]
-fn version_1_demo_excerpt_saves_back_byte_identical() {
-    let path = fixture("v1_tamsin_demo_excerpt.aggrade");
-    let text = std::fs::read_to_string(&path).expect("fixture readable");
-    let project = open("v1_tamsin_demo_excerpt.aggrade");
-    let written = aggrade_core::io::project_to_json(&project).expect("encodes");
-    let reparsed: serde_json::Value = serde_json::from_str(&written).expect("valid JSON");
-    let original: serde_json::Value = serde_json::from_str(&text).expect("valid JSON");
-    assert_eq!(reparsed, original);
+fn version_1_demo_excerpt_reads_as_its_version_2_save() {
+    let v1 = open("v1_tamsin_demo_excerpt.aggrade");
+    let v2 = open("v2_tamsin_demo_excerpt.aggrade");
+    assert_eq!(v1, v2);
+    let text = std::fs::read_to_string(fixture("v2_tamsin_demo_excerpt.aggrade")).expect("fixture readable");
+    assert_eq!(aggrade_core::io::project_to_json(&v2).expect("encodes"), text);
+    // The excerpt's raw azimuths are the readings' azimuths, bed by bed.
+    let raw: serde_json::Value = serde_json::from_str(
+        &std::fs::read_to_string(fixture("v1_tamsin_demo_excerpt.aggrade")).expect("readable"),
+    )
+    .expect("JSON");
+    let mut compared = 0;
+    for (s, raw_s) in v1.sections.iter().zip(raw["sections"].as_array().expect("sections")) {
+        for (bed, raw_bed) in s.beds.iter().zip(raw_s["beds"].as_array().expect("beds")) {
+            if let Some(a) = raw_bed["paleocurrents_deg"].as_array() {
+                let want: Vec<f64> = a.iter().map(|v| v.as_f64().expect("number")).collect();
+                assert_eq!(bed.azimuths().collect::<Vec<_>>(), want);
+                compared += 1;
+            }
+        }
+    }
+    assert!(compared > 0, "the excerpt has paleocurrents to compare");
 }
 
 /// Version 1 files written before the review state was named "unreviewed" say "candidate": they

@@ -172,6 +172,9 @@ pub fn v1_to_v2(root: &mut Value) {
 /// The version-1 spelling of a current path whose field was reshaped, for finding the line of a
 /// problem in a migrated file (`…paleocurrents[2].azimuth_deg` → `…paleocurrents_deg[2]`).
 pub(crate) fn v1_path(path: &str) -> Option<String> {
+    if let Some(head) = path.strip_suffix(".paleocurrents") {
+        return Some(format!("{head}.paleocurrents_deg"));
+    }
     if let Some(at) = path.find(".paleocurrents[") {
         let rest = &path[at + ".paleocurrents".len()..];
         let index_end = rest.find(']').map_or(rest.len(), |i| i + 1);

@@ -5,7 +5,7 @@ use super::facies::FaciesCode;
 use super::grain::GrainSize;
 use super::lithology::Lithology;
 use super::record::{Munsell, Paleocurrent, Photo, Sample, SoilHorizon};
-use super::setting::{BeddingAttitude, BodyLateral, GpsFix, Traverse};
+use super::setting::{BeddingAttitude, GpsFix, Traverse};
 use super::vocab::{
     BaseRank, Contact, Drainage, LengthUnit, MeasuringMethod, PaleosolDevelopment, PaleosolFeature, Structure,
     SurfaceKind,
@@ -181,6 +181,22 @@ impl Bed {
             (a, b) => a.or(b),
         }
     }
+}
+
+/// What the geologist saw of a channel body across the outcrop. The body is named by the bed at
+/// its base, which survives re-running the rules and editing other beds.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct BodyLateral {
+    /// The lowest bed of the body.
+    pub base_bed: BedId,
+    /// Observed width across the outcrop, metres.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub width_m: Option<f64>,
+    /// True when the body runs on beyond the outcrop, so the width is a minimum.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub beyond_outcrop: bool,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub note: String,
 }
 
 /// WGS84 coordinates of the section base.

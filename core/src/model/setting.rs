@@ -1,7 +1,6 @@
 //! Where and how a section was measured: the measuring method and uncertainty, the bedding
-//! attitude, GPS fixes along the traverse, and the geologist's lateral data on channel bodies.
+//! attitude and GPS fixes along the traverse.
 
-use super::section::BedId;
 use super::vocab::FixRole;
 use serde::{Deserialize, Serialize};
 
@@ -48,22 +47,6 @@ pub struct GpsFix {
     pub lon_deg: f64,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub elevation_m: Option<f64>,
-    #[serde(default, skip_serializing_if = "String::is_empty")]
-    pub note: String,
-}
-
-/// What the geologist saw of a channel body across the outcrop. The body is named by the bed at
-/// its base, which survives re-running the rules and editing other beds.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct BodyLateral {
-    /// The lowest bed of the body.
-    pub base_bed: BedId,
-    /// Observed width across the outcrop, metres.
-    #[serde(default, skip_serializing_if = "Option::is_none")]
-    pub width_m: Option<f64>,
-    /// True when the body runs on beyond the outcrop, so the width is a minimum.
-    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
-    pub beyond_outcrop: bool,
     #[serde(default, skip_serializing_if = "String::is_empty")]
     pub note: String,
 }
