@@ -12,6 +12,7 @@ mod boundaries;
 mod column;
 mod elements;
 pub mod evidence;
+pub mod facies;
 mod paleosols;
 pub mod params;
 mod proportion;
