@@ -252,7 +252,7 @@ fn convert_migrates_a_version_0_project() {
     assert!(out.status.success(), "{}", text(&out.stderr));
     assert!(text(&out.stderr).contains("version 0"), "the migration is reported: {}", text(&out.stderr));
     let json = std::fs::read_to_string(&out_path).expect("written");
-    assert!(json.contains("\"format_version\": 1") && json.contains("\"thickness_m\": 3.048"), "{json}");
+    assert!(json.contains("\"format_version\": 2") && json.contains("\"thickness_m\": 3.048"), "{json}");
 }
 
 #[test]
