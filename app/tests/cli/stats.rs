@@ -180,7 +180,7 @@ fn stats_reports_bad_input_clearly() {
         // The reader names the file, line and field; it finds the bad value before stats does.
         err.contains("bad_azimuth.aggrade")
             && err.contains("line 24")
-            && err.contains("beds[1].paleocurrents_deg")
+            && err.contains("beds[1].paleocurrents[0].azimuth_deg")
             && err.contains("between 0 and 360"),
         "{err}"
     );
