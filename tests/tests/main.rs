@@ -5,6 +5,7 @@
 
 mod support;
 
+mod analysis_attitude;
 mod analysis_bodies_decompaction;
 mod analysis_las;
 mod analysis_markov;
@@ -18,6 +19,7 @@ mod export_svg;
 mod import_hostile;
 mod io_csv;
 mod io_fastpath;
+mod io_field_record;
 mod io_hostile;
 mod io_import;
 mod io_project;
@@ -25,6 +27,7 @@ mod io_unicode_roundtrip;
 mod las_odd_cases;
 mod panel_distance;
 mod panel_pdf;
+mod reference_carbonate_stages;
 mod reference_fgdc_patterns;
 mod reference_grain_units;
 mod rules_demo_sections;

@@ -3,6 +3,7 @@
 //! Everything here is a pure function of its inputs plus one documented parameter struct; the
 //! outputs are plain data that the CLI, the layout and the app present.
 
+pub mod attitude;
 pub mod bodies;
 pub mod curve_table;
 pub mod decompaction;
