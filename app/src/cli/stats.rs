@@ -3,7 +3,8 @@
 //! candidates of the rules run with the project's parameters (`--params` overrides).
 
 use aggrade_core::analysis::markov::{
-    analyse_sequence, lithology_sequence, TransitionAnalysis, TransitionParams,
+    analyse_sequence, facies_sequence, facies_state_set, lithology_sequence, TransitionAnalysis,
+    TransitionParams,
 };
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, per_bed, readings_in_interval, rose_bins, section_readings, CircularParams,
@@ -29,8 +30,9 @@ pub struct StatsArgs {
     /// Treat paleocurrent readings as axes (0–180°) rather than flow directions.
     #[arg(long)]
     pub axial: bool,
-    /// What the transition analysis counts: each lithology, or broad lithology families
-    /// (fines, sand, gravel, non-clastic), which helps short sections with many lithologies.
+    /// What the transition analysis counts: each lithology, broad lithology families (fines,
+    /// sand, gravel, non-clastic), which helps short sections with many lithologies, or
+    /// lithofacies codes (the geologist's, else the suggested one; see docs/facies.md).
     #[arg(long, value_enum, default_value_t = StateKind::Lithology)]
     pub states: StateKind,
     /// Rose-diagram bin width in degrees (must divide 360).
@@ -45,15 +47,32 @@ pub struct StatsArgs {
 pub enum StateKind {
     Lithology,
     Family,
+    /// Lithofacies codes (Miall 1978, 1996): the geologist's code, else the suggested one, else
+    /// the bed's lithology name.
+    Facies,
+}
+
+impl StateKind {
+    /// What the states are, in words ("states_from" in the JSON).
+    pub fn describe(self) -> &'static str {
+        match self {
+            StateKind::Lithology => "lithology",
+            StateKind::Family => "lithology family",
+            StateKind::Facies => "lithofacies code",
+        }
+    }
 }
 
 /// The state of each bed, `None` for covered intervals (they break the chain).
 pub fn state_sequence(section: &Section, kind: StateKind) -> Vec<Option<&'static str>> {
+    if kind == StateKind::Facies {
+        return facies_sequence(section);
+    }
     lithology_sequence(section)
         .into_iter()
         .map(|l| {
             l.map(|l| match kind {
-                StateKind::Lithology => l.name(),
+                StateKind::Lithology | StateKind::Facies => l.name(),
                 StateKind::Family => match l.family() {
                     LithologyFamily::Fines => "fines",
                     LithologyFamily::Sand => "sand",
@@ -219,7 +238,9 @@ fn section_json(
         "paleocurrents": paleocurrents_json(whole, args, kind),
         "transitions": transitions_json(whole),
         "notes": notes(whole),
-        "states_from": match args.states { StateKind::Lithology => "lithology", StateKind::Family => "lithology family" },
+        "states_from": args.states.describe(),
+        // Where each bed's lithofacies code comes from, with the count of codes only suggested.
+        "facies": serde_json::to_value(facies_state_set(section)).unwrap_or(Value::Null),
         "beds": per_bed(section, &CircularParams { kind, ..Default::default() })
             .unwrap_or_default()
             .iter()
@@ -392,6 +413,16 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 counted(s.beds.len(), "bed", "beds"),
                 counted(section_readings(s).len(), "paleocurrent reading", "paleocurrent readings")
             )?;
+            if args.states == StateKind::Facies {
+                let f = facies_state_set(s);
+                writeln!(
+                    out,
+                    "  Lithofacies codes: {} suggested (candidates not yet confirmed), {} given by the geologist, {} without a code (counted by lithology)",
+                    f.suggested,
+                    f.confirmed,
+                    counted(f.uncoded, "bed", "beds")
+                )?;
+            }
             print_stretch(&mut out, &whole)?;
             let beds = per_bed(s, &params).unwrap_or_default();
             if !beds.is_empty() {

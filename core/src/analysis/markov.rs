@@ -11,10 +11,14 @@
 //! Covered intervals break the chain: nobody saw what lies under the cover, so the beds below
 //! and above are not counted as a transition (a choice, documented here; merging across a cover
 //! would invent transitions that were never observed).
+//!
+//! States are lithologies ([`lithology_sequence`]) or lithofacies codes ([`facies_sequence`]:
+//! the geologist's code, else the suggested one, else the lithology name; see `docs/facies.md`).
 
 use super::gamma::chi_square_sf;
 use super::AnalysisError;
-use crate::model::{Lithology, Section};
+use crate::model::{BedId, FaciesCode, Lithology, Section};
+use crate::rules::facies::facies_of;
 use serde::Serialize;
 use std::collections::BTreeSet;
 
@@ -122,6 +126,76 @@ pub fn count_transitions<S: Ord + Clone>(sequence: &[Option<S>]) -> (Vec<S>, Vec
 /// The lithology of each bed, covered intervals as `None` (chain breaks).
 pub fn lithology_sequence(section: &Section) -> Vec<Option<Lithology>> {
     section.beds.iter().map(|b| (b.lithology != Lithology::Covered).then_some(b.lithology)).collect()
+}
+
+/// The facies state of each bed: its lithofacies code in force (the geologist's, else the
+/// suggested one); a bed with no code at all is counted under its lithology name ("tuff"), so no
+/// observed bed is dropped and no transition invented; covered intervals are `None` (chain
+/// breaks).
+pub fn facies_sequence(section: &Section) -> Vec<Option<&'static str>> {
+    section
+        .beds
+        .iter()
+        .map(|b| {
+            if b.is_covered() {
+                None
+            } else {
+                Some(facies_of(b).map_or(b.lithology.name(), |(code, _)| code.code()))
+            }
+        })
+        .collect()
+}
+
+/// How one bed entered the facies state set.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct BedFaciesState {
+    pub bed_id: BedId,
+    /// The lithofacies code in force, `None` for a covered interval or a bed with no code.
+    pub facies: Option<FaciesCode>,
+    /// True when the code is only suggested (not yet confirmed by the geologist).
+    pub suggested: bool,
+    /// The state counted: the code, the lithology name of an uncoded bed, `None` if covered.
+    pub state: Option<&'static str>,
+}
+
+/// The facies state set of a section: the states used and where each bed's code came from.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FaciesStateSet {
+    /// Every state some bed takes, sorted (codes, and lithology names of uncoded beds).
+    pub states: Vec<&'static str>,
+    /// Beds whose code is only suggested: candidates the geologist has not confirmed.
+    pub suggested: usize,
+    /// Beds whose code the geologist gave.
+    pub confirmed: usize,
+    /// Exposed beds with no code (counted under their lithology name).
+    pub uncoded: usize,
+    pub beds: Vec<BedFaciesState>,
+}
+
+/// The facies state set of a section (see [`facies_sequence`]).
+pub fn facies_state_set(section: &Section) -> FaciesStateSet {
+    let beds: Vec<BedFaciesState> = section
+        .beds
+        .iter()
+        .zip(facies_sequence(section))
+        .map(|(b, state)| {
+            let f = facies_of(b);
+            BedFaciesState {
+                bed_id: b.id,
+                facies: f.map(|(c, _)| c),
+                suggested: f.is_some_and(|(_, s)| s),
+                state,
+            }
+        })
+        .collect();
+    let states: BTreeSet<&'static str> = beds.iter().filter_map(|b| b.state).collect();
+    FaciesStateSet {
+        states: states.into_iter().collect(),
+        suggested: beds.iter().filter(|b| b.facies.is_some() && b.suggested).count(),
+        confirmed: beds.iter().filter(|b| b.facies.is_some() && !b.suggested).count(),
+        uncoded: beds.iter().filter(|b| b.facies.is_none() && b.state.is_some()).count(),
+        beds,
+    }
 }
 
 /// Expected counts under quasi-independence (e_ii = 0) by iterative proportional fitting.
@@ -277,6 +351,14 @@ pub fn analyse_section(
     analyse_sequence(&seq, params)
 }
 
+/// Lithofacies transitions of a whole section (states from [`facies_sequence`]).
+pub fn analyse_section_facies(
+    section: &Section,
+    params: &TransitionParams,
+) -> Result<TransitionAnalysis, AnalysisError> {
+    analyse_sequence(&facies_sequence(section), params)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -353,5 +435,29 @@ mod tests {
         let states = ["A", "B", "C", "D", "E"].map(String::from).to_vec();
         let d = analyse_counts(states, davis(), &TransitionParams::default()).expect("valid");
         assert_eq!((d.cells, d.small_expected_cells), (20, 0), "{:?}", d.expected);
+    }
+
+    #[test]
+    fn facies_states_use_the_code_in_force_and_keep_uncoded_beds() {
+        use crate::model::{Bed, GrainSize, Structure, WentworthClass};
+        let mut s = Section::new("Facies");
+        let mut add = |lith: Lithology, structure: Option<Structure>, code: Option<FaciesCode>| {
+            let id = s.next_bed_id();
+            let mut b = Bed::new(id, 1.0, lith, Some(GrainSize::Class(WentworthClass::MediumSand)));
+            b.structures.extend(structure);
+            b.facies = code;
+            s.beds.push(b);
+        };
+        add(Lithology::Sandstone, Some(Structure::TroughCrossBedding), None); // St, suggested
+        add(Lithology::Sandstone, Some(Structure::TroughCrossBedding), Some(FaciesCode::Sp)); // changed
+        add(Lithology::Covered, None, None);
+        add(Lithology::Tuff, None, None); // no code: its lithology
+        add(Lithology::Sandstone, Some(Structure::RippleCrossLamination), Some(FaciesCode::Sr)); // confirmed
+        assert_eq!(facies_sequence(&s), vec![Some("St"), Some("Sp"), None, Some("tuff"), Some("Sr")]);
+        let set = facies_state_set(&s);
+        assert_eq!(set.states, vec!["Sp", "Sr", "St", "tuff"]);
+        assert_eq!((set.suggested, set.confirmed, set.uncoded), (1, 2, 1));
+        assert!(set.beds[0].suggested && !set.beds[1].suggested && !set.beds[3].suggested);
+        assert_eq!(set.beds[2].state, None);
     }
 }

@@ -524,6 +524,9 @@ impl StatsView {
                 .on_hover_text("Each lithology is a state");
             ui.selectable_value(&mut c.states, StateKind::Family, "Lithology family")
                 .on_hover_text("Fines, sand, gravel, non-clastic: helps short sections");
+            ui.selectable_value(&mut c.states, StateKind::Facies, "Facies code").on_hover_text(
+                "Lithofacies codes: the geologist's, else the suggested one (a candidate to review)",
+            );
         });
         ui.label(
             egui::RichText::new(
