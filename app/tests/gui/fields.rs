@@ -96,7 +96,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     assert_eq!(paleocurrents(&h, bed), Vec::<f64>::new(), "an invalid list was stored");
     assert_eq!(h.state().doc.revision, revision, "nothing was applied");
     assert_eq!(field_value(&h, FIELD).as_deref(), Some("240 425"), "the typed text stays");
-    assert!(shown_containing(&h, "\"425\" is not an azimuth from 0 to 360°"), "the field's problem is shown");
+    assert!(shown_containing(&h, "\"425\" is not a paleocurrent reading"), "the field's problem is shown");
     assert!(framed_invalid(&h), "the field is framed in red");
 
     // Another bed selected: the typed text is kept for its bed with a warning, not dropped.
@@ -108,7 +108,7 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     select(&mut h, bed);
     h.run();
     assert_eq!(field_value(&h, FIELD).as_deref(), Some("240 425"), "the typed text survived reselecting");
-    assert!(shown_containing(&h, "\"425\" is not an azimuth"), "still marked");
+    assert!(shown_containing(&h, "\"425\" is not a paleocurrent reading"), "still marked");
     assert!(!shown_containing(&h, "was not stored"), "the draft is back in its field");
 
     // Fixed to "240 225" and Enter: stored whole, as one undo step.
@@ -118,9 +118,9 @@ fn a_paleocurrent_typo_is_kept_and_marked_never_stored_and_the_fixed_value_is_st
     h.run();
     type_then(&mut h, "240 225", Key::Enter);
     assert_eq!(paleocurrents(&h, bed), vec![240.0, 225.0]);
-    assert!(!shown_containing(&h, "is not an azimuth"), "the mark went with the fix");
+    assert!(!shown_containing(&h, "is not a paleocurrent reading"), "the mark went with the fix");
     assert!(!framed_invalid(&h), "no field is framed in red any more");
-    assert_eq!(field_value(&h, FIELD).as_deref(), Some("240; 225"), "shown in its stored form");
+    assert_eq!(field_value(&h, FIELD).as_deref(), Some("240 225"), "shown in its stored form");
     h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
     h.run();
     assert_eq!(paleocurrents(&h, bed), Vec::<f64>::new(), "one undo takes the whole list back");
