@@ -16,6 +16,7 @@ mod curves_project;
 mod export_pdf;
 mod export_png;
 mod export_svg;
+mod facies_states;
 mod import_hostile;
 mod io_csv;
 mod io_fastpath;
