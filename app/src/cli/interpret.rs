@@ -3,10 +3,13 @@
 
 use aggrade_core::analysis::bodies::censor_name;
 use aggrade_core::model::{LengthUnit, Project, Section};
+use aggrade_core::rules::facies::facies_of;
 use aggrade_core::rules::{
-    interpret_with, sensitivity, GrainProfile, Interpretation, MaturitySign, Regime, RuleParams,
+    interpret_with, sensitivity, GrainProfile, Interpretation, Regime, RuleParams,
 };
 use anyhow::{bail, Context};
+use serde::Serialize;
+use super::long_lists;
 use std::fmt::Write as _;
 use std::io::Write as _;
 use std::path::{Path, PathBuf};
@@ -48,7 +51,8 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
     let mut out = std::io::BufWriter::new(std::io::stdout().lock());
     if args.json {
         // Streamed: the JSON of a long section runs to tens of megabytes, never held in memory.
-        serde_json::to_writer_pretty(&mut out, &result).context("writing the interpretation as JSON")?;
+        let json = InterpretJson { interpretation: &result, beds: BedsJson(section) };
+        serde_json::to_writer_pretty(&mut out, &json).context("writing the interpretation as JSON")?;
         out.write_all(b"\n").context("writing to standard output")?;
     } else {
         out.write_all(report(section, &result, &params, runs).as_bytes())
@@ -56,6 +60,48 @@ pub fn run(args: &InterpretArgs) -> anyhow::Result<()> {
     }
     out.flush().context("writing to standard output")?;
     Ok(())
+}
+
+/// What `aggrade interpret --json` prints: the interpretation's fields, then `beds`.
+#[derive(Serialize)]
+struct InterpretJson<'a> {
+    #[serde(flatten)]
+    interpretation: &'a Interpretation,
+    beds: BedsJson<'a>,
+}
+
+/// The beds of the section, base first, written one by one as the JSON streams.
+struct BedsJson<'a>(&'a Section);
+
+/// One bed in the JSON: its id, base and top in metres above the section base, and the
+/// lithofacies code in force. `facies` is null for a covered interval or a bed no row of the
+/// suggestion table fits; `facies_suggested` is true when the code is only suggested (a
+/// candidate for review, see docs/facies.md), false when the geologist gave it or there is none.
+#[derive(Serialize)]
+struct BedJson {
+    id: u64,
+    base: f64,
+    top: f64,
+    facies: Option<&'static str>,
+    facies_suggested: bool,
+}
+
+impl Serialize for BedsJson<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        let mut height = 0.0;
+        serializer.collect_seq(self.0.beds.iter().map(|b| {
+            let base = height;
+            height += b.thickness_m;
+            let f = facies_of(b);
+            BedJson {
+                id: b.id.0,
+                base,
+                top: height,
+                facies: f.map(|(code, _)| code.code()),
+                facies_suggested: f.is_some_and(|(_, suggested)| suggested),
+            }
+        }))
+    }
 }
 
 /// Refuse lengths the rules cannot use. The readers validate files fully; this guards the rules
@@ -144,6 +190,12 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         let _ = writeln!(s, "  none");
     }
     for (k, b) in r.channel_bodies.iter().enumerate() {
+        if let Some(gap) = long_lists::gap_line(k, r.channel_bodies.len(), "channel bodies", "--json") {
+            let _ = writeln!(s, "{gap}");
+        }
+        if !long_lists::shown(k, r.channel_bodies.len()) {
+            continue;
+        }
         let grain = match (b.grain_finest, b.grain_coarsest) {
             (Some(f), Some(c)) if f == c => format!(", {}", c.class().name()),
             (Some(f), Some(c)) => format!(", {} to {}", f.class().name(), c.class().name()),
@@ -189,15 +241,18 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         let _ = writeln!(s, "  none");
     }
     for (k, p) in r.paleosols.iter().enumerate() {
+        if let Some(gap) = long_lists::gap_line(k, r.paleosols.len(), "paleosol profiles", "--json") {
+            let _ = writeln!(s, "{gap}");
+        }
+        if !long_lists::shown(k, r.paleosols.len()) {
+            continue;
+        }
         let mut why = vec![format!("logged {}", p.logged_development.name())];
         if let Some(st) = p.carbonate_stage {
             why.push(format!("carbonate stage {}", roman(st)));
         }
         for sign in &p.raised_by {
-            why.push(match sign {
-                MaturitySign::CarbonateStage => "raised by its carbonate stage".to_string(),
-                MaturitySign::VerticCalcic => "raised by slickensides with carbonate nodules".to_string(),
-            });
+            why.push(sign.words().to_string());
         }
         if p.on_sandstone {
             why.push("on a sandstone top".to_string());
@@ -212,6 +267,8 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
             if p.beds.len() == 1 { "" } else { "s" },
             why.join(", ")
         );
+        let read: Vec<String> = p.evidence.iter().map(|e| e.worded(u)).collect();
+        let _ = writeln!(s, "     read from: {}", read.join("; "));
     }
 
     let _ = writeln!(
@@ -225,12 +282,24 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
             "between strong candidates; none accepted yet"
         }
     );
-    for iv in &r.interval_proportions {
+    for (k, iv) in r.interval_proportions.iter().enumerate() {
+        if let Some(gap) = long_lists::gap_line(k, r.interval_proportions.len(), "intervals", "--json") {
+            let _ = writeln!(s, "{gap}");
+        }
+        if !long_lists::shown(k, r.interval_proportions.len()) {
+            continue;
+        }
         let _ = writeln!(s, "  {}: {}", span(iv.base_m, iv.top_m, u), fmt_proportion(iv.proportion));
     }
 
     let _ = writeln!(s, "\nAccommodation regime (one call per interval above):");
-    for a in &r.accommodation {
+    for (k, a) in r.accommodation.iter().enumerate() {
+        if let Some(gap) = long_lists::gap_line(k, r.accommodation.len(), "intervals", "--json") {
+            let _ = writeln!(s, "{gap}");
+        }
+        if !long_lists::shown(k, r.accommodation.len()) {
+            continue;
+        }
         let _ =
             writeln!(s, "  {}: {} — {}", span(a.base_m, a.top_m, u), regime_name(a.regime), a.why.worded(u));
     }
@@ -252,6 +321,12 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         );
     }
     for (k, c) in r.sequence_boundary_candidates.iter().enumerate() {
+        if let Some(gap) = long_lists::gap_line(k, r.sequence_boundary_candidates.len(), "candidates", "--json") {
+            let _ = writeln!(s, "{gap}");
+        }
+        if !long_lists::shown(k, r.sequence_boundary_candidates.len()) {
+            continue;
+        }
         let review = c.review.name();
         let named = match (&c.label, &c.surface_name) {
             (Some(l), _) => format!(" \"{l}\""),

@@ -1,23 +1,62 @@
 //! Paleosol profiles: consecutive beds with soil development read as one fossil soil, with a
-//! maturity from the development logged, the carbonate stage and the features seen.
+//! maturity from the development logged, the horizons designated, the carbonate stage and the
+//! features seen, and a drainage reading.
 //!
 //! A soil is a profile of horizons (Retallack 2001); geologists often log the horizons as beds
 //! of their own (an A over a Bt over a Bk), and compound or cumulative profiles stack several
-//! (Kraus 1999). Each bed with a development grade, paleosol features or a carbonate stage is a
-//! horizon; unbroken runs of horizons (a covered interval breaks them) are profiles, and a profile
-//! counts when its maturity reaches `paleosol_min_development`.
+//! (Kraus 1999). Each bed with a development grade, paleosol features, a carbonate stage, a
+//! horizon designation or a drainage class is a horizon. Unbroken runs of horizons (a covered
+//! interval breaks them) are profiles, split where the horizon sequence starts again — reading
+//! upward, a bed whose master horizon belongs lower in a profile than the designated bed below it
+//! (a C or B over an A: the soil below is buried) — or where a bed inside the run has an
+//! erosional base (the soil below was truncated). A profile counts when its maturity reaches
+//! `paleosol_min_development`. See `docs/interpretation-rules.md`.
 
 use super::column::{is_sand_or_gravel, Column};
 use super::params::RuleParams;
-use super::types::{MaturitySign, PaleosolProfile};
-use crate::model::{Bed, PaleosolDevelopment, PaleosolFeature, Section, Structure};
+use super::types::{DrainageBasis, MaturitySign, PaleosolProfile, ProfileBreak, ProfileEvidence};
+use crate::model::{
+    Bed, Contact, Drainage, PaleosolDevelopment, PaleosolFeature, Section, SoilHorizon, Structure,
+};
 
 /// True when a bed was logged as a soil horizon.
 fn is_horizon(bed: &Bed) -> bool {
     !bed.is_covered()
         && (bed.paleosol != PaleosolDevelopment::None
             || !bed.paleosol_features.is_empty()
-            || bed.carbonate_stage.is_some())
+            || bed.carbonate_stage.is_some()
+            || bed.soil_horizon.is_some()
+            || bed.drainage.is_some())
+}
+
+/// Place of a master horizon in a profile, counted from the bottom up: R, C, B, E, A, O (Soil
+/// Survey Staff designations; Retallack 2001). Transitional horizons (BC, AB) go by their first
+/// letter, as [`SoilHorizon::master`] reads them.
+fn master_rank(h: &SoilHorizon) -> Option<u8> {
+    match h.master() {
+        'R' => Some(0),
+        'C' => Some(1),
+        'B' => Some(2),
+        'E' => Some(3),
+        'A' => Some(4),
+        'O' => Some(5),
+        _ => None,
+    }
+}
+
+/// The morphology of a carbonate stage (1–6 for I–VI) in the fine-grained (non-gravelly) form
+/// fluvial paleosols mostly show, worded after Machette (1985, his table of morphogenetic
+/// stages, after Gile et al. 1966). `None` outside 1–6.
+pub fn carbonate_stage_morphology(stage: u8) -> Option<&'static str> {
+    Some(match stage {
+        1 => "thin, discontinuous carbonate filaments or coatings",
+        2 => "few to common carbonate nodules",
+        3 => "many nodules coalescing, with carbonate filling between them: the horizon plugged",
+        4 => "a thin laminar layer on top of a plugged horizon",
+        5 => "a thick laminar layer (1 cm or more) with pisoliths and incipient brecciation",
+        6 => "several generations of laminae, brecciation and pisoliths, recemented",
+        _ => return None,
+    })
 }
 
 /// One grade up the development scale (very strong stays very strong).
@@ -31,42 +70,213 @@ fn raised(dev: PaleosolDevelopment) -> PaleosolDevelopment {
     }
 }
 
-/// Maturity of a profile of beds `first..=last`, with what raised it above the logged grade.
-fn maturity(
-    beds: &[Bed],
-    params: &RuleParams,
-) -> (PaleosolDevelopment, PaleosolDevelopment, Option<u8>, Vec<MaturitySign>) {
+/// The designation of a bed as written, for sentences.
+fn designation(bed: &Bed) -> Option<String> {
+    bed.soil_horizon.as_ref().map(|h| h.as_str().to_string())
+}
+
+/// A bed's designation when it is a B horizon.
+fn b_horizon(bed: &Bed) -> Option<&SoilHorizon> {
+    bed.soil_horizon.as_ref().filter(|h| h.master() == 'B')
+}
+
+/// What a profile's beds say of its maturity.
+struct Maturity {
+    maturity: PaleosolDevelopment,
+    logged: PaleosolDevelopment,
+    stage: Option<u8>,
+    signs: Vec<MaturitySign>,
+    evidence: Vec<ProfileEvidence>,
+    /// Beds (indices into the profile) whose diagnostic horizon set a floor.
+    diagnostic: Vec<usize>,
+    b_thickness_m: f64,
+}
+
+/// Maturity of a profile of beds, with what raised it above the logged grade.
+fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
+    use PaleosolDevelopment as Dev;
     let logged = beds.iter().map(|b| b.paleosol).max().unwrap_or_default();
     let stage = beds.iter().filter_map(|b| b.carbonate_stage).max();
     let mut m = logged;
     let mut signs = Vec::new();
-    if let Some(st) = stage {
-        let floor = if st >= params.very_strong_carbonate_stage {
-            PaleosolDevelopment::VeryStrong
-        } else if st >= params.strong_carbonate_stage {
-            PaleosolDevelopment::Strong
-        } else {
-            PaleosolDevelopment::Weak
-        };
-        if floor > m {
-            m = floor;
-            if floor >= PaleosolDevelopment::Strong {
-                signs.push(MaturitySign::CarbonateStage);
+    let mut evidence = Vec::new();
+    let lift = |m: &mut Dev, floor: Dev, sign: MaturitySign, signs: &mut Vec<MaturitySign>| {
+        if floor > *m {
+            *m = floor;
+            if !signs.contains(&sign) {
+                signs.push(sign);
             }
         }
+    };
+
+    let top_down: Vec<String> = beds.iter().rev().filter_map(designation).collect();
+    if top_down.is_empty() {
+        evidence.push(ProfileEvidence::NoHorizons);
+    } else {
+        evidence.push(ProfileEvidence::Horizons { top_down });
     }
-    let has = |f: PaleosolFeature, s: Structure| {
-        beds.iter().any(|b| b.paleosol_features.contains(&f) || b.structures.contains(&s))
+    if logged > Dev::None {
+        evidence.push(ProfileEvidence::Logged { development: logged });
+    }
+
+    // Designated A, E, B or O horizons: a soil was seen (Retallack 2001: a rooted A over a C is
+    // already weakly developed).
+    let designated_soil = beds
+        .iter()
+        .filter_map(|b| b.soil_horizon.as_ref())
+        .any(|h| matches!(h.master(), 'A' | 'E' | 'B' | 'O'));
+    if designated_soil && m < Dev::Weak {
+        lift(&mut m, Dev::Weak, MaturitySign::DesignatedHorizon, &mut signs);
+        evidence.push(ProfileEvidence::Designated { floor: Dev::Weak });
+    }
+
+    // Diagnostic subsurface horizons (Retallack 2001's "moderate": argillic, calcic of stage II,
+    // and the vertic Bss).
+    let diag = params.diagnostic_horizon_development;
+    let mut diagnostic = Vec::new();
+    for (k, bed) in beds.iter().enumerate() {
+        let Some(h) = b_horizon(bed) else { continue };
+        let name = h.as_str().to_string();
+        if h.has("t") {
+            if bed.paleosol_features.contains(&PaleosolFeature::ClayCoatings) {
+                lift(&mut m, diag, MaturitySign::ArgillicHorizon, &mut signs);
+                evidence.push(ProfileEvidence::Argillic { horizon: name.clone(), floor: diag });
+                diagnostic.push(k);
+            } else {
+                evidence.push(ProfileEvidence::BtWithoutCoatings { horizon: name.clone() });
+            }
+        }
+        if let Some(st) = bed.carbonate_stage.filter(|st| h.has("k") && *st >= 2) {
+            lift(&mut m, diag, MaturitySign::CalcicHorizon, &mut signs);
+            evidence.push(ProfileEvidence::Calcic { horizon: name.clone(), stage: st, floor: diag });
+            diagnostic.push(k);
+        }
+        if h.has("ss") {
+            lift(&mut m, diag, MaturitySign::VerticHorizon, &mut signs);
+            evidence.push(ProfileEvidence::Vertic { horizon: name, floor: diag });
+            diagnostic.push(k);
+        }
+    }
+
+    // The carbonate stage, whatever horizon it was logged on (Machette 1985 stages).
+    if let Some(st) = stage {
+        let floor = if st >= params.very_strong_carbonate_stage {
+            Dev::VeryStrong
+        } else if st >= params.strong_carbonate_stage {
+            Dev::Strong
+        } else {
+            Dev::Weak
+        };
+        let horizon = beds.iter().find(|b| b.carbonate_stage == stage).and_then(designation);
+        evidence.push(ProfileEvidence::CarbonateStage { stage: st, horizon, floor });
+        if floor >= Dev::Strong {
+            lift(&mut m, floor, MaturitySign::CarbonateStage, &mut signs);
+        } else if floor > m {
+            m = floor;
+        }
+    }
+
+    // Thick B horizons make an already moderate profile strong or very strong.
+    let b_thickness_m: f64 =
+        beds.iter().filter(|b| b_horizon(b).is_some()).map(|b| b.usable_thickness_m()).sum();
+    if b_thickness_m > 0.0 {
+        let floor = if m < Dev::Moderate {
+            None
+        } else if b_thickness_m >= params.very_thick_b_horizon_m {
+            Some((Dev::VeryStrong, params.very_thick_b_horizon_m))
+        } else if b_thickness_m >= params.thick_b_horizon_m {
+            Some((Dev::Strong, params.thick_b_horizon_m))
+        } else {
+            None
+        };
+        if let Some((floor, limit)) = floor {
+            lift(&mut m, floor, MaturitySign::ThickBHorizon, &mut signs);
+            evidence.push(ProfileEvidence::BThickness {
+                thickness_m: b_thickness_m,
+                limit_m: Some(limit),
+                floor: Some(floor),
+            });
+        } else {
+            evidence.push(ProfileEvidence::BThickness {
+                thickness_m: b_thickness_m,
+                limit_m: None,
+                floor: None,
+            });
+        }
+    }
+
+    // Vertic and calcic together, as features or as `ss` and `k` horizons.
+    let has = |f: PaleosolFeature, s: Structure, suffix: &str| {
+        beds.iter().any(|b| {
+            b.paleosol_features.contains(&f)
+                || b.structures.contains(&s)
+                || b.soil_horizon.as_ref().is_some_and(|h| h.has(suffix))
+        })
     };
     if params.vertic_calcic_raises
-        && has(PaleosolFeature::Slickensides, Structure::Slickensides)
-        && has(PaleosolFeature::CarbonateNodules, Structure::CarbonateNodules)
+        && has(PaleosolFeature::Slickensides, Structure::Slickensides, "ss")
+        && has(PaleosolFeature::CarbonateNodules, Structure::CarbonateNodules, "k")
         && raised(m) > m
     {
         m = raised(m);
         signs.push(MaturitySign::VerticCalcic);
+        evidence.push(ProfileEvidence::VerticCalcic { raised_to: m });
     }
-    (m, logged, stage, signs)
+    // Designated horizons only say "a soil": any other sign that raised it says more.
+    if signs.len() > 1 {
+        signs.retain(|s| *s != MaturitySign::DesignatedHorizon);
+    }
+    Maturity { maturity: m, logged, stage, signs, evidence, diagnostic, b_thickness_m }
+}
+
+/// Drainage of a profile: the geologist's class where logged (on the horizons that carry the
+/// maturity, else on any horizon of the profile; the poorest if several), else wet signs on the
+/// horizons that carry the maturity: a mottled weak horizon under a stage IV calcic horizon does
+/// not make a mature, well-drained soil wet (Kraus 1999; Machette 1985).
+fn drainage(profile: &[Bed], key: &[bool]) -> (bool, Option<Drainage>, DrainageBasis, ProfileEvidence) {
+    let poorest = |only_key: bool| {
+        profile
+            .iter()
+            .zip(key)
+            .filter(|(b, k)| b.drainage.is_some() && (**k || !only_key))
+            .max_by_key(|(b, _)| b.drainage)
+            .map(|(b, _)| b)
+    };
+    if let Some(bed) = poorest(true).or_else(|| poorest(false)) {
+        let d = bed.drainage.unwrap_or(Drainage::WellDrained);
+        let ev = ProfileEvidence::DrainageLogged { drainage: d, horizon: designation(bed) };
+        return (d.is_poor(), Some(d), DrainageBasis::Logged, ev);
+    }
+    for (bed, _) in profile.iter().zip(key).filter(|(_, k)| **k) {
+        let sign = if bed.paleosol_features.contains(&PaleosolFeature::Gleying) {
+            Some("gleying")
+        } else if bed.paleosol_features.contains(&PaleosolFeature::Mottling)
+            || bed.structures.contains(&Structure::Mottling)
+        {
+            Some("mottling")
+        } else if bed.soil_horizon.as_ref().is_some_and(|h| h.has("g")) {
+            Some("a gleyed (g) horizon")
+        } else {
+            None
+        };
+        if let Some(sign) = sign {
+            let ev = ProfileEvidence::WetSign { sign, horizon: designation(bed) };
+            return (true, None, DrainageBasis::WetSigns, ev);
+        }
+    }
+    (false, None, DrainageBasis::NoSign, ProfileEvidence::NoWetSign)
+}
+
+/// Why a new profile starts at `bed` inside a run of horizons, given the master-horizon rank of
+/// the highest designated bed of the profile so far.
+fn break_at(bed: &Bed, rank_below: Option<u8>) -> Option<ProfileBreak> {
+    if bed.base_contact == Contact::Erosional {
+        return Some(ProfileBreak::Truncation);
+    }
+    match (rank_below, bed.soil_horizon.as_ref().and_then(master_rank)) {
+        (Some(below), Some(here)) if here < below => Some(ProfileBreak::HorizonSequence),
+        _ => None,
+    }
 }
 
 /// The paleosol profiles of a section, lowest first. Linear in the number of beds.
@@ -74,51 +284,66 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
     let beds = &section.beds;
     let mut out = Vec::new();
     let mut i = 0;
+    let mut started_by: Option<ProfileBreak> = None;
     while i < beds.len() {
         if !is_horizon(&beds[i]) {
             i += 1;
+            started_by = None;
             continue;
         }
         let first = i;
+        let mut rank = beds[i].soil_horizon.as_ref().and_then(master_rank);
+        let mut next_break = None;
         while i + 1 < beds.len() && is_horizon(&beds[i + 1]) {
+            if let Some(why) = break_at(&beds[i + 1], rank) {
+                next_break = Some(why);
+                break;
+            }
             i += 1;
+            rank = beds[i].soil_horizon.as_ref().and_then(master_rank).or(rank);
         }
         let last = i;
         i += 1;
-        let (maturity, logged_development, carbonate_stage, raised_by) =
-            maturity(&beds[first..=last], params);
+        let this_start = std::mem::replace(&mut started_by, next_break);
+        let profile = &beds[first..=last];
+        let Maturity { maturity, logged, stage, signs, mut evidence, diagnostic, b_thickness_m } =
+            maturity(profile, params);
         if maturity == PaleosolDevelopment::None || maturity < params.paleosol_min_development {
             continue;
         }
-        let on_sandstone = beds[first..=last].iter().any(is_sand_or_gravel);
-        // Drainage is read from the horizons that carry the profile's maturity (its most
-        // developed beds and those of its highest carbonate stage): a mottled weak horizon
-        // under a stage IV calcic horizon does not make a mature, well-drained soil wet
-        // (Kraus 1999; Machette 1985).
-        let profile = &beds[first..=last];
-        let key = |b: &&Bed| {
-            b.paleosol == logged_development
-                || (carbonate_stage.is_some() && b.carbonate_stage == carbonate_stage)
-        };
-        let wet = |b: &&Bed| {
-            b.paleosol_features
-                .iter()
-                .any(|f| matches!(f, PaleosolFeature::Gleying | PaleosolFeature::Mottling))
-                || b.structures.contains(&Structure::Mottling)
-        };
-        let poorly_drained = profile.iter().filter(key).any(|b| wet(&b));
+        let on_sandstone = profile.iter().any(is_sand_or_gravel);
+        // The horizons that carry the profile's maturity: its most developed beds, those of its
+        // highest carbonate stage and its diagnostic horizons.
+        let key: Vec<bool> = profile
+            .iter()
+            .enumerate()
+            .map(|(k, b)| {
+                b.paleosol == logged
+                    || (stage.is_some() && b.carbonate_stage == stage)
+                    || diagnostic.contains(&k)
+            })
+            .collect();
+        let (poorly_drained, drainage, drainage_from, said) = drainage(profile, &key);
+        evidence.push(said);
+        if let Some(why) = this_start {
+            evidence.push(ProfileEvidence::StartsNewSequence { why });
+        }
         out.push(PaleosolProfile {
             base_m: column.bounds_m[first],
             top_m: column.bounds_m[last + 1],
             maturity,
-            beds: beds[first..=last].iter().map(|b| b.id).collect(),
+            beds: profile.iter().map(|b| b.id).collect(),
             first_bed: first,
             last_bed: last,
-            logged_development,
-            carbonate_stage,
-            raised_by,
+            logged_development: logged,
+            carbonate_stage: stage,
+            raised_by: signs,
             on_sandstone,
             poorly_drained,
+            drainage,
+            drainage_from,
+            b_horizon_thickness_m: b_thickness_m,
+            evidence,
         });
     }
     out
@@ -216,5 +441,157 @@ mod tests {
         let mut s = Section::new("t");
         s.beds = vec![mud(Strong), Bed::new(BedId(9), 1.0, Lithology::Covered, Option::None), mud(Weak)];
         assert_eq!(profiles(&s, &Column::new(&s), &strict).len(), 1);
+    }
+
+    fn horizon(dev: PaleosolDevelopment, designation: &str, thickness_m: f64) -> Bed {
+        let mut b = mud(dev);
+        b.thickness_m = thickness_m;
+        b.soil_horizon = Some(SoilHorizon::parse(designation).expect("a designation"));
+        b
+    }
+
+    fn sentences(p: &PaleosolProfile) -> Vec<String> {
+        p.evidence.iter().map(|e| e.to_string()).collect()
+    }
+
+    #[test]
+    fn a_bt_counts_as_argillic_only_with_clay_coatings() {
+        // Retallack 2001: a profile whose clayey subsurface horizon qualifies as argillic (clay
+        // skins seen) is moderately developed.
+        use PaleosolDevelopment::*;
+        let mut bt = horizon(Weak, "Bt", 0.4);
+        bt.paleosol_features.push(PaleosolFeature::ClayCoatings);
+        let p = run(vec![horizon(None, "C", 0.3), bt, horizon(Weak, "A", 0.2)], &RuleParams::default());
+        assert_eq!(p.len(), 1);
+        assert_eq!(
+            (p[0].maturity, p[0].raised_by.as_slice()),
+            (Moderate, &[MaturitySign::ArgillicHorizon][..])
+        );
+        let said = sentences(&p[0]);
+        assert_eq!(said[0], "horizons logged, top down: A / Bt / C");
+        assert!(said.iter().any(|s| s.starts_with("Bt with clay coatings, an argillic horizon")), "{said:?}");
+        let p = run(vec![horizon(Weak, "Bt", 0.4), horizon(Weak, "A", 0.2)], &RuleParams::default());
+        assert_eq!(p[0].maturity, Weak);
+        assert!(sentences(&p[0])
+            .contains(&"Bt logged without clay coatings: not counted as an argillic horizon".into()));
+    }
+
+    #[test]
+    fn a_bk_is_calcic_from_stage_ii_and_the_stage_sets_strong_and_very_strong() {
+        // Retallack 2001: calcic horizon of stage II → moderate; Machette 1985 stage III → strong,
+        // IV → very strong (the existing carbonate-stage parameters).
+        use PaleosolDevelopment::*;
+        for (stage, want) in [(1, Weak), (2, Moderate), (3, Strong), (4, VeryStrong)] {
+            let mut bk = horizon(None, "Bk2", 0.5);
+            bk.carbonate_stage = Some(stage);
+            let p = run(vec![bk], &RuleParams::default());
+            assert_eq!(p[0].maturity, want, "stage {stage}");
+        }
+        let mut bk = horizon(None, "Bk2", 0.5);
+        bk.carbonate_stage = Some(2);
+        let p = run(vec![bk], &RuleParams::default());
+        assert!(
+            sentences(&p[0]).contains(
+                &"Bk2 of carbonate stage II (Machette 1985), a calcic horizon: at least moderate".into()
+            ),
+            "{:?}",
+            sentences(&p[0])
+        );
+        // Stage II on a bed not designated Bk stays weak (the designation is the evidence).
+        let mut plain = mud(Weak);
+        plain.carbonate_stage = Some(2);
+        assert_eq!(run(vec![plain], &RuleParams::default())[0].maturity, Weak);
+    }
+
+    #[test]
+    fn a_bss_is_vertic_and_with_a_bk_counts_as_vertic_and_calcic() {
+        use PaleosolDevelopment::*;
+        let p = run(vec![horizon(None, "Bss", 0.4)], &RuleParams::default());
+        assert_eq!(
+            (p[0].maturity, p[0].raised_by.as_slice()),
+            (Moderate, &[MaturitySign::VerticHorizon][..])
+        );
+        // The suffixes stand for the features: ss slickensides, k carbonate (Kraus 1999).
+        let mut bk = horizon(None, "Bk", 0.4);
+        bk.carbonate_stage = Some(2);
+        let p = run(vec![bk, horizon(None, "Bss", 0.4)], &RuleParams::default());
+        assert_eq!(p[0].maturity, Strong);
+        assert!(p[0].raised_by.contains(&MaturitySign::VerticCalcic));
+    }
+
+    #[test]
+    fn thick_b_horizons_raise_a_profile_that_is_already_moderate() {
+        use PaleosolDevelopment::*;
+        let coated = |name: &str, t: f64| {
+            let mut b = horizon(Weak, name, t);
+            b.paleosol_features.push(PaleosolFeature::ClayCoatings);
+            b
+        };
+        let p = run(vec![coated("Bt2", 0.6), coated("Bt1", 0.6)], &RuleParams::default());
+        assert_eq!(p[0].maturity, Strong);
+        assert!((p[0].b_horizon_thickness_m - 1.2).abs() < 1e-12);
+        assert!(sentences(&p[0])
+            .contains(&"B horizons 1.20 m thick in all (at least 1.00 m): at least strong".into()));
+        let p = run(vec![coated("Bt2", 1.2), coated("Bt1", 1.0)], &RuleParams::default());
+        assert_eq!(p[0].maturity, VeryStrong);
+        // A thick but weak B (a Bw) stays weak: thickness raises only a diagnostic profile.
+        let p = run(vec![horizon(Weak, "Bw", 2.5)], &RuleParams::default());
+        assert_eq!(p[0].maturity, Weak);
+    }
+
+    #[test]
+    fn the_logged_drainage_class_wins_over_wet_signs_and_a_g_horizon_is_a_wet_sign() {
+        use PaleosolDevelopment::*;
+        let mut gleyed = horizon(Moderate, "Bt", 0.5);
+        gleyed.paleosol_features.push(PaleosolFeature::Gleying);
+        gleyed.drainage = Some(Drainage::WellDrained);
+        let p = run(vec![gleyed.clone()], &RuleParams::default());
+        assert_eq!((p[0].poorly_drained, p[0].drainage_from), (false, DrainageBasis::Logged));
+        assert!(sentences(&p[0]).contains(&"drainage logged as well drained on Bt".into()));
+        gleyed.drainage = Some(Drainage::SomewhatPoorlyDrained);
+        assert!(run(vec![gleyed], &RuleParams::default())[0].poorly_drained);
+        let p = run(vec![horizon(Moderate, "Bg", 0.5)], &RuleParams::default());
+        assert_eq!((p[0].poorly_drained, p[0].drainage_from), (true, DrainageBasis::WetSigns));
+        assert!(sentences(&p[0]).contains(&"a gleyed (g) horizon in Bg: poorly drained".into()));
+        let p = run(vec![horizon(Moderate, "Bw", 0.5)], &RuleParams::default());
+        assert_eq!((p[0].poorly_drained, p[0].drainage_from), (false, DrainageBasis::NoSign));
+    }
+
+    #[test]
+    fn a_new_horizon_sequence_or_a_truncation_starts_another_profile() {
+        // Upward: C, Bt, A of one soil, then C, Bk, A of the soil buried on it.
+        use PaleosolDevelopment::*;
+        let beds = vec![
+            horizon(Weak, "C", 0.3),
+            horizon(Moderate, "Bt", 0.5),
+            horizon(Weak, "A", 0.2),
+            horizon(Weak, "2C", 0.3),
+            horizon(Weak, "Bk", 0.5),
+            mud(Weak),
+            horizon(Weak, "A", 0.2),
+        ];
+        let p = run(beds.clone(), &RuleParams::default());
+        assert_eq!(p.len(), 2);
+        assert_eq!((p[0].first_bed, p[0].last_bed, p[1].first_bed, p[1].last_bed), (0, 2, 3, 6));
+        assert!(sentences(&p[1])
+            .iter()
+            .any(|s| s.starts_with("starts where the horizon sequence starts again")));
+        assert!(!sentences(&p[0]).iter().any(|s| s.starts_with("starts")));
+        // The same beds with no designations are one run, one profile (as before horizons).
+        let bare: Vec<Bed> = beds
+            .iter()
+            .cloned()
+            .map(|mut b| {
+                b.soil_horizon = Option::None;
+                b
+            })
+            .collect();
+        assert_eq!(run(bare.clone(), &RuleParams::default()).len(), 1);
+        // An erosional base inside the run truncates the soil below.
+        let mut cut = bare;
+        cut[4].base_contact = Contact::Erosional;
+        let p = run(cut, &RuleParams::default());
+        assert_eq!((p.len(), p[1].first_bed), (2, 4));
+        assert!(sentences(&p[1]).iter().any(|s| s.contains("the soil below truncated")));
     }
 }

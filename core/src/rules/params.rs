@@ -68,6 +68,20 @@ pub struct RuleParams {
     /// shrink–swell and carbonate accumulation over a long time; Kraus 1999) raise its maturity
     /// by one grade. Default on: Kraus 1999; Retallack 2001.
     pub vertic_calcic_raises: bool,
+    /// A profile with a diagnostic subsurface horizon — a Bt logged with clay coatings (argillic),
+    /// a Bk of carbonate stage II or more (calcic) or a Bss (vertic) — is at least this developed.
+    /// Default moderate: Retallack 2001's development scale calls a profile moderately developed
+    /// once its subsurface clayey or calcareous (stage II) horizon qualifies as argillic or calcic
+    /// (from memory).
+    pub diagnostic_horizon_development: PaleosolDevelopment,
+    /// B horizons (beds designated B…) at least this thick in all make a profile that is already
+    /// at least moderately developed strong ("especially thick" subsurface horizons, Retallack
+    /// 2001). Default 1.0 m: our choice; Retallack gives no figure, and the B horizons of modern
+    /// soils are mostly decimetres to about a metre thick (common practice).
+    pub thick_b_horizon_m: f64,
+    /// B horizons at least this thick in all make such a profile very strong ("unusually thick",
+    /// Retallack 2001). Default 2.0 m: our choice, as above.
+    pub very_thick_b_horizon_m: f64,
     /// Height of the moving window of the proportion curve, metres. Default 10 m: common practice
     /// (several storey thicknesses).
     pub window_m: f64,
@@ -148,6 +162,9 @@ impl Default for RuleParams {
             strong_carbonate_stage: 3,
             very_strong_carbonate_stage: 4,
             vertic_calcic_raises: true,
+            diagnostic_horizon_development: PaleosolDevelopment::Moderate,
+            thick_b_horizon_m: 1.0,
+            very_thick_b_horizon_m: 2.0,
             window_m: 10.0,
             curve_step_m: 0.5,
             relief_limit_m: 3.0,
@@ -185,6 +202,8 @@ impl RuleParams {
             ("window_m", self.window_m),
             ("curve_step_m", self.curve_step_m),
             ("boundary_window_m", self.boundary_window_m),
+            ("thick_b_horizon_m", self.thick_b_horizon_m),
+            ("very_thick_b_horizon_m", self.very_thick_b_horizon_m),
         ];
         for (name, v) in positive {
             if !(v.is_finite() && v > 0.0) {
@@ -225,6 +244,12 @@ impl RuleParams {
             if !(1..=6).contains(&v) {
                 out.push(format!("{name}: got {v}; valid is a carbonate stage from 1 to 6 (I–VI)"));
             }
+        }
+        if self.very_thick_b_horizon_m < self.thick_b_horizon_m {
+            out.push(format!(
+                "very_thick_b_horizon_m: got {}; valid is a thickness at least thick_b_horizon_m ({})",
+                self.very_thick_b_horizon_m, self.thick_b_horizon_m
+            ));
         }
         out
     }

@@ -4,7 +4,7 @@
 //! the suffix (`base`, `top`, `height`) to keep the `aggrade interpret --json` contract.
 
 use super::evidence::{Evidence, RegimeWhy};
-use crate::model::{BedId, GrainSize, LengthUnit, PaleosolDevelopment, ReviewState};
+use crate::model::{BedId, Drainage, GrainSize, LengthUnit, PaleosolDevelopment, ReviewState};
 use serde::Serialize;
 
 /// The depositional element a bed is read as.
@@ -172,8 +172,184 @@ impl ChannelBody {
 pub enum MaturitySign {
     /// A carbonate horizon of a high morphological stage.
     CarbonateStage,
-    /// Slickensides with carbonate nodules (vertic and calcic features together).
+    /// Slickensides with carbonate nodules (vertic and calcic features together), logged as
+    /// features or as `ss` and `k` horizon suffixes.
     VerticCalcic,
+    /// Designated soil horizons (A, E, B, O) where no development was logged: a soil was seen.
+    DesignatedHorizon,
+    /// A Bt horizon with clay coatings: an argillic horizon.
+    ArgillicHorizon,
+    /// A Bk horizon with a carbonate stage of at least II: a calcic horizon.
+    CalcicHorizon,
+    /// A Bss horizon: a vertic (slickensided, shrink–swell) subsurface horizon.
+    VerticHorizon,
+    /// Especially or unusually thick B horizons.
+    ThickBHorizon,
+}
+
+impl MaturitySign {
+    /// The sign in words, as the readable report lists it ("raised by its carbonate stage").
+    pub fn words(self) -> &'static str {
+        match self {
+            MaturitySign::CarbonateStage => "raised by its carbonate stage",
+            MaturitySign::VerticCalcic => "raised by slickensides with carbonate nodules",
+            MaturitySign::DesignatedHorizon => "raised by its designated soil horizons",
+            MaturitySign::ArgillicHorizon => "raised by a Bt horizon with clay coatings",
+            MaturitySign::CalcicHorizon => "raised by a Bk horizon of carbonate stage II or more",
+            MaturitySign::VerticHorizon => "raised by a Bss horizon",
+            MaturitySign::ThickBHorizon => "raised by the thickness of its B horizons",
+        }
+    }
+}
+
+/// Where a profile's drainage reading comes from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum DrainageBasis {
+    /// The geologist's drainage class on the horizons that carry the maturity (or, where none
+    /// of those has one, on another horizon of the profile).
+    Logged,
+    /// Gleying or mottling logged, or a `g` horizon suffix, on the horizons that carry the
+    /// maturity.
+    WetSigns,
+    /// Neither: read as not poorly drained.
+    NoSign,
+}
+
+/// One sentence of a profile's evidence: what its maturity and drainage were read from, horizon
+/// data included. Kept as data, worded in a display unit where shown, serialised as the
+/// sentence in metres.
+#[derive(Debug, Clone, PartialEq)]
+pub enum ProfileEvidence {
+    /// The horizons designated on its beds, top down ("A / Bt / Bk2 / C").
+    Horizons { top_down: Vec<String> },
+    /// No bed of the profile carries a horizon designation.
+    NoHorizons,
+    /// The strongest development logged on its beds.
+    Logged { development: PaleosolDevelopment },
+    /// Designated A, E, B or O horizons with no development logged: at least weak.
+    Designated { floor: PaleosolDevelopment },
+    /// A Bt horizon logged with clay coatings.
+    Argillic { horizon: String, floor: PaleosolDevelopment },
+    /// A Bt horizon without clay coatings logged: not counted as argillic.
+    BtWithoutCoatings { horizon: String },
+    /// A Bk horizon of carbonate stage II or more.
+    Calcic { horizon: String, stage: u8, floor: PaleosolDevelopment },
+    /// A Bss horizon.
+    Vertic { horizon: String, floor: PaleosolDevelopment },
+    /// The highest carbonate stage (1–6), with the horizon it was logged on, if designated.
+    CarbonateStage { stage: u8, horizon: Option<String>, floor: PaleosolDevelopment },
+    /// Slickensides and carbonate nodules (features or `ss`/`k` suffixes): one grade more.
+    VerticCalcic { raised_to: PaleosolDevelopment },
+    /// Total thickness of the B horizons, and the limit it reached (if any).
+    BThickness { thickness_m: f64, limit_m: Option<f64>, floor: Option<PaleosolDevelopment> },
+    /// The geologist's drainage class, on the named horizon (or an undesignated bed).
+    DrainageLogged { drainage: Drainage, horizon: Option<String> },
+    /// Gleying, mottling or a `g` suffix on a horizon carrying the maturity.
+    WetSign { sign: &'static str, horizon: Option<String> },
+    /// No drainage class logged and no wet sign on the horizons carrying the maturity.
+    NoWetSign,
+    /// The profile was cut off from the one below where the horizon sequence starts again.
+    StartsNewSequence { why: ProfileBreak },
+}
+
+/// Why a run of horizon beds was split into two profiles at a bed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ProfileBreak {
+    /// The bed's master horizon lies lower in a profile than the designated bed below it (a C or
+    /// B over an A: the soil below is buried and a new one starts).
+    HorizonSequence,
+    /// The bed has an erosional base: the soil below was truncated.
+    Truncation,
+}
+
+/// A horizon's name for a sentence: "Bt" or "an undesignated bed".
+fn on_horizon(horizon: &Option<String>) -> String {
+    horizon.as_ref().map_or_else(|| "an undesignated bed".to_string(), |h| h.clone())
+}
+
+impl ProfileEvidence {
+    /// The sentence with its lengths in `unit` (a section's display unit).
+    pub fn worded(&self, unit: LengthUnit) -> String {
+        use ProfileEvidence::*;
+        match self {
+            Horizons { top_down } => format!("horizons logged, top down: {}", top_down.join(" / ")),
+            NoHorizons => "no soil horizons designated: read from development, features and carbonate stage only"
+                .to_string(),
+            Logged { development } => format!("strongest development logged: {}", development.name()),
+            Designated { floor } => {
+                format!("designated soil horizons with no development logged: at least {}", floor.name())
+            }
+            Argillic { horizon, floor } => format!(
+                "{horizon} with clay coatings, an argillic horizon (Retallack 2001): at least {}",
+                floor.name()
+            ),
+            BtWithoutCoatings { horizon } => {
+                format!("{horizon} logged without clay coatings: not counted as an argillic horizon")
+            }
+            Calcic { horizon, stage, floor } => format!(
+                "{horizon} of carbonate stage {} (Machette 1985), a calcic horizon: at least {}",
+                roman(*stage),
+                floor.name()
+            ),
+            Vertic { horizon, floor } => {
+                format!("{horizon}, a slickensided (vertic) horizon (Retallack 2001): at least {}", floor.name())
+            }
+            CarbonateStage { stage, horizon, floor } => format!(
+                "carbonate stage {} (Machette 1985: {}) in {}: at least {}",
+                roman(*stage),
+                super::paleosols::carbonate_stage_morphology(*stage).unwrap_or("stage out of range"),
+                on_horizon(horizon),
+                floor.name()
+            ),
+            VerticCalcic { raised_to } => format!(
+                "slickensides with carbonate nodules (vertic and calcic; Kraus 1999): one grade more, {}",
+                raised_to.name()
+            ),
+            BThickness { thickness_m, limit_m, floor } => match (limit_m, floor) {
+                (Some(limit), Some(floor)) => format!(
+                    "B horizons {} thick in all (at least {}): at least {}",
+                    unit.length(*thickness_m),
+                    unit.length(*limit),
+                    floor.name()
+                ),
+                _ => format!("B horizons {} thick in all", unit.length(*thickness_m)),
+            },
+            DrainageLogged { drainage, horizon } => {
+                format!("drainage logged as {} on {}", drainage.name(), on_horizon(horizon))
+            }
+            WetSign { sign, horizon } => format!("{sign} in {}: poorly drained", on_horizon(horizon)),
+            NoWetSign => "no drainage logged and no gleying, mottling or g horizon where the maturity is: not \
+                          poorly drained"
+                .to_string(),
+            StartsNewSequence { why: ProfileBreak::HorizonSequence } => {
+                "starts where the horizon sequence starts again (a lower horizon over an upper one): a new profile"
+                    .to_string()
+            }
+            StartsNewSequence { why: ProfileBreak::Truncation } => {
+                "starts at an erosional base inside a run of horizons (the soil below truncated): a new profile"
+                    .to_string()
+            }
+        }
+    }
+}
+
+/// A carbonate stage (1–6) as the Roman numeral of Machette (1985).
+pub fn roman(stage: u8) -> &'static str {
+    ["I", "II", "III", "IV", "V", "VI"].get(usize::from(stage).wrapping_sub(1)).copied().unwrap_or("?")
+}
+
+impl std::fmt::Display for ProfileEvidence {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.worded(LengthUnit::Metre))
+    }
+}
+
+impl Serialize for ProfileEvidence {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.collect_str(self)
+    }
 }
 
 /// Consecutive beds with soil development (a profile of horizons), read as one paleosol.
@@ -199,9 +375,21 @@ pub struct PaleosolProfile {
     /// True when the soil formed in sandstone or conglomerate (a profile including such a bed: a
     /// soil on a sandstone top).
     pub on_sandstone: bool,
-    /// True when a bed of the profile is logged with gleying or mottling: a high or fluctuating
-    /// water table, poor drainage (Kraus 1999; Wright & Marriott 1993).
+    /// True when the profile is poorly drained: the geologist's drainage class (somewhat poorly
+    /// drained or wetter) where logged, else gleying, mottling or a `g` horizon on the horizons
+    /// that carry its maturity: a high or fluctuating water table (Kraus 1999; Wright & Marriott
+    /// 1993).
     pub poorly_drained: bool,
+    /// The geologist's drainage class the reading used, where one was logged.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub drainage: Option<Drainage>,
+    /// Where the drainage reading comes from.
+    pub drainage_from: DrainageBasis,
+    /// Total thickness of the beds designated as B horizons, metres (0 when none).
+    #[serde(rename = "b_horizon_thickness")]
+    pub b_horizon_thickness_m: f64,
+    /// What the maturity and drainage were read from, horizon data included, as sentences.
+    pub evidence: Vec<ProfileEvidence>,
 }
 
 /// The whole-section channel-body proportion with covered intervals counted one way or the other.
