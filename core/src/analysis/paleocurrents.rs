@@ -1,5 +1,12 @@
 //! Paleocurrent statistics: vector mean, mean resultant length, circular spread, Rayleigh test
-//! and rose-diagram bins, per bed, per interval and per section.
+//! and rose-diagram bins, per bed, per channel body, per interval and per section.
+//!
+//! Readings enter as flow directions: restored to horizontal when the section has a bedding
+//! attitude, imbrication turned downstream, accretion-surface dips left out
+//! ([`super::attitude::flow_of`]). The grouped statistics ([`grouped`]) keep one-way flow
+//! readings, two-way readings (parting lineation, groove casts: summarised as axes) and
+//! accretion-surface dips apart, never pooling accretion surfaces with flow (Miall 1974).
+//! See `docs/paleocurrents.md`.
 //!
 //! Formulas: mean direction atan2(ΣsinΘ, ΣcosΘ), mean resultant length R̄ = R/n and circular
 //! standard deviation √(−2 ln R̄) (Mardia & Jupp 2000, eqs 2.2.4 and 2.3.11). Axial data
@@ -8,8 +15,9 @@
 //! circular standard deviation (Mardia & Jupp 2000, on axial data). The Rayleigh test of
 //! uniformity uses z = nR̄² and, by default, Zar's (1999) approximation of p.
 
+use super::attitude::{flow_of, restore_reading, AttitudeError, Sense};
 use super::AnalysisError;
-use crate::model::Section;
+use crate::model::{Bed, BeddingAttitude, Indicator, Section};
 use serde::Serialize;
 use std::f64::consts::PI;
 
@@ -175,15 +183,15 @@ pub struct BedPaleocurrents {
     pub summary: CircularSummary,
 }
 
-/// Statistics for every bed with at least two readings.
+/// Statistics for every bed with at least two readings (restored flow readings as in
+/// [`flow_readings`], of the kind in `params`).
 pub fn per_bed(section: &Section, params: &CircularParams) -> Result<Vec<BedPaleocurrents>, AnalysisError> {
     let bases = section.base_heights_m();
     let mut out = Vec::new();
     for (i, bed) in section.beds.iter().enumerate() {
-        let readings: Vec<f64> = bed.flow_azimuths().collect();
+        let readings = bed_readings(bed, section.bedding.as_ref(), params.kind);
         if readings.len() >= 2 {
-            let summary =
-                circular_summary(&readings, params).map_err(|e| bed_error(section, i, e))?;
+            let summary = circular_summary(&readings, params).map_err(|e| bed_error(section, i, e))?;
             out.push(BedPaleocurrents { bed_index: i, base_m: bases[i], summary });
         }
     }
@@ -201,16 +209,49 @@ fn bed_error(section: &Section, index: usize, e: AnalysisError) -> AnalysisError
     }
 }
 
-/// All readings of the beds whose base lies in `base_m ≤ h < top_m`.
-pub fn readings_in_interval(section: &Section, base_m: f64, top_m: f64) -> Vec<f64> {
+/// The flow azimuths of one bed, degrees, for the statistics of `kind`: restored to horizontal
+/// when `bedding` is given, imbrication turned downstream, accretion surfaces left out.
+/// `Directional` takes the one-way readings only (two-way lineations and groove casts tell no
+/// sense of flow); `Axial` takes every flow reading as an axis. A reading that cannot be restored
+/// (an azimuth or dip out of range, a bad bedding attitude) is passed on as measured, so that the
+/// statistics reject it by name rather than drop it silently.
+pub fn bed_readings(bed: &Bed, bedding: Option<&BeddingAttitude>, kind: DataKind) -> Vec<f64> {
+    bed.paleocurrents
+        .iter()
+        .filter(|p| p.indicator.is_flow())
+        .filter_map(|p| match flow_of(p, bedding) {
+            Ok(Some(f)) => (kind == DataKind::Axial || f.sense == Sense::OneWay).then_some(f.azimuth_deg),
+            Ok(None) => None,
+            Err(_) => Some(p.azimuth_deg),
+        })
+        .collect()
+}
+
+/// The flow azimuths a column draws for one bed, degrees: every flow reading (one-way and
+/// two-way; a two-way reading is drawn at its measured end), restored to horizontal when
+/// `bedding` is given and imbrication turned downstream. As many values as
+/// [`Bed::flow_azimuths`]; a reading that cannot be restored is drawn as measured.
+pub fn bed_flow_azimuths(bed: &Bed, bedding: Option<&BeddingAttitude>) -> Vec<f64> {
+    bed_readings(bed, bedding, DataKind::Axial)
+}
+
+/// The flow readings of the beds whose base lies in `base_m ≤ h < top_m`, of `kind`
+/// ([`bed_readings`], restored with the section's bedding attitude).
+pub fn flow_readings_in_interval(section: &Section, base_m: f64, top_m: f64, kind: DataKind) -> Vec<f64> {
     let bases = section.base_heights_m();
     section
         .beds
         .iter()
         .zip(bases)
         .filter(|(_, h)| *h >= base_m && *h < top_m)
-        .flat_map(|(b, _)| b.flow_azimuths())
+        .flat_map(|(b, _)| bed_readings(b, section.bedding.as_ref(), kind))
         .collect()
+}
+
+/// One-way flow readings of the beds whose base lies in `base_m ≤ h < top_m`
+/// ([`flow_readings_in_interval`] with [`DataKind::Directional`]).
+pub fn readings_in_interval(section: &Section, base_m: f64, top_m: f64) -> Vec<f64> {
+    flow_readings_in_interval(section, base_m, top_m, DataKind::Directional)
 }
 
 /// Statistics for one interval of a section.
@@ -238,16 +279,226 @@ pub fn per_interval(
         .enumerate()
         .map(|(k, w)| {
             let top = if k + 2 == n { w[1] + 1e-9 } else { w[1] };
-            let readings = readings_in_interval(section, w[0], top);
+            let readings = flow_readings_in_interval(section, w[0], top, params.kind);
             let summary = if readings.len() >= 2 { Some(circular_summary(&readings, params)?) } else { None };
             Ok(IntervalPaleocurrents { base_m: w[0], top_m: w[1], summary })
         })
         .collect()
 }
 
-/// All readings of a section, beds pooled.
+/// The flow readings of a section of `kind`, beds pooled ([`bed_readings`]).
+pub fn flow_readings(section: &Section, kind: DataKind) -> Vec<f64> {
+    section.beds.iter().flat_map(|b| bed_readings(b, section.bedding.as_ref(), kind)).collect()
+}
+
+/// The one-way flow readings of a section, beds pooled, restored to horizontal when it has a
+/// bedding attitude ([`flow_readings`] with [`DataKind::Directional`]).
 pub fn section_readings(section: &Section) -> Vec<f64> {
-    section.beds.iter().flat_map(|b| b.flow_azimuths()).collect()
+    flow_readings(section, DataKind::Directional)
+}
+
+/// How many readings of one indicator a group holds.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct IndicatorCount {
+    /// The indicator's name ("trough axis", "accretion surface").
+    pub indicator: &'static str,
+    pub n: usize,
+}
+
+/// The paleocurrent readings of one stretch of section, kept apart by what they tell.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ReadingGroup {
+    #[serde(rename = "base")]
+    pub base_m: f64,
+    #[serde(rename = "top")]
+    pub top_m: f64,
+    /// Readings of each indicator present, in the vocabulary's order.
+    pub indicators: Vec<IndicatorCount>,
+    /// Restored one-way flow azimuths (flow = imbrication + 180°).
+    pub flow_deg: Vec<f64>,
+    /// Their statistics as directions; `None` below two readings.
+    pub flow: Option<CircularSummary>,
+    /// Restored trends of two-way readings (parting lineation, groove casts).
+    pub axes_deg: Vec<f64>,
+    /// Their statistics as axial data (doubled angles); `None` below two readings.
+    pub axes: Option<CircularSummary>,
+    /// Restored dip directions of accretion surfaces: roughly across the flow, never pooled with it.
+    pub accretion_deg: Vec<f64>,
+    /// Their statistics as directions; `None` below two readings.
+    pub accretion: Option<CircularSummary>,
+    /// Mean restored dip of the accretion surfaces read with a dip, degrees.
+    pub accretion_mean_dip_deg: Option<f64>,
+}
+
+impl ReadingGroup {
+    /// Every reading of the group, of any indicator.
+    pub fn total(&self) -> usize {
+        self.indicators.iter().map(|c| c.n).sum()
+    }
+}
+
+/// The paleocurrents of one channel body of the rules.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct BodyReadings {
+    /// Index into `Interpretation::channel_bodies`.
+    pub body: usize,
+    /// Lowest and highest bed of the body (indices into the section's beds, inclusive).
+    pub first_bed: usize,
+    pub last_bed: usize,
+    pub group: ReadingGroup,
+}
+
+/// Paleocurrents of a section grouped per section, per channel body and per interval.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct GroupedPaleocurrents {
+    /// The bedding attitude the readings were restored with; `None`: not tilt-corrected (the
+    /// section has no bedding attitude).
+    pub restored_with: Option<BeddingAttitude>,
+    pub section: ReadingGroup,
+    pub bodies: Vec<BodyReadings>,
+    pub intervals: Vec<ReadingGroup>,
+}
+
+fn attitude_error(section: &Section, bed: Option<usize>, e: AttitudeError) -> AnalysisError {
+    let at = match bed {
+        Some(i) => format!("section {:?}, bed {}", section.name, i + 1),
+        None => format!("section {:?}", section.name),
+    };
+    match e {
+        AttitudeError::OutOfRange { field, value, valid } => {
+            AnalysisError::OutOfRange { field: format!("{at} ({field})"), value, valid: valid.into() }
+        }
+        other => AnalysisError::OutOfRange { field: at, value: f64::NAN, valid: other.to_string() },
+    }
+}
+
+fn summary_of(
+    values: &[f64],
+    kind: DataKind,
+    params: &CircularParams,
+) -> Result<Option<CircularSummary>, AnalysisError> {
+    if values.len() < 2 {
+        return Ok(None);
+    }
+    circular_summary(values, &CircularParams { kind, ..*params }).map(Some)
+}
+
+/// The readings of the beds `beds` (indices) as one group between `base_m` and `top_m`.
+fn group_of(
+    section: &Section,
+    beds: impl Iterator<Item = usize>,
+    base_m: f64,
+    top_m: f64,
+    params: &CircularParams,
+) -> Result<ReadingGroup, AnalysisError> {
+    let bedding = section.bedding.as_ref();
+    let mut counts = vec![0usize; Indicator::ALL.len()];
+    let (mut flow, mut axes, mut accretion, mut dips) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
+    for i in beds {
+        let Some(bed) = section.beds.get(i) else { continue };
+        for p in &bed.paleocurrents {
+            if let Some(k) = Indicator::ALL.iter().position(|x| *x == p.indicator) {
+                counts[k] += 1;
+            }
+            match flow_of(p, bedding).map_err(|e| attitude_error(section, Some(i), e))? {
+                Some(f) if f.sense == Sense::OneWay => flow.push(f.azimuth_deg),
+                Some(f) => axes.push(f.azimuth_deg),
+                None => {
+                    let (azimuth, dip) = match bedding {
+                        Some(b) => {
+                            let r = restore_reading(p, b).map_err(|e| attitude_error(section, Some(i), e))?;
+                            (r.azimuth_deg, p.dip_deg.and(r.dip_deg))
+                        }
+                        None => (p.azimuth_deg.rem_euclid(360.0), p.dip_deg),
+                    };
+                    accretion.push(azimuth);
+                    dips.extend(dip);
+                }
+            }
+        }
+    }
+    let indicators = Indicator::ALL
+        .iter()
+        .zip(&counts)
+        .filter(|(_, n)| **n > 0)
+        .map(|(i, n)| IndicatorCount { indicator: i.name(), n: *n })
+        .collect();
+    Ok(ReadingGroup {
+        base_m,
+        top_m,
+        indicators,
+        flow: summary_of(&flow, DataKind::Directional, params)?,
+        axes: summary_of(&axes, DataKind::Axial, params)?,
+        accretion: summary_of(&accretion, DataKind::Directional, params)?,
+        accretion_mean_dip_deg: (!dips.is_empty()).then(|| dips.iter().sum::<f64>() / dips.len() as f64),
+        flow_deg: flow,
+        axes_deg: axes,
+        accretion_deg: accretion,
+    })
+}
+
+/// The beds (first, last; inclusive indices) of each channel body of an interpretation of the
+/// section, from its storeys.
+pub fn body_bed_ranges(interp: &crate::rules::Interpretation) -> Vec<(usize, usize)> {
+    interp
+        .channel_bodies
+        .iter()
+        .map(|b| {
+            let storeys = b.storey_indices.iter().filter_map(|&k| interp.storeys.get(k));
+            let first = storeys.clone().map(|s| s.first_bed).min().unwrap_or(0);
+            let last = storeys.map(|s| s.last_bed).max().unwrap_or(0);
+            (first, last)
+        })
+        .collect()
+}
+
+/// Paleocurrents per section, per channel body of `interp` (the rules' interpretation of this
+/// section) and per interval between consecutive heights of `bounds_m` (ascending; a bed belongs
+/// to the interval holding its base, the last interval also takes a bed based at its top, as in
+/// [`per_interval`]). `params.kind` is not used: each part of a group has its own kind. Errors
+/// name the section and bed of a reading that cannot be restored, or a bad bedding attitude.
+pub fn grouped(
+    section: &Section,
+    interp: &crate::rules::Interpretation,
+    bounds_m: &[f64],
+    params: &CircularParams,
+) -> Result<GroupedPaleocurrents, AnalysisError> {
+    if let Some(b) = &section.bedding {
+        super::attitude::check_bedding(b).map_err(|e| attitude_error(section, None, e))?;
+    }
+    let bases = section.base_heights_m();
+    let n = section.beds.len();
+    let whole = group_of(section, 0..n, 0.0, section.total_thickness_m(), params)?;
+    let bodies = body_bed_ranges(interp)
+        .into_iter()
+        .zip(&interp.channel_bodies)
+        .enumerate()
+        .map(|(k, ((first, last), body))| {
+            Ok(BodyReadings {
+                body: k,
+                first_bed: first,
+                last_bed: last,
+                group: group_of(
+                    section,
+                    first..=last.min(n.saturating_sub(1)),
+                    body.base_m,
+                    body.top_m,
+                    params,
+                )?,
+            })
+        })
+        .collect::<Result<Vec<_>, AnalysisError>>()?;
+    let m = bounds_m.len();
+    let intervals = bounds_m
+        .windows(2)
+        .enumerate()
+        .map(|(k, w)| {
+            let top = if k + 2 == m { w[1] + 1e-9 } else { w[1] };
+            let beds = (0..n).filter(|&i| bases[i] >= w[0] && bases[i] < top);
+            group_of(section, beds, w[0], w[1], params)
+        })
+        .collect::<Result<Vec<_>, AnalysisError>>()?;
+    Ok(GroupedPaleocurrents { restored_with: section.bedding, section: whole, bodies, intervals })
 }
 
 /// How petal length relates to the number of readings in a bin.
@@ -428,6 +679,113 @@ mod tests {
         let per = per_bed(&s, &CircularParams::default()).expect("valid");
         assert_eq!(per.iter().map(|b| b.bed_index).collect::<Vec<_>>(), vec![0, 2]);
         assert_eq!(per[1].base_m, 4.0);
+    }
+
+    fn reading(
+        azimuth_deg: f64,
+        indicator: crate::model::Indicator,
+        dip_deg: Option<f64>,
+    ) -> crate::model::Paleocurrent {
+        crate::model::Paleocurrent { azimuth_deg, indicator, dip_deg }
+    }
+
+    /// Two beds: a trough-cross-bedded sand with imbricated gravel and a lineated sand with
+    /// lateral-accretion surfaces.
+    fn mixed_section() -> Section {
+        use crate::model::{Bed, BedId, Indicator as I, Lithology};
+        let mut s = Section::new("Mixed");
+        let mut a = Bed::new(BedId(1), 2.0, Lithology::Sandstone, None);
+        a.paleocurrents = vec![
+            reading(200.0, I::TroughAxis, None),
+            reading(220.0, I::TroughAxis, None),
+            reading(30.0, I::Imbrication, Some(20.0)),
+        ];
+        let mut b = Bed::new(BedId(2), 3.0, Lithology::Sandstone, None);
+        b.paleocurrents = vec![
+            reading(20.0, I::PartingLineation, None),
+            reading(200.0, I::PartingLineation, None),
+            reading(300.0, I::AccretionSurface, Some(10.0)),
+            reading(310.0, I::AccretionSurface, Some(14.0)),
+        ];
+        s.beds = vec![a, b];
+        s
+    }
+
+    #[test]
+    fn groups_keep_flow_axes_and_accretion_apart() {
+        let s = mixed_section();
+        let interp = crate::rules::interpret(&s, &crate::rules::RuleParams::default());
+        let g = grouped(&s, &interp, &[0.0, 2.0, 5.0], &CircularParams::default()).expect("valid");
+        assert_eq!(g.restored_with, None);
+        let w = &g.section;
+        // Imbrication dips upstream: 030 becomes a flow toward 210 (common practice).
+        assert_eq!(w.flow_deg, vec![200.0, 220.0, 210.0]);
+        assert!((w.flow.as_ref().and_then(|f| f.mean_azimuth_deg).expect("mean") - 210.0).abs() < 1e-9);
+        // Parting lineation is two-way: 020 and 200 are one axis (Mardia & Jupp 2000, axial data).
+        let axes = w.axes.as_ref().expect("two axes");
+        assert!((axes.mean_azimuth_deg.expect("mean") - 20.0).abs() < 1e-9, "{axes:?}");
+        assert!((axes.mean_resultant_length - 1.0).abs() < 1e-12);
+        // Accretion surfaces stay out of the flow (Miall 1974).
+        assert_eq!(w.accretion_deg, vec![300.0, 310.0]);
+        assert_eq!(w.accretion_mean_dip_deg, Some(12.0));
+        assert_eq!(w.total(), 7);
+        let names: Vec<_> = w.indicators.iter().map(|c| (c.indicator, c.n)).collect();
+        assert_eq!(
+            names,
+            vec![("trough axis", 2), ("imbrication", 1), ("parting lineation", 2), ("accretion surface", 2)]
+        );
+        // Intervals split by bed base.
+        assert_eq!(g.intervals[0].flow_deg.len(), 3);
+        assert_eq!(g.intervals[1].flow_deg.len(), 0);
+        assert_eq!(g.intervals[1].accretion_deg.len(), 2);
+        // The plain statistics take one-way readings only, or every flow reading as axes.
+        assert_eq!(section_readings(&s), vec![200.0, 220.0, 210.0]);
+        assert_eq!(flow_readings(&s, DataKind::Axial).len(), 5);
+        // The column draws every flow reading, as many as Bed::flow_azimuths gives.
+        assert_eq!(bed_flow_azimuths(&s.beds[0], None), vec![200.0, 220.0, 210.0]);
+        assert_eq!(bed_flow_azimuths(&s.beds[1], None).len(), s.beds[1].flow_azimuths().count());
+    }
+
+    #[test]
+    fn bodies_take_the_readings_of_their_beds() {
+        use crate::model::{Bed, BedId, Contact, GrainSize, Lithology, WentworthClass};
+        // Mudstone, an erosive-based channel sandstone with readings, mudstone with a reading.
+        let mut s = Section::new("Body");
+        let mut mud = Bed::new(BedId(1), 3.0, Lithology::Mudstone, None);
+        mud.paleocurrents = vec![crate::model::Paleocurrent::azimuth(90.0)];
+        let mut sand = Bed::new(BedId(2), 4.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
+        sand.base_contact = Contact::Erosional;
+        sand.paleocurrents = [100.0, 120.0, 110.0].map(crate::model::Paleocurrent::azimuth).to_vec();
+        let mut top = Bed::new(BedId(3), 3.0, Lithology::Mudstone, None);
+        top.paleocurrents = vec![crate::model::Paleocurrent::azimuth(300.0)];
+        s.beds = vec![mud, sand, top];
+        let interp = crate::rules::interpret(&s, &crate::rules::RuleParams::default());
+        assert_eq!(interp.channel_bodies.len(), 1, "{:?}", interp.channel_bodies);
+        let g = grouped(&s, &interp, &[0.0, 10.0], &CircularParams::default()).expect("valid");
+        assert_eq!(g.bodies.len(), 1);
+        assert_eq!((g.bodies[0].first_bed, g.bodies[0].last_bed), (1, 1));
+        assert_eq!(g.bodies[0].group.flow_deg, vec![100.0, 120.0, 110.0]);
+        assert_eq!(g.section.flow_deg.len(), 5);
+    }
+
+    #[test]
+    fn tilted_sections_are_restored_before_pooling() {
+        use crate::model::{BeddingAttitude, Indicator as I};
+        let mut s = mixed_section();
+        // Bedding 30° toward 090 (strike 000): a trough axis trending 045 in the bedding restores
+        // to 049.107 (rake relation, see analysis::attitude).
+        s.bedding = Some(BeddingAttitude { dip_deg: 30.0, dip_direction_deg: 90.0 });
+        s.beds[0].paleocurrents =
+            vec![reading(45.0, I::TroughAxis, None), reading(45.0, I::TroughAxis, None)];
+        let interp = crate::rules::interpret(&s, &crate::rules::RuleParams::default());
+        let g = grouped(&s, &interp, &[0.0, 5.0], &CircularParams::default()).expect("valid");
+        assert_eq!(g.restored_with, s.bedding);
+        assert!((g.section.flow_deg[0] - 49.1066).abs() < 1e-3, "{:?}", g.section.flow_deg);
+        assert!((section_readings(&s)[0] - 49.1066).abs() < 1e-3);
+        // A bad bedding attitude is an error naming the section.
+        s.bedding = Some(BeddingAttitude { dip_deg: 120.0, dip_direction_deg: 90.0 });
+        let e = grouped(&s, &interp, &[0.0, 5.0], &CircularParams::default()).expect_err("bad dip");
+        assert!(e.to_string().contains("section \"Mixed\" (bedding dip)"), "{e}");
     }
 
     #[test]
