@@ -161,7 +161,11 @@ impl ColumnCtx<'_> {
         for i in self.beds_in(lo, hi) {
             let bed = &self.section.beds[i];
             let (b, tp) = (self.bases_m[i].max(lo), self.top_m(i).min(hi));
-            let readings: Vec<f64> = bed.flow_azimuths().filter(|a| a.is_finite()).collect();
+            let readings: Vec<f64> =
+                crate::analysis::paleocurrents::bed_flow_azimuths(bed, self.section.bedding.as_ref())
+                    .into_iter()
+                    .filter(|a| a.is_finite())
+                    .collect();
             if tp <= b || readings.is_empty() {
                 continue;
             }

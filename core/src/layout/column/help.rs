@@ -205,18 +205,23 @@ impl ColumnCtx<'_> {
             }
             TrackKind::Paleocurrents => {
                 let i = self.bed_at(h)?;
-                let readings: Vec<String> = self.section.beds[i]
-                    .flow_azimuths()
-                    .filter(|a| a.is_finite())
-                    .map(|a| format!("{a:03.0}\u{b0}"))
-                    .collect();
+                let bedding = self.section.bedding.as_ref();
+                let readings: Vec<String> =
+                    crate::analysis::paleocurrents::bed_flow_azimuths(&self.section.beds[i], bedding)
+                        .into_iter()
+                        .filter(|a| a.is_finite())
+                        .map(|a| format!("{a:03.0}\u{b0}"))
+                        .collect();
                 (!readings.is_empty()).then(|| {
                     let how = if readings.len() >= 4 { "a rose of 30\u{b0} sectors" } else { "arrows" };
-                    format!(
-                        "Paleocurrents of bed {}: {} (azimuths, north up; drawn as {how}).",
-                        i + 1,
-                        readings.join(", ")
-                    )
+                    let what = match bedding {
+                        Some(b) => format!(
+                            "flow azimuths restored to horizontal from bedding dipping {:.0}\u{b0} toward {:03.0}\u{b0}",
+                            b.dip_deg, b.dip_direction_deg
+                        ),
+                        None => "flow azimuths".to_string(),
+                    };
+                    format!("Paleocurrents of bed {}: {} ({what}, north up; drawn as {how}).", i + 1, readings.join(", "))
                 })
             }
             TrackKind::Paleosols => {
