@@ -53,12 +53,13 @@ use super::csv_rows::{Record, Records};
 use super::limits::{MAX_BEDS_PER_SECTION, MAX_STRING_CHARS};
 use super::migrate::infer_surface_kind;
 use super::problem::Problem;
+use super::record_cells;
 use super::validate::validate_section;
 use crate::model::grain::normalise_term;
 use crate::model::shorthand::{self, Term};
 use crate::model::{
-    Bed, BedId, Contact, Sample, GrainSize, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section,
-    Structure, Surface, SurfaceKind,
+    Bed, BedId, Contact, Drainage, FaciesCode, GrainSize, LengthUnit, Lithology, Munsell,
+    PaleosolDevelopment, PaleosolFeature, Photo, Section, SoilHorizon, Structure, Surface, SurfaceKind,
 };
 use std::collections::HashMap;
 
@@ -94,12 +95,38 @@ pub const KNOWN_COLUMNS: [&str; 21] = [
     "base_rank",
 ];
 
+/// Optional columns of the field record, read by [`record_cells`] and written only when some bed
+/// has a value for them (so that older tables are written as before), in this order after the
+/// columns above.
+pub const RECORD_COLUMNS: [&str; 10] = [
+    "facies",
+    "munsell",
+    "bioturbation_index",
+    "trace_fossils",
+    "body_fossils",
+    "lag_composition",
+    "soil_horizon",
+    "drainage",
+    "photos",
+    "slope_distance",
+];
+
+/// Columns whose cells are lists separated by `;`: the text limit applies to each item.
+const LIST_COLUMNS: [&str; 4] = ["samples", "photos", "trace_fossils", "body_fossils"];
+
+/// Every column name the reader knows, for messages.
+fn all_columns() -> String {
+    KNOWN_COLUMNS.iter().chain(RECORD_COLUMNS.iter()).copied().collect::<Vec<_>>().join(", ")
+}
+
 /// A bed table read successfully.
 #[derive(Debug, Clone)]
 pub struct BedTableRead {
     pub section: Section,
     /// Warnings (unknown columns), with line 1.
     pub warnings: Vec<Problem>,
+    /// The line of the row each bed was read from (a covered top shares its row's line).
+    pub lines: Vec<usize>,
 }
 
 /// Characters that make a spreadsheet treat a cell as a formula (OWASP CSV injection guidance).
@@ -154,7 +181,7 @@ fn map_header(header: &Record) -> Result<(Columns, Vec<Problem>), Vec<Problem>> 
     for (i, raw) in header.iter().enumerate() {
         let name = normalise_term(raw.trim_start_matches('\u{feff}'));
         let name = if name == "color" { "colour".to_string() } else { name };
-        match KNOWN_COLUMNS.iter().find(|k| **k == name) {
+        match KNOWN_COLUMNS.iter().chain(RECORD_COLUMNS.iter()).find(|k| **k == name) {
             Some(known) => {
                 if index.insert(known, i).is_some() {
                     problems.push(
@@ -170,7 +197,7 @@ fn map_header(header: &Record) -> Result<(Columns, Vec<Problem>), Vec<Problem>> 
             None => warnings.push(
                 Problem::new(
                     format!("column {raw:?}"),
-                    format!("unknown column, ignored (known columns: {})", KNOWN_COLUMNS.join(", ")),
+                    format!("unknown column, ignored (known columns: {})", all_columns()),
                 )
                 .at_line(1),
             ),
@@ -254,6 +281,17 @@ impl Row<'_> {
         }
     }
 
+    /// A single-value cell read by `read`; empty is `None`, a bad value is reported.
+    fn cell_with<T>(
+        &mut self,
+        column: &str,
+        cell: Option<&str>,
+        read: impl Fn(&str) -> Result<T, String>,
+    ) -> Option<T> {
+        let cell = cell.filter(|c| !c.is_empty())?;
+        read(cell).map_err(|e| self.bad(column, e)).ok()
+    }
+
     fn grain(&mut self, column: &str, cell: Option<&str>) -> Option<GrainSize> {
         let cell = cell.filter(|c| !c.is_empty())?;
         match shorthand::grain_from_code(cell) {
@@ -295,6 +333,67 @@ fn parse_stage(text: &str) -> Option<u8> {
         return Some(i as u8 + 1);
     }
     text.parse::<u8>().ok().filter(|s| (1..=6).contains(s))
+}
+
+/// The field-record cells of one row, read.
+struct RecordFields {
+    facies: Option<FaciesCode>,
+    munsell: Option<Munsell>,
+    bioturbation_index: Option<u8>,
+    trace_fossils: Vec<String>,
+    body_fossils: Vec<String>,
+    lag_composition: String,
+    soil_horizon: Option<SoilHorizon>,
+    drainage: Option<Drainage>,
+    photos: Vec<Photo>,
+    slope_distance_m: Option<f64>,
+}
+
+impl RecordFields {
+    fn apply(self, bed: &mut Bed) {
+        bed.facies = self.facies;
+        bed.munsell = self.munsell;
+        bed.bioturbation_index = self.bioturbation_index;
+        bed.trace_fossils = self.trace_fossils;
+        bed.body_fossils = self.body_fossils;
+        bed.lag_composition = self.lag_composition;
+        bed.soil_horizon = self.soil_horizon;
+        bed.drainage = self.drainage;
+        bed.photos = self.photos;
+        bed.slope_distance_m = self.slope_distance_m;
+    }
+}
+
+/// Read the optional field-record cells of a row ([`RECORD_COLUMNS`]); each bad cell reported.
+fn read_record_cells(
+    row: &mut Row<'_>,
+    columns: &Columns,
+    record: &Record,
+    unit: LengthUnit,
+) -> RecordFields {
+    let raw = |name: &str| columns.raw_cell(record, name).unwrap_or("");
+    RecordFields {
+        facies: row.cell_with("facies", columns.cell(record, "facies"), record_cells::facies),
+        munsell: row.cell_with("munsell", columns.cell(record, "munsell"), record_cells::munsell),
+        bioturbation_index: row.cell_with(
+            "bioturbation_index",
+            columns.cell(record, "bioturbation_index"),
+            record_cells::bioturbation_index,
+        ),
+        trace_fossils: record_cells::names(raw("trace_fossils")),
+        body_fossils: record_cells::names(raw("body_fossils")),
+        lag_composition: columns.cell(record, "lag_composition").unwrap_or("").to_string(),
+        soil_horizon: row.cell_with(
+            "soil_horizon",
+            columns.cell(record, "soil_horizon"),
+            record_cells::soil_horizon,
+        ),
+        drainage: row.cell_with("drainage", columns.cell(record, "drainage"), record_cells::drainage),
+        photos: record_cells::photos(raw("photos")),
+        slope_distance_m: row.cell_with("slope_distance", columns.cell(record, "slope_distance"), |c| {
+            record_cells::slope_distance(c, unit)
+        }),
+    }
 }
 
 /// Read a bed-table CSV. `section_name` names the section (callers pass the file stem).
@@ -380,10 +479,11 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 format!("the row has {} cells but the header names {} columns", record.len(), header.len()),
             );
         }
-        // The text limit applies to each value as it is kept (trimmed, unescaped; each sample of
-        // the samples list on its own), counted in characters as validation counts them.
+        // The text limit applies to each value as it is kept (trimmed, unescaped; each item of a
+        // list on its own), counted in characters as validation counts them.
         for (i, cell) in record.iter().enumerate() {
-            let values: Vec<&str> = if columns.index.get("samples") == Some(&i) {
+            let is_list = LIST_COLUMNS.iter().any(|c| columns.index.get(c) == Some(&i));
+            let values: Vec<&str> = if is_list {
                 cell.split(';').map(|s| unescape_formula(s.trim())).collect()
             } else {
                 vec![unescape_formula(cell.trim())]
@@ -398,6 +498,19 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         }
         let (tcol, unit) = columns.thickness;
         let thickness = match columns.cell(&record, tcol).unwrap_or("") {
+            "" if !columns.cell(&record, "slope_distance").unwrap_or("").is_empty() => {
+                row.bad(
+                    tcol,
+                    format!(
+                        "required: a thickness in {} > 0. The slope distance in this row cannot stand in for it: \
+                         turning a distance along the ground into a thickness needs the traverse and the bedding \
+                         attitude, which a bed table does not hold; work the thickness out, or enter the section \
+                         in a project file, whose section details hold both",
+                        unit.name()
+                    ),
+                );
+                None
+            }
             "" => {
                 row.bad(tcol, format!("required: a thickness in {} > 0", unit.name()));
                 None
@@ -520,13 +633,11 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
                 None
             }),
         };
-        let paleocurrents = shorthand::paleocurrents(
-            columns.cell(&record, "paleocurrents").unwrap_or(""),
-        )
-        .unwrap_or_else(|e| {
-            row.bad("paleocurrents", e.to_string());
-            Vec::new()
-        });
+        let paleocurrents = shorthand::paleocurrents(columns.cell(&record, "paleocurrents").unwrap_or(""))
+            .unwrap_or_else(|e| {
+                row.bad("paleocurrents", e.to_string());
+                Vec::new()
+            });
         // A name, perhaps with its kind in brackets (`T2 (pt)`); the surface_kind column may
         // give the kind instead.
         let surface = shorthand::surface_entry(columns.cell(&record, "surface").unwrap_or(""))
@@ -561,14 +672,12 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
             },
         };
         let text = |name: &str| columns.cell(&record, name).unwrap_or("").to_string();
-        let samples: Vec<Sample> = columns
-            .raw_cell(&record, "samples")
-            .unwrap_or("")
-            .split(';')
-            .map(|s| unescape_formula(s.trim()).to_string())
-            .filter(|s| !s.is_empty())
-            .map(Sample::labelled)
-            .collect();
+        let (samples, sample_errors) =
+            record_cells::samples(columns.raw_cell(&record, "samples").unwrap_or(""), unit);
+        for e in sample_errors {
+            row.bad("samples", e);
+        }
+        let record_fields = read_record_cells(&mut row, &columns, &record, unit);
         let (Some(thickness), Some(lithology)) = (thickness, lithology) else { continue };
         if problems.len() > before {
             continue;
@@ -592,6 +701,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
         bed.fossils = text("fossils");
         bed.samples = samples;
         bed.notes = text("notes");
+        record_fields.apply(&mut bed);
         section.beds.push(bed);
         lines.push(line);
         surface_kinds.push(surface_kind);
@@ -627,7 +737,7 @@ pub fn read_bed_table(text: &str, section_name: &str) -> Result<BedTableRead, Ve
     // A single `grain` column stands for base and top: one problem, not two.
     problems.dedup();
     if problems.is_empty() {
-        Ok(BedTableRead { section, warnings })
+        Ok(BedTableRead { section, warnings, lines })
     } else {
         Err(problems)
     }
@@ -644,6 +754,7 @@ fn csv_location(p: Problem, lines: &[usize], thickness_column: &str, single_grai
         "grain_base" | "grain_top" if single_grain => "grain",
         "paleocurrents_deg" => "paleocurrents",
         "base_surface" => "surface",
+        "slope_distance_m" => "slope_distance",
         other => other,
     };
     let mut out = Problem::new(format!("column {column}"), p.message);
@@ -686,6 +797,26 @@ fn quote(cell: &str) -> String {
     }
 }
 
+/// A bed's cell in one of the [`RECORD_COLUMNS`], as the reader reads it back; empty when the
+/// bed has no value there. Lengths in `unit`.
+fn record_cell(bed: &Bed, column: &str, unit: LengthUnit) -> String {
+    match column {
+        "facies" => bed.facies.map(|f| f.code().to_string()).unwrap_or_default(),
+        "munsell" => bed.munsell.as_ref().map(ToString::to_string).unwrap_or_default(),
+        "bioturbation_index" => bed.bioturbation_index.map(|b| b.to_string()).unwrap_or_default(),
+        "trace_fossils" => record_cells::names_code(&bed.trace_fossils),
+        "body_fossils" => record_cells::names_code(&bed.body_fossils),
+        "lag_composition" => escape_formula(&bed.lag_composition),
+        "soil_horizon" => bed.soil_horizon.as_ref().map(ToString::to_string).unwrap_or_default(),
+        "drainage" => bed.drainage.map(|d| d.name().to_string()).unwrap_or_default(),
+        "photos" => record_cells::photos_code(&bed.photos),
+        "slope_distance" => {
+            bed.slope_distance_m.map(|d| format!("{}", unit.from_metres(d))).unwrap_or_default()
+        }
+        _ => String::new(),
+    }
+}
+
 /// Write a section's beds as a bed-table CSV that [`read_bed_table`] reads back to the same
 /// beds (ids are renumbered from 1). Thickness is written in the section's display unit.
 pub fn write_bed_table(section: &Section) -> String {
@@ -698,6 +829,12 @@ pub fn write_bed_table(section: &Section) -> String {
     // base/top grain pair rather than the single `grain` shorthand.
     // `base_rank` only when some bed has one: tables without ranks are written as before.
     let ranks = section.beds.iter().any(|b| b.base_rank.is_some());
+    // The field-record columns likewise, each only when some bed has a value for it.
+    let record: Vec<&str> = RECORD_COLUMNS
+        .iter()
+        .copied()
+        .filter(|c| section.beds.iter().any(|b| !record_cell(b, c, unit).is_empty()))
+        .collect();
     let header: Vec<&str> = std::iter::once(tcol)
         .chain(
             KNOWN_COLUMNS
@@ -705,6 +842,7 @@ pub fn write_bed_table(section: &Section) -> String {
                 .copied()
                 .filter(|c| !c.starts_with("thickness_") && *c != "grain" && (ranks || *c != "base_rank")),
         )
+        .chain(record.iter().copied())
         .collect();
     let mut out = header.join(",");
     out.push('\n');
@@ -722,17 +860,26 @@ pub fn write_bed_table(section: &Section) -> String {
             bed.paleosol.name().to_string(),
             join(bed.paleosol_features.iter().map(|s| s.name().to_string()).collect()),
             bed.carbonate_stage.map(|s| s.to_string()).unwrap_or_default(),
-            shorthand::paleocurrents_code(&bed.paleocurrents),
+            join(shorthand::paleocurrents_code(&bed.paleocurrents).split(' ').map(str::to_string).collect()),
             bed.base_surface.as_ref().map(|s| escape_formula(&s.name)).unwrap_or_default(),
             bed.base_surface.as_ref().map(|s| s.kind.name().to_string()).unwrap_or_default(),
             escape_formula(&bed.colour),
             escape_formula(&bed.fossils),
-            join(bed.samples.iter().map(|s| escape_formula(&s.id)).collect()),
+            record_cells::samples_code(&bed.samples, unit),
             escape_formula(&bed.notes),
         ];
         let rank = bed.base_rank.map(|r| r.name().to_string()).unwrap_or_default();
         let rank = ranks.then_some(rank);
-        out.push_str(&cells.iter().chain(rank.as_ref()).map(|c| quote(c)).collect::<Vec<_>>().join(","));
+        let record_cells: Vec<String> = record.iter().map(|c| record_cell(bed, c, unit)).collect();
+        out.push_str(
+            &cells
+                .iter()
+                .chain(rank.as_ref())
+                .chain(&record_cells)
+                .map(|c| quote(c))
+                .collect::<Vec<_>>()
+                .join(","),
+        );
         out.push('\n');
     }
     out

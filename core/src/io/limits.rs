@@ -51,3 +51,32 @@ pub const MAX_BED_THICKNESS_M: f64 = 1_000.0;
 
 /// Largest panel position accepted, metres (|x| ≤ 10,000 km).
 pub const MAX_PANEL_POSITION_M: f64 = 1.0e7;
+
+/// Most items in each list of one bed's field record: samples, photographs, paleocurrent
+/// readings, trace-fossil and body-fossil names. A bed logged in great detail carries a few
+/// dozen; a thousand is far beyond any notebook and keeps a hostile file's lists bounded per bed
+/// (the JSON pre-scan alone would allow [`MAX_ARRAY_ITEMS`] on every bed).
+pub const MAX_RECORD_ITEMS_PER_BED: usize = 1_000;
+
+/// Most GPS fixes on one section (base, top and one at the foot of each offset of a composite
+/// traverse: a handful in practice).
+pub const MAX_FIXES_PER_SECTION: usize = 1_000;
+
+/// Longest name in a list of the field record (a photo reference, a trace- or body-fossil name),
+/// in characters: such names are printed beside the column, so they must stay short. Sample ids
+/// keep the general [`MAX_STRING_CHARS`], as in version-1 files.
+pub const MAX_RECORD_NAME_CHARS: usize = 200;
+
+/// Largest slope distance accepted for one bed, metres: the distance along the ground across a
+/// bed exceeds its thickness where slope and dip are nearly parallel, but 10 km across one bed
+/// is a typing or unit mistake.
+pub const MAX_SLOPE_DISTANCE_M: f64 = 10_000.0;
+
+/// Widest channel body accepted, metres. Channel belts of the largest rivers reach tens of
+/// kilometres (Gibling 2006, J. Sed. Research 76, 731–770); 100 km seen across one outcrop is a
+/// typing or unit mistake.
+pub const MAX_BODY_WIDTH_M: f64 = 100_000.0;
+
+/// Range of GPS elevations accepted, metres above sea level: below the deepest ocean trench
+/// (about −10,900 m) or above the highest summit (8,849 m) is a typing or unit mistake.
+pub const ELEVATION_RANGE_M: (f64, f64) = (-11_000.0, 9_000.0);

@@ -10,6 +10,9 @@ use super::problem::Problem;
 use crate::model::{GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
 use std::collections::HashMap;
 
+mod record;
+pub use record::missing_photo_files;
+
 /// Every problem in one section. Locations are relative to the section (`beds[3].thickness_m`).
 pub fn validate_section(section: &Section) -> Vec<Problem> {
     let mut out = Vec::new();
@@ -143,10 +146,9 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         for (field, text) in [("colour", &bed.colour), ("fossils", &bed.fossils), ("notes", &bed.notes)] {
             check_text(&mut out, &at(field), text);
         }
-        for (k, s) in bed.samples.iter().enumerate() {
-            check_text(&mut out, &format!("beds[{i}].samples[{k}].id"), &s.id);
-        }
+        record::bed_record(&mut out, i, bed);
     }
+    record::section_record(&mut out, section);
     let mut decided: HashMap<u64, usize> = HashMap::new();
     for (k, d) in section.review.iter().enumerate() {
         if section.bed_index(d.bed).is_none() {
