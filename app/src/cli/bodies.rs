@@ -1,6 +1,7 @@
 //! `aggrade bodies`: the channel-body table and proportion curve of a project as CSV, for
 //! reservoir modellers, with a thickness summary (and decompacted proportions on request).
 
+use super::long_lists;
 use aggrade_core::analysis::bodies::{
     body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
     write_proportion_curve_csv,
@@ -122,7 +123,15 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
                 b.covered_as_fines, b.covered_as_channel
             )?;
         }
-        for iv in &i.interval_proportions {
+        let n = i.interval_proportions.len();
+        for (k, iv) in i.interval_proportions.iter().enumerate() {
+            // A long section's intervals by their ends; every one goes to --interval-csv.
+            if let Some(gap) = long_lists::gap_line(k, n, "intervals", "--interval-csv FILE") {
+                writeln!(out, "{gap}")?;
+            }
+            if !long_lists::shown(k, n) {
+                continue;
+            }
             let p = iv.proportion.map(|p| format!("{p:.3}")).unwrap_or_else(|| "n/a".into());
             writeln!(out, "  {:.2}–{:.2} m: {p}", iv.base_m, iv.top_m)?;
         }

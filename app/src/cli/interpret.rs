@@ -1,6 +1,7 @@
 //! `aggrade interpret`: run the interpretation rules on one section and print a readable report
 //! or one JSON object.
 
+use super::long_lists;
 use aggrade_core::analysis::bodies::censor_name;
 use aggrade_core::model::{LengthUnit, Project, Section};
 use aggrade_core::rules::facies::facies_of;
@@ -9,7 +10,6 @@ use aggrade_core::rules::{
 };
 use anyhow::{bail, Context};
 use serde::Serialize;
-use super::long_lists;
 use std::fmt::Write as _;
 use std::io::Write as _;
 use std::path::{Path, PathBuf};
@@ -321,7 +321,9 @@ pub fn report(section: &Section, r: &Interpretation, params: &RuleParams, runs: 
         );
     }
     for (k, c) in r.sequence_boundary_candidates.iter().enumerate() {
-        if let Some(gap) = long_lists::gap_line(k, r.sequence_boundary_candidates.len(), "candidates", "--json") {
+        if let Some(gap) =
+            long_lists::gap_line(k, r.sequence_boundary_candidates.len(), "candidates", "--json")
+        {
             let _ = writeln!(s, "{gap}");
         }
         if !long_lists::shown(k, r.sequence_boundary_candidates.len()) {

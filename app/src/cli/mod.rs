@@ -8,6 +8,7 @@ pub mod export;
 pub mod import;
 pub mod interpret;
 pub mod link;
+pub mod long_lists;
 pub mod panel;
 pub mod rules_args;
 pub mod stats;
