@@ -343,3 +343,26 @@ fn project_file_problems_name_line_and_field() {
     }
     assert_eq!(got.len(), want.len(), "{got:?}");
 }
+
+#[test]
+fn the_field_record_example_in_the_notation_document_reads() {
+    // docs/notation.md shows the field-record columns in a second CSV block: it must read, with
+    // each documented value where the document says.
+    let doc = include_str!("../../docs/notation.md");
+    let csv = doc
+        .split("```csv\n")
+        .nth(2)
+        .and_then(|rest| rest.split("```").next())
+        .expect("a second csv block in docs/notation.md");
+    let s = read_bed_table(csv, "example").expect("the documented CSV reads").section;
+    assert_eq!(s.beds.len(), 4);
+    assert_eq!(s.beds[0].drainage, Some(Drainage::WellDrained));
+    assert_eq!(s.beds[1].facies, Some(FaciesCode::Gh));
+    assert_eq!(s.beds[1].paleocurrents[0].indicator, Indicator::Imbrication);
+    assert_eq!(s.beds[1].photos[0].file.as_deref(), Some("photos/IMG_2051.jpg"));
+    assert_eq!(s.beds[2].samples.len(), 2);
+    assert_eq!(s.beds[2].slope_distance_m, Some(3.1));
+    assert_eq!(s.beds[3].soil_horizon.as_ref().map(|h| h.as_str()), Some("Bg"));
+    // Written again, it reads back to the same beds.
+    assert_eq!(read_bed_table(&write_bed_table(&s), "example").expect("reads back").section.beds, s.beds);
+}

@@ -23,13 +23,20 @@
 //! - `paleosol` (none when empty, weak, moderate, strong, very strong, or `w`, `m`, `s`, `vs`,
 //!   optionally followed by feature codes and a stage: `s cn rt III`); `carbonate_stage` (1–6 or
 //!   I–VI);
-//! - `paleocurrents`: azimuths in degrees (0–360) separated by `;`, commas or spaces;
+//! - `paleocurrents`: readings separated by `;`, commas or spaces, each an azimuth in degrees
+//!   (0–360) with an optional indicator code and dip (`210t 185p/22 40a/12`);
 //! - `surface`: name of a surface at the bed's base, optionally with its kind in brackets
 //!   (`T2 (pt)`); `surface_kind` (optional): its kind; else inferred by [`infer_surface_kind`];
 //! - `colour` (or `color`), `fossils`, `notes`: free text;
 //! - `base_rank` (optional): the geologist's rank for the bed's base — `storey surface`, `body
 //!   base` or `within storey`, or `ss`, `bb`, `ws` — overriding the rules' reading; empty leaves
 //!   it to the rules. Written only when some bed has one, so other tables are written as before.
+//! - the field record ([`RECORD_COLUMNS`], read by [`record_cells`]), each optional and written
+//!   only when some bed has a value for it: `facies`, `munsell`, `bioturbation_index`,
+//!   `trace_fossils`, `body_fossils`, `lag_composition`, `soil_horizon`, `drainage`, `photos`,
+//!   `slope_distance` (in the thickness column's unit; the thickness stays required, since a bed
+//!   table holds no traverse or bedding to work it out from). The `samples` cell takes each
+//!   sample's kind and height in brackets (`SC-1 (dz @0.4); SC-2`).
 //!
 //! There is no header block: the section takes its name from the caller (the file stem) and its
 //! display unit from the thickness column (ft for `thickness_ft`, cm for `thickness_cm`).
