@@ -2,13 +2,14 @@
 //! interval between sequence boundaries: accepted ones, or where none is accepted yet, the strong
 //! candidates of the rules run with the project's parameters (`--params` overrides).
 
+use aggrade_core::analysis::attitude::{check_bedding, check_reading};
 use aggrade_core::analysis::markov::{
     analyse_sequence, facies_sequence, facies_state_set, lithology_sequence, TransitionAnalysis,
     TransitionParams,
 };
 use aggrade_core::analysis::paleocurrents::{
-    circular_summary, per_bed, readings_in_interval, rose_bins, section_readings, CircularParams,
-    CircularSummary, DataKind, RoseParams,
+    circular_summary, flow_readings_in_interval, grouped, per_bed, rose_bins, CircularParams,
+    CircularSummary, DataKind, GroupedPaleocurrents, ReadingGroup, RoseParams,
 };
 use aggrade_core::model::{LengthUnit, LithologyFamily, Section};
 use serde_json::{json, Value};
@@ -102,7 +103,7 @@ fn stretch(
     states: StateKind,
 ) -> Stretch {
     let bases = section.base_heights_m();
-    let readings = readings_in_interval(section, base_m, top_m);
+    let readings = flow_readings_in_interval(section, base_m, top_m, params.kind);
     let seq: Vec<Option<&'static str>> = state_sequence(section, states)
         .into_iter()
         .zip(&bases)
@@ -175,6 +176,140 @@ fn paleocurrents_json(s: &Stretch, args: &StatsArgs, kind: DataKind) -> Value {
         }
         Err(_) => Value::Null,
     }
+}
+
+/// A circular summary as JSON with the keys of "paleocurrents" (degrees), `null` when there is
+/// none (fewer than two readings).
+fn summary_json(s: &Option<CircularSummary>) -> Value {
+    match s {
+        Some(p) => json!({
+            "kind": p.kind,
+            "n": p.n,
+            "mean_azimuth": p.mean_azimuth_deg,
+            "mean_resultant_length": p.mean_resultant_length,
+            "circular_std": finite_or_null(p.circular_std_deg),
+            "rayleigh_z": p.rayleigh_z,
+            "rayleigh_p": p.rayleigh_p,
+        }),
+        None => Value::Null,
+    }
+}
+
+/// One group of paleocurrent readings: counts per indicator, one-way flow, two-way axes and
+/// accretion surfaces, each summarised on its own.
+fn group_json(g: &ReadingGroup) -> Value {
+    let indicators: serde_json::Map<String, Value> =
+        g.indicators.iter().map(|c| (c.indicator.to_string(), json!(c.n))).collect();
+    json!({
+        "base": g.base_m,
+        "top": g.top_m,
+        "indicators": indicators,
+        "flow": { "n": g.flow_deg.len(), "azimuths": g.flow_deg, "summary": summary_json(&g.flow) },
+        "axes": { "n": g.axes_deg.len(), "azimuths": g.axes_deg, "summary": summary_json(&g.axes) },
+        "accretion_surfaces": {
+            "n": g.accretion_deg.len(),
+            "dip_directions": g.accretion_deg,
+            "summary": summary_json(&g.accretion),
+            "mean_dip": g.accretion_mean_dip_deg,
+        },
+    })
+}
+
+/// The paleocurrent groups of a section: whether and how the readings were restored to
+/// horizontal, the whole section, each channel body of the rules and each interval.
+fn groups_json(section: &Section, g: &Result<GroupedPaleocurrents, String>) -> Value {
+    let g = match g {
+        Ok(g) => g,
+        Err(e) => return json!({ "error": e }),
+    };
+    let bed_id = |i: usize| section.beds.get(i).map(|b| b.id.0);
+    json!({
+        "tilt_corrected": g.restored_with.is_some(),
+        "bedding": g.restored_with.map(|b| json!({ "dip": b.dip_deg, "dip_direction": b.dip_direction_deg })),
+        "restoration": g.restored_with.map(|_| "rotation about the strike of bedding by its dip (docs/paleocurrents.md)"),
+        "pooling": "one-way flow readings, two-way axes (parting lineation, groove casts) and accretion-surface dips are summarised apart; imbrication is turned downstream (azimuth + 180)",
+        "section": group_json(&g.section),
+        "bodies": g.bodies.iter().map(|b| {
+            let mut v = group_json(&b.group);
+            v["body_index"] = json!(b.body);
+            v["first_bed_id"] = json!(bed_id(b.first_bed));
+            v["last_bed_id"] = json!(bed_id(b.last_bed));
+            v
+        }).collect::<Vec<_>>(),
+        "intervals": g.intervals.iter().map(group_json).collect::<Vec<_>>(),
+    })
+}
+
+/// A group in one line: flow, axes and accretion surfaces with the readings per indicator.
+fn group_brief(g: &ReadingGroup) -> String {
+    let mut parts = Vec::new();
+    parts.push(match &g.flow {
+        Some(f) => format!(
+            "flow n = {}, mean {}, R̄ {:.3}, Rayleigh p {}",
+            f.n,
+            f.mean_azimuth_deg.map(|m| format!("{m:.1}°")).unwrap_or_else(|| "none".into()),
+            f.mean_resultant_length,
+            fmt_p(f.rayleigh_p)
+        ),
+        None => format!("flow n = {}", g.flow_deg.len()),
+    });
+    if !g.axes_deg.is_empty() {
+        let mean = g.axes.as_ref().and_then(|a| a.mean_azimuth_deg);
+        parts.push(match mean {
+            Some(m) => format!("two-way axes n = {}, mean axis {m:.1}°–{:.1}°", g.axes_deg.len(), m + 180.0),
+            None => format!("two-way axes n = {}", g.axes_deg.len()),
+        });
+    }
+    if !g.accretion_deg.is_empty() {
+        let mut a = format!("accretion surfaces n = {} (kept apart from flow)", g.accretion_deg.len());
+        if let Some(m) = g.accretion.as_ref().and_then(|s| s.mean_azimuth_deg) {
+            a.push_str(&format!(", mean dip direction {m:.1}°"));
+        }
+        if let Some(d) = g.accretion_mean_dip_deg {
+            a.push_str(&format!(", mean dip {d:.1}°"));
+        }
+        parts.push(a);
+    }
+    let counts: Vec<String> = g
+        .indicators
+        .iter()
+        .map(|c| match c.indicator {
+            "unspecified" => format!("{} with no indicator recorded", c.n),
+            name => format!("{} {name}", c.n),
+        })
+        .collect();
+    if !counts.is_empty() {
+        parts.push(format!("readings: {}", counts.join(", ")));
+    }
+    parts.join("; ")
+}
+
+/// The paleocurrent groups of a section as text.
+fn print_groups(out: &mut String, g: &GroupedPaleocurrents, unit: LengthUnit) -> std::fmt::Result {
+    match g.restored_with {
+        Some(b) => writeln!(
+            out,
+            "  Paleocurrents restored to horizontal for bedding dipping {:.0}° toward {:03.0}° (rotation about strike)",
+            b.dip_deg, b.dip_direction_deg
+        )?,
+        None => writeln!(out, "  Paleocurrents as measured: no bedding attitude, so not restored to horizontal")?,
+    }
+    writeln!(out, "  Paleocurrent groups: whole section: {}", group_brief(&g.section))?;
+    if !g.bodies.is_empty() {
+        writeln!(out, "  Paleocurrents per channel body (bodies from the rules)")?;
+    }
+    for b in &g.bodies {
+        writeln!(
+            out,
+            "    body {} ({:.2}–{:.2} {}): {}",
+            b.body + 1,
+            unit.from_metres(b.group.base_m),
+            unit.from_metres(b.group.top_m),
+            unit.name(),
+            group_brief(&b.group)
+        )?;
+    }
+    Ok(())
 }
 
 /// A p-value as "= 0.0123" or "< 0.0001".
@@ -369,6 +504,25 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
             }
         }
     }
+    // Dips and the bedding attitude too: the readings are restored to horizontal with them.
+    for s in &sections {
+        if let Some(b) = &s.bedding {
+            if let Err(e) = check_bedding(b) {
+                anyhow::bail!("{}: section {:?}, field bedding: {e}", args.file.display(), s.name);
+            }
+        }
+        for (i, b) in s.beds.iter().enumerate() {
+            if let Some(e) = b.paleocurrents.iter().find_map(|p| check_reading(p).err()) {
+                anyhow::bail!(
+                    "{}: section {:?}, bed {} (id {}), field paleocurrents: {e}",
+                    args.file.display(),
+                    s.name,
+                    i + 1,
+                    b.id.0
+                );
+            }
+        }
+    }
     if !(args.bin_width > 0.0 && (360.0 / args.bin_width - (360.0 / args.bin_width).round()).abs() < 1e-9) {
         anyhow::bail!(
             "--bin-width {}: the bin width must divide 360 degrees into whole bins (e.g. 10, 15, 30, 45)",
@@ -383,6 +537,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
         let interp = aggrade_core::rules::interpret(s, &rules);
         let unit = height_unit(s);
         let bounds = bounds_from_cuts(s.total_thickness_m(), &interp.cut_heights);
+        let groups = grouped(s, &interp, &bounds, &params).map_err(|e| e.to_string());
         let intervals: Vec<Stretch> = if bounds.len() > 2 {
             bounds
                 .windows(2)
@@ -401,6 +556,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
         if args.json {
             let mut v = section_json(s, &whole, &intervals, args, kind);
             v["top"] = json!(s.total_thickness_m());
+            v["paleocurrent_groups"] = groups_json(s, &groups);
             v["intervals_between"] =
                 json!(if interp.cuts_are_accepted { "accepted boundaries" } else { "strong candidates" });
             values.push(v);
@@ -411,7 +567,11 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 s.name,
                 unit.length(s.total_thickness_m()),
                 counted(s.beds.len(), "bed", "beds"),
-                counted(section_readings(s).len(), "paleocurrent reading", "paleocurrent readings")
+                counted(
+                    s.beds.iter().map(|b| b.paleocurrents.len()).sum(),
+                    "paleocurrent reading",
+                    "paleocurrent readings"
+                )
             )?;
             if args.states == StateKind::Facies {
                 let f = facies_state_set(s);
@@ -424,6 +584,10 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 )?;
             }
             print_stretch(&mut out, &whole)?;
+            match &groups {
+                Ok(g) => print_groups(&mut out, g, unit)?,
+                Err(e) => writeln!(out, "  Paleocurrent groups: {e}")?,
+            }
             let beds = per_bed(s, &params).unwrap_or_default();
             if !beds.is_empty() {
                 writeln!(out, "  Paleocurrents per bed (beds with two or more readings)")?;
@@ -441,7 +605,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                     fmt_p(b.summary.rayleigh_p)
                 )?;
             }
-            for st in &intervals {
+            for (k, st) in intervals.iter().enumerate() {
                 writeln!(
                     out,
                     "Interval {:.2}–{:.2} {} ({})",
@@ -451,6 +615,9 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                     cuts_text(interp.cuts_are_accepted)
                 )?;
                 print_stretch(&mut out, st)?;
+                if let Some(g) = groups.as_ref().ok().and_then(|g| g.intervals.get(k)) {
+                    writeln!(out, "  Paleocurrent groups: {}", group_brief(g))?;
+                }
             }
             writeln!(out)?;
         }

@@ -390,3 +390,166 @@ fn the_feet_sample_section_reports_in_feet() {
         "{text}"
     );
 }
+
+/// A tilted section (bedding 30° toward 090) whose channel sandstone carries one reading of
+/// each kind: two trough axes, a planar foreset, imbricated clasts, a parting lineation and an
+/// accretion surface.
+const TILTED: &str = r#"{
+ "format_version": 2,
+ "sections": [
+  {
+   "name": "Tilted",
+   "bedding": { "dip_deg": 30.0, "dip_direction_deg": 90.0 },
+   "beds": [
+    { "id": 1, "thickness_m": 3.0, "lithology": "mudstone", "base_contact": "sharp",
+      "grain_base": "clay", "grain_top": "clay" },
+    { "id": 2, "thickness_m": 4.0, "lithology": "sandstone", "base_contact": "erosional",
+      "grain_base": "medium sand", "grain_top": "medium sand",
+      "paleocurrents": [
+       { "azimuth_deg": 45.0, "indicator": "trough_axis" },
+       { "azimuth_deg": 45.0, "indicator": "trough_axis" },
+       { "azimuth_deg": 100.0, "indicator": "planar_foreset", "dip_deg": 25.0 },
+       { "azimuth_deg": 30.0, "indicator": "imbrication", "dip_deg": 20.0 },
+       { "azimuth_deg": 20.0, "indicator": "parting_lineation" },
+       { "azimuth_deg": 300.0, "indicator": "accretion_surface", "dip_deg": 10.0 }
+      ] },
+    { "id": 3, "thickness_m": 3.0, "lithology": "mudstone", "base_contact": "sharp",
+      "grain_base": "clay", "grain_top": "clay" }
+   ]
+  }
+ ]
+}"#;
+
+/// Independent restoration in numpy: the rotation matrix maps the bedding's strike, dip line
+/// and pole onto strike, horizontal and vertical (a change of basis, not the axis-angle form the
+/// app uses); lines in bedding are bedding ∩ the vertical plane of their trend.
+const TILT_ORACLE: &str = r#"
+import json, sys
+import numpy as np
+sec = json.load(open(sys.argv[1]))["sections"][0]
+dip, dd = sec["bedding"]["dip_deg"], sec["bedding"]["dip_direction_deg"]
+def line(t, p):
+    t, p = np.radians(t), np.radians(p)
+    return np.array([np.sin(t)*np.cos(p), np.cos(t)*np.cos(p), -np.sin(p)])
+def az(v): return float(np.degrees(np.arctan2(v[0], v[1])) % 360.0)
+S, D = line(dd - 90, 0), line(dd, dip)
+N = np.cross(D, S)
+R = np.column_stack([S, line(dd, 0), [0, 0, 1]]) @ np.column_stack([S, D, N]).T
+out = {"flow": [], "axes": [], "accretion": [], "accretion_dip": []}
+for p in sec["beds"][1]["paleocurrents"]:
+    kind, a = p["indicator"], p["azimuth_deg"]
+    if "dip_deg" in p:
+        pole = R @ line(a + 180, 90 - p["dip_deg"])
+        if pole[2] < 0: pole = -pole
+        restored = az(pole)
+        rdip = float(np.degrees(np.arccos(pole[2])))
+    else:
+        t = np.radians(a); m = np.array([np.cos(t), -np.sin(t), 0.0])
+        L = np.cross(N, m); L /= np.linalg.norm(L)
+        if L[0]*np.sin(t) + L[1]*np.cos(t) < 0: L = -L
+        restored = az(R @ L)
+    if kind == "imbrication": out["flow"].append((restored + 180) % 360)
+    elif kind == "parting_lineation": out["axes"].append(restored)
+    elif kind == "accretion_surface":
+        out["accretion"].append(restored); out["accretion_dip"].append(rdip)
+    else: out["flow"].append(restored)
+r = np.radians(out["flow"])
+out["flow_mean"] = float(np.degrees(np.arctan2(np.sin(r).sum(), np.cos(r).sum())) % 360)
+print(json.dumps(out))
+"#;
+
+#[test]
+fn stats_restores_tilted_paleocurrents_and_keeps_accretion_apart() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let file = dir.path().join("tilted.aggrade");
+    std::fs::write(&file, TILTED).expect("write");
+    let path = file.to_str().expect("utf-8");
+    let out =
+        Command::new("python3").arg("-c").arg(TILT_ORACLE).arg(path).output().expect("python3 is required");
+    assert!(out.status.success(), "numpy oracle failed: {}", String::from_utf8_lossy(&out.stderr));
+    let o: serde_json::Value = serde_json::from_slice(&out.stdout).expect("oracle JSON");
+    let v = stdout_json(&aggrade(&["stats", path, "--json"]));
+    let g = &v["paleocurrent_groups"];
+    assert_eq!(g["tilt_corrected"], true, "{g}");
+    assert_eq!(g["bedding"]["dip"], 30.0);
+    assert_eq!(g["bedding"]["dip_direction"], 90.0);
+    let nums = |x: &serde_json::Value| -> Vec<f64> {
+        x.as_array()
+            .unwrap_or_else(|| panic!("array: {x}"))
+            .iter()
+            .map(|a| a.as_f64().expect("number"))
+            .collect()
+    };
+    let close = |a: &[f64], b: &[f64]| {
+        a.len() == b.len()
+            && a.iter().zip(b).all(|(x, y)| {
+                let d = (x - y).rem_euclid(360.0);
+                d.min(360.0 - d) < 1e-7
+            })
+    };
+    // One channel body: the sandstone (the rules read the erosional sandstone as a channel).
+    let bodies = g["bodies"].as_array().expect("bodies");
+    assert_eq!(bodies.len(), 1, "{g}");
+    let body = &bodies[0];
+    assert_eq!((body["first_bed_id"].as_u64(), body["last_bed_id"].as_u64()), (Some(2), Some(2)));
+    assert!(close(&nums(&body["flow"]["azimuths"]), &nums(&o["flow"])), "{body} vs {o}");
+    assert!(close(&nums(&body["axes"]["azimuths"]), &nums(&o["axes"])), "{body} vs {o}");
+    assert!(
+        close(&nums(&body["accretion_surfaces"]["dip_directions"]), &nums(&o["accretion"])),
+        "{body} vs {o}"
+    );
+    let mean_dip = body["accretion_surfaces"]["mean_dip"].as_f64().expect("mean dip");
+    assert!((mean_dip - nums(&o["accretion_dip"])[0]).abs() < 1e-7);
+    // Trough axis trending 045 in beds dipping 30° toward 090: the rake relation
+    // tan(rake) = tan(045 − strike)/cos 30° gives 049.107 (Ragan, rake and pitch).
+    assert!((nums(&body["flow"]["azimuths"])[0] - 49.1066).abs() < 1e-3, "{body}");
+    // The main summary pools the four one-way flow readings only: no lineation, no accretion.
+    assert_eq!(v["paleocurrents"]["n"], 4, "{}", v["paleocurrents"]);
+    let mean = v["paleocurrents"]["mean_azimuth"].as_f64().expect("mean");
+    assert!(close(&[mean], &[o["flow_mean"].as_f64().expect("oracle mean")]), "{mean} vs {o}");
+    assert_eq!(g["section"]["indicators"]["trough axis"], 2);
+    assert_eq!(g["section"]["indicators"]["accretion surface"], 1);
+    assert_eq!(g["section"]["flow"]["n"], 4);
+    assert_eq!(g["section"]["axes"]["n"], 1);
+
+    let out = aggrade(&["stats", path]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8_lossy(&out.stdout).to_string();
+    assert!(text.contains("restored to horizontal for bedding dipping 30° toward 090°"), "{text}");
+    assert!(text.contains("body 1 (3.00–7.00 m): flow n = 4"), "{text}");
+    assert!(text.contains("accretion surfaces n = 1 (kept apart from flow)"), "{text}");
+    assert!(text.contains("2 trough axis, 1 planar foreset, 1 imbrication, 1 parting lineation"), "{text}");
+
+    // Without bedding: said so, and the readings are taken as measured.
+    let flat = dir.path().join("flat.aggrade");
+    std::fs::write(
+        &flat,
+        TILTED.replace(r#""bedding": { "dip_deg": 30.0, "dip_direction_deg": 90.0 },"#, ""),
+    )
+    .expect("write");
+    let v = stdout_json(&aggrade(&["stats", flat.to_str().expect("utf-8"), "--json"]));
+    assert_eq!(v["paleocurrent_groups"]["tilt_corrected"], false);
+    assert_eq!(v["paleocurrent_groups"]["bedding"], serde_json::Value::Null);
+    let flow = nums(&v["paleocurrent_groups"]["section"]["flow"]["azimuths"]);
+    assert_eq!(flow, vec![45.0, 45.0, 100.0, 210.0]); // imbrication 030 → flow 210
+    let text =
+        String::from_utf8_lossy(&aggrade(&["stats", flat.to_str().expect("utf-8")]).stdout).to_string();
+    assert!(text.contains("no bedding attitude, so not restored to horizontal"), "{text}");
+}
+
+#[test]
+fn stats_names_a_bad_bedding_attitude_or_dip() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let bad = dir.path().join("bad_bedding.aggrade");
+    std::fs::write(&bad, TILTED.replace(r#""dip_deg": 30.0"#, r#""dip_deg": 130.0"#)).expect("write");
+    let out = aggrade(&["stats", bad.to_str().expect("utf-8")]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad_bedding.aggrade") && err.contains("bedding") && err.contains("130"), "{err}");
+    let bad = dir.path().join("bad_dip.aggrade");
+    std::fs::write(&bad, TILTED.replace(r#""dip_deg": 25.0"#, r#""dip_deg": 125.0"#)).expect("write");
+    let out = aggrade(&["stats", bad.to_str().expect("utf-8")]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad_dip.aggrade") && err.contains("paleocurrents") && err.contains("125"), "{err}");
+}
