@@ -39,8 +39,37 @@ pub struct ExportArgs {
     /// Also draw candidate boundaries the geologist rejected.
     #[arg(long)]
     pub show_rejected: bool,
+    /// Leave out the lithofacies track (each bed's code; a suggested one grey with "?").
+    #[arg(long)]
+    pub no_facies: bool,
+    /// Leave out the sample marks and their ids.
+    #[arg(long)]
+    pub no_sample_ids: bool,
+    /// Mark photographs with their references.
+    #[arg(long)]
+    pub photos: bool,
+    /// Add the bioturbation-index track (0-6, Taylor & Goldring 1993).
+    #[arg(long)]
+    pub bioturbation: bool,
+    /// Mark trace and body fossils with their names.
+    #[arg(long)]
+    pub fossils: bool,
     #[command(flatten)]
     pub rules: super::rules_args::RulesArgs,
+}
+
+impl ExportArgs {
+    /// Layout options with the field-record marks the flags ask for, the rest at their defaults.
+    fn record_options(&self) -> LayoutOptions {
+        LayoutOptions {
+            show_facies: !self.no_facies,
+            show_sample_ids: !self.no_sample_ids,
+            show_photos: self.photos,
+            show_bioturbation: self.bioturbation,
+            show_fossils: self.fossils,
+            ..Default::default()
+        }
+    }
 }
 
 /// Parse a scale "100" or "1:100" into N.
@@ -101,7 +130,7 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
             paper: paper_for(Paper::A4)?,
             orientation,
             show_rejected: args.show_rejected,
-            ..Default::default()
+            ..args.record_options()
         };
         // Pages are laid out and written a group at a time: memory stays the same for a
         // section of any length.
@@ -126,7 +155,7 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
             paper: paper_for(Paper::TallSingle)?,
             orientation,
             show_rejected: args.show_rejected,
-            ..Default::default()
+            ..args.record_options()
         };
         // One page laid out, written and dropped at a time; an SVG page is written as its
         // column is drawn, a few hundred beds at a time, so even one tall page stays small.

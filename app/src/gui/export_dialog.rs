@@ -95,6 +95,25 @@ pub fn scale_row(ui: &mut egui::Ui, o: &mut LayoutOptions) {
     });
 }
 
+/// Which marks of the field record print: each as a checkbox saying what it adds.
+pub fn record_row(ui: &mut egui::Ui, o: &mut LayoutOptions) {
+    ui.horizontal_wrapped(|ui| {
+        ui.label("Print");
+        ui.checkbox(&mut o.show_facies, "Lithofacies").on_hover_text(
+            "A track of each bed's lithofacies code: yours in black, a suggested one grey with \"?\" \
+             (a candidate for your review)",
+        );
+        ui.checkbox(&mut o.show_sample_ids, "Sample ids")
+            .on_hover_text("Samples marked at the height they were taken, with their ids beside the column");
+        ui.checkbox(&mut o.show_photos, "Photos")
+            .on_hover_text("Photographs marked at their beds, with their references");
+        ui.checkbox(&mut o.show_bioturbation, "Bioturbation index")
+            .on_hover_text("A narrow track of the bioturbation index, 0-6 (Taylor & Goldring 1993)");
+        ui.checkbox(&mut o.show_fossils, "Fossils")
+            .on_hover_text("Trace and body fossils marked at their beds, with their names");
+    });
+}
+
 /// The line above the preview (the scale is in the row above, not repeated here).
 pub fn pages_line(pages: usize) -> String {
     format!("{pages} page{} · preview of page 1", if pages == 1 { "" } else { "s" })
@@ -136,6 +155,7 @@ impl ExportDialog {
                 });
                 ui.checkbox(&mut o.show_rejected, "Show rejected boundaries")
                     .on_hover_text("Print the boundaries you rejected, greyed");
+                record_row(ui, o);
                 let stale =
                     self.preview.as_ref().is_none_or(|p| p.options != self.options || p.revision != revision);
                 if stale {
@@ -230,5 +250,24 @@ mod tests {
         assert_eq!(showing(&h, "250"), 0);
         assert_eq!(pages_line(1), "1 page · preview of page 1");
         assert_eq!(pages_line(3), "3 pages · preview of page 1");
+    }
+
+    #[test]
+    fn the_record_marks_to_print_are_chosen_by_checkbox() {
+        let mut h = egui_kittest::Harness::new_ui_state(
+            |ui, o: &mut LayoutOptions| record_row(ui, o),
+            LayoutOptions::default(),
+        );
+        h.run();
+        // Facies and sample ids print unless turned off; photos, bioturbation, fossils on request.
+        assert!(h.state().show_facies && h.state().show_sample_ids);
+        h.get_by_label("Sample ids").click();
+        h.get_by_label("Photos").click();
+        h.get_by_label("Bioturbation index").click();
+        h.run();
+        let o = h.state();
+        assert!(
+            !o.show_sample_ids && o.show_photos && o.show_bioturbation && o.show_facies && !o.show_fossils
+        );
     }
 }

@@ -1,7 +1,8 @@
 //! The legend: only the patterns, lines and symbols a printout actually uses.
 
 use super::column::{
-    boundary_style, draw_contact, paleosol_bar_mm, stacking_code, stacking_words, surface_name, ColumnCtx,
+    boundary_style, draw_contact, facies_colour, paleosol_bar_mm, shown_facies, stacking_code,
+    stacking_words, surface_name, ColumnCtx, Glyph, ICHNO_MM_PER_GRADE, ICHNO_OLIVE,
 };
 use super::items::{Item, PtMm, RectMm};
 use super::options::LayoutOptions;
@@ -22,6 +23,16 @@ pub enum LegendEntry {
     PaleocurrentArrow,
     PaleocurrentRose,
     Paleosol(PaleosolDevelopment),
+    /// The bioturbation-index bar.
+    Bioturbation,
+    /// A lithofacies code the geologist gave.
+    FaciesGiven,
+    /// A suggested lithofacies code (grey, "?"): a candidate for the geologist's review.
+    FaciesSuggested,
+    Sample,
+    Photo,
+    TraceFossil,
+    BodyFossil,
     Storey,
     Body(Stacking),
     /// A channel body with an end not seen (open bracket end, "≥" thickness).
@@ -51,6 +62,13 @@ impl LegendEntry {
             LegendEntry::PaleocurrentArrow => (3, 0),
             LegendEntry::PaleocurrentRose => (3, 1),
             LegendEntry::Paleosol(d) => (4, d as usize),
+            LegendEntry::Bioturbation => (4, 10),
+            LegendEntry::FaciesGiven => (4, 11),
+            LegendEntry::FaciesSuggested => (4, 12),
+            LegendEntry::Sample => (4, 13),
+            LegendEntry::Photo => (4, 14),
+            LegendEntry::TraceFossil => (4, 15),
+            LegendEntry::BodyFossil => (4, 16),
             LegendEntry::Storey => (5, 0),
             LegendEntry::Body(b) => (6, b as usize),
             LegendEntry::CensoredBody => (6, 9),
@@ -73,6 +91,13 @@ impl LegendEntry {
             LegendEntry::PaleocurrentArrow => "paleocurrent (north up)".into(),
             LegendEntry::PaleocurrentRose => "paleocurrent rose, 30\u{b0} sectors".into(),
             LegendEntry::Paleosol(d) => format!("paleosol, {}", d.name()),
+            LegendEntry::Bioturbation => "bioturbation index 0\u{2013}6 (bar)".into(),
+            LegendEntry::FaciesGiven => "lithofacies code you gave".into(),
+            LegendEntry::FaciesSuggested => "suggested code: for your review".into(),
+            LegendEntry::Sample => "sample, with its id".into(),
+            LegendEntry::Photo => "photograph, with its reference".into(),
+            LegendEntry::TraceFossil => "trace fossils, named".into(),
+            LegendEntry::BodyFossil => "body fossils, named".into(),
             LegendEntry::Storey => "storey (one channel fill)".into(),
             LegendEntry::Body(st @ Stacking::MultiStory) => {
                 format!("{} channel body: {} \u{b7} n storeys", stacking_words(st), stacking_code(st))
@@ -118,6 +143,30 @@ pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
         }
         if bed.paleosol != PaleosolDevelopment::None && !ctx.in_profile.get(i).copied().unwrap_or(false) {
             v.push(LegendEntry::Paleosol(bed.paleosol));
+        }
+    }
+    let tr = ctx.tracks;
+    let beds = || ctx.section.beds.iter().filter(|b| b.has_usable_thickness());
+    if tr.bioturbation.is_some() {
+        v.push(LegendEntry::Bioturbation);
+    }
+    if tr.facies.is_some() {
+        for f in beds().filter_map(shown_facies) {
+            v.push(if f.suggested { LegendEntry::FaciesSuggested } else { LegendEntry::FaciesGiven });
+        }
+    }
+    if tr.samples.is_some() {
+        v.push(LegendEntry::Sample);
+    }
+    if tr.photos.is_some() {
+        v.push(LegendEntry::Photo);
+    }
+    if tr.fossils.is_some() {
+        if beds().any(|b| b.trace_fossils.iter().any(|n| !n.trim().is_empty())) {
+            v.push(LegendEntry::TraceFossil);
+        }
+        if beds().any(|b| b.body_fossils.iter().any(|n| !n.trim().is_empty())) {
+            v.push(LegendEntry::BodyFossil);
         }
     }
     // Profiles are drawn at their maturity.
@@ -223,6 +272,25 @@ pub fn draw_swatch(e: LegendEntry, r: RectMm, out: &mut Vec<Item>) {
             fill: Some(PALEOSOL_BROWN),
             stroke: None,
         }),
+        LegendEntry::Bioturbation => out.push(Item::Rect {
+            rect: RectMm { x: r.x + 0.5, y: r.y, w: 3.0 * ICHNO_MM_PER_GRADE, h: r.h },
+            fill: Some(ICHNO_OLIVE),
+            stroke: None,
+        }),
+        LegendEntry::FaciesGiven | LegendEntry::FaciesSuggested => {
+            let suggested = e == LegendEntry::FaciesSuggested;
+            let code = if suggested { "St?" } else { "St" };
+            text(out, r.x + 0.5, mid.y + 0.9, code, SMALL_PT + 0.5, facies_colour(suggested));
+        }
+        LegendEntry::Sample | LegendEntry::Photo | LegendEntry::TraceFossil | LegendEntry::BodyFossil => {
+            let g = match e {
+                LegendEntry::Sample => Glyph::Sample,
+                LegendEntry::Photo => Glyph::Photo,
+                LegendEntry::TraceFossil => Glyph::Trace,
+                _ => Glyph::Body,
+            };
+            g.draw(r.x + 0.5, mid.y, out);
+        }
         LegendEntry::Storey | LegendEntry::Body(_) => {
             let (w, label) = match e {
                 LegendEntry::Body(st) => (LINE_MM * 1.4, Some(stacking_code(st))),
@@ -327,6 +395,8 @@ mod tests {
                 LegendEntry::Lithology(Lithology::Sandstone),
                 LegendEntry::Contact(Contact::Erosional),
                 LegendEntry::Structure(Structure::TroughCrossBedding),
+                // Neither bed's code was given: both show a suggested one (Fsm, St).
+                LegendEntry::FaciesSuggested,
             ]
         );
         // The demo section: every lithology it uses, and no other.

@@ -69,6 +69,17 @@ pub struct LayoutOptions {
     pub margin_mm: f64,
     /// Draw the interpretation tracks (storeys, bodies, proportion, regimes, boundaries).
     pub show_interpretation: bool,
+    /// A track of each bed's lithofacies code: the geologist's, else the suggested one (grey,
+    /// with "?"). On by default.
+    pub show_facies: bool,
+    /// Samples marked at their heights with their ids beside the column. On by default.
+    pub show_sample_ids: bool,
+    /// Photographs marked at their beds with their references. Off by default.
+    pub show_photos: bool,
+    /// A track of the bioturbation index (0–6, Taylor & Goldring 1993). Off by default.
+    pub show_bioturbation: bool,
+    /// Trace and body fossils marked at their beds with their names. Off by default.
+    pub show_fossils: bool,
 }
 
 impl Default for LayoutOptions {
@@ -80,6 +91,11 @@ impl Default for LayoutOptions {
             show_rejected: false,
             margin_mm: 12.0,
             show_interpretation: true,
+            show_facies: true,
+            show_sample_ids: true,
+            show_photos: false,
+            show_bioturbation: false,
+            show_fossils: false,
         }
     }
 }

@@ -1,7 +1,9 @@
 //! Printed pages: header, legend, column segments continued across (and side by side on) pages,
 //! page numbers and the review caution in the footer.
 
-use super::column::{BedBox, ColumnCtx, SCALE_BAND_MM, TITLE_BAND_MM};
+use super::column::{
+    setting_lines, BedBox, ColumnCtx, SCALE_BAND_MM, SETTING_LINE_MM, SETTING_PT, TITLE_BAND_MM,
+};
 use super::items::{Item, PtMm};
 use super::legend::{draw_legend, legend_entries, legend_height_mm, LegendEntry};
 use super::options::{LayoutOptions, PrintMeta};
@@ -138,7 +140,9 @@ pub fn page_stream<'a>(
     }
     let curves_note = curves_note(ctx.tracks.curves.count, section.curves.len());
     let strip_w = ctx.tracks.width_mm;
-    let header_h = HEADER_MM + if meta.subtitle.is_empty() { 0.0 } else { 3.0 };
+    let page_w = opts.page_size_mm().map(|(w, _)| w).unwrap_or((strip_w + 2.0 * margin).max(210.0));
+    let setting_h = setting_lines(section, page_w - 2.0 * margin).len() as f64 * SETTING_LINE_MM;
+    let header_h = HEADER_MM + if meta.subtitle.is_empty() { 0.0 } else { 3.0 } + setting_h;
     let mm_per_m = 1000.0 / opts.scale();
     let total_mm = ctx.total_m * mm_per_m;
 
@@ -461,10 +465,6 @@ fn segment_head(base_m: f64, top_m: f64, unit: LengthUnit) -> String {
     format!("{:.2}\u{2013}{:.2} {name}", u.from_metres(base_m), u.from_metres(top_m))
 }
 
-fn fmt_coord(v: f64, pos: char, neg: char) -> String {
-    format!("{:.5}\u{b0} {}", v.abs(), if v >= 0.0 { pos } else { neg })
-}
-
 fn draw_header(
     section: &Section,
     opts: &LayoutOptions,
@@ -484,9 +484,6 @@ fn draw_header(
     let mut facts: Vec<String> = Vec::new();
     if !section.locality.is_empty() {
         facts.push(section.locality.clone());
-    }
-    if let Some(c) = section.coordinates.filter(|c| c.lat_deg.is_finite() && c.lon_deg.is_finite()) {
-        facts.push(format!("{}, {}", fmt_coord(c.lat_deg, 'N', 'S'), fmt_coord(c.lon_deg, 'E', 'W')));
     }
     if let Some(d) = section.date_logged.as_ref().filter(|d| !d.is_empty()) {
         facts.push(format!("logged {d}"));
@@ -511,8 +508,15 @@ fn draw_header(
     } else {
         text(out, m, m + 10.0, &line, 4.5, INK);
     }
+    let mut y_line = m + 13.0;
     if !meta.subtitle.is_empty() {
-        text(out, m, m + 13.0, &meta.subtitle, SMALL_PT, GREY);
+        text(out, m, y_line, &meta.subtitle, SMALL_PT, GREY);
+        y_line += 3.0;
+    }
+    // How and where the section was measured (the base coordinates among the GPS fixes).
+    for line in setting_lines(section, right - m) {
+        text(out, m, y_line + 0.3, &line, SETTING_PT, INK);
+        y_line += SETTING_LINE_MM;
     }
     let y = m + header_h - 3.0;
     out.push(Item::Polyline {

@@ -52,6 +52,11 @@ impl ColumnCtx<'_> {
         rotated.push((tr.structures, title(TrackKind::Structures)));
         rotated.push((tr.paleocurrents, title(TrackKind::Paleocurrents)));
         rotated.push((tr.paleosols, title(TrackKind::Paleosols)));
+        for (track, kind) in [(tr.bioturbation, TrackKind::Bioturbation), (tr.facies, TrackKind::Facies)] {
+            if let Some(track) = track {
+                rotated.push((track, title(kind)));
+            }
+        }
         if let (Some(s), Some(b), Some(r)) = (tr.storeys, tr.bodies, tr.regime) {
             rotated.push((s, title(TrackKind::Storeys)));
             rotated.push((b, title(TrackKind::Bodies)));
@@ -65,6 +70,15 @@ impl ColumnCtx<'_> {
         }
         let lithology_lines = TrackKind::Lithology.title_lines();
         centred_lines(x0, tr.lithology, (y_bottom - 3.5, 3.0), lithology_lines, TEXT_PT, out);
+        for (track, kind) in [
+            (tr.samples, TrackKind::Samples),
+            (tr.photos, TrackKind::Photos),
+            (tr.fossils, TrackKind::Fossils),
+        ] {
+            if let Some(track) = track {
+                centred_lines(x0, track, (y_bottom - 0.8, 2.6), kind.title_lines(), TEXT_PT, out);
+            }
+        }
         if let Some(p) = tr.proportion {
             centred_lines(x0, p, (y_bottom - 3.2, 2.6), TrackKind::Proportion.title_lines(), SMALL_PT, out);
         }
@@ -146,8 +160,9 @@ fn centred_lines(
     out: &mut Vec<Item>,
 ) {
     for (k, label) in lines.iter().enumerate() {
-        let w = width(label, size_pt);
-        text(out, x0 + track.x_mm + (track.w_mm - w) / 2.0, y0 + k as f64 * pitch, label, size_pt, INK);
+        let size = fit_size(label, track.w_mm, size_pt, 3.5).unwrap_or(3.5);
+        let w = width(label, size);
+        text(out, x0 + track.x_mm + (track.w_mm - w) / 2.0, y0 + k as f64 * pitch, label, size, INK);
     }
 }
 

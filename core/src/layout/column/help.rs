@@ -15,6 +15,13 @@ pub enum TrackKind {
     Structures,
     Paleocurrents,
     Paleosols,
+    /// Bioturbation index (field record).
+    Bioturbation,
+    /// Lithofacies codes (field record).
+    Facies,
+    Samples,
+    Photos,
+    Fossils,
     Storeys,
     Bodies,
     Proportion,
@@ -33,6 +40,11 @@ impl TrackKind {
             TrackKind::Structures => &["structures"],
             TrackKind::Paleocurrents => &["paleocurrent"],
             TrackKind::Paleosols => &["paleosol"],
+            TrackKind::Bioturbation => &["bioturbation index"],
+            TrackKind::Facies => &["lithofacies"],
+            TrackKind::Samples => &["samples"],
+            TrackKind::Photos => &["photos"],
+            TrackKind::Fossils => &["fossils"],
             TrackKind::Storeys => &["storeys"],
             TrackKind::Bodies => &["channel bodies"],
             TrackKind::Proportion => &["channel-body", "proportion"],
@@ -64,6 +76,33 @@ impl TrackKind {
                 "Fossil soils: a brown bar as wide as the soil's development (weak to very strong). \
                  A profile of several horizons is one outlined bar with a tick at its top, as wide \
                  as its maturity."
+            }
+            TrackKind::Bioturbation => {
+                "Bioturbation index 0\u{2013}6 (Taylor & Goldring 1993): how much of the bed's \
+                 fabric burrowing has destroyed, from 0 (none) to 6 (complete). The bar is 0.6 mm \
+                 wide a grade, with the index beside it where the bed has room; a hairline is 0."
+            }
+            TrackKind::Facies => {
+                "Lithofacies code of each bed (Miall 1996). In black, the code you gave; in grey with \
+                 \"?\", the code suggested from the bed's rock, grain size and structures: a \
+                 candidate for your review until you confirm or change it. Beds too thin for a \
+                 code of their own share one label (\"Sr/Fl\"); a hairline marks where the code \
+                 changes."
+            }
+            TrackKind::Samples => {
+                "Samples (filled triangles) at the height they were taken, mid-bed when no height \
+                 was written, with their ids. Where ids would overlap, neighbours share one label: \
+                 all ids, else the first and last with the count (\"A \u{2026} B (5)\"), else the \
+                 first and how many more."
+            }
+            TrackKind::Photos => {
+                "Photographs (camera marks) of each bed, with their references (file names or \
+                 numbers); neighbours share a label where they would overlap."
+            }
+            TrackKind::Fossils => {
+                "Fossils named in each bed: a burrow for trace fossils, a shell for body fossils, \
+                 with their names (trace fossils first); neighbours share a label where they \
+                 would overlap."
             }
             TrackKind::Storeys => {
                 "Storeys: each thin bracket is one channel-filling episode, from an erosional base \
@@ -108,6 +147,14 @@ impl Tracks {
             (TrackKind::Paleocurrents, self.paleocurrents),
             (TrackKind::Paleosols, self.paleosols),
         ];
+        let record = [
+            (TrackKind::Bioturbation, self.bioturbation),
+            (TrackKind::Facies, self.facies),
+            (TrackKind::Samples, self.samples),
+            (TrackKind::Photos, self.photos),
+            (TrackKind::Fossils, self.fossils),
+        ];
+        v.extend(record.into_iter().filter_map(|(k, t)| t.map(|t| (k, t))));
         let interp = [
             (TrackKind::Storeys, self.storeys),
             (TrackKind::Bodies, self.bodies),
@@ -171,6 +218,11 @@ impl ColumnCtx<'_> {
                     | TrackKind::Structures
                     | TrackKind::Paleocurrents
                     | TrackKind::Paleosols
+                    | TrackKind::Bioturbation
+                    | TrackKind::Facies
+                    | TrackKind::Samples
+                    | TrackKind::Photos
+                    | TrackKind::Fossils
                     | TrackKind::Storeys
                     | TrackKind::Bodies
                     | TrackKind::Proportion
@@ -232,6 +284,42 @@ impl ColumnCtx<'_> {
                 let bed = &self.section.beds[i];
                 (bed.paleosol != PaleosolDevelopment::None)
                     .then(|| format!("Paleosol of {} development in bed {}.", bed.paleosol.name(), i + 1))
+            }
+            TrackKind::Bioturbation => {
+                let i = self.bed_at(h)?;
+                let bi = self.section.beds[i].bioturbation_index?;
+                Some(format!(
+                    "Bioturbation index {bi} in bed {} (Taylor & Goldring 1993: 0 none, 6 complete).",
+                    i + 1
+                ))
+            }
+            TrackKind::Facies => self.facies_help(self.bed_at(h)?),
+            TrackKind::Samples => self.samples_help(h, p.tolerance_m),
+            TrackKind::Photos => {
+                let i = self.bed_at(h)?;
+                let refs: Vec<&str> = self.section.beds[i]
+                    .photos
+                    .iter()
+                    .map(|p| p.reference.trim())
+                    .filter(|r| !r.is_empty())
+                    .collect();
+                (!refs.is_empty()).then(|| format!("Photographs of bed {}: {}.", i + 1, refs.join(", ")))
+            }
+            TrackKind::Fossils => {
+                let i = self.bed_at(h)?;
+                let bed = &self.section.beds[i];
+                let list = |v: &[String]| {
+                    v.iter().map(|n| n.trim()).filter(|n| !n.is_empty()).collect::<Vec<_>>().join(", ")
+                };
+                let mut parts = Vec::new();
+                for (what, names) in
+                    [("trace fossils", list(&bed.trace_fossils)), ("body fossils", list(&bed.body_fossils))]
+                {
+                    if !names.is_empty() {
+                        parts.push(format!("{what} {names}"));
+                    }
+                }
+                (!parts.is_empty()).then(|| format!("Fossils in bed {}: {}.", i + 1, parts.join("; ")))
             }
             TrackKind::Storeys => {
                 let (k, s) =
@@ -396,6 +484,49 @@ impl ColumnCtx<'_> {
         })
     }
 
+    /// A bed's lithofacies code, what it stands for and whether it is yours or suggested.
+    fn facies_help(&self, i: usize) -> Option<String> {
+        let f = shown_facies(&self.section.beds[i])?;
+        let whose = if f.suggested {
+            "suggested from its rock, grain size and structures (shown grey with \"?\"): a candidate \
+             for your review until you confirm or change it"
+        } else {
+            "given by you"
+        };
+        Some(format!("Bed {}: lithofacies {} ({}), {whose}.", i + 1, f.code.code(), f.code.meaning()))
+    }
+
+    /// The samples marked near height `h`: those of the bed there, or those whose labels may
+    /// have been moved up to two label lines from their height.
+    fn samples_help(&self, h: f64, tol: f64) -> Option<String> {
+        let reach = tol + 2.0 * LABEL_PITCH_MM * self.opts.scale() / 1000.0;
+        let mut found = Vec::new();
+        for (i, bed) in self.section.beds.iter().enumerate() {
+            let t = bed.usable_thickness_m();
+            if self.tops_m[i] < h - reach || self.bases_m[i] > h + reach {
+                continue;
+            }
+            for s in bed.samples.iter().filter(|s| !s.id.trim().is_empty()) {
+                let at = s.height_in_bed_m.filter(|v| v.is_finite()).map(|v| v.clamp(0.0, t));
+                let hs = self.bases_m[i] + at.unwrap_or(t / 2.0);
+                if (hs - h).abs() <= reach {
+                    let kind = s.kind.map(|k| format!(", {}", k.name())).unwrap_or_default();
+                    let place = match at {
+                        Some(v) => format!("{} above its base", self.height_words(v)),
+                        None => "mid-bed (no height written)".to_string(),
+                    };
+                    found.push(format!("{}{kind} in bed {}, {place}", s.id.trim(), i + 1));
+                }
+            }
+        }
+        match found.len() {
+            0 => None,
+            1 => Some(format!("Sample {}.", found[0])),
+            n if n <= 8 => Some(format!("Samples: {}.", found.join("; "))),
+            n => Some(format!("Samples: {}; and {} more nearby.", found[..8].join("; "), n - 8)),
+        }
+    }
+
     fn profile_help(&self, p: &PaleosolProfile) -> String {
         let beds = if p.first_bed == p.last_bed {
             format!("bed {}", p.first_bed + 1)
@@ -453,7 +584,7 @@ pub fn column_help_at(
 
 /// The tracks of the column of `section` laid out with `opts` (with its curve tracks).
 pub fn column_tracks(section: &Section, opts: &LayoutOptions) -> Tracks {
-    Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS))
+    Tracks::for_section(section, opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS))
 }
 
 #[cfg(test)]

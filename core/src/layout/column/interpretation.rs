@@ -168,7 +168,8 @@ impl ColumnCtx<'_> {
             let (stroke, label, color) = boundary_style(c.review, c.strength, candidate_name(c));
             out.push(Item::Polyline { points: vec![PtMm { x: x_start, y }, PtMm { x: x_end, y }], stroke });
             if let Some(lt) = tr.boundary_labels {
-                text(out, x0 + lt.x_mm + 0.8, y + 0.9, &label, SMALL_PT, color);
+                let size = fit_size(&label, lt.w_mm - 0.8, SMALL_PT, 4.0).unwrap_or(4.0);
+                text(out, x0 + lt.x_mm + 0.8, y + 0.9, &label, size, color);
             }
         }
     }

@@ -11,18 +11,22 @@
 
 mod beds;
 mod frame;
+mod header;
 mod help;
 mod interpretation;
+mod record;
 #[cfg(test)]
 mod tests;
 mod tracks;
 
 pub use beds::{draw_contact, paleosol_bar_mm};
+pub use header::{setting_lines, SETTING_LINE_MM, SETTING_PT};
 pub use help::{column_help_at, column_tracks, Pointed, TrackKind};
 pub use interpretation::{
     body_bracket, body_labels, boundary_style, candidate_name, review_words, stacking_code, stacking_words,
     storeys_words, surface_name, BracketEnd,
 };
+pub use record::{facies_colour, shown_facies, Glyph, ICHNO_MM_PER_GRADE, ICHNO_OLIVE, LABEL_PITCH_MM};
 pub use tracks::{Track, Tracks, GRAIN_CLASS_STEP_MM, GRAIN_MIN_WIDTH_MM};
 
 use crate::layout::curve_track::{self, CurvePlace, CurveTracks, ValueAxis, CURVE_COLOURS, MAX_CURVE_TRACKS};
@@ -119,7 +123,8 @@ impl<'a> ColumnCtx<'a> {
             section.beds.iter().zip(&bases_m).map(|(b, base)| base + b.usable_thickness_m()).collect();
         let h = tops_m.last().copied().unwrap_or(0.0);
         let curve_axes = section.curves.iter().map(|c| ValueAxis::for_curve(c, 0.0, h)).collect();
-        let tracks = Tracks::new(opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
+        let tracks =
+            Tracks::for_section(section, opts).with_curves(section.curves.len().min(MAX_CURVE_TRACKS));
         let spans = InterpretationSpans::new(interp);
         let mut in_profile = vec![false; section.beds.len()];
         for p in &interp.paleosols {
@@ -141,11 +146,19 @@ impl<'a> ColumnCtx<'a> {
         }
     }
 
-    /// Drop curve tracks (the last ones first) until a segment is at most `max_width_mm` wide;
-    /// returns how many curve tracks are left.
+    /// Drop curve tracks (the last ones first) until a segment is at most `max_width_mm` wide,
+    /// then, if it is still wider, narrow the labelled record tracks (samples, photographs,
+    /// fossils; to no less than [`tracks::MIN_LABEL_FACTOR`] of their width); returns how many
+    /// curve tracks are left.
     pub fn fit_curves(&mut self, max_width_mm: f64) -> usize {
         while self.tracks.curves.count > 0 && self.tracks.width_mm > max_width_mm {
             self.tracks = self.tracks.with_curves(self.tracks.curves.count - 1);
+        }
+        let labels = self.tracks.label_tracks_mm();
+        let excess = self.tracks.width_mm - max_width_mm;
+        if excess > 0.0 && labels > 0.0 {
+            let factor = (labels - excess) / labels;
+            self.tracks = Tracks::with_record_sized(self.opts, self.tracks.record_shown(), factor);
         }
         self.tracks.curves.count
     }
@@ -209,6 +222,7 @@ impl<'a> ColumnCtx<'a> {
         }
         self.draw_paleosol_profiles(&part, out);
         self.draw_paleocurrent_marks(&part, out);
+        self.draw_record(&part, out);
         // Left edge of the column.
         out.push(Item::Polyline {
             points: vec![PtMm { x: xl, y: y_lo }, PtMm { x: xl, y: y_hi }],
