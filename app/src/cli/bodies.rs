@@ -3,8 +3,8 @@
 
 use super::long_lists;
 use aggrade_core::analysis::bodies::{
-    body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
-    write_proportion_curve_csv,
+    body_table_with_lateral, thickness_summary, unmatched_lateral, write_bodies_csv,
+    write_interval_proportions_csv, write_proportion_curve_csv,
 };
 use aggrade_core::analysis::decompaction::{decompact_section, write_decompaction_csv, DecompactionParams};
 use aggrade_core::rules::{interpret, Element, Interpretation};
@@ -18,9 +18,13 @@ pub struct BodiesArgs {
     /// Project file (.aggrade) or bed-table CSV.
     pub file: PathBuf,
     /// Write the body table here (section, base, top, thickness, storeys, stacking, grain range,
-    /// censored ends).
+    /// censored ends, then width, beyond outcrop, width/thickness with its bound and geometry
+    /// class where a width is recorded).
     #[arg(long)]
     pub csv: PathBuf,
+    /// Also write the body table as JSON here (the same fields; heights in metres).
+    #[arg(long)]
+    pub json: Option<PathBuf>,
     /// Also write the moving-window channel-body proportion curve here.
     #[arg(long)]
     pub curve_csv: Option<PathBuf>,
@@ -60,8 +64,37 @@ pub fn run(args: &BodiesArgs) -> anyhow::Result<()> {
     let params = args.rules.resolve(&project, &args.file)?;
     let mut out = String::new();
     let interpretations: Vec<Interpretation> = sections.iter().map(|s| interpret(s, &params)).collect();
-    let rows = body_table(interpretations.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));
+    let rows = body_table_with_lateral(sections.iter().map(|s| &**s).zip(&interpretations));
     write_bodies_csv(&rows, create(&args.csv)?).with_context(|| args.csv.display().to_string())?;
+    let unmatched: Vec<serde_json::Value> = sections
+        .iter()
+        .zip(&interpretations)
+        .flat_map(|(s, i)| {
+            unmatched_lateral(s, i).into_iter().map(|l| {
+                let at = match s.beds.iter().position(|b| b.id == l.base_bed) {
+                    Some(k) => format!("bed {}", k + 1),
+                    None => "a bed no longer in the section".to_string(),
+                };
+                eprintln!(
+                    "warning: section {:?}: the width recorded for the channel body based on {at} matches no body \
+                     now (the rules start no body there); it is kept in the file but left out of the table",
+                    s.name
+                );
+                serde_json::json!({"section": s.name, "base_bed": l.base_bed, "width": l.width_m,
+                    "beyond_outcrop": l.beyond_outcrop, "note": l.note})
+            })
+        })
+        .collect();
+    if let Some(path) = &args.json {
+        let doc = serde_json::json!({
+            "caution": aggrade_core::REVIEW_CAUTION,
+            "bodies": rows,
+            "unmatched_lateral": unmatched,
+        });
+        let mut w = create(path)?;
+        serde_json::to_writer_pretty(&mut w, &doc).with_context(|| path.display().to_string())?;
+        std::io::Write::flush(&mut w).with_context(|| path.display().to_string())?;
+    }
     if let Some(path) = &args.curve_csv {
         write_proportion_curve_csv(
             interpretations.iter().map(|i| (i.section.as_str(), i.proportion_curve.as_slice())),

@@ -309,9 +309,12 @@ fn bodies_csv_names_censored_ends_and_the_summary_counts_undetermined_bodies() {
     let mut lines = text.lines();
     assert_eq!(
         lines.next(),
-        Some("section,base_m,top_m,thickness_m,storeys,stacking,grain_finest,grain_coarsest,censored")
+        Some(
+            "section,base_m,top_m,thickness_m,storeys,stacking,grain_finest,grain_coarsest,censored,width_m,\
+             beyond_outcrop,width_thickness,width_thickness_bound,geometry_class"
+        )
     );
-    let ends: Vec<&str> = lines.map(|l| l.rsplit(',').next().unwrap_or("")).collect();
+    let ends: Vec<&str> = lines.map(|l| l.split(',').nth(8).unwrap_or("")).collect();
     assert_eq!(ends, vec!["top", "base", "base"]);
     let out = stdout(&o);
     assert!(out.contains("stacking: 1 multi-storey, 0 single-storey, 2 undetermined"), "{out}");

@@ -3,6 +3,7 @@
 
 mod harness;
 
+mod bodies_lateral;
 mod check_convert;
 mod curve;
 mod export;
