@@ -8,7 +8,7 @@ use crate::gui::plots::plot_unit;
 use crate::gui::theme;
 use aggrade_core::analysis::markov::{analyse_sequence, TransitionAnalysis, TransitionParams};
 use aggrade_core::analysis::paleocurrents::{
-    circular_summary, per_bed, per_interval, readings_in_interval, rose_bins, section_readings,
+    circular_summary, flow_readings, flow_readings_in_interval, grouped, per_bed, per_interval, rose_bins,
     CircularParams, CircularSummary, DataKind, PetalScale, RoseBin, RoseBins, RoseParams,
 };
 use aggrade_core::analysis::AnalysisError;
@@ -82,6 +82,11 @@ pub struct StatsResult {
     pub per_section: Vec<SummaryRow>,
     pub per_interval: Vec<SummaryRow>,
     pub per_bed: Vec<SummaryRow>,
+    /// Flow readings per channel body of the rules (bodies of the chosen section).
+    pub per_body: Vec<SummaryRow>,
+    /// Whether the chosen section's readings were restored to horizontal, and with what; what
+    /// was kept out of the flow statistics.
+    pub tilt_note: String,
     /// Interval bounds of the chosen section (base, the boundaries cut at, top), m.
     pub interval_bounds_m: Vec<f64>,
     /// The unit the chosen section's heights are shown in (its display unit).
@@ -104,7 +109,7 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
         .iter()
         .map(|s| SummaryRow {
             what: s.name.clone(),
-            summary: circular_summary(&section_readings(s), &params).map_err(NoSummary::from),
+            summary: circular_summary(&flow_readings(s, c.kind), &params).map_err(NoSummary::from),
         })
         .collect();
     let Some(section) = project.sections.get(c.section.min(project.sections.len().saturating_sub(1))) else {
@@ -112,6 +117,8 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
             per_section,
             per_interval: Vec::new(),
             per_bed: Vec::new(),
+            per_body: Vec::new(),
+            tilt_note: String::new(),
             interval_bounds_m: Vec::new(),
             unit: LengthUnit::Metre,
             cuts_are_accepted: false,
@@ -155,9 +162,9 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
     let readings = match c.rose_of {
         RoseOf::Interval(k) if k + 1 < bounds.len() => {
             let top = if k + 2 == bounds.len() { bounds[k + 1] + 1e-9 } else { bounds[k + 1] };
-            readings_in_interval(section, bounds[k], top)
+            flow_readings_in_interval(section, bounds[k], top, c.kind)
         }
-        _ => section_readings(section),
+        _ => flow_readings(section, c.kind),
     };
     let rose = rose_bins(
         &readings,
@@ -170,12 +177,15 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
     )
     .map_err(NoSummary::from);
     let rose_mean = circular_summary(&readings, &params).ok();
+    let (per_body, tilt_note) = body_rows(section, &interp, &bounds, &params, unit);
     let transitions = analyse_sequence(&state_sequence(section, c.states), &TransitionParams::default())
         .map_err(NoSummary::from);
     StatsResult {
         per_section,
         per_interval,
         per_bed,
+        per_body,
+        tilt_note,
         interval_bounds_m: bounds,
         unit,
         cuts_are_accepted,
@@ -183,6 +193,63 @@ pub fn compute(project: &Project, interps: &[Interpretation], c: &StatsChoices) 
         rose_mean,
         transitions,
     }
+}
+
+/// Flow statistics per channel body of the rules (one-way readings, or every flow reading as
+/// axes when `params.kind` is axial) and a note on tilt correction and what was kept apart.
+fn body_rows(
+    section: &aggrade_core::model::Section,
+    interp: &Interpretation,
+    bounds: &[f64],
+    params: &CircularParams,
+    unit: LengthUnit,
+) -> (Vec<SummaryRow>, String) {
+    let g = match grouped(section, interp, bounds, params) {
+        Ok(g) => g,
+        Err(e) => return (Vec::new(), e.to_string()),
+    };
+    let rows = g
+        .bodies
+        .iter()
+        .map(|b| {
+            let readings = match params.kind {
+                DataKind::Directional => b.group.flow_deg.clone(),
+                DataKind::Axial => b.group.flow_deg.iter().chain(&b.group.axes_deg).copied().collect(),
+            };
+            SummaryRow {
+                what: format!("body {} ({})", b.body + 1, span_text(unit, b.group.base_m, b.group.top_m)),
+                summary: if readings.len() < 2 {
+                    Err(NoSummary::FewerThanTwo)
+                } else {
+                    circular_summary(&readings, params).map_err(NoSummary::from)
+                },
+            }
+        })
+        .collect();
+    let mut note = match g.restored_with {
+        Some(b) => format!(
+            "Readings restored to horizontal for bedding dipping {:.0}° toward {:03.0}° (rotation about strike); \
+             imbrication turned downstream.",
+            b.dip_deg, b.dip_direction_deg
+        ),
+        None => "Readings as measured: the section has no bedding attitude, so they are not restored to \
+                 horizontal; imbrication turned downstream."
+            .to_string(),
+    };
+    let (axes, accretion) = (g.section.axes_deg.len(), g.section.accretion_deg.len());
+    if accretion > 0 {
+        note.push_str(&format!(
+            " {} kept out of the flow statistics (Miall 1974).",
+            counted(accretion, "accretion-surface dip", "accretion-surface dips")
+        ));
+    }
+    if axes > 0 && params.kind == DataKind::Directional {
+        note.push_str(&format!(
+            " {} (parting lineation, groove casts) left out as directions; choose Axial to include them.",
+            counted(axes, "two-way reading", "two-way readings")
+        ));
+    }
+    (rows, note)
 }
 
 /// A stretch of section between two heights (m) in `unit`: "0.00–24.60 m", "0.00–80.71 ft".
@@ -431,6 +498,7 @@ impl StatsView {
             .small()
             .color(theme::TEXT_DIM),
         );
+        ui.label(egui::RichText::new(&r.tilt_note).small());
         ui.label(egui::RichText::new("Per section").strong());
         let rows: Vec<Vec<String>> = r.per_section.iter().map(summary_cells).collect();
         text_table(ui, "stats_per_section", &SUMMARY_HEADER, &rows);
@@ -444,6 +512,11 @@ impl StatsView {
         }
         let rows: Vec<Vec<String>> = r.per_interval.iter().map(summary_cells).collect();
         text_table(ui, "stats_per_interval", &SUMMARY_HEADER, &rows);
+        if !r.per_body.is_empty() {
+            ui.label(egui::RichText::new("Per channel body (bodies from the rules)").strong());
+            let rows: Vec<Vec<String>> = r.per_body.iter().map(summary_cells).collect();
+            text_table(ui, "stats_per_body", &SUMMARY_HEADER, &rows);
+        }
         ui.label(egui::RichText::new("Per bed (beds with two or more readings)").strong());
         let rows: Vec<Vec<String>> = r.per_bed.iter().map(summary_cells).collect();
         egui::ScrollArea::vertical().id_salt("stats_beds").max_height(180.0).show(ui, |ui| {
@@ -733,7 +806,8 @@ mod tests {
         // 3.048 m = 10 ft of mudstone, then 1.524 m = 5 ft of sandstone with three readings.
         s.beds.push(Bed::new(BedId(1), 3.048, Lithology::Mudstone, None));
         let mut b = Bed::new(BedId(2), 1.524, Lithology::Sandstone, sand);
-        b.paleocurrents = [10.0, 20.0, 30.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
+        b.paleocurrents =
+            [10.0, 20.0, 30.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
         s.beds.push(b);
         let p = Project::new(vec![s]);
         let interps: Vec<Interpretation> =
@@ -743,5 +817,49 @@ mod tests {
         assert_eq!(r.per_bed[0].what, "bed 2 (base 10.00 ft)");
         assert!(r.per_interval.iter().all(|row| row.what.ends_with(" ft")), "{:?}", r.per_interval);
         assert_eq!(span_text(LengthUnit::Foot, 0.0, 4.572), "0.00\u{2013}15.00 ft");
+    }
+
+    #[test]
+    fn channel_bodies_get_rows_and_tilt_correction_is_said() {
+        use aggrade_core::model::{
+            Bed, BedId, BeddingAttitude, Contact, GrainSize, Indicator, Lithology, Paleocurrent, Section,
+            WentworthClass,
+        };
+        use aggrade_core::rules::{interpret, RuleParams};
+        let mut s = Section::new("Tilted");
+        s.beds.push(Bed::new(BedId(1), 3.0, Lithology::Mudstone, None));
+        let mut b =
+            Bed::new(BedId(2), 4.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
+        b.base_contact = Contact::Erosional;
+        let r = |azimuth_deg, indicator, dip_deg| Paleocurrent { azimuth_deg, indicator, dip_deg };
+        b.paleocurrents = vec![
+            r(45.0, Indicator::TroughAxis, None),
+            r(45.0, Indicator::TroughAxis, None),
+            r(300.0, Indicator::AccretionSurface, Some(10.0)),
+        ];
+        s.beds.push(b);
+        s.beds.push(Bed::new(BedId(3), 3.0, Lithology::Mudstone, None));
+        let mut p = Project::new(vec![s]);
+        let interps: Vec<Interpretation> =
+            p.sections.iter().map(|s| interpret(s, &RuleParams::default())).collect();
+        let res = compute(&p, &interps, &StatsChoices::default());
+        assert_eq!(res.per_body.len(), 1);
+        assert_eq!(res.per_body[0].what, "body 1 (3.00\u{2013}7.00 m)");
+        let flow = res.per_body[0].summary.as_ref().expect("two trough axes");
+        assert_eq!(flow.n, 2, "the accretion surface stays out");
+        assert!((flow.mean_azimuth_deg.expect("mean") - 45.0).abs() < 1e-9);
+        assert!(res.tilt_note.contains("not restored"), "{}", res.tilt_note);
+        assert!(res.tilt_note.contains("1 accretion-surface dip kept out"), "{}", res.tilt_note);
+        // Beds dipping 30° toward 090: trough axes trending 045 restore to 049.107 (rake
+        // relation, see aggrade_core::analysis::attitude).
+        p.sections[0].bedding = Some(BeddingAttitude { dip_deg: 30.0, dip_direction_deg: 90.0 });
+        let res = compute(&p, &interps, &StatsChoices::default());
+        let flow = res.per_body[0].summary.as_ref().expect("two trough axes");
+        assert!((flow.mean_azimuth_deg.expect("mean") - 49.1066).abs() < 1e-3, "{flow:?}");
+        assert!(
+            res.tilt_note.contains("restored to horizontal for bedding dipping 30° toward 090°"),
+            "{}",
+            res.tilt_note
+        );
     }
 }
