@@ -631,24 +631,25 @@ fn matrix_rows<T>(t: &TransitionAnalysis, m: &[Vec<T>], cell: impl Fn(&T) -> Str
 fn transitions_ui(ui: &mut egui::Ui, t: &TransitionAnalysis) {
     let mut header: Vec<&str> = vec!["from \\ to"];
     header.extend(t.states.iter().map(String::as_str));
-    ui.columns(3, |cols| {
-        cols[0].label(egui::RichText::new("Observed").strong());
-        text_table(&mut cols[0], "markov_observed", &header, &matrix_rows(t, &t.observed, |v| v.to_string()));
-        cols[1].label(egui::RichText::new("Expected").strong());
-        text_table(
-            &mut cols[1],
-            "markov_expected",
-            &header,
-            &matrix_rows(t, &t.expected, |v| format!("{v:.2}")),
-        );
-        cols[2].label(egui::RichText::new("Observed − expected").strong());
-        text_table(
-            &mut cols[2],
-            "markov_difference",
-            &header,
-            &matrix_rows(t, &t.difference, |v| format!("{v:+.2}")),
-        );
-    });
+    let tables = [
+        ("Observed", "markov_observed", matrix_rows(t, &t.observed, |v| v.to_string())),
+        ("Expected", "markov_expected", matrix_rows(t, &t.expected, |v| format!("{v:.2}"))),
+        ("Observed − expected", "markov_difference", matrix_rows(t, &t.difference, |v| format!("{v:+.2}"))),
+    ];
+    // Side by side while three tables fit; one under another for the many states of facies codes.
+    if t.states.len() <= 4 {
+        ui.columns(3, |cols| {
+            for (col, (title, id, rows)) in cols.iter_mut().zip(&tables) {
+                col.label(egui::RichText::new(*title).strong());
+                text_table(col, id, &header, rows);
+            }
+        });
+    } else {
+        for (title, id, rows) in &tables {
+            ui.label(egui::RichText::new(*title).strong());
+            text_table(ui, id, &header, rows);
+        }
+    }
     let p = t.p_value.map(fmt_p).unwrap_or_else(|| "n/a (fewer than 3 states)".into());
     ui.label(format!(
         "χ² = {:.2}, G² = {:.2}, dof = {}, p = {p} ({})",
