@@ -136,7 +136,11 @@ fn each_bad_cell_is_named_by_line_and_column_with_what_is_valid() {
             "samples",
             &["sample \"SC-1\": the height must lie within the bed", "thickness 1 m, got 1.5 m"],
         ),
-        ("1,sandstone,m,,,,,,SC-1;SC-1,", "samples", &["\"SC-1\" is also the id of samples[0]"]),
+        (
+            "1,sandstone,m,,,,,,SC-1;SC-1,",
+            "samples",
+            &["\"SC-1\" is already the id of an earlier sample of this bed"],
+        ),
         ("1,sandstone,m,,,,,,,-3", "slope_distance", &["must be > 0, got -3"]),
     ];
     for (row, column, parts) in cases {

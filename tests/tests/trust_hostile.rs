@@ -57,7 +57,7 @@ fn every_committed_bad_file_is_refused_with_line_field_and_what_is_valid() {
         // JSON has no NaN or infinity (RFC 8259 section 6), and 1e400 is beyond f64 (IEEE 754).
         ("nan_literal.aggrade", &["line 11", "not valid JSON"]),
         ("number_out_of_range.aggrade", &["line 11", "number out of range"]),
-        ("version_not_a_number.aggrade", &["line 2: format_version: must be a whole number 0–1"]),
+        ("version_not_a_number.aggrade", &["line 2: format_version: must be a whole number 0–2"]),
         ("bed_id_out_of_range.aggrade", &["line 45: sections[0].beds[2].id", "`-3`, expected u64"]),
         // "Caf" then byte 0xE9: column 27 of line 2 (26 bytes precede it).
         ("bad_utf8.aggrade", &["line 2", "not UTF-8", "0xE9", "column 27", "save the file as UTF-8"]),
@@ -81,6 +81,118 @@ fn every_committed_bad_file_is_refused_with_line_field_and_what_is_valid() {
         // No line of the message runs on without end (a huge number must not print in full).
         assert!(msg.lines().all(|l| l.chars().count() < 400), "{name}: an overlong message line:\n{msg}");
     }
+}
+
+/// The field record's hostile files: every value out of range, every unknown code, lists and
+/// texts past their limits, each named by line and field (or column) with what is valid.
+#[test]
+fn field_record_files_name_every_bad_value_by_line_and_field() {
+    let cases: &[(&str, &[&str])] = &[
+        (
+            "field_record_out_of_range.aggrade",
+            &[
+                "14 problems",
+                "line 6: sections[0].thickness_uncertainty_m: must be ≥ 0",
+                "line 8: sections[0].bedding.dip_deg: must lie between 0 and 90 degrees, got 95",
+                "line 12: sections[0].traverse.bearing_deg: must lie between 0 and 360 degrees, got 400",
+                "line 19: sections[0].fixes[0].lat_deg: must lie between -90 and 90, got 95",
+                "line 24: sections[0].fixes[1].height_m: must lie within the section, from 0 at its base to its top at 3.5 m, got 12 m",
+                "line 27: sections[0].fixes[1].elevation_m: must lie between -11000 and 9000 m above sea level, got 1000000",
+                "line 32: sections[0].body_lateral[0].base_bed: refers to bed id 7, which is not in this section",
+                "line 37: sections[0].body_lateral[1].width_m: must be > 0",
+                // Bioturbation index scale 0–6 of Taylor & Goldring (1993).
+                "line 47: sections[0].beds[0].bioturbation_index: must be a bioturbation index 0–6",
+                "line 58: sections[0].beds[1].samples[0].height_in_bed_m: sample \"CW-1\": the height must lie within the bed, from 0 at its base to its thickness 1.5 m, got 2.5 m",
+                "line 61: sections[0].beds[1].samples[1].id: \"CW-1\" is already the id of an earlier sample",
+                "line 64: sections[0].beds[1].samples[2].id: must not be empty",
+                "line 69: sections[0].beds[1].photos[0].reference: must not be empty",
+                "line 72: sections[0].beds[1].slope_distance_m: must be > 0",
+            ],
+        ),
+        (
+            "field_record_bad_codes.aggrade",
+            &[
+                "6 problems",
+                // Munsell value runs 0–10 (Munsell Soil Color Charts).
+                "line 13: sections[0].beds[0].munsell: \"10YR 11/4\" is not a Munsell notation",
+                "line 14: sections[0].beds[0].soil_horizon: \"bt\" is not a soil-horizon designation",
+                "line 15: sections[0].beds[0].drainage",
+                "well_drained",
+                "line 23: sections[0].beds[1].facies: unknown lithofacies code \"Sx\"; valid codes are Gmm",
+                "line 25: sections[0].beds[1].samples[0]: kind",
+                "detrital_zircon",
+                "line 31: sections[0].beds[1].paleocurrents[0]: indicator",
+                "accretion_surface",
+            ],
+        ),
+        (
+            "field_record_bad_cells.csv",
+            &[
+                "8 problems",
+                "line 2: column munsell: \"10YR 11/4\" is not a Munsell notation",
+                "line 2: column bioturbation_index: \"7\" is not a bioturbation index",
+                "line 3: column samples: sample SC-1: \"zircons\" is not a sample kind",
+                "line 3: column facies: \"Sx\" is not a lithofacies code",
+                "line 3: column drainage: \"soggy\" is not a drainage class",
+                "line 4: column paleocurrents: \"210w\" is not a paleocurrent reading",
+                "line 4: column soil_horizon: \"bt\"",
+                "line 5: column thickness_m: required",
+            ],
+        ),
+        (
+            "field_record_long_lists.csv",
+            &[
+                "3 problems",
+                "line 2: column photos: 1001 photos; at most 1000 per bed",
+                "line 3: column body_fossils: a fossil name of 201 characters; at most 200 allowed",
+                "line 4: column lag_composition: text of 10001 characters; at most 10000 allowed",
+            ],
+        ),
+    ];
+    for (name, parts) in cases {
+        let msg = refused(&bad(name));
+        assert_has(&msg, parts);
+        assert!(msg.lines().all(|l| l.chars().count() < 400), "{name}: an overlong message line:\n{msg}");
+    }
+}
+
+/// A hundred thousand samples on one bed pass the JSON pre-scan's list limit (100,000 items) and
+/// stop at the field record's limit per bed; a note of a million characters stops at the text
+/// limit. Each is named by line and field, in a project file and in a bed table.
+#[test]
+fn a_hundred_thousand_samples_and_a_megabyte_note_are_refused_by_line_and_field() {
+    let samples = vec!["{\"id\": \"S\"}"; 100_000].join(",");
+    let project = |bed_extra: &str| {
+        format!(
+            "{{\n\"format_version\": 2,\n\"sections\": [{{\n\"name\": \"x\",\n\"beds\": [\n\
+             {{\"id\": 1, \"thickness_m\": 1.0, \"lithology\": \"mudstone\", \"grain_base\": \"clay\", \"grain_top\": \"clay\",\n{bed_extra}}}\n]}}]}}\n"
+        )
+    };
+    let problems = read_project_text(&project(&format!("\"samples\": [{samples}]"))).expect_err("refused");
+    assert_eq!(problems.len(), 1, "{problems:?}");
+    assert_eq!(
+        problems[0].to_string(),
+        "line 7: sections[0].beds[0].samples: 100000 samples; at most 1000 per bed"
+    );
+    let note = "n".repeat(1_000_000);
+    let problems = read_project_text(&project(&format!("\"notes\": \"{note}\""))).expect_err("refused");
+    assert_eq!(problems.len(), 1, "{problems:?}");
+    assert_has(
+        &problems[0].to_string(),
+        &["line 7", "sections[0].beds[0].notes", "text of 1000000 characters; at most 10000"],
+    );
+    // The same in a bed table.
+    let ids: Vec<String> = (0..100_000).map(|i| format!("S{i}")).collect();
+    let csv = format!("thickness_m,lithology,grain,samples,notes\n1,mudstone,cl,,\n1,mudstone,cl,{},\n2,mudstone,cl,,{note}\n", ids.join(";"));
+    let problems = read_bed_table(&csv, "x").expect_err("refused");
+    let shown: Vec<String> = problems.iter().map(ToString::to_string).collect();
+    assert_eq!(
+        shown,
+        [
+            "line 3: column samples: 100000 samples; at most 1000 per bed",
+            "line 4: column notes: text of 1000000 characters; at most 10000 allowed"
+        ]
+    );
 }
 
 /// Every file in the folder is used by a test here, so a new bad file cannot be added and

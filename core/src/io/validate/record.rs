@@ -54,7 +54,7 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
                 out.push(Problem::new(
                     sat("id"),
                     format!(
-                        "{:?} is also the id of samples[{first}] of this bed; sample ids must differ",
+                        "{:?} is already the id of an earlier sample of this bed (samples[{first}]); sample ids must differ",
                         s.id
                     ),
                 ));
