@@ -228,13 +228,15 @@ fn body_rows(
         .collect();
     let mut note = match g.restored_with {
         Some(b) => format!(
-            "Readings restored to horizontal for bedding dipping {:.0}° toward {:03.0}° (rotation about strike); \
-             imbrication turned downstream.",
-            b.dip_deg, b.dip_direction_deg
+            "{}: readings restored to horizontal for bedding dipping {:.0}° toward {:03.0}° (rotation about \
+             strike); imbrication turned downstream.",
+            section.name, b.dip_deg, b.dip_direction_deg
         ),
-        None => "Readings as measured: the section has no bedding attitude, so they are not restored to \
-                 horizontal; imbrication turned downstream."
-            .to_string(),
+        None => format!(
+            "{}: readings as measured (no bedding attitude, so not restored to horizontal); imbrication turned \
+             downstream.",
+            section.name
+        ),
     };
     let (axes, accretion) = (g.section.axes_deg.len(), g.section.accretion_deg.len());
     if accretion > 0 {
