@@ -47,6 +47,16 @@ pub enum Edit {
         date_logged: Option<String>,
         panel_position_m: Option<f64>,
     },
+    /// Set how the section was measured and where: method, thickness uncertainty (± m), bedding
+    /// attitude, traverse and GPS fixes; refused with the field's message when out of range (a
+    /// fix's height must lie within the section).
+    SetSectionSetting {
+        method: Option<aggrade_core::model::MeasuringMethod>,
+        thickness_uncertainty_m: Option<f64>,
+        bedding: Option<aggrade_core::model::BeddingAttitude>,
+        traverse: Option<aggrade_core::model::Traverse>,
+        fixes: Vec<aggrade_core::model::GpsFix>,
+    },
     /// Add a new empty section and select it.
     AddSection { section: Section },
     /// Replace the whole project (an import into the open document).
@@ -62,6 +72,11 @@ pub enum Edit {
     /// Set the project's rule parameters: the fields that differ from the defaults
     /// (`RuleParams::changed`), as the project file stores them; empty for the default rules.
     SetRuleParams { params: serde_json::Map<String, serde_json::Value> },
+    /// Set what was seen of a channel body across the outcrop — its width (metres) and whether
+    /// it runs beyond the outcrop — in section `section` (an index, as the body table lists every
+    /// section), keyed by the body's lowest bed. The record's note is kept; a record left with no
+    /// width, no "beyond" and no note is removed.
+    SetBodyLateral { section: usize, base_bed: BedId, width_m: Option<f64>, beyond_outcrop: bool },
 }
 
 /// Why an edit was refused; shown to the user as is.
@@ -499,6 +514,17 @@ impl Work {
                     return Err(EditError(p.to_string()));
                 }
             }
+            Edit::SetSectionSetting { method, thickness_uncertainty_m, bedding, traverse, fixes } => {
+                let s = self.section();
+                if let Some(why) = setting_problem(s, thickness_uncertainty_m, bedding, traverse, &fixes) {
+                    return Err(EditError(why));
+                }
+                s.method = method;
+                s.thickness_uncertainty_m = thickness_uncertainty_m;
+                s.bedding = bedding;
+                s.traverse = traverse;
+                s.fixes = fixes;
+            }
             Edit::AddSection { section } => {
                 if self.project.sections.iter().any(|s| s.name == section.name) {
                     return Err(EditError(format!("a section named {:?} exists already", section.name)));
@@ -551,9 +577,105 @@ impl Work {
                     .map_err(|faults| EditError(format!("rule parameters refused: {}", faults.join("; "))))?;
                 self.project.rule_params = params;
             }
+            Edit::SetBodyLateral { section, base_bed, width_m, beyond_outcrop } => {
+                if let Some(w) = width_m.filter(|w| !(w.is_finite() && *w > 0.0)) {
+                    return Err(EditError(format!("width: a channel body's width is more than 0 m, got {w}")));
+                }
+                let s = self
+                    .project
+                    .sections
+                    .get_mut(section)
+                    .ok_or_else(|| EditError(format!("section {} no longer exists", section + 1)))?;
+                if s.bed_index(base_bed).is_none() {
+                    return Err(EditError(format!("bed {} no longer exists", base_bed.0)));
+                }
+                match s.body_lateral.iter().position(|l| l.base_bed == base_bed) {
+                    Some(k) => {
+                        let l = &mut s.body_lateral[k];
+                        l.width_m = width_m;
+                        l.beyond_outcrop = beyond_outcrop;
+                        if l.width_m.is_none() && !l.beyond_outcrop && l.note.trim().is_empty() {
+                            s.body_lateral.remove(k);
+                        }
+                    }
+                    None if width_m.is_some() || beyond_outcrop => {
+                        s.body_lateral.push(aggrade_core::model::BodyLateral {
+                            base_bed,
+                            width_m,
+                            beyond_outcrop,
+                            note: String::new(),
+                        });
+                    }
+                    None => {}
+                }
+            }
         }
         Ok(())
     }
+}
+
+/// The first value of a section's setting out of range, in words naming the field.
+fn setting_problem(
+    s: &Section,
+    uncertainty: Option<f64>,
+    bedding: Option<aggrade_core::model::BeddingAttitude>,
+    traverse: Option<aggrade_core::model::Traverse>,
+    fixes: &[aggrade_core::model::GpsFix],
+) -> Option<String> {
+    let within = |v: f64, lo: f64, hi: f64| v.is_finite() && (lo..=hi).contains(&v);
+    if let Some(u) = uncertainty.filter(|u| !within(*u, 0.0, aggrade_core::io::MAX_BED_THICKNESS_M)) {
+        return Some(format!("thickness_uncertainty_m: a ± error is 0 m or more, got {u}"));
+    }
+    if let Some(b) = bedding {
+        if !within(b.dip_deg, 0.0, 90.0) {
+            return Some(format!("bedding.dip_deg: a dip lies between 0 and 90°, got {}", b.dip_deg));
+        }
+        if !within(b.dip_direction_deg, 0.0, 360.0) {
+            return Some(format!(
+                "bedding.dip_direction_deg: a direction lies between 0 and 360°, got {}",
+                b.dip_direction_deg
+            ));
+        }
+    }
+    if let Some(t) = traverse {
+        if !within(t.bearing_deg, 0.0, 360.0) {
+            return Some(format!(
+                "traverse.bearing_deg: a bearing lies between 0 and 360°, got {}",
+                t.bearing_deg
+            ));
+        }
+        if !within(t.slope_deg, -90.0, 90.0) {
+            return Some(format!(
+                "traverse.slope_deg: a slope lies between -90 and 90°, got {}",
+                t.slope_deg
+            ));
+        }
+    }
+    let total = s.total_thickness_m();
+    for (k, f) in fixes.iter().enumerate() {
+        if !within(f.lat_deg, -90.0, 90.0) {
+            return Some(format!(
+                "fixes[{k}].lat_deg: a latitude lies between -90 and 90°, got {}",
+                f.lat_deg
+            ));
+        }
+        if !within(f.lon_deg, -180.0, 180.0) {
+            return Some(format!(
+                "fixes[{k}].lon_deg: a longitude lies between -180 and 180°, got {}",
+                f.lon_deg
+            ));
+        }
+        if !within(f.height_m, 0.0, total + 1e-9) {
+            return Some(format!(
+                "fixes[{k}].height_m: a fix is taken within the section, 0 to {total} m above its base, got {}",
+                f.height_m
+            ));
+        }
+        if let Some(e) = f.elevation_m.filter(|e| !e.is_finite()) {
+            return Some(format!("fixes[{k}].elevation_m: not a number ({e})"));
+        }
+    }
+    None
 }
 
 /// Drop a large value on a short-lived thread (or here, if no thread can be had).
@@ -753,6 +875,38 @@ mod tests {
         assert!(d.project.rule_params.is_empty(), "undo restores the default rules");
         assert!(d.redo());
         assert_eq!(d.project.rule_params, wider);
+    }
+
+    #[test]
+    fn the_sections_setting_is_one_undoable_edit_and_refuses_fixes_outside_the_section() {
+        use aggrade_core::model::{BeddingAttitude, FixRole, GpsFix, MeasuringMethod, Traverse};
+        let mut d = doc_with_beds(2); // 1 m + 2 m
+        let fix = |height_m: f64, lat_deg: f64| GpsFix {
+            role: FixRole::Top,
+            height_m,
+            lat_deg,
+            lon_deg: 133.7,
+            elevation_m: None,
+            note: String::new(),
+        };
+        let set = |fixes: Vec<GpsFix>| Edit::SetSectionSetting {
+            method: Some(MeasuringMethod::Tape),
+            thickness_uncertainty_m: Some(0.05),
+            bedding: Some(BeddingAttitude { dip_deg: 12.0, dip_direction_deg: 75.0 }),
+            traverse: Some(Traverse { bearing_deg: 255.0, slope_deg: 10.0 }),
+            fixes,
+        };
+        d.apply(set(vec![fix(3.0, -24.6)])).expect("valid");
+        assert_eq!(d.section().method, Some(MeasuringMethod::Tape));
+        assert_eq!(d.section().fixes.len(), 1);
+        // WGS84 latitude lies within ±90°; a fix lies within the section (0 to 3 m here).
+        let e = d.apply(set(vec![fix(3.5, -24.6)])).expect_err("above the top");
+        assert!(e.0.contains("fixes[0].height_m"), "{e}");
+        let e = d.apply(set(vec![fix(1.0, -91.0)])).expect_err("off the globe");
+        assert!(e.0.contains("fixes[0].lat_deg"), "{e}");
+        assert_eq!(d.section().fixes[0].height_m, 3.0, "a refused edit changes nothing");
+        assert!(d.undo());
+        assert_eq!((d.section().method, d.section().fixes.len()), (None, 0));
     }
 
     #[test]

@@ -1,7 +1,8 @@
 //! The inspector: every field of the selected bed, edited on a copy that is sent as one edit.
 //!
-//! Number and list fields (thickness, grain sizes, relief, paleocurrents, samples, the surface
-//! name) are committed fields ([`super::field`]): read as a whole when the typing ends, kept as
+//! Number and list fields (thickness, slope distance, grain sizes, relief, paleocurrents, sample
+//! heights, Munsell colour, soil horizon, the surface name, a fossil name being added) are
+//! committed fields ([`super::field`]): read as a whole when the typing ends, kept as
 //! typed and marked while they do not parse, never stored half-read. Free text (colour, fossils,
 //! notes) is stored as typed, each keystroke being a whole value.
 //!
@@ -14,6 +15,9 @@
 //! Nothing typed is lost, nothing half-read is stored. Valid uncommitted text is stored when the
 //! bed is left, as on any other focus loss.
 
+mod groups;
+mod record;
+
 use super::actions::{gesture_key, Actions};
 use super::document::{Document, Edit};
 use super::field::{committed_field, problem_label, FieldLook, FieldText};
@@ -23,8 +27,8 @@ use aggrade_core::io::limits::MAX_STRING_CHARS;
 use aggrade_core::io::MAX_BED_THICKNESS_M;
 use aggrade_core::model::shorthand;
 use aggrade_core::model::{
-    BaseRank, Bed, BedId, Contact, GrainSize, GrainSizeRule, LengthUnit, Lithology, PaleosolDevelopment,
-    PaleosolFeature, Section, Structure, Surface, SurfaceKind,
+    BaseRank, Bed, BedId, Contact, GrainSize, GrainSizeRule, LengthUnit, Lithology, Munsell, Section,
+    SoilHorizon,
 };
 use std::collections::BTreeMap;
 
@@ -36,19 +40,46 @@ enum Typed {
     GrainTop,
     Relief,
     Paleocurrents,
-    Samples,
     SurfaceName,
+    Munsell,
+    SoilHorizon,
+    SlopeDistance,
+    /// A trace fossil's name being added to the list.
+    TraceFossil,
+    /// A body fossil's name being added to the list.
+    BodyFossil,
+}
+
+/// How many typed fields a bed has.
+const TYPED: usize = 11;
+
+/// What reading a typed field needs besides its text: the section's display unit and, for the
+/// slope distance, the section's traverse and bedding.
+#[derive(Debug, Clone, Copy)]
+struct At<'a> {
+    unit: LengthUnit,
+    section: Option<&'a Section>,
+}
+
+impl From<LengthUnit> for At<'_> {
+    fn from(unit: LengthUnit) -> Self {
+        At { unit, section: None }
+    }
 }
 
 impl Typed {
-    const ALL: [Typed; 7] = [
+    const ALL: [Typed; TYPED] = [
         Typed::Thickness,
         Typed::GrainBase,
         Typed::GrainTop,
         Typed::Relief,
         Typed::Paleocurrents,
-        Typed::Samples,
         Typed::SurfaceName,
+        Typed::Munsell,
+        Typed::SoilHorizon,
+        Typed::SlopeDistance,
+        Typed::TraceFossil,
+        Typed::BodyFossil,
     ];
 
     /// The field's label in the inspector (and in its messages).
@@ -59,8 +90,12 @@ impl Typed {
             Typed::GrainTop => "Grain at top",
             Typed::Relief => "Erosional relief",
             Typed::Paleocurrents => "Paleocurrents (°)",
-            Typed::Samples => "Samples",
             Typed::SurfaceName => "Surface name",
+            Typed::Munsell => "Munsell colour",
+            Typed::SoilHorizon => "Soil horizon",
+            Typed::SlopeDistance => "Slope distance",
+            Typed::TraceFossil => "Add a trace fossil",
+            Typed::BodyFossil => "Add a body fossil",
         }
     }
 
@@ -72,8 +107,12 @@ impl Typed {
             Typed::GrainTop => "grain_top",
             Typed::Relief => "base_relief_m",
             Typed::Paleocurrents => "paleocurrents",
-            Typed::Samples => "samples",
             Typed::SurfaceName => "base_surface.name",
+            Typed::Munsell => "munsell",
+            Typed::SoilHorizon => "soil_horizon",
+            Typed::SlopeDistance => "slope_distance_m",
+            Typed::TraceFossil => "trace_fossils",
+            Typed::BodyFossil => "body_fossils",
         }
     }
 
@@ -85,15 +124,21 @@ impl Typed {
             Typed::GrainTop => bed.grain_top.map(|g| g.to_string()).unwrap_or_default(),
             Typed::Relief => bed.base_relief_m.map(|r| show_length(r, unit)).unwrap_or_default(),
             Typed::Paleocurrents => shorthand::paleocurrents_code(&bed.paleocurrents),
-            Typed::Samples => shorthand::samples_code(&bed.samples),
             Typed::SurfaceName => bed.base_surface.as_ref().map(|s| s.name.clone()).unwrap_or_default(),
+            Typed::Munsell => bed.munsell.as_ref().map(|m| m.to_string()).unwrap_or_default(),
+            Typed::SoilHorizon => bed.soil_horizon.as_ref().map(|h| h.to_string()).unwrap_or_default(),
+            Typed::SlopeDistance => bed.slope_distance_m.map(|d| show_length(d, unit)).unwrap_or_default(),
+            // A name is added, then the field is empty for the next one.
+            Typed::TraceFossil | Typed::BodyFossil => String::new(),
         }
     }
 
     /// Read the whole text into `bed`, or say (naming the field) why it cannot be read and what
     /// would be valid. The bed is then checked by the same validation a saved file passes, so
     /// nothing is stored that would not open again.
-    fn read(self, text: &str, bed: &mut Bed, unit: LengthUnit) -> Result<(), String> {
+    fn read<'a>(self, text: &str, bed: &mut Bed, at: impl Into<At<'a>>) -> Result<(), String> {
+        let at = at.into();
+        let unit = at.unit;
         let label = self.label();
         match self {
             Typed::Thickness => {
@@ -129,9 +174,6 @@ impl Typed {
             Typed::Paleocurrents => {
                 bed.paleocurrents = shorthand::paleocurrents(text).map_err(|e| format!("{label}: {e}"))?
             }
-            Typed::Samples => {
-                bed.samples = shorthand::samples(text, &bed.samples);
-            }
             Typed::SurfaceName => {
                 if text.trim().is_empty() {
                     return Err(format!(
@@ -142,9 +184,77 @@ impl Typed {
                     s.name = text.trim().to_string();
                 }
             }
+            Typed::Munsell => {
+                bed.munsell = if text.trim().is_empty() {
+                    None
+                } else {
+                    Some(Munsell::parse(text).map_err(|e| format!("{label}: {e}"))?)
+                };
+            }
+            Typed::SoilHorizon => {
+                bed.soil_horizon = if text.trim().is_empty() {
+                    None
+                } else {
+                    Some(SoilHorizon::parse(text).map_err(|e| format!("{label}: {e}"))?)
+                };
+            }
+            Typed::SlopeDistance => {
+                if text.trim().is_empty() {
+                    bed.slope_distance_m = None;
+                } else {
+                    let d = parse_length(text, unit).filter(|d| *d > 0.0 && *d <= MAX_BED_THICKNESS_M).ok_or_else(
+                        || {
+                            format!(
+                                "{label}: {text:?} is not a distance greater than 0 and at most {MAX_BED_THICKNESS_M} m (e.g. 2.4, 240cm); empty for none"
+                            )
+                        },
+                    )?;
+                    bed.slope_distance_m = Some(d);
+                    // The thickness follows when the section's traverse and bedding give it;
+                    // otherwise the inspector says what is missing and the thickness stays.
+                    if let Some(Ok(t)) = at.section.map(|s| record::true_thickness(d, s)) {
+                        if t.is_finite() && t > 0.0 {
+                            bed.thickness_m = t;
+                        }
+                    }
+                }
+            }
+            Typed::TraceFossil => {
+                record::add_name(&mut bed.trace_fossils, text);
+            }
+            Typed::BodyFossil => {
+                record::add_name(&mut bed.body_fossils, text);
+            }
         }
         check_bed(bed, Some(self))
     }
+}
+
+/// Read the height of sample `k` above the bed's base, typed in the display unit; empty for none.
+fn read_sample_height(text: &str, bed: &mut Bed, k: usize, unit: LengthUnit) -> Result<(), String> {
+    let label = sample_height_label(k);
+    let thickness = bed.thickness_m;
+    let Some(sample) = bed.samples.get_mut(k) else {
+        return Err(format!("{label}: the sample is no longer listed on this bed"));
+    };
+    sample.height_in_bed_m = if text.trim().is_empty() {
+        None
+    } else {
+        match parse_length(text, unit) {
+            Some(h) if (0.0..=thickness + 1e-9).contains(&h) => Some(h.min(thickness)),
+            _ => {
+                return Err(format!(
+                    "{label}: {text:?} is not a height from 0 to {} above the bed's base (e.g. 0.4, 40cm); empty for none",
+                    unit.length(thickness)
+                ))
+            }
+        }
+    };
+    check_bed(bed, None)
+}
+
+fn sample_height_label(k: usize) -> String {
+    format!("Height in bed of sample {}", k + 1)
 }
 
 /// A grain size typed in a field: empty for none, else a class (or its first letters) or a
@@ -189,12 +299,18 @@ fn check_bed(bed: &Bed, field: Option<Typed>) -> Result<(), String> {
 struct BedFields {
     /// Section index and bed id (bed ids are unique within a section only).
     key: (usize, BedId),
-    texts: [FieldText; 7],
+    texts: [FieldText; TYPED],
+    /// The height in bed of each sample, by the sample's place in the bed's list.
+    heights: BTreeMap<usize, FieldText>,
 }
 
 impl BedFields {
     fn new(key: (usize, BedId), bed: &Bed, unit: LengthUnit) -> Self {
-        BedFields { key, texts: Typed::ALL.map(|f| FieldText::new(&f.stored(bed, unit))) }
+        BedFields {
+            key,
+            texts: Typed::ALL.map(|f| FieldText::new(&f.stored(bed, unit))),
+            heights: BTreeMap::new(),
+        }
     }
 
     fn get(&mut self, f: Typed) -> &mut FieldText {
@@ -202,7 +318,27 @@ impl BedFields {
     }
 
     fn has_problem(&self) -> bool {
-        self.texts.iter().any(|t| t.problem.is_some())
+        self.texts.iter().chain(self.heights.values()).any(|t| t.problem.is_some())
+    }
+
+    fn has_uncommitted(&self) -> bool {
+        self.texts.iter().chain(self.heights.values()).any(FieldText::is_uncommitted)
+    }
+
+    /// Every field with its label (the typed fields, then the sample heights).
+    fn entries(&self) -> Vec<(String, &FieldText)> {
+        let typed = Typed::ALL.iter().zip(&self.texts).map(|(f, t)| (f.label().to_string(), t));
+        typed.chain(self.heights.iter().map(|(k, t)| (sample_height_label(*k), t))).collect()
+    }
+
+    /// Sample `k` was taken off the list: the height fields of the samples after it move up.
+    fn sample_removed(&mut self, k: usize) {
+        let old = std::mem::take(&mut self.heights);
+        self.heights = old
+            .into_iter()
+            .filter(|(i, _)| *i != k)
+            .map(|(i, t)| if i > k { (i - 1, t) } else { (i, t) })
+            .collect();
     }
 }
 
@@ -215,6 +351,8 @@ pub struct Inspector {
     drafts: BTreeMap<(usize, BedId), BedFields>,
     /// A problem that is not one field's (a lithology that needs a grain size first).
     problem: Option<String>,
+    /// What happened when a photo was asked to open (a file that is not there).
+    photo_note: Option<String>,
 }
 
 impl Inspector {
@@ -229,9 +367,9 @@ impl Inspector {
                 Some(i) => format!("{section_name}, bed {}", i + 1),
                 None => format!("{section_name}, a deleted bed"),
             };
-            for (f, t) in Typed::ALL.iter().zip(&fields.texts) {
+            for (label, t) in fields.entries() {
                 if t.problem.is_some() {
-                    out.push(format!("{place}: {} {:?}", f.label(), t.text));
+                    out.push(format!("{place}: {label} {:?}", t.text));
                 }
             }
         }
@@ -253,13 +391,23 @@ impl Inspector {
         if let Some(orig) = stored {
             let mut bed = orig.clone();
             let mut read = Vec::new();
+            let at = At { unit, section: Some(doc.section()) };
             for f in Typed::ALL {
                 let t = fields.get(f);
                 if t.is_uncommitted() && t.problem.is_none() {
                     let text = t.text.clone();
-                    match f.read(&text, &mut bed, unit) {
+                    match f.read(&text, &mut bed, at) {
                         Ok(()) => read.push(f),
                         Err(e) => fields.get(f).problem = Some(e),
+                    }
+                }
+            }
+            let mut heights_read = Vec::new();
+            for (k, t) in fields.heights.iter_mut() {
+                if t.is_uncommitted() && t.problem.is_none() {
+                    match read_sample_height(&t.text.clone(), &mut bed, *k, unit) {
+                        Ok(()) => heights_read.push(*k),
+                        Err(e) => t.problem = Some(e),
                     }
                 }
             }
@@ -269,9 +417,12 @@ impl Inspector {
                 for f in read {
                     fields.get(f).revert();
                 }
+                for k in heights_read {
+                    fields.heights.remove(&k);
+                }
             }
         }
-        if fields.has_problem() || (stored.is_none() && fields.texts.iter().any(FieldText::is_uncommitted)) {
+        if fields.has_problem() || (stored.is_none() && fields.has_uncommitted()) {
             self.drafts.insert(fields.key, fields);
         }
     }
@@ -290,7 +441,7 @@ impl Inspector {
                 let name = doc.project.sections.get(section).map(|s| s.name.as_str()).unwrap_or("?");
                 format!("A bed of section {name:?}")
             };
-            for (f, t) in Typed::ALL.iter().zip(&fields.texts) {
+            for (label, t) in fields.entries() {
                 if !t.is_uncommitted() {
                     continue;
                 }
@@ -298,12 +449,8 @@ impl Inspector {
                     ui,
                     |ui| {
                         ui.label(
-                            egui::RichText::new(format!(
-                                "{place}: {} {:?} was not stored",
-                                f.label(),
-                                t.text
-                            ))
-                            .color(super::field::INVALID),
+                            egui::RichText::new(format!("{place}: {label} {:?} was not stored", t.text))
+                                .color(super::field::INVALID),
                         );
                         if let Some(p) = &t.problem {
                             problem_label(ui, p);
@@ -357,14 +504,16 @@ impl Inspector {
             return;
         };
         let key = (doc.selected_section, orig.id);
-        let Some(mut fields) = self.fields.take() else { return };
+        let Some(fields) = self.fields.take() else { return };
         let index = doc.bed_index(orig.id).unwrap_or(0);
         let base_h = doc.section().base_heights_m().get(index).copied().unwrap_or(0.0);
-        let mut bed = orig.clone();
-        // A live text field changed (one undo step per typing run) or a committed field was read.
-        let mut text_field: Option<&'static str> = None;
-        let mut committed = false;
-        let cx = FieldCtx { key, unit, orig: &orig };
+        let mut form = Form {
+            cx: FieldCtx { key, unit, orig: &orig, section: doc.section() },
+            fields,
+            bed: orig.clone(),
+            live: None,
+            committed: false,
+        };
         ui.horizontal(|ui| {
             ui.heading(format!("Bed {}", index + 1));
             ui.label(
@@ -378,207 +527,18 @@ impl Inspector {
             );
         });
         egui::ScrollArea::vertical().id_salt("inspector_scroll").show(ui, |ui| {
-            egui::Grid::new("bed_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
-                let lab = ui.label(Typed::Thickness.label()).id;
-                committed |= cx.show(ui, lab, Typed::Thickness, &mut fields, &mut bed, FieldLook { hint: &format!("e.g. 1.25 ({})", unit.name()), tip: "Bed thickness in the section's display unit; add cm, m or ft to type another unit. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
-                ui.end_row();
-                problem_row(ui, &fields, Typed::Thickness);
-
-                let label = ui.label("Lithology").id;
-                let mut lith = bed.lithology;
-                if combo(ui, label, "lith", &mut lith, &Lithology::ALL, |l| l.name(), "Rock type of the bed") {
-                    match with_lithology(&bed, lith, &fields, unit) {
-                        Ok(b) => {
-                            bed = b;
-                            self.problem = None;
-                            for f in [Typed::GrainBase, Typed::GrainTop] {
-                                fields.get(f).problem = None;
-                                fields.get(f).revert();
-                            }
-                        }
-                        Err(e) => self.problem = Some(e),
-                    }
-                }
-                ui.end_row();
-                if let Some(p) = &self.problem {
-                    ui.label("");
-                    problem_label(ui, p);
-                    ui.end_row();
-                }
-
-                for f in [Typed::GrainBase, Typed::GrainTop] {
-                    let lab = ui.label(f.label()).id;
-                    committed |= cx.show(ui, lab, f, &mut fields, &mut bed, FieldLook { hint: "e.g. m, fine sand, 0.3mm", tip: "Wentworth class (or first letters), or a measured size in mm or phi; empty for none. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
-                    ui.end_row();
-                    problem_row(ui, &fields, f);
-                }
-
-                let label = ui.label("Basal contact").id;
-                combo(ui, label, "contact", &mut bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
-                ui.end_row();
-
-                let label = ui.label("Base rank").id;
-                let ranks = [None, Some(BaseRank::StoreySurface), Some(BaseRank::BodyBase), Some(BaseRank::WithinStorey)];
-                combo(ui, label, "base_rank", &mut bed.base_rank, &ranks, |r| r.map_or("rules decide", BaseRank::name), "Your rank for this base: a storey surface or a channel-body base starts a new storey (and body); within storey makes it a scour. Overrides the rules");
-                ui.end_row();
-
-                let lab = ui.label(Typed::Relief.label()).id;
-                let mut has = bed.base_relief_m.is_some();
-                ui.horizontal(|ui| {
-                    if ui.checkbox(&mut has, "").labelled_by(lab).on_hover_text("Relief measured at the base").changed() {
-                        bed.base_relief_m = has.then_some(0.1);
-                        fields.get(Typed::Relief).revert();
-                    }
-                    if bed.base_relief_m.is_some() {
-                        committed |= cx.show(ui, lab, Typed::Relief, &mut fields, &mut bed, FieldLook { hint: "e.g. 0.4", tip: "Erosional relief at the bed's base in the section's display unit (0 or more)", width: 110.0, char_limit: MAX_STRING_CHARS });
-                    }
-                });
-                ui.end_row();
-                problem_row(ui, &fields, Typed::Relief);
-
-                let label = ui.label("Paleosol").id;
-                combo(ui, label, "paleosol", &mut bed.paleosol, PaleosolDevelopment::ALL, |p| p.name(), "Degree of paleosol development");
-                ui.end_row();
-
-                let lab = ui.label("Carbonate stage").id;
-                ui.horizontal(|ui| {
-                    let mut has = bed.carbonate_stage.is_some();
-                    if ui.checkbox(&mut has, "").labelled_by(lab).on_hover_text("Carbonate morphological stage I–VI").changed() {
-                        bed.carbonate_stage = has.then_some(1);
-                    }
-                    if let Some(s) = bed.carbonate_stage.as_mut() {
-                        ui.add(egui::Slider::new(s, 1..=6).custom_formatter(|v, _| roman(v as u8).to_string()))
-                            .labelled_by(lab)
-                            .on_hover_text("Carbonate morphological stage, I to VI");
-                    }
-                });
-                ui.end_row();
-
-                ui.label("Colour");
-                if ui.add(egui::TextEdit::singleline(&mut bed.colour).desired_width(170.0).char_limit(MAX_STRING_CHARS)).on_hover_text("Colour as logged (e.g. 10YR 6/4, pale red)").changed() {
-                    text_field = Some("colour");
-                }
-                ui.end_row();
-
-                let lab = ui.label(Typed::Paleocurrents.label()).id;
-                committed |= cx.show(ui, lab, Typed::Paleocurrents, &mut fields, &mut bed, FieldLook { hint: "e.g. 120; 135; 140", tip: "Azimuths 0–360°, separated by ; or spaces. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
-                ui.end_row();
-                problem_row(ui, &fields, Typed::Paleocurrents);
-
-                ui.label("Fossils");
-                if ui.add(egui::TextEdit::singleline(&mut bed.fossils).desired_width(170.0).char_limit(MAX_STRING_CHARS)).on_hover_text("Body and trace fossils").changed() {
-                    text_field = Some("fossils");
-                }
-                ui.end_row();
-
-                let lab = ui.label(Typed::Samples.label()).id;
-                committed |= cx.show(ui, lab, Typed::Samples, &mut fields, &mut bed, FieldLook { hint: "e.g. CW-12; CW-13", tip: "Sample numbers, separated by ;. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
-                ui.end_row();
-                problem_row(ui, &fields, Typed::Samples);
-            });
-
-
-            ui.add_space(4.0);
-            // Root traces, slickensides, carbonate nodules and mottling are offered once, as
-            // paleosol features; a bed from an older file or table that holds one as a structure
-            // shows it here, ticked, with a button that moves it to the paleosol features.
-            egui::CollapsingHeader::new("Structures").default_open(true).show(ui, |ui| {
-                ui.horizontal_wrapped(|ui| {
-                    for s in Structure::ALL {
-                        let soil = shorthand::soil_feature(*s);
-                        let mut on = bed.structures.contains(s);
-                        if soil.is_some() && !on {
-                            continue;
-                        }
-                        let (label, tip) = match soil {
-                            Some(_) => (
-                                format!("{} (soil feature)", s.name()),
-                                format!("{} is a paleosol feature, recorded here as a structure (older files and tables). Untick to remove it", s.name()),
-                            ),
-                            None => (s.name().to_string(), format!("Seen in this bed: {} (code {})", s.name(), shorthand::short_code(*s))),
-                        };
-                        if ui.toggle_value(&mut on, label).on_hover_text(tip).changed() {
-                            if on {
-                                bed.structures.push(*s);
-                                bed.structures.sort();
-                            } else {
-                                bed.structures.retain(|x| x != s);
-                            }
-                        }
-                        if let Some(f) = soil {
-                            if ui.small_button("→ paleosol").on_hover_text(format!("Record {} as a paleosol feature instead", s.name())).clicked() {
-                                bed.structures.retain(|x| x != s);
-                                if !bed.paleosol_features.contains(&f) {
-                                    bed.paleosol_features.push(f);
-                                    bed.paleosol_features.sort();
-                                }
-                            }
-                        }
-                    }
-                });
-                ui.label(
-                    egui::RichText::new("Root traces, slickensides, carbonate nodules and mottling: under Paleosol features")
-                        .small()
-                        .color(theme::TEXT_DIM),
-                );
-            });
-            let soil_open = bed.paleosol != PaleosolDevelopment::None || !bed.paleosol_features.is_empty();
-            egui::CollapsingHeader::new("Paleosol features").default_open(soil_open).show(ui, |ui| {
-                ui.horizontal_wrapped(|ui| {
-                    for f in PaleosolFeature::ALL {
-                        let mut on = bed.paleosol_features.contains(f);
-                        let tip = format!(
-                            "{} seen in this bed: a mark of soil formation (code {} in the bed table's paleosol cell)",
-                            f.name(),
-                            shorthand::short_code(*f)
-                        );
-                        if ui.toggle_value(&mut on, f.name()).on_hover_text(tip).changed() {
-                            if on {
-                                bed.paleosol_features.push(*f);
-                                bed.paleosol_features.sort();
-                            } else {
-                                bed.paleosol_features.retain(|x| x != f);
-                            }
-                        }
-                    }
-                });
-            });
-            egui::CollapsingHeader::new("Surface at base").default_open(bed.base_surface.is_some()).show(ui, |ui| {
-                let mut has = bed.base_surface.is_some();
-                if ui.checkbox(&mut has, "Named surface at this bed's base").on_hover_text("Mark and name the surface at the bed's base").changed() {
-                    bed.base_surface = has.then(|| Surface { name: "S-1".into(), kind: SurfaceKind::Other });
-                    fields.get(Typed::SurfaceName).revert();
-                }
-                if bed.base_surface.is_some() {
-                    ui.horizontal(|ui| {
-                        let lab = ui.label("Name").id;
-                        committed |= cx.show(ui, lab, Typed::SurfaceName, &mut fields, &mut bed, FieldLook { hint: "e.g. SB-2", tip: "The surface's name, e.g. SB-2. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
-                    });
-                    if let Some(p) = &fields.texts[Typed::SurfaceName as usize].problem {
-                        problem_label(ui, p);
-                    }
-                }
-                if let Some(s) = bed.base_surface.as_mut() {
-                    ui.horizontal(|ui| {
-                        let label = ui.label("Kind").id;
-                        combo(ui, label, "surface_kind", &mut s.kind, SurfaceKind::ALL, |k| k.name(), "What kind of surface it is");
-                    });
-                }
-            });
-            ui.label("Notes");
-            if ui
-                .add(egui::TextEdit::multiline(&mut bed.notes).desired_rows(3).desired_width(f32::INFINITY))
-                .on_hover_text(format!("Free notes on this bed (at most {MAX_STRING_CHARS} characters)"))
-                .changed()
-            {
-                // egui's character limit holds for single-line fields only: stop the notes at
-                // the project file's limit here (counted in characters, as the file checks).
-                if let Some((cut, _)) = bed.notes.char_indices().nth(MAX_STRING_CHARS) {
-                    bed.notes.truncate(cut);
-                }
-                text_field = Some("notes");
-            }
+            self.main_grid(ui, &mut form);
+            form.readings(ui);
+            form.facies(ui);
+            form.colour(ui);
+            form.samples_and_photos(ui, doc, &mut self.photo_note);
+            form.fossils(ui);
+            form.structures(ui);
+            form.paleosol(ui);
+            form.surface(ui);
+            form.notes(ui);
         });
+        let Form { fields, bed, live, committed, .. } = form;
         self.fields = Some(fields);
 
         if bed != orig {
@@ -591,10 +551,151 @@ impl Inspector {
             } else {
                 Edit::ReplaceBed { bed: bed.clone() }
             };
-            match (text_field, committed) {
+            match (live, committed) {
                 (Some(field), false) => out.edit_in(edit, gesture_key(("inspector", bed.id.0, field))),
                 _ => out.edit(edit),
             }
+        }
+    }
+
+    /// The bed's first fields: its thickness and rock, its base and its paleocurrents.
+    fn main_grid(&mut self, ui: &mut egui::Ui, form: &mut Form<'_>) {
+        let unit = form.cx.unit;
+        egui::Grid::new("bed_fields").num_columns(2).spacing([10.0, 6.0]).show(ui, |ui| {
+            let lab = ui.label(Typed::Thickness.label()).id;
+            form.show(ui, lab, Typed::Thickness, FieldLook { hint: &format!("e.g. 1.25 ({})", unit.name()), tip: "Bed thickness in the section's display unit; add cm, m or ft to type another unit. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
+            ui.end_row();
+            form.problem_row(ui, Typed::Thickness);
+
+            let lab = ui.label(Typed::SlopeDistance.label()).id;
+            form.show(ui, lab, Typed::SlopeDistance, FieldLook { hint: "taped along the ground", tip: "The distance measured along the ground across this bed, in the display unit. With the section's traverse and bedding attitude (Section details) it gives the bed's true thickness. Stored when you press Enter or leave the field; empty for none", width: 170.0, char_limit: MAX_STRING_CHARS });
+            ui.end_row();
+            form.problem_row(ui, Typed::SlopeDistance);
+            if let Some(d) = form.bed.slope_distance_m {
+                let note = match record::true_thickness(d, form.cx.section) {
+                    Ok(t) => format!("True thickness from it: {}", unit.length(t)),
+                    Err(why) => format!("Thickness not worked out: {why}"),
+                };
+                ui.label("");
+                ui.add(egui::Label::new(egui::RichText::new(note).small().color(theme::TEXT_DIM)).wrap());
+                ui.end_row();
+            }
+
+            let label = ui.label("Lithology").id;
+            let mut lith = form.bed.lithology;
+            if combo(ui, label, "lith", &mut lith, &Lithology::ALL, |l| l.name(), "Rock type of the bed") {
+                match with_lithology(&form.bed, lith, &form.fields, unit) {
+                    Ok(b) => {
+                        form.bed = b;
+                        self.problem = None;
+                        for f in [Typed::GrainBase, Typed::GrainTop] {
+                            form.fields.get(f).problem = None;
+                            form.fields.get(f).revert();
+                        }
+                    }
+                    Err(e) => self.problem = Some(e),
+                }
+            }
+            ui.end_row();
+            if let Some(p) = &self.problem {
+                ui.label("");
+                problem_label(ui, p);
+                ui.end_row();
+            }
+
+            for f in [Typed::GrainBase, Typed::GrainTop] {
+                let lab = ui.label(f.label()).id;
+                form.show(ui, lab, f, FieldLook { hint: "e.g. m, fine sand, 0.3mm", tip: "Wentworth class (or first letters), or a measured size in mm or phi; empty for none. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
+                ui.end_row();
+                form.problem_row(ui, f);
+            }
+
+            let label = ui.label("Basal contact").id;
+            combo(ui, label, "contact", &mut form.bed.base_contact, Contact::ALL, |c| c.name(), "Nature of the bed's base");
+            ui.end_row();
+
+            let label = ui.label("Base rank").id;
+            let ranks = [None, Some(BaseRank::StoreySurface), Some(BaseRank::BodyBase), Some(BaseRank::WithinStorey)];
+            combo(ui, label, "base_rank", &mut form.bed.base_rank, &ranks, |r| r.map_or("rules decide", BaseRank::name), "Your rank for this base: a storey surface or a channel-body base starts a new storey (and body); within storey makes it a scour. Overrides the rules");
+            ui.end_row();
+
+            let lab = ui.label(Typed::Relief.label()).id;
+            let mut has = form.bed.base_relief_m.is_some();
+            ui.horizontal(|ui| {
+                if ui.checkbox(&mut has, "").labelled_by(lab).on_hover_text("Relief measured at the base").changed() {
+                    form.bed.base_relief_m = has.then_some(0.1);
+                    form.fields.get(Typed::Relief).revert();
+                }
+                if form.bed.base_relief_m.is_some() {
+                    form.show(ui, lab, Typed::Relief, FieldLook { hint: "e.g. 0.4", tip: "Erosional relief at the bed's base in the section's display unit (0 or more)", width: 110.0, char_limit: MAX_STRING_CHARS });
+                }
+            });
+            ui.end_row();
+            form.problem_row(ui, Typed::Relief);
+
+            let lab = ui.label("Lag composition").id;
+            form.live_text(ui, lab, "lag", 0, |b| &mut b.lag_composition, "e.g. quartzite pebbles, mud clasts", "What the clasts of a basal lag are made of");
+            ui.end_row();
+
+            let lab = ui.label(Typed::Paleocurrents.label()).id;
+            form.show(ui, lab, Typed::Paleocurrents, FieldLook { hint: "e.g. 210t 185p/22 40a/12", tip: "Azimuths 0–360° as measured, separated by spaces or ;, each with an optional indicator code (t trough axis, p planar foreset, r ripple, i imbrication, pl parting lineation, f flute cast, g groove cast, a accretion surface) and /dip. Stored when you press Enter or leave the field", width: 170.0, char_limit: MAX_STRING_CHARS });
+            ui.end_row();
+            form.problem_row(ui, Typed::Paleocurrents);
+        });
+    }
+}
+
+/// The bed being edited in one frame: its typed fields, the copy that becomes the edit, and
+/// how it changed.
+struct Form<'a> {
+    cx: FieldCtx<'a>,
+    fields: BedFields,
+    /// The bed as edited this frame (compared with the stored bed at the end).
+    bed: Bed,
+    /// A live text field changed (one undo step per typing run): its name and place in a list.
+    live: Option<(&'static str, usize)>,
+    /// A committed field was read.
+    committed: bool,
+}
+
+impl Form<'_> {
+    /// A committed field (see [`FieldCtx::show`]).
+    fn show(&mut self, ui: &mut egui::Ui, label: egui::Id, f: Typed, look: FieldLook<'_>) {
+        self.committed |= self.cx.show(ui, label, f, &mut self.fields, &mut self.bed, look);
+    }
+
+    /// The problem of a committed field, on a grid row of its own right under the field.
+    fn problem_row(&self, ui: &mut egui::Ui, f: Typed) {
+        problem_row(ui, &self.fields, f);
+    }
+
+    /// A free text stored as typed (each keystroke a whole value, one undo step per typing run).
+    #[allow(clippy::too_many_arguments)]
+    fn live_text(
+        &mut self,
+        ui: &mut egui::Ui,
+        label: egui::Id,
+        name: &'static str,
+        place: usize,
+        text: impl FnOnce(&mut Bed) -> &mut String,
+        hint: &str,
+        tip: &str,
+    ) {
+        let id = egui::Id::unique(("inspector_live", name, place, self.cx.key));
+        let t = text(&mut self.bed);
+        if ui
+            .add(
+                egui::TextEdit::singleline(t)
+                    .id(id)
+                    .hint_text(hint)
+                    .desired_width(170.0)
+                    .char_limit(MAX_STRING_CHARS),
+            )
+            .labelled_by(label)
+            .on_hover_text(tip)
+            .changed()
+        {
+            self.live = Some((name, place));
         }
     }
 }
@@ -605,6 +706,8 @@ struct FieldCtx<'a> {
     unit: LengthUnit,
     /// The bed as stored.
     orig: &'a Bed,
+    /// Its section (the traverse and bedding a slope distance is read with).
+    section: &'a Section,
 }
 
 impl FieldCtx<'_> {
@@ -622,9 +725,9 @@ impl FieldCtx<'_> {
         let id = egui::Id::unique(("inspector_field", f as u8, self.key));
         let stored = f.stored(self.orig, self.unit);
         let mut candidate = bed.clone();
-        let unit = self.unit;
+        let at = At { unit: self.unit, section: Some(self.section) };
         let (r, value) = committed_field(ui, id, fields.get(f), &stored, look, |text| {
-            f.read(text, &mut candidate, unit).map(|_| candidate)
+            f.read(text, &mut candidate, at).map(|_| candidate)
         });
         r.labelled_by(label);
         match value {
@@ -633,6 +736,43 @@ impl FieldCtx<'_> {
                 true
             }
             None => false,
+        }
+    }
+
+    /// The height field of sample `k`.
+    fn show_height(
+        &self,
+        ui: &mut egui::Ui,
+        k: usize,
+        fields: &mut BedFields,
+        bed: &mut Bed,
+    ) -> (egui::Response, bool) {
+        let id = egui::Id::unique(("inspector_sample_height", k, self.key));
+        let stored = self
+            .orig
+            .samples
+            .get(k)
+            .and_then(|s| s.height_in_bed_m)
+            .map(|h| show_length(h, self.unit))
+            .unwrap_or_default();
+        let state = fields.heights.entry(k).or_insert_with(|| FieldText::new(&stored));
+        let mut candidate = bed.clone();
+        let unit = self.unit;
+        let look = FieldLook {
+            hint: unit.name(),
+            tip: "Height of the sample above the bed's base, in the display unit; empty if not noted. Stored when you press Enter or leave the field",
+            width: 56.0,
+            char_limit: 40,
+        };
+        let (r, value) = committed_field(ui, id, state, &stored, look, |text| {
+            read_sample_height(text, &mut candidate, k, unit).map(|_| candidate)
+        });
+        match value {
+            Some(b) => {
+                *bed = b;
+                (r, true)
+            }
+            None => (r, false),
         }
     }
 }
@@ -740,9 +880,6 @@ mod tests {
         Typed::GrainTop.read("vf", &mut bare, unit).expect("a class");
         assert_eq!(bare.grain_base, Some(GrainSize::Class(WentworthClass::VeryFineSand)));
         let mut b = sand.clone();
-        Typed::Samples.read(" CW-1; ;CW-2 ", &mut b, unit).expect("samples");
-        assert_eq!(aggrade_core::model::shorthand::samples_code(&b.samples), "CW-1; CW-2");
-        let mut b = sand.clone();
         Typed::Relief.read("40cm", &mut b, unit).expect("relief");
         assert_eq!(b.base_relief_m, Some(0.4));
         assert!(Typed::Relief.read("-1", &mut b, unit).is_err());
@@ -782,8 +919,54 @@ mod tests {
         assert_eq!(b.azimuths().collect::<Vec<_>>(), vec![120.0, 135.0, 140.0, 0.0, 360.0]);
         for bad in ["400", "north"] {
             let e = Typed::Paleocurrents.read(bad, &mut b, unit).expect_err(bad);
-            assert!(e.starts_with("Paleocurrents (°):") && e.contains("0–360"), "{e}");
+            assert!(e.starts_with("Paleocurrents (°):") && e.contains("0 to 360°"), "{e}");
         }
         assert_eq!(roman(4), "IV");
+    }
+
+    #[test]
+    fn the_field_records_values_read_whole_or_are_refused_naming_the_field() {
+        use aggrade_core::model::{BeddingAttitude, Traverse};
+        let unit = LengthUnit::Metre;
+        let sand =
+            Bed::new(BedId(1), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::FineSand)));
+        // Munsell notation as on the Munsell Soil Color Charts: hue value/chroma.
+        let mut b = sand.clone();
+        Typed::Munsell.read("10yr 5/4", &mut b, unit).expect("a notation");
+        assert_eq!(Typed::Munsell.stored(&b, unit), "10YR 5/4");
+        let e = Typed::Munsell.read("brownish", &mut b, unit).expect_err("words");
+        assert!(e.starts_with("Munsell colour:") && e.contains("10YR 5/4"), "{e}");
+        Typed::Munsell.read(" ", &mut b, unit).expect("empty for none");
+        assert_eq!(b.munsell, None);
+        // Horizon designations after the Soil Survey Staff (Keys to Soil Taxonomy).
+        Typed::SoilHorizon.read("Bk2", &mut b, unit).expect("a horizon");
+        assert_eq!(b.soil_horizon.as_ref().map(|h| h.as_str()), Some("Bk2"));
+        assert!(Typed::SoilHorizon.read("bt", &mut b, unit).expect_err("case").starts_with("Soil horizon:"));
+        // Fossil names are added once, and the field is empty again for the next.
+        Typed::TraceFossil.read(" Skolithos ", &mut b, unit).expect("a name");
+        Typed::TraceFossil.read("skolithos", &mut b, unit).expect("again");
+        assert_eq!(b.trace_fossils, ["Skolithos"]);
+        assert_eq!(Typed::TraceFossil.stored(&b, unit), "");
+        // A slope distance with no traverse or bedding is kept; the thickness stays.
+        let mut s = Section::new("t");
+        let mut b = sand.clone();
+        Typed::SlopeDistance.read("4", &mut b, At { unit, section: Some(&s) }).expect("a distance");
+        assert_eq!((b.slope_distance_m, b.thickness_m), (Some(4.0), 2.0));
+        assert!(Typed::SlopeDistance.read("-1", &mut b, unit).is_err());
+        // With both, the true thickness follows. Flat ground, walking down the dip direction of
+        // beds dipping 30°: t = s·sin 30° (Compton 1985).
+        s.traverse = Some(Traverse { bearing_deg: 90.0, slope_deg: 0.0 });
+        s.bedding = Some(BeddingAttitude { dip_deg: 30.0, dip_direction_deg: 90.0 });
+        Typed::SlopeDistance.read("4", &mut b, At { unit, section: Some(&s) }).expect("a distance");
+        assert!((b.thickness_m - 2.0).abs() < 1e-9 && b.slope_distance_m == Some(4.0), "{}", b.thickness_m);
+        Typed::SlopeDistance.read("3", &mut b, At { unit, section: Some(&s) }).expect("a distance");
+        assert!((b.thickness_m - 1.5).abs() < 1e-9, "{}", b.thickness_m);
+        // A sample's height lies within its bed.
+        let mut b = sand.clone();
+        b.samples.push(aggrade_core::model::Sample::labelled("CW-1"));
+        read_sample_height("40cm", &mut b, 0, unit).expect("inside");
+        assert_eq!(b.samples[0].height_in_bed_m, Some(0.4));
+        let e = read_sample_height("2.5", &mut b, 0, unit).expect_err("above the top");
+        assert!(e.starts_with("Height in bed of sample 1:") && e.contains("2.00 m"), "{e}");
     }
 }
