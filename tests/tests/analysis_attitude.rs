@@ -177,9 +177,9 @@ fn restoration_and_thickness_match_numpy() {
 
 #[test]
 fn restoring_a_cross_bed_set_textbook_case() {
-    // The textbook situation (Potter & Pettijohn 1977, ch. 10, described from memory): a
-    // foreset measured on tilted beds gives a wrong current direction until the beds are
-    // rotated back. Hand-worked here on the stereonet's geometry: beds dip 40° toward 000; a
+    // The textbook situation (Potter & Pettijohn 1977, Paleocurrents and Basin Analysis;
+    // described from memory): a foreset measured on tilted beds gives a wrong current direction
+    // until the beds are rotated back. Hand-worked here on the stereonet's geometry: beds dip 40° toward 000; a
     // foreset dipping 40° + 20° = 60° toward 000 lies in the vertical plane of the dip, so the
     // rotation about strike only subtracts the bedding dip: it restores to 20° toward 000.
     let b = BeddingAttitude { dip_deg: 40.0, dip_direction_deg: 0.0 };
@@ -202,7 +202,7 @@ fn restoring_a_cross_bed_set_textbook_case() {
 
 #[test]
 fn true_thickness_textbook_cases() {
-    // Compton 1985 (Manual of Field Geology, thickness from a traverse; from memory): on level
+    // Compton 1985 (Geology in the Field, thickness from a traverse; from memory): on level
     // ground across strike t = s·sin δ; where the hillside and the beds dip in opposite
     // directions t = s·sin(δ + σ), where they dip the same way t = s·sin(δ − σ).
     let b = BeddingAttitude { dip_deg: 25.0, dip_direction_deg: 270.0 };

@@ -10,7 +10,8 @@
 //!
 //! # Restoring to horizontal
 //! The standard stereonet procedure for tilted paleocurrents (Potter & Pettijohn 1977,
-//! Paleocurrents and Basin Analysis, ch. 10; Ragan, Structural Geology, the chapter on rotations;
+//! Paleocurrents and Basin Analysis, 2nd ed.; Ragan, Structural Geology: An Introduction to
+//! Geometrical Techniques, on rotations;
 //! Marshak & Mitra 1988, Basic Methods of Structural Geology): rotate every measurement about the
 //! strike of bedding by the bedding dip, in the sense that brings bedding back to horizontal.
 //! Here the rotation is done with vectors (Rodrigues' formula) instead of on a net. Small
@@ -365,8 +366,9 @@ pub fn thickness_factor(traverse: &Traverse, bedding: &BeddingAttitude) -> Resul
 
 /// True (stratigraphic) thickness from a slope distance measured along the ground.
 ///
-/// `t = s·|sin δ·cos σ·sin α + cos δ·sin σ|` (Compton 1985, Manual of Field Geology, on
-/// thickness from a traverse; Ragan, Structural Geology, the same relation), where
+/// `t = s·|sin δ·cos σ·sin α + cos δ·sin σ|` (Compton 1985, Geology in the Field, and its
+/// predecessor Manual of Field Geology, 1962, on thickness from a traverse; Ragan, Structural
+/// Geology, the same relation; page numbers not checked), where
 /// - `s` = `slope_distance_m`, the distance along the ground (not its horizontal projection);
 /// - `δ` = bedding dip, `0–90°`;
 /// - `σ` = ground slope along the traverse, **signed**: positive uphill in the direction walked;
