@@ -45,7 +45,7 @@ fn invented_section() -> Section {
         state = state.wrapping_mul(6_364_136_223_846_793_005).wrapping_add(1_442_695_040_888_963_407);
         (state >> 33) % n
     };
-    let mut push = |s: &mut Section, k: Kind, erosional: bool| {
+    let push = |s: &mut Section, k: Kind, erosional: bool| {
         let id = s.next_bed_id();
         let mut b = Bed::new(id, 0.5 + (id.0 % 5) as f64 * 0.3, k.0, Some(GrainSize::Class(k.1)));
         b.structures = vec![k.2];

@@ -101,7 +101,7 @@ mod tests {
             assert_eq!(FaciesCode::parse(&c.code().to_lowercase()), Some(*c));
         }
         assert_eq!(FaciesCode::parse("Sx"), None);
-        assert_eq!(serde_json::to_string(&FaciesCode::Fsm).unwrap(), "\"Fsm\"");
+        assert_eq!(serde_json::to_string(&FaciesCode::Fsm).expect("a code serialises"), "\"Fsm\"");
         assert!(serde_json::from_str::<FaciesCode>("\"Q\"").is_err());
     }
 }
