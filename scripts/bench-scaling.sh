@@ -1,54 +1,69 @@
 #!/usr/bin/env bash
-# How the command line scales with section size: generates one-section projects of 1,000 /
-# 10,000 / 100,000 beds (bed patterns cycled from the invented demo sections, thicknesses jittered
-# with a fixed seed), then times `aggrade check`, `aggrade interpret --json` and `aggrade export`
-# on a release build (and `check` on the same files with one bad bed), and measures the peak memory
-# (maximum resident set size) of each.
+# How every command scales with section size: generates one-section projects of 1,000 / 10,000 /
+# 100,000 beds (bed patterns cycled from the invented demo sections, thicknesses jittered with a
+# fixed seed) and projects of 10 sections of 1,000 and of 10,000 beds for the correlation panel,
+# then runs each command on a release build and records its wall time, user CPU time and peak
+# memory (maximum resident set size), with the growth per tenfold.
 #
-#   scripts/bench-scaling.sh [--no-build]        (AGGRADE_BIN=target/debug/aggrade to time a debug build)
+#   scripts/bench-scaling.sh [--no-build] [RUNS]      (RUNS per command and size, default 3;
+#                                                      the 100,000-bed runs are at most 2)
+#   AGGRADE_BIN=target/debug/aggrade scripts/bench-scaling.sh --no-build   (another build)
 #
-# Needs python3, /usr/bin/time (GNU time) and, for wall times, hyperfine (apt install hyperfine;
-# without it each command is timed three times with /usr/bin/time). Runs under nice: the figures
-# are wall times on whatever else the machine is doing, so note the load beside them.
-# Results: target/bench-scaling/results.md (figures to copy into BENCHMARKS.md).
+# Needs python3 and /usr/bin/time (GNU time). Each figure is the median of the runs, taken with
+# GNU time (%e wall, %U user, %M max RSS). Wall times are on whatever else the machine is doing:
+# the load average is written beside each command. Results: target/bench-scaling/results.md.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 out=target/bench-scaling
 mkdir -p "$out"
-if [ "${1:-}" != "--no-build" ]; then
-    nice -n 19 cargo build --release --workspace --bins
+if [ "${1:-}" = "--no-build" ]; then
+    shift
+else
+    nice -n 19 cargo build --release -p aggrade
 fi
+runs="${1:-3}"
 # AGGRADE_BIN=path measures another build (e.g. target/debug/aggrade while the release build runs).
 bin="${AGGRADE_BIN:-$PWD/target/release/aggrade}"
 [ -x "$bin" ] || { echo "no release binary at $bin; run without --no-build" >&2; exit 1; }
 
-# The generator: each size is the demo's beds in order, repeated, with ids renumbered and surface
-# names made unique; thickness jittered ±20 % so no two repeats are identical.
+# The generator: each section is the demo's beds in order (shifted by 7 beds per section of a
+# panel project), repeated, with ids renumbered and surface names made unique; thickness jittered
+# ±20 % so no two repeats are identical. Written in the demo file's own format version. Only every
+# 50th bed keeps its note, so 100,000 beds stay under the 32 MiB file limit.
 python3 - "$out" <<'PY'
 import json, random, sys
 out = sys.argv[1]
 demo = json.load(open("sample_sections/demo.aggrade"))
 pattern = [b for s in demo["sections"] for b in s["beds"]]
-for n in (1_000, 10_000, 100_000):
-    rng = random.Random(20261201)
+def section(name, n, shift, seed):
+    rng = random.Random(seed)
     beds = []
     for i in range(n):
-        b = dict(pattern[i % len(pattern)])
+        b = dict(pattern[(i + shift) % len(pattern)])
         b["id"] = i + 1
+        if i % 50:
+            b.pop("notes", None)
         b["thickness_m"] = round(max(0.01, b["thickness_m"] * rng.uniform(0.8, 1.2)), 3)
         if "base_surface" in b:
             b["base_surface"] = dict(b["base_surface"], name=f'{b["base_surface"]["name"]}-{i}')
         beds.append(b)
-    section = {"name": f"Scaling {n}", "locality": "Tamsin Ridge badlands (invented)", "beds": beds}
-    with open(f"{out}/beds_{n}.aggrade", "w") as f:
-        # Compact: the 100,000-bed file is 29.6 MB so, under the 32 MiB read limit (pretty: 52.6 MB).
-        json.dump({"format_version": 1, "sections": [section]}, f, separators=(",", ":"))
+    return {"name": name, "locality": "Tamsin Ridge badlands (invented)", "beds": beds}
+def write(path, sections):
+    with open(path, "w") as f:
+        json.dump({"format_version": demo["format_version"], "sections": sections}, f, separators=(",", ":"))
         f.write("\n")
+for n in (1_000, 10_000, 100_000):
+    write(f"{out}/beds_{n}.aggrade", [section(f"Scaling {n}", n, 0, 20261201)])
+for n in (1_000, 10_000):
+    panel = []
+    for j in range(10):
+        s = section(f"Panel {j + 1}", n, 7 * j, 20261203 + j)
+        s["panel_position_m"] = 1500.0 * j
+        panel.append(s)
+    write(f"{out}/panel_10x{n}.aggrade", panel)
 PY
-ls -l "$out"/beds_*.aggrade
-
-# The same files with one bad bed near the end (an id written as text): the reader's slower path
-# that names every problem, bed by bed.
+# The same sections with one bad bed near the end (an id written as text): the reader's slower
+# path that names every problem, bed by bed; and as bed-table CSV, the import door's input.
 python3 - "$out" <<'PY'
 import sys
 out = sys.argv[1]
@@ -58,53 +73,84 @@ for n in (1_000, 10_000, 100_000):
     assert key in text
     open(f"{out}/bad_{n}.aggrade", "w").write(text.replace(key, f'"id":"{n - 10}",', 1))
 PY
+for n in 1000 10000 100000; do
+    rm -f "$out/beds_$n.csv"
+    "$bin" convert "$out/beds_$n.aggrade" "$out/beds_$n.csv" >/dev/null 2>&1
+done
+ls -l "$out"/beds_*.aggrade "$out"/panel_*.aggrade "$out"/beds_*.csv
 
 res="$out/results.md"
+raw="$out/runs.tsv"
+: > "$raw"
 {
-    echo "# scaling run $(date -u +%Y-%m-%dT%H:%MZ), $bin, $(nproc) cores, load average $(cut -d' ' -f1-3 /proc/loadavg)"
+    echo "# scaling run $(date -u +%Y-%m-%dT%H:%MZ), $bin, $(nproc) cores, load average at start $(cut -d' ' -f1-3 /proc/loadavg)"
     echo
 } > "$res"
-export_works=yes
-if ! "$bin" export "$out/beds_1000.aggrade" --pdf "$out/probe.pdf" >/dev/null 2>&1; then
-    export_works=no
-    echo "aggrade export --pdf does not run on this build; skipped" | tee -a "$res"
-fi
+
+# One command at one size: RUNS runs under GNU time (a file the command writes is removed before
+# each run, so `import` always makes a new project); one line per run in runs.tsv.
+measure() {
+    local label="$1" n="$2" k
+    shift 2
+    local r="$runs"
+    [ "$n" -ge 100000 ] && [ "$r" -gt 2 ] && r=2
+    for ((k = 0; k < r; k++)); do
+        rm -f "$out/import_$n.aggrade" "$out/import_$n.aggrade.bak"
+        local load
+        load=$(cut -d' ' -f1 /proc/loadavg)
+        # A bad file makes `check` exit 1; that is the case being measured.
+        /usr/bin/time -f "%e %U %M" -o "$out/time.txt" "$@" >/dev/null 2>"$out/stderr.txt" || true
+        printf '%s\t%s\t%s\t%s\n' "$label" "$n" "$(cat "$out/time.txt" | tail -1 | tr ' ' '\t')" "$load" >> "$raw"
+    done
+}
+
 for n in 1000 10000 100000; do
     f="$out/beds_$n.aggrade"
-    cmds=("$bin check $f" "$bin interpret --json $f")
-    [ "$export_works" = yes ] && cmds+=("$bin export $f --pdf $out/beds_$n.pdf")
-    if command -v hyperfine >/dev/null; then
-        # A bad file makes `check` exit 1: -i lets hyperfine time it anyway.
-        nice -n 19 hyperfine --warmup 1 --runs "$([ "$n" -eq 100000 ] && echo 2 || echo 3)" -N -i \
-            --export-json "$out/hf_$n.json" --output=null "${cmds[@]}" "$bin check $out/bad_$n.aggrade"
-        # Mean wall and user CPU time per command (hyperfine's JSON has both).
-        python3 - "$out/hf_$n.json" "$n" >> "$res" <<'PY'
-import json, os, sys
-runs = json.load(open(sys.argv[1]))["results"]
-print(f"| command ({sys.argv[2]} beds) | wall mean ± σ | user mean | runs |")
-print("|---|---|---|---|")
-for r in runs:
-    cmd = " ".join(os.path.basename(w) for w in r["command"].split())
-    print(f"| `{cmd}` | {r['mean']:.3f} s ± {r['stddev'] or 0:.3f} | {r['user']:.3f} s | {len(r['times'])} |")
+    measure "check" "$n" "$bin" check "$f"
+    measure "check, one bad bed" "$n" "$bin" check "$out/bad_$n.aggrade"
+    measure "interpret" "$n" "$bin" interpret "$f"
+    measure "interpret --json" "$n" "$bin" interpret --json "$f"
+    measure "export --pdf (A4)" "$n" "$bin" export "$f" --pdf "$out/beds_$n.pdf"
+    measure "export --svg (one tall page)" "$n" "$bin" export "$f" --svg "$out/beds_$n.svg"
+    measure "stats" "$n" "$bin" stats "$f"
+    measure "bodies --csv" "$n" "$bin" bodies "$f" --csv "$out/bodies_$n.csv"
+    measure "panel --pdf (one section)" "$n" "$bin" panel "$f" --pdf "$out/panel_$n.pdf"
+    measure "import (bed-table CSV)" "$n" "$bin" import "$out/beds_$n.csv" --out "$out/import_$n.aggrade"
+done
+for n in 1000 10000; do
+    f="$out/panel_10x$n.aggrade"
+    measure "panel --pdf, 10 sections of N beds" "$n" "$bin" panel "$f" --pdf "$out/panel_10x$n.pdf"
+    measure "panel --svg, 10 sections of N beds" "$n" "$bin" panel "$f" --svg "$out/panel_10x$n.svg"
+    measure "interpret --json, 10 sections of N beds (reading + rules)" "$n" "$bin" interpret --json --section "Panel 1" "$f"
+done
+
+# The table: median wall (user) time and peak memory per size, and the growth of each per tenfold.
+python3 - "$raw" >> "$res" <<'PY'
+import statistics, sys
+rows = [l.rstrip("\n").split("\t") for l in open(sys.argv[1]) if l.strip()]
+data, order = {}, []
+for label, n, wall, user, kb, load in rows:
+    if label not in data:
+        order.append(label)
+    data.setdefault(label, {}).setdefault(int(n), []).append((float(wall), float(user), int(kb), float(load)))
+sizes = [1000, 10000, 100000]
+print("| command | " + " | ".join(f"{n:,} beds: wall (user), max RSS" for n in sizes) + " | growth per tenfold: wall; RSS | load |")
+print("|---|" + "---|" * (len(sizes) + 2))
+for label in order:
+    cells, walls, rss, loads = [], [], [], []
+    for n in sizes:
+        runs = data[label].get(n)
+        if not runs:
+            cells.append("–")
+            continue
+        w = statistics.median(r[0] for r in runs)
+        u = statistics.median(r[1] for r in runs)
+        m = max(r[2] for r in runs) / 1000
+        walls.append(w)
+        rss.append(m)
+        loads += [r[3] for r in runs]
+        cells.append(f"{w:.2f} s ({u:.2f} s), {m:.1f} MB")
+    growth = lambda v: ", ".join(f"×{b / a:.1f}" if a > 0 else "–" for a, b in zip(v, v[1:]))
+    print(f"| `{label}` | " + " | ".join(cells) + f" | {growth(walls)}; {growth(rss)} | {min(loads):.1f}–{max(loads):.1f} |")
 PY
-    else
-        for c in "${cmds[@]}"; do
-            for _ in 1 2 3; do /usr/bin/time -f "$n beds: %e s wall, %U s user, %M KB max RSS: $c" $c >/dev/null 2>>"$res"; done
-        done
-    fi
-    echo >> "$res"
-done
-# Peak memory (maximum resident set size, GNU time) of each command; target for interpret on the
-# largest section: < 200 MB.
-echo "| command | beds | max RSS (MB) |" >> "$res"
-echo "|---|---|---|" >> "$res"
-for n in 1000 10000 100000; do
-    for c in "check $out/beds_$n.aggrade" "check $out/bad_$n.aggrade" "interpret --json $out/beds_$n.aggrade" \
-        "export $out/beds_$n.aggrade --pdf $out/beds_$n.pdf"; do
-        [ "$export_works" = no ] && [ "${c#export}" != "$c" ] && continue
-        /usr/bin/time -v "$bin" $c >/dev/null 2>"$out/time.txt" || true
-        kb=$(grep 'Maximum resident set size' "$out/time.txt" | awk '{print $NF}')
-        echo "| \`${c%% *} ${c#* }\` | $n | $(awk -v k="$kb" 'BEGIN{printf "%.1f", k/1000}') |" | sed "s|$out/||g" >> "$res"
-    done
-done
 cat "$res"

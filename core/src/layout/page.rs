@@ -121,6 +121,8 @@ pub struct PageStream<'a> {
     next: usize,
     /// Heights the column may be cut at between pieces without cutting an interpretation interval.
     cuts: PieceCuts,
+    /// The header's measurement lines, the same on every page.
+    setting: Vec<String>,
 }
 
 /// Lay out the printed pages lazily: the page breaks are worked out first (cheap: heights only),
@@ -141,7 +143,9 @@ pub fn page_stream<'a>(
     let curves_note = curves_note(ctx.tracks.curves.count, section.curves.len());
     let strip_w = ctx.tracks.width_mm;
     let page_w = opts.page_size_mm().map(|(w, _)| w).unwrap_or((strip_w + 2.0 * margin).max(210.0));
-    let setting_h = setting_lines(section, page_w - 2.0 * margin).len() as f64 * SETTING_LINE_MM;
+    // Worked out once: the slope note counts beds, so per page it grew with pages × beds.
+    let setting = setting_lines(section, page_w - 2.0 * margin);
+    let setting_h = setting.len() as f64 * SETTING_LINE_MM;
     let header_h = HEADER_MM + if meta.subtitle.is_empty() { 0.0 } else { 3.0 } + setting_h;
     let mm_per_m = 1000.0 / opts.scale();
     let total_mm = ctx.total_m * mm_per_m;
@@ -225,6 +229,7 @@ pub fn page_stream<'a>(
         plan,
         next: 0,
         cuts,
+        setting,
     }
 }
 
@@ -295,7 +300,7 @@ impl PageStream<'_> {
         let margin = frame.margin;
         let strip_w = ctx.tracks.width_mm;
         let whole = piece_beds == usize::MAX;
-        draw_header(ctx.section, opts, self.meta, frame, self.header_h, items);
+        draw_header(ctx.section, opts, self.meta, frame, self.header_h, &self.setting, items);
         if plan.legend {
             draw_legend(&self.entries, margin, margin + self.header_h, self.usable_w, items);
         }
@@ -471,6 +476,7 @@ fn draw_header(
     meta: &PrintMeta,
     f: &Frame,
     header_h: f64,
+    setting: &[String],
     out: &mut Vec<Item>,
 ) {
     let m = f.margin;
@@ -514,7 +520,7 @@ fn draw_header(
         y_line += 3.0;
     }
     // How and where the section was measured (the base coordinates among the GPS fixes).
-    for line in setting_lines(section, right - m) {
+    for line in setting {
         text(out, m, y_line + 0.3, &line, SETTING_PT, INK);
         y_line += SETTING_LINE_MM;
     }
