@@ -67,11 +67,6 @@ pub const MAX_FIXES_PER_SECTION: usize = 1_000;
 /// keep the general [`MAX_STRING_CHARS`], as in version-1 files.
 pub const MAX_RECORD_NAME_CHARS: usize = 200;
 
-/// Largest slope distance accepted for one bed, metres: the distance along the ground across a
-/// bed exceeds its thickness where slope and dip are nearly parallel, but 10 km across one bed
-/// is a typing or unit mistake.
-pub const MAX_SLOPE_DISTANCE_M: f64 = 10_000.0;
-
 /// Widest channel body accepted, metres. Channel belts of the largest rivers reach tens of
 /// kilometres (Gibling 2006, J. Sed. Research 76, 731–770); 100 km seen across one outcrop is a
 /// typing or unit mistake.

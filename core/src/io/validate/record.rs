@@ -7,7 +7,7 @@
 use super::{check_text, show};
 use crate::io::limits::{
     ELEVATION_RANGE_M, MAX_BED_THICKNESS_M, MAX_BODY_WIDTH_M, MAX_FIXES_PER_SECTION,
-    MAX_RECORD_ITEMS_PER_BED, MAX_RECORD_NAME_CHARS, MAX_SLOPE_DISTANCE_M,
+    MAX_RECORD_ITEMS_PER_BED, MAX_RECORD_NAME_CHARS,
 };
 use crate::io::{Problem, Warning};
 use crate::model::{Bed, Munsell, Project, Section};
@@ -125,10 +125,10 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
     }
     check_text(out, &at("lag_composition"), &bed.lag_composition);
     if let Some(d) = bed.slope_distance_m {
-        if !(d.is_finite() && d > 0.0 && d <= MAX_SLOPE_DISTANCE_M) {
+        if !(d.is_finite() && d > 0.0 && d <= MAX_BED_THICKNESS_M) {
             out.push(Problem::new(
                 at("slope_distance_m"),
-                format!("must be > 0 and ≤ {MAX_SLOPE_DISTANCE_M} m, got {}", show(d)),
+                format!("must be > 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(d)),
             ));
         }
     }
