@@ -225,3 +225,33 @@ fn true_thickness_textbook_cases() {
     let t = true_thickness_m(40.0, &oblique, &b).expect("valid");
     assert!((t - 40.0 * 25f64.to_radians().sin() * 0.5).abs() < 1e-9, "{t}");
 }
+
+#[test]
+fn column_help_names_the_restored_azimuths() {
+    use aggrade_core::layout::sample::{sample_interpretation, sample_section};
+    use aggrade_core::layout::{column_help_at, column_tracks, LayoutOptions, Pointed};
+    let mut s = sample_section();
+    let i = sample_interpretation(&s);
+    let opts = LayoutOptions::default();
+    let tr = column_tracks(&s, &opts).paleocurrents;
+    // The sample's bed 4 carries six plain readings (a rose).
+    let bases = s.base_heights_m();
+    let h = bases[3] + s.beds[3].thickness_m / 2.0;
+    let at = Pointed { x_mm: tr.x_mm + tr.w_mm / 2.0, height_m: h, tolerance_m: 0.05 };
+    let measured: Vec<f64> = s.beds[3].azimuths().collect();
+    let plain = column_help_at(&s, &i, &opts, at).expect("readings");
+    assert!(plain.contains("(flow azimuths, north up"), "{plain}");
+    assert!(plain.contains(&format!("{:03.0}\u{b0}", measured[0])), "{plain}");
+    // Tilted 20° toward 100: the help lists the restored azimuths and says so.
+    let b = BeddingAttitude { dip_deg: 20.0, dip_direction_deg: 100.0 };
+    s.bedding = Some(b);
+    let tilted = column_help_at(&s, &i, &opts, at).expect("readings");
+    assert!(
+        tilted.contains("restored to horizontal from bedding dipping 20\u{b0} toward 100\u{b0}"),
+        "{tilted}"
+    );
+    let restored: Vec<String> =
+        measured.iter().map(|a| format!("{:03.0}\u{b0}", restore_line_in_bedding(*a, &b))).collect();
+    assert!(tilted.contains(&restored.join(", ")), "{tilted} vs {restored:?}");
+    assert_ne!(plain, tilted);
+}
