@@ -5,6 +5,7 @@ mod harness;
 
 mod background;
 mod base_rank;
+mod body_widths;
 mod column_help;
 mod curves;
 mod document_model;

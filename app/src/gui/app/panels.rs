@@ -211,6 +211,9 @@ impl AggradeApp {
         if let Some((title, text)) = out.error {
             self.message = Some(Notice::new(title, text));
         }
+        if let Some(edit) = out.edit {
+            self.apply(edit);
+        }
     }
 }
 

@@ -1,17 +1,19 @@
-//! Channel-body statistics view: every body of every section, the thickness summary with
-//! P10/P50/P90, proportions, decompacted thicknesses for a burial depth, and CSV export.
+//! Channel-body statistics view: every body of every section with its width (typed here, an
+//! undoable edit), width/thickness and geometry class, the thickness summary with P10/P50/P90,
+//! proportions, decompacted thicknesses for a burial depth, and CSV export.
 
 use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
 use crate::gui::chooser::{PickFor, SaveKind};
+use crate::gui::document::Edit;
 use crate::gui::error::{WriteError, Written};
 use crate::gui::theme;
 use aggrade_core::analysis::bodies::{
-    body_table, thickness_summary, write_bodies_csv, write_interval_proportions_csv,
-    write_proportion_curve_csv, BodyRow, ThicknessSummary,
+    body_table_with_lateral, thickness_summary, unmatched_lateral, write_bodies_csv,
+    write_interval_proportions_csv, write_proportion_curve_csv, BodyRow, ThicknessSummary,
 };
 use aggrade_core::analysis::decompaction::{decompact_section, DecompactionParams, SectionDecompaction};
 use aggrade_core::analysis::AnalysisError;
-use aggrade_core::model::{GrainSize, Project};
+use aggrade_core::model::{BedId, GrainSize, Project};
 use aggrade_core::rules::sensitivity::stability_text;
 use aggrade_core::rules::{ChannelBody, Element, Interpretation, ProportionBounds};
 
@@ -53,6 +55,10 @@ pub struct SectionLine {
 #[derive(Debug, Clone, PartialEq)]
 pub struct BodiesResult {
     pub rows: Vec<BodyRow>,
+    /// Index in the project of each row's section (same order as `rows`).
+    pub row_section: Vec<usize>,
+    /// Widths recorded for a bed at which no body starts now, as sentences (kept in the file).
+    pub unmatched: Vec<String>,
     pub summary: Option<ThicknessSummary>,
     /// Decompacted thickness of each row (same order), when decompaction is on and worked.
     pub decompacted_m: Vec<Option<f64>>,
@@ -62,10 +68,24 @@ pub struct BodiesResult {
 
 /// Compute the table, the summaries and (with a burial depth) the decompacted thicknesses.
 pub fn compute(project: &Project, interps: &[Interpretation], burial_depth_m: Option<f64>) -> BodiesResult {
-    let rows = body_table(interps.iter().map(|i| (i.section.as_str(), i.channel_bodies.as_slice())));
+    let rows = body_table_with_lateral(project.sections.iter().zip(interps));
     let mut decompacted_m = Vec::with_capacity(rows.len());
     let mut sections = Vec::new();
-    for (s, it) in project.sections.iter().zip(interps) {
+    let mut row_section = Vec::with_capacity(rows.len());
+    let mut unmatched = Vec::new();
+    for (k, (s, it)) in project.sections.iter().zip(interps).enumerate() {
+        row_section.extend(std::iter::repeat_n(k, it.channel_bodies.len()));
+        for l in unmatched_lateral(s, it) {
+            let at = match s.bed_index(l.base_bed) {
+                Some(i) => format!("bed {}", i + 1),
+                None => "a deleted bed".to_string(),
+            };
+            let width = l.width_m.map_or_else(|| "no width".to_string(), |w| format!("{w} m wide"));
+            unmatched.push(format!(
+                "{}: a body recorded at {at} ({width}) — no body starts there now; the record stays in the file",
+                s.name
+            ));
+        }
         let decompaction = burial_depth_m.map(|depth| {
             let flags: Vec<bool> = it.elements.iter().map(|e| *e == Element::ChannelDeposit).collect();
             decompact_section(s, depth, Some(&flags), &DecompactionParams::default())
@@ -98,7 +118,36 @@ pub fn compute(project: &Project, interps: &[Interpretation], burial_depth_m: Op
         None
     };
     let summary = thickness_summary(&rows);
-    BodiesResult { rows, summary, decompacted_m, decompacted_summary, sections }
+    BodiesResult { rows, row_section, unmatched, summary, decompacted_m, decompacted_summary, sections }
+}
+
+/// The width as typed back into its cell: "120", "85.5", empty when none.
+pub fn width_text(w: Option<f64>) -> String {
+    w.map(|w| format!("{w}")).unwrap_or_default()
+}
+
+/// Read a typed width (metres): empty for none, else a number above 0 ("120", "120 m", "85,5").
+pub fn parse_width(text: &str) -> Result<Option<f64>, String> {
+    let t = text.trim();
+    if t.is_empty() {
+        return Ok(None);
+    }
+    let number = t.strip_suffix('m').map_or(t, str::trim_end).replace(',', ".");
+    match number.parse::<f64>() {
+        Ok(w) if w.is_finite() && w > 0.0 => Ok(Some(w)),
+        _ => {
+            Err(format!("{t:?} is not a width: type the body's width in metres, e.g. 120, or leave it empty"))
+        }
+    }
+}
+
+/// The width/thickness and class cells of a row: "≥ 40.0" and "at least narrow sheet", or "–"
+/// where no width is recorded.
+pub fn geometry_cells(r: &BodyRow) -> [String; 2] {
+    match r.geometry {
+        Some(g) => [g.ratio_text(), g.class.name().to_string()],
+        None => ["–".to_string(), "–".to_string()],
+    }
 }
 
 fn grain(g: Option<GrainSize>) -> String {
@@ -191,6 +240,9 @@ pub struct BodiesView {
     cache: Option<((u64, Option<u64>), BodiesResult)>,
     /// How many times the table was computed (stays put while nothing changes).
     pub computations: u64,
+    /// The width cell being typed in (section index, base bed) and its text, kept while it has
+    /// focus or holds a value that did not read.
+    editing: Option<((usize, BedId), String)>,
 }
 
 impl Default for BodiesView {
@@ -201,6 +253,7 @@ impl Default for BodiesView {
             burial_depth_m: DEFAULT_BURIAL_DEPTH_M,
             cache: None,
             computations: 0,
+            editing: None,
         }
     }
 }
@@ -394,6 +447,10 @@ impl BodiesView {
             "base (m)",
             "top (m)",
             "thickness (m)",
+            "width (m)",
+            "beyond outcrop",
+            "w/t",
+            "class",
             "storeys",
             "stacking",
             "grain (finest – coarsest)",
@@ -410,7 +467,24 @@ impl BodiesView {
                 row.push(cell);
             }
         }
-        text_table(ui, "bodies_table", &header, &rows);
+        // The table's cells edit through `self`: hold the computed table aside while drawing it.
+        let cache = self.cache.take();
+        if let Some((_, r)) = &cache {
+            self.body_table(ui, &header, r, &rows, out);
+            for line in &r.unmatched {
+                ui.label(egui::RichText::new(line).small().color(theme::WARN));
+            }
+        }
+        self.cache = cache;
+        ui.label(
+            egui::RichText::new(
+                "Width: across the outcrop, m; tick \"beyond outcrop\" when the body runs on, so the width is a \
+                 minimum. Class by w/t (Gibling 2006, after Friend et al. 1979): ribbon < 15, narrow sheet 15–100, \
+                 broad sheet > 100; ≥ / ≤ mark a ratio that is only a bound (a width or thickness that is a minimum).",
+            )
+            .small()
+            .color(theme::TEXT_DIM),
+        );
         if let Some(checked) = v.stability {
             ui.label(
                 egui::RichText::new(format!(
@@ -423,6 +497,7 @@ impl BodiesView {
                 .color(theme::TEXT_DIM),
             );
         }
+        let Some((_, r)) = self.cache.as_ref() else { return };
         if r.summary.as_ref().is_some_and(|s| s.censored > 0) {
             ui.label(
                 egui::RichText::new(
@@ -434,6 +509,107 @@ impl BodiesView {
         }
         ui.add_space(6.0);
         caution(ui);
+    }
+}
+
+impl BodiesView {
+    /// The body table: text cells, with each body's width and "beyond outcrop" editable (each
+    /// change one undoable edit of the document) and its w/t and class shown.
+    fn body_table(
+        &mut self,
+        ui: &mut egui::Ui,
+        header: &[&str],
+        r: &BodiesResult,
+        rows: &[Vec<String>],
+        out: &mut ViewsOutcome,
+    ) {
+        egui::ScrollArea::horizontal().id_salt("bodies_table").show(ui, |ui| {
+            egui::Grid::new("bodies_table").striped(true).spacing([12.0, 3.0]).show(ui, |ui| {
+                for h in header {
+                    ui.label(egui::RichText::new(*h).strong());
+                }
+                ui.end_row();
+                for ((row, cells), &sec) in r.rows.iter().zip(rows).zip(&r.row_section) {
+                    for cell in &cells[..4] {
+                        ui.label(cell);
+                    }
+                    match row.base_bed {
+                        Some(bed) => self.lateral_cells(ui, sec, bed, row, out),
+                        None => {
+                            ui.label("–");
+                            ui.label("–");
+                        }
+                    }
+                    for cell in geometry_cells(row) {
+                        ui.label(cell);
+                    }
+                    for cell in &cells[4..] {
+                        ui.label(cell);
+                    }
+                    ui.end_row();
+                }
+            });
+        });
+    }
+
+    /// The width cell and the "beyond outcrop" box of one body.
+    fn lateral_cells(
+        &mut self,
+        ui: &mut egui::Ui,
+        sec: usize,
+        bed: BedId,
+        row: &BodyRow,
+        out: &mut ViewsOutcome,
+    ) {
+        let key = (sec, bed);
+        let mut text = match &self.editing {
+            Some((k, t)) if *k == key => t.clone(),
+            _ => width_text(row.width_m),
+        };
+        let bad = parse_width(&text).is_err();
+        let mut edit = egui::TextEdit::singleline(&mut text)
+            .id_salt(("body_width", sec, bed.0))
+            .desired_width(64.0)
+            .hint_text("width (m)");
+        if bad {
+            edit = edit.text_color(theme::WARN);
+        }
+        let resp = ui.add(edit).on_hover_text(
+            "Width of the body across the outcrop, metres (Enter or leaving the cell stores it; empty for none)",
+        );
+        if resp.has_focus() || bad {
+            self.editing = Some((key, text.clone()));
+        }
+        if resp.lost_focus() {
+            match parse_width(&text) {
+                Ok(w) => {
+                    self.editing = None;
+                    if w != row.width_m {
+                        out.edit = Some(Edit::SetBodyLateral {
+                            section: sec,
+                            base_bed: bed,
+                            width_m: w,
+                            beyond_outcrop: row.beyond_outcrop,
+                        });
+                    }
+                }
+                Err(why) => out.error = Some(("Width not stored".into(), why)),
+            }
+        } else if !resp.has_focus() && !bad && self.editing.as_ref().is_some_and(|(k, _)| *k == key) {
+            self.editing = None;
+        }
+        let mut beyond = row.beyond_outcrop;
+        let resp = ui.checkbox(&mut beyond, "");
+        // The box shows no text of its own (the column header says it): name it for screen readers.
+        resp.widget_info(|| egui::WidgetInfo::selected(egui::Role::CheckBox, true, beyond, "beyond outcrop"));
+        if resp.on_hover_text("The body runs on beyond the outcrop: its width is a minimum").changed() {
+            out.edit = Some(Edit::SetBodyLateral {
+                section: sec,
+                base_bed: bed,
+                width_m: row.width_m,
+                beyond_outcrop: beyond,
+            });
+        }
     }
 }
 

@@ -30,6 +30,8 @@ pub struct ViewsOutcome {
     pub status: Option<String>,
     /// A message for a dialog (title, text).
     pub error: Option<(String, String)>,
+    /// An edit of the document (a body's width typed in the body table).
+    pub edit: Option<crate::gui::document::Edit>,
 }
 
 /// A p-value as shown: "< 0.0001" when tiny, else four decimals.
