@@ -229,7 +229,10 @@ mod tests {
             v1_path("sections[0].beds[3].paleocurrents[2].azimuth_deg").as_deref(),
             Some("sections[0].beds[3].paleocurrents_deg[2]")
         );
-        assert_eq!(v1_path("sections[0].beds[1].samples[0].id").as_deref(), Some("sections[0].beds[1].samples[0]"));
+        assert_eq!(
+            v1_path("sections[0].beds[1].samples[0].id").as_deref(),
+            Some("sections[0].beds[1].samples[0]")
+        );
         assert_eq!(v1_path("sections[0].beds[1].notes"), None);
     }
 

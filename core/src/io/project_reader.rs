@@ -11,10 +11,10 @@ use super::field_check::{check, describe, first_wrong_field, FieldCheck};
 use super::json_scan::KnownFields;
 use super::problem::Problem;
 use crate::model::{
-    BaseRank, BeddingAttitude, Bed, BodyLateral, Contact, Drainage, FaciesCode, FixRole, GpsFix, GrainSize,
-    Indicator, LatLon, LengthUnit, Lithology, MeasuringMethod, Munsell, PaleosolDevelopment, PaleosolFeature,
-    Paleocurrent, Photo, Project, ReviewDecision, Sample, SampleKind, Section, SoilHorizon, Structure, Surface,
-    Traverse,
+    BaseRank, Bed, BeddingAttitude, BodyLateral, Contact, Drainage, FaciesCode, FixRole, GpsFix, GrainSize,
+    Indicator, LatLon, LengthUnit, Lithology, MeasuringMethod, Munsell, Paleocurrent, PaleosolDevelopment,
+    PaleosolFeature, Photo, Project, ReviewDecision, Sample, SampleKind, Section, SoilHorizon, Structure,
+    Surface, Traverse,
 };
 use serde::de::{DeserializeOwned, MapAccess, SeqAccess, Visitor};
 use serde::Deserialize;
@@ -41,7 +41,8 @@ fn string_list(v: &Value) -> Result<(), String> {
 fn check_paleocurrent(v: &Value) -> Result<(), String> {
     let whole = check::<Paleocurrent>(v);
     let Some(obj) = v.as_object() else {
-        return whole.map_err(|_| format!("a reading must be an object {{\"azimuth_deg\": …}}, got {}", describe(v)));
+        return whole
+            .map_err(|_| format!("a reading must be an object {{\"azimuth_deg\": …}}, got {}", describe(v)));
     };
     let fields: [(&str, bool, FieldCheck); 3] = [
         ("azimuth_deg", true, check::<f64>),

@@ -85,7 +85,10 @@ impl<'de> Deserialize<'de> for FaciesCode {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
         let text = String::deserialize(d)?;
         FaciesCode::parse(&text).ok_or_else(|| {
-            serde::de::Error::custom(format!("unknown lithofacies code {text:?}; valid codes are {}", FaciesCode::valid_list()))
+            serde::de::Error::custom(format!(
+                "unknown lithofacies code {text:?}; valid codes are {}",
+                FaciesCode::valid_list()
+            ))
         })
     }
 }

@@ -93,8 +93,10 @@ impl Munsell {
         let upper = t.to_uppercase();
         // Split "10YR5/4" into "10", "YR", "5/4".
         let digits_end = upper.find(|c: char| !(c.is_ascii_digit() || c == '.')).ok_or_else(bad)?;
-        let letters_end =
-            upper[digits_end..].find(|c: char| !c.is_ascii_alphabetic()).map(|i| i + digits_end).ok_or_else(bad)?;
+        let letters_end = upper[digits_end..]
+            .find(|c: char| !c.is_ascii_alphabetic())
+            .map(|i| i + digits_end)
+            .ok_or_else(bad)?;
         let step_text = &upper[..digits_end];
         let hue = &upper[digits_end..letters_end];
         let (value_text, chroma_text) = upper[letters_end..].split_once('/').ok_or_else(bad)?;
@@ -106,7 +108,8 @@ impl Munsell {
             if !step_text.is_empty() {
                 return Err(bad());
             }
-            let chroma: f64 = if chroma_text.is_empty() { 0.0 } else { chroma_text.parse().map_err(|_| bad())? };
+            let chroma: f64 =
+                if chroma_text.is_empty() { 0.0 } else { chroma_text.parse().map_err(|_| bad())? };
             if chroma != 0.0 {
                 return Err(bad());
             }
@@ -115,7 +118,7 @@ impl Munsell {
         let hue = HUE_LETTERS.iter().find(|h| **h == hue).ok_or_else(bad)?;
         let hue_step: f64 = step_text.parse().map_err(|_| bad())?;
         let chroma: f64 = chroma_text.parse().map_err(|_| bad())?;
-        if !(hue_step > 0.0 && hue_step <= 10.0) || !(0.0..=30.0).contains(&chroma) {
+        if !(hue_step > 0.0 && hue_step <= 10.0 && (0.0..=30.0).contains(&chroma)) {
             return Err(bad());
         }
         Ok(Munsell { hue_step, hue: hue.to_string(), value, chroma })
@@ -174,7 +177,8 @@ impl SoilHorizon {
             return Err(bad());
         }
         let rest = &rest[masters..];
-        let rest = rest.strip_prefix('/').map_or(rest, |r| r.trim_start_matches(|c: char| "OAEBCR".contains(c)));
+        let rest =
+            rest.strip_prefix('/').map_or(rest, |r| r.trim_start_matches(|c: char| "OAEBCR".contains(c)));
         let suffix_end = rest.find(|c: char| !HORIZON_SUFFIXES.contains(c)).unwrap_or(rest.len());
         let tail = &rest[suffix_end..];
         if !tail.chars().all(|c| c.is_ascii_digit()) {
@@ -236,15 +240,30 @@ mod tests {
     #[test]
     fn munsell_notations_of_the_soil_charts_read_and_write_back() {
         // Notation as printed on the Munsell Soil Color Charts (hue value/chroma; N for neutral).
-        for (text, written) in
-            [("10YR 5/4", "10YR 5/4"), ("2.5y 6/2", "2.5Y 6/2"), ("5R4/6", "5R 4/6"), ("N 7/", "N 7/"), ("N 7/0", "N 7/")]
-        {
+        for (text, written) in [
+            ("10YR 5/4", "10YR 5/4"),
+            ("2.5y 6/2", "2.5Y 6/2"),
+            ("5R4/6", "5R 4/6"),
+            ("N 7/", "N 7/"),
+            ("N 7/0", "N 7/"),
+        ] {
             let m = Munsell::parse(text).unwrap_or_else(|e| panic!("{text}: {e}"));
             assert_eq!(m.to_string(), written);
         }
         let m = Munsell::parse("7.5YR 4/6").expect("reads");
         assert_eq!((m.hue_step, m.hue.as_str(), m.value, m.chroma), (7.5, "YR", 4.0, 6.0));
-        for bad in ["", "red", "10XX 5/4", "10YR 5", "10YR 11/4", "0YR 5/4", "12YR 5/4", "N 5/3", "5 5/4", "10YR 5/x"] {
+        for bad in [
+            "",
+            "red",
+            "10XX 5/4",
+            "10YR 5",
+            "10YR 11/4",
+            "0YR 5/4",
+            "12YR 5/4",
+            "N 5/3",
+            "5 5/4",
+            "10YR 5/x",
+        ] {
             assert!(Munsell::parse(bad).is_err(), "{bad:?} must not read");
         }
     }

@@ -7,8 +7,8 @@ use super::lithology::Lithology;
 use super::record::{Munsell, Paleocurrent, Photo, Sample, SoilHorizon};
 use super::setting::{BeddingAttitude, GpsFix, Traverse};
 use super::vocab::{
-    BaseRank, Contact, Drainage, LengthUnit, MeasuringMethod, PaleosolDevelopment, PaleosolFeature, Structure,
-    SurfaceKind,
+    BaseRank, Contact, Drainage, LengthUnit, MeasuringMethod, PaleosolDevelopment, PaleosolFeature,
+    Structure, SurfaceKind,
 };
 use serde::{Deserialize, Serialize};
 

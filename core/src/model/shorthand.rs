@@ -921,8 +921,14 @@ mod tests {
         assert!(paleocurrents("210p/95").is_err());
         assert_eq!(paleocurrents_code(&az(&[200.0, 212.5])), "200 212.5");
         let typed = paleocurrents("210t 185P/22 40a/12.5").expect("reads");
-        assert_eq!(typed[0], Paleocurrent { azimuth_deg: 210.0, indicator: Indicator::TroughAxis, dip_deg: None });
-        assert_eq!(typed[1], Paleocurrent { azimuth_deg: 185.0, indicator: Indicator::PlanarForeset, dip_deg: Some(22.0) });
+        assert_eq!(
+            typed[0],
+            Paleocurrent { azimuth_deg: 210.0, indicator: Indicator::TroughAxis, dip_deg: None }
+        );
+        assert_eq!(
+            typed[1],
+            Paleocurrent { azimuth_deg: 185.0, indicator: Indicator::PlanarForeset, dip_deg: Some(22.0) }
+        );
         assert_eq!(typed[2].indicator, Indicator::AccretionSurface);
         assert_eq!(paleocurrents_code(&typed), "210t 185p/22 40a/12.5");
         assert_eq!(paleocurrents(&paleocurrents_code(&typed)), Ok(typed));
@@ -954,8 +960,15 @@ mod tests {
         assert_eq!(rank_entry(" "), Ok(None));
         assert!(rank_entry("x").is_err());
         assert_eq!(samples(" CW-1; ;CW-2 ", &[]), vec![Sample::labelled("CW-1"), Sample::labelled("CW-2")]);
-        let kept = Sample { id: "CW-2".into(), kind: Some(crate::model::SampleKind::DetritalZircon), height_in_bed_m: Some(0.4) };
-        assert_eq!(samples("CW-2; CW-3", std::slice::from_ref(&kept)), vec![kept.clone(), Sample::labelled("CW-3")]);
+        let kept = Sample {
+            id: "CW-2".into(),
+            kind: Some(crate::model::SampleKind::DetritalZircon),
+            height_in_bed_m: Some(0.4),
+        };
+        assert_eq!(
+            samples("CW-2; CW-3", std::slice::from_ref(&kept)),
+            vec![kept.clone(), Sample::labelled("CW-3")]
+        );
         assert_eq!(samples_code(&[kept, Sample::labelled("CW-3")]), "CW-2; CW-3");
     }
 }
