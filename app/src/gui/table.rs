@@ -14,11 +14,13 @@
 //! in `keys`.
 
 mod cells;
+mod columns;
 mod keys;
 pub(super) mod split;
 
 use cells::{describe, read_row, Cell, Texts};
 use cells::{new_template, CELLS};
+use columns::{Columns, Extra};
 use keys::RowKey;
 
 use super::actions::{gesture_key, Actions};
@@ -60,6 +62,8 @@ pub struct BedTable {
     last_selected: Option<BedId>,
     /// Rows shown in the last frame.
     visible_rows: std::ops::Range<usize>,
+    /// The optional columns shown (their cells join the entry row).
+    columns: Columns,
 }
 
 impl Default for BedTable {
@@ -73,9 +77,14 @@ impl Default for BedTable {
             note: None,
             last_selected: None,
             visible_rows: 0..0,
+            columns: Columns::default(),
         }
     }
 }
+
+/// The least width of the table's six columns (number, top, thickness, lithology, grain, more),
+/// points: optional columns beyond it make the table scroll sideways.
+const TABLE_MIN_BASE_W: f32 = 330.0;
 
 /// Scroll offset (points) that puts `row` a few rows below the top of the table, if it is not
 /// among the rows shown; `None` when it is already in view.
@@ -109,6 +118,11 @@ pub fn show_length(m: f64, unit: LengthUnit) -> String {
 }
 
 impl BedTable {
+    /// A table whose choice of optional columns is kept in Aggrade's data folder.
+    pub fn with_settings_in(data_dir: &std::path::Path) -> Self {
+        BedTable { columns: Columns::load(data_dir), ..Default::default() }
+    }
+
     /// One line for each cell typed in the entry row and not yet stored (a new bed not yet
     /// added, or a loaded bed's changed cells), for the window's backup.
     pub fn unstored_lines(&self) -> Vec<String> {
@@ -221,6 +235,7 @@ impl BedTable {
                     action = Some(RowKey::Commit { above_selection: true });
                 }
             }
+            self.columns_menu(ui);
         });
         // The live reading of the row.
         let reading = self.read(doc);
@@ -245,7 +260,9 @@ impl BedTable {
             Some(RowKey::Step { forward }) => {
                 let from = typing_in.or(self.focused_last).unwrap_or(Cell::Thickness);
                 self.check_cell(doc, from);
-                self.focus(&ctx, from.step(forward));
+                let columns = &self.columns;
+                let next = from.step(forward, |c| columns.cell_shown(c));
+                self.focus(&ctx, next);
             }
             Some(RowKey::Commit { above_selection }) => self.commit(&ctx, doc, out, above_selection),
             Some(RowKey::Leave) => {
@@ -280,7 +297,13 @@ impl BedTable {
         let problems: Vec<Cell> = self.problems.iter().map(|(c, _)| *c).collect();
         let w = ui.available_width();
         let gap = ui.spacing().item_spacing.x;
-        for line in Cell::LINES {
+        // The optional columns' cells, on a line of their own while shown.
+        let optional: Vec<Cell> =
+            Cell::OPTIONAL.into_iter().filter(|c| self.columns.cell_shown(*c)).collect();
+        let share = if optional.is_empty() { 0.0 } else { 1.0 / optional.len().max(3) as f32 };
+        let extra_line: Vec<(Cell, f32)> = optional.iter().map(|c| (*c, share)).collect();
+        let lines = Cell::LINES.into_iter().chain((!extra_line.is_empty()).then_some(extra_line.as_slice()));
+        for line in lines {
             ui.horizontal(|ui| {
                 let room = w - gap * (line.len() as f32 - 1.0);
                 for (cell, share) in line {
@@ -434,7 +457,26 @@ impl BedTable {
         self.focus(ctx, Cell::Thickness);
     }
 
+    /// The table of beds, top first; with optional columns that do not fit beside the six, it
+    /// scrolls sideways (the entry row above stays in place).
     fn table(&mut self, ui: &mut egui::Ui, doc: &Document, out: &mut Actions) {
+        let extras_w: f32 = self.columns.shown().map(|e| e.width()).sum();
+        let avail = ui.available_width();
+        let width = avail.max(TABLE_MIN_BASE_W + extras_w);
+        if width <= avail {
+            self.table_body(ui, doc, out, width);
+        } else {
+            egui::ScrollArea::horizontal().id_salt("bed_table_sideways").auto_shrink([false, false]).show(
+                ui,
+                |ui| {
+                    ui.set_width(width);
+                    self.table_body(ui, doc, out, width);
+                },
+            );
+        }
+    }
+
+    fn table_body(&mut self, ui: &mut egui::Ui, doc: &Document, out: &mut Actions, width: f32) {
         let s = doc.section();
         let unit = s.display_unit;
         let n = s.beds.len();
@@ -444,18 +486,34 @@ impl BedTable {
         let cols = [0.0f32, 0.09, 0.24, 0.37, 0.62, 0.73, 1.0];
         let top_label = format!("top ({})", unit.name());
         let header = ["#", top_label.as_str(), "thick.", "lithology", "grain", "more"];
-        let (hrect, _) = ui.allocate_exact_size(egui::vec2(ui.available_width(), 18.0), egui::Sense::hover());
+        let (hrect, _) = ui.allocate_exact_size(egui::vec2(width, 18.0), egui::Sense::hover());
         let font = egui::FontId::proportional(11.5);
+        // The optional columns take their own widths on the right; the 6 columns share the rest.
+        let extras: Vec<Extra> = self.columns.shown().collect();
+        let extras_w: f32 = extras.iter().map(|e| e.width()).sum();
+        let base_w = (width - extras_w).max(TABLE_MIN_BASE_W);
+        let mut x0 = hrect.left() + base_w;
+        for e in &extras {
+            let clip = egui::Rect::from_x_y_ranges(x0..=(x0 + e.width() - 2.0), hrect.y_range());
+            ui.painter().with_clip_rect(clip).text(
+                egui::pos2(x0 + 3.0, hrect.center().y),
+                egui::Align2::LEFT_CENTER,
+                e.heading(),
+                font.clone(),
+                theme::TEXT_DIM,
+            );
+            x0 += e.width();
+        }
         for (k, name) in header.iter().enumerate() {
             let numeric = (1..=2).contains(&k);
             let x = if numeric {
-                hrect.left() + cols[k + 1] * hrect.width() - 8.0
+                hrect.left() + cols[k + 1] * base_w - 8.0
             } else {
-                hrect.left() + cols[k] * hrect.width() + 4.0
+                hrect.left() + cols[k] * base_w + 4.0
             };
             let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
             let clip = egui::Rect::from_x_y_ranges(
-                (hrect.left() + cols[k] * hrect.width())..=(hrect.left() + cols[k + 1] * hrect.width()),
+                (hrect.left() + cols[k] * base_w)..=(hrect.left() + cols[k + 1] * base_w),
                 hrect.y_range(),
             );
             ui.painter().with_clip_rect(clip).text(
@@ -492,8 +550,7 @@ impl BedTable {
                     (Some(a), _) => short(a),
                     (None, _) => "—".into(),
                 };
-                let (rect, r) =
-                    ui.allocate_exact_size(egui::vec2(ui.available_width(), row_h), egui::Sense::click());
+                let (rect, r) = ui.allocate_exact_size(egui::vec2(width, row_h), egui::Sense::click());
                 let bg = if selected {
                     theme::SELECT_FILL
                 } else if r.hovered() {
@@ -531,17 +588,31 @@ impl BedTable {
                 for (k, text) in cells.into_iter().enumerate() {
                     let numeric = (1..=2).contains(&k);
                     let x = if numeric {
-                        rect.left() + cols[k + 1] * rect.width() - 8.0
+                        rect.left() + cols[k + 1] * base_w - 8.0
                     } else {
-                        rect.left() + cols[k] * rect.width() + 4.0
+                        rect.left() + cols[k] * base_w + 4.0
                     };
                     let align = if numeric { egui::Align2::RIGHT_CENTER } else { egui::Align2::LEFT_CENTER };
                     let colour = if k == 0 || k == 5 { theme::TEXT_DIM } else { theme::TEXT };
                     let clip = egui::Rect::from_x_y_ranges(
-                        (rect.left() + cols[k] * rect.width())..=(rect.left() + cols[k + 1] * rect.width() - 2.0),
+                        (rect.left() + cols[k] * base_w)..=(rect.left() + cols[k + 1] * base_w - 2.0),
                         rect.y_range(),
                     );
                     p.with_clip_rect(clip).text(egui::pos2(x, rect.center().y), align, text, font.clone(), colour);
+                }
+                let mut x0 = rect.left() + base_w;
+                for e in &extras {
+                    let (text, suggested) = e.shown(b);
+                    let clip = egui::Rect::from_x_y_ranges(x0..=(x0 + e.width() - 2.0), rect.y_range());
+                    let colour = if suggested { theme::TEXT_DIM } else { theme::TEXT };
+                    p.with_clip_rect(clip).text(
+                        egui::pos2(x0 + 3.0, rect.center().y),
+                        egui::Align2::LEFT_CENTER,
+                        text,
+                        font.clone(),
+                        colour,
+                    );
+                    x0 += e.width();
                 }
                 // Written only while hovered: the table draws thousands of beds a frame apart.
                 let r = r.on_hover_ui(|ui| {
@@ -570,6 +641,34 @@ impl BedTable {
         });
         if let Some(id) = load {
             self.load(ui.ctx(), doc, id);
+        }
+    }
+}
+
+impl BedTable {
+    /// The Columns menu: the optional columns to show (their cells join the entry row, where
+    /// Tab reaches them after the notes).
+    fn columns_menu(&mut self, ui: &mut egui::Ui) {
+        let mut note = None;
+        ui.menu_button("Columns…", |ui| {
+            ui.label(
+                egui::RichText::new("Optional columns: shown in the table and typed in the row")
+                    .small()
+                    .color(theme::TEXT_DIM),
+            );
+            for e in Extra::ALL {
+                let mut on = self.columns.is_shown(e);
+                if ui.checkbox(&mut on, e.menu_name()).changed() {
+                    if let Err(why) = self.columns.set(e, on) {
+                        note = Some(why);
+                    }
+                }
+            }
+        })
+        .response
+        .on_hover_text("Show or hide the optional columns: facies, samples, photos, BI, Munsell, horizon");
+        if note.is_some() {
+            self.note = note;
         }
     }
 }
@@ -633,7 +732,8 @@ mod tests {
         b.structures = vec![Structure::BasalLag];
         b.base_contact = Contact::Erosional;
         b.base_relief_m = Some(1.2);
-        b.paleocurrents = [210.0, 225.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
+        b.paleocurrents =
+            [210.0, 225.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
         b.base_surface = Some(aggrade_core::model::Surface {
             name: "RG-E1".into(),
             kind: aggrade_core::model::SurfaceKind::Incision,

@@ -180,7 +180,7 @@ impl AggradeApp {
             status,
             views: Views::default(),
             canvas: Canvas::default(),
-            table: BedTable::default(),
+            table: BedTable::with_settings_in(&config.data_dir),
             inspector: Inspector::default(),
             modal: None,
             details: None,

@@ -4,8 +4,8 @@
 
 use aggrade_core::model::shorthand::{self as sh, known_codes, soil_feature};
 use aggrade_core::model::{
-    BaseRank, Bed, BedId, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature, Section, Structure,
-    Surface, SurfaceKind,
+    BaseRank, Bed, BedId, FaciesCode, LengthUnit, Lithology, Munsell, PaleosolDevelopment, PaleosolFeature,
+    Photo, Section, SoilHorizon, Structure, Surface, SurfaceKind,
 };
 
 /// The cells of the entry row, in Tab order: the ones most logs fill first.
@@ -24,10 +24,16 @@ pub enum Cell {
     Fossils,
     Samples,
     Notes,
+    // The cells of the optional columns, in the row while their column is shown.
+    Facies,
+    Bioturbation,
+    Munsell,
+    Horizon,
+    Photos,
 }
 
-/// How many cells the row has.
-pub(super) const CELLS: usize = 13;
+/// How many cells the row has (the 13 always there and the optional columns').
+pub(super) const CELLS: usize = 18;
 
 /// The texts of the row's cells, indexed by [`Cell`].
 pub type Texts = [String; CELLS];
@@ -47,7 +53,16 @@ impl Cell {
         Cell::Fossils,
         Cell::Samples,
         Cell::Notes,
+        Cell::Facies,
+        Cell::Bioturbation,
+        Cell::Munsell,
+        Cell::Horizon,
+        Cell::Photos,
     ];
+
+    /// The cells of the optional columns (a line of their own in the row, when shown).
+    pub(super) const OPTIONAL: [Cell; 5] =
+        [Cell::Facies, Cell::Bioturbation, Cell::Munsell, Cell::Horizon, Cell::Photos];
 
     /// The cells on each line of the row, with their share of its width.
     pub(super) const LINES: [&'static [(Cell, f32)]; 3] = [
@@ -78,6 +93,11 @@ impl Cell {
             Cell::Fossils => "fossils",
             Cell::Samples => "samples",
             Cell::Notes => "notes",
+            Cell::Facies => "facies",
+            Cell::Bioturbation => "BI",
+            Cell::Munsell => "Munsell",
+            Cell::Horizon => "horizon",
+            Cell::Photos => "photos",
         }
     }
 
@@ -97,6 +117,11 @@ impl Cell {
             Cell::Fossils => "fossils".into(),
             Cell::Samples => "samples".into(),
             Cell::Notes => "notes".into(),
+            Cell::Facies => "facies".into(),
+            Cell::Bioturbation => "BI 0–6".into(),
+            Cell::Munsell => "10YR 5/4".into(),
+            Cell::Horizon => "Bt".into(),
+            Cell::Photos => "photos".into(),
         }
     }
 
@@ -135,7 +160,12 @@ impl Cell {
                 "Basal contact: s sharp (also when empty), e erosional, g gradational; the erosional relief \
                  in {u} after it: e1.2"
             ),
-            Cell::Paleocurrents => "Azimuths in degrees, 0–360, separated by spaces: 200 215 230".into(),
+            Cell::Paleocurrents => {
+                "Azimuths in degrees, 0–360, as measured, separated by spaces: 200 215 230; an indicator code \
+                 after one (t trough axis, p planar foreset, r ripple, i imbrication, pl parting lineation, \
+                 f flute cast, g groove cast, a accretion surface) and /dip: 210t 185p/22"
+                    .into()
+            }
             Cell::Surface => format!(
                 "The name of a surface at the bed's base (RG-E1); its kind in brackets when it is not \
                  inferred from the contact and the soil below: {}",
@@ -149,6 +179,17 @@ impl Cell {
             Cell::Fossils => "Body and trace fossils".into(),
             Cell::Samples => "Sample names, separated by ;".into(),
             Cell::Notes => "Free notes on the bed".into(),
+            Cell::Facies => format!(
+                "Your lithofacies code (Miall 1996): {}. Empty leaves the suggested code in force",
+                FaciesCode::valid_list()
+            ),
+            Cell::Bioturbation => {
+                "Bioturbation index 0 (none) to 6 (complete), after Taylor & Goldring (1993); empty if not graded"
+                    .into()
+            }
+            Cell::Munsell => "Munsell colour: hue value/chroma, e.g. 10YR 5/4, or N 7/ for a neutral grey".into(),
+            Cell::Horizon => "Soil-horizon designation, e.g. A, Bt, Bk2, Bss, 2Bg".into(),
+            Cell::Photos => "Photo references, separated by ; (the image files are set in the Bed tab)".into(),
         }
     }
 
@@ -157,10 +198,16 @@ impl Cell {
         egui::Id::unique(("aggrade_entry_cell", self as usize))
     }
 
-    /// The cell after this one, or before it, round the row.
-    pub(super) fn step(self, forward: bool) -> Cell {
-        let i = self as usize;
-        Cell::ALL[if forward { (i + 1) % CELLS } else { (i + CELLS - 1) % CELLS }]
+    /// The cell after this one, or before it, round the row, skipping cells not shown.
+    pub(super) fn step(self, forward: bool, shown: impl Fn(Cell) -> bool) -> Cell {
+        let mut i = self as usize;
+        for _ in 0..CELLS {
+            i = if forward { (i + 1) % CELLS } else { (i + CELLS - 1) % CELLS };
+            if shown(Cell::ALL[i]) {
+                return Cell::ALL[i];
+            }
+        }
+        self
     }
 
     /// The cell a validation problem of the bed's field belongs to (`beds[0].grain_base` → grain).
@@ -185,6 +232,11 @@ impl Cell {
             "fossils" => Cell::Fossils,
             "samples" => Cell::Samples,
             "notes" => Cell::Notes,
+            "facies" => Cell::Facies,
+            "bioturbation_index" => Cell::Bioturbation,
+            "munsell" => Cell::Munsell,
+            "soil_horizon" => Cell::Horizon,
+            "photos" => Cell::Photos,
             _ => Cell::Thickness,
         }
     }
@@ -213,7 +265,48 @@ pub fn bed_cells(bed: &Bed, unit: LengthUnit) -> Texts {
     t[Cell::Fossils as usize] = bed.fossils.clone();
     t[Cell::Samples as usize] = sh::samples_code(&bed.samples);
     t[Cell::Notes as usize] = bed.notes.clone();
+    t[Cell::Facies as usize] = bed.facies.map(|c| c.code().to_string()).unwrap_or_default();
+    t[Cell::Bioturbation as usize] = bed.bioturbation_index.map(|b| b.to_string()).unwrap_or_default();
+    t[Cell::Munsell as usize] = bed.munsell.as_ref().map(|m| m.to_string()).unwrap_or_default();
+    t[Cell::Horizon as usize] = bed.soil_horizon.as_ref().map(|h| h.to_string()).unwrap_or_default();
+    t[Cell::Photos as usize] = photos_code(&bed.photos);
     t
+}
+
+/// Photo references as the row shows them.
+pub fn photos_code(photos: &[Photo]) -> String {
+    photos.iter().map(|p| p.reference.as_str()).collect::<Vec<_>>().join("; ")
+}
+
+/// Photo references typed in the row, separated by `;`: a photo already on the bed keeps its
+/// image file.
+fn photos(text: &str, existing: &[Photo]) -> Vec<Photo> {
+    text.split(';')
+        .map(str::trim)
+        .filter(|r| !r.is_empty())
+        .map(|r| {
+            existing
+                .iter()
+                .find(|p| p.reference == r)
+                .cloned()
+                .unwrap_or(Photo { reference: r.into(), file: None })
+        })
+        .collect()
+}
+
+/// A bioturbation index typed as 0–6 ("BI 3" reads too).
+fn bioturbation(text: &str) -> Result<Option<u8>, String> {
+    let t = text.trim();
+    let digits = t.strip_prefix("BI").or_else(|| t.strip_prefix("bi")).unwrap_or(t).trim();
+    if digits.is_empty() {
+        return Ok(None);
+    }
+    match digits.parse::<u8>() {
+        Ok(v) if v <= 6 => Ok(Some(v)),
+        _ => Err(format!(
+            "{t:?} is not a bioturbation index: write 0 (none) to 6 (complete), after Taylor & Goldring (1993)"
+        )),
+    }
 }
 
 /// The row read as a whole: the bed, and the covered interval above it when the thickness cell
@@ -326,6 +419,49 @@ pub fn read_row(
     }
     if read(Cell::Notes) {
         bed.notes = text(Cell::Notes).trim().to_string();
+    }
+    if read(Cell::Facies) {
+        let t = text(Cell::Facies).trim();
+        if t.is_empty() {
+            bed.facies = None;
+        } else {
+            match FaciesCode::parse(t) {
+                Some(c) => bed.facies = Some(c),
+                None => fail(
+                    Cell::Facies,
+                    format!("{t:?} is not a lithofacies code; valid codes are {}", FaciesCode::valid_list()),
+                ),
+            }
+        }
+    }
+    if read(Cell::Bioturbation) {
+        match bioturbation(text(Cell::Bioturbation)) {
+            Ok(b) => bed.bioturbation_index = b,
+            Err(e) => fail(Cell::Bioturbation, e),
+        }
+    }
+    if read(Cell::Munsell) {
+        let t = text(Cell::Munsell);
+        match t.trim().is_empty() {
+            true => bed.munsell = None,
+            false => match Munsell::parse(t) {
+                Ok(m) => bed.munsell = Some(m),
+                Err(e) => fail(Cell::Munsell, e.to_string()),
+            },
+        }
+    }
+    if read(Cell::Horizon) {
+        let t = text(Cell::Horizon);
+        match t.trim().is_empty() {
+            true => bed.soil_horizon = None,
+            false => match SoilHorizon::parse(t) {
+                Ok(h) => bed.soil_horizon = Some(h),
+                Err(e) => fail(Cell::Horizon, e.to_string()),
+            },
+        }
+    }
+    if read(Cell::Photos) {
+        bed.photos = photos(text(Cell::Photos), &bed.photos);
     }
     if !problems.is_empty() {
         return Err(problems);
@@ -512,7 +648,7 @@ mod tests {
             text(C::Lithology)
         );
         assert!(text(C::Structures).contains("massive or mottling"), "{}", text(C::Structures));
-        assert!(text(C::Paleocurrents).contains("0–360"), "{}", text(C::Paleocurrents));
+        assert!(text(C::Paleocurrents).contains("0 to 360°"), "{}", text(C::Paleocurrents));
         // The file's checks, named by their cell: a sandstone needs a grain size; no bed is over
         // 1,000 m; a covered interval takes none.
         let p = read_new(&[(C::Thickness, "1"), (C::Lithology, "sa")]).expect_err("grain required");
@@ -553,5 +689,54 @@ mod tests {
             read_row(&texts, &bed, &changed, unit, None).map(|b| b[0].lithology),
             Ok(Lithology::Sandstone)
         );
+    }
+
+    #[test]
+    fn the_optional_columns_cells_read_the_field_record_and_name_what_is_wrong() {
+        use aggrade_core::model::FaciesCode;
+        use Cell as C;
+        let beds = read_new(&[
+            (C::Thickness, "1.2"),
+            (C::Grain, "m"),
+            (C::Facies, "st"),
+            (C::Bioturbation, "BI 3"),
+            (C::Munsell, "10yr 6/4"),
+            (C::Horizon, "Bk2"),
+            (C::Photos, "IMG_2041; roll 3 #12"),
+        ])
+        .expect("reads");
+        let b = &beds[0];
+        assert_eq!(b.facies, Some(FaciesCode::St));
+        assert_eq!(b.bioturbation_index, Some(3));
+        assert_eq!(b.munsell.as_ref().map(|m| m.to_string()).as_deref(), Some("10YR 6/4"));
+        assert_eq!(b.soil_horizon.as_ref().map(|h| h.as_str()), Some("Bk2"));
+        assert_eq!(photos_code(&b.photos), "IMG_2041; roll 3 #12");
+        // Written back cell by cell, the bed reads back the same.
+        let again = read_row(
+            &bed_cells(b, LengthUnit::Metre),
+            &new_template(),
+            &[true; CELLS],
+            LengthUnit::Metre,
+            None,
+        )
+        .expect("reads back");
+        assert_eq!(&again[0], b);
+        // Taylor & Goldring (1993) grade 0 to 6; Munsell hue value/chroma; Miall's codes.
+        let p = read_new(&[
+            (C::Thickness, "1"),
+            (C::Grain, "m"),
+            (C::Facies, "Sx"),
+            (C::Bioturbation, "7"),
+            (C::Munsell, "red"),
+            (C::Horizon, "bt"),
+        ])
+        .expect_err("four cells at fault");
+        let cells: Vec<Cell> = p.iter().map(|x| x.0).collect();
+        assert_eq!(cells, [C::Facies, C::Bioturbation, C::Munsell, C::Horizon]);
+        assert!(p[0].1.contains("valid codes are") && p[1].1.contains("0 (none) to 6"), "{p:?}");
+        // Only the row's 13 cells and the optional columns shown are visited by Tab.
+        assert_eq!(C::Notes.step(true, |c| !Cell::OPTIONAL.contains(&c)), C::Thickness);
+        assert_eq!(C::Notes.step(true, |c| c != C::Facies), C::Bioturbation);
+        assert_eq!(C::Thickness.step(false, |c| !Cell::OPTIONAL.contains(&c) || c == C::Horizon), C::Horizon);
     }
 }
