@@ -28,6 +28,7 @@ mod io_unicode_roundtrip;
 mod las_odd_cases;
 mod panel_distance;
 mod panel_pdf;
+mod record_pdf;
 mod reference_carbonate_stages;
 mod reference_fgdc_patterns;
 mod reference_grain_units;

@@ -189,6 +189,27 @@ mod tests {
     use super::*;
 
     #[test]
+    fn record_flags_choose_the_marks_printed() {
+        #[derive(clap::Parser)]
+        struct Cli {
+            #[command(flatten)]
+            args: ExportArgs,
+        }
+        let parse = |extra: &[&str]| {
+            let mut argv = vec!["aggrade-export", "log.csv", "--pdf", "log.pdf"];
+            argv.extend_from_slice(extra);
+            <Cli as clap::Parser>::try_parse_from(argv).expect("flags parse").args.record_options()
+        };
+        let o = parse(&[]);
+        assert!(o.show_facies && o.show_sample_ids, "facies and sample ids print by default");
+        assert!(!o.show_photos && !o.show_bioturbation && !o.show_fossils, "the rest on request");
+        let o = parse(&["--no-facies", "--no-sample-ids", "--photos", "--bioturbation", "--fossils"]);
+        assert!(
+            !o.show_facies && !o.show_sample_ids && o.show_photos && o.show_bioturbation && o.show_fossils
+        );
+    }
+
+    #[test]
     fn scales_parse_or_explain() {
         assert_eq!(parse_scale("100").ok(), Some(100.0));
         assert_eq!(parse_scale("1:50").ok(), Some(50.0));

@@ -497,9 +497,9 @@ impl ColumnCtx<'_> {
     }
 
     /// The samples marked near height `h`: those of the bed there, or those whose labels may
-    /// have been moved up to two label lines from their height.
+    /// have been moved up to a label line from their height.
     fn samples_help(&self, h: f64, tol: f64) -> Option<String> {
-        let reach = tol + 2.0 * LABEL_PITCH_MM * self.opts.scale() / 1000.0;
+        let reach = tol + LABEL_PITCH_MM * self.opts.scale() / 1000.0;
         let mut found = Vec::new();
         for (i, bed) in self.section.beds.iter().enumerate() {
             let t = bed.usable_thickness_m();
