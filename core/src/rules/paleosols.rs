@@ -44,21 +44,6 @@ fn master_rank(h: &SoilHorizon) -> Option<u8> {
     }
 }
 
-/// The morphology of a carbonate stage (1–6 for I–VI) in the fine-grained (non-gravelly) form
-/// fluvial paleosols mostly show, worded after Machette (1985, his table of morphogenetic
-/// stages, after Gile et al. 1966). `None` outside 1–6.
-pub fn carbonate_stage_morphology(stage: u8) -> Option<&'static str> {
-    Some(match stage {
-        1 => "thin, discontinuous carbonate filaments or coatings",
-        2 => "few to common carbonate nodules",
-        3 => "many nodules coalescing, with carbonate filling between them: the horizon plugged",
-        4 => "a thin laminar layer on top of a plugged horizon",
-        5 => "a thick laminar layer (1 cm or more) with pisoliths and incipient brecciation",
-        6 => "several generations of laminae, brecciation and pisoliths, recemented",
-        _ => return None,
-    })
-}
-
 /// One grade up the development scale (very strong stays very strong).
 fn raised(dev: PaleosolDevelopment) -> PaleosolDevelopment {
     use PaleosolDevelopment::*;

@@ -299,7 +299,7 @@ impl ProfileEvidence {
             CarbonateStage { stage, horizon, floor } => format!(
                 "carbonate stage {} (Machette 1985: {}) in {}: at least {}",
                 roman(*stage),
-                super::paleosols::carbonate_stage_morphology(*stage).unwrap_or("stage out of range"),
+                carbonate_stage_morphology(*stage).unwrap_or("stage out of range"),
                 on_horizon(horizon),
                 floor.name()
             ),
@@ -333,6 +333,21 @@ impl ProfileEvidence {
             }
         }
     }
+}
+
+/// The morphology of a carbonate stage (1–6 for I–VI) in the fine-grained (non-gravelly) form
+/// fluvial paleosols mostly show, worded after Machette (1985, his table of morphogenetic
+/// stages, after Gile et al. 1966). `None` outside 1–6.
+pub fn carbonate_stage_morphology(stage: u8) -> Option<&'static str> {
+    Some(match stage {
+        1 => "thin, discontinuous carbonate filaments or coatings",
+        2 => "few to common carbonate nodules",
+        3 => "many nodules coalescing, with carbonate filling between them: the horizon plugged",
+        4 => "a thin laminar layer on top of a plugged horizon",
+        5 => "a thick laminar layer (1 cm or more) with pisoliths and incipient brecciation",
+        6 => "several generations of laminae, brecciation and pisoliths, recemented",
+        _ => return None,
+    })
 }
 
 /// A carbonate stage (1–6) as the Roman numeral of Machette (1985).
