@@ -429,6 +429,8 @@ pub struct StatsView {
     cache: Option<((u64, StatsChoices), StatsResult)>,
     /// How many times the statistics were computed (stays put while nothing changes).
     pub computations: u64,
+    /// The box under the interval table lists beds rather than channel bodies.
+    pub beds_table: bool,
 }
 
 impl StatsView {
@@ -514,15 +516,22 @@ impl StatsView {
         }
         let rows: Vec<Vec<String>> = r.per_interval.iter().map(summary_cells).collect();
         text_table(ui, "stats_per_interval", &SUMMARY_HEADER, &rows);
-        if !r.per_body.is_empty() {
-            ui.label(egui::RichText::new("Per channel body (bodies from the rules)").strong());
-            let rows: Vec<Vec<String>> = r.per_body.iter().map(summary_cells).collect();
-            text_table(ui, "stats_per_body", &SUMMARY_HEADER, &rows);
-        }
-        ui.label(egui::RichText::new("Per bed (beds with two or more readings)").strong());
         let rows: Vec<Vec<String>> = r.per_bed.iter().map(summary_cells).collect();
+        let body_rows: Vec<Vec<String>> = r.per_body.iter().map(summary_cells).collect();
+        // Channel bodies and beds take turns in one scrolled box, so the rose below stays in view.
+        ui.horizontal(|ui| {
+            if !body_rows.is_empty() {
+                ui.selectable_value(&mut self.beds_table, false, "Per channel body (bodies from the rules)");
+            }
+            ui.selectable_value(&mut self.beds_table, true, "Per bed (beds with two or more readings)");
+        });
+        let beds = self.beds_table || body_rows.is_empty();
         egui::ScrollArea::vertical().id_salt("stats_beds").max_height(180.0).show(ui, |ui| {
-            text_table(ui, "stats_per_bed", &SUMMARY_HEADER, &rows);
+            if beds {
+                text_table(ui, "stats_per_bed", &SUMMARY_HEADER, &rows);
+            } else {
+                text_table(ui, "stats_per_body", &SUMMARY_HEADER, &body_rows);
+            }
         });
 
         ui.add_space(6.0);
