@@ -251,19 +251,27 @@ fn group_brief(g: &ReadingGroup) -> String {
             f.mean_resultant_length,
             fmt_p(f.rayleigh_p)
         ),
-        None => format!("flow n = {}", g.flow_deg.len()),
+        None => match g.flow_deg[..] {
+            [a] => format!("flow n = 1 ({a:.1}°)"),
+            _ => format!("flow n = {}", g.flow_deg.len()),
+        },
     });
     if !g.axes_deg.is_empty() {
         let mean = g.axes.as_ref().and_then(|a| a.mean_azimuth_deg);
         parts.push(match mean {
             Some(m) => format!("two-way axes n = {}, mean axis {m:.1}°–{:.1}°", g.axes_deg.len(), m + 180.0),
-            None => format!("two-way axes n = {}", g.axes_deg.len()),
+            None => match g.axes_deg[..] {
+                [a] => format!("two-way axes n = 1 ({:.1}°–{:.1}°)", a % 180.0, a % 180.0 + 180.0),
+                _ => format!("two-way axes n = {}", g.axes_deg.len()),
+            },
         });
     }
     if !g.accretion_deg.is_empty() {
         let mut a = format!("accretion surfaces n = {} (kept apart from flow)", g.accretion_deg.len());
         if let Some(m) = g.accretion.as_ref().and_then(|s| s.mean_azimuth_deg) {
             a.push_str(&format!(", mean dip direction {m:.1}°"));
+        } else if let [one] = g.accretion_deg[..] {
+            a.push_str(&format!(", dip direction {one:.1}°"));
         }
         if let Some(d) = g.accretion_mean_dip_deg {
             a.push_str(&format!(", mean dip {d:.1}°"));
