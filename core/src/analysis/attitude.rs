@@ -145,6 +145,10 @@ pub fn restore_line(trend_deg: f64, plunge_deg: f64, bedding: &BeddingAttitude) 
 /// bedding in that direction ([`plunge_in_bedding_deg`]); after restoring it is horizontal and
 /// its azimuth is returned. The result is the angle in the bedding plane from strike, the
 /// relation `tan(trend − strike) = tan(rake)·cos δ` run backwards (Ragan, rake and pitch).
+///
+/// In vertical bedding a trend alone does not fix a line of the bed (every line but the strike
+/// line is vertical): a trend within 90° of the dip direction then restores to the dip direction,
+/// any other to its opposite. Record the plunge for such beds.
 pub fn restore_line_in_bedding(trend_deg: f64, bedding: &BeddingAttitude) -> f64 {
     // The vector (sin t, cos t, −tan δ·cos(t − β)) lies in the plane and keeps the sense of t.
     let plunge = plunge_in_bedding_deg(trend_deg, bedding);
@@ -457,6 +461,20 @@ mod tests {
         assert!((r - rake).abs() < 1e-9, "{r}");
         // Its plunge is the apparent dip atan(tan 30°·cos 45°) = 22.208° (Ragan, apparent dip).
         assert!((plunge_in_bedding_deg(45.0, &b) - 22.2077).abs() < 1e-3);
+    }
+
+    #[test]
+    fn vertical_bedding_restores_trends_to_the_dip_line() {
+        let b = bed(90.0, 90.0);
+        assert!(close(restore_line_in_bedding(60.0, &b), 90.0, 1e-9));
+        assert!(close(restore_line_in_bedding(250.0, &b), 270.0, 1e-9));
+        // The strike line stays where it is.
+        assert!(close(restore_line_in_bedding(0.0, &b), 0.0, 1e-9));
+        // A line with its plunge recorded keeps its rake: 30° down toward 000 in a vertical bed
+        // striking 000 (plunge = rake here) restores to 30° from the strike toward the dip.
+        let l = restore_line(0.0, 30.0, &b);
+        assert!(close(l.trend_deg.expect("trend"), 30.0, 1e-9), "{l:?}");
+        assert!(l.plunge_deg.abs() < 1e-9);
     }
 
     #[test]
