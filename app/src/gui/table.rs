@@ -235,7 +235,10 @@ impl BedTable {
                     action = Some(RowKey::Commit { above_selection: true });
                 }
             }
-            self.columns_menu(ui);
+            // A fixed id: showing a column adds cells above, which must not close the menu.
+            ui.scope_builder(egui::UiBuilder::new().scope_id(egui::Id::new("aggrade_table_columns")), |ui| {
+                self.columns_menu(ui)
+            });
         });
         // The live reading of the row.
         let reading = self.read(doc);
@@ -650,7 +653,10 @@ impl BedTable {
     /// Tab reaches them after the notes).
     fn columns_menu(&mut self, ui: &mut egui::Ui) {
         let mut note = None;
-        ui.menu_button("Columns…", |ui| {
+        // Several columns may be ticked in turn: the menu stays open until a click beside it.
+        let config = egui::containers::menu::MenuConfig::new()
+            .close_behavior(egui::PopupCloseBehavior::CloseOnClickOutside);
+        let (r, _) = egui::containers::menu::MenuButton::new("Columns…").config(config).ui(ui, |ui| {
             ui.label(
                 egui::RichText::new("Optional columns: shown in the table and typed in the row")
                     .small()
@@ -664,9 +670,8 @@ impl BedTable {
                     }
                 }
             }
-        })
-        .response
-        .on_hover_text("Show or hide the optional columns: facies, samples, photos, BI, Munsell, horizon");
+        });
+        r.on_hover_text("Show or hide the optional columns: facies, samples, photos, BI, Munsell, horizon");
         if note.is_some() {
             self.note = note;
         }

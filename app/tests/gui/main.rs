@@ -10,6 +10,7 @@ mod column_help;
 mod curves;
 mod document_model;
 mod editing;
+mod field_record;
 mod fields;
 mod import;
 mod keyboard_log;
