@@ -151,9 +151,17 @@ pub fn legend_entries(ctx: &ColumnCtx<'_>) -> Vec<LegendEntry> {
         v.push(LegendEntry::Bioturbation);
     }
     if tr.facies.is_some() {
+        // Both kinds are usually met within a few beds: stop looking once both are.
+        let (mut given, mut suggested) = (false, false);
         for f in beds().filter_map(shown_facies) {
-            v.push(if f.suggested { LegendEntry::FaciesSuggested } else { LegendEntry::FaciesGiven });
+            given |= !f.suggested;
+            suggested |= f.suggested;
+            if given && suggested {
+                break;
+            }
         }
+        v.extend(given.then_some(LegendEntry::FaciesGiven));
+        v.extend(suggested.then_some(LegendEntry::FaciesSuggested));
     }
     if tr.samples.is_some() {
         v.push(LegendEntry::Sample);

@@ -195,7 +195,8 @@ pub fn group_labels(labels: &[&str]) -> Vec<String> {
 
 /// The first of `candidates` that fits `max_w_mm` at `SMALL_PT` (so labels keep one size where
 /// they can), else the first that fits shrunk down to [`MIN_LABEL_PT`], with its size; else the
-/// last shortened (its end replaced by "…") until it fits at the smallest size.
+/// last shortened (its end replaced by "…") until it fits at `SMALL_PT` (the hover help gives
+/// it whole).
 pub fn fitted_label(candidates: &[String], max_w_mm: f64) -> Option<(String, f64)> {
     for min_pt in [SMALL_PT, MIN_LABEL_PT] {
         for c in candidates {
@@ -207,7 +208,7 @@ pub fn fitted_label(candidates: &[String], max_w_mm: f64) -> Option<(String, f64
     let last: Vec<char> = candidates.last()?.chars().collect();
     (1..last.len()).rev().find_map(|n| {
         let short = format!("{}\u{2026}", last[..n].iter().collect::<String>());
-        (width(&short, MIN_LABEL_PT) <= max_w_mm).then_some((short, MIN_LABEL_PT))
+        (width(&short, SMALL_PT) <= max_w_mm).then_some((short, SMALL_PT))
     })
 }
 
@@ -380,9 +381,10 @@ impl ColumnCtx<'_> {
                 });
             }
             if yb - yt >= 2.4 {
+                // The index just right of its bar, so it reads with the bar, not the next track.
                 let digit = bi.to_string();
                 let size = SMALL_PT - 0.5;
-                let xd = part.x0 + tr.x_mm + tr.w_mm - width(&digit, size) - 0.1;
+                let xd = x + bi as f64 * ICHNO_MM_PER_GRADE + 0.3;
                 text(out, xd, baseline((yb + yt) / 2.0, size), &digit, size, INK);
             }
         }

@@ -315,4 +315,46 @@ mod record {
             }
         }
     }
+
+    #[test]
+    fn shared_labels_shorten_in_steps_and_the_index_bar_grows_by_grade() {
+        use super::super::record::{fitted_label, group_labels};
+        assert_eq!(group_labels(&["A1"]), vec!["A1"]);
+        assert_eq!(group_labels(&["A1", "A2", "A3"]), vec!["A1, A2, A3", "A1 \u{2026} A3 (3)", "A1 +2"]);
+        assert!(group_labels(&[]).is_empty());
+        let c = group_labels(&["TG-101", "TG-102", "TG-103", "TG-104"]);
+        // Wide: the whole list at full size; narrower: the range, then the count, still full size.
+        assert_eq!(fitted_label(&c, 60.0), Some((c[0].clone(), SMALL_PT)));
+        let w_range = width(&c[1], SMALL_PT);
+        assert_eq!(fitted_label(&c, w_range + 0.1), Some((c[1].clone(), SMALL_PT)));
+        let w_count = width(&c[2], SMALL_PT);
+        assert_eq!(fitted_label(&c, w_count + 0.1), Some((c[2].clone(), SMALL_PT)));
+        // Narrower still: shrunk; then shortened with "…" at full size, never wider than the room.
+        let (l, size) = fitted_label(&c, w_count * 0.9).expect("shrunk");
+        assert!(l == c[2] && size < SMALL_PT && width(&l, size) <= w_count * 0.9 + 1e-9);
+        let (l, size) = fitted_label(&c, 3.5).expect("shortened");
+        assert!(l.ends_with('\u{2026}') && size == SMALL_PT && width(&l, size) <= 3.5, "{l}");
+        // The bioturbation-index bar: 0.6 mm a grade (BI 4 → 2.4 mm), a hairline for 0.
+        let mut s = dense();
+        s.beds[0].bioturbation_index = Some(4);
+        s.beds[1].bioturbation_index = Some(0);
+        let interp = sample_interpretation(&sample_section());
+        let opts =
+            LayoutOptions { show_bioturbation: true, show_interpretation: false, ..Default::default() };
+        let ctx = ColumnCtx::new(&s, &interp, &opts);
+        let t = HeightTransform::new(300.0, 0.0, 100.0);
+        let (mut out, mut boxes) = (Vec::new(), Vec::new());
+        ctx.draw_range(0.0, 0.8, 0.0, &t, &mut out, &mut boxes);
+        let bars: Vec<f64> = out
+            .iter()
+            .filter_map(|it| match it {
+                Item::Rect { rect, fill: Some(f), .. } if *f == ICHNO_OLIVE => Some(rect.w),
+                _ => None,
+            })
+            .collect();
+        assert_eq!(bars, vec![4.0 * ICHNO_MM_PER_GRADE]);
+        assert!(out
+            .iter()
+            .any(|it| matches!(it, Item::Polyline { stroke, .. } if stroke.color == ICHNO_OLIVE)));
+    }
 }
