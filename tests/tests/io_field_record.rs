@@ -370,3 +370,70 @@ fn the_field_record_example_in_the_notation_document_reads() {
     // Written again, it reads back to the same beds.
     assert_eq!(read_bed_table(&write_bed_table(&s), "example").expect("reads back").section.beds, s.beds);
 }
+
+/// The invented demo: the bed tables in `sample_sections/` hold the same beds and field record as
+/// the project file, the demo carries some of every field of the record, and each thickness
+/// worked out from a slope distance is the app's own true thickness of it.
+#[test]
+fn the_demo_carries_the_field_record_and_its_tables_agree_with_the_project() {
+    use aggrade_core::analysis::attitude::true_thickness_m;
+    use aggrade_core::io::load;
+    use aggrade_core::model::FixRole;
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../sample_sections");
+    let project = load(&root.join("demo.aggrade")).expect("the demo loads").project;
+    for (file, name) in [
+        ("corrie_wash.csv", "Corrie Wash"),
+        ("halloway_bluff.csv", "Halloway Bluff"),
+        ("sedge_creek.csv", "Sedge Creek"),
+        ("pell_butte.csv", "Pell Butte"),
+    ] {
+        let csv = load(&root.join(file)).expect("the demo table loads").project.sections.remove(0);
+        let s = project.section(name).expect("the section");
+        assert_eq!(csv.beds.len(), s.beds.len(), "{file}");
+        for (a, b) in s.beds.iter().zip(&csv.beds) {
+            // Feet are written in feet and converted back: equal to rounding of the last bits.
+            assert!((a.thickness_m - b.thickness_m).abs() <= 1e-12 * a.thickness_m, "{file}: {a:?} vs {b:?}");
+            let mut b = b.clone();
+            b.thickness_m = a.thickness_m;
+            assert_eq!(a, &b, "{file}");
+        }
+    }
+    let beds = || project.sections.iter().flat_map(|s| &s.beds);
+    assert!(beds().any(|b| b.facies.is_some()), "some confirmed facies codes");
+    let confirmed = beds().filter(|b| b.facies.is_some()).count();
+    assert!(confirmed * 5 < beds().count(), "most beds are left to the suggestion");
+    assert!(beds().flat_map(|b| &b.samples).any(|x| x.kind.is_some() && x.height_in_bed_m.is_some()));
+    assert!(beds().any(|b| !b.photos.is_empty()));
+    assert!(beds().any(|b| b.bioturbation_index.is_some() && !b.trace_fossils.is_empty()));
+    assert!(beds().any(|b| !b.body_fossils.is_empty()));
+    assert!(beds().any(|b| b.munsell.is_some()));
+    assert!(beds().any(|b| !b.lag_composition.is_empty()));
+    assert!(beds().any(|b| b.soil_horizon.is_some() && b.carbonate_stage.is_some() && b.drainage.is_some()));
+    assert!(beds().flat_map(|b| &b.paleocurrents).any(|p| p.indicator == Indicator::AccretionSurface));
+    assert!(beds().flat_map(|b| &b.paleocurrents).any(|p| p.indicator == Indicator::Imbrication));
+    let sections = &project.sections;
+    assert!(sections.iter().all(|s| s.method.is_some() && s.thickness_uncertainty_m.is_some()));
+    let roles: Vec<FixRole> = sections.iter().flat_map(|s| &s.fixes).map(|f| f.role).collect();
+    for role in [FixRole::Base, FixRole::Top, FixRole::Offset] {
+        assert!(roles.contains(&role), "{role:?}");
+    }
+    let lateral: Vec<_> = sections.iter().flat_map(|s| &s.body_lateral).collect();
+    assert!(lateral.iter().any(|l| l.beyond_outcrop) && lateral.iter().any(|l| !l.beyond_outcrop));
+    let mut by_slope = 0;
+    for s in sections {
+        for b in &s.beds {
+            let Some(d) = b.slope_distance_m else { continue };
+            let (t, a) = (s.traverse.expect("a traverse"), s.bedding.expect("a bedding attitude"));
+            let want = true_thickness_m(d, &t, &a).expect("a thickness");
+            assert!(
+                (b.thickness_m - want).abs() <= 1e-12,
+                "{}: bed {}: {} vs {want}",
+                s.name,
+                b.id.0,
+                b.thickness_m
+            );
+            by_slope += 1;
+        }
+    }
+    assert!(by_slope >= 3, "a few beds given by slope distance");
+}

@@ -56,6 +56,7 @@
 //! Every text value is limited to [`MAX_STRING_CHARS`] characters (as it is kept: trimmed and
 //! unescaped; each sample on its own), the same limit in the same unit as the project file.
 
+pub use super::csv_rows::{escape_formula, unescape_formula};
 use super::csv_rows::{Record, Records};
 use super::limits::{MAX_BEDS_PER_SECTION, MAX_STRING_CHARS};
 use super::migrate::infer_surface_kind;
@@ -134,33 +135,6 @@ pub struct BedTableRead {
     pub warnings: Vec<Problem>,
     /// The line of the row each bed was read from (a covered top shares its row's line).
     pub lines: Vec<usize>,
-}
-
-/// Characters that make a spreadsheet treat a cell as a formula (OWASP CSV injection guidance).
-const FORMULA_STARTS: [char; 6] = ['=', '+', '-', '@', '\t', '\r'];
-
-/// Whether a text cell needs a leading `'`: it starts with a formula character, perhaps after
-/// `'`s of its own (so that text such as `'=x` reads back with its `'`).
-fn needs_escape(text: &str) -> bool {
-    text.trim_start_matches('\'').starts_with(FORMULA_STARTS)
-}
-
-/// Escape a text cell that a spreadsheet would run as a formula.
-pub fn escape_formula(text: &str) -> String {
-    if needs_escape(text) {
-        format!("'{text}")
-    } else {
-        text.to_string()
-    }
-}
-
-/// Undo [`escape_formula`]: drop the `'` that [`escape_formula`] adds (one before a formula
-/// character, or before `'`s followed by one). Other text, `'x` included, is kept as it is.
-pub fn unescape_formula(text: &str) -> &str {
-    match text.strip_prefix('\'') {
-        Some(rest) if needs_escape(rest) => rest,
-        _ => text,
-    }
 }
 
 /// Where each column sits in a row.

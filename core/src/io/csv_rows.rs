@@ -1,5 +1,6 @@
 //! CSV records of a text (RFC 4180 quoting; CR LF, LF and CR line breaks; blank lines skipped),
-//! each with the byte offset its text starts at, read by a parser built once per thread.
+//! each with the byte offset its text starts at, read by a parser built once per thread; and the
+//! escaping of text cells that a spreadsheet would run as formulas.
 //!
 //! Building a CSV parser makes its transition tables; for a short bed table that cost more than
 //! reading the table itself (most of each bed-table fuzz run, where every comparison is traced).
@@ -128,6 +129,33 @@ impl Iterator for Records<'_> {
                 }
             }
         }
+    }
+}
+
+/// Characters that make a spreadsheet treat a cell as a formula (OWASP CSV injection guidance).
+const FORMULA_STARTS: [char; 6] = ['=', '+', '-', '@', '\t', '\r'];
+
+/// Whether a text cell needs a leading `'`: it starts with a formula character, perhaps after
+/// `'`s of its own (so that text such as `'=x` reads back with its `'`).
+fn needs_escape(text: &str) -> bool {
+    text.trim_start_matches('\'').starts_with(FORMULA_STARTS)
+}
+
+/// Escape a text cell that a spreadsheet would run as a formula.
+pub fn escape_formula(text: &str) -> String {
+    if needs_escape(text) {
+        format!("'{text}")
+    } else {
+        text.to_string()
+    }
+}
+
+/// Undo [`escape_formula`]: drop the `'` that [`escape_formula`] adds (one before a formula
+/// character, or before `'`s followed by one). Other text, `'x` included, is kept as it is.
+pub fn unescape_formula(text: &str) -> &str {
+    match text.strip_prefix('\'') {
+        Some(rest) if needs_escape(rest) => rest,
+        _ => text,
     }
 }
 

@@ -5,7 +5,7 @@
 //! in the form it is read in, so that a table reads back to the same beds. `docs/notation.md`
 //! and the README's CSV section document the cells.
 
-use super::bed_table::{escape_formula, unescape_formula};
+use super::csv_rows::{escape_formula, unescape_formula};
 use crate::model::shorthand::length;
 use crate::model::vocab::{Drainage, SampleKind};
 use crate::model::{FaciesCode, LengthUnit, Munsell, Photo, Sample, SoilHorizon};
