@@ -255,3 +255,30 @@ fn column_help_names_the_restored_azimuths() {
     assert!(tilted.contains(&restored.join(", ")), "{tilted} vs {restored:?}");
     assert_ne!(plain, tilted);
 }
+
+proptest::proptest! {
+    /// Restoring is a rotation: the angle between a foreset and the bedding survives it, so the
+    /// restored dip equals the (acute) angle between the foreset's pole and the bedding's pole, and a line
+    /// in bedding comes out level (geometry of rigid rotation; Ragan, on rotations).
+    #[test]
+    fn restoring_keeps_the_angle_to_bedding(
+        dip in 0.0f64..89.0,
+        dip_dir in 0.0f64..360.0,
+        plane_dir in 0.0f64..360.0,
+        plane_dip in 0.0f64..89.0,
+        trend in 0.0f64..360.0,
+    ) {
+        use aggrade_core::analysis::attitude::upward_pole;
+        let b = BeddingAttitude { dip_deg: dip, dip_direction_deg: dip_dir };
+        let (p, n) = (upward_pole(plane_dir, plane_dip), upward_pole(dip_dir, dip));
+        let cos = (p[0] * n[0] + p[1] * n[1] + p[2] * n[2]).clamp(-1.0, 1.0);
+        // A plane tipped past vertical by the rotation is read by its upward pole.
+        let between = cos.acos().to_degrees();
+        let between = between.min(180.0 - between);
+        let r = restore_plane(plane_dir, plane_dip, &b);
+        proptest::prop_assert!((r.dip_deg - between).abs() < 1e-7, "{r:?} vs {between}");
+        let plunge = plunge_in_bedding_deg(trend, &b);
+        let l = restore_line(trend, plunge, &b);
+        proptest::prop_assert!(l.plunge_deg.abs() < 1e-7, "{l:?}");
+    }
+}
