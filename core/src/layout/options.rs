@@ -120,6 +120,20 @@ impl LayoutOptions {
         })
     }
 
+    /// The same options with no field-record track (lithofacies, samples, photographs,
+    /// bioturbation, fossils): for drawings that have no room for them, such as the
+    /// correlation panel's narrow columns.
+    pub fn without_record(&self) -> Self {
+        LayoutOptions {
+            show_facies: false,
+            show_sample_ids: false,
+            show_photos: false,
+            show_bioturbation: false,
+            show_fossils: false,
+            ..self.clone()
+        }
+    }
+
     /// Scale as printed, "1:100".
     pub fn scale_label(&self) -> String {
         let s = self.scale();

@@ -357,4 +357,32 @@ mod record {
             .iter()
             .any(|it| matches!(it, Item::Polyline { stroke, .. } if stroke.color == ICHNO_OLIVE)));
     }
+
+    #[test]
+    fn the_correlation_panel_draws_and_lists_no_record_marks() {
+        use crate::layout::{panel_layout, Datum, PanelOptions, PrintMeta};
+        use crate::model::Project;
+        // The dense section has samples and suggested codes; the panel's narrow columns have no
+        // record tracks, so its legend must not list them either.
+        let mut a = dense();
+        a.panel_position_m = Some(0.0);
+        let mut b = dense();
+        b.name = "Dense 2".into();
+        b.panel_position_m = Some(500.0);
+        let p = Project::new(vec![a, b]);
+        let interps: Vec<_> =
+            p.sections.iter().map(|s| crate::rules::interpret(s, &Default::default())).collect();
+        let opts = PanelOptions { datum: Datum::parse("base"), ..Default::default() };
+        let l = panel_layout(&p, &interps, &opts, &PrintMeta::default()).expect("panel");
+        let texts: Vec<&str> = l
+            .page
+            .items
+            .iter()
+            .filter_map(|it| if let Item::Text { text, .. } = it { Some(text.as_str()) } else { None })
+            .collect();
+        assert!(!texts.is_empty());
+        for t in &texts {
+            assert!(!t.starts_with("D1") && !t.contains("suggested code") && !t.contains("sample,"), "{t}");
+        }
+    }
 }

@@ -349,7 +349,7 @@ fn lay_out(
     let order = &horizontal.positions.order;
     let mut notes = notes::section_notes(sections, order, &markers, &datum_h, &opts.datum);
     notes.extend(notes::horizontal_notes(sections, &horizontal, opts.min_gap()));
-    let layout_opts = LayoutOptions { show_interpretation: false, ..opts.layout.clone() };
+    let layout_opts = LayoutOptions { show_interpretation: false, ..opts.layout.without_record() };
     let entries = draw::legend(sections, interps, opts, &layout_opts);
     let (above_mm, below_mm) =
         positions::vertical_reach_mm(sections, &datum_h, opts.layout.scale_denominator);
