@@ -1031,7 +1031,8 @@ impl SectionDetails {
                                 FixField::Note => 120.0,
                             };
                             let r = ui
-                                .add(
+                                .add_sized(
+                                    [width, 20.0],
                                     egui::TextEdit::singleline(&mut fix.texts[f as usize])
                                         .desired_width(width)
                                         .char_limit(MAX_STRING_CHARS),

@@ -163,7 +163,8 @@ impl Form<'_> {
                     for k in 0..self.bed.samples.len() {
                         let id = egui::Id::unique(("inspector_sample_id", k, self.cx.key));
                         let r = ui
-                            .add(
+                            .add_sized(
+                                [76.0, 20.0],
                                 egui::TextEdit::singleline(&mut self.bed.samples[k].id)
                                     .id(id)
                                     .hint_text("id")
@@ -233,7 +234,8 @@ impl Form<'_> {
                     for k in 0..self.bed.photos.len() {
                         let id = egui::Id::unique(("inspector_photo_ref", k, self.cx.key));
                         let r = ui
-                            .add(
+                            .add_sized(
+                                [80.0, 20.0],
                                 egui::TextEdit::singleline(&mut self.bed.photos[k].reference)
                                     .id(id)
                                     .hint_text("IMG_2041")
@@ -248,7 +250,8 @@ impl Form<'_> {
                         let mut file = self.bed.photos[k].file.clone().unwrap_or_default();
                         let id = egui::Id::unique(("inspector_photo_file", k, self.cx.key));
                         let r = ui
-                            .add(
+                            .add_sized(
+                                [110.0, 20.0],
                                 egui::TextEdit::singleline(&mut file)
                                     .id(id)
                                     .hint_text("image file (optional)")
@@ -362,7 +365,7 @@ impl Form<'_> {
                                 list_label,
                                 f,
                                 FieldLook {
-                                    hint: "type a name, Enter",
+                                    hint: "add a name",
                                     tip: "A name to add to the list (any name; Enter adds it)",
                                     width: 130.0,
                                     char_limit: MAX_STRING_CHARS,
