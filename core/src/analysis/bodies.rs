@@ -643,7 +643,6 @@ mod tests {
 
     #[test]
     fn a_width_beyond_the_outcrop_gives_a_minimum_ratio_and_never_a_ribbon() {
-        use GeometryClass::*;
         let class = |w: f64, beyond: bool, t: f64, censored: bool| {
             Geometry::of(w, beyond, t, censored).map(|g| g.class.name()).expect("positive")
         };

@@ -161,7 +161,25 @@ fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
         }
     }
 
-    // Thick B horizons make an already moderate profile strong or very strong.
+    // Vertic and calcic together, as features or as `ss` and `k` horizons.
+    let has = |f: PaleosolFeature, s: Structure, suffix: &str| {
+        beds.iter().any(|b| {
+            b.paleosol_features.contains(&f)
+                || b.structures.contains(&s)
+                || b.soil_horizon.as_ref().is_some_and(|h| h.has(suffix))
+        })
+    };
+    if params.vertic_calcic_raises
+        && has(PaleosolFeature::Slickensides, Structure::Slickensides, "ss")
+        && has(PaleosolFeature::CarbonateNodules, Structure::CarbonateNodules, "k")
+        && raised(m) > m
+    {
+        m = raised(m);
+        signs.push(MaturitySign::VerticCalcic);
+        evidence.push(ProfileEvidence::VerticCalcic { raised_to: m });
+    }
+    // Thick B horizons make an already moderate profile strong or very strong: a floor, applied
+    // after the one-grade vertic–calcic raise so that the two do not add up.
     let b_thickness_m: f64 =
         beds.iter().filter(|b| b_horizon(b).is_some()).map(|b| b.usable_thickness_m()).sum();
     if b_thickness_m > 0.0 {
@@ -190,23 +208,6 @@ fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
         }
     }
 
-    // Vertic and calcic together, as features or as `ss` and `k` horizons.
-    let has = |f: PaleosolFeature, s: Structure, suffix: &str| {
-        beds.iter().any(|b| {
-            b.paleosol_features.contains(&f)
-                || b.structures.contains(&s)
-                || b.soil_horizon.as_ref().is_some_and(|h| h.has(suffix))
-        })
-    };
-    if params.vertic_calcic_raises
-        && has(PaleosolFeature::Slickensides, Structure::Slickensides, "ss")
-        && has(PaleosolFeature::CarbonateNodules, Structure::CarbonateNodules, "k")
-        && raised(m) > m
-    {
-        m = raised(m);
-        signs.push(MaturitySign::VerticCalcic);
-        evidence.push(ProfileEvidence::VerticCalcic { raised_to: m });
-    }
     // Designated horizons only say "a soil": any other sign that raised it says more.
     if signs.len() > 1 {
         signs.retain(|s| *s != MaturitySign::DesignatedHorizon);
@@ -519,6 +520,12 @@ mod tests {
             .contains(&"B horizons 1.20 m thick in all (at least 1.00 m): at least strong".into()));
         let p = run(vec![coated("Bt2", 1.2), coated("Bt1", 1.0)], &RuleParams::default());
         assert_eq!(p[0].maturity, VeryStrong);
+        // With slickensides and nodules too: one grade up from moderate is strong, and the
+        // thickness floor (strong) adds nothing on top.
+        let mut vertic = coated("Bt1", 0.6);
+        vertic.paleosol_features.extend([PaleosolFeature::Slickensides, PaleosolFeature::CarbonateNodules]);
+        let p = run(vec![coated("Bt2", 0.6), vertic], &RuleParams::default());
+        assert_eq!((p[0].maturity, p[0].raised_by.last()), (Strong, Some(&MaturitySign::VerticCalcic)));
         // A thick but weak B (a Bw) stays weak: thickness raises only a diagnostic profile.
         let p = run(vec![horizon(Weak, "Bw", 2.5)], &RuleParams::default());
         assert_eq!(p[0].maturity, Weak);
