@@ -26,42 +26,15 @@ runs="${1:-3}"
 bin="${AGGRADE_BIN:-$PWD/target/release/aggrade}"
 [ -x "$bin" ] || { echo "no release binary at $bin; run without --no-build" >&2; exit 1; }
 
-# The generator: each section is the demo's beds in order (shifted by 7 beds per section of a
-# panel project), repeated, with ids renumbered and surface names made unique; thickness jittered
-# ±20 % so no two repeats are identical. Written in the demo file's own format version. Only every
-# 50th bed keeps its note, so 100,000 beds stay under the 32 MiB file limit.
-python3 - "$out" <<'PY'
-import json, random, sys
-out = sys.argv[1]
-demo = json.load(open("sample_sections/demo.aggrade"))
-pattern = [b for s in demo["sections"] for b in s["beds"]]
-def section(name, n, shift, seed):
-    rng = random.Random(seed)
-    beds = []
-    for i in range(n):
-        b = dict(pattern[(i + shift) % len(pattern)])
-        b["id"] = i + 1
-        if i % 50:
-            b.pop("notes", None)
-        b["thickness_m"] = round(max(0.01, b["thickness_m"] * rng.uniform(0.8, 1.2)), 3)
-        if "base_surface" in b:
-            b["base_surface"] = dict(b["base_surface"], name=f'{b["base_surface"]["name"]}-{i}')
-        beds.append(b)
-    return {"name": name, "locality": "Tamsin Ridge badlands (invented)", "beds": beds}
-def write(path, sections):
-    with open(path, "w") as f:
-        json.dump({"format_version": demo["format_version"], "sections": sections}, f, separators=(",", ":"))
-        f.write("\n")
-for n in (1_000, 10_000, 100_000):
-    write(f"{out}/beds_{n}.aggrade", [section(f"Scaling {n}", n, 0, 20261201)])
-for n in (1_000, 10_000):
-    panel = []
-    for j in range(10):
-        s = section(f"Panel {j + 1}", n, 7 * j, 20261203 + j)
-        s["panel_position_m"] = 1500.0 * j
-        panel.append(s)
-    write(f"{out}/panel_10x{n}.aggrade", panel)
-PY
+# The sections (scripts/bench-sections.py): the demo's beds in order, repeated, thickness jittered
+# ±20 % with a fixed seed, in the demo file's format version; a panel project's sections start 7
+# beds apart in the pattern and stand 1.5 km apart.
+for n in 1000 10000 100000; do
+    python3 scripts/bench-sections.py "$out/beds_$n.aggrade" "$n"
+done
+for n in 1000 10000; do
+    python3 scripts/bench-sections.py "$out/panel_10x$n.aggrade" "$n" 10
+done
 # The same sections with one bad bed near the end (an id written as text): the reader's slower
 # path that names every problem, bed by bed; and as bed-table CSV, the import door's input.
 python3 - "$out" <<'PY'
@@ -75,7 +48,8 @@ for n in (1_000, 10_000, 100_000):
 PY
 for n in 1000 10000 100000; do
     rm -f "$out/beds_$n.csv"
-    "$bin" convert "$out/beds_$n.aggrade" "$out/beds_$n.csv" >/dev/null 2>&1
+    "$bin" convert "$out/beds_$n.aggrade" "$out/beds_$n.csv" >/dev/null 2>"$out/stderr.txt" ||
+        { cat "$out/stderr.txt" >&2; exit 1; }
 done
 ls -l "$out"/beds_*.aggrade "$out"/panel_*.aggrade "$out"/beds_*.csv
 
