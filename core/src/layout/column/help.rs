@@ -210,7 +210,8 @@ impl ColumnCtx<'_> {
         if !h.is_finite() || h < -p.tolerance_m || h > self.total_m + p.tolerance_m {
             return None;
         }
-        // A boundary line crosses the lithology column and every track to the regime's.
+        // A boundary line crosses the lithology column and every track to the regime's, but
+        // for the labelled record tracks (samples, photographs, fossils).
         let on_line = p.x_mm >= self.tracks.lithology.x_mm - 1.5
             && matches!(
                 kind,
@@ -220,9 +221,6 @@ impl ColumnCtx<'_> {
                     | TrackKind::Paleosols
                     | TrackKind::Bioturbation
                     | TrackKind::Facies
-                    | TrackKind::Samples
-                    | TrackKind::Photos
-                    | TrackKind::Fossils
                     | TrackKind::Storeys
                     | TrackKind::Bodies
                     | TrackKind::Proportion

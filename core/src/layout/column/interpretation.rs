@@ -166,7 +166,24 @@ impl ColumnCtx<'_> {
         for c in cands {
             let y = t.y_mm(c.height_m);
             let (stroke, label, color) = boundary_style(c.review, c.strength, candidate_name(c));
-            out.push(Item::Polyline { points: vec![PtMm { x: x_start, y }, PtMm { x: x_end, y }], stroke });
+            // The line leaves a gap over the labelled record tracks so that it never strikes
+            // through a sample id, a photograph's reference or a fossil's name.
+            match tr.label_tracks_span() {
+                Some((a, b)) => {
+                    out.push(Item::Polyline {
+                        points: vec![PtMm { x: x_start, y }, PtMm { x: x0 + a - 0.5, y }],
+                        stroke: stroke.clone(),
+                    });
+                    out.push(Item::Polyline {
+                        points: vec![PtMm { x: x0 + b + 0.5, y }, PtMm { x: x_end, y }],
+                        stroke,
+                    });
+                }
+                None => out.push(Item::Polyline {
+                    points: vec![PtMm { x: x_start, y }, PtMm { x: x_end, y }],
+                    stroke,
+                }),
+            }
             if let Some(lt) = tr.boundary_labels {
                 let size = fit_size(&label, lt.w_mm - 0.8, SMALL_PT, 4.0).unwrap_or(4.0);
                 text(out, x0 + lt.x_mm + 0.8, y + 0.9, &label, size, color);

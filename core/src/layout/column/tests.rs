@@ -385,4 +385,31 @@ mod record {
             assert!(!t.starts_with("D1") && !t.contains("suggested code") && !t.contains("sample,"), "{t}");
         }
     }
+
+    #[test]
+    fn boundary_lines_leave_the_sample_ids_clear() {
+        let s = dense();
+        let interp = sample_interpretation(&sample_section());
+        let opts = LayoutOptions::default();
+        let ctx = ColumnCtx::new(&s, &interp, &opts);
+        let t = HeightTransform::new(300.0, 0.0, 100.0);
+        let (mut out, mut boxes) = (Vec::new(), Vec::new());
+        ctx.draw_range(0.0, ctx.total_m, 0.0, &t, &mut out, &mut boxes);
+        let st = ctx.tracks.samples.expect("samples track");
+        let (lith, regime) = (ctx.tracks.lithology, ctx.tracks.regime.expect("interpretation shown"));
+        let lines: Vec<&Vec<PtMm>> = out
+            .iter()
+            .filter_map(|it| match it {
+                Item::Polyline { points, stroke } if stroke.color == BOUNDARY_RED => Some(points),
+                _ => None,
+            })
+            .collect();
+        // The sample's boundaries below 24 m: each drawn in two pieces around the samples track.
+        assert!(lines.len() >= 2 && lines.len() % 2 == 0, "{} pieces", lines.len());
+        for p in &lines {
+            let (a, b) = (p[0].x.min(p[1].x), p[0].x.max(p[1].x));
+            assert!(b <= st.x_mm || a >= st.x_mm + st.w_mm, "a boundary crosses the sample ids: {p:?}");
+            assert!(a >= lith.x_mm - 1.5 - 1e-9 && b <= regime.x_mm + regime.w_mm + 1e-9);
+        }
+    }
 }
