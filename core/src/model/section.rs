@@ -100,7 +100,7 @@ pub struct Bed {
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub drainage: Option<Drainage>,
     /// The distance measured along the ground across this bed, metres, when the thickness was
-    /// worked out from it (see `attitude::true_thickness`). Version 2.
+    /// worked out from it (see `analysis::attitude::true_thickness_m`). Version 2.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub slope_distance_m: Option<f64>,
     #[serde(default, skip_serializing_if = "String::is_empty")]
