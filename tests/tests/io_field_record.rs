@@ -132,9 +132,9 @@ fn each_bad_cell_is_named_by_line_and_column_with_what_is_valid() {
             &["\"zircons\" is not a sample kind", "dz (detrital zircon)"],
         ),
         (
-            "1,sandstone,m,,,,,,SC-1 (@1.5),",
+            "1,sandstone,m,,,,,,SC-1 (@-0.5),",
             "samples",
-            &["sample \"SC-1\": the height must lie within the bed", "thickness 1 m, got 1.5 m"],
+            &["sample SC-1: the height above the bed's base must be ≥ 0, got -0.5"],
         ),
         (
             "1,sandstone,m,,,,,,SC-1;SC-1,",
@@ -194,6 +194,16 @@ fn huge_lists_and_very_long_texts_are_refused_naming_the_cell() {
         &read_bed_table(&text, "t").expect("12,000 characters, each reference within its limit").section.beds
             [0];
     assert_eq!(bed.photos.len(), 80);
+}
+
+#[test]
+fn a_sample_above_its_beds_top_reads_and_is_a_warning() {
+    // Not an error: shortening a bed in the window must not be refused for it.
+    let text = "thickness_m,lithology,grain,samples\n1,sandstone,m,SC-1 (@1.5)\n";
+    let s = read_bed_table(text, "t").expect("reads").section;
+    let w = aggrade_core::io::record_warnings(&s);
+    assert_eq!(w.len(), 1, "{w:?}");
+    assert!(w[0].message.contains("above its top (the bed is 1 m thick)"), "{}", w[0]);
 }
 
 #[test]
@@ -304,12 +314,12 @@ fn project_file_problems_name_line_and_field() {
     let good = project_text("", "");
     read_project_text(&good).expect("the plain project reads");
     // Bed fields: line 12 is the first of bed_extra.
-    let bed_extra = "          \"bioturbation_index\": 7,\n          \"samples\": [{\"id\": \"CW-1\", \"height_in_bed_m\": 2.5}],\n          \"photos\": [{\"reference\": \" \"}],\n          \"slope_distance_m\": -1,\n";
+    let bed_extra = "          \"bioturbation_index\": 7,\n          \"samples\": [{\"id\": \"CW-1\", \"height_in_bed_m\": -0.5}],\n          \"photos\": [{\"reference\": \" \"}],\n          \"slope_distance_m\": -1,\n";
     let ps = read_project_text(&project_text("", bed_extra)).expect_err("refused");
     let got: Vec<String> = ps.iter().map(ToString::to_string).collect();
     let want = [
         "line 12: sections[0].beds[0].bioturbation_index: must be a bioturbation index 0–6",
-        "line 13: sections[0].beds[0].samples[0].height_in_bed_m: sample \"CW-1\": the height must lie within the bed",
+        "line 13: sections[0].beds[0].samples[0].height_in_bed_m: sample \"CW-1\": the height above the bed's base must be ≥ 0",
         "line 14: sections[0].beds[0].photos[0].reference: must not be empty",
         "line 15: sections[0].beds[0].slope_distance_m: must be > 0",
     ];
@@ -330,14 +340,14 @@ fn project_file_problems_name_line_and_field() {
         "{got:?}"
     );
     // Section fields: line 6 is the first of section_extra.
-    let section_extra = "      \"bedding\": {\"dip_deg\": 95, \"dip_direction_deg\": 30},\n      \"traverse\": {\"bearing_deg\": 400, \"slope_deg\": 10},\n      \"fixes\": [\n        {\"role\": \"top\", \"height_m\": 9, \"lat_deg\": 95, \"lon_deg\": 10}\n      ],\n      \"thickness_uncertainty_m\": -0.05,\n      \"body_lateral\": [{\"base_bed\": 4, \"width_m\": 0}],\n";
+    let section_extra = "      \"bedding\": {\"dip_deg\": 95, \"dip_direction_deg\": 30},\n      \"traverse\": {\"bearing_deg\": 400, \"slope_deg\": 10},\n      \"fixes\": [\n        {\"role\": \"top\", \"height_m\": -9, \"lat_deg\": 95, \"lon_deg\": 10}\n      ],\n      \"thickness_uncertainty_m\": -0.05,\n      \"body_lateral\": [{\"base_bed\": 4, \"width_m\": 0}],\n";
     let ps = read_project_text(&project_text(section_extra, "")).expect_err("refused");
     let got: Vec<String> = ps.iter().map(ToString::to_string).collect();
     let want = [
         "line 6: sections[0].bedding.dip_deg: must lie between 0 and 90 degrees, got 95",
         "line 7: sections[0].traverse.bearing_deg: must lie between 0 and 360 degrees, got 400",
         "line 9: sections[0].fixes[0].lat_deg: must lie between -90 and 90, got 95",
-        "line 9: sections[0].fixes[0].height_m: must lie within the section, from 0 at its base to its top at 2 m, got 9 m",
+        "line 9: sections[0].fixes[0].height_m: must be a height of 0 m or more above the section's base, got -9",
         "line 11: sections[0].thickness_uncertainty_m: must be ≥ 0",
         "line 12: sections[0].body_lateral[0].base_bed: refers to bed id 4",
         "line 12: sections[0].body_lateral[0].width_m: must be > 0",

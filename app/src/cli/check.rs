@@ -14,7 +14,7 @@ pub struct CheckArgs {
 /// line, field, value, what is valid) on stderr and a non-zero exit when it is not.
 pub fn run(args: &CheckArgs) -> anyhow::Result<()> {
     let loaded = io::load(&args.file)?;
-    for warning in loaded.warnings.iter().chain(&io::missing_photo_files(&args.file, &loaded.project)) {
+    for warning in loaded.warnings.iter().chain(&io::field_record_warnings(&args.file, &loaded.project)) {
         eprintln!("warning: {warning}");
     }
     print!("{}", summary(&args.file, &loaded.project));

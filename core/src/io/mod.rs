@@ -32,7 +32,9 @@ pub use limits::*;
 pub use migrate::infer_surface_kind;
 pub use problem::Problem;
 pub use project_file::{project_to_json, read_project_text, ProjectRead};
-pub use validate::{check_iso_date, check_link_label, missing_photo_files, validate_project, validate_section};
+pub use validate::{
+    check_iso_date, check_link_label, field_record_warnings, record_warnings, validate_project, validate_section,
+};
 
 /// The reader's stages on their own, for the cross-crate tests and benchmarks that compare the
 /// fast paths with the checked path (cargo feature `internals`); not part of the API.

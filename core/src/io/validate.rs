@@ -11,7 +11,7 @@ use crate::model::{GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
 use std::collections::HashMap;
 
 mod record;
-pub use record::missing_photo_files;
+pub use record::{field_record_warnings, record_warnings};
 
 /// Every problem in one section. Locations are relative to the section (`beds[3].thickness_m`).
 pub fn validate_section(section: &Section) -> Vec<Problem> {

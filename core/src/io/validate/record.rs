@@ -63,17 +63,15 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
             }
             check_text(out, &sat("id"), &s.id);
             if let Some(h) = s.height_in_bed_m {
-                let t = bed.thickness_m;
-                // A height at the very top may carry the rounding of a unit conversion.
-                let within = h.is_finite() && h >= 0.0 && (!t.is_finite() || h <= t * (1.0 + 1e-9));
-                if !within {
+                // Above the bed's top is a warning (see `record_warnings`): an edit of the
+                // thickness must not be refused for it.
+                if !(h.is_finite() && (0.0..=MAX_BED_THICKNESS_M).contains(&h)) {
                     out.push(Problem::new(
                         sat("height_in_bed_m"),
                         format!(
-                            "sample {:?}: the height must lie within the bed, from 0 at its base to its \
-                             thickness {} m, got {} m",
+                            "sample {:?}: the height above the bed's base must be ≥ 0 and ≤ {MAX_BED_THICKNESS_M} m, \
+                             got {} m",
                             s.id,
-                            show(t),
                             show(h)
                         ),
                     ));
@@ -165,17 +163,17 @@ pub(super) fn section_record(out: &mut Vec<Problem>, section: &Section) {
             format!("{} GPS fixes; at most {MAX_FIXES_PER_SECTION} per section", section.fixes.len()),
         ));
     } else {
-        let total = section.total_thickness_m();
         for (k, f) in section.fixes.iter().enumerate() {
             let at = |field: &str| format!("fixes[{k}].{field}");
             in_range(out, &at("lat_deg"), f.lat_deg, -90.0, 90.0, "");
             in_range(out, &at("lon_deg"), f.lon_deg, -180.0, 180.0, "");
-            if !(f.height_m.is_finite() && f.height_m >= 0.0 && f.height_m <= total * (1.0 + 1e-9)) {
+            // Above the section's top is a warning (see `record_warnings`), so that shortening a
+            // bed is not refused for it.
+            if !(f.height_m.is_finite() && f.height_m >= 0.0) {
                 out.push(Problem::new(
                     at("height_m"),
                     format!(
-                        "must lie within the section, from 0 at its base to its top at {} m, got {} m",
-                        show(total),
+                        "must be a height of 0 m or more above the section's base, got {}",
                         show(f.height_m)
                     ),
                 ));
@@ -218,30 +216,68 @@ pub(super) fn section_record(out: &mut Vec<Problem>, section: &Section) {
     }
 }
 
-/// Photos whose image file cannot be found, as warnings naming the file read from (`path`), the
-/// line and the field: the reference is kept, and the file may be on another disk. A relative
-/// path is taken from the folder of `path`.
-pub fn missing_photo_files(path: &Path, project: &Project) -> Vec<Warning> {
+/// Inconsistencies of the field record that do not stop a file from being read or saved, so
+/// that no edit is refused for them, located relative to the section: a sample above the top of
+/// its bed, a GPS fix above the top of the section. (A tolerance of one part in 10⁹ allows for
+/// the rounding of a unit conversion.)
+pub fn record_warnings(section: &Section) -> Vec<Problem> {
+    let mut out = Vec::new();
+    for (i, bed) in section.beds.iter().enumerate() {
+        let t = bed.thickness_m;
+        for (k, s) in bed.samples.iter().enumerate() {
+            match s.height_in_bed_m {
+                Some(h) if h.is_finite() && t.is_finite() && h > t * (1.0 + 1e-9) => out.push(Problem::new(
+                    format!("beds[{i}].samples[{k}].height_in_bed_m"),
+                    format!(
+                        "sample {:?} is {} m above the bed's base, above its top (the bed is {} m thick); \
+                         check the height or the thickness",
+                        s.id,
+                        show(h),
+                        show(t)
+                    ),
+                )),
+                _ => {}
+            }
+        }
+    }
+    let total = section.total_thickness_m();
+    for (k, f) in section.fixes.iter().enumerate() {
+        if f.height_m.is_finite() && f.height_m > total * (1.0 + 1e-9) {
+            out.push(Problem::new(
+                format!("fixes[{k}].height_m"),
+                format!(
+                    "the {} fix is at {} m, above the section's top at {} m; check its height or the thicknesses",
+                    f.role.name(),
+                    show(f.height_m),
+                    show(total)
+                ),
+            ));
+        }
+    }
+    out
+}
+
+/// Warnings on the field record of a file read from `path`, each naming the file, the line and
+/// the field (or column): [`record_warnings`] of every section, and photos whose image file
+/// cannot be found (the reference is kept, and the file may be on another disk; a relative path
+/// is taken from the folder of `path`).
+pub fn field_record_warnings(path: &Path, project: &Project) -> Vec<Warning> {
     let folder = path.parent().unwrap_or_else(|| Path::new(""));
-    let mut found: Vec<(usize, usize, usize, Problem)> = Vec::new();
+    let mut found: Vec<Problem> = Vec::new();
     for (i, s) in project.sections.iter().enumerate() {
+        found.extend(record_warnings(s).into_iter().map(|p| p.prefixed(&format!("sections[{i}]."))));
         for (j, b) in s.beds.iter().enumerate() {
             for (k, p) in b.photos.iter().enumerate() {
                 let Some(file) = p.file.as_deref().filter(|f| !f.trim().is_empty()) else { continue };
                 let image = folder.join(file.trim());
                 if !image.exists() {
                     let shown: String = file.chars().take(200).collect();
-                    found.push((
-                        i,
-                        j,
-                        k,
-                        Problem::new(
-                            format!("sections[{i}].beds[{j}].photos[{k}].file"),
-                            format!(
-                                "no image file at {shown:?} (looked for {}); the photo reference {:?} is kept",
-                                image.display(),
-                                p.reference
-                            ),
+                    found.push(Problem::new(
+                        format!("sections[{i}].beds[{j}].photos[{k}].file"),
+                        format!(
+                            "no image file at {shown:?} (looked for {}); the photo reference {:?} is kept",
+                            image.display(),
+                            p.reference
                         ),
                     ));
                 }
@@ -252,27 +288,41 @@ pub fn missing_photo_files(path: &Path, project: &Project) -> Vec<Warning> {
         return Vec::new();
     }
     let text = std::fs::read_to_string(path).unwrap_or_default();
-    let is_csv = crate::io::FileKind::of(path) == Some(crate::io::FileKind::BedTable);
-    let lines: Vec<Option<usize>> = if is_csv {
-        // A bed table holds one section; its rows give the lines, and the field is its column.
+    if crate::io::FileKind::of(path) == Some(crate::io::FileKind::BedTable) {
+        // A bed table holds one section: the row gives the line, the field its column.
         let rows = crate::io::read_bed_table(&text, "photos").map(|r| r.lines).unwrap_or_default();
-        found.iter().map(|(_, j, _, _)| rows.get(*j).copied()).collect()
+        for p in &mut found {
+            let (bed, column) = csv_place(&p.location);
+            p.line = bed.and_then(|j| rows.get(j).copied());
+            p.location = column;
+        }
     } else {
-        let paths: Vec<&str> = found.iter().map(|(.., p)| p.location.as_str()).collect();
+        let paths: Vec<&str> = found.iter().map(|p| p.location.as_str()).collect();
         let at = crate::io::json_scan::lines_of(&text, &paths);
-        found.iter().map(|(.., p)| at.get(&p.location).copied()).collect()
+        for p in &mut found {
+            p.line = at.get(&p.location).copied();
+        }
+    }
+    found.sort_by_key(|p| p.line);
+    found.into_iter().map(|problem| Warning { path: path.to_path_buf(), problem }).collect()
+}
+
+/// The bed index and the bed-table column of a path such as `sections[0].beds[3].photos[1].file`
+/// (`column photos, photo 2`).
+fn csv_place(location: &str) -> (Option<usize>, String) {
+    let index = |s: &str, key: &str| -> Option<usize> {
+        let rest = &s[s.find(key)? + key.len()..];
+        rest[..rest.find(']')?].parse().ok()
     };
-    found
-        .into_iter()
-        .zip(lines)
-        .map(|((_, _, k, mut problem), line)| {
-            if is_csv {
-                problem.location = format!("column photos, photo {}", k + 1);
-            }
-            problem.line = line;
-            Warning { path: path.to_path_buf(), problem }
-        })
-        .collect()
+    let bed = index(location, "beds[");
+    let column = if let Some(k) = index(location, "photos[") {
+        format!("column photos, photo {}", k + 1)
+    } else if let Some(k) = index(location, "samples[") {
+        format!("column samples, sample {}", k + 1)
+    } else {
+        location.to_string()
+    };
+    (bed, column)
 }
 
 #[cfg(test)]
@@ -372,7 +422,6 @@ mod tests {
         ];
         let got = locations(&s);
         let want = [
-            "beds[0].samples[0].height_in_bed_m",
             "beds[0].samples[1].id",
             "beds[0].samples[2].id",
             "beds[0].samples[3].height_in_bed_m",
@@ -390,7 +439,6 @@ mod tests {
             "traverse.bearing_deg",
             "fixes[0].lat_deg",
             "fixes[0].lon_deg",
-            "fixes[0].height_m",
             "fixes[0].elevation_m",
             "body_lateral[0].base_bed",
             "body_lateral[0].width_m",
@@ -425,10 +473,54 @@ mod tests {
         let path = dir.path().join("t.csv");
         std::fs::write(&path, csv).expect("write");
         let project = crate::io::load(&path).expect("reads").project;
-        let warnings = missing_photo_files(&path, &project);
+        let warnings = field_record_warnings(&path, &project);
         assert_eq!(warnings.len(), 1, "{warnings:?}");
         let w = warnings[0].to_string();
         assert!(w.contains("line 3: column photos, photo 2: no image file at \"photos/gone.jpg\""), "{w}");
         assert!(w.starts_with(&path.display().to_string()), "{w}");
+    }
+
+    #[test]
+    fn a_sample_above_its_bed_and_a_fix_above_the_top_are_warnings_not_errors() {
+        let mut s = Section::new("x");
+        let mut b = sand(1, 2.0);
+        b.samples = vec![
+            Sample { id: "A".into(), kind: None, height_in_bed_m: Some(2.0) },
+            Sample { id: "B".into(), kind: None, height_in_bed_m: Some(2.5) },
+        ];
+        s.beds = vec![b];
+        s.fixes = vec![GpsFix {
+            role: FixRole::Top,
+            height_m: 3.0,
+            lat_deg: 0.0,
+            lon_deg: 0.0,
+            elevation_m: None,
+            note: String::new(),
+        }];
+        // Shortening a bed must not make a section invalid (the window refuses edits that do).
+        assert_eq!(validate_section(&s), vec![]);
+        let w: Vec<String> = record_warnings(&s).iter().map(ToString::to_string).collect();
+        assert_eq!(
+            w,
+            [
+                "beds[0].samples[1].height_in_bed_m: sample \"B\" is 2.5 m above the bed's base, above its top (the \
+                 bed is 2 m thick); check the height or the thickness",
+                "fixes[0].height_m: the top fix is at 3 m, above the section's top at 2 m; check its height or the \
+                 thicknesses"
+            ]
+        );
+        // A bed table names the row and the sample.
+        let dir = tempfile::tempdir().expect("temporary folder");
+        let path = dir.path().join("t.csv");
+        std::fs::write(
+            &path,
+            "thickness_m,lithology,grain,samples\n1,sandstone,f,\n1,sandstone,f,A;B (@1.5)\n",
+        )
+        .expect("write");
+        let project = crate::io::load(&path).expect("reads: a warning only").project;
+        let w: Vec<String> =
+            field_record_warnings(&path, &project).iter().map(|w| w.problem.to_string()).collect();
+        assert_eq!(w.len(), 1, "{w:?}");
+        assert!(w[0].starts_with("line 3: column samples, sample 2: sample \"B\" is 1.5 m above"), "{w:?}");
     }
 }
