@@ -3,7 +3,7 @@
 //! classes: ribbon w/t < 15, narrow sheet 15–100, broad sheet > 100; after Friend et al. 1979).
 
 use super::harness::{app_with, demo_file, harness_of};
-use aggrade::gui::AggradeApp;
+use aggrade::gui::{AggradeApp, Document};
 use aggrade_core::rules::{interpret, RuleParams};
 use egui::{Key, Modifiers};
 use egui_kittest::kittest::Queryable;
@@ -22,7 +22,12 @@ fn first_width_cell<'h>(h: &'h Harness<'static, AggradeApp>) -> egui_kittest::No
 #[test]
 fn a_width_typed_in_the_body_table_is_stored_classed_and_undone() {
     let data = tempfile::tempdir().expect("temp dir");
-    let mut h = harness_of(app_with(Some(demo_file()), data.path(), vec![]));
+    // The demo with the first section's widths taken off, so the first row starts empty.
+    let mut a = app_with(Some(demo_file()), data.path(), vec![]);
+    let mut project = a.doc.project.as_ref().clone();
+    project.sections[0].body_lateral.clear();
+    a.doc = Document::new(project, None);
+    let mut h = harness_of(a);
     h.run();
     h.state_mut().views.bodies.open = true;
     h.run();
@@ -34,7 +39,6 @@ fn a_width_typed_in_the_body_table_is_stored_classed_and_undone() {
     let lowest = it.channel_bodies.iter().min_by(|a, b| a.base_m.total_cmp(&b.base_m)).expect("a body");
     let thickness = lowest.thickness_m;
     let base_bed = section.beds[it.storeys[lowest.storey_indices[0]].first_bed].id;
-    assert!(section.body_lateral.is_empty(), "the demo's first section starts with no widths");
     assert!(!lowest.is_censored(), "its thickness is whole");
 
     // A width 12 times the thickness: w/t 12 < 15, a ribbon (Friend et al. 1979; Gibling 2006).
