@@ -211,7 +211,7 @@ impl ColumnCtx<'_> {
             return None;
         }
         // A boundary line crosses the lithology column and every track to the regime's, but
-        // for the labelled record tracks (samples, photographs, fossils).
+        // for the record tracks of words (facies codes, samples, photographs, fossils).
         let on_line = p.x_mm >= self.tracks.lithology.x_mm - 1.5
             && matches!(
                 kind,
@@ -220,7 +220,6 @@ impl ColumnCtx<'_> {
                     | TrackKind::Paleocurrents
                     | TrackKind::Paleosols
                     | TrackKind::Bioturbation
-                    | TrackKind::Facies
                     | TrackKind::Storeys
                     | TrackKind::Bodies
                     | TrackKind::Proportion

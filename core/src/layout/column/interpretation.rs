@@ -166,9 +166,9 @@ impl ColumnCtx<'_> {
         for c in cands {
             let y = t.y_mm(c.height_m);
             let (stroke, label, color) = boundary_style(c.review, c.strength, candidate_name(c));
-            // The line leaves a gap over the labelled record tracks so that it never strikes
-            // through a sample id, a photograph's reference or a fossil's name.
-            match tr.label_tracks_span() {
+            // The line leaves a gap over the record tracks of words so that it never strikes
+            // through a facies code, a sample id, a photograph's reference or a fossil's name.
+            match tr.words_tracks_span() {
                 Some((a, b)) => {
                     out.push(Item::Polyline {
                         points: vec![PtMm { x: x_start, y }, PtMm { x: x0 + a - 0.5, y }],

@@ -387,7 +387,7 @@ mod record {
     }
 
     #[test]
-    fn boundary_lines_leave_the_sample_ids_clear() {
+    fn boundary_lines_leave_the_facies_codes_and_sample_ids_clear() {
         let s = dense();
         let interp = sample_interpretation(&sample_section());
         let opts = LayoutOptions::default();
@@ -404,11 +404,13 @@ mod record {
                 _ => None,
             })
             .collect();
-        // The sample's boundaries below 24 m: each drawn in two pieces around the samples track.
+        // The sample's boundaries below 24 m: each drawn in two pieces around those tracks.
         assert!(lines.len() >= 2 && lines.len() % 2 == 0, "{} pieces", lines.len());
         for p in &lines {
             let (a, b) = (p[0].x.min(p[1].x), p[0].x.max(p[1].x));
             assert!(b <= st.x_mm || a >= st.x_mm + st.w_mm, "a boundary crosses the sample ids: {p:?}");
+            let ft = ctx.tracks.facies.expect("facies track");
+            assert!(b <= ft.x_mm || a >= ft.x_mm + ft.w_mm, "a boundary crosses the facies codes: {p:?}");
             assert!(a >= lith.x_mm - 1.5 - 1e-9 && b <= regime.x_mm + regime.w_mm + 1e-9);
         }
     }

@@ -160,10 +160,12 @@ impl Tracks {
         [self.samples, self.photos, self.fossils].iter().flatten().map(|t| t.w_mm).sum()
     }
 
-    /// From the left edge of the first labelled record track (samples, photographs, fossils)
-    /// to the right edge of the last, mm from the segment's left edge; `None` without them.
-    pub fn label_tracks_span(&self) -> Option<(f64, f64)> {
-        let shown: Vec<Track> = [self.samples, self.photos, self.fossils].into_iter().flatten().collect();
+    /// From the left edge of the first record track of words (lithofacies codes, samples,
+    /// photographs, fossils) to the right edge of the last, mm from the segment's left edge;
+    /// `None` without them.
+    pub fn words_tracks_span(&self) -> Option<(f64, f64)> {
+        let shown: Vec<Track> =
+            [self.facies, self.samples, self.photos, self.fossils].into_iter().flatten().collect();
         Some((shown.first()?.x_mm, shown.last().map(|t| t.x_mm + t.w_mm)?))
     }
 
