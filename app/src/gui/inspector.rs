@@ -230,6 +230,65 @@ impl Typed {
     }
 }
 
+/// A field of one sample or photo of a bed's lists, committed as a whole value like the typed
+/// fields (an id may not be empty or repeat another's; a height lies within the bed).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash)]
+enum Row {
+    SampleId,
+    SampleHeight,
+    PhotoReference,
+}
+
+impl Row {
+    /// The field's name in messages, for the list entry `k`.
+    fn label(self, k: usize) -> String {
+        match self {
+            Row::SampleId => format!("Sample {} id", k + 1),
+            Row::SampleHeight => sample_height_label(k),
+            Row::PhotoReference => format!("Photo {} reference", k + 1),
+        }
+    }
+
+    /// The stored value of entry `k` as the field shows it.
+    fn stored(self, bed: &Bed, k: usize, unit: LengthUnit) -> String {
+        match self {
+            Row::SampleId => bed.samples.get(k).map(|s| s.id.clone()),
+            Row::SampleHeight => {
+                bed.samples.get(k).and_then(|s| s.height_in_bed_m).map(|h| show_length(h, unit))
+            }
+            Row::PhotoReference => bed.photos.get(k).map(|p| p.reference.clone()),
+        }
+        .unwrap_or_default()
+    }
+
+    /// Read the whole text into entry `k` of `bed`, checked as a saved file is.
+    fn read(self, text: &str, bed: &mut Bed, k: usize, unit: LengthUnit) -> Result<(), String> {
+        let label = self.label(k);
+        let gone = || format!("{label}: the entry is no longer listed on this bed");
+        match self {
+            Row::SampleHeight => return read_sample_height(text, bed, k, unit),
+            Row::SampleId => {
+                let t = text.trim();
+                if t.is_empty() {
+                    return Err(format!("{label}: write the label on the bag (e.g. SC-14)"));
+                }
+                if bed.samples.iter().enumerate().any(|(i, s)| i != k && s.id.trim() == t) {
+                    return Err(format!("{label}: {t:?} is already the id of another sample of this bed"));
+                }
+                bed.samples.get_mut(k).ok_or_else(gone)?.id = t.to_string();
+            }
+            Row::PhotoReference => {
+                let t = text.trim();
+                if t.is_empty() {
+                    return Err(format!("{label}: give the camera's file name or number (e.g. IMG_2041)"));
+                }
+                bed.photos.get_mut(k).ok_or_else(gone)?.reference = t.to_string();
+            }
+        }
+        check_bed(bed, None).map_err(|e| format!("{label}: {e}"))
+    }
+}
+
 /// Read the height of sample `k` above the bed's base, typed in the display unit; empty for none.
 fn read_sample_height(text: &str, bed: &mut Bed, k: usize, unit: LengthUnit) -> Result<(), String> {
     let label = sample_height_label(k);
@@ -300,8 +359,8 @@ struct BedFields {
     /// Section index and bed id (bed ids are unique within a section only).
     key: (usize, BedId),
     texts: [FieldText; TYPED],
-    /// The height in bed of each sample, by the sample's place in the bed's list.
-    heights: BTreeMap<usize, FieldText>,
+    /// The fields of the samples and photos, by field and place in the bed's list.
+    rows: BTreeMap<(Row, usize), FieldText>,
 }
 
 impl BedFields {
@@ -309,7 +368,7 @@ impl BedFields {
         BedFields {
             key,
             texts: Typed::ALL.map(|f| FieldText::new(&f.stored(bed, unit))),
-            heights: BTreeMap::new(),
+            rows: BTreeMap::new(),
         }
     }
 
@@ -318,26 +377,26 @@ impl BedFields {
     }
 
     fn has_problem(&self) -> bool {
-        self.texts.iter().chain(self.heights.values()).any(|t| t.problem.is_some())
+        self.texts.iter().chain(self.rows.values()).any(|t| t.problem.is_some())
     }
 
     fn has_uncommitted(&self) -> bool {
-        self.texts.iter().chain(self.heights.values()).any(FieldText::is_uncommitted)
+        self.texts.iter().chain(self.rows.values()).any(FieldText::is_uncommitted)
     }
 
-    /// Every field with its label (the typed fields, then the sample heights).
+    /// Every field with its label (the typed fields, then the samples' and photos').
     fn entries(&self) -> Vec<(String, &FieldText)> {
         let typed = Typed::ALL.iter().zip(&self.texts).map(|(f, t)| (f.label().to_string(), t));
-        typed.chain(self.heights.iter().map(|(k, t)| (sample_height_label(*k), t))).collect()
+        typed.chain(self.rows.iter().map(|((r, k), t)| (r.label(*k), t))).collect()
     }
 
-    /// Sample `k` was taken off the list: the height fields of the samples after it move up.
-    fn sample_removed(&mut self, k: usize) {
-        let old = std::mem::take(&mut self.heights);
-        self.heights = old
+    /// Entry `k` of a list was taken off: the fields of the entries after it move up.
+    fn entry_removed(&mut self, of: &[Row], k: usize) {
+        let old = std::mem::take(&mut self.rows);
+        self.rows = old
             .into_iter()
-            .filter(|(i, _)| *i != k)
-            .map(|(i, t)| if i > k { (i - 1, t) } else { (i, t) })
+            .filter(|((r, i), _)| !(of.contains(r) && *i == k))
+            .map(|((r, i), t)| if of.contains(&r) && i > k { ((r, i - 1), t) } else { ((r, i), t) })
             .collect();
     }
 }
@@ -402,11 +461,11 @@ impl Inspector {
                     }
                 }
             }
-            let mut heights_read = Vec::new();
-            for (k, t) in fields.heights.iter_mut() {
+            let mut rows_read = Vec::new();
+            for ((r, k), t) in fields.rows.iter_mut() {
                 if t.is_uncommitted() && t.problem.is_none() {
-                    match read_sample_height(&t.text.clone(), &mut bed, *k, unit) {
-                        Ok(()) => heights_read.push(*k),
+                    match r.read(&t.text.clone(), &mut bed, *k, unit) {
+                        Ok(()) => rows_read.push((*r, *k)),
                         Err(e) => t.problem = Some(e),
                     }
                 }
@@ -417,8 +476,8 @@ impl Inspector {
                 for f in read {
                     fields.get(f).revert();
                 }
-                for k in heights_read {
-                    fields.heights.remove(&k);
+                for key in rows_read {
+                    fields.rows.remove(&key);
                 }
             }
         }
@@ -739,33 +798,23 @@ impl FieldCtx<'_> {
         }
     }
 
-    /// The height field of sample `k`.
-    fn show_height(
+    /// A field of entry `k` of the bed's samples or photos.
+    fn show_row(
         &self,
         ui: &mut egui::Ui,
+        row: Row,
         k: usize,
         fields: &mut BedFields,
         bed: &mut Bed,
+        look: FieldLook<'_>,
     ) -> (egui::Response, bool) {
-        let id = egui::Id::unique(("inspector_sample_height", k, self.key));
-        let stored = self
-            .orig
-            .samples
-            .get(k)
-            .and_then(|s| s.height_in_bed_m)
-            .map(|h| show_length(h, self.unit))
-            .unwrap_or_default();
-        let state = fields.heights.entry(k).or_insert_with(|| FieldText::new(&stored));
+        let id = egui::Id::unique(("inspector_row", row, k, self.key));
+        let stored = row.stored(self.orig, k, self.unit);
+        let state = fields.rows.entry((row, k)).or_insert_with(|| FieldText::new(&stored));
         let mut candidate = bed.clone();
         let unit = self.unit;
-        let look = FieldLook {
-            hint: unit.name(),
-            tip: "Height of the sample above the bed's base, in the display unit; empty if not noted. Stored when you press Enter or leave the field",
-            width: 56.0,
-            char_limit: 40,
-        };
         let (r, value) = committed_field(ui, id, state, &stored, look, |text| {
-            read_sample_height(text, &mut candidate, k, unit).map(|_| candidate)
+            row.read(text, &mut candidate, k, unit).map(|_| candidate)
         });
         match value {
             Some(b) => {

@@ -352,3 +352,78 @@ fn optional_columns_are_chosen_remembered_and_typed_in_the_entry_row_with_tab() 
     undo(&mut h);
     assert_eq!(h.state().doc.section().beds.len(), n);
 }
+
+#[test]
+fn a_slope_distance_gives_the_true_thickness_once_the_section_has_a_traverse_and_bedding() {
+    use aggrade::gui::Edit;
+    use aggrade_core::model::{BeddingAttitude, Traverse};
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = inspector(data.path());
+    // No traverse and no bedding: the distance is kept, the thickness stays, and the window says
+    // what is missing.
+    h.state_mut().apply(Edit::SetSectionSetting {
+        method: None,
+        thickness_uncertainty_m: None,
+        bedding: None,
+        traverse: None,
+        fixes: Vec::new(),
+    });
+    let id = a_sandstone(&h);
+    select(&mut h, id);
+    let t0 = bed(&h, id).thickness_m;
+    type_into(&mut h, "Slope distance", "3", Key::Enter);
+    assert_eq!((bed(&h, id).slope_distance_m, bed(&h, id).thickness_m), (Some(3.0), t0));
+    assert!(shown_containing(&h, "no traverse"), "what is missing is said");
+    // Flat ground walked straight down the dip direction of beds dipping 30°: the true
+    // thickness is s·sin 30° (Compton 1985, apparent and true thickness).
+    h.state_mut().apply(Edit::SetSectionSetting {
+        method: None,
+        thickness_uncertainty_m: None,
+        bedding: Some(BeddingAttitude { dip_deg: 30.0, dip_direction_deg: 90.0 }),
+        traverse: Some(Traverse { bearing_deg: 90.0, slope_deg: 0.0 }),
+        fixes: Vec::new(),
+    });
+    h.run();
+    type_into(&mut h, "Slope distance", "4", Key::Enter);
+    let b = bed(&h, id);
+    assert_eq!(b.slope_distance_m, Some(4.0));
+    assert!(
+        (b.thickness_m - 2.0).abs() < 1e-9,
+        "4 m along the ground across beds dipping 30°: {}",
+        b.thickness_m
+    );
+    assert!(shown_containing(&h, "True thickness from it: 2.00 m"));
+    undo(&mut h);
+    assert_eq!((bed(&h, id).slope_distance_m, bed(&h, id).thickness_m), (Some(3.0), t0));
+}
+
+#[test]
+fn a_photo_whose_file_is_not_there_says_so_when_asked_to_open() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = inspector(data.path());
+    let id = a_sandstone(&h);
+    select(&mut h, id);
+    if h.query_by_label("Add photo").is_none() {
+        h.get_by_label("Samples & photos").scroll_to_me();
+        h.run();
+        h.get_by_label("Samples & photos").click();
+        h.run();
+    }
+    let n = bed(&h, id).photos.len();
+    h.get_by_label("Add photo").scroll_to_me();
+    h.run();
+    h.get_by_label("Add photo").click();
+    h.run();
+    h.run();
+    assert_eq!(bed(&h, id).photos.len(), n + 1);
+    let (reference, file) = (format!("Photo {} reference", n + 1), format!("Photo {} file", n + 1));
+    type_into(&mut h, &reference, "IMG_2041", Key::Tab);
+    type_into(&mut h, &file, "fotos/afloramiento_sur.jpg", Key::Tab);
+    let p = &bed(&h, id).photos[n];
+    assert_eq!((p.reference.as_str(), p.file.as_deref()), ("IMG_2041", Some("fotos/afloramiento_sur.jpg")));
+    h.get_all_by_label("Open").last().expect("the photo's Open button").click();
+    h.run();
+    h.run();
+    assert!(shown_containing(&h, "There is no image file at"), "a missing file is said, not opened");
+    assert!(shown_containing(&h, "afloramiento_sur.jpg"));
+}

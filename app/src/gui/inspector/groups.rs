@@ -3,7 +3,7 @@
 //! and the notes.
 
 use super::record::{self, BIOTURBATION_GRADES, BODY_FOSSILS, TRACE_FOSSILS};
-use super::{combo, roman, Form, Typed};
+use super::{combo, roman, Form, Row, Typed};
 use crate::gui::document::Document;
 use crate::gui::field::{problem_label, FieldLook, INVALID};
 use crate::gui::theme;
@@ -156,26 +156,25 @@ impl Form<'_> {
             let mut remove = None;
             if !self.bed.samples.is_empty() {
                 egui::Grid::new("samples").num_columns(4).spacing([6.0, 4.0]).show(ui, |ui| {
-                    for h in ["id", "kind", &format!("height in bed ({})", unit.name()), ""] {
-                        ui.label(egui::RichText::new(h).small().color(theme::TEXT_DIM));
-                    }
+                    // Headings at the columns' widths (a field takes no more room than its column).
+                    let heading = |ui: &mut egui::Ui, h: &str, w: f32| {
+                        ui.add_sized([w, 14.0], egui::Label::new(egui::RichText::new(h).small().color(theme::TEXT_DIM)));
+                    };
+                    heading(ui, "id", 76.0);
+                    heading(ui, "kind", 110.0);
+                    heading(ui, &format!("height in bed ({})", unit.name()), 56.0);
+                    ui.label("");
                     ui.end_row();
                     for k in 0..self.bed.samples.len() {
-                        let id = egui::Id::unique(("inspector_sample_id", k, self.cx.key));
-                        let r = ui
-                            .add_sized(
-                                [76.0, 20.0],
-                                egui::TextEdit::singleline(&mut self.bed.samples[k].id)
-                                    .id(id)
-                                    .hint_text("id")
-                                    .desired_width(70.0)
-                                    .char_limit(MAX_STRING_CHARS),
-                            )
-                            .on_hover_text("The label on the sample bag");
-                        let r = r.accessible_name(format!("Sample {} id", k + 1));
-                        if r.changed() {
-                            self.live = Some(("sample id", k));
-                        }
+                        let look = FieldLook {
+                            hint: "id",
+                            tip: "The label on the sample bag; stored when you press Enter or leave the field",
+                            width: 76.0,
+                            char_limit: MAX_STRING_CHARS,
+                        };
+                        let (r, read) = self.cx.show_row(ui, Row::SampleId, k, &mut self.fields, &mut self.bed, look);
+                        r.accessible_name(format!("Sample {} id", k + 1));
+                        self.committed |= read;
                         let kind = &mut self.bed.samples[k].kind;
                         egui::ComboBox::from_id_salt(("sample_kind", k, self.cx.key))
                             .selected_text(kind.map_or("—", SampleKind::name))
@@ -188,7 +187,14 @@ impl Form<'_> {
                             })
                             .response
                             .on_hover_text("What the sample was taken for");
-                        let (r, read) = self.cx.show_height(ui, k, &mut self.fields, &mut self.bed);
+                        let look = FieldLook {
+                            hint: unit.name(),
+                            tip: "Height of the sample above the bed's base, in the display unit; empty if not noted. Stored when you press Enter or leave the field",
+                            width: 56.0,
+                            char_limit: 40,
+                        };
+                        let (r, read) =
+                            self.cx.show_row(ui, Row::SampleHeight, k, &mut self.fields, &mut self.bed, look);
                         r.accessible_name(format!("Sample {} height in bed", k + 1));
                         self.committed |= read;
                         let words = record::sample_words(&self.bed.samples[k], unit);
@@ -198,15 +204,15 @@ impl Form<'_> {
                         ui.end_row();
                     }
                 });
-                for (k, t) in &self.fields.heights {
-                    if let (Some(p), true) = (&t.problem, *k < self.bed.samples.len()) {
+                for ((r, k), t) in &self.fields.rows {
+                    if let (Some(p), true) = (&t.problem, *r != Row::PhotoReference && *k < self.bed.samples.len()) {
                         problem_label(ui, p);
                     }
                 }
             }
             if let Some(k) = remove {
                 self.bed.samples.remove(k);
-                self.fields.sample_removed(k);
+                self.fields.entry_removed(&[Row::SampleId, Row::SampleHeight], k);
             }
             if ui
                 .button("Add sample")
@@ -227,26 +233,23 @@ impl Form<'_> {
             let mut remove = None;
             if !self.bed.photos.is_empty() {
                 egui::Grid::new("photos").num_columns(4).spacing([6.0, 4.0]).show(ui, |ui| {
-                    for h in ["reference", "image file", "", ""] {
-                        ui.label(egui::RichText::new(h).small().color(theme::TEXT_DIM));
+                    for (h, w) in [("reference", 80.0), ("image file", 110.0)] {
+                        ui.add_sized([w, 14.0], egui::Label::new(egui::RichText::new(h).small().color(theme::TEXT_DIM)));
                     }
+                    ui.label("");
+                    ui.label("");
                     ui.end_row();
                     for k in 0..self.bed.photos.len() {
-                        let id = egui::Id::unique(("inspector_photo_ref", k, self.cx.key));
-                        let r = ui
-                            .add_sized(
-                                [80.0, 20.0],
-                                egui::TextEdit::singleline(&mut self.bed.photos[k].reference)
-                                    .id(id)
-                                    .hint_text("IMG_2041")
-                                    .desired_width(80.0)
-                                    .char_limit(MAX_STRING_CHARS),
-                            )
-                            .on_hover_text("The camera's file name or number, or roll and frame");
-                        let r = r.accessible_name(format!("Photo {} reference", k + 1));
-                        if r.changed() {
-                            self.live = Some(("photo reference", k));
-                        }
+                        let look = FieldLook {
+                            hint: "IMG_2041",
+                            tip: "The camera's file name or number, or roll and frame; stored when you press Enter or leave the field",
+                            width: 80.0,
+                            char_limit: MAX_STRING_CHARS,
+                        };
+                        let (r, read) =
+                            self.cx.show_row(ui, Row::PhotoReference, k, &mut self.fields, &mut self.bed, look);
+                        r.accessible_name(format!("Photo {} reference", k + 1));
+                        self.committed |= read;
                         let mut file = self.bed.photos[k].file.clone().unwrap_or_default();
                         let id = egui::Id::unique(("inspector_photo_file", k, self.cx.key));
                         let r = ui
@@ -263,7 +266,7 @@ impl Form<'_> {
                             );
                         let r = r.accessible_name(format!("Photo {} file", k + 1));
                         if r.changed() {
-                            self.bed.photos[k].file = (!file.is_empty()).then_some(file);
+                            self.bed.photos[k].file = (!file.trim().is_empty()).then_some(file);
                             self.live = Some(("photo file", k));
                         }
                         let has_file =
@@ -289,12 +292,27 @@ impl Form<'_> {
             }
             if let Some(k) = remove {
                 self.bed.photos.remove(k);
+                self.fields.entry_removed(&[Row::PhotoReference], k);
+            }
+            for ((r, k), t) in &self.fields.rows {
+                if let (Some(p), true) = (&t.problem, *r == Row::PhotoReference && *k < self.bed.photos.len()) {
+                    problem_label(ui, p);
+                }
             }
             if let Some(n) = photo_note.as_deref() {
                 ui.add(egui::Label::new(egui::RichText::new(n).small().color(INVALID)).wrap());
             }
-            if ui.button("Add photo").on_hover_text("Add a photograph of this bed").clicked() {
-                self.bed.photos.push(Photo { reference: String::new(), file: None });
+            if ui
+                .button("Add photo")
+                .on_hover_text("Add a photograph of this bed, numbered on from the section's last photo")
+                .clicked()
+            {
+                let mut section = doc.section().clone();
+                if let Some(b) = section.beds.iter_mut().find(|b| b.id == self.bed.id) {
+                    b.photos = self.bed.photos.clone();
+                }
+                let reference = record::next_photo_reference(&section);
+                self.bed.photos.push(Photo { reference, file: None });
             }
         });
     }

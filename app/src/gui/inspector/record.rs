@@ -2,6 +2,8 @@
 //! (bioturbation index, facies codes), the short vocabularies offered for fossils, the photo
 //! files and the suggested facies code.
 
+#[cfg(test)]
+use aggrade_core::model::Photo;
 use aggrade_core::model::{Bed, BeddingAttitude, FaciesCode, Sample, Section, Traverse};
 use std::path::{Path, PathBuf};
 
@@ -113,9 +115,20 @@ pub fn open_photo(path: &Path) -> Result<(), String> {
 /// The id a new sample gets: the section's highest numbered id with its number one up ("CW-12"
 /// after "CW-11"), or "S-1" in a section with none.
 pub fn next_sample_id(section: &Section) -> String {
+    next_id(section.beds.iter().flat_map(|b| b.samples.iter()).map(|s| s.id.as_str()), "S-1")
+}
+
+/// The reference a new photo gets: the section's highest numbered reference one up ("IMG_2078"
+/// after "IMG_2077"), or "photo 1" in a section with none.
+pub fn next_photo_reference(section: &Section) -> String {
+    next_id(section.beds.iter().flat_map(|b| b.photos.iter()).map(|p| p.reference.as_str()), "photo 1")
+}
+
+/// The highest numbered of `ids` with its number one up, or `first`.
+fn next_id<'a>(ids: impl Iterator<Item = &'a str>, first: &str) -> String {
     let mut best: Option<(String, u64, usize)> = None;
-    for s in section.beds.iter().flat_map(|b| b.samples.iter()) {
-        if let Some((prefix, n, width)) = numbered(&s.id) {
+    for id in ids {
+        if let Some((prefix, n, width)) = numbered(id) {
             if best.as_ref().is_none_or(|(_, m, _)| n >= *m) {
                 best = Some((prefix.to_string(), n, width));
             }
@@ -123,7 +136,7 @@ pub fn next_sample_id(section: &Section) -> String {
     }
     match best {
         Some((prefix, n, width)) => format!("{prefix}{:0width$}", n + 1),
-        None => "S-1".into(),
+        None => first.into(),
     }
 }
 
@@ -188,6 +201,9 @@ mod tests {
         assert_eq!(next_sample_id(&s), "CW-12");
         s.beds[1].samples = vec![Sample::labelled("CW-099")];
         assert_eq!(next_sample_id(&s), "CW-100", "the width grows when it must");
+        assert_eq!(next_photo_reference(&s), "photo 1");
+        s.beds[0].photos = vec![Photo { reference: "IMG_2077".into(), file: None }];
+        assert_eq!(next_photo_reference(&s), "IMG_2078");
     }
 
     #[test]
