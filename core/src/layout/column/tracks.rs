@@ -42,7 +42,7 @@ pub const GRAIN_CLASS_STEP_MM: f64 = 3.0;
 
 /// Width and gap after each field-record track (bioturbation index, lithofacies, samples,
 /// photographs, fossils), mm.
-pub const RECORD_TRACKS_MM: [(f64, f64); 5] = [(5.5, 0.5), (6.0, 1.0), (16.0, 1.0), (16.0, 1.0), (18.0, 1.0)];
+pub const RECORD_TRACKS_MM: [(f64, f64); 5] = [(5.5, 0.5), (6.0, 0.5), (16.0, 1.0), (16.0, 1.0), (18.0, 1.0)];
 
 /// The least share of their width the labelled record tracks are narrowed to on paper.
 pub const MIN_LABEL_FACTOR: f64 = 0.6;
@@ -75,13 +75,13 @@ impl Tracks {
         // With the lithofacies track the default column is 134 mm wide, so A4 landscape (273 mm
         // between 12 mm margins) holds two segments side by side with the 4 mm gap.
         let rock = [
-            (11.0, 1.0),
-            (GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 1.5),
+            (12.0, 1.0),
+            (GRAIN_MIN_WIDTH_MM + GRAIN_CLASS_STEP_MM * 11.0, 2.0),
             (13.0, 0.5),
             (9.0, 0.5),
             (6.0, 1.0),
         ];
-        let interpretation = [(3.5, 0.0), (9.0, 1.5), (12.0, 1.5), (6.5, 0.5), (12.0, 0.0)];
+        let interpretation = [(3.5, 0.0), (9.0, 1.5), (11.0, 1.5), (6.5, 0.5), (12.0, 0.0)];
         let mut extra = [None; 5];
         let factor = label_factor.clamp(MIN_LABEL_FACTOR, 1.0);
         for (k, shown) in record.iter().enumerate() {
