@@ -364,18 +364,20 @@ impl Form<'_> {
                         } else {
                             &self.bed.body_fossils
                         };
-                        ui.horizontal_wrapped(|ui| {
-                            ui.set_max_width(FIELD_W + 40.0);
-                            for (k, name) in current.iter().enumerate() {
-                                if ui
-                                    .small_button(format!("{name} ✕"))
-                                    .on_hover_text(format!("Take {name} off the list"))
-                                    .clicked()
-                                {
-                                    remove = Some(k);
+                        if !current.is_empty() {
+                            ui.horizontal_wrapped(|ui| {
+                                ui.set_max_width(FIELD_W + 40.0);
+                                for (k, name) in current.iter().enumerate() {
+                                    if ui
+                                        .small_button(format!("{name} ✕"))
+                                        .on_hover_text(format!("Take {name} off the list"))
+                                        .clicked()
+                                    {
+                                        remove = Some(k);
+                                    }
                                 }
-                            }
-                        });
+                            });
+                        }
                         let mut add = None;
                         ui.horizontal(|ui| {
                             self.show(
