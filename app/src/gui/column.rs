@@ -79,13 +79,30 @@ impl Cache {
     /// Heights to lay out for a view: the view and one view's height above and below it, so
     /// scrolling rebuilds the layout only now and then; `None` when that is the whole section.
     fn window_for(&self, view_y_mm: Option<(f64, f64)>, total_m: f64) -> Option<(f64, f64)> {
-        let (y0, y1) = view_y_mm?;
+        let Some((y0, y1)) = view_y_mm else {
+            return top_window(total_m, self.strip.heights.mm_per_m());
+        };
         let h = &self.strip.heights;
         let span_mm = (y1 - y0).max(1.0);
         let hi = h.height_m(y0 - span_mm);
         let lo = h.height_m(y1 + span_mm);
         (lo > 0.0 || hi < total_m).then_some((lo, hi))
     }
+}
+
+/// Strip length (mm) laid out at the top of a section before the canvas has shown a view: the
+/// canvas opens on the section's top, and at its smallest opening zoom (1.5 points a millimetre)
+/// a view of the 880-point-high window is under 600 mm of strip, so this holds it three times
+/// over. Laying out a 50,000-bed section whole before the first frame cost seconds and hundreds of
+/// megabytes; the view, once known, gets its own window (see [`Cache::window_for`]).
+pub const FIRST_WINDOW_MM: f64 = 1_800.0;
+
+/// The heights (m) of the top [`FIRST_WINDOW_MM`] of a section `total_m` high drawn at
+/// `mm_per_m`, and as much again above its top (the titles, which a view of the top shows too);
+/// `None` when that is the whole section.
+fn top_window(total_m: f64, mm_per_m: f64) -> Option<(f64, f64)> {
+    let span_m = FIRST_WINDOW_MM / mm_per_m.max(1e-9);
+    (total_m > span_m).then_some((total_m - span_m, total_m + span_m))
 }
 
 /// Called from a worker thread when its result is ready (the window asks for a repaint).
@@ -177,7 +194,12 @@ impl Column {
                 return;
             }
             old => {
-                let w = old.as_ref().and_then(|c| c.window_for(view, total_m));
+                let w = match (&old, view) {
+                    (Some(c), _) => c.window_for(view, total_m),
+                    // Nothing shown yet: the top of the section, where the canvas opens.
+                    (None, None) => top_window(total_m, 1000.0 / inputs.layout.scale()),
+                    (None, Some(_)) => None,
+                };
                 (engine::interpret_with(section, inputs.params, inputs.all_candidates), w)
             }
         };
@@ -332,6 +354,36 @@ mod tests {
         column.clear();
         assert!(!column.pending());
         assert!(column.current().is_none());
+    }
+
+    #[test]
+    fn a_long_section_opens_with_its_top_laid_out_and_then_the_view() {
+        let doc = Document::new(Project::new(vec![long_section(20_000)]), None);
+        let (params, layout) = (RuleParams::default(), LayoutOptions::default());
+        let mut column = Column::default();
+        column.refresh(&inputs(&doc, &params, &layout));
+        let total_m = doc.section().total_thickness_m();
+        let c = column.current().expect("computed");
+        let (lo, hi) = c.window_m.expect("a window, not the whole section");
+        // 1:100 (10 mm a metre): the top 180 m, and the titles above.
+        assert!((total_m - lo - FIRST_WINDOW_MM / 10.0).abs() < 1e-6, "{lo}–{hi} of {total_m} m");
+        assert!(hi > total_m);
+        let whole = engine::column_strip_window(doc.section(), &c.interp, &layout, None);
+        assert!(
+            c.strip.items.len() * 20 < whole.items.len(),
+            "{} of {} items",
+            c.strip.items.len(),
+            whole.items.len()
+        );
+        // The canvas's first view (the top, at its smallest opening zoom) lies inside it.
+        let top_mm = c.strip.heights.y_mm(total_m) - 4.0;
+        assert!(c.covers(Some((top_mm, top_mm + 880.0 / 1.5))));
+        // A view far down is not covered, and gets a window of its own around it.
+        let mid_mm = c.strip.heights.y_mm(total_m / 2.0);
+        let view = Some((mid_mm, mid_mm + 300.0));
+        assert!(!c.covers(view));
+        let (lo2, hi2) = c.window_for(view, total_m).expect("a window around the view");
+        assert!(lo2 < total_m / 2.0 && hi2 > total_m / 2.0 && hi2 < total_m);
     }
 
     #[test]
