@@ -579,7 +579,9 @@ impl Work {
             }
             Edit::SetBodyLateral { section, base_bed, width_m, beyond_outcrop } => {
                 if let Some(w) = width_m.filter(|w| !(w.is_finite() && *w > 0.0)) {
-                    return Err(EditError(format!("width: a channel body's width is more than 0 m, got {w}")));
+                    return Err(EditError(format!(
+                        "width: a channel body's width is more than 0 m, got {w}"
+                    )));
                 }
                 let s = self
                     .project
@@ -652,7 +654,9 @@ fn setting_problem(
         }
     }
     let total = s.total_thickness_m();
-    for (k, f) in fixes.iter().enumerate() {
+    // A fix already stored passes as it is (the section may have been shortened since; `aggrade
+    // check` warns of it), so that the other settings can still be changed.
+    for (k, f) in fixes.iter().enumerate().filter(|(_, f)| !s.fixes.contains(f)) {
         if !within(f.lat_deg, -90.0, 90.0) {
             return Some(format!(
                 "fixes[{k}].lat_deg: a latitude lies between -90 and 90°, got {}",
@@ -905,6 +909,16 @@ mod tests {
         let e = d.apply(set(vec![fix(1.0, -91.0)])).expect_err("off the globe");
         assert!(e.0.contains("fixes[0].lat_deg"), "{e}");
         assert_eq!(d.section().fixes[0].height_m, 3.0, "a refused edit changes nothing");
+        // A stored fix the section has since grown shorter than does not block other changes.
+        d.apply(Edit::SplitBedAt { bed: BedId(2), lower_m: 1.0 }).expect("split");
+        d.apply(Edit::DeleteBed { bed: BedId(3) }).expect("shorter: 2 m now");
+        let mut keep = set(vec![fix(3.0, -24.6)]);
+        if let Edit::SetSectionSetting { method, .. } = &mut keep {
+            *method = Some(MeasuringMethod::JacobsStaff);
+        }
+        d.apply(keep).expect("the stored fix passes as it is");
+        assert_eq!(d.section().method, Some(MeasuringMethod::JacobsStaff));
+        assert!(d.undo() && d.undo() && d.undo());
         assert!(d.undo());
         assert_eq!((d.section().method, d.section().fixes.len()), (None, 0));
     }

@@ -780,12 +780,16 @@ impl SectionDetails {
         let mut fix_failed = false;
         for (k, f) in self.fixes.iter_mut().enumerate() {
             f.problem = None;
+            // Left as shown: the stored fix with every digit (even one the section has since
+            // grown shorter than).
+            let mut shown = f.clone();
+            shown.problem = None;
+            if let Some(same) = self.before.fixes.get(k).filter(|o| FixTexts::of(o, self.unit) == shown) {
+                fixes.push(same.clone());
+                continue;
+            }
             match read_fix(f, self.unit, self.total_m) {
-                Ok(fix) => {
-                    // Left as shown: the stored fix with every digit.
-                    let same = self.before.fixes.get(k).filter(|o| FixTexts::of(o, self.unit) == *f);
-                    fixes.push(same.cloned().unwrap_or(fix));
-                }
+                Ok(fix) => fixes.push(fix),
                 Err(p) => {
                     f.problem = Some(p);
                     fix_failed = true;
