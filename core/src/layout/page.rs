@@ -293,7 +293,7 @@ impl PageStream<'_> {
         index: usize,
         piece_beds: usize,
         items: &mut Vec<Item>,
-        flush: &mut dyn FnMut(&mut Vec<Item>, Option<PageSegment>) -> Result<(), E>,
+        flush: &mut Flush<'_, E>,
     ) -> Result<(), E> {
         let (ctx, opts, frame) = (&self.ctx, self.opts, &self.frame);
         let plan = &self.plan[index];
@@ -367,6 +367,10 @@ pub(super) fn piece_top(ctx: &ColumnCtx<'_>, cuts: &PieceCuts, lo: f64, end: f64
     }
     tops[want]
 }
+
+/// What [`PageStream::draw_into`] calls after each piece of a segment's column (`None`) and after
+/// each segment (with it): hands the items on, or keeps them.
+type Flush<'f, E> = dyn FnMut(&mut Vec<Item>, Option<PageSegment>) -> Result<(), E> + 'f;
 
 /// Beds in one piece of [`PageStream::next_in_pieces`]: a piece's items take a few hundred
 /// kilobytes whatever the length of the page.
@@ -521,7 +525,7 @@ fn draw_header(
     }
     // How and where the section was measured (the base coordinates among the GPS fixes).
     for line in setting {
-        text(out, m, y_line + 0.3, &line, SETTING_PT, INK);
+        text(out, m, y_line + 0.3, line, SETTING_PT, INK);
         y_line += SETTING_LINE_MM;
     }
     let y = m + header_h - 3.0;
