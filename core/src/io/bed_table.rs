@@ -78,7 +78,8 @@ pub const THICKNESS_COLUMNS: [(&str, LengthUnit); 3] = [
     ("thickness_ft", LengthUnit::Foot),
 ];
 
-/// Every column the reader understands (besides the alias `color` for `colour`).
+/// The columns of the rock and its contacts that the reader understands (besides the alias `color`
+/// for `colour`); [`RECORD_COLUMNS`] lists those of the field record.
 pub const KNOWN_COLUMNS: [&str; 21] = [
     "thickness_m",
     "thickness_cm",
