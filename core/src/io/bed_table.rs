@@ -78,8 +78,8 @@ pub const THICKNESS_COLUMNS: [(&str, LengthUnit); 3] = [
     ("thickness_ft", LengthUnit::Foot),
 ];
 
-/// The columns of the rock and its contacts that the reader understands (besides the alias `color`
-/// for `colour`); [`RECORD_COLUMNS`] lists those of the field record.
+/// The bed table's first columns (the rock, its contacts, paleosol, paleocurrents, surface, words), read
+/// as they always were (besides the alias `color` for `colour`); [`RECORD_COLUMNS`] lists the field record's.
 pub const KNOWN_COLUMNS: [&str; 21] = [
     "thickness_m",
     "thickness_cm",
