@@ -136,7 +136,8 @@ fn sample(item: &str, unit: LengthUnit) -> Result<Sample, String> {
         let words = kind_words.join(" ");
         Some(sample_kind(&words).ok_or_else(|| {
             format!(
-                "sample {id}: {words:?} is not a sample kind; write one of {} (or its full name), and @ before a height, e.g. SC-4 (dz @0.4)",
+                "sample {id}: {words:?} is not a sample kind; write one of {} (or its full name), and @ \
+                 before a height, e.g. SC-4 (dz @0.4)",
                 sample_kind_codes()
             )
         })?)
