@@ -1,6 +1,6 @@
 //! `aggrade export`: the interpreted column to PDF, SVG or PNG at a true scale.
 
-use aggrade_core::export::{write_pdf_to, write_png, PdfInfo, SvgWriter};
+use aggrade_core::export::{write_pdf_to, write_png, PdfInfo, PdfWriter, SvgWriter};
 use aggrade_core::layout::{page_stream, LayoutOptions, Orientation, Paper, PrintMeta};
 use aggrade_core::rules::interpret;
 use anyhow::{bail, Context};
@@ -134,12 +134,25 @@ pub fn run(args: &ExportArgs) -> anyhow::Result<()> {
         };
         // Pages are laid out and written a group at a time: memory stays the same for a
         // section of any length.
-        let p = page_stream(section, &interp, &opts, &meta);
+        let mut p = page_stream(section, &interp, &opts, &meta);
         let info =
             PdfInfo { title: section.name.clone(), author: section.logged_by.clone(), creation_date: when };
         let file = std::fs::File::create(out).with_context(|| format!("cannot write {}", out.display()))?;
-        let n = write_pdf_to(std::io::BufWriter::new(file), p, &info)
-            .with_context(|| format!("cannot write {}", out.display()))?;
+        let out_file = std::io::BufWriter::new(file);
+        let written = if opts.paper == Paper::TallSingle {
+            // One page as tall as the column: written as it is drawn, a few hundred beds at a
+            // time, like the tall SVG.
+            let (w_mm, h_mm) = p.page_size_mm();
+            PdfWriter::new(out_file, &info).and_then(|mut pdf| {
+                pdf.begin_page(w_mm, h_mm)?;
+                p.next_in_pieces(|items| pdf.page_items(items)).unwrap_or(Ok(()))?;
+                pdf.end_page()?;
+                pdf.finish().map(|_| 1)
+            })
+        } else {
+            write_pdf_to(out_file, p, &info)
+        };
+        let n = written.with_context(|| format!("cannot write {}", out.display()))?;
         eprintln!(
             "wrote {} ({} page{}, scale {})",
             out.display(),

@@ -93,3 +93,52 @@ fn bodies_shows_the_ends_of_a_long_interval_list_and_the_csv_has_them_all() {
     assert!(body_rows > 100, "{body_rows} bodies in the CSV");
     assert!(text.lines().count() < 60, "{text}");
 }
+
+#[test]
+fn a_long_section_on_tall_paper_is_one_page_in_pdf_and_svg() {
+    let dir = tempfile::tempdir().expect("dir");
+    let csv = long_table(dir.path(), 60);
+    let (pdf, svg) = (dir.path().join("tall.pdf"), dir.path().join("tall.svg"));
+    let o = aggrade(&[
+        "export",
+        csv.to_str().expect("path"),
+        "--pdf",
+        pdf.to_str().expect("path"),
+        "--svg",
+        svg.to_str().expect("path"),
+        "--paper",
+        "tall",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(stderr(&o).contains("(1 page, scale 1:100)"), "{}", stderr(&o));
+    // pypdf (PyPI, an independent reader): one page, as tall as the column, whose content comes
+    // in several streams (written as the column was drawn), with the section's last bed top on
+    // it and the review caution at its foot.
+    let script = "import sys, json, pypdf\n\
+        r = pypdf.PdfReader(sys.argv[1]); p = r.pages[0]; c = p.get_object()['/Contents']\n\
+        streams = len(c) if isinstance(c, list) else 1\n\
+        data = b''.join(s.get_object().get_data() for s in (c if isinstance(c, list) else [c]))\n\
+        print(json.dumps([len(r.pages), float(p.mediabox.height), streams, len(data)]))";
+    let out = std::process::Command::new("python3")
+        .args(["-c", script])
+        .arg(&pdf)
+        .output()
+        .expect("python3 runs (needed as the independent PDF reader)");
+    assert!(out.status.success(), "pypdf could not read the PDF: {}", stderr(&out));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).expect("JSON");
+    assert_eq!(v[0], 1, "{v}");
+    // At least as tall as the column: at 1:100, 10 mm a metre, 72/25.4 points a millimetre.
+    let table = std::fs::read_to_string(&csv).expect("table");
+    let total_m: f64 = table.lines().skip(1).filter_map(|l| l.split(',').next()?.parse::<f64>().ok()).sum();
+    let column_pt = total_m * 10.0 * 72.0 / 25.4;
+    let height_pt = v[1].as_f64().unwrap_or(0.0);
+    assert!(
+        column_pt > 50_000.0 && height_pt > column_pt && height_pt < column_pt + 1_000.0,
+        "{v} {column_pt}"
+    );
+    assert!(v[2].as_u64().unwrap_or(0) >= 2, "content in several streams: {v}");
+    // The SVG: one file, one page of the same height.
+    let text = std::fs::read_to_string(&svg).expect("one SVG file");
+    assert!(text.starts_with("<?xml") && text.trim_end().ends_with("</svg>"));
+    assert!(!dir.path().join("tall-1.svg").exists());
+}
