@@ -422,6 +422,9 @@ impl Work {
                 let s = self.section();
                 s.beds.remove(i);
                 s.review.retain(|d| d.bed != bed);
+                // A channel body's width stays with the body: it moves to the bed now lowest.
+                let heir = s.beds.get(i).map(|b| b.id);
+                rekey_body_lateral(s, bed, heir);
                 self.selected_bed = s.beds.get(i.min(s.beds.len().saturating_sub(1))).map(|b| b.id);
             }
             Edit::SplitBed { bed } => {
@@ -444,6 +447,8 @@ impl Work {
                 b.thickness_m += above.thickness_m;
                 b.grain_top = above.grain_top.or(b.grain_top);
                 s.review.retain(|d| d.bed != above.id);
+                // A body based on the bed merged away now starts with the merged bed.
+                rekey_body_lateral(s, above.id, Some(bed));
                 self.selected_bed = Some(bed);
             }
             Edit::SetReview { bed, state, note } => {
@@ -687,6 +692,19 @@ pub(crate) fn drop_elsewhere<T: Send + 'static>(value: T) {
     let _ = std::thread::Builder::new().name("aggrade-drop".into()).spawn(move || drop(value));
 }
 
+/// Move the lateral record of the channel body based on bed `from` to bed `to` (the geologist's
+/// width is kept when its base bed goes). When `to` is absent or already has a record, the
+/// record of `from` is dropped, since a record must name a bed that exists.
+fn rekey_body_lateral(s: &mut Section, from: BedId, to: Option<BedId>) {
+    let Some(k) = s.body_lateral.iter().position(|l| l.base_bed == from) else { return };
+    match to.filter(|t| !s.body_lateral.iter().any(|l| l.base_bed == *t)) {
+        Some(t) => s.body_lateral[k].base_bed = t,
+        None => {
+            s.body_lateral.remove(k);
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -802,6 +820,33 @@ mod tests {
         assert_eq!(d.section().review.len(), 1);
         d.apply(Edit::DeleteBed { bed: BedId(2) }).expect("delete");
         assert!(d.section().review.is_empty());
+    }
+
+    #[test]
+    fn a_body_width_moves_to_the_bed_now_lowest_when_its_base_bed_goes() {
+        let mut d = doc_with_beds(4);
+        let record = |base: u64| aggrade_core::model::BodyLateral {
+            base_bed: BedId(base),
+            width_m: Some(120.0),
+            beyond_outcrop: false,
+            note: String::new(),
+        };
+        d.apply(Edit::SetBodyLateral {
+            section: 0,
+            base_bed: BedId(2),
+            width_m: Some(120.0),
+            beyond_outcrop: false,
+        })
+        .expect("width");
+        assert_eq!(d.section().body_lateral, vec![record(2)]);
+        d.apply(Edit::DeleteBed { bed: BedId(2) }).expect("delete");
+        assert_eq!(d.section().body_lateral, vec![record(3)], "kept, on the bed that took its place");
+        d.apply(Edit::MergeWithAbove { bed: BedId(1) }).expect("merge 1 with 3");
+        assert_eq!(d.section().body_lateral, vec![record(1)], "kept, on the merged bed");
+        assert!(d.undo() && d.undo());
+        assert_eq!(d.section().body_lateral, vec![record(2)], "undo puts it back");
+        assert!(d.undo());
+        assert!(d.section().body_lateral.is_empty());
     }
 
     #[test]
