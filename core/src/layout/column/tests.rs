@@ -405,7 +405,7 @@ mod record {
             })
             .collect();
         // The sample's boundaries below 24 m: each drawn in two pieces around those tracks.
-        assert!(lines.len() >= 2 && lines.len() % 2 == 0, "{} pieces", lines.len());
+        assert!(lines.len() >= 2 && lines.len().is_multiple_of(2), "{} pieces", lines.len());
         for p in &lines {
             let (a, b) = (p[0].x.min(p[1].x), p[0].x.max(p[1].x));
             assert!(b <= st.x_mm || a >= st.x_mm + st.w_mm, "a boundary crosses the sample ids: {p:?}");
