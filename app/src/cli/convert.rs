@@ -51,9 +51,15 @@ pub fn run(args: &ConvertArgs) -> anyhow::Result<()> {
                 || section.coordinates.is_some()
                 || !section.review.is_empty()
                 || !section.curves.is_empty()
+                || section.method.is_some()
+                || section.thickness_uncertainty_m.is_some()
+                || section.bedding.is_some()
+                || section.traverse.is_some()
+                || !section.fixes.is_empty()
+                || !section.body_lateral.is_empty()
             {
                 eprintln!(
-                    "note: a bed table holds beds only; section metadata, review decisions and measured curves of {:?} are not in {}",
+                    "note: a bed table holds beds only; section metadata (place, method, bedding, traverse, GPS fixes), channel-body widths, review decisions and measured curves of {:?} are not in {}",
                     section.name,
                     args.output.display()
                 );
