@@ -110,5 +110,5 @@ fn all_candidates_and_sensitivity_from_the_command_line() {
         assert!((0.0..=1.0).contains(&s), "{b}");
     }
     let text = run_ok(&["interpret", p, "--sensitivity"]);
-    assert!(text.contains("stable in ") && text.contains("Sensitivity: 38 runs"), "{text}");
+    assert!(text.contains("stable in ") && text.contains("Sensitivity: 46 runs"), "{text}");
 }

@@ -38,6 +38,8 @@ pub const RANGES: &[(&str, Moves)] = &[
     ("relief_limit_m", Moves::Factors(LENGTH_FACTORS)),
     ("incision_relief_ratio", Moves::Factors(LENGTH_FACTORS)),
     ("boundary_window_m", Moves::Factors(LENGTH_FACTORS)),
+    ("thick_b_horizon_m", Moves::Factors(LENGTH_FACTORS)),
+    ("very_thick_b_horizon_m", Moves::Factors(LENGTH_FACTORS)),
     ("facies_shift_min_classes", Moves::Steps(CLASS_STEPS)),
     ("low_min_proportion", Moves::Steps(FRACTION_STEPS)),
     ("high_max_proportion", Moves::Steps(FRACTION_STEPS)),
