@@ -7,26 +7,51 @@ use crate::layout::{Anchor, Item, Page, PtMm, Rgba, Stroke};
 use std::fmt::Write;
 
 /// Round to 3 decimals (µm) and drop trailing zeros, so output is compact and stable.
+#[cfg(test)]
 fn n(v: f64) -> String {
+    let mut s = String::new();
+    num(&mut s, v);
+    s
+}
+
+/// Append `v` rounded to 3 decimals (µm), trailing zeros dropped, `-0` written `0`; a value that
+/// is not finite is written `0`. Written straight into the document: no string per number.
+fn num(s: &mut String, v: f64) {
     if !v.is_finite() {
-        return "0".into();
+        s.push('0');
+        return;
     }
-    let s = format!("{v:.3}");
-    let s = s.trim_end_matches('0').trim_end_matches('.');
-    if s == "-0" {
-        "0".into()
-    } else {
-        s.to_string()
+    let start = s.len();
+    let _ = write!(s, "{v:.3}");
+    while s.ends_with('0') {
+        s.pop();
+    }
+    if s.ends_with('.') {
+        s.pop();
+    }
+    if &s[start..] == "-0" {
+        s.truncate(start);
+        s.push('0');
     }
 }
 
-fn rgb(c: Rgba) -> String {
-    format!("#{:02x}{:02x}{:02x}", c.0, c.1, c.2)
+/// Append an attribute ` name="value"` with a number value.
+fn num_attr(s: &mut String, name: &str, v: f64) {
+    s.push(' ');
+    s.push_str(name);
+    s.push_str("=\"");
+    num(s, v);
+    s.push('"');
 }
 
-fn escape(s: &str) -> String {
-    let mut out = String::with_capacity(s.len());
-    for ch in s.chars() {
+fn rgb(s: &mut String, c: Rgba) {
+    let _ = write!(s, "#{:02x}{:02x}{:02x}", c.0, c.1, c.2);
+}
+
+/// Append `text` with the XML special characters escaped and control characters (other than
+/// tab and newline) left out.
+fn escape_into(out: &mut String, text: &str) {
+    for ch in text.chars() {
         match ch {
             '&' => out.push_str("&amp;"),
             '<' => out.push_str("&lt;"),
@@ -37,40 +62,63 @@ fn escape(s: &str) -> String {
             c => out.push(c),
         }
     }
+}
+
+#[cfg(test)]
+fn escape(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    escape_into(&mut out, text);
     out
 }
 
-fn paint(fill: &Option<Rgba>, stroke: &Option<Stroke>) -> String {
-    let mut a = String::new();
+fn paint(s: &mut String, fill: &Option<Rgba>, stroke: &Option<Stroke>) {
     match fill {
         Some(c) if c.3 > 0 => {
-            let _ = write!(a, " fill=\"{}\"", rgb(*c));
+            s.push_str(" fill=\"");
+            rgb(s, *c);
+            s.push('"');
             if c.3 < 255 {
-                let _ = write!(a, " fill-opacity=\"{}\"", n(f64::from(c.3) / 255.0));
+                num_attr(s, "fill-opacity", f64::from(c.3) / 255.0);
             }
         }
-        _ => a.push_str(" fill=\"none\""),
+        _ => s.push_str(" fill=\"none\""),
     }
-    if let Some(s) = stroke.as_ref().filter(|s| s.color.3 > 0 && s.width_mm > 0.0) {
-        a.push_str(&stroke_attrs(s));
+    if let Some(st) = stroke.as_ref().filter(|st| st.color.3 > 0 && st.width_mm > 0.0) {
+        stroke_attrs(s, st);
     }
-    a
 }
 
-fn stroke_attrs(s: &Stroke) -> String {
-    let mut a = format!(" stroke=\"{}\" stroke-width=\"{}\"", rgb(s.color), n(s.width_mm));
-    if s.color.3 < 255 {
-        let _ = write!(a, " stroke-opacity=\"{}\"", n(f64::from(s.color.3) / 255.0));
+fn stroke_attrs(s: &mut String, st: &Stroke) {
+    s.push_str(" stroke=\"");
+    rgb(s, st.color);
+    s.push('"');
+    num_attr(s, "stroke-width", st.width_mm);
+    if st.color.3 < 255 {
+        num_attr(s, "stroke-opacity", f64::from(st.color.3) / 255.0);
     }
-    if s.dash_mm.iter().any(|d| *d > 0.0) {
-        let d: Vec<String> = s.dash_mm.iter().map(|d| n(d.max(0.0))).collect();
-        let _ = write!(a, " stroke-dasharray=\"{}\"", d.join(" "));
+    if st.dash_mm.iter().any(|d| *d > 0.0) {
+        s.push_str(" stroke-dasharray=\"");
+        for (k, d) in st.dash_mm.iter().enumerate() {
+            if k > 0 {
+                s.push(' ');
+            }
+            num(s, d.max(0.0));
+        }
+        s.push('"');
     }
-    a
 }
 
-fn points(pts: &[PtMm]) -> String {
-    pts.iter().map(|p| format!("{},{}", n(p.x), n(p.y))).collect::<Vec<_>>().join(" ")
+fn points(s: &mut String, pts: &[PtMm]) {
+    s.push_str(" points=\"");
+    for (k, p) in pts.iter().enumerate() {
+        if k > 0 {
+            s.push(' ');
+        }
+        num(s, p.x);
+        s.push(',');
+        num(s, p.y);
+    }
+    s.push('"');
 }
 
 /// Write one page as an SVG document whose user unit is 1 mm.
@@ -106,7 +154,9 @@ impl<W: std::io::Write> SvgWriter<W> {
     /// Start a document for a page `width_mm` × `height_mm` (user unit 1 mm, white paper).
     pub fn begin(out: W, width_mm: f64, height_mm: f64) -> std::io::Result<Self> {
         let mut s = String::with_capacity(PIECE + 1024);
-        let (w, h) = (n(width_mm), n(height_mm));
+        let (mut w, mut h) = (String::new(), String::new());
+        num(&mut w, width_mm);
+        num(&mut h, height_mm);
         let _ = writeln!(s, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>");
         let _ = writeln!(
             s,
@@ -142,32 +192,34 @@ impl<W: std::io::Write> SvgWriter<W> {
 fn item_svg(s: &mut String, item: &Item) {
     match item {
         Item::Rect { rect, fill, stroke } => {
-            let _ = writeln!(
-                s,
-                "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\"{}/>",
-                n(rect.x),
-                n(rect.y),
-                n(rect.w.max(0.0)),
-                n(rect.h.max(0.0)),
-                paint(fill, stroke)
-            );
+            s.push_str("<rect");
+            num_attr(s, "x", rect.x);
+            num_attr(s, "y", rect.y);
+            num_attr(s, "width", rect.w.max(0.0));
+            num_attr(s, "height", rect.h.max(0.0));
+            paint(s, fill, stroke);
+            s.push_str("/>\n");
         }
         Item::Polygon { points: pts, fill, stroke } => {
-            let _ = writeln!(s, "<polygon points=\"{}\"{}/>", points(pts), paint(fill, stroke));
+            s.push_str("<polygon");
+            points(s, pts);
+            paint(s, fill, stroke);
+            s.push_str("/>\n");
         }
         Item::Polyline { points: pts, stroke } => {
-            let _ =
-                writeln!(s, "<polyline points=\"{}\" fill=\"none\"{}/>", points(pts), stroke_attrs(stroke));
+            s.push_str("<polyline");
+            points(s, pts);
+            s.push_str(" fill=\"none\"");
+            stroke_attrs(s, stroke);
+            s.push_str("/>\n");
         }
         Item::Circle { center, radius_mm, fill, stroke } => {
-            let _ = writeln!(
-                s,
-                "<circle cx=\"{}\" cy=\"{}\" r=\"{}\"{}/>",
-                n(center.x),
-                n(center.y),
-                n(radius_mm.max(0.0)),
-                paint(fill, stroke)
-            );
+            s.push_str("<circle");
+            num_attr(s, "cx", center.x);
+            num_attr(s, "cy", center.y);
+            num_attr(s, "r", radius_mm.max(0.0));
+            paint(s, fill, stroke);
+            s.push_str("/>\n");
         }
         Item::Text { pos, text, size_pt, color, anchor, rotation_deg } => {
             let anchor = match anchor {
@@ -175,23 +227,29 @@ fn item_svg(s: &mut String, item: &Item) {
                 Anchor::Middle => "middle",
                 Anchor::End => "end",
             };
+            s.push_str("<text");
+            num_attr(s, "x", pos.x);
+            num_attr(s, "y", pos.y);
             // Font size in user units (mm): 1 pt = 25.4/72 mm.
-            let size_mm = size_pt * 25.4 / 72.0;
-            let rot = if *rotation_deg != 0.0 {
+            num_attr(s, "font-size", size_pt * 25.4 / 72.0);
+            s.push_str(" fill=\"");
+            rgb(s, *color);
+            s.push_str("\" text-anchor=\"");
+            s.push_str(anchor);
+            s.push('"');
+            if *rotation_deg != 0.0 {
                 // SVG rotates clockwise on screen; ours is counter-clockwise on the page.
-                format!(" transform=\"rotate({} {} {})\"", n(-rotation_deg), n(pos.x), n(pos.y))
-            } else {
-                String::new()
-            };
-            let _ = writeln!(
-                    s,
-                    "<text x=\"{}\" y=\"{}\" font-size=\"{}\" fill=\"{}\" text-anchor=\"{anchor}\"{rot}>{}</text>",
-                    n(pos.x),
-                    n(pos.y),
-                    n(size_mm),
-                    rgb(*color),
-                    escape(text)
-                );
+                s.push_str(" transform=\"rotate(");
+                num(s, -rotation_deg);
+                s.push(' ');
+                num(s, pos.x);
+                s.push(' ');
+                num(s, pos.y);
+                s.push_str(")\"");
+            }
+            s.push('>');
+            escape_into(s, text);
+            s.push_str("</text>\n");
         }
     }
 }
