@@ -295,3 +295,20 @@ fn a_csv_with_6000_e_acute_in_a_note_converts_to_a_project_that_checks() {
     let loaded = aggrade_core::io::load(&back).expect("loads");
     assert_eq!(loaded.project.sections[0].beds[0].notes, note);
 }
+
+#[test]
+fn check_warns_when_a_facies_code_names_another_rock() {
+    // The first letter of a lithofacies code names its rock (Miall 1978, 1996): G gravel,
+    // S sand, F fines, C coal. A gravel code on a mudstone and a coal code on a sandstone are
+    // reported by line and field; the file still reads (the code is the geologist's call).
+    let dir = tempfile::tempdir().expect("temp dir");
+    let csv = dir.path().join("codes.csv");
+    std::fs::write(&csv, "thickness_m,lithology,grain,facies\n1,mudstone,clay,Gcm\n2,sandstone,medium sand,C\n3,sandstone,medium sand,St\n")
+        .expect("write");
+    let out = aggrade(&[std::ffi::OsStr::new("check"), csv.as_os_str()]);
+    assert!(out.status.success(), "{}", text(&out.stderr));
+    let err = text(&out.stderr);
+    assert!(err.contains("line 2") && err.contains("Gcm") && err.contains("mudstone"), "{err}");
+    assert!(err.contains("line 3") && err.contains("C (coal"), "{err}");
+    assert!(!err.contains("line 4"), "St on a sandstone fits: {err}");
+}

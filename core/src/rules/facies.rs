@@ -378,6 +378,48 @@ pub fn facies_of(bed: &Bed) -> Option<(FaciesCode, bool)> {
     }
 }
 
+/// Why the geologist's code does not fit the rock logged for the bed, if it does not: each
+/// code names its rock by its first letter (Miall 1978, 1996: G gravel, S sand, F fines, C coal,
+/// P paleosol carbonate). Leniences, as Miall's descriptions allow: a G code on a sandstone whose
+/// coarsest grain is granule or coarser (a pebbly sand logged as sand), `Fl` on a sandstone of
+/// very fine sand or finer ("sand, silt, mud"), `P` on fines or a carbonate rock. A bed without a
+/// code, or a covered interval, gives `None` (the second is reported apart, as no code applies).
+pub fn code_against_rock(bed: &Bed) -> Option<String> {
+    let code = bed.facies?;
+    if bed.is_covered() {
+        return Some(format!(
+            "{} is given for a covered interval, which has no facies; it is not used",
+            code.code()
+        ));
+    }
+    let family = bed.lithology.family();
+    let coarsest = bed.coarsest_grain().map(|g| g.class());
+    let fits = match code.code().as_bytes()[0] {
+        b'G' => {
+            family == LithologyFamily::Gravel
+                || (family == LithologyFamily::Sand && coarsest.is_some_and(|c| c >= WentworthClass::Granule))
+        }
+        b'S' => family == LithologyFamily::Sand,
+        b'F' if code == FaciesCode::Fl => {
+            family == LithologyFamily::Fines
+                || (family == LithologyFamily::Sand
+                    && coarsest.is_none_or(|c| c <= WentworthClass::VeryFineSand))
+        }
+        b'F' => family == LithologyFamily::Fines,
+        b'C' => bed.lithology == Lithology::Coal || family == LithologyFamily::Fines,
+        _ => Rock::FinesOrCarbonate.holds(bed),
+    };
+    (!fits).then(|| {
+        let grain = coarsest.map(|c| format!(" ({})", c.name())).unwrap_or_default();
+        format!(
+            "{} ({}) does not fit the rock logged, {}{grain}; check the code or the lithology",
+            code.code(),
+            code.meaning(),
+            bed.lithology.name()
+        )
+    })
+}
+
 /// The table as a Markdown table, as `docs/facies.md` prints it.
 pub fn table_markdown() -> String {
     let mut s = String::from("| # | Code | Rock | Cues | Why |\n|---|---|---|---|---|\n");
@@ -397,6 +439,46 @@ pub fn table_markdown() -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_code_that_names_another_rock_is_reported() {
+        use crate::model::{BedId, GrainSize};
+        let bed = |l: Lithology, g: WentworthClass, code: FaciesCode| {
+            let mut b = Bed::new(BedId(1), 1.0, l, Some(GrainSize::Class(g)));
+            b.facies = Some(code);
+            b
+        };
+        // First letter of the code names the rock (Miall 1978, 1996).
+        let gcm_on_mud = code_against_rock(&bed(Lithology::Mudstone, WentworthClass::Clay, FaciesCode::Gcm));
+        assert!(
+            gcm_on_mud.as_deref().is_some_and(|m| m.contains("Gcm") && m.contains("mudstone")),
+            "{gcm_on_mud:?}"
+        );
+        assert!(code_against_rock(&bed(Lithology::Sandstone, WentworthClass::MediumSand, FaciesCode::C))
+            .is_some());
+        assert!(code_against_rock(&bed(Lithology::Mudstone, WentworthClass::Clay, FaciesCode::St)).is_some());
+        assert!(code_against_rock(&bed(Lithology::Sandstone, WentworthClass::MediumSand, FaciesCode::Fm))
+            .is_some());
+        // Fits, and the leniences Miall's descriptions allow.
+        assert_eq!(
+            code_against_rock(&bed(Lithology::Sandstone, WentworthClass::MediumSand, FaciesCode::St)),
+            None
+        );
+        assert_eq!(
+            code_against_rock(&bed(Lithology::Sandstone, WentworthClass::Pebble, FaciesCode::Gt)),
+            None
+        );
+        assert_eq!(
+            code_against_rock(&bed(Lithology::Sandstone, WentworthClass::VeryFineSand, FaciesCode::Fl)),
+            None
+        );
+        assert_eq!(code_against_rock(&bed(Lithology::Mudstone, WentworthClass::Clay, FaciesCode::P)), None);
+        assert_eq!(code_against_rock(&bed(Lithology::Limestone, WentworthClass::Clay, FaciesCode::P)), None);
+        let mut no_code = bed(Lithology::Mudstone, WentworthClass::Clay, FaciesCode::Fm);
+        no_code.facies = None;
+        assert_eq!(code_against_rock(&no_code), None);
+        assert!(code_against_rock(&bed(Lithology::Covered, WentworthClass::Clay, FaciesCode::Fm)).is_some());
+    }
     use crate::model::{BedId, GrainSize, Paleocurrent, SoilHorizon};
 
     fn bed(lith: Lithology, grain: Option<WentworthClass>, structures: &[Structure]) -> Bed {

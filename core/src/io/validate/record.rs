@@ -240,6 +240,11 @@ pub fn record_warnings(section: &Section) -> Vec<Problem> {
             }
         }
     }
+    for (i, bed) in section.beds.iter().enumerate() {
+        if let Some(why) = crate::rules::facies::code_against_rock(bed) {
+            out.push(Problem::new(format!("beds[{i}].facies"), why));
+        }
+    }
     let total = section.total_thickness_m();
     for (k, f) in section.fixes.iter().enumerate() {
         if f.height_m.is_finite() && f.height_m > total * (1.0 + 1e-9) {
