@@ -245,11 +245,11 @@ pub fn drainage(cell: &str) -> Result<Drainage, String> {
         .ok_or_else(|| format!("{t:?} is not a drainage class; write one of {}", drainage_codes()))
 }
 
-/// Read a lithofacies code (Miall 1996): `St`, `Fsm`; the first letter's case is forgiven.
+/// Read a lithofacies code (Miall 1978, 1996): `St`, `Fsm`; the first letter's case is forgiven.
 pub fn facies(cell: &str) -> Result<FaciesCode, String> {
     FaciesCode::parse(cell).ok_or_else(|| {
         format!(
-            "{:?} is not a lithofacies code; valid codes (Miall 1996) are {}; leave the cell empty to keep the \
+            "{:?} is not a lithofacies code; valid codes (Miall 1978, 1996) are {}; leave the cell empty to keep the \
              suggested code",
             cell.trim(),
             FaciesCode::valid_list()

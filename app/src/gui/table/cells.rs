@@ -180,7 +180,7 @@ impl Cell {
             Cell::Samples => "Sample names, separated by ;".into(),
             Cell::Notes => "Free notes on the bed".into(),
             Cell::Facies => format!(
-                "Your lithofacies code (Miall 1996): {}. Empty leaves the suggested code in force",
+                "Your lithofacies code (Miall 1978, 1996): {}. Empty leaves the suggested code in force",
                 FaciesCode::valid_list()
             ),
             Cell::Bioturbation => {
