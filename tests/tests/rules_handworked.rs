@@ -597,11 +597,12 @@ const HORIZONS: &str = "
 fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
     // Retallack 2001 and Kraus 1999: a paleosol is a profile of horizons. Carbonate stage III
     // (Machette 1985, after Gile et al. 1966) makes a profile at least strongly developed;
-    // slickensides with carbonate nodules (vertic and calcic features) raise it one grade more.
-    // Working: beds 2–3 (2.0–3.8 m) are one profile, logged at most moderate → strong by stage III
-    // → very strong by the vertic–calcic pair. One candidate at its top (3.8 m): a very strongly
-    // developed interfluve paleosol, strong on its own (McCarthy & Plint 1998), score 0.30; the
-    // first rules gave one candidate per bed (3.0 and 3.8 m).
+    // slickensides with carbonate nodules (vertic and calcic features) record shrink–swell under
+    // a seasonal climate (Kraus 1999), not more time, and add no grade.
+    // Working: beds 2–3 (2.0–3.8 m) are one profile, logged at most moderate → strong by stage III.
+    // One candidate at its top (3.8 m): a strongly developed interfluve paleosol, strong on its
+    // own (McCarthy & Plint 1998), score 0.30; the first rules gave one candidate per bed (3.0 and
+    // 3.8 m).
     let s = section("Horizons", HORIZONS);
     let r = interpret(&s, &RuleParams::default());
     assert_eq!(r.paleosols.len(), 1);
@@ -610,20 +611,18 @@ fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
     assert_eq!(p.beds, vec![BedId(2), BedId(3)]);
     assert_eq!(
         (p.logged_development, p.maturity),
-        (PaleosolDevelopment::Moderate, PaleosolDevelopment::VeryStrong)
+        (PaleosolDevelopment::Moderate, PaleosolDevelopment::Strong)
     );
+    assert!(p.evidence.iter().any(|e| e.to_string().starts_with("slickensides with carbonate nodules")));
     let c = &r.sequence_boundary_candidates;
     assert_eq!(c.len(), 1, "{c:?}");
     assert!(close(c[0].height_m, 3.8) && close(c[0].score, 0.3), "{c:?}");
     assert_eq!(c[0].strength, Strength::Strong);
     assert_eq!((r.elements[1], r.elements[2]), (Element::Paleosol, Element::Paleosol));
 
-    // Without the vertic–calcic raise: strong (stage III alone). With stage III no longer enough
-    // for strong: moderate, raised one grade by the pair to strong.
-    let p = RuleParams { vertic_calcic_raises: false, ..RuleParams::default() };
-    assert_eq!(interpret(&s, &p).paleosols[0].maturity, PaleosolDevelopment::Strong);
+    // With stage III no longer enough for strong: moderate as logged, the pair adding nothing.
     let p = RuleParams { strong_carbonate_stage: 4, very_strong_carbonate_stage: 5, ..RuleParams::default() };
-    assert_eq!(interpret(&s, &p).paleosols[0].maturity, PaleosolDevelopment::Strong);
+    assert_eq!(interpret(&s, &p).paleosols[0].maturity, PaleosolDevelopment::Moderate);
 }
 
 const SOIL_ON_SAND: &str = "

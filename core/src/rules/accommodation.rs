@@ -13,14 +13,20 @@
 //! Stacking and proportion after Allen (1978), Bridge & Leeder (1979) and Shanley & McCabe
 //! (1994); the soils after Wright & Marriott (1993) and Kraus (1999): slow aggradation leaves
 //! time for mature, well-drained profiles, rapid aggradation leaves weakly developed, often
-//! hydromorphic (gleyed, mottled) ones. A proportion within the margin of a threshold gives no
-//! sign. A call needs [`MIN_SIGNS`] signs and more than the other side has (our choice: one sign
+//! hydromorphic (gleyed) ones. "Poorly drained" here is a gleyed profile (poorly or very poorly
+//! drained, or gleying, a `g` horizon or a low-chroma matrix where its maturity is). A mature
+//! profile read as somewhat poorly (imperfectly) drained — mottles in an oxidised matrix, or the
+//! class logged — counts on neither side: seasonal wetting of a red, mottled soil marks its
+//! place on the floodplain and the climate more than the rate of aggradation (Kraus & Aslan
+//! 1993), and it is not a well-drained soil either. An immature one counts as immature.
+//!
+//! A proportion within the margin of a threshold gives no sign. A call needs [`MIN_SIGNS`] signs and more than the other side has (our choice: one sign
 //! alone, such as a single amalgamated body, is too little to call a regime on).
 
 use super::column::{Column, TOL};
 use super::evidence::{RegimeSign, RegimeWhy, Undetermined};
 use super::params::RuleParams;
-use super::types::{ChannelBody, PaleosolProfile, Regime, RegimeInterval, Stacking};
+use super::types::{ChannelBody, DrainageReading, PaleosolProfile, Regime, RegimeInterval, Stacking};
 
 /// Signs a call needs at the least (and more than the other side has).
 pub const MIN_SIGNS: usize = 2;
@@ -92,8 +98,14 @@ fn call(
 
     // Paleosol maturity and drainage.
     if !soils.is_empty() {
-        let mature = soils.iter().filter(|p| p.maturity.is_strong() && !p.poorly_drained).count();
-        let immature = soils.len() - mature;
+        // A mature, somewhat poorly (imperfectly) drained profile counts on neither side: seasonal
+        // wetting in an oxidised soil is not the gleyed, hydromorphic soil that rapid aggradation
+        // leaves (Kraus 1999), nor a well-drained one (see the module notes).
+        let mature = soils
+            .iter()
+            .filter(|p| p.maturity.is_strong() && p.drainage_reading == DrainageReading::NotPoorly)
+            .count();
+        let immature = soils.iter().filter(|p| !p.maturity.is_strong() || p.poorly_drained).count();
         if mature * 2 > soils.len() {
             low.push(RegimeSign::MatureSoils { mature, profiles: soils.len() });
         } else if immature * 2 > soils.len() {
@@ -171,6 +183,41 @@ mod tests {
             s.beds.push(b);
         }
         s
+    }
+
+    #[test]
+    fn mature_imperfectly_drained_soils_weigh_on_neither_side() {
+        // Two isolated single-storey bodies, proportion 4/16 = 0.25: two signs of high. Two very
+        // strong soils: unmarked they are mature and well drained (a sign of low, Kraus 1999);
+        // gleyed they are poorly drained (a third sign of high, Wright & Marriott 1993); mottled
+        // with no gleyed matrix they are somewhat poorly (imperfectly) drained and give no sign
+        // either way (Kraus & Aslan 1993: seasonal wetting in an oxidised soil; our choice).
+        use crate::model::{PaleosolDevelopment, PaleosolFeature};
+        use Lithology::{Mudstone, Sandstone};
+        let with = |feature: Option<PaleosolFeature>| {
+            let mut s = section(&[
+                (3.0, Mudstone, false),
+                (2.0, Sandstone, true),
+                (5.0, Mudstone, false),
+                (2.0, Sandstone, true),
+                (4.0, Mudstone, false),
+            ]);
+            for k in [0, 2] {
+                s.beds[k].grain_base = Some(GrainSize::Class(WentworthClass::Silt));
+                s.beds[k].paleosol = PaleosolDevelopment::VeryStrong;
+                s.beds[k].paleosol_features.extend(feature);
+            }
+            let r = interpret(&s, &RuleParams::default());
+            assert_eq!(r.accommodation.len(), 1);
+            assert_eq!(r.accommodation[0].regime, Regime::High, "{}", r.accommodation[0].why);
+            r.accommodation[0].why.to_string()
+        };
+        let dry = with(None);
+        assert!(dry.contains("against: 2 of 2 paleosols mature and well drained"), "{dry}");
+        let wet = with(Some(PaleosolFeature::Gleying));
+        assert!(wet.contains("2 of 2 paleosols immature or poorly drained"), "{wet}");
+        let mottled = with(Some(PaleosolFeature::Mottling));
+        assert!(!mottled.contains("paleosols"), "{mottled}");
     }
 
     #[test]

@@ -14,10 +14,22 @@
 
 use super::column::{is_sand_or_gravel, Column};
 use super::params::RuleParams;
-use super::types::{DrainageBasis, MaturitySign, PaleosolProfile, ProfileBreak, ProfileEvidence};
-use crate::model::{
-    Bed, Contact, Drainage, PaleosolDevelopment, PaleosolFeature, Section, SoilHorizon, Structure,
+use super::types::{
+    DrainageBasis, DrainageReading, MaturitySign, PaleosolProfile, ProfileBreak, ProfileEvidence, WetSign,
 };
+use crate::model::{
+    Bed, Contact, Drainage, Munsell, PaleosolDevelopment, PaleosolFeature, Section, SoilHorizon, Structure,
+};
+
+/// Highest chroma of a gleyed (depleted) matrix: chroma 2 or less is the usual hydric-soil
+/// criterion for a matrix depleted of iron by long saturation (Soil Survey Staff / USDA-NRCS,
+/// Field Indicators of Hydric Soils; from memory).
+const GLEY_MAX_CHROMA: f64 = 2.0;
+
+/// Lowest value of a gleyed matrix: a dark matrix of low chroma (value 3 or less) is coloured
+/// by organic matter, as in a dark A horizon, and is not read as gleyed (the hydric-soil
+/// depleted-matrix indicators ask for value 4 or more; from memory).
+const GLEY_MIN_VALUE: f64 = 4.0;
 
 /// True when a bed was logged as a soil horizon.
 fn is_horizon(bed: &Bed) -> bool {
@@ -44,25 +56,32 @@ fn master_rank(h: &SoilHorizon) -> Option<u8> {
     }
 }
 
-/// One grade up the development scale (very strong stays very strong).
-fn raised(dev: PaleosolDevelopment) -> PaleosolDevelopment {
-    use PaleosolDevelopment::*;
-    match dev {
-        None => Weak,
-        Weak => Moderate,
-        Moderate => Strong,
-        Strong | VeryStrong => VeryStrong,
-    }
-}
-
 /// The designation of a bed as written, for sentences.
 fn designation(bed: &Bed) -> Option<String> {
     bed.soil_horizon.as_ref().map(|h| h.as_str().to_string())
 }
 
-/// A bed's designation when it is a B horizon.
+/// A bed's designation when it is a B horizon (transitional BC, BA or B/C included: they go by
+/// their first letter).
 fn b_horizon(bed: &Bed) -> Option<&SoilHorizon> {
     bed.soil_horizon.as_ref().filter(|h| h.master() == 'B')
+}
+
+/// True when a designation names two master horizons (BC, CB, AB, B/C): a transitional horizon.
+fn is_transitional(h: &SoilHorizon) -> bool {
+    h.as_str().chars().filter(|c| "OAEBCR".contains(*c)).count() > 1
+}
+
+/// True for a red hue, 5YR or redder (R, and YR of step 5 or less): a red matrix with low
+/// chroma is not read as gleyed (the hydric-soil indicators set soils of red parent material,
+/// 5YR or redder, apart; from memory).
+fn is_red_hue(m: &Munsell) -> bool {
+    m.hue == "R" || (m.hue == "YR" && m.hue_step <= 5.0)
+}
+
+/// True for a gleyed (depleted) matrix colour: chroma 2 or less at value 4 or more, hue not red.
+fn is_gleyed_colour(m: &Munsell) -> bool {
+    m.chroma <= GLEY_MAX_CHROMA && m.value >= GLEY_MIN_VALUE && !is_red_hue(m)
 }
 
 /// What a profile's beds say of its maturity.
@@ -78,7 +97,7 @@ struct Maturity {
 }
 
 /// Maturity of a profile of beds, with what raised it above the logged grade.
-fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
+fn maturity(beds: &[Bed], first_bed: usize, params: &RuleParams) -> Maturity {
     use PaleosolDevelopment as Dev;
     let logged = beds.iter().map(|b| b.paleosol).max().unwrap_or_default();
     let stage = beds.iter().filter_map(|b| b.carbonate_stage).max();
@@ -161,7 +180,10 @@ fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
         }
     }
 
-    // Vertic and calcic together, as features or as `ss` and `k` horizons.
+    // Vertic and calcic together, as features or as `ss` and `k` horizons: shrink–swell under
+    // wet–dry seasons with carbonate accumulation in the dry ones, a climate reading named in
+    // the evidence, not a maturity grade (Kraus 1999; Retallack 2001's development scale does
+    // not use vertic features to grade development).
     let has = |f: PaleosolFeature, s: Structure, suffix: &str| {
         beds.iter().any(|b| {
             b.paleosol_features.contains(&f)
@@ -169,20 +191,28 @@ fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
                 || b.soil_horizon.as_ref().is_some_and(|h| h.has(suffix))
         })
     };
-    if params.vertic_calcic_raises
-        && has(PaleosolFeature::Slickensides, Structure::Slickensides, "ss")
+    if has(PaleosolFeature::Slickensides, Structure::Slickensides, "ss")
         && has(PaleosolFeature::CarbonateNodules, Structure::CarbonateNodules, "k")
-        && raised(m) > m
     {
-        m = raised(m);
-        signs.push(MaturitySign::VerticCalcic);
-        evidence.push(ProfileEvidence::VerticCalcic { raised_to: m });
+        evidence.push(ProfileEvidence::VerticCalcic);
     }
-    // Thick B horizons make an already moderate profile strong or very strong: a floor, applied
-    // after the one-grade vertic–calcic raise so that the two do not add up.
-    let b_thickness_m: f64 =
-        beds.iter().filter(|b| b_horizon(b).is_some()).map(|b| b.usable_thickness_m()).sum();
-    if b_thickness_m > 0.0 {
+    // Thick B horizons make an already moderate profile strong or very strong: a floor. Only
+    // horizons whose master is B alone count; transitional BC, CB, AB, B/C are as much C or A as
+    // B and are left out (our choice; named in the evidence).
+    let mut b_thickness_m = 0.0;
+    let mut counted = Vec::new();
+    let mut transitional = Vec::new();
+    for (k, bed) in beds.iter().enumerate().rev() {
+        let Some(h) = bed.soil_horizon.as_ref().filter(|h| h.as_str().contains('B')) else { continue };
+        let named = format!("{h} (bed {})", first_bed + k + 1);
+        if is_transitional(h) {
+            transitional.push(named);
+        } else if h.master() == 'B' {
+            b_thickness_m += bed.usable_thickness_m();
+            counted.push(named);
+        }
+    }
+    if b_thickness_m > 0.0 || !transitional.is_empty() {
         let floor = if m < Dev::Moderate {
             None
         } else if b_thickness_m >= params.very_thick_b_horizon_m {
@@ -196,12 +226,16 @@ fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
             lift(&mut m, floor, MaturitySign::ThickBHorizon, &mut signs);
             evidence.push(ProfileEvidence::BThickness {
                 thickness_m: b_thickness_m,
+                counted,
+                transitional,
                 limit_m: Some(limit),
                 floor: Some(floor),
             });
         } else {
             evidence.push(ProfileEvidence::BThickness {
                 thickness_m: b_thickness_m,
+                counted,
+                transitional,
                 limit_m: None,
                 floor: None,
             });
@@ -215,11 +249,39 @@ fn maturity(beds: &[Bed], params: &RuleParams) -> Maturity {
     Maturity { maturity: m, logged, stage, signs, evidence, diagnostic, b_thickness_m }
 }
 
+/// A profile's drainage, as read.
+struct DrainageRead {
+    reading: DrainageReading,
+    class: Option<Drainage>,
+    basis: DrainageBasis,
+    said: ProfileEvidence,
+}
+
+/// The wettest sign on one bed, if any: gleying, a `g` horizon or a gleyed (low-chroma) matrix
+/// make it poorly drained; mottles in an oxidised (high-chroma or red) matrix, or mottles with no
+/// matrix colour logged, somewhat poorly (imperfectly) drained (Kraus & Aslan 1993; Kraus 1999).
+fn wet_sign(bed: &Bed) -> Option<WetSign> {
+    let mottled = bed.paleosol_features.contains(&PaleosolFeature::Mottling)
+        || bed.structures.contains(&Structure::Mottling);
+    if bed.paleosol_features.contains(&PaleosolFeature::Gleying) {
+        return Some(WetSign::Gleying);
+    }
+    if bed.soil_horizon.as_ref().is_some_and(|h| h.has("g")) {
+        return Some(WetSign::GleyedHorizon);
+    }
+    match &bed.munsell {
+        Some(m) if is_gleyed_colour(m) => Some(WetSign::LowChromaMatrix { munsell: m.to_string(), mottled }),
+        Some(m) if mottled => Some(WetSign::MottlesInOxidisedMatrix { munsell: m.to_string() }),
+        None if mottled => Some(WetSign::MottlesNoColour),
+        _ => None,
+    }
+}
+
 /// Drainage of a profile: the geologist's class where logged (on the horizons that carry the
-/// maturity, else on any horizon of the profile; the poorest if several), else wet signs on the
-/// horizons that carry the maturity: a mottled weak horizon under a stage IV calcic horizon does
-/// not make a mature, well-drained soil wet (Kraus 1999; Machette 1985).
-fn drainage(profile: &[Bed], key: &[bool]) -> (bool, Option<Drainage>, DrainageBasis, ProfileEvidence) {
+/// maturity, else on any horizon of the profile; the poorest if several), else the wettest sign
+/// on the horizons that carry the maturity ([`wet_sign`]): a mottled weak horizon under a stage
+/// IV calcic horizon does not make a mature, well-drained soil wet (Kraus 1999; Machette 1985).
+fn drainage(profile: &[Bed], key: &[bool]) -> DrainageRead {
     let poorest = |only_key: bool| {
         profile
             .iter()
@@ -230,27 +292,45 @@ fn drainage(profile: &[Bed], key: &[bool]) -> (bool, Option<Drainage>, DrainageB
     };
     if let Some(bed) = poorest(true).or_else(|| poorest(false)) {
         let d = bed.drainage.unwrap_or(Drainage::WellDrained);
-        let ev = ProfileEvidence::DrainageLogged { drainage: d, horizon: designation(bed) };
-        return (d.is_poor(), Some(d), DrainageBasis::Logged, ev);
-    }
-    for (bed, _) in profile.iter().zip(key).filter(|(_, k)| **k) {
-        let sign = if bed.paleosol_features.contains(&PaleosolFeature::Gleying) {
-            Some("gleying")
-        } else if bed.paleosol_features.contains(&PaleosolFeature::Mottling)
-            || bed.structures.contains(&Structure::Mottling)
-        {
-            Some("mottling")
-        } else if bed.soil_horizon.as_ref().is_some_and(|h| h.has("g")) {
-            Some("a gleyed (g) horizon")
-        } else {
-            None
+        return DrainageRead {
+            reading: DrainageReading::of_class(d),
+            class: Some(d),
+            basis: DrainageBasis::Logged,
+            said: ProfileEvidence::DrainageLogged { drainage: d, horizon: designation(bed) },
         };
-        if let Some(sign) = sign {
-            let ev = ProfileEvidence::WetSign { sign, horizon: designation(bed) };
-            return (true, None, DrainageBasis::WetSigns, ev);
-        }
     }
-    (false, None, DrainageBasis::NoSign, ProfileEvidence::NoWetSign)
+    let wettest = profile
+        .iter()
+        .zip(key)
+        .filter(|(_, k)| **k)
+        .filter_map(|(bed, _)| wet_sign(bed).map(|s| (s, bed)))
+        // The first (lowest) of the wettest signs.
+        .fold(None::<(WetSign, &Bed)>, |best, (s, bed)| match best {
+            Some((ref b, _)) if b.reading() >= s.reading() => best,
+            _ => Some((s, bed)),
+        });
+    match wettest {
+        Some((sign, bed)) => {
+            let reading = sign.reading();
+            let basis = if reading == DrainageReading::Poorly {
+                DrainageBasis::Gleyed
+            } else {
+                DrainageBasis::Mottled
+            };
+            DrainageRead {
+                reading,
+                class: None,
+                basis,
+                said: ProfileEvidence::WetSign { sign, horizon: designation(bed) },
+            }
+        }
+        None => DrainageRead {
+            reading: DrainageReading::NotPoorly,
+            class: None,
+            basis: DrainageBasis::NoSign,
+            said: ProfileEvidence::NoWetSign,
+        },
+    }
 }
 
 /// Why a new profile starts at `bed` inside a run of horizons, given the master-horizon rank of
@@ -293,7 +373,7 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
         let this_start = std::mem::replace(&mut started_by, next_break);
         let profile = &beds[first..=last];
         let Maturity { maturity, logged, stage, signs, mut evidence, diagnostic, b_thickness_m } =
-            maturity(profile, params);
+            maturity(profile, first, params);
         if maturity == PaleosolDevelopment::None || maturity < params.paleosol_min_development {
             continue;
         }
@@ -309,7 +389,7 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
                     || diagnostic.contains(&k)
             })
             .collect();
-        let (poorly_drained, drainage, drainage_from, said) = drainage(profile, &key);
+        let DrainageRead { reading, class, basis, said } = drainage(profile, &key);
         evidence.push(said);
         if let Some(why) = this_start {
             evidence.push(ProfileEvidence::StartsNewSequence { why });
@@ -325,9 +405,10 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
             carbonate_stage: stage,
             raised_by: signs,
             on_sandstone,
-            poorly_drained,
-            drainage,
-            drainage_from,
+            poorly_drained: reading == DrainageReading::Poorly,
+            drainage_reading: reading,
+            drainage: class,
+            drainage_from: basis,
             b_horizon_thickness_m: b_thickness_m,
             evidence,
         });
@@ -403,18 +484,28 @@ mod tests {
     }
 
     #[test]
-    fn carbonate_stage_and_vertic_calcic_features_raise_maturity() {
-        // Machette 1985 stage III → at least strong; slickensides with nodules → one grade more.
+    fn carbonate_stage_raises_maturity_and_vertic_calcic_features_do_not() {
+        // Machette 1985 stage III → at least strong. Slickensides with nodules record
+        // shrink–swell under a seasonal climate (Kraus 1999), not more time: named in the
+        // evidence, maturity unchanged (Retallack 2001's development scale grades by horizon
+        // thickness, clay and carbonate, not by vertic features).
         use PaleosolDevelopment::*;
         let mut b = mud(Weak);
         b.carbonate_stage = Some(3);
         let p = run(vec![b.clone()], &RuleParams::default());
         assert_eq!((p[0].maturity, p[0].raised_by.as_slice()), (Strong, &[MaturitySign::CarbonateStage][..]));
+        assert!(!sentences(&p[0]).iter().any(|s| s.starts_with("slickensides with carbonate nodules")));
         b.paleosol_features = vec![PaleosolFeature::Slickensides, PaleosolFeature::CarbonateNodules];
-        let p = run(vec![b.clone()], &RuleParams::default());
-        assert_eq!(p[0].maturity, VeryStrong);
-        let off = RuleParams { vertic_calcic_raises: false, ..RuleParams::default() };
-        assert_eq!(run(vec![b], &off)[0].maturity, Strong);
+        let p = run(vec![b], &RuleParams::default());
+        assert_eq!((p[0].maturity, p[0].raised_by.as_slice()), (Strong, &[MaturitySign::CarbonateStage][..]));
+        assert!(
+            sentences(&p[0])
+                .iter()
+                .any(|s| s.starts_with("slickensides with carbonate nodules (vertic and calcic)")
+                    && s.ends_with("not counted as extra maturity")),
+            "{:?}",
+            sentences(&p[0])
+        );
     }
 
     #[test]
@@ -497,12 +588,14 @@ mod tests {
             (p[0].maturity, p[0].raised_by.as_slice()),
             (Moderate, &[MaturitySign::VerticHorizon][..])
         );
-        // The suffixes stand for the features: ss slickensides, k carbonate (Kraus 1999).
+        // The suffixes stand for the features: ss slickensides, k carbonate. Together they are
+        // named (a seasonal climate, Kraus 1999) but add no grade: calcic and vertic horizons
+        // each make it moderate, no more.
         let mut bk = horizon(None, "Bk", 0.4);
         bk.carbonate_stage = Some(2);
         let p = run(vec![bk, horizon(None, "Bss", 0.4)], &RuleParams::default());
-        assert_eq!(p[0].maturity, Strong);
-        assert!(p[0].raised_by.contains(&MaturitySign::VerticCalcic));
+        assert_eq!(p[0].maturity, Moderate);
+        assert!(sentences(&p[0]).iter().any(|s| s.starts_with("slickensides with carbonate nodules")));
     }
 
     #[test]
@@ -516,19 +609,121 @@ mod tests {
         let p = run(vec![coated("Bt2", 0.6), coated("Bt1", 0.6)], &RuleParams::default());
         assert_eq!(p[0].maturity, Strong);
         assert!((p[0].b_horizon_thickness_m - 1.2).abs() < 1e-12);
-        assert!(sentences(&p[0])
-            .contains(&"B horizons 1.20 m thick in all (at least 1.00 m): at least strong".into()));
+        assert!(
+            sentences(&p[0]).contains(
+                &"B horizons 1.20 m thick in all (Bt1 (bed 2), Bt2 (bed 1); at least 1.00 m): at least strong".into()
+            ),
+            "{:?}",
+            sentences(&p[0])
+        );
         let p = run(vec![coated("Bt2", 1.2), coated("Bt1", 1.0)], &RuleParams::default());
         assert_eq!(p[0].maturity, VeryStrong);
-        // With slickensides and nodules too: one grade up from moderate is strong, and the
-        // thickness floor (strong) adds nothing on top.
+        // With slickensides and nodules too: the thickness alone makes it strong.
         let mut vertic = coated("Bt1", 0.6);
         vertic.paleosol_features.extend([PaleosolFeature::Slickensides, PaleosolFeature::CarbonateNodules]);
         let p = run(vec![coated("Bt2", 0.6), vertic], &RuleParams::default());
-        assert_eq!((p[0].maturity, p[0].raised_by.last()), (Strong, Some(&MaturitySign::VerticCalcic)));
+        assert_eq!((p[0].maturity, p[0].raised_by.last()), (Strong, Some(&MaturitySign::ThickBHorizon)));
         // A thick but weak B (a Bw) stays weak: thickness raises only a diagnostic profile.
         let p = run(vec![horizon(Weak, "Bw", 2.5)], &RuleParams::default());
         assert_eq!(p[0].maturity, Weak);
+    }
+
+    #[test]
+    fn transitional_horizons_do_not_count_towards_the_b_thickness() {
+        // Bt 0.6 m (argillic, moderate) over a BC 3 m: the BC is as much C as B (Soil Survey
+        // Staff: a transitional horizon has properties of both masters), so only the Bt counts
+        // and 0.6 m is below the 1 m floor: the profile stays moderate, and the BC is named.
+        use PaleosolDevelopment::*;
+        let mut bt = horizon(Weak, "Bt", 0.6);
+        bt.paleosol_features.push(PaleosolFeature::ClayCoatings);
+        let p = run(vec![horizon(Weak, "BC", 3.0), bt, horizon(Weak, "A", 0.2)], &RuleParams::default());
+        assert_eq!(p[0].maturity, Moderate);
+        assert!((p[0].b_horizon_thickness_m - 0.6).abs() < 1e-12);
+        assert!(
+            sentences(&p[0]).contains(
+                &"B horizons 0.60 m thick in all (Bt (bed 2); transitional BC (bed 1) not counted)".into()
+            ),
+            "{:?}",
+            sentences(&p[0])
+        );
+        // CB, AB and B/C are transitional too; Bk2, Bss, 2Bt are not.
+        for (d, t) in
+            [("CB", true), ("AB", true), ("B/C", true), ("Bk2", false), ("Bss", false), ("2Bt", false)]
+        {
+            assert_eq!(is_transitional(&SoilHorizon::parse(d).expect("designation")), t, "{d}");
+        }
+    }
+
+    fn coloured(mut b: Bed, munsell: &str, mottled: bool) -> Bed {
+        b.munsell = Some(Munsell::parse(munsell).expect("munsell"));
+        if mottled {
+            b.paleosol_features.push(PaleosolFeature::Mottling);
+        }
+        b
+    }
+
+    #[test]
+    fn mottles_in_a_red_matrix_are_imperfect_drainage_and_a_low_chroma_matrix_is_poor() {
+        // Kraus & Aslan 1993; Kraus 1999: red, high-chroma paleosols with grey mottles were wet
+        // for part of the year (somewhat poorly, "imperfectly", drained); gleyed soils with a
+        // low-chroma matrix were waterlogged (poorly drained). Chroma 2 or less (value 4 or more,
+        // hue not 5YR or redder) is the hydric-soil depleted-matrix criterion (Soil Survey Staff /
+        // USDA-NRCS Field Indicators of Hydric Soils; from memory).
+        use PaleosolDevelopment::*;
+        let read = |b: Bed| run(vec![b], &RuleParams::default()).remove(0);
+        let p = read(coloured(mud(Moderate), "5YR 4/4", true));
+        assert_eq!(
+            (p.poorly_drained, p.drainage_reading, p.drainage_from),
+            (false, DrainageReading::Imperfectly, DrainageBasis::Mottled)
+        );
+        assert!(
+            sentences(&p).contains(
+                &"mottles in a 5YR 4/4 matrix (high chroma or red hue: oxidised, not gleyed) in an undesignated \
+                  bed: imperfectly (somewhat poorly) drained (seasonal wetting)"
+                    .into()
+            ),
+            "{:?}",
+            sentences(&p)
+        );
+        // Mottles with no matrix colour logged: imperfect, said so.
+        let mut m = mud(Moderate);
+        m.paleosol_features.push(PaleosolFeature::Mottling);
+        let p = read(m);
+        assert_eq!(
+            (p.drainage_reading, p.drainage_from),
+            (DrainageReading::Imperfectly, DrainageBasis::Mottled)
+        );
+        assert!(sentences(&p).iter().any(|s| s.contains("no Munsell colour of the matrix logged")));
+        // A grey, low-chroma matrix, mottled or not: gleyed, poorly drained.
+        for mottled in [true, false] {
+            let p = read(coloured(horizon(Moderate, "Bw", 0.5), "2.5Y 5/2", mottled));
+            assert_eq!(
+                (p.poorly_drained, p.drainage_reading, p.drainage_from),
+                (true, DrainageReading::Poorly, DrainageBasis::Gleyed),
+                "mottled {mottled}"
+            );
+        }
+        assert!(sentences(&read(coloured(mud(Moderate), "N 6/", false)))
+            .contains(&"a low-chroma N 6/ matrix (chroma 2 or less, hue not red: gleyed) in an undesignated bed: poorly drained".into()));
+        // Low chroma in a red hue (10R 4/2) with mottles: red parent colours, not gleyed.
+        assert_eq!(
+            read(coloured(mud(Moderate), "10R 4/2", true)).drainage_reading,
+            DrainageReading::Imperfectly
+        );
+        // A dark low-chroma matrix (10YR 2/1, organic) without mottles: no wet sign.
+        let p = read(coloured(horizon(Moderate, "A", 0.3), "10YR 2/1", false));
+        assert_eq!(
+            (p.drainage_reading, p.drainage_from),
+            (DrainageReading::NotPoorly, DrainageBasis::NoSign)
+        );
+        // A red unmottled matrix: no wet sign.
+        assert_eq!(read(coloured(mud(Moderate), "5YR 4/4", false)).drainage_from, DrainageBasis::NoSign);
+        // The wettest sign where the maturity is wins: a mottled red bed and a gleyed one.
+        let p = run(
+            vec![coloured(mud(Moderate), "5YR 4/4", true), coloured(mud(Moderate), "5Y 5/1", false)],
+            &RuleParams::default(),
+        );
+        assert_eq!(p[0].drainage_reading, DrainageReading::Poorly);
     }
 
     #[test]
@@ -540,10 +735,18 @@ mod tests {
         let p = run(vec![gleyed.clone()], &RuleParams::default());
         assert_eq!((p[0].poorly_drained, p[0].drainage_from), (false, DrainageBasis::Logged));
         assert!(sentences(&p[0]).contains(&"drainage logged as well drained on Bt".into()));
+        // Somewhat poorly drained (Soil Survey Manual) is the imperfect class, not a gleyed soil.
         gleyed.drainage = Some(Drainage::SomewhatPoorlyDrained);
+        let p = run(vec![gleyed.clone()], &RuleParams::default());
+        assert_eq!((p[0].poorly_drained, p[0].drainage_reading), (false, DrainageReading::Imperfectly));
+        assert!(sentences(&p[0]).contains(
+            &"drainage logged as somewhat poorly drained on Bt: imperfectly drained, not counted as poorly drained"
+                .into()
+        ));
+        gleyed.drainage = Some(Drainage::PoorlyDrained);
         assert!(run(vec![gleyed], &RuleParams::default())[0].poorly_drained);
         let p = run(vec![horizon(Moderate, "Bg", 0.5)], &RuleParams::default());
-        assert_eq!((p[0].poorly_drained, p[0].drainage_from), (true, DrainageBasis::WetSigns));
+        assert_eq!((p[0].poorly_drained, p[0].drainage_from), (true, DrainageBasis::Gleyed));
         assert!(sentences(&p[0]).contains(&"a gleyed (g) horizon in Bg: poorly drained".into()));
         let p = run(vec![horizon(Moderate, "Bw", 0.5)], &RuleParams::default());
         assert_eq!((p[0].poorly_drained, p[0].drainage_from), (false, DrainageBasis::NoSign));

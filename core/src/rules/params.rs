@@ -64,10 +64,6 @@ pub struct RuleParams {
     /// A profile with a carbonate horizon of at least this stage is very strongly developed.
     /// Default 4 (stage IV, laminar caps): Retallack 2001 (from memory).
     pub very_strong_carbonate_stage: u8,
-    /// Slickensides together with carbonate nodules in one profile (vertic and calcic features:
-    /// shrink–swell and carbonate accumulation over a long time; Kraus 1999) raise its maturity
-    /// by one grade. Default on: Kraus 1999; Retallack 2001.
-    pub vertic_calcic_raises: bool,
     /// A profile with a diagnostic subsurface horizon — a Bt logged with clay coatings (argillic),
     /// a Bk of carbonate stage II or more (calcic) or a Bss (vertic) — is at least this developed.
     /// Default moderate: Retallack 2001's development scale calls a profile moderately developed
@@ -161,7 +157,6 @@ impl Default for RuleParams {
             paleosol_min_development: PaleosolDevelopment::Weak,
             strong_carbonate_stage: 3,
             very_strong_carbonate_stage: 4,
-            vertic_calcic_raises: true,
             diagnostic_horizon_development: PaleosolDevelopment::Moderate,
             thick_b_horizon_m: 1.0,
             very_thick_b_horizon_m: 2.0,
@@ -256,8 +251,10 @@ impl RuleParams {
 }
 
 /// Parameter names earlier versions used and this one no longer reads (the boundary evidence was
-/// rebuilt from independent items). A partial object naming them is read with a warning, not
-/// refused, so older project and parameter files still open.
+/// rebuilt from independent items; slickensides with carbonate nodules no longer raise a
+/// paleosol's maturity, so `vertic_calcic_raises` has nothing to switch). A partial object
+/// naming them is read with a warning, not refused, so older project and parameter files still
+/// open.
 pub const RETIRED: &[&str] = &[
     "boundary_interval_min_score",
     "grain_jump_min_classes",
@@ -267,6 +264,7 @@ pub const RETIRED: &[&str] = &[
     "weight_relief",
     "weight_on_strong_paleosol",
     "weight_proportion_jump",
+    "vertic_calcic_raises",
 ];
 
 /// A partial parameter object read: the full set and the warnings (retired names ignored).

@@ -172,9 +172,6 @@ impl ChannelBody {
 pub enum MaturitySign {
     /// A carbonate horizon of a high morphological stage.
     CarbonateStage,
-    /// Slickensides with carbonate nodules (vertic and calcic features together), logged as
-    /// features or as `ss` and `k` horizon suffixes.
-    VerticCalcic,
     /// Designated soil horizons (A, E, B, O) where no development was logged: a soil was seen.
     DesignatedHorizon,
     /// A Bt horizon with clay coatings: an argillic horizon.
@@ -192,7 +189,6 @@ impl MaturitySign {
     pub fn words(self) -> &'static str {
         match self {
             MaturitySign::CarbonateStage => "raised by its carbonate stage",
-            MaturitySign::VerticCalcic => "raised by slickensides with carbonate nodules",
             MaturitySign::DesignatedHorizon => "raised by its designated soil horizons",
             MaturitySign::ArgillicHorizon => "raised by a Bt horizon with clay coatings",
             MaturitySign::CalcicHorizon => "raised by a Bk horizon of carbonate stage II or more",
@@ -209,11 +205,92 @@ pub enum DrainageBasis {
     /// The geologist's drainage class on the horizons that carry the maturity (or, where none
     /// of those has one, on another horizon of the profile).
     Logged,
-    /// Gleying or mottling logged, or a `g` horizon suffix, on the horizons that carry the
-    /// maturity.
-    WetSigns,
+    /// Gleying logged, a `g` horizon suffix or a low-chroma (gleyed) matrix on the horizons that
+    /// carry the maturity: poorly drained.
+    Gleyed,
+    /// Mottles in a high-chroma or red matrix, or mottles with no matrix colour logged, on the
+    /// horizons that carry the maturity: somewhat poorly (imperfectly) drained.
+    Mottled,
     /// Neither: read as not poorly drained.
     NoSign,
+}
+
+/// How wet a profile is read to have been, graded as the Soil Survey Manual's drainage classes
+/// group: gleyed soils (poorly and very poorly drained) apart from mottled but oxidised ones
+/// (somewhat poorly, "imperfectly", drained) apart from the rest.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum DrainageReading {
+    /// Well or moderately well drained, or no wet sign where the maturity is.
+    NotPoorly,
+    /// Somewhat poorly (imperfectly) drained: wet for part of the year, the matrix still
+    /// oxidised (Kraus & Aslan 1993).
+    Imperfectly,
+    /// Poorly or very poorly drained: waterlogged long enough to gley the matrix.
+    Poorly,
+}
+
+impl DrainageReading {
+    /// The reading for a logged Soil Survey Manual class.
+    pub fn of_class(d: Drainage) -> DrainageReading {
+        match d {
+            Drainage::WellDrained | Drainage::ModeratelyWellDrained => DrainageReading::NotPoorly,
+            Drainage::SomewhatPoorlyDrained => DrainageReading::Imperfectly,
+            Drainage::PoorlyDrained | Drainage::VeryPoorlyDrained => DrainageReading::Poorly,
+        }
+    }
+
+    /// The reading in words.
+    pub fn words(self) -> &'static str {
+        match self {
+            DrainageReading::NotPoorly => "not poorly drained",
+            DrainageReading::Imperfectly => "imperfectly (somewhat poorly) drained",
+            DrainageReading::Poorly => "poorly drained",
+        }
+    }
+}
+
+/// The wet sign a drainage reading was taken from, on one horizon.
+#[derive(Debug, Clone, PartialEq)]
+pub enum WetSign {
+    /// Gleying logged as a paleosol feature.
+    Gleying,
+    /// A `g` suffix on the designation (`Bg`, `Cg`).
+    GleyedHorizon,
+    /// A matrix of low chroma (gleyed colours), mottled or not; the Munsell notation as logged.
+    LowChromaMatrix { munsell: String, mottled: bool },
+    /// Mottles in a matrix of high chroma or red hue; the Munsell notation as logged.
+    MottlesInOxidisedMatrix { munsell: String },
+    /// Mottles with no Munsell colour of the matrix logged.
+    MottlesNoColour,
+}
+
+impl WetSign {
+    /// The reading the sign gives.
+    pub fn reading(&self) -> DrainageReading {
+        match self {
+            WetSign::Gleying | WetSign::GleyedHorizon | WetSign::LowChromaMatrix { .. } => {
+                DrainageReading::Poorly
+            }
+            WetSign::MottlesInOxidisedMatrix { .. } | WetSign::MottlesNoColour => {
+                DrainageReading::Imperfectly
+            }
+        }
+    }
+
+    /// The sign in a few words, for hover help ("mottles in a 5YR 4/4 matrix").
+    pub fn short(&self) -> String {
+        match self {
+            WetSign::Gleying => "gleying logged".to_string(),
+            WetSign::GleyedHorizon => "a gleyed (g) horizon".to_string(),
+            WetSign::LowChromaMatrix { munsell, mottled: true } => {
+                format!("mottles in a low-chroma {munsell} matrix")
+            }
+            WetSign::LowChromaMatrix { munsell, mottled: false } => format!("a low-chroma {munsell} matrix"),
+            WetSign::MottlesInOxidisedMatrix { munsell } => format!("mottles in a {munsell} matrix"),
+            WetSign::MottlesNoColour => "mottles, matrix colour not logged".to_string(),
+        }
+    }
 }
 
 /// One sentence of a profile's evidence: what its maturity and drainage were read from, horizon
@@ -239,14 +316,22 @@ pub enum ProfileEvidence {
     Vertic { horizon: String, floor: PaleosolDevelopment },
     /// The highest carbonate stage (1–6), with the horizon it was logged on, if designated.
     CarbonateStage { stage: u8, horizon: Option<String>, floor: PaleosolDevelopment },
-    /// Slickensides and carbonate nodules (features or `ss`/`k` suffixes): one grade more.
-    VerticCalcic { raised_to: PaleosolDevelopment },
-    /// Total thickness of the B horizons, and the limit it reached (if any).
-    BThickness { thickness_m: f64, limit_m: Option<f64>, floor: Option<PaleosolDevelopment> },
+    /// Slickensides and carbonate nodules (features or `ss`/`k` suffixes) together: named as a
+    /// seasonal-climate feature of the profile; they do not raise its maturity.
+    VerticCalcic,
+    /// Total thickness of the B horizons (master B alone), the beds counted ("Bt1 (bed 5)"), the
+    /// transitional ones left out, and the limit it reached (if any).
+    BThickness {
+        thickness_m: f64,
+        counted: Vec<String>,
+        transitional: Vec<String>,
+        limit_m: Option<f64>,
+        floor: Option<PaleosolDevelopment>,
+    },
     /// The geologist's drainage class, on the named horizon (or an undesignated bed).
     DrainageLogged { drainage: Drainage, horizon: Option<String> },
-    /// Gleying, mottling or a `g` suffix on a horizon carrying the maturity.
-    WetSign { sign: &'static str, horizon: Option<String> },
+    /// Gleying, a `g` suffix, a low-chroma matrix or mottling on a horizon carrying the maturity.
+    WetSign { sign: WetSign, horizon: Option<String> },
     /// No drainage class logged and no wet sign on the horizons carrying the maturity.
     NoWetSign,
     /// The profile was cut off from the one below where the horizon sequence starts again.
@@ -303,25 +388,55 @@ impl ProfileEvidence {
                 on_horizon(horizon),
                 floor.name()
             ),
-            VerticCalcic { raised_to } => format!(
-                "slickensides with carbonate nodules (vertic and calcic; Kraus 1999): one grade more, {}",
-                raised_to.name()
-            ),
-            BThickness { thickness_m, limit_m, floor } => match (limit_m, floor) {
-                (Some(limit), Some(floor)) => format!(
-                    "B horizons {} thick in all (at least {}): at least {}",
-                    unit.length(*thickness_m),
-                    unit.length(*limit),
-                    floor.name()
-                ),
-                _ => format!("B horizons {} thick in all", unit.length(*thickness_m)),
-            },
-            DrainageLogged { drainage, horizon } => {
-                format!("drainage logged as {} on {}", drainage.name(), on_horizon(horizon))
+            VerticCalcic => "slickensides with carbonate nodules (vertic and calcic): shrink–swell and carbonate \
+                             accumulation under a seasonally dry climate (Kraus 1999), not counted as extra maturity"
+                .to_string(),
+            BThickness { thickness_m, counted, transitional, limit_m, floor } => {
+                let left_out = if transitional.is_empty() {
+                    String::new()
+                } else {
+                    format!("; transitional {} not counted", transitional.join(", "))
+                };
+                let counted = if counted.is_empty() { "none".to_string() } else { counted.join(", ") };
+                match (limit_m, floor) {
+                    (Some(limit), Some(floor)) => format!(
+                        "B horizons {} thick in all ({counted}{left_out}; at least {}): at least {}",
+                        unit.length(*thickness_m),
+                        unit.length(*limit),
+                        floor.name()
+                    ),
+                    _ => format!("B horizons {} thick in all ({counted}{left_out})", unit.length(*thickness_m)),
+                }
             }
-            WetSign { sign, horizon } => format!("{sign} in {}: poorly drained", on_horizon(horizon)),
-            NoWetSign => "no drainage logged and no gleying, mottling or g horizon where the maturity is: not \
-                          poorly drained"
+            DrainageLogged { drainage, horizon } => {
+                let reading = DrainageReading::of_class(*drainage);
+                let note = match reading {
+                    DrainageReading::Imperfectly => ": imperfectly drained, not counted as poorly drained",
+                    _ => "",
+                };
+                format!("drainage logged as {} on {}{note}", drainage.name(), on_horizon(horizon))
+            }
+            WetSign { sign, horizon } => {
+                let on = on_horizon(horizon);
+                match sign {
+                    self::WetSign::Gleying => format!("gleying in {on}: poorly drained (waterlogged, reduced)"),
+                    self::WetSign::GleyedHorizon => format!("a gleyed (g) horizon in {on}: poorly drained"),
+                    self::WetSign::LowChromaMatrix { munsell, mottled } => format!(
+                        "{} {munsell} matrix (chroma 2 or less, hue not red: gleyed) in {on}: poorly drained",
+                        if *mottled { "mottles in a low-chroma" } else { "a low-chroma" }
+                    ),
+                    self::WetSign::MottlesInOxidisedMatrix { munsell } => format!(
+                        "mottles in a {munsell} matrix (high chroma or red hue: oxidised, not gleyed) in {on}: \
+                         imperfectly (somewhat poorly) drained (seasonal wetting)"
+                    ),
+                    self::WetSign::MottlesNoColour => format!(
+                        "mottles in {on}, no Munsell colour of the matrix logged: read as imperfectly (somewhat \
+                         poorly) drained (seasonal wetting); a gleyed, low-chroma matrix would make it poorly drained"
+                    ),
+                }
+            }
+            NoWetSign => "no drainage logged and no gleying, low-chroma matrix, mottling or g horizon where the \
+                          maturity is: not poorly drained"
                 .to_string(),
             StartsNewSequence { why: ProfileBreak::HorizonSequence } => {
                 "starts where the horizon sequence starts again (a lower horizon over an upper one): a new profile"
@@ -390,17 +505,20 @@ pub struct PaleosolProfile {
     /// True when the soil formed in sandstone or conglomerate (a profile including such a bed: a
     /// soil on a sandstone top).
     pub on_sandstone: bool,
-    /// True when the profile is poorly drained: the geologist's drainage class (somewhat poorly
-    /// drained or wetter) where logged, else gleying, mottling or a `g` horizon on the horizons
-    /// that carry its maturity: a high or fluctuating water table (Kraus 1999; Wright & Marriott
-    /// 1993).
+    /// True when the profile is poorly drained (gleyed): the geologist's drainage class (poorly
+    /// or very poorly drained) where logged, else gleying, a `g` horizon or a low-chroma matrix
+    /// on the horizons that carry its maturity: a high water table (Kraus 1999; Wright &
+    /// Marriott 1993). A somewhat poorly (imperfectly) drained profile is not: see `drainage_reading`.
     pub poorly_drained: bool,
+    /// The graded drainage reading: poorly, imperfectly (somewhat poorly) or not poorly drained.
+    pub drainage_reading: DrainageReading,
     /// The geologist's drainage class the reading used, where one was logged.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub drainage: Option<Drainage>,
     /// Where the drainage reading comes from.
     pub drainage_from: DrainageBasis,
-    /// Total thickness of the beds designated as B horizons, metres (0 when none).
+    /// Total thickness of the beds designated as B horizons with master B alone (Bt, Bk, Bss,
+    /// Bw, Bg…; transitional BC, AB… not counted), metres (0 when none).
     #[serde(rename = "b_horizon_thickness")]
     pub b_horizon_thickness_m: f64,
     /// What the maturity and drainage were read from, horizon data included, as sentences.

@@ -5,7 +5,7 @@
 //! drawn items, with the same track positions the drawing uses.
 
 use super::*;
-use crate::rules::{PaleosolProfile, RegimeInterval};
+use crate::rules::{DrainageBasis, PaleosolProfile, ProfileEvidence, RegimeInterval};
 
 /// One track of the column, as the hover help names it.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
@@ -83,7 +83,7 @@ impl TrackKind {
                  wide a grade, with the index beside it where the bed has room; a hairline is 0."
             }
             TrackKind::Facies => {
-                "Lithofacies code of each bed (Miall 1996). In black, the code you gave; in grey with \
+                "Lithofacies code of each bed (Miall 1978, 1996). In black, the code you gave; in grey with \
                  \"?\", the code suggested from the bed's rock, grain size and structures: a \
                  candidate for your review until you confirm or change it. Beds too thin for a \
                  code of their own share one label (\"Sr/Fl\"); a hairline marks where the code \
@@ -535,7 +535,18 @@ impl ColumnCtx<'_> {
         } else {
             String::new()
         };
-        let drainage = if p.poorly_drained { "; poorly drained (gleyed or mottled)" } else { "" };
+        // The drainage worded from what the profile's own reading was based on.
+        let sign = p.evidence.iter().find_map(|e| match e {
+            ProfileEvidence::WetSign { sign, .. } => Some(sign.short()),
+            _ => None,
+        });
+        let drainage = match (p.drainage_from, p.drainage, sign) {
+            (DrainageBasis::Logged, Some(class), _) => format!("; drainage logged as {}", class.name()),
+            (DrainageBasis::Gleyed | DrainageBasis::Mottled, _, Some(sign)) => {
+                format!("; {} ({sign})", p.drainage_reading.words())
+            }
+            _ => String::new(),
+        };
         format!(
             "Paleosol profile of {} maturity{raised}, {}\u{2013}{}, {beds}{drainage}.",
             p.maturity.name(),
