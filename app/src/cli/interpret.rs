@@ -93,10 +93,13 @@ impl Serialize for BedsJson<'_> {
             let base = height;
             height += b.thickness_m;
             let f = facies_of(b);
+            // Heights are sums of thicknesses: rounded to the micrometre, so 3.65 is not written
+            // 3.6500000000000004 (no log is measured that finely).
+            let micrometre = |m: f64| (m * 1e6).round() / 1e6;
             BedJson {
                 id: b.id.0,
-                base,
-                top: height,
+                base: micrometre(base),
+                top: micrometre(height),
                 facies: f.map(|(code, _)| code.code()),
                 facies_suggested: f.is_some_and(|(_, suggested)| suggested),
             }
