@@ -600,8 +600,9 @@ fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
     // slickensides with carbonate nodules (vertic and calcic features) record shrink–swell under
     // a seasonal climate (Kraus 1999), not more time, and add no grade.
     // Working: beds 2–3 (2.0–3.8 m) are one profile, logged at most moderate → strong by stage III.
-    // One candidate at its top (3.8 m): a strongly developed interfluve paleosol, strong on its
-    // own (McCarthy & Plint 1998), score 0.30; the first rules gave one candidate per bed (3.0 and
+    // One candidate at its top (3.8 m): a strongly developed interfluve paleosol, score 0.30, one
+    // kind of evidence and so moderate (only a very strongly developed interfluve soil is strong
+    // on its own, McCarthy & Plint 1998); the first rules gave one candidate per bed (3.0 and
     // 3.8 m).
     let s = section("Horizons", HORIZONS);
     let r = interpret(&s, &RuleParams::default());
@@ -617,7 +618,7 @@ fn horizons_logged_as_beds_make_one_profile_with_one_candidate() {
     let c = &r.sequence_boundary_candidates;
     assert_eq!(c.len(), 1, "{c:?}");
     assert!(close(c[0].height_m, 3.8) && close(c[0].score, 0.3), "{c:?}");
-    assert_eq!(c[0].strength, Strength::Strong);
+    assert_eq!(c[0].strength, Strength::Moderate);
     assert_eq!((r.elements[1], r.elements[2]), (Element::Paleosol, Element::Paleosol));
 
     // With stage III no longer enough for strong: moderate as logged, the pair adding nothing.
@@ -745,7 +746,9 @@ fn the_json_carries_the_new_results_under_their_contract_names() {
     assert!(v["channel_proportion_bounds"]["covered_as_channel"].is_number());
     let r = interpret(&section("Horizons", HORIZONS), &RuleParams::default());
     let v = serde_json::to_value(&r).expect("serialises");
-    assert_eq!(v["paleosols"][0]["maturity"], "very_strong");
+    assert_eq!(v["paleosols"][0]["maturity"], "strong");
+    assert_eq!(v["paleosols"][0]["drainage_reading"], "not_poorly");
+    assert_eq!(v["paleosols"][0]["drainage_from"], "no_sign");
     assert_eq!(v["paleosols"][0]["beds"], serde_json::json!([2, 3]));
     assert_eq!(
         (v["paleosols"][0]["base"].as_f64(), v["paleosols"][0]["top"].as_f64()),
