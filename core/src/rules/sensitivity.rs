@@ -212,8 +212,8 @@ mod tests {
         for (name, _) in RANGES {
             assert!(vs.iter().any(|v| v.parameter == *name), "{name} produced no variant");
         }
-        // 7 lengths × 4 + 1 count × 2 + 2 fractions × 4.
-        assert_eq!(vs.len(), 7 * 4 + 2 + 2 * 4);
+        // 9 lengths × 4 + 1 count × 2 + 2 fractions × 4.
+        assert_eq!(vs.len(), 9 * 4 + 2 + 2 * 4);
         let splay: Vec<f64> = vs.iter().filter(|v| v.parameter == "splay_limit_m").map(|v| v.value).collect();
         assert_eq!(splay, [0.5, 0.75, 1.25, 1.5]);
         assert!(vs.iter().all(|v| v.params != p));
