@@ -8,7 +8,7 @@ use aggrade_core::analysis::markov::{
     TransitionParams,
 };
 use aggrade_core::analysis::paleocurrents::{
-    circular_summary, flow_readings_in_interval, grouped, per_bed, rose_bins, CircularParams,
+    beds_in_interval, circular_summary, flow_readings_of_beds, grouped, per_bed, rose_bins, CircularParams,
     CircularSummary, DataKind, GroupedPaleocurrents, ReadingGroup, RoseParams,
 };
 use aggrade_core::model::{LengthUnit, LithologyFamily, Section};
@@ -95,21 +95,20 @@ struct Stretch {
     transitions: Result<TransitionAnalysis, String>,
 }
 
+/// `bases` are the section's bed bases and `states` its state sequence, worked out once for all
+/// the stretches of a section (each stretch takes its beds by bisection, so many intervals on a
+/// long section stay linear).
 fn stretch(
     section: &Section,
+    bases: &[f64],
+    states: &[Option<&'static str>],
     base_m: f64,
     top_m: f64,
     params: &CircularParams,
-    states: StateKind,
 ) -> Stretch {
-    let bases = section.base_heights_m();
-    let readings = flow_readings_in_interval(section, base_m, top_m, params.kind);
-    let seq: Vec<Option<&'static str>> = state_sequence(section, states)
-        .into_iter()
-        .zip(&bases)
-        .filter(|(_, h)| **h >= base_m && **h < top_m)
-        .map(|(l, _)| l)
-        .collect();
+    let beds = beds_in_interval(bases, base_m, top_m);
+    let readings = flow_readings_of_beds(section, beds.clone(), params.kind);
+    let seq: Vec<Option<&'static str>> = states[beds].to_vec();
     Stretch {
         base_m,
         top_m,
@@ -292,16 +291,20 @@ fn group_brief(g: &ReadingGroup) -> String {
     parts.join("; ")
 }
 
+/// Whether the readings were restored to horizontal, as a line printed under the paleocurrent
+/// mean it concerns.
+fn restoration_line(g: &GroupedPaleocurrents) -> String {
+    match g.restored_with {
+        Some(b) => format!(
+            "    readings restored to horizontal for bedding dipping {:.0}° toward {:03.0}° (rotation about strike)",
+            b.dip_deg, b.dip_direction_deg
+        ),
+        None => "    readings as measured: no bedding attitude, so not restored to horizontal".to_string(),
+    }
+}
+
 /// The paleocurrent groups of a section as text.
 fn print_groups(out: &mut String, g: &GroupedPaleocurrents, unit: LengthUnit) -> std::fmt::Result {
-    match g.restored_with {
-        Some(b) => writeln!(
-            out,
-            "  Paleocurrents restored to horizontal for bedding dipping {:.0}° toward {:03.0}° (rotation about strike)",
-            b.dip_deg, b.dip_direction_deg
-        )?,
-        None => writeln!(out, "  Paleocurrents as measured: no bedding attitude, so not restored to horizontal")?,
-    }
     writeln!(out, "  Paleocurrent groups: whole section: {}", group_brief(&g.section))?;
     if !g.bodies.is_empty() {
         writeln!(out, "  Paleocurrents per channel body (bodies from the rules)")?;
@@ -409,7 +412,9 @@ fn section_json(
     })
 }
 
-fn print_stretch(out: &mut String, s: &Stretch) -> std::fmt::Result {
+/// One stretch as text: its paleocurrent summary (with `restored`, the line saying whether the
+/// readings were restored to horizontal, right under the mean) and its facies transitions.
+fn print_stretch(out: &mut String, s: &Stretch, restored: Option<&str>) -> std::fmt::Result {
     match &s.paleocurrents {
         Ok(p) => {
             let what = match p.kind {
@@ -432,10 +437,42 @@ fn print_stretch(out: &mut String, s: &Stretch) -> std::fmt::Result {
                 p.rayleigh_z,
                 fmt_p(p.rayleigh_p)
             )?;
+            if let Some(line) = restored {
+                writeln!(out, "{line}")?;
+            }
+        }
+        Err(_) if s.readings.is_empty() => writeln!(out, "  Paleocurrents: no paleocurrent readings")?,
+        Err(_) if s.readings.len() == 1 => {
+            writeln!(
+                out,
+                "  Paleocurrents: one reading only, too few for statistics (they need at least two)"
+            )?;
+            if let Some(line) = restored {
+                writeln!(out, "{line}")?;
+            }
         }
         Err(e) => writeln!(out, "  Paleocurrents: {e}")?,
     }
     match &s.transitions {
+        // (m − 1)² − m < 1: two states (or fewer), no test to run; the counts are still shown.
+        Ok(t) if t.dof < 1 => {
+            let few_beds = t.transitions < 4;
+            if few_beds {
+                writeln!(
+                    out,
+                    "  Facies transitions: too few beds for a transition test ({} between {} states; a test needs at least three states)",
+                    counted(t.transitions as usize, "transition", "transitions"),
+                    t.states.len()
+                )?;
+            } else {
+                writeln!(
+                    out,
+                    "  Facies transitions: only {} states alternate ({}), so there is no transition test (it needs at least three states)",
+                    t.states.len(),
+                    t.states.join(", ")
+                )?;
+            }
+        }
         Ok(t) => {
             writeln!(out, "  Facies transitions (embedded Markov chain; repeats merged, covered intervals break the chain)")?;
             let w = t.states.iter().map(|s| s.len()).max().unwrap_or(4).max(8);
@@ -475,6 +512,10 @@ fn print_stretch(out: &mut String, s: &Stretch) -> std::fmt::Result {
                     pt.from, pt.to, pt.observed, pt.expected, pt.standardised_residual
                 )?;
             }
+        }
+        // Fewer than two states take part in a transition: a bed or two, or one lithology.
+        Err(e) if e.starts_with("facies transition analysis (states)") => {
+            writeln!(out, "  Facies transitions: too few beds for a transition test")?
         }
         Err(e) => writeln!(out, "  Facies transitions: {e}")?,
     }
@@ -541,7 +582,9 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
     let mut values = Vec::new();
     let mut out = String::new();
     for s in &sections {
-        let whole = stretch(s, 0.0, s.total_thickness_m() + 1e-9, &params, args.states);
+        let bases = s.base_heights_m();
+        let states = state_sequence(s, args.states);
+        let whole = stretch(s, &bases, &states, 0.0, s.total_thickness_m() + 1e-9, &params);
         let interp = aggrade_core::rules::interpret(s, &rules);
         let unit = height_unit(s);
         let bounds = bounds_from_cuts(s.total_thickness_m(), &interp.cut_heights);
@@ -553,7 +596,7 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                 .map(|(k, w)| {
                     // The top interval includes the section top.
                     let top = if k + 2 == bounds.len() { w[1] + 1e-9 } else { w[1] };
-                    let mut st = stretch(s, w[0], top, &params, args.states);
+                    let mut st = stretch(s, &bases, &states, w[0], top, &params);
                     st.top_m = w[1];
                     st
                 })
@@ -591,7 +634,8 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                     counted(f.uncoded, "bed", "beds")
                 )?;
             }
-            print_stretch(&mut out, &whole)?;
+            let restored = groups.as_ref().ok().map(restoration_line);
+            print_stretch(&mut out, &whole, restored.as_deref())?;
             match &groups {
                 Ok(g) => print_groups(&mut out, g, unit)?,
                 Err(e) => writeln!(out, "  Paleocurrent groups: {e}")?,
@@ -622,7 +666,8 @@ pub fn run(args: &StatsArgs) -> anyhow::Result<()> {
                     unit.name(),
                     cuts_text(interp.cuts_are_accepted)
                 )?;
-                print_stretch(&mut out, st)?;
+                // The interval readings are restored as the section's are (said once, above).
+                print_stretch(&mut out, st, None)?;
                 if let Some(g) = groups.as_ref().ok().and_then(|g| g.intervals.get(k)) {
                     writeln!(out, "  Paleocurrent groups: {}", group_brief(g))?;
                 }

@@ -375,6 +375,46 @@ fn stats_text_is_in_the_display_unit_of_a_section_logged_in_feet() {
     let out = aggrade(&["stats", one.to_str().expect("utf-8")]);
     let text = String::from_utf8_lossy(&out.stdout).to_string();
     assert!(text.contains("Section \"one\": 2.00 m, 1 bed, 1 paleocurrent reading\n"), "{text}");
+    assert!(text.contains("Paleocurrents: one reading only, too few for statistics"), "{text}");
+    assert!(text.contains("Facies transitions: too few beds for a transition test\n"), "{text}");
+}
+
+#[test]
+fn stats_says_plainly_when_there_is_too_little_to_test() {
+    // Two beds, one transition between two states: the embedded-chain test has (m − 1)² − m = −1
+    // degrees of freedom and needs three states at least (Powers & Easterling 1982, from
+    // memory); no readings at all. Said in words, with no "dof = -1" and no expected-count
+    // caution, and no error text.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let two = dir.path().join("two.csv");
+    std::fs::write(&two, "thickness_m,lithology,grain\n2,mudstone,clay\n1,sandstone,fine sand\n")
+        .expect("write");
+    let out = aggrade(&["stats", two.to_str().expect("utf-8")]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8_lossy(&out.stdout).to_string();
+    assert!(text.contains("  Paleocurrents: no paleocurrent readings\n"), "{text}");
+    assert!(
+        text.contains(
+            "Facies transitions: too few beds for a transition test (1 transition between 2 states"
+        ),
+        "{text}"
+    );
+    for bad in ["dof = -1", "expected counts are below 5", "needs at least 2 values", "got 0"] {
+        assert!(!text.contains(bad), "{bad:?} in {text}");
+    }
+    // Many beds but only two lithologies alternating: no test either, said so.
+    let mut csv = String::from("thickness_m,lithology,grain\n");
+    for _ in 0..5 {
+        csv.push_str("2,mudstone,clay\n1,sandstone,fine sand\n");
+    }
+    let alt = dir.path().join("alternating.csv");
+    std::fs::write(&alt, csv).expect("write");
+    let text = String::from_utf8_lossy(&aggrade(&["stats", alt.to_str().expect("utf-8")]).stdout).to_string();
+    assert!(
+        text.contains("only 2 states alternate (mudstone, sandstone), so there is no transition test"),
+        "{text}"
+    );
+    assert!(!text.contains("dof = -1"), "{text}");
 }
 
 #[test]
@@ -516,7 +556,12 @@ fn stats_restores_tilted_paleocurrents_and_keeps_accretion_apart() {
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let text = String::from_utf8_lossy(&out.stdout).to_string();
     assert!(text.contains("restored to horizontal for bedding dipping 30° toward 090°"), "{text}");
-    assert!(text.contains("body 1 (3.00–7.00 m): flow n = 4"), "{text}");
+    // The restoration is said right under the mean it concerns, before the transition tables.
+    let lines: Vec<&str> = text.lines().collect();
+    let rayleigh = lines.iter().position(|l| l.contains("Rayleigh z =")).expect("a Rayleigh line");
+    assert!(lines[rayleigh + 1].contains("readings restored to horizontal"), "{text}");
+    let markov = lines.iter().position(|l| l.contains("Facies transitions")).expect("a transitions line");
+    assert!(rayleigh < markov, "{text}");
     assert!(text.contains("accretion surfaces n = 1 (kept apart from flow)"), "{text}");
     assert!(text.contains("2 trough axis, 1 planar foreset, 1 imbrication, 1 parting lineation"), "{text}");
 
