@@ -239,13 +239,21 @@ pub fn bed_flow_azimuths(bed: &Bed, bedding: Option<&BeddingAttitude>) -> Vec<f6
 /// ([`bed_readings`], restored with the section's bedding attitude).
 pub fn flow_readings_in_interval(section: &Section, base_m: f64, top_m: f64, kind: DataKind) -> Vec<f64> {
     let bases = section.base_heights_m();
-    section
-        .beds
-        .iter()
-        .zip(bases)
-        .filter(|(_, h)| *h >= base_m && *h < top_m)
-        .flat_map(|(b, _)| bed_readings(b, section.bedding.as_ref(), kind))
-        .collect()
+    flow_readings_of_beds(section, beds_in_interval(&bases, base_m, top_m), kind)
+}
+
+/// The beds whose base lies in `base_m ≤ h < top_m`, found by bisection in the ascending bed
+/// bases (`Section::base_heights_m`; thicknesses are positive once validated), so that cutting a
+/// long section into many intervals stays linear.
+pub fn beds_in_interval(bases: &[f64], base_m: f64, top_m: f64) -> std::ops::Range<usize> {
+    let first = bases.partition_point(|h| *h < base_m);
+    first..bases.partition_point(|h| *h < top_m).max(first)
+}
+
+/// The flow readings of a run of beds, of `kind` ([`bed_readings`], restored with the section's
+/// bedding attitude).
+pub fn flow_readings_of_beds(section: &Section, beds: std::ops::Range<usize>, kind: DataKind) -> Vec<f64> {
+    section.beds[beds].iter().flat_map(|b| bed_readings(b, section.bedding.as_ref(), kind)).collect()
 }
 
 /// One-way flow readings of the beds whose base lies in `base_m ≤ h < top_m`
@@ -494,8 +502,7 @@ pub fn grouped(
         .enumerate()
         .map(|(k, w)| {
             let top = if k + 2 == m { w[1] + 1e-9 } else { w[1] };
-            let beds = (0..n).filter(|&i| bases[i] >= w[0] && bases[i] < top);
-            group_of(section, beds, w[0], w[1], params)
+            group_of(section, beds_in_interval(&bases, w[0], top), w[0], w[1], params)
         })
         .collect::<Result<Vec<_>, AnalysisError>>()?;
     Ok(GroupedPaleocurrents { restored_with: section.bedding, section: whole, bodies, intervals })
@@ -753,7 +760,8 @@ mod tests {
         let mut s = Section::new("Body");
         let mut mud = Bed::new(BedId(1), 3.0, Lithology::Mudstone, None);
         mud.paleocurrents = vec![crate::model::Paleocurrent::azimuth(90.0)];
-        let mut sand = Bed::new(BedId(2), 4.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
+        let mut sand =
+            Bed::new(BedId(2), 4.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
         sand.base_contact = Contact::Erosional;
         sand.paleocurrents = [100.0, 120.0, 110.0].map(crate::model::Paleocurrent::azimuth).to_vec();
         let mut top = Bed::new(BedId(3), 3.0, Lithology::Mudstone, None);
