@@ -692,6 +692,45 @@ mod tests {
     }
 
     #[test]
+    fn a_profile_says_its_drainage_from_what_it_was_read_from() {
+        // Mottles in a red 5YR 4/4 matrix: imperfectly drained (Kraus & Aslan 1993), not
+        // "poorly drained (gleyed or mottled)"; a grey 2.5Y 5/2 matrix: poorly drained (gleyed,
+        // chroma 2 or less); a logged class: said as logged; no wet sign: nothing said.
+        use crate::model::{Drainage, Munsell, PaleosolFeature};
+        let help_for = |munsell: Option<&str>, mottled: bool, class: Option<Drainage>| {
+            let mut s = sample_section();
+            let bed = &mut s.beds[7];
+            bed.paleosol_features
+                .retain(|f| *f != PaleosolFeature::Mottling && *f != PaleosolFeature::Gleying);
+            bed.structures.retain(|st| *st != crate::model::Structure::Mottling);
+            if mottled {
+                bed.paleosol_features.push(PaleosolFeature::Mottling);
+            }
+            bed.munsell = munsell.map(|m| Munsell::parse(m).expect("munsell"));
+            bed.drainage = class;
+            let i = crate::rules::interpret(&s, &crate::rules::RuleParams::default());
+            let opts = LayoutOptions::default();
+            let ctx = ColumnCtx::new(&s, &i, &opts);
+            let h = (ctx.bases_m[7] + ctx.tops_m[7]) / 2.0;
+            ctx.help_at(pointed(mid(ctx.tracks.paleosols), h)).expect("a profile")
+        };
+        let red = help_for(Some("5YR 4/4"), true, None);
+        assert!(
+            red.contains("; imperfectly (somewhat poorly) drained (mottles in a 5YR 4/4 matrix)."),
+            "{red}"
+        );
+        assert!(!red.contains("gleyed"), "{red}");
+        let grey = help_for(Some("2.5Y 5/2"), true, None);
+        assert!(grey.contains("; poorly drained (mottles in a low-chroma 2.5Y 5/2 matrix)."), "{grey}");
+        let bare = help_for(None, true, None);
+        assert!(bare.contains("(mottles, matrix colour not logged)"), "{bare}");
+        let logged = help_for(Some("2.5Y 5/2"), true, Some(Drainage::ModeratelyWellDrained));
+        assert!(logged.contains("; drainage logged as moderately well drained."), "{logged}");
+        let dry = help_for(Some("5YR 4/4"), false, None);
+        assert!(!dry.contains("drained"), "{dry}");
+    }
+
+    #[test]
     fn symbols_paleocurrents_paleosols_and_regimes_are_named() {
         let s = sample_section();
         let i = sample_interpretation(&s);
