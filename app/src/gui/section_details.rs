@@ -721,7 +721,7 @@ impl SectionDetails {
             out.push(format!("Section details of {name}: display unit {}", self.unit.name()));
         }
         if fresh.method != self.method {
-            let m = self.method.map_or("none", MeasuringMethod::name);
+            let m = self.method.map_or("none".to_string(), method_label);
             out.push(format!("Section details of {name}: measuring method {m}"));
         }
         for (k, f) in self.fixes.iter().enumerate() {
@@ -929,6 +929,7 @@ impl SectionDetails {
                 }
             });
         });
+        lists_above(ctx, modal.response.layer_id);
         if modal.should_close() && outcome == Outcome::Open {
             if self.is_changed() {
                 // Escape or a click beside the dialog never drops what was typed.
@@ -945,12 +946,12 @@ impl SectionDetails {
         egui::Grid::new("section_measuring_grid").num_columns(2).spacing([12.0, 6.0]).show(ui, |ui| {
             let label = ui.label("Measuring method").id;
             egui::ComboBox::from_id_salt("measuring_method")
-                .selected_text(self.method.map_or("— (not said)", MeasuringMethod::name))
+                .selected_text(self.method.map_or("— (not said)".to_string(), method_label))
                 .width(180.0)
                 .show_ui(ui, |ui| {
                     ui.selectable_value(&mut self.method, None, "— (not said)");
                     for m in MeasuringMethod::ALL {
-                        ui.selectable_value(&mut self.method, Some(*m), m.name());
+                        ui.selectable_value(&mut self.method, Some(*m), method_label(*m));
                     }
                 })
                 .response
@@ -1122,6 +1123,30 @@ impl SectionDetails {
             }
         });
         ui.end_row();
+    }
+}
+
+/// A measuring method as the window shows it: its stored name with a capital first letter
+/// ("Jacob's staff", "Tape"), as the printed column header writes it.
+pub fn method_label(m: MeasuringMethod) -> String {
+    let name = m.name();
+    let mut chars = name.chars();
+    chars.next().map_or_else(String::new, |c| c.to_uppercase().chain(chars).collect())
+}
+
+/// Keep an open pop-up list (a measuring method or fix role) drawn directly above the dialog on
+/// layer `modal`. A press on the dialog raises the dialog; a list opened by a quick click (press
+/// and release in one frame) asks to be raised in the same frame, and when the list had been
+/// shown before, the dialog stayed above it: the list opened hidden behind the dialog, and the
+/// window remembers that order from one session to the next. Called every frame.
+pub fn lists_above(ctx: &egui::Context, modal: egui::LayerId) {
+    let shown: Vec<egui::LayerId> = ctx.memory(|m| {
+        m.areas().visible_layer_ids().into_iter().filter(|l| l.order == modal.order && *l != modal).collect()
+    });
+    for layer in shown {
+        if egui::Popup::is_id_open(ctx, layer.id) {
+            ctx.set_sublayer(modal, layer);
+        }
     }
 }
 
@@ -1307,6 +1332,16 @@ mod tests {
                 fixes: vec![],
             }]
         );
+    }
+
+    #[test]
+    fn measuring_methods_are_shown_with_a_capital_and_stored_by_their_vocabulary_names() {
+        // "Jacob's staff" takes its capital from Jacob (common practice in field manuals).
+        assert_eq!(method_label(MeasuringMethod::JacobsStaff), "Jacob's staff");
+        assert_eq!(method_label(MeasuringMethod::LaserRangefinder), "Laser rangefinder");
+        for m in MeasuringMethod::ALL {
+            assert_eq!(method_label(*m).to_lowercase(), m.name(), "only the first letter changes");
+        }
     }
 
     #[test]

@@ -17,5 +17,6 @@ mod keyboard_log;
 mod recovery;
 mod rules;
 mod section_details;
+mod section_setting;
 mod trace;
 mod views;

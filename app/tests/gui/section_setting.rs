@@ -1,0 +1,66 @@
+//! The section's measuring setting in the real window (egui_kittest): the Section details
+//! dialog's pop-up lists open above it every time and their choices are stored and undone; the
+//! dialog stays above the comparison and statistics windows; the Section tab sums the setting up.
+
+use super::harness::{app_with, harness_of};
+use aggrade::gui::AggradeApp;
+use aggrade_core::model::MeasuringMethod;
+use egui::{Key, Modifiers};
+use egui_kittest::kittest::Queryable;
+use egui_kittest::Harness;
+
+fn open_dialog(h: &mut Harness<'static, AggradeApp>) {
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::D);
+    h.run();
+    h.run();
+    assert!(h.state().section_details_open(), "Ctrl+Shift+D opens the dialog");
+}
+
+/// Click the widget labelled `label` with the pointer (pressed and released in one frame, as a
+/// quick click arrives); the click lands on whatever is drawn on top there.
+fn click(h: &mut Harness<'static, AggradeApp>, label: &str) {
+    h.get_by_label(label).click();
+    h.run();
+    h.run();
+}
+
+/// Is `text` on screen (a label, or the value of a field or list)?
+fn shown(h: &Harness<'static, AggradeApp>, text: &str) -> bool {
+    h.query_all_by(|n| n.label().as_deref() == Some(text) || n.value().as_deref() == Some(text))
+        .next()
+        .is_some()
+}
+
+#[test]
+fn the_measuring_method_list_opens_above_the_dialog_each_time_and_its_choice_is_stored_and_undone() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness_of(app_with(None, data.path(), Vec::new()));
+    h.run();
+    let before = h.state().doc.section().clone();
+    assert_eq!(before.method, Some(MeasuringMethod::JacobsStaff), "the demo's section");
+    open_dialog(&mut h);
+    // Shown with a capital, as the printed header writes it (the file keeps "jacob's staff").
+    assert!(shown(&h, "Jacob's staff"), "the method is shown capitalised");
+    assert!(!shown(&h, "jacob's staff"), "not in lower case");
+    // A click in the dialog raises the dialog above a list shown before: the list opened again
+    // by a quick click (which raises the dialog too) must still come up above it.
+    for choice in ["Laser rangefinder", "Tape"] {
+        click(&mut h, "Locality");
+        click(&mut h, "Measuring method");
+        assert!(h.query_by_label("Other").is_some(), "the list opens again");
+        click(&mut h, choice);
+        assert!(h.query_by_label("Other").is_none(), "{choice}: the choice closes the list");
+        assert!(
+            h.state().section_details_open(),
+            "{choice}: the click went to the list, not beside the dialog"
+        );
+    }
+    h.get_by_label("Apply").click();
+    h.run();
+    h.run();
+    assert!(!h.state().section_details_open(), "Apply closes the dialog");
+    assert_eq!(h.state().doc.section().method, Some(MeasuringMethod::Tape), "the choice is stored");
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    assert_eq!(h.state().doc.section(), &before, "one undo takes it back");
+}
