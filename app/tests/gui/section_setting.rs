@@ -64,3 +64,29 @@ fn the_measuring_method_list_opens_above_the_dialog_each_time_and_its_choice_is_
     h.run();
     assert_eq!(h.state().doc.section(), &before, "one undo takes it back");
 }
+
+#[test]
+fn the_dialog_opened_over_the_statistics_window_is_on_top_and_takes_the_clicks() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness_of(app_with(None, data.path(), Vec::new()));
+    h.run();
+    h.key_press_modifiers(Modifiers::COMMAND | Modifiers::SHIFT, Key::T);
+    h.run();
+    h.run();
+    assert!(h.query_by_label("Statistics").is_some(), "the Statistics window is open");
+    // A click in the Statistics window raises it, as a user's would.
+    click(&mut h, "Axial");
+    open_dialog(&mut h);
+    let apply = h.get_by_label("Apply").rect().center();
+    let on_top = h.ctx.layer_id_at(apply).expect("a layer under Apply");
+    assert_eq!(on_top.order, egui::Order::Foreground, "the dialog is above every window: {on_top:?}");
+    // Typed and applied with the pointer: the clicks reach the dialog, not the window behind.
+    h.get_by_label("Locality").click();
+    h.run();
+    h.key_press_modifiers(Modifiers::COMMAND, Key::A);
+    h.get_by(|n| n.is_focused()).type_text("north wall");
+    h.run();
+    click(&mut h, "Apply");
+    assert!(!h.state().section_details_open(), "Apply closed the dialog");
+    assert_eq!(h.state().doc.section().locality, "north wall");
+}
