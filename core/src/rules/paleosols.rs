@@ -21,14 +21,13 @@ use crate::model::{
     Bed, Contact, Drainage, Munsell, PaleosolDevelopment, PaleosolFeature, Section, SoilHorizon, Structure,
 };
 
-/// Highest chroma of a gleyed (depleted) matrix: chroma 2 or less is the usual hydric-soil
-/// criterion for a matrix depleted of iron by long saturation (Soil Survey Staff / USDA-NRCS,
-/// Field Indicators of Hydric Soils; from memory).
+/// Highest chroma of a gleyed (depleted) matrix: "a depleted matrix requires a value of 4 or
+/// more and chroma of 2 or less" (USDA-NRCS, Field Indicators of Hydric Soils in the United
+/// States, indicator F3 Depleted Matrix, user notes).
 const GLEY_MAX_CHROMA: f64 = 2.0;
 
-/// Lowest value of a gleyed matrix: a dark matrix of low chroma (value 3 or less) is coloured
-/// by organic matter, as in a dark A horizon, and is not read as gleyed (the hydric-soil
-/// depleted-matrix indicators ask for value 4 or more; from memory).
+/// Lowest value of a gleyed matrix (same source): a dark matrix of low chroma (value 3 or less)
+/// is coloured by organic matter, as in a dark A horizon, and is not read as gleyed.
 const GLEY_MIN_VALUE: f64 = 4.0;
 
 /// True when a bed was logged as a soil horizon.
@@ -72,16 +71,23 @@ fn is_transitional(h: &SoilHorizon) -> bool {
     h.as_str().chars().filter(|c| "OAEBCR".contains(*c)).count() > 1
 }
 
-/// True for a red hue, 5YR or redder (R, and YR of step 5 or less): a red matrix with low
-/// chroma is not read as gleyed (the hydric-soil indicators set soils of red parent material,
-/// 5YR or redder, apart; from memory).
+/// True for a red hue, 7.5YR or redder (R, and YR of step 7.5 or less): red parent material
+/// resists the colour change of wetness, and the hydric-soil indicators read it apart (USDA-NRCS,
+/// Field Indicators of Hydric Soils, indicator F21 Red Parent Material: hue 7.5YR or redder).
 fn is_red_hue(m: &Munsell) -> bool {
-    m.hue == "R" || (m.hue == "YR" && m.hue_step <= 5.0)
+    m.hue == "R" || (m.hue == "YR" && m.hue_step <= 7.5)
 }
 
-/// True for a gleyed (depleted) matrix colour: chroma 2 or less at value 4 or more, hue not red.
-fn is_gleyed_colour(m: &Munsell) -> bool {
-    m.chroma <= GLEY_MAX_CHROMA && m.value >= GLEY_MIN_VALUE && !is_red_hue(m)
+/// True for a gleyed (depleted) matrix colour on `bed`: chroma 2 or less at value 4 or more, hue
+/// not red. As in indicator F3 (user notes), the borderline colours 4/1, 4/2 and 5/2 need redox
+/// concentrations (mottles) too, and so do A, E and calcic (k) horizons, which can be pale and of
+/// low chroma without being wet.
+fn is_gleyed_matrix(m: &Munsell, bed: &Bed, mottled: bool) -> bool {
+    let low = m.chroma <= GLEY_MAX_CHROMA && m.value >= GLEY_MIN_VALUE && !is_red_hue(m);
+    let borderline = (m.value < 5.0 && m.chroma >= 1.0) || (m.value < 6.0 && m.chroma >= 2.0);
+    let pale_horizon =
+        bed.soil_horizon.as_ref().is_some_and(|h| matches!(h.master(), 'A' | 'E') || h.has("k"));
+    low && (mottled || !(borderline || pale_horizon))
 }
 
 /// What a profile's beds say of its maturity.
@@ -270,7 +276,9 @@ fn wet_sign(bed: &Bed) -> Option<WetSign> {
         return Some(WetSign::GleyedHorizon);
     }
     match &bed.munsell {
-        Some(m) if is_gleyed_colour(m) => Some(WetSign::LowChromaMatrix { munsell: m.to_string(), mottled }),
+        Some(m) if is_gleyed_matrix(m, bed, mottled) => {
+            Some(WetSign::LowChromaMatrix { munsell: m.to_string(), mottled })
+        }
         Some(m) if mottled => Some(WetSign::MottlesInOxidisedMatrix { munsell: m.to_string() }),
         None if mottled => Some(WetSign::MottlesNoColour),
         _ => None,
@@ -696,7 +704,7 @@ mod tests {
         assert!(sentences(&p).iter().any(|s| s.contains("no Munsell colour of the matrix logged")));
         // A grey, low-chroma matrix, mottled or not: gleyed, poorly drained.
         for mottled in [true, false] {
-            let p = read(coloured(horizon(Moderate, "Bw", 0.5), "2.5Y 5/2", mottled));
+            let p = read(coloured(horizon(Moderate, "Bw", 0.5), "2.5Y 6/2", mottled));
             assert_eq!(
                 (p.poorly_drained, p.drainage_reading, p.drainage_from),
                 (true, DrainageReading::Poorly, DrainageBasis::Gleyed),
@@ -716,6 +724,16 @@ mod tests {
             (p.drainage_reading, p.drainage_from),
             (DrainageReading::NotPoorly, DrainageBasis::NoSign)
         );
+        // F3 user notes: 4/1, 4/2 and 5/2 need redox concentrations, and pale A, E and calcic
+        // horizons are no depleted matrix without them; 7.5YR is a red hue (F21).
+        for (colour, h) in [("2.5Y 5/2", "Bw"), ("10YR 4/1", "Bw"), ("10YR 6/2", "Bk"), ("10YR 7/1", "E")] {
+            let p = read(coloured(horizon(Moderate, h, 0.3), colour, false));
+            assert_eq!(p.drainage_from, DrainageBasis::NoSign, "{colour} {h}");
+            let p = read(coloured(horizon(Moderate, h, 0.3), colour, true));
+            assert_eq!(p.drainage_from, DrainageBasis::Gleyed, "mottled {colour} {h}");
+        }
+        assert_eq!(read(coloured(mud(Moderate), "10YR 6/2", false)).drainage_from, DrainageBasis::Gleyed);
+        assert_eq!(read(coloured(mud(Moderate), "7.5YR 5/2", true)).drainage_from, DrainageBasis::Mottled);
         // A red unmottled matrix: no wet sign.
         assert_eq!(read(coloured(mud(Moderate), "5YR 4/4", false)).drainage_from, DrainageBasis::NoSign);
         // The wettest sign where the maturity is wins: a mottled red bed and a gleyed one.
