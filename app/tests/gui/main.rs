@@ -14,6 +14,7 @@ mod field_record;
 mod fields;
 mod import;
 mod keyboard_log;
+mod record_tables;
 mod recovery;
 mod rules;
 mod section_details;

@@ -6,6 +6,7 @@ use super::common::{caution, fmt_proportion, text_table, ViewCtx, ViewsOutcome};
 use crate::gui::chooser::{PickFor, SaveKind};
 use crate::gui::document::Edit;
 use crate::gui::error::{WriteError, Written};
+use crate::gui::field::{mark_invalid, INVALID};
 use crate::gui::theme;
 use aggrade_core::analysis::bodies::{
     body_table_with_lateral, thickness_summary, unmatched_lateral, write_bodies_csv,
@@ -240,9 +241,9 @@ pub struct BodiesView {
     cache: Option<((u64, Option<u64>), BodiesResult)>,
     /// How many times the table was computed (stays put while nothing changes).
     pub computations: u64,
-    /// The width cell being typed in (section index, base bed) and its text, kept while it has
-    /// focus or holds a value that did not read.
-    editing: Option<((usize, BedId), String)>,
+    /// The width cells being typed in or holding a text that did not read, by (section index,
+    /// base bed): what was typed is kept there until it reads or is cleared.
+    typed: std::collections::BTreeMap<(usize, BedId), String>,
 }
 
 impl Default for BodiesView {
@@ -253,7 +254,7 @@ impl Default for BodiesView {
             burial_depth_m: DEFAULT_BURIAL_DEPTH_M,
             cache: None,
             computations: 0,
-            editing: None,
+            typed: Default::default(),
         }
     }
 }
@@ -562,28 +563,23 @@ impl BodiesView {
         out: &mut ViewsOutcome,
     ) {
         let key = (sec, bed);
-        let mut text = match &self.editing {
-            Some((k, t)) if *k == key => t.clone(),
-            _ => width_text(row.width_m),
-        };
-        let bad = parse_width(&text).is_err();
-        let mut edit = egui::TextEdit::singleline(&mut text)
-            .id_salt(("body_width", sec, bed.0))
-            .desired_width(64.0)
-            .hint_text("width (m)");
-        if bad {
-            edit = edit.text_color(theme::WARN);
-        }
-        let resp = ui.add(edit).on_hover_text(
-            "Width of the body across the outcrop, metres (Enter or leaving the cell stores it; empty for none)",
-        );
-        if resp.has_focus() || bad {
-            self.editing = Some((key, text.clone()));
-        }
-        if resp.lost_focus() {
-            match parse_width(&text) {
-                Ok(w) => {
-                    self.editing = None;
+        let mut text = self.typed.get(&key).cloned().unwrap_or_else(|| width_text(row.width_m));
+        ui.horizontal(|ui| {
+            let bad = parse_width(&text).is_err();
+            let mut edit = egui::TextEdit::singleline(&mut text)
+                .id_salt(("body_width", sec, bed.0))
+                .desired_width(64.0)
+                .hint_text("width (m)");
+            if bad {
+                edit = edit.text_color(INVALID);
+            }
+            let resp = ui.add(edit).on_hover_text(
+                "Width of the body across the outcrop, metres (Enter or leaving the cell stores it; empty for none)",
+            );
+            let read = parse_width(&text);
+            if resp.lost_focus() {
+                if let Ok(w) = read {
+                    self.typed.remove(&key);
                     if w != row.width_m {
                         out.edit = Some(Edit::SetBodyLateral {
                             section: sec,
@@ -593,11 +589,22 @@ impl BodiesView {
                         });
                     }
                 }
-                Err(why) => out.error = Some(("Width not stored".into(), why)),
             }
-        } else if !resp.has_focus() && !bad && self.editing.as_ref().is_some_and(|(k, _)| *k == key) {
-            self.editing = None;
-        }
+            // Typed text stays in its cell while it is being typed or does not read: nothing
+            // typed is lost, and nothing that does not read is stored.
+            if resp.has_focus() || read.is_err() {
+                self.typed.insert(key, text.clone());
+            } else if !resp.lost_focus() {
+                self.typed.remove(&key);
+            }
+            if let (Err(why), false) = (&read, resp.has_focus()) {
+                mark_invalid(ui, resp.rect);
+                ui.scope(|ui| {
+                    ui.set_max_width(260.0);
+                    ui.add(egui::Label::new(egui::RichText::new(format!("not stored: {why}")).small().color(INVALID)).wrap());
+                });
+            }
+        });
         let mut beyond = row.beyond_outcrop;
         let resp = ui.checkbox(&mut beyond, "");
         // The box shows no text of its own (the column header says it): name it for screen readers.
