@@ -192,6 +192,12 @@ impl BedTable {
                 Some(i) => ui.strong(format!("Editing bed {}", i + 1)),
                 None => ui.strong("New bed"),
             };
+            // Above the entry row, so that the menu stays under the pointer while ticked columns
+            // add cells to the row below it; a fixed id, so that the menu is not closed by them.
+            ui.scope_builder(
+                egui::UiBuilder::new().scope_id(egui::Id::unique("aggrade_table_columns")),
+                |ui| self.columns_menu(ui),
+            );
             let help = if editing.is_some() {
                 "Tab across · Enter stores · Esc cancels"
             } else {
@@ -235,10 +241,6 @@ impl BedTable {
                     action = Some(RowKey::Commit { above_selection: true });
                 }
             }
-            // A fixed id: showing a column adds cells above, which must not close the menu.
-            ui.scope_builder(egui::UiBuilder::new().scope_id(egui::Id::new("aggrade_table_columns")), |ui| {
-                self.columns_menu(ui)
-            });
         });
         // The live reading of the row.
         let reading = self.read(doc);

@@ -82,3 +82,40 @@ fn a_width_that_does_not_read_stays_in_its_cell_with_its_message_and_is_not_stor
     assert!(!shown_containing(&h, "not stored: \"abc\""), "the message goes");
     assert!(holds(&h, "120") && !holds(&h, "abc"));
 }
+
+/// Click at `pos` with the pointer, pressed and released in one frame.
+fn click_at(h: &mut Harness<'static, AggradeApp>, pos: egui::Pos2) {
+    h.input_mut().events.push(egui::Event::PointerMoved(pos));
+    for pressed in [true, false] {
+        h.input_mut().events.push(egui::Event::PointerButton {
+            pos,
+            button: egui::PointerButton::Primary,
+            pressed,
+            modifiers: egui::Modifiers::NONE,
+        });
+    }
+    h.run();
+}
+
+#[test]
+fn the_columns_menu_stays_under_the_pointer_while_columns_are_ticked_in_quick_succession() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness_of(app_with(None, data.path(), Vec::new()));
+    h.run();
+    h.get_by_label("Columns…").click();
+    h.run();
+    let names = ["Samples", "Photos", "Munsell colour", "Soil horizon"];
+    // Where each item is when the menu opens: a user aims there, click after click.
+    let at: Vec<egui::Pos2> = names.iter().map(|n| h.get_by_label(n).rect().center()).collect();
+    for (name, pos) in names.iter().zip(&at) {
+        click_at(&mut h, *pos);
+        assert_eq!(h.get_by_label(name).rect().center(), *pos, "{name}: the menu did not move");
+    }
+    h.key_press(Key::Escape);
+    h.run();
+    let kept = std::fs::read_to_string(data.path().join("table_columns.json")).expect("the choice is kept");
+    for key in ["samples", "photos", "munsell", "soil_horizon"] {
+        assert!(kept.contains(key), "{key} was ticked: {kept}");
+    }
+    assert!(!kept.contains("facies"), "nothing else was ticked: {kept}");
+}
