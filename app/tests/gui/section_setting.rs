@@ -90,3 +90,40 @@ fn the_dialog_opened_over_the_statistics_window_is_on_top_and_takes_the_clicks()
     assert!(!h.state().section_details_open(), "Apply closed the dialog");
     assert_eq!(h.state().doc.section().locality, "north wall");
 }
+
+#[test]
+fn the_section_tab_sums_up_the_measuring_setting_and_follows_the_dialog() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness_of(app_with(None, data.path(), Vec::new()));
+    h.run();
+    h.state_mut().tab = aggrade::gui::Tab::Section;
+    h.run();
+    h.run();
+    let s = h.state().doc.section().clone();
+    let b = s.bedding.expect("the demo's section has a bedding attitude");
+    let top = s.fixes.iter().find(|f| f.role == aggrade_core::model::FixRole::Top).expect("a top fix");
+    for line in [
+        "Jacob's staff · ± 0.05 m".to_string(),
+        // Right-hand rule: strike = dip direction − 90° (common practice in field work).
+        format!("dip {}° towards {:03}°", b.dip_deg, b.dip_direction_deg),
+        format!("strike/dip {:03}°/{}° (RHR)", b.dip_direction_deg - 90.0, b.dip_deg),
+        format!("{} · top at {} m", s.fixes.len(), top.height_m),
+    ] {
+        assert!(shown_containing(&h, &line), "the Section tab lacks {line:?}");
+    }
+    // Changed in the dialog, the summary follows.
+    open_dialog(&mut h);
+    click(&mut h, "Measuring method");
+    click(&mut h, "Tape");
+    click(&mut h, "Apply");
+    assert!(shown_containing(&h, "Tape · ± 0.05 m"), "the summary follows the stored method");
+}
+
+/// Is a text containing `part` on screen (a label's words, or a field's text)?
+fn shown_containing(h: &Harness<'static, AggradeApp>, part: &str) -> bool {
+    h.query_all_by(|n| {
+        n.label().is_some_and(|l| l.contains(part)) || n.value().is_some_and(|v| v.contains(part))
+    })
+    .next()
+    .is_some()
+}

@@ -5,7 +5,7 @@ use crate::gui::actions::Actions;
 use crate::gui::canvas;
 use crate::gui::document::{Document, Edit};
 use crate::gui::{plots, review, theme};
-use aggrade_core::model::LengthUnit;
+use aggrade_core::model::{FixRole, LengthUnit, Section};
 
 impl AggradeApp {
     /// One menu entry for a command: its label, shortcut and tooltip come from the command.
@@ -251,6 +251,13 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
             None => ui.label(egui::RichText::new("— (placed by its order)").color(theme::TEXT_DIM)),
         };
         ui.end_row();
+        for (name, line, tip) in setting_lines(s) {
+            ui.label(name);
+            let shown =
+                if line.is_empty() { ui.label(none()) } else { ui.add(egui::Label::new(line).wrap()) };
+            shown.on_hover_text(tip);
+            ui.end_row();
+        }
         ui.label("Display unit");
         ui.horizontal(|ui| {
             for u in LengthUnit::ALL {
@@ -287,6 +294,62 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
     open
 }
 
+/// The section's measuring setting as the Section tab sums it up, one (name, line, hover text)
+/// each: method and uncertainty, bedding attitude (both ways it is written), traverse, and the
+/// GPS fixes (how many, and the top one). An empty line is shown as "—".
+fn setting_lines(s: &Section) -> [(&'static str, String, &'static str); 4] {
+    let unit = s.display_unit;
+    let method = s.method.map(crate::gui::section_details::method_label);
+    let uncertainty =
+        s.thickness_uncertainty_m.map(|m| format!("± {} {}", trimmed(unit.from_metres(m), 4), unit.name()));
+    let measured = [method, uncertainty].into_iter().flatten().collect::<Vec<_>>().join(" · ");
+    let bedding = s.bedding.map_or_else(String::new, |b| {
+        format!(
+            "dip {}° towards {:03}° · strike/dip {:03}°/{}° (RHR)",
+            trimmed(b.dip_deg, 1),
+            b.dip_direction_deg.round() as i64 % 360,
+            b.strike_rhr_deg().round() as i64 % 360,
+            trimmed(b.dip_deg, 1)
+        )
+    });
+    let traverse = s.traverse.map_or_else(String::new, |t| {
+        format!(
+            "bearing {:03}° · ground slope {}°",
+            t.bearing_deg.round() as i64 % 360,
+            trimmed(t.slope_deg, 1)
+        )
+    });
+    // The top fix, else the highest.
+    let top = s.fixes.iter().max_by(|a, b| {
+        (a.role == FixRole::Top, a.height_m)
+            .partial_cmp(&(b.role == FixRole::Top, b.height_m))
+            .unwrap_or(std::cmp::Ordering::Equal)
+    });
+    let fixes = match top {
+        None => String::new(),
+        Some(f) => format!(
+            "{} · {} at {} {}: {}°, {}°{}",
+            s.fixes.len(),
+            f.role.name(),
+            trimmed(unit.from_metres(f.height_m), 2),
+            unit.name(),
+            trimmed(f.lat_deg, 6),
+            trimmed(f.lon_deg, 6),
+            f.elevation_m.map_or_else(String::new, |e| format!(", {} m elevation", trimmed(e, 1)))
+        ),
+    };
+    [
+        ("Measured with", measured, "Measuring method and the ± error of one thickness reading"),
+        (
+            "Bedding",
+            bedding,
+            "Bedding attitude at the section: dip and dip direction, and the same as a right-hand-rule strike and dip",
+        ),
+        ("Traverse", traverse, "Direction walked up-section and the slope of the ground along it"),
+        ("GPS fixes", fixes, "How many GPS fixes, and the top one (or the highest)"),
+    ]
+}
+
 /// A number with at most `decimals` decimals and no trailing zeros.
 fn trimmed(v: f64, decimals: usize) -> String {
     let s = format!("{v:.decimals$}");
@@ -294,5 +357,49 @@ fn trimmed(v: f64, decimals: usize) -> String {
         s.trim_end_matches('0').trim_end_matches('.').to_string()
     } else {
         s
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use aggrade_core::model::{BeddingAttitude, GpsFix, MeasuringMethod, Traverse};
+
+    #[test]
+    fn the_section_tab_sums_up_how_the_section_was_measured() {
+        let mut s = Section::new("Corrie Wash");
+        assert!(setting_lines(&s).iter().all(|(_, line, _)| line.is_empty()), "nothing said: all dashes");
+        s.method = Some(MeasuringMethod::JacobsStaff);
+        s.thickness_uncertainty_m = Some(0.05);
+        // Right-hand rule: strike = dip direction − 90° (common practice in field work).
+        s.bedding = Some(BeddingAttitude { dip_deg: 3.0, dip_direction_deg: 95.0 });
+        s.traverse = Some(Traverse { bearing_deg: 210.0, slope_deg: -8.0 });
+        let fix = |role, height_m, elevation_m| GpsFix {
+            role,
+            height_m,
+            lat_deg: -24.6118,
+            lon_deg: 133.7214,
+            elevation_m,
+            note: String::new(),
+        };
+        s.fixes = vec![
+            fix(FixRole::Offset, 40.0, None),
+            fix(FixRole::Top, 30.0, Some(471.0)),
+            fix(FixRole::Base, 0.0, None),
+        ];
+        let lines: Vec<String> = setting_lines(&s).into_iter().map(|(_, l, _)| l).collect();
+        assert_eq!(lines[0], "Jacob's staff · ± 0.05 m");
+        assert_eq!(lines[1], "dip 3° towards 095° · strike/dip 005°/3° (RHR)");
+        assert_eq!(lines[2], "bearing 210° · ground slope -8°");
+        assert_eq!(
+            lines[3], "3 · top at 30 m: -24.6118°, 133.7214°, 471 m elevation",
+            "the top fix, not the highest"
+        );
+        // In feet (1 ft = 0.3048 m exactly, 1959 agreement).
+        s.display_unit = LengthUnit::Foot;
+        s.fixes.retain(|f| f.role != FixRole::Top);
+        let lines: Vec<String> = setting_lines(&s).into_iter().map(|(_, l, _)| l).collect();
+        assert!(lines[0].ends_with("± 0.164 ft"), "{}", lines[0]);
+        assert!(lines[3].starts_with("2 · offset at 131.23 ft"), "no top fix: the highest: {}", lines[3]);
     }
 }
