@@ -564,6 +564,10 @@ pub struct SectionDetails {
     /// Why the document refused the edits, or why the dialog cannot close yet.
     note: Option<String>,
     focus: Option<Field>,
+    /// The pop-up lists drawn in the dialog this frame (their widget ids).
+    lists: Vec<egui::Id>,
+    /// Has the dialog been drawn yet?
+    drawn: bool,
 }
 
 impl SectionDetails {
@@ -614,6 +618,8 @@ impl SectionDetails {
             problems: Default::default(),
             note: None,
             focus: Some(Field::Name),
+            lists: Vec::new(),
+            drawn: false,
         }
     }
 
@@ -872,6 +878,13 @@ impl SectionDetails {
         let mut outcome = Outcome::Open;
         // Room for the list of GPS fixes: what the window has beside the dialog's other rows.
         let room = (ctx.content_rect().height() - 760.0).max(90.0);
+        if !self.drawn {
+            // A menu or list left open in the window behind (the shortcut opens the dialog over
+            // it) is closed: only the dialog's own lists show above the dialog.
+            egui::Popup::close_all(ctx);
+            self.drawn = true;
+        }
+        self.lists.clear();
         let modal = egui::Modal::new(egui::Id::unique("section_details")).show(ctx, |ui| {
             ui.set_max_width(700.0);
             ui.heading(format!("Section details: {}", self.before.name));
@@ -929,7 +942,7 @@ impl SectionDetails {
                 }
             });
         });
-        lists_above(ctx, modal.response.layer_id);
+        lists_above(ctx, modal.response.layer_id, &self.lists);
         if modal.should_close() && outcome == Outcome::Open {
             if self.is_changed() {
                 // Escape or a click beside the dialog never drops what was typed.
@@ -945,7 +958,7 @@ impl SectionDetails {
     fn measuring_ui(&mut self, ui: &mut egui::Ui) {
         egui::Grid::new("section_measuring_grid").num_columns(2).spacing([12.0, 6.0]).show(ui, |ui| {
             let label = ui.label("Measuring method").id;
-            egui::ComboBox::from_id_salt("measuring_method")
+            let list = egui::ComboBox::from_id_salt("measuring_method")
                 .selected_text(self.method.map_or("— (not said)".to_string(), method_label))
                 .width(180.0)
                 .show_ui(ui, |ui| {
@@ -957,6 +970,7 @@ impl SectionDetails {
                 .response
                 .labelled_by(label)
                 .on_hover_text("How the thicknesses were measured");
+            self.lists.push(list.id);
             ui.end_row();
             let label = ui.label(self.label(Field::Uncertainty)).id;
             self.field(ui, Field::Uncertainty, label);
@@ -1002,6 +1016,7 @@ impl SectionDetails {
         );
         let unit = self.unit;
         let mut remove = None;
+        let lists = &mut self.lists;
         if !self.fixes.is_empty() {
             egui::ScrollArea::vertical().id_salt("section_fixes").max_height(room).show(ui, |ui| {
                 egui::Grid::new("section_fixes_grid").num_columns(7).spacing([6.0, 4.0]).show(ui, |ui| {
@@ -1019,7 +1034,7 @@ impl SectionDetails {
                     }
                     ui.end_row();
                     for (k, fix) in self.fixes.iter_mut().enumerate() {
-                        egui::ComboBox::from_id_salt(("fix_role", k))
+                        let list = egui::ComboBox::from_id_salt(("fix_role", k))
                             .selected_text(fix.role.name())
                             .width(70.0)
                             .show_ui(ui, |ui| {
@@ -1029,6 +1044,7 @@ impl SectionDetails {
                             })
                             .response
                             .on_hover_text("Where along the traverse the fix was taken");
+                        lists.push(list.id);
                         for f in FixField::ALL {
                             let width = match f {
                                 FixField::Height | FixField::Elevation => 64.0,
@@ -1134,17 +1150,21 @@ pub fn method_label(m: MeasuringMethod) -> String {
     chars.next().map_or_else(String::new, |c| c.to_uppercase().chain(chars).collect())
 }
 
-/// Keep an open pop-up list (a measuring method or fix role) drawn directly above the dialog on
-/// layer `modal`. A press on the dialog raises the dialog; a list opened by a quick click (press
-/// and release in one frame) asks to be raised in the same frame, and when the list had been
-/// shown before, the dialog stayed above it: the list opened hidden behind the dialog, and the
-/// window remembers that order from one session to the next. Called every frame.
-pub fn lists_above(ctx: &egui::Context, modal: egui::LayerId) {
-    let shown: Vec<egui::LayerId> = ctx.memory(|m| {
-        m.areas().visible_layer_ids().into_iter().filter(|l| l.order == modal.order && *l != modal).collect()
-    });
-    for layer in shown {
-        if egui::Popup::is_id_open(ctx, layer.id) {
+/// Keep the dialog's open pop-up list (a measuring method or fix role; `lists` are their widget
+/// ids) drawn directly above the dialog on layer `modal`. A press on the dialog raises the
+/// dialog; a list opened by a quick click (press and release in one frame) asks to be raised in
+/// the same frame, and when the list had been shown before, the dialog stayed above it: the list
+/// opened hidden behind the dialog, and the window remembers that order from one session to the
+/// next. Called every frame.
+fn lists_above(ctx: &egui::Context, modal: egui::LayerId, lists: &[egui::Id]) {
+    for id in lists {
+        if egui::ComboBox::is_open(ctx, *id) {
+            // The list's layer: egui names a combo box's pop-up after the box.
+            let layer = egui::LayerId::new(modal.order, id.with("popup"));
+            debug_assert!(
+                ctx.memory(|m| m.areas().is_visible(&layer)),
+                "the open list of {id:?} is not on the layer expected"
+            );
             ctx.set_sublayer(modal, layer);
         }
     }

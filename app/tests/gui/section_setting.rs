@@ -127,3 +127,23 @@ fn shown_containing(h: &Harness<'static, AggradeApp>, part: &str) -> bool {
     .next()
     .is_some()
 }
+
+#[test]
+fn a_menu_left_open_behind_the_dialog_is_closed_and_never_drawn_over_it() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = harness_of(app_with(None, data.path(), Vec::new()));
+    h.run();
+    h.get_by_label("File").click();
+    h.run();
+    assert!(h.query_by_label("Open recent").is_some(), "the File menu is open");
+    open_dialog(&mut h);
+    assert!(h.query_by_label("Open recent").is_none(), "the menu behind closed with the dialog's opening");
+    // The dialog's own list still opens above it.
+    click(&mut h, "Measuring method");
+    let tape = h.get_by_label("Tape").rect().center();
+    let layer = h.ctx.layer_id_at(tape).expect("a layer under the list");
+    assert_eq!(layer.order, egui::Order::Foreground);
+    click(&mut h, "Tape");
+    click(&mut h, "Apply");
+    assert_eq!(h.state().doc.section().method, Some(MeasuringMethod::Tape));
+}
