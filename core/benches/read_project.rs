@@ -30,7 +30,8 @@ fn generated_project(beds: usize) -> Project {
                 b.base_contact = Contact::Erosional;
                 b.base_relief_m = Some(0.4);
                 b.structures = vec![Structure::TroughCrossBedding, Structure::MudClasts];
-                b.paleocurrents = [12.0, 40.5, 355.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
+                b.paleocurrents =
+                    [12.0, 40.5, 355.0].into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect();
                 b.base_surface = Some(Surface { name: format!("S-{i}"), kind: SurfaceKind::Incision });
                 b.notes = "scoured base with mud-clast lag".into();
                 b

@@ -9,9 +9,9 @@ use aggrade_core::io::internals::{
 };
 use aggrade_core::io::{project_to_json, read_project_text, Problem};
 use aggrade_core::model::{
-    Paleocurrent, Sample, BaseRank, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment,
-    PaleosolFeature, Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind,
-    WentworthClass,
+    BaseRank, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, Paleocurrent,
+    PaleosolDevelopment, PaleosolFeature, Project, ReviewDecision, ReviewState, Sample, Section, Structure,
+    Surface, SurfaceKind, WentworthClass,
 };
 use proptest::prelude::*;
 use serde_json::Value;
@@ -250,7 +250,8 @@ fn a_bad_bed_deep_in_a_big_file_is_named_with_its_path_and_line() {
         })
         .collect();
     section.beds[98_765].thickness_m = 7.654_321;
-    section.beds[99_998].paleocurrents = vec![Paleocurrent::azimuth(12.5), Paleocurrent::azimuth(271.828_125)];
+    section.beds[99_998].paleocurrents =
+        vec![Paleocurrent::azimuth(12.5), Paleocurrent::azimuth(271.828_125)];
     let pretty = project_to_json(&Project::new(vec![section])).expect("encode");
     let text = pretty.replacen("7.654321", "\"7.654321 m\"", 1).replacen("271.828125", "\"NE\"", 1);
     assert_eq!(text.len(), pretty.len() + 4 - 6, "both breaks applied");

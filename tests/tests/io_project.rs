@@ -3,8 +3,9 @@
 
 use aggrade_core::io::{self, backup_path, read_project_text, save_project, write_atomic};
 use aggrade_core::model::{
-    Paleocurrent, Sample, Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, PaleosolDevelopment, PaleosolFeature,
-    Project, ReviewDecision, ReviewState, Section, Structure, Surface, SurfaceKind, WentworthClass,
+    Bed, BedId, Contact, GrainSize, LatLon, LengthUnit, Lithology, Paleocurrent, PaleosolDevelopment,
+    PaleosolFeature, Project, ReviewDecision, ReviewState, Sample, Section, Structure, Surface, SurfaceKind,
+    WentworthClass,
 };
 use proptest::prelude::*;
 use std::path::Path;
@@ -76,7 +77,8 @@ fn bed(id: u64) -> impl Strategy<Value = Bed> {
                 b.colour = colour;
                 b.fossils = fossils;
                 // A sample needs a label (a blank id is refused by validation).
-                b.samples = samples.into_iter().filter(|s| !s.trim().is_empty()).map(Sample::labelled).collect();
+                b.samples =
+                    samples.into_iter().filter(|s| !s.trim().is_empty()).map(Sample::labelled).collect();
                 b.notes = notes;
                 b
             },

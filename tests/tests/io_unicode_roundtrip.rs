@@ -12,9 +12,9 @@ use aggrade_core::io::{
     MAX_LINK_LABEL_CHARS, MAX_STRING_CHARS,
 };
 use aggrade_core::model::{
-    Paleocurrent, Sample, Bed, BedId, Contact, GrainSize, IndexDirection, LatLon, LengthUnit, Lithology, MeasuredCurve,
-    PaleosolDevelopment, PaleosolFeature, Project, ReviewDecision, ReviewState, Section, Structure, Surface,
-    SurfaceKind, WentworthClass,
+    Bed, BedId, Contact, GrainSize, IndexDirection, LatLon, LengthUnit, Lithology, MeasuredCurve,
+    Paleocurrent, PaleosolDevelopment, PaleosolFeature, Project, ReviewDecision, ReviewState, Sample,
+    Section, Structure, Surface, SurfaceKind, WentworthClass,
 };
 use proptest::collection::vec;
 use proptest::prelude::*;
@@ -499,7 +499,8 @@ fn bed_table_samples_are_limited_one_by_one_not_as_a_joined_cell() {
 #[test]
 fn text_starting_with_an_apostrophe_before_a_formula_character_keeps_it_in_a_bed_table() {
     let mut project = project_with_note("'=not a formula".to_string());
-    project.sections[0].beds[0].samples = ["'-7", "''@x", "'plain"].into_iter().map(Sample::labelled).collect();
+    project.sections[0].beds[0].samples =
+        ["'-7", "''@x", "'plain"].into_iter().map(Sample::labelled).collect();
     project.sections[0].beds[0].colour = "'".into();
     let read =
         read_bed_table(&write_bed_table(&project.sections[0]), "t").unwrap_or_else(|p| panic!("{p:?}"));

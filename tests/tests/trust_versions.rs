@@ -91,14 +91,19 @@ fn version_1_samples_colours_and_azimuths_open_unchanged_in_meaning() {
     )
     .expect("JSON");
     let p = open("v1_samples_and_colours.aggrade");
-    for (bed, raw_bed) in p.sections[0].beds.iter().zip(raw["sections"][0]["beds"].as_array().expect("beds")) {
+    for (bed, raw_bed) in p.sections[0].beds.iter().zip(raw["sections"][0]["beds"].as_array().expect("beds"))
+    {
         let want_az: Vec<f64> = raw_bed["paleocurrents_deg"]
             .as_array()
             .map(|a| a.iter().map(|v| v.as_f64().expect("number")).collect())
             .unwrap_or_default();
         assert_eq!(bed.azimuths().collect::<Vec<_>>(), want_az);
-        assert!(bed.paleocurrents.iter().all(|r| r.indicator == Indicator::Unspecified && r.dip_deg.is_none()));
-        let want_ids: Vec<&str> = raw_bed["samples"].as_array().expect("samples").iter().map(|v| v.as_str().expect("id")).collect();
+        assert!(bed
+            .paleocurrents
+            .iter()
+            .all(|r| r.indicator == Indicator::Unspecified && r.dip_deg.is_none()));
+        let want_ids: Vec<&str> =
+            raw_bed["samples"].as_array().expect("samples").iter().map(|v| v.as_str().expect("id")).collect();
         assert_eq!(bed.samples.iter().map(|s| s.id.as_str()).collect::<Vec<_>>(), want_ids);
         assert!(bed.samples.iter().all(|s| s.kind.is_none() && s.height_in_bed_m.is_none()));
     }

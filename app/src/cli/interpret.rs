@@ -5,9 +5,7 @@ use super::long_lists;
 use aggrade_core::analysis::bodies::censor_name;
 use aggrade_core::model::{LengthUnit, Project, Section};
 use aggrade_core::rules::facies::facies_of;
-use aggrade_core::rules::{
-    interpret_with, sensitivity, GrainProfile, Interpretation, Regime, RuleParams,
-};
+use aggrade_core::rules::{interpret_with, sensitivity, GrainProfile, Interpretation, Regime, RuleParams};
 use anyhow::{bail, Context};
 use serde::Serialize;
 use std::fmt::Write as _;

@@ -8,8 +8,8 @@
 use aggrade_core::model::Project;
 #[cfg(any(test, feature = "test-hooks"))]
 use aggrade_core::model::{
-    Bed, BedId, Contact, Paleocurrent, GrainSize, Lithology, PaleosolDevelopment, PaleosolFeature, Section, Structure,
-    Surface, SurfaceKind, WentworthClass,
+    Bed, BedId, Contact, GrainSize, Lithology, Paleocurrent, PaleosolDevelopment, PaleosolFeature, Section,
+    Structure, Surface, SurfaceKind, WentworthClass,
 };
 
 /// The demo project's text: the same bytes as `sample_sections/demo.aggrade`.

@@ -254,8 +254,12 @@ pub fn ui(ui: &mut egui::Ui, doc: &Document, list: List<'_>, out: &mut Actions) 
                 }
                 if let Some(p) = interp.paleosols.iter().find(|p| p.last_bed + 1 == c.bed_index) {
                     let read: Vec<String> = p.evidence.iter().map(|e| e.worded(unit)).collect();
-                    ui.label(egui::RichText::new(format!("Paleosol below read from: {}", read.join("; "))).small())
-                        .on_hover_text("What the profile's maturity and drainage were read from, horizons included");
+                    ui.label(
+                        egui::RichText::new(format!("Paleosol below read from: {}", read.join("; "))).small(),
+                    )
+                    .on_hover_text(
+                        "What the profile's maturity and drainage were read from, horizons included",
+                    );
                 }
                 ui.horizontal(|ui| {
                     let accept = ui

@@ -50,8 +50,9 @@ enum Drag {
     Grain(Option<GrainSize>, Option<GrainSize>),
 }
 
-/// One thing the geologist does to the document.
+/// One thing the geologist does to the document (a test's generated step: size does not matter).
 #[derive(Debug, Clone)]
+#[allow(clippy::large_enum_variant)]
 enum Op {
     Insert {
         at: usize,
@@ -329,7 +330,9 @@ fn changed_bed(doc: &Document, s: &Sel, c: &Change) -> Bed {
         Change::Grains(x, y) => (b.grain_base, b.grain_top) = (x, y),
         Change::Notes(t) => b.notes = t,
         Change::Colour(t) => b.colour = t,
-        Change::Paleocurrents(v) => b.paleocurrents = v.into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect(),
+        Change::Paleocurrents(v) => {
+            b.paleocurrents = v.into_iter().map(aggrade_core::model::Paleocurrent::azimuth).collect()
+        }
         Change::Relief(r) => b.base_relief_m = r,
         Change::Samples(v) => b.samples = v.into_iter().map(aggrade_core::model::Sample::labelled).collect(),
         Change::Surface(name) => b.base_surface = name.map(|name| Surface { name, kind: SurfaceKind::Other }),

@@ -45,15 +45,7 @@ fn framed_invalid(h: &Harness<'static, AggradeApp>) -> bool {
 }
 
 fn paleocurrents(h: &Harness<'static, AggradeApp>, id: BedId) -> Vec<f64> {
-    h.state()
-        .doc
-        .section()
-        .beds
-        .iter()
-        .find(|b| b.id == id)
-        .expect("bed still there")
-        .azimuths()
-        .collect()
+    h.state().doc.section().beds.iter().find(|b| b.id == id).expect("bed still there").azimuths().collect()
 }
 
 fn select(h: &mut Harness<'static, AggradeApp>, id: BedId) {

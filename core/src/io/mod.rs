@@ -33,7 +33,8 @@ pub use migrate::infer_surface_kind;
 pub use problem::Problem;
 pub use project_file::{project_to_json, read_project_text, ProjectRead};
 pub use validate::{
-    check_iso_date, check_link_label, field_record_warnings, record_warnings, validate_project, validate_section,
+    check_iso_date, check_link_label, field_record_warnings, record_warnings, validate_project,
+    validate_section,
 };
 
 /// The reader's stages on their own, for the cross-crate tests and benchmarks that compare the

@@ -47,9 +47,9 @@ pub use legend::{column_legend, draw_swatch, legend_entries, LegendEntry};
 pub use options::{LayoutOptions, Orientation, Paper, PrintMeta};
 pub use page::{page_stream, pages, Page, PageSegment, PageStream};
 pub use panel::{
-    haversine_m, panel_layout, panel_layout_in_pieces, panel_pages, panel_positions, section_markers, Datum, HorizontalScale, Marker,
-    PanelColumn, PanelError, PanelLayout, PanelOptions, PanelSink, PositionSource, Positions, SectionMarkers, TieLine,
-    DATUM_BLUE, EARTH_MEAN_RADIUS_M, FLAG_ORANGE, LINK_TEAL, TIE_VIOLET,
+    haversine_m, panel_layout, panel_layout_in_pieces, panel_pages, panel_positions, section_markers, Datum,
+    HorizontalScale, Marker, PanelColumn, PanelError, PanelLayout, PanelOptions, PanelSink, PositionSource,
+    Positions, SectionMarkers, TieLine, DATUM_BLUE, EARTH_MEAN_RADIUS_M, FLAG_ORANGE, LINK_TEAL, TIE_VIOLET,
 };
 pub use strip::{column_strip, column_strip_window, ColumnStrip};
 pub use style::lithology_tint;

@@ -175,8 +175,10 @@ mod tests {
         assert!(strip.bed_boxes.is_empty());
         let mut odd = Section::new("odd");
         let mut b = Bed::new(BedId(1), f64::NAN, Lithology::Sandstone, None);
-        b.paleocurrents =
-            [f64::NAN, 400.0, -20.0, 10.0, 11.0].into_iter().map(crate::model::Paleocurrent::azimuth).collect();
+        b.paleocurrents = [f64::NAN, 400.0, -20.0, 10.0, 11.0]
+            .into_iter()
+            .map(crate::model::Paleocurrent::azimuth)
+            .collect();
         odd.beds = vec![
             b,
             Bed::new(BedId(2), -1.0, Lithology::Coal, None),
