@@ -427,3 +427,35 @@ fn a_photo_whose_file_is_not_there_says_so_when_asked_to_open() {
     assert!(shown_containing(&h, "There is no image file at"), "a missing file is said, not opened");
     assert!(shown_containing(&h, "afloramiento_sur.jpg"));
 }
+
+#[test]
+fn a_code_naming_another_rock_is_flagged_under_the_picker_as_check_flags_it() {
+    // The first letter of a lithofacies code names its rock (Miall 1978, 1996): a gravel code on
+    // a mudstone is flagged in the inspector with the words `aggrade check` prints; a sand code
+    // on a sandstone is not.
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = inspector(data.path());
+    let mud = h
+        .state()
+        .doc
+        .section()
+        .beds
+        .iter()
+        .find(|b| b.lithology == aggrade_core::model::Lithology::Mudstone && b.facies.is_none())
+        .expect("a mudstone")
+        .clone();
+    let mut wrong = mud.clone();
+    wrong.facies = Some(FaciesCode::Gcm);
+    h.state_mut()
+        .doc
+        .apply(aggrade::gui::Edit::ReplaceBed { bed: wrong })
+        .expect("stored: the code is the geologist's call");
+    select(&mut h, mud.id);
+    assert!(shown_containing(&h, "does not fit the rock logged, mudstone"), "the mismatch is flagged");
+    let sand = a_sandstone(&h);
+    let mut right = bed(&h, sand);
+    right.facies = Some(FaciesCode::St);
+    h.state_mut().doc.apply(aggrade::gui::Edit::ReplaceBed { bed: right }).expect("stored");
+    select(&mut h, sand);
+    assert!(!shown_containing(&h, "does not fit the rock logged"), "St on a sandstone fits");
+}

@@ -97,6 +97,10 @@ impl Form<'_> {
             match (self.bed.facies, suggested) {
                 (Some(c), s) => {
                     note(ui, format!("{}: {}. Your code.", c.code(), c.meaning()));
+                    // The same warning `aggrade check` gives: the code names another rock.
+                    if let Some(why) = aggrade_core::rules::facies::code_against_rock(&self.bed) {
+                        ui.add(egui::Label::new(egui::RichText::new(why).small().color(theme::WARN)).wrap());
+                    }
                     if let Some(s) = s.filter(|s| *s != c) {
                         note(ui, format!("The rules would suggest {s} ({}).", s.meaning()));
                     }
