@@ -125,7 +125,13 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
         } else {
             read_project_raw(text, &project_reader::beds_with_unknown_fields(&unknown))
         };
+    let salvaged = if project.is_none() && !read_problems.is_empty() {
+        salvage_problems(text, version, &read_problems)
+    } else {
+        Vec::new()
+    };
     problems.extend(read_problems);
+    problems.extend(salvaged);
     warnings.extend(read_warnings);
     if let Some(project) = &project {
         problems.extend(validate_project(project));
@@ -137,6 +143,79 @@ pub fn read_project_text(text: &str) -> Result<ProjectRead, Vec<Problem>> {
         }
         _ => Err(with_lines(text, problems, version)),
     }
+}
+
+/// The fields of a bed or a section that every file must have: a problem in one of them stops
+/// the rest of the file being checked in the same run.
+const REQUIRED: &[&str] = &["id", "thickness_m", "lithology", "name", "beds"];
+
+/// When fields did not read, the rest of the file is still checked, so that one run names the
+/// range problems too (a bioturbation index of 9 beside a bad Munsell string): each faulty field
+/// of a section or bed is taken out of a copy of the file (a list, such as the paleocurrent
+/// readings, goes whole), what remains is read and validated, and the problems found in fields
+/// not already reported are returned. Nothing comes back when a required field was faulty or the
+/// copy still does not read; the faulty fields themselves are always reported by the reader.
+fn salvage_problems(text: &str, version: u32, read_problems: &[Problem]) -> Vec<Problem> {
+    let Ok(mut root) = serde_json::from_str::<Value>(text) else { return Vec::new() };
+    if version == 0 {
+        migrate::v0_to_v1(&mut root);
+    }
+    if version < 2 {
+        migrate::v1_to_v2(&mut root);
+    }
+    let mut taken: Vec<String> = Vec::new();
+    for p in read_problems {
+        let Some((owner, field)) = owning_field(&p.location) else { return Vec::new() };
+        if REQUIRED.contains(&field.as_str()) {
+            return Vec::new();
+        }
+        let Some(obj) = object_at(&mut root, &owner) else { return Vec::new() };
+        obj.remove(&field);
+        taken.push(if owner.is_empty() { field } else { format!("{owner}.{field}") });
+    }
+    let Ok(project) = serde_json::from_value::<Project>(root) else { return Vec::new() };
+    let near =
+        |a: &str, b: &str| a == b || a.starts_with(&format!("{b}.")) || a.starts_with(&format!("{b}["));
+    validate_project(&project)
+        .into_iter()
+        .filter(|v| !taken.iter().any(|t| near(&v.location, t)))
+        .filter(|v| !read_problems.iter().any(|r| near(&v.location, &r.location)))
+        .collect()
+}
+
+/// The object holding the field a problem is in, and the field's name: for
+/// `sections[0].beds[3].paleocurrents[1].azimuth_deg`, (`sections[0].beds[3]`, `paleocurrents`);
+/// for `sections[1].coordinates.lat_deg`, (`sections[1]`, `coordinates`); for `rule_params`,
+/// (``, `rule_params`). `None` for a path that names no field (a whole bed or section).
+fn owning_field(path: &str) -> Option<(String, String)> {
+    let parts: Vec<&str> = path.split('.').collect();
+    // The owner is the deepest `sections[i]` or `beds[j]` step; the field follows it.
+    let owner_len = parts
+        .iter()
+        .rposition(|p| {
+            (p.starts_with("sections[") || p.starts_with("beds["))
+                && p.ends_with(']')
+                && !p[..p.len() - 1].contains(']')
+        })
+        .map_or(0, |i| i + 1);
+    let field = parts.get(owner_len)?;
+    let field = field.split('[').next().unwrap_or(field);
+    if field.is_empty() {
+        return None;
+    }
+    Some((parts[..owner_len].join("."), field.to_string()))
+}
+
+/// The JSON object at a path of `sections[i]` and `beds[j]` steps.
+fn object_at<'a>(root: &'a mut Value, path: &str) -> Option<&'a mut serde_json::Map<String, Value>> {
+    let mut at = root;
+    if !path.is_empty() {
+        for step in path.split('.') {
+            let (key, index) = step.strip_suffix(']')?.split_once('[')?;
+            at = at.get_mut(key)?.get_mut(index.parse::<usize>().ok()?)?;
+        }
+    }
+    at.as_object_mut()
 }
 
 /// Warnings for rule-parameter names this version no longer reads.
@@ -249,6 +328,46 @@ mod tests {
         assert_eq!(problems.len(), 1);
         assert!(problems[0].message.contains("ends too soon"), "{}", problems[0]);
         assert!(problems[0].line.is_some());
+    }
+
+    #[test]
+    fn a_faulty_field_does_not_hide_range_problems_elsewhere() {
+        // A Munsell string that does not read (a type problem) and a bioturbation index of 9 and
+        // a bedding dip of 120° (range problems) are all named in one run.
+        let text = r#"{
+  "format_version": 2,
+  "sections": [
+    {
+      "name": "A",
+      "bedding": {"dip_deg": 120.0, "dip_direction_deg": 10.0},
+      "beds": [
+        {"id": 1, "thickness_m": 2.0, "lithology": "mudstone", "munsell": "5YR4-4"},
+        {"id": 2, "thickness_m": 1.0, "lithology": "sandstone", "bioturbation_index": 9,
+         "paleocurrents": [{"azimuth_deg": "NE"}]}
+      ]
+    }
+  ]
+}"#;
+        let problems = read_project_text(text).expect_err("refused");
+        let at: Vec<&str> = problems.iter().map(|p| p.location.as_str()).collect();
+        assert!(at.contains(&"sections[0].beds[0].munsell"), "{problems:?}");
+        assert!(at.iter().any(|l| l.starts_with("sections[0].beds[1].paleocurrents[0]")), "{problems:?}");
+        assert!(at.contains(&"sections[0].beds[1].bioturbation_index"), "{problems:?}");
+        assert!(at.iter().any(|l| l.starts_with("sections[0].bedding")), "{problems:?}");
+        assert!(problems.iter().all(|p| p.line.is_some()), "every problem has its line: {problems:?}");
+        // A faulty required field stops there: only what the reader found.
+        let bad_thickness = text.replace("\"thickness_m\": 2.0", "\"thickness_m\": \"two\"");
+        let problems = read_project_text(&bad_thickness).expect_err("refused");
+        assert!(!problems.iter().any(|p| p.location.ends_with("bioturbation_index")), "{problems:?}");
+        assert_eq!(
+            owning_field("sections[0].beds[3].paleocurrents[1].azimuth_deg").map(|(o, f)| (o, f)),
+            Some(("sections[0].beds[3]".to_string(), "paleocurrents".to_string()))
+        );
+        assert_eq!(
+            owning_field("sections[1].coordinates.lat_deg"),
+            Some(("sections[1]".into(), "coordinates".into()))
+        );
+        assert_eq!(owning_field("rule_params"), Some((String::new(), "rule_params".into())));
     }
 
     #[test]
