@@ -360,7 +360,7 @@ mod tests {
         let problems = read_project_text(&bad_thickness).expect_err("refused");
         assert!(!problems.iter().any(|p| p.location.ends_with("bioturbation_index")), "{problems:?}");
         assert_eq!(
-            owning_field("sections[0].beds[3].paleocurrents[1].azimuth_deg").map(|(o, f)| (o, f)),
+            owning_field("sections[0].beds[3].paleocurrents[1].azimuth_deg"),
             Some(("sections[0].beds[3]".to_string(), "paleocurrents".to_string()))
         );
         assert_eq!(
