@@ -3,42 +3,13 @@
 //! pole as a change of basis, not from the axis-angle formula the library uses) and against
 //! hand-worked textbook cases.
 
+use crate::support::oracle::{python_json, SplitMix};
 use aggrade_core::analysis::attitude::{
     flow_of, plunge_in_bedding_deg, restore_line, restore_line_in_bedding, restore_plane, restore_reading,
     true_thickness_m, Sense,
 };
 use aggrade_core::model::{BeddingAttitude, Indicator, Paleocurrent, Traverse};
 use serde_json::json;
-use std::process::Command;
-
-/// Run a Python snippet with one JSON argument and parse its JSON output. The oracle is
-/// required: a missing python3 or numpy fails the test with a clear message.
-fn python_json(script: &str, arg: &str) -> serde_json::Value {
-    let out = Command::new("python3").arg("-c").arg(script).arg(arg).output().unwrap_or_else(|e| {
-        panic!("python3 is required for this reference check (pip install -r scripts/requirements-test.txt): {e}")
-    });
-    assert!(
-        out.status.success(),
-        "the numpy reference check failed (is numpy installed? pip install -r scripts/requirements-test.txt):\n{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).unwrap_or_else(|e| panic!("oracle output is not JSON ({e})"))
-}
-
-/// SplitMix64: seeded, repeatable random cases.
-struct SplitMix(u64);
-impl SplitMix {
-    fn next_f64(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
-    }
-    fn range(&mut self, lo: f64, hi: f64) -> f64 {
-        lo + (hi - lo) * self.next_f64()
-    }
-}
 
 /// The oracle. Frame (east, north, up). The bedding's strike line S (right-hand rule, azimuth
 /// β − 90°, horizontal), its dip line D (azimuth β, plunging δ) and its upward pole N = D × S
@@ -120,7 +91,7 @@ fn restoration_and_thickness_match_numpy() {
             "dist": rng.range(0.1, 50.0),
         }));
     }
-    let oracle = python_json(ORACLE, &serde_json::to_string(&cases).expect("json"));
+    let oracle = python_json(ORACLE, &[&serde_json::to_string(&cases).expect("json")], "numpy");
     let oracle = oracle.as_array().expect("a list");
     assert_eq!(oracle.len(), cases.len());
     let f = |v: &serde_json::Value, k: &str| v[k].as_f64().unwrap_or_else(|| panic!("{k} in {v}"));

@@ -1,37 +1,11 @@
 //! Paleocurrent statistics checked against published worked values, Davis (2002) critical R̄
 //! values, and scipy / astropy run on the same numbers.
 
+use crate::support::oracle::{python_json, SplitMix};
 use aggrade_core::analysis::paleocurrents::{
     circular_summary, rayleigh_p, CircularParams, DataKind, RayleighApproximation,
 };
 use proptest::prelude::*;
-use std::process::Command;
-
-/// Run a Python snippet with arguments and parse its JSON output. The oracle is required:
-/// a missing python3 or library fails the test with a clear message.
-fn python_json(script: &str, args: &[&str]) -> serde_json::Value {
-    let out = Command::new("python3").arg("-c").arg(script).args(args).output().unwrap_or_else(|e| {
-        panic!("python3 is required for this reference check (pip install -r scripts/requirements-test.txt): {e}")
-    });
-    assert!(
-        out.status.success(),
-        "the Python reference check failed (are scipy and astropy installed? pip install scipy astropy):\n{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).unwrap_or_else(|e| panic!("oracle output is not JSON ({e})"))
-}
-
-/// SplitMix64: a small seeded generator so the datasets are random but repeatable.
-struct SplitMix(u64);
-impl SplitMix {
-    fn next_f64(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
-    }
-}
 
 /// Seeded datasets: n readings spread ±spread° around a mean (wrapped to 0–360).
 fn datasets() -> Vec<Vec<f64>> {
@@ -110,7 +84,7 @@ fn davis_critical_values_give_p_near_five_percent() {
 fn seeded_datasets_match_scipy_and_astropy() {
     let sets = datasets();
     let json = serde_json::to_string(&sets).expect("numbers");
-    let oracle = python_json(SCIPY_ASTROPY, &[&json]);
+    let oracle = python_json(SCIPY_ASTROPY, &[&json], "scipy and astropy");
     let oracle = oracle.as_array().expect("list");
     assert_eq!(oracle.len(), sets.len());
     let mut worst_zar_vs_astropy: f64 = 0.0;

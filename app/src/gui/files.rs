@@ -107,6 +107,25 @@ pub fn save(path: &Path, project: &Project) -> Result<DiskStamp, SaveFileError> 
 /// How many files the Open recent list keeps.
 pub const RECENT_MAX: usize = 8;
 
+/// Open a file or folder with the system's own program for it (viewer, file manager); the
+/// program runs on its own, with no console.
+pub fn open_with_system(path: &Path) -> std::io::Result<()> {
+    let program = if cfg!(target_os = "macos") {
+        "open"
+    } else if cfg!(target_os = "windows") {
+        "explorer"
+    } else {
+        "xdg-open"
+    };
+    std::process::Command::new(program)
+        .arg(path)
+        .stdin(std::process::Stdio::null())
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .spawn()
+        .map(|_| ())
+}
+
 /// Most recent first, no duplicates, at most [`RECENT_MAX`].
 pub fn push_recent(recent: &mut Vec<PathBuf>, path: &Path) {
     recent.retain(|p| p != path);

@@ -443,18 +443,5 @@ impl AggradeApp {
 
 /// Show a folder in the system's file manager.
 fn open_folder(folder: &Path) -> std::io::Result<()> {
-    let program = if cfg!(target_os = "macos") {
-        "open"
-    } else if cfg!(target_os = "windows") {
-        "explorer"
-    } else {
-        "xdg-open"
-    };
-    std::process::Command::new(program)
-        .arg(folder)
-        .stdin(std::process::Stdio::null())
-        .stdout(std::process::Stdio::null())
-        .stderr(std::process::Stdio::null())
-        .spawn()
-        .map(|_| ())
+    crate::gui::files::open_with_system(folder)
 }

@@ -95,20 +95,7 @@ pub fn open_photo(path: &Path) -> Result<(), String> {
     if !path.is_file() {
         return Err(format!("There is no image file at {}", path.display()));
     }
-    let program = if cfg!(target_os = "macos") {
-        "open"
-    } else if cfg!(target_os = "windows") {
-        "explorer"
-    } else {
-        "xdg-open"
-    };
-    std::process::Command::new(program)
-        .arg(path)
-        .stdin(std::process::Stdio::null())
-        .stdout(std::process::Stdio::null())
-        .stderr(std::process::Stdio::null())
-        .spawn()
-        .map(|_| ())
+    crate::gui::files::open_with_system(path)
         .map_err(|e| format!("The system viewer could not be started for {}: {e}", path.display()))
 }
 
