@@ -124,7 +124,8 @@ fn beds_are_drawn_at_true_scale() {
         Bed::new(BedId(1), 1.0, Lithology::Mudstone, mud),
         Bed::new(BedId(2), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand))),
         Bed::new(BedId(3), 0.7, Lithology::Mudstone, mud),
-    ];
+    ]
+    .into();
     let i = no_interp(&s);
     for scale in [20.0, 50.0, 100.0, 200.0, 500.0, 137.0] {
         let opts = LayoutOptions { scale_denominator: scale, ..Default::default() };

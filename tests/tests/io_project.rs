@@ -107,7 +107,7 @@ fn section(index: usize) -> impl Strategy<Value = Section> {
                     let state = [ReviewState::Candidate, ReviewState::Accepted, ReviewState::Rejected][state];
                     s.review = vec![ReviewDecision { bed: beds[i].id, state, note, link: None }];
                 }
-                s.beds = beds;
+                s.beds = beds.into();
                 s
             })
     })
@@ -307,7 +307,8 @@ fn an_invalid_project_is_not_saved() {
     let path = dir.path().join("p.aggrade");
     let mut s = Section::new("Corrie Wash");
     s.beds =
-        vec![Bed::new(BedId(1), f64::NAN, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Silt)))];
+        vec![Bed::new(BedId(1), f64::NAN, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Silt)))]
+            .into();
     let err = save_project(&path, &Project::new(vec![s])).expect_err("refused");
     assert!(err.to_string().contains("beds[0].thickness_m"), "{err}");
     assert!(!path.exists());

@@ -269,7 +269,7 @@ fn section(index: usize) -> impl Strategy<Value = Section> {
                             s.review.push(ReviewDecision { bed, state: states[state], note, link });
                         }
                     }
-                    s.beds = beds;
+                    s.beds = beds.into();
                     s.curves = curves;
                     s
                 },
@@ -311,7 +311,7 @@ fn csv_section() -> impl Strategy<Value = Section> {
         (1..=n).map(|i| bed(i as u64, csv_bed_text())).collect::<Vec<_>>().prop_map(move |beds| {
             let mut s = Section::new("table");
             s.display_unit = LengthUnit::ALL[unit];
-            s.beds = beds;
+            s.beds = beds.into();
             s
         })
     })
@@ -383,7 +383,7 @@ fn project_with_note(note: String) -> Project {
     let mut s = Section::new("Corrie Wash");
     let mut bed = Bed::new(BedId(1), 1.5, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Silt)));
     bed.notes = note;
-    s.beds = vec![bed];
+    s.beds = vec![bed].into();
     Project::new(vec![s])
 }
 

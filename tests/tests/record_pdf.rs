@@ -39,7 +39,7 @@ fn recorded() -> Section {
         note: String::new(),
     }];
     let mut n = 0;
-    for bed in &mut s.beds[2..5] {
+    for bed in s.beds.iter_mut().skip(2).take(3) {
         for k in 0..3 {
             n += 1;
             bed.samples.push(Sample {

@@ -10,7 +10,7 @@ use super::engine::Strip;
 use super::painter::{self, MmToScreen};
 use super::theme;
 use super::trace::backdrop::{behind_column, CanvasBackdrop, CanvasPlace};
-use aggrade_core::layout::{column_tracks, Item};
+use aggrade_core::layout::Item;
 use aggrade_core::model::{BaseRank, Bed, BedId, GrainSize, LengthUnit, Lithology, WentworthClass};
 use egui::{Color32, CursorIcon, Pos2, Rect, Sense, Shape, Vec2};
 
@@ -187,7 +187,7 @@ impl Canvas {
         let strip = &column.strip;
         let painter = ui.painter_at(rect);
         let mm_per_m = strip.heights.mm_per_m();
-        let total = doc.section().total_thickness_m();
+        let total = doc.heights().total_m;
         // The column's top line, strip y (mm): the titles above it are drawn in the header.
         let column_top_mm = strip.heights.y_mm(total);
         if !self.fitted && strip.width_mm > 0.0 {
@@ -318,8 +318,8 @@ impl Canvas {
             painter.rect_filled(bar, 1.0, theme::ACCENT);
         }
         let corner = Rect::from_min_size(header.min, Vec2::new(RULER_W, HEADER_H));
-        let tracks = column_tracks(doc.section(), column.layout());
-        column_help::draw_header(ui, header, corner, &tracks, doc.section(), strip, &t);
+        // The tracks the strip on screen was laid out with (a pass over every bed to find again).
+        column_help::draw_header(ui, header, corner, &strip.tracks, doc.section(), strip, &t);
         if let Some(r) = legend_rect {
             column_help::legend_panel(ui, r, doc.section(), &column.interp, column.layout());
         }
@@ -428,7 +428,13 @@ impl Canvas {
     /// What a drag starting at `p` would move: a bed's top within half of [`GRAB_TOP_PT`] of
     /// its line, across the whole width of the beds on either side of it; else a bed's right
     /// edge within [`GRAB_PT`].
-    fn grab_target(&self, p: Pos2, strip: &Strip, beds: &[Bed], t: &MmToScreen) -> Option<DragKind> {
+    fn grab_target(
+        &self,
+        p: Pos2,
+        strip: &Strip,
+        beds: &aggrade_core::model::Beds,
+        t: &MmToScreen,
+    ) -> Option<DragKind> {
         let y = t.y_mm(p.y);
         let x = t.x_mm(p.x);
         let half = GRAB_TOP_PT / 2.0;

@@ -174,7 +174,7 @@ impl Column {
         let rules_key = (doc.revision, doc.selected_section, inputs.params.clone(), inputs.all_candidates);
         let view = inputs.view_y_mm;
         let section = doc.section();
-        let total_m = section.total_thickness_m();
+        let total_m = doc.heights().total_m;
         let (interp, window_m) = match self.cache.take() {
             Some(c) if c.rules_key == rules_key => {
                 let w = c.window_for(view, total_m);
@@ -362,7 +362,7 @@ mod tests {
         let (params, layout) = (RuleParams::default(), LayoutOptions::default());
         let mut column = Column::default();
         column.refresh(&inputs(&doc, &params, &layout));
-        let total_m = doc.section().total_thickness_m();
+        let total_m = doc.heights().total_m;
         let c = column.current().expect("computed");
         let (lo, hi) = c.window_m.expect("a window, not the whole section");
         // 1:100 (10 mm a metre): the top 180 m, and the titles above.
@@ -396,7 +396,7 @@ mod tests {
         assert!(c.covers(None));
         assert!(c.covers(Some((0.0, 10.0))));
         // A view of the whole strip needs no narrower window.
-        let total_m = doc.section().total_thickness_m();
+        let total_m = doc.heights().total_m;
         assert_eq!(c.window_for(Some((0.0, c.strip.height_mm)), total_m), None);
         assert_eq!(c.window_for(None, total_m), None);
     }

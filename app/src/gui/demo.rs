@@ -139,7 +139,7 @@ pub fn demo_section() -> Section {
     for (i, b) in beds.iter_mut().enumerate() {
         b.id = BedId(i as u64 + 1);
     }
-    s.beds = beds;
+    s.beds = beds.into();
     s
 }
 

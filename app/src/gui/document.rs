@@ -120,6 +120,30 @@ pub struct Document {
     redo: Vec<Snapshot>,
     /// The gesture the newest undo step belongs to, while it is still open.
     open_gesture: Option<u64>,
+    /// Tells this document from any other opened in the window (revisions start again at 0).
+    serial: u64,
+    /// The selected section's heights, worked out once per revision (see [`Document::heights`]).
+    heights: std::cell::RefCell<Option<(HeightsKey, Arc<SectionHeights>)>>,
+}
+
+/// What [`SectionHeights`] were worked out from: document serial, revision, section.
+type HeightsKey = (u64, u64, usize);
+
+/// The heights of the selected section's beds, worked out once for each state of the document
+/// (each a pass over every bed, which the window would otherwise make every frame).
+#[derive(Debug)]
+pub struct SectionHeights {
+    /// The height of each bed's base above the section's base (m), base first.
+    pub base_m: Vec<f64>,
+    /// The section's total thickness (m).
+    pub total_m: f64,
+    /// The thickness of its beds that are not covered (m).
+    pub exposed_m: f64,
+}
+
+fn next_serial() -> u64 {
+    static SERIAL: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(1);
+    SERIAL.fetch_add(1, std::sync::atomic::Ordering::Relaxed)
 }
 
 impl Document {
@@ -141,7 +165,35 @@ impl Document {
             undo: Vec::new(),
             redo: Vec::new(),
             open_gesture: None,
+            serial: next_serial(),
+            heights: std::cell::RefCell::new(None),
         }
+    }
+
+    /// The selected section's bed base heights and total thickness, worked out once for each
+    /// revision of the document.
+    pub fn heights(&self) -> Arc<SectionHeights> {
+        let key = (self.serial, self.revision, self.selected_section);
+        let mut memo = self.heights.borrow_mut();
+        if let Some((k, h)) = memo.as_ref() {
+            if *k == key {
+                return Arc::clone(h);
+            }
+        }
+        // One pass over the beds (each a separate allocation: one pass, not three).
+        let s = self.section();
+        let mut base_m = Vec::with_capacity(s.beds.len());
+        let (mut total_m, mut exposed_m) = (0.0, 0.0);
+        for b in &s.beds {
+            base_m.push(total_m);
+            total_m += b.thickness_m;
+            if !b.is_covered() {
+                exposed_m += b.thickness_m;
+            }
+        }
+        let h = Arc::new(SectionHeights { base_m, total_m, exposed_m });
+        *memo = Some((key, Arc::clone(&h)));
+        h
     }
 
     /// The selected section.
@@ -325,6 +377,7 @@ impl Document {
 
     #[doc(hidden)]
     pub fn section_mut_for_tests(&mut self) -> &mut Section {
+        self.revision += 1;
         self.section_mut()
     }
 }
@@ -357,12 +410,8 @@ impl Work {
     /// Refuse an edit that leaves a project the project file's checks refuse (it would save but
     /// never open again); problems the project had before the edit do not block it.
     fn check_saveable(&self, before: &Project) -> Result<(), EditError> {
-        let after = aggrade_core::io::validate_project(&self.project);
-        if after.is_empty() {
-            return Ok(());
-        }
-        let was = aggrade_core::io::validate_project(before);
-        match after.into_iter().find(|p| !was.contains(p)) {
+        // Only what the edit changed is read again (the beds it left are shared with `before`).
+        match aggrade_core::io::new_problems(before, &self.project).into_iter().next() {
             Some(p) => Err(EditError(format!("the project would not open again: {p}"))),
             None => Ok(()),
         }
@@ -730,6 +779,50 @@ mod tests {
         assert_eq!(d.section().base_heights_m(), vec![0.0, 1.0, 3.0]);
         assert!(d.redo());
         assert_eq!(d.section().beds[0].thickness_m, 0.5);
+    }
+
+    /// The remembered heights follow every change: an edit, undo, redo and another section.
+    #[test]
+    fn the_remembered_heights_are_those_of_the_section_as_it_is() {
+        let mut d = doc_with_beds(3);
+        let mut other = Section::new("Other");
+        other.beds.push(Bed::new(BedId(1), 0.25, Lithology::Covered, None));
+        d.apply(Edit::AddSection { section: other }).expect("added");
+        d.select_section(0);
+        let same = |d: &Document| {
+            let h = d.heights();
+            let s = d.section();
+            assert_eq!(h.base_m, s.base_heights_m());
+            assert_eq!(h.total_m, s.total_thickness_m());
+            assert_eq!(h.exposed_m, s.exposed_thickness_m());
+            h.total_m
+        };
+        assert_eq!(same(&d), 6.0);
+        d.apply(Edit::SetThickness { bed: BedId(1), thickness_m: 0.5 }).expect("valid edit");
+        assert_eq!(same(&d), 5.5);
+        assert!(d.undo());
+        assert_eq!(same(&d), 6.0);
+        assert!(d.redo());
+        assert_eq!(same(&d), 5.5);
+        d.select_section(1);
+        assert_eq!(same(&d), 0.25);
+        assert_eq!(d.heights().exposed_m, 0.0, "a covered interval is not exposed");
+        // Another document at the same revision is another document.
+        let fresh = doc_with_beds(1);
+        assert_eq!((fresh.revision, same(&fresh)), (0, 1.0));
+    }
+
+    /// An edit of one bed of a long section shares every other bed with the undo step it
+    /// leaves (memory and time of an edit do not grow with the section).
+    #[test]
+    fn an_edit_shares_the_beds_it_did_not_change_with_its_undo_step() {
+        let mut d = doc_with_beds(1_000);
+        let before = Arc::clone(&d.project);
+        d.apply(Edit::SetThickness { bed: BedId(500), thickness_m: 0.5 }).expect("valid edit");
+        let (was, now) = (&before.sections[0].beds, &d.section().beds);
+        assert_eq!(now.changed_since(was), 499..500);
+        assert!((0..1_000).filter(|&i| i != 499).all(|i| now.shares(i, was, i)));
+        assert_eq!(was[499].thickness_m, 500.0, "the undo step keeps the bed as it was");
     }
 
     #[test]

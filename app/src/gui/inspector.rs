@@ -565,7 +565,7 @@ impl Inspector {
         let key = (doc.selected_section, orig.id);
         let Some(fields) = self.fields.take() else { return };
         let index = doc.bed_index(orig.id).unwrap_or(0);
-        let base_h = doc.section().base_heights_m().get(index).copied().unwrap_or(0.0);
+        let base_h = doc.heights().base_m.get(index).copied().unwrap_or(0.0);
         let mut form = Form {
             cx: FieldCtx { key, unit, orig: &orig, section: doc.section() },
             fields,

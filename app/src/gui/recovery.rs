@@ -157,6 +157,41 @@ pub struct Autosaver {
     stopped: bool,
     /// Typed values that were not stored, kept in the backup too.
     unstored: Vec<String>,
+    /// A backup of a long project being written on a thread of its own.
+    writing: Option<Writing>,
+}
+
+/// A backup being written off the window's thread: the revision it holds and the thread.
+#[derive(Debug)]
+struct Writing {
+    revision: u64,
+    thread: std::thread::JoinHandle<Result<(), BackupError>>,
+}
+
+/// From this many beds in the project a backup is encoded and written on a thread of its own,
+/// so that the window does not wait for it (a 50,000-bed project is some 17 MB of JSON).
+pub const BACKGROUND_BACKUP_MIN_BEDS: usize = 2_000;
+
+/// What a backup file holds: the same fields as [`Recovery`], which reads it back.
+#[derive(Serialize)]
+struct RecoveryOut<'a> {
+    original_path: &'a Option<PathBuf>,
+    revision: u64,
+    saved_at_secs: i64,
+    disk: Option<(u64, u64)>,
+    #[serde(skip_serializing_if = "<[String]>::is_empty")]
+    unstored: &'a [String],
+    project: &'a Project,
+}
+
+/// Encode a backup and write it atomically (temp file, then rename) to `path` in `dir`.
+fn write_backup(dir: &Path, path: &Path, rec: &RecoveryOut<'_>) -> Result<(), BackupError> {
+    let json = serde_json::to_vec(rec).map_err(BackupError::Encode)?;
+    std::fs::create_dir_all(dir).map_err(|error| BackupError::Folder { dir: dir.to_path_buf(), error })?;
+    aggrade_core::io::write_bytes_atomic(path, &json)?;
+    // The atomic writer keeps the previous version as NAME.bak; a backup needs no backup.
+    let _ = std::fs::remove_file(aggrade_core::io::backup_path(path));
+    Ok(())
 }
 
 impl Autosaver {
@@ -174,7 +209,23 @@ impl Autosaver {
             last_write_secs: f64::MIN,
             stopped: false,
             unstored: Vec::new(),
+            writing: None,
         }
+    }
+
+    /// Wait for a backup being written on its thread; its outcome.
+    fn finish_writing(&mut self) -> Result<(), BackupError> {
+        let Some(w) = self.writing.take() else { return Ok(()) };
+        let done = w.thread.join().unwrap_or_else(|_| {
+            Err(BackupError::Folder {
+                dir: self.dir.clone(),
+                error: std::io::Error::other("the backup writer stopped"),
+            })
+        });
+        if done.is_ok() && self.last_written_revision.is_none_or(|r| r < w.revision) {
+            self.last_written_revision = Some(w.revision);
+        }
+        done
     }
 
     /// The typed values that were not stored (see [`Recovery::unstored`]); a change is written
@@ -206,6 +257,8 @@ impl Autosaver {
         if self.keyed_file == doc.path && self.lock.is_some() {
             return;
         }
+        // The backup may move: nothing may still be writing to it.
+        let _ = self.finish_writing();
         let old_json = self.lock.as_ref().map(|_| self.path());
         let new_lock = match &doc.path {
             Some(p) => match try_lock(&self.dir, &file_key(p)) {
@@ -255,6 +308,7 @@ impl Autosaver {
     /// Take over a backup left by a window that is gone (its lock is already held): this
     /// window's own backup, if any, goes, and the adopted one is written over from now on.
     pub fn adopt(&mut self, found: FoundBackup, doc: &Document) {
+        let _ = self.finish_writing();
         let mine = self.lock.take();
         if let Some(mine) = mine {
             let _ = std::fs::remove_file(json_path(&self.dir, &mine.key));
@@ -273,7 +327,17 @@ impl Autosaver {
 
     /// Call every frame with the current time in seconds: writes when due. Returns an error
     /// message when the write failed (the work stays in memory).
+    ///
+    /// The backup of a project of [`BACKGROUND_BACKUP_MIN_BEDS`] beds or more is written on a
+    /// thread of its own; a later tick collects it (and reports its failure), and the next backup
+    /// is not started before it is done.
     pub fn tick(&mut self, doc: &Document, now_secs: f64) -> Result<bool, BackupError> {
+        if self.writing.as_ref().is_some_and(|w| w.thread.is_finished()) {
+            self.finish_writing()?;
+        }
+        if self.writing.is_some() {
+            return Ok(false);
+        }
         if self.stopped || (!doc.dirty && self.unstored.is_empty()) {
             return Ok(false);
         }
@@ -283,31 +347,60 @@ impl Autosaver {
         if now_secs - self.last_write_secs < AUTOSAVE_INTERVAL.as_secs_f64() {
             return Ok(false);
         }
-        self.write_now(doc)?;
+        let beds: usize = doc.project.sections.iter().map(|s| s.beds.len()).sum();
+        if beds >= BACKGROUND_BACKUP_MIN_BEDS {
+            self.start_writing(doc)?;
+        } else {
+            self.write_now(doc)?;
+        }
         self.last_write_secs = now_secs;
         Ok(true)
     }
 
-    /// Write the backup at once (atomically: temp file, then rename).
-    pub fn write_now(&mut self, doc: &Document) -> Result<(), BackupError> {
-        // Written from the document itself (no copy of the project): the same fields as
-        // [`Recovery`], which reads it back.
-        #[derive(Serialize)]
-        struct RecoveryOut<'a> {
-            original_path: &'a Option<PathBuf>,
-            revision: u64,
-            saved_at_secs: i64,
-            disk: Option<(u64, u64)>,
-            #[serde(skip_serializing_if = "<[String]>::is_empty")]
-            unstored: &'a [String],
-            project: &'a Project,
-        }
+    /// Take this window's lock if it has none yet (a backup is only written under a lock).
+    fn ensure_lock(&mut self) -> Result<(), BackupError> {
         if self.lock.is_none() {
             self.lock = Self::lock_window_key(&self.dir);
         }
         if self.lock.is_none() {
             return Err(BackupError::NoLock(self.dir.clone()));
         }
+        Ok(())
+    }
+
+    /// Start writing the backup on a thread of its own (the project is shared, not copied).
+    fn start_writing(&mut self, doc: &Document) -> Result<(), BackupError> {
+        self.finish_writing()?;
+        self.ensure_lock()?;
+        let (dir, path) = (self.dir.clone(), self.path());
+        let original_path = doc.path.clone();
+        let revision = doc.revision;
+        let disk = doc.disk.as_ref().map(|d| (d.len, d.hash));
+        let unstored = self.unstored.clone();
+        let project = std::sync::Arc::clone(&doc.project);
+        let thread = std::thread::Builder::new()
+            .name("aggrade-backup".into())
+            .spawn(move || {
+                let rec = RecoveryOut {
+                    original_path: &original_path,
+                    revision,
+                    saved_at_secs: now_secs(),
+                    disk,
+                    unstored: &unstored,
+                    project: &project,
+                };
+                write_backup(&dir, &path, &rec)
+            })
+            .map_err(|error| BackupError::Folder { dir: self.dir.clone(), error })?;
+        self.writing = Some(Writing { revision, thread });
+        Ok(())
+    }
+
+    /// Write the backup at once (atomically: temp file, then rename).
+    pub fn write_now(&mut self, doc: &Document) -> Result<(), BackupError> {
+        // A backup still being written on its thread lands first, so this one is the last.
+        let _ = self.finish_writing();
+        self.ensure_lock()?;
         let rec = RecoveryOut {
             original_path: &doc.path,
             revision: doc.revision,
@@ -316,19 +409,15 @@ impl Autosaver {
             unstored: &self.unstored,
             project: &doc.project,
         };
-        let json = serde_json::to_vec(&rec).map_err(BackupError::Encode)?;
-        std::fs::create_dir_all(&self.dir)
-            .map_err(|error| BackupError::Folder { dir: self.dir.clone(), error })?;
-        let path = self.path();
-        aggrade_core::io::write_bytes_atomic(&path, &json)?;
-        // The atomic writer keeps the previous version as NAME.bak; a backup needs no backup.
-        let _ = std::fs::remove_file(aggrade_core::io::backup_path(&path));
+        write_backup(&self.dir, &self.path(), &rec)?;
         self.last_written_revision = Some(doc.revision);
         Ok(())
     }
 
     /// The work is safe (saved or deliberately discarded): remove this window's backup.
     pub fn clear(&mut self) {
+        // A backup still being written would otherwise land after the removal.
+        let _ = self.finish_writing();
         let _ = std::fs::remove_file(self.path());
         self.last_written_revision = None;
     }
@@ -342,8 +431,10 @@ impl Autosaver {
 }
 
 impl Drop for Autosaver {
-    /// A window closing normally leaves no lock file behind (its backup, if any, stays).
+    /// A window closing normally leaves no lock file behind (its backup, if any, stays); a
+    /// backup still being written is finished first.
     fn drop(&mut self) {
+        let _ = self.finish_writing();
         if let Some(l) = &self.lock {
             if !json_path(&self.dir, &l.key).exists() {
                 let _ = std::fs::remove_file(self.dir.join(format!("{}.lock", l.key)));
@@ -545,6 +636,41 @@ mod tests {
         assert_eq!(written.revision, doc.revision);
         a.clear();
         assert!(!a.path().exists());
+    }
+
+    /// A long project's backup is encoded and written on a thread of its own: the tick that
+    /// starts it returns at once, a later tick collects it, no second write starts meanwhile,
+    /// and saving (clear) waits for it so that no stale backup lands after.
+    #[test]
+    fn a_long_project_is_backed_up_off_the_frame_and_nothing_lands_after_a_clear() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let mut s = Section::new("Long");
+        for i in 0..BACKGROUND_BACKUP_MIN_BEDS as u64 {
+            s.beds.push(Bed::new(BedId(i + 1), 0.5, Lithology::Mudstone, None));
+        }
+        let mut doc = Document::new(Project::new(vec![s]), None);
+        let mut a = Autosaver::new(dir.path());
+        doc.apply(Edit::SetThickness { bed: BedId(7), thickness_m: 2.5 }).expect("valid");
+        assert_eq!(a.tick(&doc, 10.0).ok(), Some(true), "started");
+        assert!(a.writing.is_some(), "written on a thread of its own");
+        doc.apply(Edit::SetThickness { bed: BedId(8), thickness_m: 1.5 }).expect("valid");
+        // Ticks within the interval only collect the write (none is due).
+        while a.writing.is_some() {
+            assert_eq!(a.tick(&doc, 11.0).ok(), Some(false), "a second write before the interval");
+            std::thread::sleep(std::time::Duration::from_millis(5));
+        }
+        let written: Recovery =
+            serde_json::from_slice(&std::fs::read(a.path()).expect("backup")).expect("readable");
+        assert_eq!(written.project.sections[0].beds.len(), BACKGROUND_BACKUP_MIN_BEDS);
+        assert_eq!(written.project.sections[0].beds[6].thickness_m, 2.5);
+        assert_eq!(written.revision, doc.revision - 1, "the revision it was started from");
+        // The next tick writes the newer edit; a clear straight after waits for that write.
+        assert_eq!(a.tick(&doc, 20.0).ok(), Some(true));
+        assert!(a.writing.is_some());
+        assert_eq!(a.tick(&doc, 30.0).ok(), Some(false), "no second write while one runs");
+        a.clear();
+        assert!(a.writing.is_none());
+        assert!(!a.path().exists(), "a backup landed after the clear");
     }
 
     #[test]

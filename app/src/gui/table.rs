@@ -485,7 +485,8 @@ impl BedTable {
         let s = doc.section();
         let unit = s.display_unit;
         let n = s.beds.len();
-        let heights = s.base_heights_m();
+        let sums = doc.heights();
+        let heights = &sums.base_m;
         let row_h = 22.0;
         // Column left edges as fractions of the row; numbers are right-aligned to the next edge.
         let cols = [0.0f32, 0.09, 0.24, 0.37, 0.62, 0.73, 1.0];

@@ -591,7 +591,7 @@ fn sand(id: u64, t: f64) -> Bed {
 
 fn one_section(beds: Vec<Bed>) -> Project {
     let mut s = Section::new("Section 1");
-    s.beds = beds;
+    s.beds = beds.into();
     Project::new(vec![s])
 }
 

@@ -427,7 +427,8 @@ fn opening_another_file_shows_its_own_column_and_interpretation() {
         4.0,
         Lithology::Mudstone,
         Some(GrainSize::Class(WentworthClass::Clay)),
-    )];
+    )]
+    .into();
     let other = data.path().join("mud.aggrade");
     aggrade::gui::test_hooks::files::save(&other, &Project::new(vec![mud.clone()])).expect("saved");
     h.state_mut().open_path(&other);

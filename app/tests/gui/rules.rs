@@ -107,7 +107,7 @@ fn weak_soil_section() -> Document {
         Bed::new(BedId(4), 2.0, Lithology::Sandstone, Some(GrainSize::Class(WentworthClass::MediumSand)));
     sand.base_contact = Contact::Erosional;
     let cap = Bed::new(BedId(5), 2.0, Lithology::Mudstone, silt);
-    s.beds = vec![weak, plain, strong, sand, cap];
+    s.beds = vec![weak, plain, strong, sand, cap].into();
     Document::new(Project::new(vec![s]), None)
 }
 

@@ -253,7 +253,7 @@ pub fn beds_in_interval(bases: &[f64], base_m: f64, top_m: f64) -> std::ops::Ran
 /// The flow readings of a run of beds, of `kind` ([`bed_readings`], restored with the section's
 /// bedding attitude).
 pub fn flow_readings_of_beds(section: &Section, beds: std::ops::Range<usize>, kind: DataKind) -> Vec<f64> {
-    section.beds[beds].iter().flat_map(|b| bed_readings(b, section.bedding.as_ref(), kind)).collect()
+    section.beds.range(beds).flat_map(|b| bed_readings(b, section.bedding.as_ref(), kind)).collect()
 }
 
 /// One-way flow readings of the beds whose base lies in `base_m ≤ h < top_m`
@@ -714,7 +714,7 @@ mod tests {
             reading(300.0, I::AccretionSurface, Some(10.0)),
             reading(310.0, I::AccretionSurface, Some(14.0)),
         ];
-        s.beds = vec![a, b];
+        s.beds = vec![a, b].into();
         s
     }
 
@@ -766,7 +766,7 @@ mod tests {
         sand.paleocurrents = [100.0, 120.0, 110.0].map(crate::model::Paleocurrent::azimuth).to_vec();
         let mut top = Bed::new(BedId(3), 3.0, Lithology::Mudstone, None);
         top.paleocurrents = vec![crate::model::Paleocurrent::azimuth(300.0)];
-        s.beds = vec![mud, sand, top];
+        s.beds = vec![mud, sand, top].into();
         let interp = crate::rules::interpret(&s, &crate::rules::RuleParams::default());
         assert_eq!(interp.channel_bodies.len(), 1, "{:?}", interp.channel_bodies);
         let g = grouped(&s, &interp, &[0.0, 10.0], &CircularParams::default()).expect("valid");

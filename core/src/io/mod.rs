@@ -33,7 +33,7 @@ pub use migrate::infer_surface_kind;
 pub use problem::Problem;
 pub use project_file::{project_to_json, read_project_text, ProjectRead};
 pub use validate::{
-    check_iso_date, check_link_label, field_record_warnings, record_warnings, validate_project,
+    check_iso_date, check_link_label, field_record_warnings, new_problems, record_warnings, validate_project,
     validate_section,
 };
 

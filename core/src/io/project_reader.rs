@@ -540,7 +540,7 @@ fn read_node(root: Node<'_>, check: &BedsToCheck) -> FieldRead {
             let mut shallow = sobj;
             shallow.insert("beds".into(), Value::Array(Vec::new()));
             if let Some(mut section) = build::<Section>(&Value::Object(shallow), &path, &mut problems) {
-                section.beds = beds;
+                section.beds = beds.into();
                 sections.push(section);
             }
         }

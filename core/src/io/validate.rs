@@ -7,7 +7,7 @@ use super::limits::{
 };
 pub use super::limits::{MAX_BED_THICKNESS_M, MAX_PANEL_POSITION_M};
 use super::problem::Problem;
-use crate::model::{GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
+use crate::model::{Bed, BedId, GrainSize, GrainSizeRule, MeasuredCurve, Project, Section};
 use std::collections::HashMap;
 
 mod record;
@@ -16,6 +16,25 @@ pub use record::{field_record_warnings, record_warnings};
 /// Every problem in one section. Locations are relative to the section (`beds[3].thickness_m`).
 pub fn validate_section(section: &Section) -> Vec<Problem> {
     let mut out = Vec::new();
+    section_head(&mut out, section);
+    if too_many_beds(&mut out, section) {
+        return out;
+    }
+    let mut first_with_id: HashMap<u64, usize> = HashMap::with_capacity(section.beds.len());
+    for (i, bed) in section.beds.iter().enumerate() {
+        if let Some(first) = first_with_id.get(&bed.id.0) {
+            out.push(duplicate_id(i, bed.id, *first));
+        } else {
+            first_with_id.insert(bed.id.0, i);
+        }
+        bed_problems(&mut out, i, bed);
+    }
+    section_tail(&mut out, section, Some(&|id: BedId| first_with_id.contains_key(&id.0)));
+    out
+}
+
+/// The section's own fields that come before its beds in the list of problems.
+fn section_head(out: &mut Vec<Problem>, section: &Section) {
     if section.name.trim().is_empty() {
         out.push(Problem::new("name", "must not be empty"));
     }
@@ -25,7 +44,7 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         ("logged_by", &section.logged_by),
         ("notes", &section.notes),
     ] {
-        check_text(&mut out, field, text);
+        check_text(out, || field.to_string(), text);
     }
     if let Some(c) = section.coordinates {
         if !(c.lat_deg.is_finite() && (-90.0..=90.0).contains(&c.lat_deg)) {
@@ -60,98 +79,110 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
             ));
         }
     }
+}
+
+/// More beds than a section may hold (their problems are then not listed one by one).
+fn too_many_beds(out: &mut Vec<Problem>, section: &Section) -> bool {
     if section.beds.len() > MAX_BEDS_PER_SECTION {
         out.push(Problem::new(
             "beds",
             format!("{} beds; at most {MAX_BEDS_PER_SECTION} per section", section.beds.len()),
         ));
-        return out;
+        return true;
     }
-    let mut first_with_id: HashMap<u64, usize> = HashMap::new();
-    for (i, bed) in section.beds.iter().enumerate() {
-        let at = |field: &str| format!("beds[{i}].{field}");
-        if let Some(first) = first_with_id.get(&bed.id.0) {
-            out.push(Problem::new(
-                at("id"),
-                format!("{} is also the id of beds[{first}]; bed ids must be unique", bed.id.0),
-            ));
-        } else {
-            first_with_id.insert(bed.id.0, i);
-        }
-        let t = bed.thickness_m;
-        if !(t.is_finite() && t > 0.0 && t <= MAX_BED_THICKNESS_M) {
-            out.push(Problem::new(
-                at("thickness_m"),
-                format!("must be > 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(t)),
-            ));
-        }
-        let litho = bed.lithology;
-        for (field, grain) in [("grain_base", bed.grain_base), ("grain_top", bed.grain_top)] {
-            match (litho.grain_size_rule(), grain) {
-                (GrainSizeRule::Required, None) => out.push(Problem::new(
-                    at(field),
-                    format!(
-                        "required for {litho}: a Wentworth class (e.g. \"fine sand\") or a size such as 0.3mm or 1.7phi"
-                    ),
-                )),
-                (GrainSizeRule::Forbidden, Some(g)) => out.push(Problem::new(
-                    at(field),
-                    format!("must be empty for a {litho} interval (nothing exposed to size), got {g}"),
-                )),
-                (_, Some(GrainSize::Phi(p))) if !(p.is_finite() && (-12.0..=14.0).contains(&p)) => {
-                    out.push(Problem::new(at(field), format!("phi must lie between -12 and 14, got {}", show(p))))
-                }
-                _ => {}
-            }
-        }
-        if let Some(r) = bed.base_relief_m {
-            if !(r.is_finite() && (0.0..=MAX_BED_THICKNESS_M).contains(&r)) {
-                out.push(Problem::new(
-                    at("base_relief_m"),
-                    format!("must be ≥ 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(r)),
-                ));
-            }
-        }
-        for (k, p) in bed.paleocurrents.iter().enumerate() {
-            let a = p.azimuth_deg;
-            if !(a.is_finite() && (0.0..=360.0).contains(&a)) {
-                out.push(Problem::new(
-                    format!("beds[{i}].paleocurrents[{k}].azimuth_deg"),
-                    format!("an azimuth must lie between 0 and 360 degrees, got {}", show(a)),
-                ));
-            }
-            if let Some(d) = p.dip_deg {
-                if !(d.is_finite() && (0.0..=90.0).contains(&d)) {
-                    out.push(Problem::new(
-                        format!("beds[{i}].paleocurrents[{k}].dip_deg"),
-                        format!("a dip must lie between 0 and 90 degrees, got {}", show(d)),
-                    ));
-                }
-            }
-        }
-        if let Some(stage) = bed.carbonate_stage {
-            if !(1..=6).contains(&stage) {
-                out.push(Problem::new(
-                    at("carbonate_stage"),
-                    format!("must be a carbonate stage 1–6 (I–VI), got {stage}"),
-                ));
-            }
-        }
-        if let Some(surface) = &bed.base_surface {
-            if surface.name.trim().is_empty() {
-                out.push(Problem::new(at("base_surface.name"), "must not be empty"));
-            }
-            check_text(&mut out, &at("base_surface.name"), &surface.name);
-        }
-        for (field, text) in [("colour", &bed.colour), ("fossils", &bed.fossils), ("notes", &bed.notes)] {
-            check_text(&mut out, &at(field), text);
-        }
-        record::bed_record(&mut out, i, bed);
+    false
+}
+
+fn duplicate_id(i: usize, id: BedId, first: usize) -> Problem {
+    Problem::new(
+        format!("beds[{i}].id"),
+        format!("{} is also the id of beds[{first}]; bed ids must be unique", id.0),
+    )
+}
+
+/// The problems of bed `i` on its own (all but a repeated id).
+fn bed_problems(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
+    let at = |field: &str| format!("beds[{i}].{field}");
+    let t = bed.thickness_m;
+    if !(t.is_finite() && t > 0.0 && t <= MAX_BED_THICKNESS_M) {
+        out.push(Problem::new(
+            at("thickness_m"),
+            format!("must be > 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(t)),
+        ));
     }
-    record::section_record(&mut out, section);
+    let litho = bed.lithology;
+    for (field, grain) in [("grain_base", bed.grain_base), ("grain_top", bed.grain_top)] {
+        match (litho.grain_size_rule(), grain) {
+            (GrainSizeRule::Required, None) => out.push(Problem::new(
+                at(field),
+                format!(
+                    "required for {litho}: a Wentworth class (e.g. \"fine sand\") or a size such as 0.3mm or 1.7phi"
+                ),
+            )),
+            (GrainSizeRule::Forbidden, Some(g)) => out.push(Problem::new(
+                at(field),
+                format!("must be empty for a {litho} interval (nothing exposed to size), got {g}"),
+            )),
+            (_, Some(GrainSize::Phi(p))) if !(p.is_finite() && (-12.0..=14.0).contains(&p)) => {
+                out.push(Problem::new(at(field), format!("phi must lie between -12 and 14, got {}", show(p))))
+            }
+            _ => {}
+        }
+    }
+    if let Some(r) = bed.base_relief_m {
+        if !(r.is_finite() && (0.0..=MAX_BED_THICKNESS_M).contains(&r)) {
+            out.push(Problem::new(
+                at("base_relief_m"),
+                format!("must be ≥ 0 and ≤ {MAX_BED_THICKNESS_M} m, got {}", show(r)),
+            ));
+        }
+    }
+    for (k, p) in bed.paleocurrents.iter().enumerate() {
+        let a = p.azimuth_deg;
+        if !(a.is_finite() && (0.0..=360.0).contains(&a)) {
+            out.push(Problem::new(
+                format!("beds[{i}].paleocurrents[{k}].azimuth_deg"),
+                format!("an azimuth must lie between 0 and 360 degrees, got {}", show(a)),
+            ));
+        }
+        if let Some(d) = p.dip_deg {
+            if !(d.is_finite() && (0.0..=90.0).contains(&d)) {
+                out.push(Problem::new(
+                    format!("beds[{i}].paleocurrents[{k}].dip_deg"),
+                    format!("a dip must lie between 0 and 90 degrees, got {}", show(d)),
+                ));
+            }
+        }
+    }
+    if let Some(stage) = bed.carbonate_stage {
+        if !(1..=6).contains(&stage) {
+            out.push(Problem::new(
+                at("carbonate_stage"),
+                format!("must be a carbonate stage 1–6 (I–VI), got {stage}"),
+            ));
+        }
+    }
+    if let Some(surface) = &bed.base_surface {
+        if surface.name.trim().is_empty() {
+            out.push(Problem::new(at("base_surface.name"), "must not be empty"));
+        }
+        check_text(out, || at("base_surface.name"), &surface.name);
+    }
+    for (field, text) in [("colour", &bed.colour), ("fossils", &bed.fossils), ("notes", &bed.notes)] {
+        check_text(out, || at(field), text);
+    }
+    record::bed_record(out, i, bed);
+}
+
+/// What comes after the beds: how the section was measured, review decisions and curves.
+/// `has_bed` answers whether a bed id is in the section; `None` leaves out the checks that need
+/// it (references from the review and the channel-body records to beds).
+fn section_tail(out: &mut Vec<Problem>, section: &Section, has_bed: Option<&dyn Fn(BedId) -> bool>) {
+    record::section_record(out, section, has_bed);
+    let has_bed = |id: BedId| has_bed.is_none_or(|f| f(id));
     let mut decided: HashMap<u64, usize> = HashMap::new();
     for (k, d) in section.review.iter().enumerate() {
-        if section.bed_index(d.bed).is_none() {
+        if !has_bed(d.bed) {
             out.push(Problem::new(
                 format!("review[{k}].bed"),
                 format!("refers to bed id {}, which is not in this section", d.bed.0),
@@ -165,15 +196,14 @@ pub fn validate_section(section: &Section) -> Vec<Problem> {
         } else {
             decided.insert(d.bed.0, k);
         }
-        check_text(&mut out, &format!("review[{k}].note"), &d.note);
+        check_text(out, || format!("review[{k}].note"), &d.note);
         if let Some(label) = &d.link {
             if let Err(why) = check_link_label(label) {
                 out.push(Problem::new(format!("review[{k}].link"), why));
             }
         }
     }
-    validate_curves(&section.curves, &mut out);
-    out
+    validate_curves(&section.curves, out);
 }
 
 /// Most problems reported for the samples of one curve (a whole bad curve would otherwise list
@@ -211,7 +241,7 @@ fn validate_curves(curves: &[MeasuredCurve], out: &mut Vec<Problem>) {
             ("description", &c.description),
             ("source_file", &c.source_file),
         ] {
-            check_text(out, &at(field), text);
+            check_text(out, || at(field), text);
         }
         if !c.offset_m.is_finite() {
             out.push(Problem::new(
@@ -262,6 +292,14 @@ fn validate_curves(curves: &[MeasuredCurve], out: &mut Vec<Problem>) {
 
 /// Every problem in a project, located from its root (`sections[2].beds[0].thickness_m`).
 pub fn validate_project(project: &Project) -> Vec<Problem> {
+    project_problems(project, |_, section| validate_section(section))
+}
+
+/// The problems of a project, with `section_problems(i, section)` giving each section's.
+fn project_problems(
+    project: &Project,
+    mut section_problems: impl FnMut(usize, &Section) -> Vec<Problem>,
+) -> Vec<Problem> {
     let mut out = Vec::new();
     if project.format_version != Project::CURRENT_VERSION {
         out.push(Problem::new(
@@ -282,7 +320,7 @@ pub fn validate_project(project: &Project) -> Vec<Problem> {
     let mut names: HashMap<String, usize> = HashMap::new();
     for (i, section) in project.sections.iter().enumerate() {
         let prefix = format!("sections[{i}].");
-        out.extend(validate_section(section).into_iter().map(|p| p.prefixed(&prefix)));
+        out.extend(section_problems(i, section).into_iter().map(|p| p.prefixed(&prefix)));
         let key = section.name.trim().to_lowercase();
         if key.is_empty() {
             continue;
@@ -302,6 +340,78 @@ pub fn validate_project(project: &Project) -> Vec<Problem> {
     out
 }
 
+/// Above this many changed beds (or this share of a section) an edit's section is checked
+/// whole: the checks of a run of beds against the rest cost the run's length times the section's.
+const CHANGED_RUN_CHECKED_ALONE: usize = 64;
+
+/// The problems an edit brought in: those of [`validate_project`]`(after)` that
+/// `validate_project(before)` does not have, where `after` was made from `before` by an edit
+/// that shares the beds it did not touch ([`crate::model::Beds`]). Beds left shared are not read
+/// again (their problems are the ones they had), so an edit of one bed in a section of 50,000
+/// checks that bed, the section's own fields and the ids around it, not the 50,000.
+pub fn new_problems(before: &Project, after: &Project) -> Vec<Problem> {
+    let was = project_problems(before, |i, section| section_problems_since(section, after.sections.get(i)));
+    let now = project_problems(after, |i, section| section_problems_since(section, before.sections.get(i)));
+    now.into_iter().filter(|p| !was.contains(p)).collect()
+}
+
+/// The problems of `section` that can differ from those of `other` (the same section before or
+/// after an edit): its own fields, and the beds of the run it does not share with `other`. With
+/// no `other`, or a long changed run, every problem.
+fn section_problems_since(section: &Section, other: Option<&Section>) -> Vec<Problem> {
+    let Some(other) = other else { return validate_section(section) };
+    let run = section.beds.changed_since(&other.beds);
+    let long = run.len() > CHANGED_RUN_CHECKED_ALONE || run.len() * 8 > section.beds.len();
+    if long || section.beds.len() > MAX_BEDS_PER_SECTION || other.beds.len() > MAX_BEDS_PER_SECTION {
+        return validate_section(section);
+    }
+    let mut out = Vec::new();
+    section_head(&mut out, section);
+    let other_run = run.start..other.beds.len() - (section.beds.len() - run.end);
+    let sorted_ids = |beds: crate::model::beds::Iter<'_>| {
+        let mut ids: Vec<u64> = beds.map(|b| b.id.0).collect();
+        ids.sort_unstable();
+        ids
+    };
+    let (ids, other_ids) =
+        (sorted_ids(section.beds.range(run.clone())), sorted_ids(other.beds.range(other_run)));
+    // Ids the changed run holds that the other's run did not (a bed added, an id changed): only
+    // these can be repeated in one section and not in the other.
+    let mut new_ids = ids.clone();
+    for id in &other_ids {
+        if let Ok(k) = new_ids.binary_search(id) {
+            new_ids.remove(k);
+        }
+    }
+    for i in run.clone() {
+        let bed = &section.beds[i];
+        if new_ids.binary_search(&bed.id.0).is_ok() {
+            // A repeated id: the first bed with it is named, every later one is the problem.
+            let mut first = None;
+            for (j, b) in section.beds.iter().enumerate() {
+                if b.id == bed.id {
+                    match first {
+                        None => first = Some(j),
+                        Some(f) if j == i || !run.contains(&j) => out.push(duplicate_id(j, bed.id, f)),
+                        Some(_) => {}
+                    }
+                }
+            }
+        }
+        bed_problems(&mut out, i, bed);
+    }
+    // References from the review and the channel-body records to beds are read again when
+    // either list or the set of beds' ids may have changed.
+    let ids_kept = ids == other_ids;
+    if ids_kept && section.review == other.review && section.body_lateral == other.body_lateral {
+        section_tail(&mut out, section, None);
+    } else {
+        let ids: std::collections::HashSet<u64> = section.beds.iter().map(|b| b.id.0).collect();
+        section_tail(&mut out, section, Some(&|id: BedId| ids.contains(&id.0)));
+    }
+    out
+}
+
 /// A number as a person would type it; very large or small ones in exponent form (1e300).
 pub(crate) fn show(v: f64) -> String {
     if v.is_finite() && v != 0.0 && !(1e-6..1e9).contains(&v.abs()) {
@@ -311,11 +421,17 @@ pub(crate) fn show(v: f64) -> String {
     }
 }
 
-fn check_text(out: &mut Vec<Problem>, location: &str, text: &str) {
+/// A text of at most [`MAX_STRING_CHARS`] characters; the location is only written out for a
+/// problem (this runs for every text of every bed on each edit).
+fn check_text(out: &mut Vec<Problem>, location: impl FnOnce() -> String, text: &str) {
+    if text.len() <= MAX_STRING_CHARS {
+        // No more characters than bytes.
+        return;
+    }
     let n = text.chars().count();
     if n > MAX_STRING_CHARS {
         out.push(Problem::new(
-            location,
+            location(),
             format!("text of {n} characters; at most {MAX_STRING_CHARS} allowed"),
         ));
     }
@@ -385,7 +501,7 @@ mod tests {
     #[test]
     fn a_valid_section_has_no_problems() {
         let mut s = Section::new("Corrie Wash");
-        s.beds = vec![sand(1, 1.0), Bed::new(BedId(2), 0.5, Lithology::Covered, None)];
+        s.beds = vec![sand(1, 1.0), Bed::new(BedId(2), 0.5, Lithology::Covered, None)].into();
         s.date_logged = Some("2024-02-29".into());
         assert_eq!(validate_section(&s), vec![]);
     }
@@ -401,7 +517,7 @@ mod tests {
         covered.grain_top = Some(GrainSize::Class(WentworthClass::Silt));
         let mut mud = Bed::new(BedId(3), 1.0, Lithology::Mudstone, None);
         mud.grain_top = Some(GrainSize::Phi(f64::NAN));
-        s.beds = vec![b, covered, mud];
+        s.beds = vec![b, covered, mud].into();
         s.review = vec![ReviewDecision {
             bed: BedId(9),
             state: ReviewState::Accepted,
@@ -432,7 +548,7 @@ mod tests {
     fn curve_problems_name_the_curve_and_sample() {
         use crate::model::IndexDirection;
         let mut s = Section::new("Kestrel Bluff");
-        s.beds = vec![sand(1, 10.0)];
+        s.beds = vec![sand(1, 10.0)].into();
         let good = MeasuredCurve {
             mnemonic: "GR".into(),
             unit: "API".into(),
@@ -484,7 +600,7 @@ mod tests {
         assert!(check_link_label("Schichtfläche 2").is_ok(), "letters beyond ASCII are fine");
         // In a section: located at the decision's link field.
         let mut s = Section::new("Corrie Wash");
-        s.beds = vec![sand(1, 1.0), sand(2, 1.0)];
+        s.beds = vec![sand(1, 1.0), sand(2, 1.0)].into();
         let mut d = ReviewDecision::new(BedId(2), ReviewState::Candidate, "");
         d.link = Some("SB\t2".to_string());
         s.review = vec![d];
@@ -506,11 +622,87 @@ mod tests {
     #[test]
     fn duplicate_section_names_ignoring_case() {
         let mut a = Section::new("Pell Butte");
-        a.beds = vec![sand(1, 1.0)];
+        a.beds = vec![sand(1, 1.0)].into();
         let mut b = a.clone();
         b.name = "pell butte".into();
         let problems = validate_project(&Project::new(vec![a, b]));
         assert_eq!(problems.len(), 1, "{problems:?}");
         assert_eq!(problems[0].location, "sections[1].name");
+    }
+
+    /// What an edit brought in, by definition: the whole project's problems after the edit that
+    /// it did not have before.
+    fn brought_in(before: &Project, after: &Project) -> Vec<Problem> {
+        let was = validate_project(before);
+        validate_project(after).into_iter().filter(|p| !was.contains(p)).collect()
+    }
+
+    fn long_project() -> Project {
+        let mut s = Section::new("Corrie Wash");
+        s.beds = (1..=400).map(|i| sand(i, 0.5)).collect();
+        s.review = vec![ReviewDecision {
+            bed: BedId(200),
+            state: ReviewState::Accepted,
+            note: String::new(),
+            link: None,
+        }];
+        let mut other = Section::new("Halloway Bluff");
+        other.beds = (1..=10).map(|i| sand(i, 1.0)).collect();
+        Project::new(vec![s, other])
+    }
+
+    /// Every kind of edit the window makes, each checked against the whole-project definition.
+    #[test]
+    fn the_problems_an_edit_brings_in_are_found_without_rereading_the_beds_it_left() {
+        let before = long_project();
+        type Change = Box<dyn Fn(&mut Project)>;
+        let edits: Vec<(&str, Change)> = vec![
+            ("nothing", Box::new(|_| {})),
+            ("a good thickness", Box::new(|p| p.sections[0].beds[7].thickness_m = 2.0)),
+            ("a negative thickness", Box::new(|p| p.sections[0].beds[7].thickness_m = -1.0)),
+            ("a bed inserted with a used id", Box::new(|p| p.sections[0].beds.insert(3, sand(250, 1.0)))),
+            ("an id taken from a later bed", Box::new(|p| p.sections[0].beds[2].id = BedId(399))),
+            ("an id taken from an earlier bed", Box::new(|p| p.sections[0].beds[398].id = BedId(3))),
+            ("the reviewed bed removed", Box::new(|p| drop(p.sections[0].beds.remove(199)))),
+            ("a review of a missing bed", Box::new(|p| p.sections[0].review[0].bed = BedId(9_999))),
+            ("a bed pushed on top", Box::new(|p| p.sections[0].beds.push(sand(401, 1.0)))),
+            (
+                "a gravel without grain size",
+                Box::new(|p| {
+                    let b = &mut p.sections[0].beds[100];
+                    b.lithology = Lithology::Conglomerate;
+                    b.grain_base = None;
+                }),
+            ),
+            ("a section renamed as the other", Box::new(|p| p.sections[1].name = "corrie wash".into())),
+            ("the other section's bed", Box::new(|p| p.sections[1].beds[0].thickness_m = 0.0)),
+            ("a section added", Box::new(|p| p.sections.push(Section::new("")))),
+            ("a section removed", Box::new(|p| drop(p.sections.remove(0)))),
+            (
+                "every bed rewritten",
+                Box::new(|p| p.sections[0].beds.iter_mut().for_each(|b| b.thickness_m = -2.0)),
+            ),
+        ];
+        for (what, edit) in &edits {
+            let mut after = before.clone();
+            edit(&mut after);
+            assert_eq!(new_problems(&before, &after), brought_in(&before, &after), "{what}");
+        }
+        // A problem the project already had is not one the edit brought in, and it is not read
+        // again when the edit leaves its bed alone.
+        let mut bad = before.clone();
+        bad.sections[0].beds[50].thickness_m = -3.0;
+        let mut after = bad.clone();
+        after.sections[0].beds[60].thickness_m = 1.5;
+        assert_eq!(new_problems(&bad, &after), vec![]);
+        after.sections[0].beds[61].thickness_m = f64::NAN;
+        let found = new_problems(&bad, &after);
+        assert_eq!(found.len(), 1, "{found:?}");
+        assert_eq!(found[0].location, "sections[0].beds[61].thickness_m");
+        // The edit whose problems are listed is the one checked: a negative thickness names
+        // the bed and field.
+        let mut neg = before.clone();
+        neg.sections[0].beds[7].thickness_m = -1.0;
+        assert_eq!(new_problems(&before, &neg)[0].location, "sections[0].beds[7].thickness_m");
     }
 }

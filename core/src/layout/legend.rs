@@ -392,7 +392,8 @@ mod tests {
         s.beds = vec![
             Bed::new(BedId(1), 2.0, Lithology::Mudstone, Some(GrainSize::Class(WentworthClass::Clay))),
             b2,
-        ];
+        ]
+        .into();
         let interp = sample_interpretation(&sample_section());
         let opts = LayoutOptions { show_interpretation: false, ..Default::default() };
         let ctx = ColumnCtx::new(&s, &interp, &opts);

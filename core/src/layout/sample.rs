@@ -100,7 +100,7 @@ pub fn sample_section() -> Section {
     beds[3].paleocurrents = az(&[192.0, 205.0, 214.0, 188.0, 230.0, 199.0]);
     beds[6].paleocurrents = az(&[150.0]);
     beds[14].paleocurrents = az(&[170.0, 240.0]);
-    s.beds = beds;
+    s.beds = beds.into();
     s
 }
 

@@ -25,6 +25,8 @@ pub struct ColumnStrip {
     pub bed_boxes: Vec<BedBox>,
     /// Grain size ↔ x (mm) across the lithology column.
     pub grain_scale: GrainScale,
+    /// Where each track sits across the strip (mm from its left edge), as laid out.
+    pub tracks: crate::layout::column::Tracks,
 }
 
 impl ColumnStrip {
@@ -80,6 +82,7 @@ pub fn column_strip_window(
         heights,
         bed_boxes,
         grain_scale: ctx.tracks.grain_scale(0.0),
+        tracks: ctx.tracks,
     }
 }
 
@@ -183,7 +186,8 @@ mod tests {
             b,
             Bed::new(BedId(2), -1.0, Lithology::Coal, None),
             Bed::new(BedId(3), 1.0, Lithology::Tuff, None),
-        ];
+        ]
+        .into();
         let opts = LayoutOptions { scale_denominator: 0.0, ..Default::default() };
         let strip = column_strip(&odd, &i, &opts);
         assert!(strip.items.iter().all(|it| {

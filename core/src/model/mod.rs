@@ -1,6 +1,7 @@
 //! The section model: projects, sections, beds, grain size, lithology, measured curves and the
 //! log's vocabularies.
 
+pub mod beds;
 pub mod curve;
 pub mod facies;
 pub mod grain;
@@ -11,6 +12,7 @@ pub mod setting;
 pub mod shorthand;
 pub mod vocab;
 
+pub use beds::Beds;
 pub use curve::{IndexDirection, MeasuredCurve};
 pub use facies::FaciesCode;
 pub use grain::{mm_to_phi, phi_to_mm, GrainSize, WentworthClass};

@@ -1,5 +1,6 @@
 //! Sections, beds, named surfaces and review decisions: the record a geologist logs.
 
+use super::beds::Beds;
 use super::curve::MeasuredCurve;
 use super::facies::FaciesCode;
 use super::grain::GrainSize;
@@ -296,7 +297,7 @@ pub struct Section {
     #[serde(default = "default_display_unit")]
     pub display_unit: LengthUnit,
     /// Beds, lowest first.
-    pub beds: Vec<Bed>,
+    pub beds: Beds,
     /// Decisions on candidate sequence boundaries.
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub review: Vec<ReviewDecision>,
@@ -334,7 +335,7 @@ impl Section {
             fixes: Vec::new(),
             body_lateral: Vec::new(),
             display_unit: LengthUnit::Metre,
-            beds: Vec::new(),
+            beds: Beds::new(),
             review: Vec::new(),
             panel_position_m: None,
             curves: Vec::new(),

@@ -113,7 +113,7 @@ fn make_body(
     let last_bed = group[group.len() - 1].last_bed;
     let mut finest: Option<GrainSize> = None;
     let mut coarsest: Option<GrainSize> = None;
-    for bed in section.beds[first_bed..=last_bed].iter().filter(|b| is_sand_or_gravel(b)) {
+    for bed in section.beds.range(first_bed..=last_bed).filter(|b| is_sand_or_gravel(b)) {
         for g in [bed.grain_base, bed.grain_top].into_iter().flatten() {
             if finest.is_none_or(|f| g.phi() > f.phi()) {
                 finest = Some(g);

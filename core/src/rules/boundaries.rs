@@ -124,7 +124,7 @@ pub fn candidates(
         .iter()
         .map(|b| {
             let (first, last) = body_beds(b, storeys);
-            fill_median(&beds[first..=last.min(n.saturating_sub(1)).max(first)], params)
+            fill_median(beds.range(first..=last.min(n.saturating_sub(1)).max(first)), params)
         })
         .collect();
 
@@ -307,9 +307,12 @@ pub fn candidates(
 /// The thickness-weighted median Wentworth class of the sand and gravel beds of a fill, basal
 /// lags left out; a graded bed counts half at its base class and half at its top class. `None`
 /// when no such bed has a grain size.
-fn fill_median(beds: &[crate::model::Bed], params: &RuleParams) -> Option<WentworthClass> {
+fn fill_median<'a>(
+    beds: impl Iterator<Item = &'a crate::model::Bed>,
+    params: &RuleParams,
+) -> Option<WentworthClass> {
     let mut parts: Vec<(WentworthClass, f64)> = Vec::new();
-    for bed in beds.iter().filter(|b| is_sand_or_gravel(b) && !super::elements::is_lag(b, params)) {
+    for bed in beds.filter(|b| is_sand_or_gravel(b) && !super::elements::is_lag(b, params)) {
         let t = bed.usable_thickness_m();
         let (base, top) = (bed.grain_base.or(bed.grain_top), bed.grain_top.or(bed.grain_base));
         if let (Some(b), Some(u)) = (base, top) {

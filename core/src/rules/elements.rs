@@ -50,8 +50,8 @@ pub(crate) fn channel_and_splay_signs(
     last: usize,
     params: &RuleParams,
 ) -> (usize, usize) {
-    let beds = &section.beds[first..=last];
-    let base = &beds[0];
+    let beds: Vec<&Bed> = section.beds.range(first..=last).collect();
+    let base = beds[0];
     let thickness_m = column.bounds_m[last + 1] - column.bounds_m[first];
     let any = |s: Structure| beds.iter().any(|b| b.structures.contains(&s));
     let mut channel = 0;
@@ -95,7 +95,7 @@ pub(crate) fn channel_and_splay_signs(
     } else {
         splay += 1;
     }
-    let coarsest = beds.iter().filter_map(Bed::coarsest_grain).map(|g| g.class()).max();
+    let coarsest = beds.iter().copied().filter_map(Bed::coarsest_grain).map(|g| g.class()).max();
     if coarsest.is_some_and(|c| c <= params.splay_max_grain) {
         splay += 1;
     }

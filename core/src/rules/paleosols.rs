@@ -103,7 +103,7 @@ struct Maturity {
 }
 
 /// Maturity of a profile of beds, with what raised it above the logged grade.
-fn maturity(beds: &[Bed], first_bed: usize, params: &RuleParams) -> Maturity {
+fn maturity(beds: &[&Bed], first_bed: usize, params: &RuleParams) -> Maturity {
     use PaleosolDevelopment as Dev;
     let logged = beds.iter().map(|b| b.paleosol).max().unwrap_or_default();
     let stage = beds.iter().filter_map(|b| b.carbonate_stage).max();
@@ -119,7 +119,7 @@ fn maturity(beds: &[Bed], first_bed: usize, params: &RuleParams) -> Maturity {
         }
     };
 
-    let top_down: Vec<String> = beds.iter().rev().filter_map(designation).collect();
+    let top_down: Vec<String> = beds.iter().rev().copied().filter_map(designation).collect();
     if top_down.is_empty() {
         evidence.push(ProfileEvidence::NoHorizons);
     } else {
@@ -177,7 +177,7 @@ fn maturity(beds: &[Bed], first_bed: usize, params: &RuleParams) -> Maturity {
         } else {
             Dev::Weak
         };
-        let horizon = beds.iter().find(|b| b.carbonate_stage == stage).and_then(designation);
+        let horizon = beds.iter().find(|b| b.carbonate_stage == stage).copied().and_then(designation);
         evidence.push(ProfileEvidence::CarbonateStage { stage: st, horizon, floor });
         if floor >= Dev::Strong {
             lift(&mut m, floor, MaturitySign::CarbonateStage, &mut signs);
@@ -289,7 +289,7 @@ fn wet_sign(bed: &Bed) -> Option<WetSign> {
 /// maturity, else on any horizon of the profile; the poorest if several), else the wettest sign
 /// on the horizons that carry the maturity ([`wet_sign`]): a mottled weak horizon under a stage
 /// IV calcic horizon does not make a mature, well-drained soil wet (Kraus 1999; Machette 1985).
-fn drainage(profile: &[Bed], key: &[bool]) -> DrainageRead {
+fn drainage(profile: &[&Bed], key: &[bool]) -> DrainageRead {
     let poorest = |only_key: bool| {
         profile
             .iter()
@@ -355,12 +355,12 @@ fn break_at(bed: &Bed, rank_below: Option<u8>) -> Option<ProfileBreak> {
 
 /// The paleosol profiles of a section, lowest first. Linear in the number of beds.
 pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<PaleosolProfile> {
-    let beds = &section.beds;
+    let beds = section.beds.refs();
     let mut out = Vec::new();
     let mut i = 0;
     let mut started_by: Option<ProfileBreak> = None;
     while i < beds.len() {
-        if !is_horizon(&beds[i]) {
+        if !is_horizon(beds[i]) {
             i += 1;
             started_by = None;
             continue;
@@ -368,8 +368,8 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
         let first = i;
         let mut rank = beds[i].soil_horizon.as_ref().and_then(master_rank);
         let mut next_break = None;
-        while i + 1 < beds.len() && is_horizon(&beds[i + 1]) {
-            if let Some(why) = break_at(&beds[i + 1], rank) {
+        while i + 1 < beds.len() && is_horizon(beds[i + 1]) {
+            if let Some(why) = break_at(beds[i + 1], rank) {
                 next_break = Some(why);
                 break;
             }
@@ -385,7 +385,7 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
         if maturity == PaleosolDevelopment::None || maturity < params.paleosol_min_development {
             continue;
         }
-        let on_sandstone = profile.iter().any(is_sand_or_gravel);
+        let on_sandstone = profile.iter().any(|b| is_sand_or_gravel(b));
         // The horizons that carry the profile's maturity: its most developed beds, those of its
         // highest carbonate stage and its diagnostic horizons.
         let key: Vec<bool> = profile
@@ -524,7 +524,8 @@ mod tests {
         assert_eq!(p.len(), 2);
         let strict = RuleParams { paleosol_min_development: Moderate, ..RuleParams::default() };
         let mut s = Section::new("t");
-        s.beds = vec![mud(Strong), Bed::new(BedId(9), 1.0, Lithology::Covered, Option::None), mud(Weak)];
+        s.beds =
+            vec![mud(Strong), Bed::new(BedId(9), 1.0, Lithology::Covered, Option::None), mud(Weak)].into();
         assert_eq!(profiles(&s, &Column::new(&s), &strict).len(), 1);
     }
 

@@ -20,7 +20,7 @@ fn evidence(
 ) -> (Vec<Evidence>, Vec<Evidence>) {
     let body = &bodies[index];
     let (first, last) = body_beds(body, storeys);
-    let beds = &section.beds[first..=last];
+    let beds = || section.beds.range(first..=last);
     let mut braided = Vec::new();
     let mut meandering = Vec::new();
 
@@ -30,7 +30,7 @@ fn evidence(
     if body.profile == GrainProfile::Blocky {
         braided.push(Evidence::BlockyProfile);
     }
-    if beds.iter().any(|b| b.structures.contains(&Structure::DownstreamAccretion)) {
+    if beds().any(|b| b.structures.contains(&Structure::DownstreamAccretion)) {
         braided.push(Evidence::DownstreamAccretion);
     }
     let mud_m: f64 = (first..=last)
@@ -50,7 +50,7 @@ fn evidence(
     if fining * 2 > body.storey_indices.len() {
         meandering.push(Evidence::FiningStoreys { fining, storeys: body.storey_indices.len() });
     }
-    if beds.iter().any(|b| b.structures.contains(&Structure::LateralAccretion)) {
+    if beds().any(|b| b.structures.contains(&Structure::LateralAccretion)) {
         meandering.push(Evidence::LateralAccretion);
     }
     // Overbank deposits (fines, paleosols, splays) directly above the body, up to the next body

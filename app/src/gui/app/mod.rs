@@ -565,7 +565,7 @@ impl AggradeApp {
             };
             if let Some(i) = target {
                 let bed = &self.doc.section().beds[i];
-                let (id, mid) = (bed.id, self.doc.section().base_heights_m()[i] + bed.thickness_m / 2.0);
+                let (id, mid) = (bed.id, self.doc.heights().base_m[i] + bed.thickness_m / 2.0);
                 self.doc.selected_bed = Some(id);
                 self.canvas.scroll_to_height(mid);
             }

@@ -287,8 +287,8 @@ fn section_ui(ui: &mut egui::Ui, doc: &Document, out: &mut Actions) -> bool {
     let length = |m: f64| format!("{:.2} {}", unit.from_metres(m), unit.name());
     ui.label(format!(
         "Total thickness {} · exposed {} · {}",
-        length(s.total_thickness_m()),
-        length(s.exposed_thickness_m()),
+        length(doc.heights().total_m),
+        length(doc.heights().exposed_m),
         super::plural(s.beds.len(), "bed", "beds")
     ));
     open

@@ -184,7 +184,7 @@ mod tests {
         a.samples = vec![Sample::labelled("CW-09"), Sample::labelled("CW-11"), Sample::labelled("loose")];
         let mut b = a.clone();
         b.samples = vec![Sample::labelled("CW-10")];
-        s.beds = vec![a, b];
+        s.beds = vec![a, b].into();
         assert_eq!(next_sample_id(&s), "CW-12");
         s.beds[1].samples = vec![Sample::labelled("CW-099")];
         assert_eq!(next_sample_id(&s), "CW-100", "the width grows when it must");

@@ -474,7 +474,7 @@ pub fn read_row(
     // The checks a saved file passes (a sandstone needs a grain size, phi within range, text
     // limits …), each named by its cell.
     let mut s = Section::new("entry row");
-    s.beds = beds;
+    s.beds = beds.into();
     let checked: Vec<(Cell, String)> = aggrade_core::io::validate_section(&s)
         .into_iter()
         .map(|p| {
@@ -484,7 +484,7 @@ pub fn read_row(
         })
         .collect();
     if checked.is_empty() {
-        Ok(s.beds)
+        Ok(s.beds.into_iter().collect())
     } else {
         Err(checked)
     }

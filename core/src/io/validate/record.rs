@@ -15,9 +15,9 @@ use std::collections::HashMap;
 use std::path::Path;
 
 /// A list longer than [`MAX_RECORD_ITEMS_PER_BED`]; its items are then not checked one by one.
-fn too_many(out: &mut Vec<Problem>, at: &str, n: usize, what: &str) -> bool {
+fn too_many(out: &mut Vec<Problem>, at: impl FnOnce() -> String, n: usize, what: &str) -> bool {
     if n > MAX_RECORD_ITEMS_PER_BED {
-        out.push(Problem::new(at, format!("{n} {what}; at most {MAX_RECORD_ITEMS_PER_BED} per bed")));
+        out.push(Problem::new(at(), format!("{n} {what}; at most {MAX_RECORD_ITEMS_PER_BED} per bed")));
         true
     } else {
         false
@@ -25,13 +25,13 @@ fn too_many(out: &mut Vec<Problem>, at: &str, n: usize, what: &str) -> bool {
 }
 
 /// A short name: not blank, at most [`MAX_RECORD_NAME_CHARS`] characters.
-fn check_name(out: &mut Vec<Problem>, at: &str, name: &str, what: &str) {
+fn check_name(out: &mut Vec<Problem>, at: impl FnOnce() -> String, name: &str, what: &str) {
     let n = name.chars().count();
     if name.trim().is_empty() {
-        out.push(Problem::new(at, format!("must not be empty: give the {what}, or leave the entry out")));
+        out.push(Problem::new(at(), format!("must not be empty: give the {what}, or leave the entry out")));
     } else if n > MAX_RECORD_NAME_CHARS {
         out.push(Problem::new(
-            at,
+            at(),
             format!("a {what} of {n} characters; at most {MAX_RECORD_NAME_CHARS} allowed (it is printed beside the column)"),
         ));
     }
@@ -40,8 +40,8 @@ fn check_name(out: &mut Vec<Problem>, at: &str, name: &str, what: &str) {
 /// The field record of bed `i` (locations `beds[i].…`).
 pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
     let at = |field: &str| format!("beds[{i}].{field}");
-    too_many(out, &at("paleocurrents"), bed.paleocurrents.len(), "paleocurrent readings");
-    if !too_many(out, &at("samples"), bed.samples.len(), "samples") {
+    too_many(out, || at("paleocurrents"), bed.paleocurrents.len(), "paleocurrent readings");
+    if !too_many(out, || at("samples"), bed.samples.len(), "samples") {
         let mut first_with: HashMap<&str, usize> = HashMap::new();
         for (k, s) in bed.samples.iter().enumerate() {
             let sat = |field: &str| format!("beds[{i}].samples[{k}].{field}");
@@ -61,7 +61,7 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
             } else {
                 first_with.insert(s.id.trim(), k);
             }
-            check_text(out, &sat("id"), &s.id);
+            check_text(out, || sat("id"), &s.id);
             if let Some(h) = s.height_in_bed_m {
                 // Above the bed's top is a warning (see `record_warnings`): an edit of the
                 // thickness must not be refused for it.
@@ -79,9 +79,9 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
             }
         }
     }
-    if !too_many(out, &at("photos"), bed.photos.len(), "photos") {
+    if !too_many(out, || at("photos"), bed.photos.len(), "photos") {
         for (k, p) in bed.photos.iter().enumerate() {
-            check_name(out, &format!("beds[{i}].photos[{k}].reference"), &p.reference, "photo reference");
+            check_name(out, || format!("beds[{i}].photos[{k}].reference"), &p.reference, "photo reference");
             if let Some(file) = &p.file {
                 let fat = format!("beds[{i}].photos[{k}].file");
                 if file.trim().is_empty() {
@@ -90,7 +90,7 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
                         "must not be empty: give the image file's path, or leave the field out",
                     ));
                 }
-                check_text(out, &fat, file);
+                check_text(out, || fat, file);
             }
         }
     }
@@ -98,9 +98,9 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
         ("trace_fossils", &bed.trace_fossils, "trace-fossil names"),
         ("body_fossils", &bed.body_fossils, "body-fossil names"),
     ] {
-        if !too_many(out, &at(field), names.len(), what) {
+        if !too_many(out, || at(field), names.len(), what) {
             for (k, name) in names.iter().enumerate() {
-                check_name(out, &format!("beds[{i}].{field}[{k}]"), name, "fossil name");
+                check_name(out, || format!("beds[{i}].{field}[{k}]"), name, "fossil name");
             }
         }
     }
@@ -121,7 +121,7 @@ pub(super) fn bed_record(out: &mut Vec<Problem>, i: usize, bed: &Bed) {
             ));
         }
     }
-    check_text(out, &at("lag_composition"), &bed.lag_composition);
+    check_text(out, || at("lag_composition"), &bed.lag_composition);
     if let Some(d) = bed.slope_distance_m {
         if !(d.is_finite() && d > 0.0 && d <= MAX_BED_THICKNESS_M) {
             out.push(Problem::new(
@@ -140,7 +140,12 @@ fn in_range(out: &mut Vec<Problem>, at: &str, v: f64, lo: f64, hi: f64, unit: &s
 }
 
 /// How and where the section was measured (locations relative to the section).
-pub(super) fn section_record(out: &mut Vec<Problem>, section: &Section) {
+/// `has_bed` answers whether a bed id is in the section; `None` leaves out the references to beds.
+pub(super) fn section_record(
+    out: &mut Vec<Problem>,
+    section: &Section,
+    has_bed: Option<&dyn Fn(crate::model::BedId) -> bool>,
+) {
     if let Some(u) = section.thickness_uncertainty_m {
         if !(u.is_finite() && (0.0..=MAX_BED_THICKNESS_M).contains(&u)) {
             out.push(Problem::new(
@@ -182,13 +187,13 @@ pub(super) fn section_record(out: &mut Vec<Problem>, section: &Section) {
                 let (lo, hi) = ELEVATION_RANGE_M;
                 in_range(out, &at("elevation_m"), e, lo, hi, " m above sea level");
             }
-            check_text(out, &at("note"), &f.note);
+            check_text(out, || at("note"), &f.note);
         }
     }
     let mut first_for: HashMap<u64, usize> = HashMap::new();
     for (k, b) in section.body_lateral.iter().enumerate() {
         let at = |field: &str| format!("body_lateral[{k}].{field}");
-        if section.bed_index(b.base_bed).is_none() {
+        if has_bed.is_some_and(|f| !f(b.base_bed)) {
             out.push(Problem::new(
                 at("base_bed"),
                 format!("refers to bed id {}, which is not in this section", b.base_bed.0),
@@ -212,7 +217,7 @@ pub(super) fn section_record(out: &mut Vec<Problem>, section: &Section) {
                 ));
             }
         }
-        check_text(out, &at("note"), &b.note);
+        check_text(out, || at("note"), &b.note);
     }
 }
 
@@ -361,7 +366,7 @@ mod tests {
         b.munsell = Munsell::parse("10YR 5/4").ok();
         b.slope_distance_m = Some(5.0);
         b.trace_fossils = vec!["Skolithos".into()];
-        s.beds = vec![b, sand(2, 1.0)];
+        s.beds = vec![b, sand(2, 1.0)].into();
         s.thickness_uncertainty_m = Some(0.0);
         s.bedding = Some(BeddingAttitude { dip_deg: 90.0, dip_direction_deg: 360.0 });
         s.traverse = Some(Traverse { bearing_deg: 0.0, slope_deg: -90.0 });
@@ -398,7 +403,7 @@ mod tests {
         b.slope_distance_m = Some(0.0);
         b.body_fossils = vec!["x".repeat(MAX_RECORD_NAME_CHARS + 1)];
         b.lag_composition = "q".repeat(MAX_STRING_CHARS + 1);
-        s.beds = vec![b];
+        s.beds = vec![b].into();
         s.thickness_uncertainty_m = Some(-0.1);
         s.bedding = Some(BeddingAttitude { dip_deg: 91.0, dip_direction_deg: -1.0 });
         s.traverse = Some(Traverse { bearing_deg: 361.0, slope_deg: f64::NAN });
@@ -462,7 +467,7 @@ mod tests {
         let mut b = sand(1, 1.0);
         b.samples = (0..=MAX_RECORD_ITEMS_PER_BED).map(|_| Sample::labelled("")).collect();
         b.trace_fossils = vec![String::new(); MAX_RECORD_ITEMS_PER_BED + 5];
-        s.beds = vec![b];
+        s.beds = vec![b].into();
         let problems = validate_section(&s);
         assert_eq!(problems.len(), 2, "{problems:?}");
         assert_eq!(problems[0].to_string(), "beds[0].samples: 1001 samples; at most 1000 per bed");
@@ -493,7 +498,7 @@ mod tests {
             Sample { id: "A".into(), kind: None, height_in_bed_m: Some(2.0) },
             Sample { id: "B".into(), kind: None, height_in_bed_m: Some(2.5) },
         ];
-        s.beds = vec![b];
+        s.beds = vec![b].into();
         s.fixes = vec![GpsFix {
             role: FixRole::Top,
             height_m: 3.0,
