@@ -488,8 +488,6 @@ impl BedTable {
         let sums = doc.heights();
         let heights = &sums.base_m;
         let row_h = 22.0;
-        // Column left edges as fractions of the row; numbers are right-aligned to the next edge.
-        let cols = [0.0f32, 0.09, 0.24, 0.37, 0.62, 0.73, 1.0];
         let top_label = format!("top ({})", unit.name());
         let header = ["#", top_label.as_str(), "thick.", "lithology", "grain", "more"];
         let (hrect, _) = ui.allocate_exact_size(egui::vec2(width, 18.0), egui::Sense::hover());
@@ -498,6 +496,7 @@ impl BedTable {
         let extras: Vec<Extra> = self.columns.shown().collect();
         let extras_w: f32 = extras.iter().map(|e| e.width()).sum();
         let base_w = (width - extras_w).max(TABLE_MIN_BASE_W);
+        let cols = column_edges(n, &show_length(sums.total_m, unit), base_w);
         let mut x0 = hrect.left() + base_w;
         for e in &extras {
             let clip = egui::Rect::from_x_y_ranges(x0..=(x0 + e.width() - 2.0), hrect.y_range());
@@ -710,12 +709,44 @@ fn short(g: GrainSize) -> String {
     }
 }
 
+/// The left edges of the six columns as fractions of the row `base_w` points wide; numbers are
+/// right-aligned to the next edge. The bed number and top columns widen to hold a long section's
+/// numbers (bed 50000 S, a top of 79529.241) and the columns to their right shift over, the last
+/// ("more") giving up its room first.
+fn column_edges(beds: usize, longest_top: &str, base_w: f32) -> [f32; 7] {
+    // Points a character of the table's 11.5-point figures takes, with a little room.
+    const CHAR_W: f32 = 6.5;
+    let base_w = base_w.max(1.0);
+    let number_w = (beds.max(1).to_string().len() + 2) as f32 * CHAR_W + 4.0;
+    let top_w = longest_top.chars().count() as f32 * CHAR_W + 16.0;
+    let mut c = [0.0f32, 0.09, 0.24, 0.37, 0.62, 0.73, 1.0];
+    c[1] = c[1].max(number_w / base_w);
+    c[2] = c[2].max(c[1] + top_w / base_w);
+    c[3] = c[3].max(c[2] + 0.13);
+    c[4] = c[4].max(c[3] + 0.25);
+    c[5] = c[5].max(c[4] + 0.11).min(0.95);
+    c
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use aggrade_core::model::{
         Contact, PaleosolDevelopment, PaleosolFeature, Structure, WentworthClass as W,
     };
+
+    #[test]
+    fn the_number_and_top_columns_hold_a_long_sections_numbers() {
+        assert_eq!(
+            column_edges(12, "35.20", 350.0),
+            [0.0, 0.09, 0.24, 0.37, 0.62, 0.73, 1.0],
+            "short: as before"
+        );
+        let c = column_edges(50_000, "79529.241", 350.0);
+        assert!(c[1] * 350.0 >= 7.0 * 6.5, "room for \"50000 S\": {c:?}");
+        assert!((c[2] - c[1]) * 350.0 >= 9.0 * 6.5 + 8.0, "room for 79529.241 and the gap: {c:?}");
+        assert!(c.windows(2).all(|w| w[0] < w[1]), "edges in order: {c:?}");
+    }
 
     #[test]
     fn cells_typed_and_not_added_are_listed_for_the_backup() {

@@ -148,6 +148,98 @@ fn killed_session_is_recovered_with_every_edit() {
     assert!(h.state().doc.dirty);
 }
 
+const LONG_CHILD_ENV: &str = "AGGRADE_TEST_CHILD_LONG";
+
+/// Beds of the long section the long child edits (its backup is written off the window's thread).
+const LONG_BEDS: usize = 5_000;
+
+/// The child for a long section: thickness edits of a 5,000-bed section, whose backups are
+/// encoded and written on a thread of their own, then idle until killed.
+#[test]
+fn child_long_session() {
+    let Some(dir) = std::env::var_os(LONG_CHILD_ENV) else { return };
+    let data = Path::new(&dir);
+    let mut h = harness(data);
+    h.run();
+    let long = aggrade::gui::test_hooks::demo::long_section(LONG_BEDS);
+    h.state_mut().doc = Document::new(Project::new(vec![long]), None);
+    h.run();
+    for (k, t) in [(10usize, 2.75), (2_500, 0.35), (LONG_BEDS - 1, 4.5)] {
+        let bed = h.state().doc.section().beds[k].id;
+        h.state_mut().apply(aggrade::gui::Edit::SetThickness { bed, thickness_m: t });
+        // Frames keep coming between edits, as they do while someone types.
+        for _ in 0..5 {
+            h.step();
+            std::thread::sleep(Duration::from_millis(20));
+        }
+    }
+    std::fs::write(data.join("edits-done"), h.state().doc.revision.to_string()).expect("marker written");
+    let start = Instant::now();
+    while start.elapsed() < Duration::from_secs(120) {
+        h.step();
+        std::thread::sleep(Duration::from_millis(20));
+    }
+}
+
+/// A long section's backup is written on a thread of its own; a kill after it landed loses
+/// nothing, and the next start offers it back with every edit.
+#[test]
+fn killed_long_session_is_recovered_with_every_edit() {
+    if std::env::var_os(CHILD_ENV).is_some() || std::env::var_os(LONG_CHILD_ENV).is_some() {
+        return;
+    }
+    let data = tempfile::tempdir().expect("temp dir");
+    let exe = std::env::current_exe().expect("test binary");
+    let mut child = Command::new(exe)
+        .args(["--exact", "recovery::child_long_session", "--nocapture", "--test-threads", "1"])
+        .env(LONG_CHILD_ENV, data.path())
+        .env(DATA_DIR_ENV, data.path())
+        .stdout(Stdio::null())
+        .stderr(Stdio::null())
+        .spawn()
+        .expect("child started");
+    let start = Instant::now();
+    let marker = data.path().join("edits-done");
+    let revision = loop {
+        if let Some(r) = std::fs::read_to_string(&marker).ok().and_then(|t| t.trim().parse::<u64>().ok()) {
+            break r;
+        }
+        if let Ok(Some(status)) = child.try_wait() {
+            panic!("the child ended before finishing its edits: {status:?}");
+        }
+        if start.elapsed() > Duration::from_secs(120) {
+            let _ = child.kill();
+            panic!("the child did not finish its edits within 120 s");
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    };
+    let start = Instant::now();
+    loop {
+        if read_all_backups(data.path()).iter().any(|(_, r)| r.as_ref().is_ok_and(|r| r.revision == revision))
+        {
+            break;
+        }
+        if start.elapsed() > Duration::from_secs(60) {
+            let _ = child.kill();
+            panic!("no autosave of revision {revision} within 60 s");
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    child.kill().expect("killed");
+    assert!(!child.wait().expect("reaped").success(), "the child must have died, not finished");
+
+    let mut h = harness(data.path());
+    h.run();
+    assert!(h.state().recovery_pending(), "no restore offer after the crash");
+    h.get_by_label("Restore").click();
+    h.run();
+    let s = h.state().doc.section();
+    assert_eq!(s.beds.len(), LONG_BEDS);
+    let got: Vec<f64> = [10usize, 2_500, LONG_BEDS - 1].iter().map(|&k| s.beds[k].thickness_m).collect();
+    assert_eq!(got, vec![2.75, 0.35, 4.5], "every edit of the long section was recovered");
+    assert!(h.state().doc.dirty);
+}
+
 const WINDOW_ENV: &str = "AGGRADE_TEST_CHILD_WINDOW";
 
 /// A second kind of child: one window with a section of the given name and a few edits through
