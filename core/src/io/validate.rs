@@ -368,7 +368,7 @@ fn section_problems_since(section: &Section, other: Option<&Section>) -> Vec<Pro
     let mut out = Vec::new();
     section_head(&mut out, section);
     let other_run = run.start..other.beds.len() - (section.beds.len() - run.end);
-    let sorted_ids = |beds: crate::model::beds::Iter<'_>| {
+    let sorted_ids = |beds: crate::model::beds::Iter<'_, Bed>| {
         let mut ids: Vec<u64> = beds.map(|b| b.id.0).collect();
         ids.sort_unstable();
         ids

@@ -1,6 +1,6 @@
 //! Sections, beds, named surfaces and review decisions: the record a geologist logs.
 
-use super::beds::Beds;
+use super::beds::SharedList;
 use super::curve::MeasuredCurve;
 use super::facies::FaciesCode;
 use super::grain::GrainSize;
@@ -258,6 +258,10 @@ impl ReviewDecision {
         self.link.as_deref().map(str::trim).filter(|l| !l.is_empty())
     }
 }
+
+/// The beds of a section, base first, each shared between copies of the section until written
+/// ([`SharedList`]).
+pub type Beds = SharedList<Bed>;
 
 /// A measured section: metadata and beds listed base first.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
