@@ -1,8 +1,10 @@
 //! One frame of the window on a 5,000-bed and on a 50,000-bed section: build the UI (layout
 //! cached, as while scrolling), and tessellate; a jump along the section (the layout around the
 //! new view rebuilt); the frame right after an edit (the rules and layout start on a worker; the
-//! column from before is drawn), and the time from an edit until the column on screen shows it.
-//! Targets: under 8 ms per frame; from an edit until the column is current, under 50 ms.
+//! column from before is drawn), and the time from an edit until the column on screen shows it:
+//! with frames drawn back to back meanwhile (the worst case: nothing paces the window), and at the
+//! pace of a 60 Hz display, as the window draws. Targets: under 8 ms per frame; from an edit until
+//! the column is current, under 50 ms.
 
 use aggrade::gui::test_hooks::{demo, files};
 use aggrade::gui::Edit;
@@ -98,6 +100,38 @@ fn frames_on(c: &mut Criterion, n: usize, samples: usize) {
                 frames += 1;
                 if !app.column_pending() || frames > 10_000 {
                     break frames;
+                }
+            }
+        })
+    });
+    // The same as the window runs it: it draws when there is input or something asks for a
+    // repaint, at most once per display refresh, and the worker asks for one when it is done. A
+    // geologist who keeps moving the mouse meanwhile gets a frame every 16.7 ms (a 60 Hz display);
+    // the worker's repaint request is answered at once, as eframe answers it.
+    let asked = std::sync::Arc::new(std::sync::atomic::AtomicBool::new(false));
+    let flag = std::sync::Arc::clone(&asked);
+    ctx.set_request_repaint_callback(move |info| {
+        if info.delay.is_zero() {
+            flag.store(true, std::sync::atomic::Ordering::SeqCst);
+        }
+    });
+    let display = std::time::Duration::from_micros(16_667);
+    g.bench_function(format!("edit_until_column_current_{n}_beds_60hz"), |b| {
+        b.iter(|| {
+            k += 1;
+            app.apply(Edit::SetThickness { bed: first, thickness_m: 1.0 + (k % 7) as f64 * 0.1 });
+            let mut frames = 0;
+            loop {
+                let drawn = std::time::Instant::now();
+                asked.store(false, std::sync::atomic::Ordering::SeqCst);
+                t += 0.016;
+                let _ = frame_once(&ctx, &mut app, t);
+                frames += 1;
+                if !app.column_pending() || frames > 10_000 {
+                    break frames;
+                }
+                while !asked.load(std::sync::atomic::Ordering::SeqCst) && drawn.elapsed() < display {
+                    std::thread::sleep(std::time::Duration::from_micros(100));
                 }
             }
         })

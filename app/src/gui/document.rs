@@ -738,7 +738,7 @@ fn setting_problem(
 
 /// Drop a large value on a short-lived thread (or here, if no thread can be had).
 pub(crate) fn drop_elsewhere<T: Send + 'static>(value: T) {
-    let _ = std::thread::Builder::new().name("aggrade-drop".into()).spawn(move || drop(value));
+    let _ = super::background::spawn("aggrade-drop", move || drop(value));
 }
 
 /// Move the lateral record of the channel body based on bed `from` to bed `to` (the geologist's

@@ -10,6 +10,7 @@
 
 mod actions;
 mod app;
+mod background;
 mod canvas;
 mod chooser;
 mod column;

@@ -378,20 +378,18 @@ impl Autosaver {
         let disk = doc.disk.as_ref().map(|d| (d.len, d.hash));
         let unstored = self.unstored.clone();
         let project = std::sync::Arc::clone(&doc.project);
-        let thread = std::thread::Builder::new()
-            .name("aggrade-backup".into())
-            .spawn(move || {
-                let rec = RecoveryOut {
-                    original_path: &original_path,
-                    revision,
-                    saved_at_secs: now_secs(),
-                    disk,
-                    unstored: &unstored,
-                    project: &project,
-                };
-                write_backup(&dir, &path, &rec)
-            })
-            .map_err(|error| BackupError::Folder { dir: self.dir.clone(), error })?;
+        let thread = super::background::spawn("aggrade-backup", move || {
+            let rec = RecoveryOut {
+                original_path: &original_path,
+                revision,
+                saved_at_secs: now_secs(),
+                disk,
+                unstored: &unstored,
+                project: &project,
+            };
+            write_backup(&dir, &path, &rec)
+        })
+        .map_err(|error| BackupError::Folder { dir: self.dir.clone(), error })?;
         self.writing = Some(Writing { revision, thread });
         Ok(())
     }

@@ -79,48 +79,7 @@ fn killed_session_is_recovered_with_every_edit() {
         return;
     }
     let data = tempfile::tempdir().expect("temp dir");
-    let exe = std::env::current_exe().expect("test binary");
-    let mut child = Command::new(exe)
-        .args(["--exact", "recovery::child_session", "--nocapture", "--test-threads", "1"])
-        .env(CHILD_ENV, data.path())
-        .env(DATA_DIR_ENV, data.path())
-        .stdout(Stdio::null())
-        .stderr(Stdio::null())
-        .spawn()
-        .expect("child started");
-    // Wait for the child to finish its edits.
-    let start = Instant::now();
-    let marker = data.path().join("edits-done");
-    let revision = loop {
-        if let Some(r) = std::fs::read_to_string(&marker).ok().and_then(|t| t.trim().parse::<u64>().ok()) {
-            break r;
-        }
-        if let Ok(Some(status)) = child.try_wait() {
-            panic!("the child ended before finishing its edits: {status:?}");
-        }
-        if start.elapsed() > Duration::from_secs(90) {
-            let _ = child.kill();
-            panic!("the child did not finish its edits within 90 s");
-        }
-        std::thread::sleep(Duration::from_millis(50));
-    };
-    // Wait until the autosave holds the last edit, then kill without warning.
-    let start = Instant::now();
-    loop {
-        // The child is alive and holds its backup's lock: read the files directly.
-        if read_all_backups(data.path()).iter().any(|(_, r)| r.as_ref().is_ok_and(|r| r.revision == revision))
-        {
-            break;
-        }
-        if start.elapsed() > Duration::from_secs(60) {
-            let _ = child.kill();
-            panic!("no autosave of revision {revision} within 60 s");
-        }
-        std::thread::sleep(Duration::from_millis(50));
-    }
-    child.kill().expect("killed");
-    let status = child.wait().expect("reaped");
-    assert!(!status.success(), "the child must have died, not finished: {status:?}");
+    kill_child_after_backup("recovery::child_session", CHILD_ENV, data.path(), 90);
 
     // Next start: the offer appears; restoring brings every edit back.
     let mut h = harness(data.path());
@@ -146,6 +105,53 @@ fn killed_session_is_recovered_with_every_edit() {
     assert_eq!(s.review.len(), 1, "the review decision was recovered");
     assert_eq!(s.review[0].state, ReviewState::Accepted);
     assert!(h.state().doc.dirty);
+}
+
+/// Start the child test `child_test` (it finds its data folder in the variable `env`), wait
+/// up to `edit_secs` for it to finish its edits (it writes the revision to `edits-done`), then
+/// until its backup holds that revision, and kill it without warning.
+fn kill_child_after_backup(child_test: &str, env: &str, data: &Path, edit_secs: u64) {
+    let exe = std::env::current_exe().expect("test binary");
+    let mut child = Command::new(exe)
+        .args(["--exact", child_test, "--nocapture", "--test-threads", "1"])
+        .env(env, data)
+        .env(DATA_DIR_ENV, data)
+        .stdout(Stdio::null())
+        .stderr(Stdio::null())
+        .spawn()
+        .expect("child started");
+    // Wait for the child to finish its edits.
+    let start = Instant::now();
+    let marker = data.join("edits-done");
+    let revision = loop {
+        if let Some(r) = std::fs::read_to_string(&marker).ok().and_then(|t| t.trim().parse::<u64>().ok()) {
+            break r;
+        }
+        if let Ok(Some(status)) = child.try_wait() {
+            panic!("the child ended before finishing its edits: {status:?}");
+        }
+        if start.elapsed() > Duration::from_secs(edit_secs) {
+            let _ = child.kill();
+            panic!("the child did not finish its edits within {edit_secs} s");
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    };
+    // Wait until the autosave holds the last edit, then kill without warning.
+    let start = Instant::now();
+    loop {
+        // The child is alive and holds its backup's lock: read the files directly.
+        if read_all_backups(data).iter().any(|(_, r)| r.as_ref().is_ok_and(|r| r.revision == revision)) {
+            break;
+        }
+        if start.elapsed() > Duration::from_secs(60) {
+            let _ = child.kill();
+            panic!("no autosave of revision {revision} within 60 s");
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    child.kill().expect("killed");
+    let status = child.wait().expect("reaped");
+    assert!(!status.success(), "the child must have died, not finished: {status:?}");
 }
 
 const LONG_CHILD_ENV: &str = "AGGRADE_TEST_CHILD_LONG";
@@ -189,44 +195,7 @@ fn killed_long_session_is_recovered_with_every_edit() {
         return;
     }
     let data = tempfile::tempdir().expect("temp dir");
-    let exe = std::env::current_exe().expect("test binary");
-    let mut child = Command::new(exe)
-        .args(["--exact", "recovery::child_long_session", "--nocapture", "--test-threads", "1"])
-        .env(LONG_CHILD_ENV, data.path())
-        .env(DATA_DIR_ENV, data.path())
-        .stdout(Stdio::null())
-        .stderr(Stdio::null())
-        .spawn()
-        .expect("child started");
-    let start = Instant::now();
-    let marker = data.path().join("edits-done");
-    let revision = loop {
-        if let Some(r) = std::fs::read_to_string(&marker).ok().and_then(|t| t.trim().parse::<u64>().ok()) {
-            break r;
-        }
-        if let Ok(Some(status)) = child.try_wait() {
-            panic!("the child ended before finishing its edits: {status:?}");
-        }
-        if start.elapsed() > Duration::from_secs(120) {
-            let _ = child.kill();
-            panic!("the child did not finish its edits within 120 s");
-        }
-        std::thread::sleep(Duration::from_millis(50));
-    };
-    let start = Instant::now();
-    loop {
-        if read_all_backups(data.path()).iter().any(|(_, r)| r.as_ref().is_ok_and(|r| r.revision == revision))
-        {
-            break;
-        }
-        if start.elapsed() > Duration::from_secs(60) {
-            let _ = child.kill();
-            panic!("no autosave of revision {revision} within 60 s");
-        }
-        std::thread::sleep(Duration::from_millis(50));
-    }
-    child.kill().expect("killed");
-    assert!(!child.wait().expect("reaped").success(), "the child must have died, not finished");
+    kill_child_after_backup("recovery::child_long_session", LONG_CHILD_ENV, data.path(), 120);
 
     let mut h = harness(data.path());
     h.run();

@@ -8,13 +8,13 @@
 //! `docs/interpretation-rules.md`.
 
 use super::bodies::body_beds;
-use super::column::{is_sand_or_gravel, Column, TOL};
+use super::column::{BedFacts, Column, TOL};
 use super::evidence::{Evidence, EvidenceKind};
 use super::params::RuleParams;
 use super::types::{
     BoundaryCandidate, CandidateKind, Censor, ChannelBody, PaleosolProfile, Stacking, Storey, Strength,
 };
-use crate::model::{Contact, PaleosolDevelopment, Section, SurfaceKind, WentworthClass};
+use crate::model::{Contact, LithologyFamily, PaleosolDevelopment, Section, WentworthClass};
 use std::collections::{BTreeMap, BTreeSet};
 
 /// What the earlier rules found, for the candidates.
@@ -22,6 +22,8 @@ pub struct Found<'a> {
     pub storeys: &'a [Storey],
     pub bodies: &'a [ChannelBody],
     pub paleosols: &'a [PaleosolProfile],
+    /// For each bed, the index of the paleosol profile it belongs to.
+    pub profile_of: &'a [Option<usize>],
 }
 
 /// What sits at one bed boundary.
@@ -44,10 +46,10 @@ pub fn candidates(
     params: &RuleParams,
     all: bool,
 ) -> (Vec<BoundaryCandidate>, usize) {
-    let Found { storeys, bodies, paleosols } = *found;
+    let Found { storeys, bodies, paleosols, profile_of } = *found;
     let beds = &section.beds;
+    let facts = &column.facts;
     let n = beds.len();
-    let profile_of = super::paleosols::profile_of_bed(n, paleosols);
     let mature_profile = |i: usize| profile_of[i].map(|k| &paleosols[k]).filter(|p| p.maturity.is_strong());
 
     // What sits at each bed boundary (indexed by the bed above it); most have nothing.
@@ -64,7 +66,7 @@ pub fn candidates(
             continue;
         }
         body_starting_at[first] = Some(k);
-        if beds[first].base_contact == Contact::Erosional {
+        if facts[first].contact == Contact::Erosional {
             sites[first].body = Some(k);
         }
     }
@@ -75,10 +77,8 @@ pub fn candidates(
             sites[j].body = sites[j].body.or(body_starting_at[j]);
         }
     }
-    for (i, bed) in beds.iter().enumerate() {
-        if bed.base_surface.as_ref().is_some_and(|s| s.kind == SurfaceKind::Incision) {
-            sites[i].tagged = true;
-        }
+    for (site, f) in sites.iter_mut().zip(facts) {
+        site.tagged = f.incision_tagged;
     }
 
     // Index of the highest mature paleosol bed at or below each bed, for truncation checks in
@@ -96,9 +96,7 @@ pub fn candidates(
     let reaches: Vec<Option<(usize, f64)>> = (0..n)
         .map(|j| {
             sites[j].body?;
-            let r = beds[j]
-                .base_relief_m
-                .filter(|r| r.is_finite() && *r > 0.0 && beds[j].base_contact == Contact::Erosional)?;
+            let r = facts[j].erosional_relief_m()?;
             let s = last_mature[j.checked_sub(1)?]?;
             let depth_m = column.bounds_m[j] - column.bounds_m[s + 1];
             (depth_m < r - TOL).then_some((s, depth_m))
@@ -124,7 +122,10 @@ pub fn candidates(
         .iter()
         .map(|b| {
             let (first, last) = body_beds(b, storeys);
-            fill_median(beds.range(first..=last.min(n.saturating_sub(1)).max(first)), params)
+            fill_median(
+                facts.get(first..=last.min(n.saturating_sub(1)).max(first)).unwrap_or_default(),
+                params,
+            )
         })
         .collect();
 
@@ -139,8 +140,8 @@ pub fn candidates(
             continue;
         }
         let height_m = column.bounds_m[j];
-        let above = &beds[j];
-        let below = &beds[j - 1];
+        let above = &facts[j];
+        let below = &facts[j - 1];
         let mut evidence = Vec::new();
         let body = site.body.map(|k| &bodies[k]);
 
@@ -158,8 +159,13 @@ pub fn candidates(
         if let Some(p) = profile_below.filter(|p| !p.maturity.is_strong()) {
             evidence.push(Evidence::PaleosolTop { development: p.maturity });
         }
-        let surface_name =
-            above.base_surface.as_ref().map(|s| s.name.trim().to_string()).filter(|s| !s.is_empty());
+        // The table says whether there is a surface; its name is read from the bed.
+        let surface_name = beds[j]
+            .base_surface
+            .as_ref()
+            .filter(|_| above.base_surface)
+            .map(|s| s.name.trim().to_string())
+            .filter(|s| !s.is_empty());
         if let Some(name) = surface_name.as_ref().filter(|_| !site.tagged) {
             evidence.push(Evidence::NamedSurface { name: name.clone() });
         }
@@ -168,9 +174,7 @@ pub fn candidates(
         if site.tagged {
             evidence.push(Evidence::IncisionTagged { name: surface_name.clone().unwrap_or_default() });
         }
-        let relief_m = above
-            .base_relief_m
-            .filter(|r| r.is_finite() && *r > 0.0 && above.base_contact == Contact::Erosional);
+        let relief_m = above.erosional_relief_m();
         if let Some(r) = relief_m {
             // The body the surface cuts into: the highest one ending at or below it, when the
             // relief reaches down to its top; otherwise the channels of its own body.
@@ -233,24 +237,24 @@ pub fn candidates(
         // with no channel on it.
         if body.is_some() {
             if let Some(p) = mature_profile(j - 1) {
-                evidence.push(if above.base_contact == Contact::Erosional {
+                evidence.push(if above.contact == Contact::Erosional {
                     Evidence::ErodesIntoPaleosol { development: p.maturity }
                 } else {
                     Evidence::RestsOnPaleosol { development: p.maturity }
                 });
             } else if let (Some(r), Some((s, depth_m))) = (relief_m, reaches[j]) {
-                let development = mature_profile(s).map_or(beds[s].paleosol, |p| p.maturity);
+                let development = mature_profile(s).map_or(facts[s].paleosol, |p| p.maturity);
                 evidence.push(Evidence::ReliefReachesPaleosol { relief_m: r, development, depth_m });
             }
         } else if let Some((k, p)) =
             site.on_paleosol.map(|k| (k, &paleosols[k])).filter(|(_, p)| p.maturity.is_strong())
         {
-            if above.is_covered() {
+            if above.family == LithologyFamily::Covered {
                 // Whether a channel rests on it is not seen.
                 evidence.push(Evidence::TopCovered { development: p.maturity });
             } else if let Some(at_m) = cut_by_channel[k] {
                 evidence.push(Evidence::CutByChannelAbove { development: p.maturity, at_m });
-            } else if is_sand_or_gravel(below) {
+            } else if below.sand_or_gravel() {
                 evidence.push(Evidence::SandstoneTopPaleosol { development: p.maturity });
             } else {
                 evidence.push(Evidence::InterfluvePaleosol {
@@ -307,17 +311,14 @@ pub fn candidates(
 /// The thickness-weighted median Wentworth class of the sand and gravel beds of a fill, basal
 /// lags left out; a graded bed counts half at its base class and half at its top class. `None`
 /// when no such bed has a grain size.
-fn fill_median<'a>(
-    beds: impl Iterator<Item = &'a crate::model::Bed>,
-    params: &RuleParams,
-) -> Option<WentworthClass> {
+fn fill_median(beds: &[BedFacts], params: &RuleParams) -> Option<WentworthClass> {
     let mut parts: Vec<(WentworthClass, f64)> = Vec::new();
-    for bed in beds.filter(|b| is_sand_or_gravel(b) && !super::elements::is_lag(b, params)) {
-        let t = bed.usable_thickness_m();
+    for bed in beds.iter().filter(|b| b.sand_or_gravel() && !b.is_lag(params)) {
+        let t = bed.thickness_m;
         let (base, top) = (bed.grain_base.or(bed.grain_top), bed.grain_top.or(bed.grain_base));
         if let (Some(b), Some(u)) = (base, top) {
-            parts.push((b.class(), t / 2.0));
-            parts.push((u.class(), t / 2.0));
+            parts.push((b, t / 2.0));
+            parts.push((u, t / 2.0));
         }
     }
     let total: f64 = parts.iter().map(|p| p.1).sum();

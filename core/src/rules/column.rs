@@ -1,8 +1,10 @@
 //! Bed heights and prefix sums of channel-deposit and exposed thickness, so that any window's
 //! channel-body proportion costs a binary search instead of a scan.
 
+use super::params::RuleParams;
 use super::types::Element;
-use crate::model::{Bed, LithologyFamily, Section};
+use crate::model::{BaseRank, Bed, BedId, Contact, LithologyFamily, PaleosolDevelopment, Section};
+use crate::model::{Structure, SurfaceKind, WentworthClass};
 
 /// Allowance on threshold comparisons of lengths (metres) and proportions: rounding left by unit
 /// conversion (e.g. feet to metres) must not flip a call that sits exactly on a threshold.
@@ -18,11 +20,92 @@ pub(crate) fn is_sand_or_gravel(bed: &Bed) -> bool {
     matches!(family(bed), LithologyFamily::Sand | LithologyFamily::Gravel)
 }
 
+/// True when a bed was logged as a soil horizon (a paleosol development, soil features, a
+/// carbonate stage, a horizon designation or a drainage class).
+pub(crate) fn is_horizon(bed: &Bed) -> bool {
+    !bed.is_covered()
+        && (bed.paleosol != PaleosolDevelopment::None
+            || !bed.paleosol_features.is_empty()
+            || bed.carbonate_stage.is_some()
+            || bed.soil_horizon.is_some()
+            || bed.drainage.is_some())
+}
+
+/// What the rules read of one bed most often, gathered in a single upward pass. The beds of a
+/// long section are tens of megabytes (text, photos, samples …), so every rule pass that read
+/// them again went to main memory; this table is a few tens of bytes a bed, and passes over it
+/// stay in cache. Anything else a rule needs it reads from the bed itself.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct BedFacts {
+    pub id: BedId,
+    /// [`Bed::usable_thickness_m`].
+    pub thickness_m: f64,
+    /// The logged base relief, m; NaN when none was logged (every test of it is false for NaN,
+    /// as it was for no value).
+    pub relief_m: f64,
+    pub family: LithologyFamily,
+    pub contact: Contact,
+    pub base_rank: Option<BaseRank>,
+    pub paleosol: PaleosolDevelopment,
+    /// Wentworth class of the grain size at the base and at the top, as logged.
+    pub grain_base: Option<WentworthClass>,
+    pub grain_top: Option<WentworthClass>,
+    /// Logged as a soil horizon (see `paleosols`).
+    pub horizon: bool,
+    /// Logged with a basal-lag structure.
+    pub basal_lag: bool,
+    /// A named surface at its base, and whether it is tagged an incision surface.
+    pub base_surface: bool,
+    pub incision_tagged: bool,
+}
+
+impl BedFacts {
+    /// The facts of one bed.
+    pub fn of(bed: &Bed) -> Self {
+        BedFacts {
+            id: bed.id,
+            thickness_m: bed.usable_thickness_m(),
+            relief_m: bed.base_relief_m.unwrap_or(f64::NAN),
+            family: bed.lithology.family(),
+            contact: bed.base_contact,
+            base_rank: bed.base_rank,
+            paleosol: bed.paleosol,
+            grain_base: bed.grain_base.map(|g| g.class()),
+            grain_top: bed.grain_top.map(|g| g.class()),
+            horizon: is_horizon(bed),
+            basal_lag: bed.structures.contains(&Structure::BasalLag),
+            base_surface: bed.base_surface.is_some(),
+            incision_tagged: bed.base_surface.as_ref().is_some_and(|s| s.kind == SurfaceKind::Incision),
+        }
+    }
+
+    /// Sandstone, conglomerate or breccia ([`is_sand_or_gravel`]).
+    pub fn sand_or_gravel(&self) -> bool {
+        matches!(self.family, LithologyFamily::Sand | LithologyFamily::Gravel)
+    }
+
+    /// Erosional base relief above zero, m, when logged ([`Bed::base_relief_m`]).
+    pub fn erosional_relief_m(&self) -> Option<f64> {
+        let r = self.relief_m;
+        (r.is_finite() && r > 0.0 && self.contact == Contact::Erosional).then_some(r)
+    }
+
+    /// A basal lag: a gravel bed, or one logged with a basal-lag structure, thinner than the
+    /// limit.
+    pub fn is_lag(&self, params: &RuleParams) -> bool {
+        self.sand_or_gravel()
+            && (self.family == LithologyFamily::Gravel || self.basal_lag)
+            && self.thickness_m < params.lag_limit_m - TOL
+    }
+}
+
 /// Bed boundaries and cumulative thicknesses of one section.
 #[derive(Debug, Clone)]
 pub(crate) struct Column {
     /// Heights of bed boundaries, metres: `bounds_m[i]` is the base of bed i, `bounds_m[n]` the top.
     pub bounds_m: Vec<f64>,
+    /// What the rules read of each bed (see [`BedFacts`]), base first.
+    pub facts: Vec<BedFacts>,
     /// Channel-deposit thickness below each boundary (same indexing as `bounds_m`).
     channel_cum_m: Vec<f64>,
     /// Exposed (not covered) thickness below each boundary.
@@ -33,13 +116,16 @@ impl Column {
     /// Boundaries only; the sums are filled by [`Column::with_elements`].
     pub fn new(section: &Section) -> Self {
         let mut bounds_m = Vec::with_capacity(section.beds.len() + 1);
+        let mut facts = Vec::with_capacity(section.beds.len());
         let mut h = 0.0;
         bounds_m.push(h);
         for bed in &section.beds {
-            h += bed.usable_thickness_m();
+            let f = BedFacts::of(bed);
+            h += f.thickness_m;
             bounds_m.push(h);
+            facts.push(f);
         }
-        Column { bounds_m, channel_cum_m: Vec::new(), exposed_cum_m: Vec::new() }
+        Column { bounds_m, facts, channel_cum_m: Vec::new(), exposed_cum_m: Vec::new() }
     }
 
     /// Fill the prefix sums from each bed's element.
@@ -204,6 +290,49 @@ pub(crate) fn proportion_of(channel_m: f64, exposed_m: f64) -> Option<f64> {
 mod tests {
     use super::*;
     use crate::model::{BedId, Lithology};
+
+    #[test]
+    fn the_facts_table_reads_each_bed_as_the_bed_does() {
+        use crate::model::{GrainSize, Surface};
+        let p = RuleParams::default();
+        let mut beds = Vec::new();
+        for (k, lith) in
+            [Lithology::Conglomerate, Lithology::Sandstone, Lithology::Mudstone, Lithology::Covered]
+                .into_iter()
+                .enumerate()
+        {
+            // Thicknesses either side of the lag limit; relief none, not a number, negative,
+            // positive; both contacts; a lag structure and a tagged surface on some.
+            for (j, t) in
+                [p.lag_limit_m - 0.01, p.lag_limit_m, p.lag_limit_m + 0.01, f64::NAN].into_iter().enumerate()
+            {
+                let mut b = Bed::new(BedId((k * 10 + j) as u64), t, lith, Some(GrainSize::Phi(1.2)));
+                b.base_relief_m = [None, Some(f64::NAN), Some(-0.5), Some(0.7)][j];
+                b.base_contact = if j == 1 { Contact::Sharp } else { Contact::Erosional };
+                if j == 1 {
+                    b.structures.push(Structure::BasalLag);
+                    b.base_surface = Some(Surface { name: "S1".into(), kind: SurfaceKind::Incision });
+                }
+                beds.push(b);
+            }
+        }
+        for b in &beds {
+            let f = BedFacts::of(b);
+            let lag = is_sand_or_gravel(b)
+                && (family(b) == LithologyFamily::Gravel || b.structures.contains(&Structure::BasalLag))
+                && b.usable_thickness_m() < p.lag_limit_m - TOL;
+            assert_eq!(f.is_lag(&p), lag, "{b:?}");
+            assert_eq!(f.sand_or_gravel(), is_sand_or_gravel(b));
+            let relief =
+                b.base_relief_m.filter(|r| r.is_finite() && *r > 0.0 && b.base_contact == Contact::Erosional);
+            assert_eq!(f.erosional_relief_m(), relief, "{b:?}");
+            assert_eq!(f.thickness_m.to_bits(), b.usable_thickness_m().to_bits());
+            assert_eq!(f.incision_tagged, b.base_surface.is_some());
+            assert_eq!(f.grain_base, Some(crate::model::WentworthClass::MediumSand));
+        }
+        assert!(beds.iter().any(|b| BedFacts::of(b).is_lag(&p)), "some bed is a lag");
+        assert!(beds.iter().any(|b| BedFacts::of(b).erosional_relief_m().is_some()), "some relief counts");
+    }
 
     fn section(beds: &[(f64, Lithology)]) -> Section {
         let mut s = Section::new("t");

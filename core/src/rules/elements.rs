@@ -12,15 +12,15 @@
 //! paleosol profile on its own sandstone top.
 
 use super::bodies::profile;
-use super::column::{family, is_sand_or_gravel, Column, TOL};
+use super::column::{BedFacts, Column, TOL};
 use super::params::RuleParams;
 use super::types::{Element, GrainProfile, Storey};
 use crate::model::{BaseRank, Bed, Contact, LithologyFamily, Section, Structure};
 
 /// The element a bed is read as before storeys are known (sand and gravel start as splays and
 /// become channel deposits when a storey takes them in).
-fn first_reading(bed: &Bed, in_profile: bool) -> Element {
-    match family(bed) {
+fn first_reading(family: LithologyFamily, in_profile: bool) -> Element {
+    match family {
         LithologyFamily::Covered => Element::Covered,
         LithologyFamily::NonClastic => Element::Other,
         LithologyFamily::Fines if in_profile => Element::Paleosol,
@@ -30,15 +30,14 @@ fn first_reading(bed: &Bed, in_profile: bool) -> Element {
 }
 
 /// A basal lag: a gravel bed, or one logged with a basal-lag structure, thinner than the limit.
+/// (The rule itself is [`BedFacts::is_lag`]; the rules' passes read it from the column's table.)
 pub(crate) fn is_lag(bed: &Bed, params: &RuleParams) -> bool {
-    is_sand_or_gravel(bed)
-        && (family(bed) == LithologyFamily::Gravel || bed.structures.contains(&Structure::BasalLag))
-        && bed.usable_thickness_m() < params.lag_limit_m - TOL
+    BedFacts::of(bed).is_lag(params)
 }
 
 /// True when the geologist ranked this bed's base a storey surface or a body base.
-fn ranked_surface(bed: &Bed) -> bool {
-    matches!(bed.base_rank, Some(BaseRank::StoreySurface | BaseRank::BodyBase))
+fn ranked_surface(rank: Option<BaseRank>) -> bool {
+    matches!(rank, Some(BaseRank::StoreySurface | BaseRank::BodyBase))
 }
 
 /// Signs for a channel and for a splay in the sand run `first..=last` resting on fines (the
@@ -125,7 +124,6 @@ struct OpenStorey {
 
 /// What the rules need to know about each bed before the upward scan.
 struct Reading<'a> {
-    section: &'a Section,
     column: &'a Column,
     params: &'a RuleParams,
     profile_of: &'a [Option<usize>],
@@ -135,23 +133,23 @@ impl Reading<'_> {
     /// A sand bed with a paleosol profile on it that does not go on into the next sand bed: the
     /// storey ends with it (a soil on a sandstone top).
     fn capped(&self, i: usize) -> bool {
-        let beds = &self.section.beds;
+        let facts = &self.column.facts;
         self.profile_of[i].is_some()
-            && (i + 1 >= beds.len()
-                || !is_sand_or_gravel(&beds[i + 1])
+            && (i + 1 >= facts.len()
+                || !facts[i + 1].sand_or_gravel()
                 || self.profile_of[i + 1] != self.profile_of[i])
     }
 
     /// The base of sand bed `i` rests on a basal lag.
     fn rests_on_lag(&self, i: usize) -> bool {
-        i > 0 && is_lag(&self.section.beds[i - 1], self.params)
+        i > 0 && self.column.facts[i - 1].is_lag(self.params)
     }
 
     /// For each bed, whether its base is a storey surface when met inside a storey: ranked so by
     /// the geologist, or an erosional base (not resting on a lag) whose sand reaches the minimum
     /// storey thickness before the next such surface. One downward pass.
     fn storey_surfaces(&self) -> Vec<bool> {
-        let beds = &self.section.beds;
+        let beds = &self.column.facts;
         let n = beds.len();
         let bounds = &self.column.bounds_m;
         let p = self.params;
@@ -163,9 +161,9 @@ impl Reading<'_> {
         let mut fines_m = vec![0.0; n + 1];
         let mut after_fines = vec![n; n + 1];
         let is_fines = |j: usize| {
-            !is_sand_or_gravel(&beds[j])
+            !beds[j].sand_or_gravel()
                 && self.profile_of[j].is_none()
-                && family(&beds[j]) == LithologyFamily::Fines
+                && beds[j].family == LithologyFamily::Fines
         };
         for i in (0..n).rev() {
             if is_fines(i) {
@@ -174,19 +172,19 @@ impl Reading<'_> {
                 } else {
                     (0.0, i + 1)
                 };
-                fines_m[i] = beds[i].usable_thickness_m() + above.0;
+                fines_m[i] = beds[i].thickness_m + above.0;
                 after_fines[i] = above.1;
             }
-            if !is_sand_or_gravel(&beds[i]) {
+            if !beds[i].sand_or_gravel() {
                 continue;
             }
-            let breaks = |k: usize| ranked_surface(&beds[k]) || surface[k];
+            let breaks = |k: usize| ranked_surface(beds[k].base_rank) || surface[k];
             let next = if self.capped(i) || i + 1 >= n {
                 None
-            } else if is_sand_or_gravel(&beds[i + 1]) {
+            } else if beds[i + 1].sand_or_gravel() {
                 Some(i + 1)
             } else if is_fines(i + 1) && fines_m[i + 1] < p.drape_limit_m - TOL {
-                Some(after_fines[i + 1]).filter(|&k| k < n && is_sand_or_gravel(&beds[k]))
+                Some(after_fines[i + 1]).filter(|&k| k < n && beds[k].sand_or_gravel())
             } else {
                 None
             };
@@ -199,7 +197,7 @@ impl Reading<'_> {
                 Some(BaseRank::StoreySurface | BaseRank::BodyBase) => true,
                 Some(BaseRank::WithinStorey) => false,
                 None => {
-                    bed.base_contact == Contact::Erosional
+                    bed.contact == Contact::Erosional
                         && !self.rests_on_lag(i)
                         && reach_m[i] - bounds[i] >= p.min_storey_m - TOL
                 }
@@ -217,11 +215,12 @@ pub fn elements_and_storeys(
     profile_of: &[Option<usize>],
     params: &RuleParams,
 ) -> (Vec<Element>, Vec<Storey>) {
-    let beds = &section.beds;
+    let beds = &column.facts;
     let n = beds.len();
-    let reading = Reading { section, column, params, profile_of };
-    let mut elements: Vec<Element> =
-        (0..n).map(|i| first_reading(&beds[i], profile_of.get(i).copied().flatten().is_some())).collect();
+    let reading = Reading { column, params, profile_of };
+    let mut elements: Vec<Element> = (0..n)
+        .map(|i| first_reading(beds[i].family, profile_of.get(i).copied().flatten().is_some()))
+        .collect();
     let surfaces = reading.storey_surfaces();
     let mut storeys = Vec::new();
     let mut open: Option<OpenStorey> = None;
@@ -250,8 +249,8 @@ pub fn elements_and_storeys(
     let mut i = 0;
     while i < n {
         let bed = &beds[i];
-        let t = bed.usable_thickness_m();
-        if is_sand_or_gravel(bed) {
+        let t = bed.thickness_m;
+        if bed.sand_or_gravel() {
             if let Some(o) = open.as_mut() {
                 if surfaces[i] {
                     // Resting on channel sand only when the bed below is the open storey's sand.
@@ -279,16 +278,16 @@ pub fn elements_and_storeys(
             // surface the geologist ranked, a soil on its top or an erosional base not on a lag.
             let mut j = i + 1;
             while j < n
-                && is_sand_or_gravel(&beds[j])
+                && beds[j].sand_or_gravel()
                 && !reading.capped(j - 1)
-                && !ranked_surface(&beds[j])
-                && (beds[j].base_contact != Contact::Erosional
+                && !ranked_surface(beds[j].base_rank)
+                && (beds[j].contact != Contact::Erosional
                     || reading.rests_on_lag(j)
                     || beds[j].base_rank == Some(BaseRank::WithinStorey))
             {
                 j += 1;
             }
-            if ranked_surface(bed) || reads_as_channel(section, column, i, j - 1, params) {
+            if ranked_surface(bed.base_rank) || reads_as_channel(section, column, i, j - 1, params) {
                 let o = OpenStorey { first_bed: i, last_sand_bed: j - 1, amalgamated_base: false };
                 drape_m = 0.0;
                 if reading.capped(j - 1) {

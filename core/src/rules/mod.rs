@@ -63,7 +63,12 @@ pub fn interpret_with(section: &Section, params: &RuleParams, all_candidates: bo
     let column = column.with_elements(&elements);
     let mut channel_bodies = bodies::channel_bodies(section, &elements, &mut storeys, params);
     style::add_style_hints(section, &column, &elements, &storeys, &mut channel_bodies, params);
-    let found = boundaries::Found { storeys: &storeys, bodies: &channel_bodies, paleosols: &paleosols };
+    let found = boundaries::Found {
+        storeys: &storeys,
+        bodies: &channel_bodies,
+        paleosols: &paleosols,
+        profile_of: &profile_of,
+    };
     let (candidates, unlisted_candidates) =
         boundaries::candidates(section, &column, &found, params, all_candidates);
 

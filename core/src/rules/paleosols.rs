@@ -30,16 +30,6 @@ const GLEY_MAX_CHROMA: f64 = 2.0;
 /// is coloured by organic matter, as in a dark A horizon, and is not read as gleyed.
 const GLEY_MIN_VALUE: f64 = 4.0;
 
-/// True when a bed was logged as a soil horizon.
-fn is_horizon(bed: &Bed) -> bool {
-    !bed.is_covered()
-        && (bed.paleosol != PaleosolDevelopment::None
-            || !bed.paleosol_features.is_empty()
-            || bed.carbonate_stage.is_some()
-            || bed.soil_horizon.is_some()
-            || bed.drainage.is_some())
-}
-
 /// Place of a master horizon in a profile, counted from the bottom up: R, C, B, E, A, O (Soil
 /// Survey Staff designations; Retallack 2001). Transitional horizons (BC, AB) go by their first
 /// letter, as [`SoilHorizon::master`] reads them.
@@ -359,8 +349,9 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
     let mut out = Vec::new();
     let mut i = 0;
     let mut started_by: Option<ProfileBreak> = None;
+    let horizon = |i: usize| column.facts[i].horizon;
     while i < beds.len() {
-        if !is_horizon(beds[i]) {
+        if !horizon(i) {
             i += 1;
             started_by = None;
             continue;
@@ -368,7 +359,7 @@ pub fn profiles(section: &Section, column: &Column, params: &RuleParams) -> Vec<
         let first = i;
         let mut rank = beds[i].soil_horizon.as_ref().and_then(master_rank);
         let mut next_break = None;
-        while i + 1 < beds.len() && is_horizon(beds[i + 1]) {
+        while i + 1 < beds.len() && horizon(i + 1) {
             if let Some(why) = break_at(beds[i + 1], rank) {
                 next_break = Some(why);
                 break;
