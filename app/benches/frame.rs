@@ -44,7 +44,7 @@ fn frame(c: &mut Criterion) {
     frames_on(c, 50_000, 30);
 }
 
-/// The four measurements on an `n`-bed section, `samples` samples each.
+/// The five measurements on an `n`-bed section, `samples` samples each.
 fn frames_on(c: &mut Criterion, n: usize, samples: usize) {
     let data = tempfile::tempdir().expect("temp dir");
     let mut app = app_with(n, data.path());
