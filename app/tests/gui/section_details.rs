@@ -2,7 +2,8 @@
 //! detail edited through the Section details dialog reaches the document and one undo takes it
 //! back; bad input is marked and kept; files opened from the command line enter Open recent; a
 //! broken file on the command line shows its error over the same demo as a start with no file;
-//! the question before closing names the section; the status bar says what is true after edits.
+//! the question before closing names the section; the status bar says what is true after edits;
+//! the window's shortcuts wait while the dialog is open.
 
 use super::harness::{app_with, harness_of, push_close_request};
 use aggrade::gui::test_hooks::demo;
@@ -353,4 +354,46 @@ fn the_status_bar_says_what_is_true_after_edits() {
     h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
     h.run();
     assert!(h.state().status_line().starts_with("Undid the last change"), "{}", h.state().status_line());
+}
+
+/// With the dialog open, the window's shortcuts wait: Ctrl+N does not put a new project under
+/// the typed details, Delete deletes no bed, Ctrl+Z undoes the typing in the field (as a text
+/// field does) and not an edit behind the dialog; the shortcuts work again once it is closed.
+#[test]
+fn the_windows_shortcuts_wait_while_the_dialog_is_open() {
+    let data = tempfile::tempdir().expect("temp dir");
+    let mut h = two_sections(data.path());
+    h.state_mut().apply(Edit::InsertBed { index: 0, bed: aggrade::gui::test_hooks::new_bed() });
+    h.run();
+    let bed = h.state().doc.section().beds[0].id;
+    h.state_mut().doc.selected_bed = Some(bed);
+    let revision = h.state().doc.revision;
+    open_dialog(&mut h);
+    type_into(&mut h, "Locality", "west wall, Río Ñandú, côté ouest");
+    for (mods, key) in [
+        (Modifiers::COMMAND, Key::N),
+        (Modifiers::COMMAND, Key::O),
+        (Modifiers::COMMAND | Modifiers::SHIFT, Key::D),
+        (Modifiers::NONE, Key::Delete),
+        (Modifiers::COMMAND, Key::Z),
+    ] {
+        h.key_press_modifiers(mods, key);
+        h.run();
+        assert!(h.state().section_details_open(), "{mods:?}+{key:?} closed the dialog");
+        assert_eq!(
+            h.state().doc.revision,
+            revision,
+            "{mods:?}+{key:?} changed the document behind the dialog"
+        );
+        assert_eq!(section(&h).name, "Corrie Wash", "{mods:?}+{key:?} replaced the project");
+        assert!(!h.state().dialog_open() || h.state().message.is_none(), "{mods:?}+{key:?} put up a notice");
+    }
+    type_into(&mut h, "Locality", "west wall, Río Ñandú, côté ouest");
+    apply(&mut h);
+    assert_eq!(section(&h).locality, "west wall, Río Ñandú, côté ouest");
+    assert_eq!(section(&h).beds.len(), 1, "no bed deleted");
+    // Closed: Ctrl+Z works again and takes the details back.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run();
+    assert_eq!(section(&h).locality, "Tamsin Ridge");
 }

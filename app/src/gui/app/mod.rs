@@ -456,6 +456,15 @@ impl AggradeApp {
         )
     }
 
+    /// Is a dialog open in front of the window (Section details, a question, a notice, an export,
+    /// import or curve dialog, the offer of backups)?
+    pub fn dialog_open(&self) -> bool {
+        self.details.is_some()
+            || self.modal.is_some()
+            || self.message.is_some()
+            || !self.found_backups.is_empty()
+    }
+
     /// Draw the whole window (eframe calls this; tests call it through a harness).
     pub fn ui_main(&mut self, ui: &mut egui::Ui) {
         let ctx = ui.ctx().clone();
@@ -543,11 +552,7 @@ impl AggradeApp {
             }
         }
         // Bed navigation and deletion from the keyboard when no text field has the focus.
-        if ctx.memory(|m| m.focused().is_none())
-            && !matches!(self.modal, Some(Modal::Confirm(_)))
-            && self.details.is_none()
-            && self.message.is_none()
-        {
+        if ctx.memory(|m| m.focused().is_none()) && !self.dialog_open() {
             let (up, down, del) = ctx.input_mut(|i| {
                 (
                     i.consume_key(Modifiers::NONE, Key::ArrowUp),
@@ -573,6 +578,13 @@ impl AggradeApp {
                 self.apply(Edit::DeleteBed { bed: id });
                 self.status = "Bed deleted (Ctrl+Z brings it back)".into();
             }
+        }
+        // A dialog in front of the window takes the keyboard: the window's shortcuts wait until
+        // it is closed. Otherwise Ctrl+N or Ctrl+O would replace the document under a dialog
+        // still holding what was typed for the old one, and Ctrl+Z in one of its fields would
+        // undo an edit behind it instead of the typing.
+        if self.dialog_open() {
+            return;
         }
         for cmd in Command::WITH_SHORTCUTS {
             if let Some(sc) = cmd.shortcut() {
