@@ -63,9 +63,14 @@ fn child_session() {
     // Accept the strongest candidate through the review panel.
     h.get_all_by_label("Accept").next().expect("an Accept button").click();
     h.run();
-    std::fs::write(data.join("edits-done"), h.state().doc.revision.to_string()).expect("marker written");
-    // Idle like an open window: frames keep coming, time passes, autosave does its work. The
-    // parent kills us; the time limit only stops an orphan.
+    edits_done_then_idle(&mut h, &data.join("edits-done"));
+}
+
+/// The child's last step: tell the parent which revision holds every edit (written to `marker`), then
+/// idle like an open window — frames keep coming, time passes, autosave does its work. The
+/// parent kills it; the time limit only stops an orphan.
+fn edits_done_then_idle(h: &mut Harness<'static, AggradeApp>, marker: &Path) {
+    std::fs::write(marker, h.state().doc.revision.to_string()).expect("marker written");
     let start = Instant::now();
     while start.elapsed() < Duration::from_secs(120) {
         h.step();
@@ -179,12 +184,7 @@ fn child_long_session() {
             std::thread::sleep(Duration::from_millis(20));
         }
     }
-    std::fs::write(data.join("edits-done"), h.state().doc.revision.to_string()).expect("marker written");
-    let start = Instant::now();
-    while start.elapsed() < Duration::from_secs(120) {
-        h.step();
-        std::thread::sleep(Duration::from_millis(20));
-    }
+    edits_done_then_idle(&mut h, &data.join("edits-done"));
 }
 
 /// A long section's backup is written on a thread of its own; a kill after it landed loses
@@ -230,12 +230,7 @@ fn child_window() {
         h.state_mut().apply(aggrade::gui::Edit::InsertBed { index: i, bed });
         h.run();
     }
-    std::fs::write(data.join(format!("{name}.done")), h.state().doc.revision.to_string()).expect("marker");
-    let start = Instant::now();
-    while start.elapsed() < Duration::from_secs(120) {
-        h.step();
-        std::thread::sleep(Duration::from_millis(20));
-    }
+    edits_done_then_idle(&mut h, &data.join(format!("{name}.done")));
 }
 
 fn start_window(data: &Path, name: &str) -> std::process::Child {

@@ -160,10 +160,10 @@ pub fn candidates(
             evidence.push(Evidence::PaleosolTop { development: p.maturity });
         }
         // The table says whether there is a surface; its name is read from the bed.
-        let surface_name = beds[j]
+        let surface_name = above
             .base_surface
-            .as_ref()
-            .filter(|_| above.base_surface)
+            .then(|| beds[j].base_surface.as_ref())
+            .flatten()
             .map(|s| s.name.trim().to_string())
             .filter(|s| !s.is_empty());
         if let Some(name) = surface_name.as_ref().filter(|_| !site.tagged) {

@@ -12,7 +12,7 @@
 //! paleosol profile on its own sandstone top.
 
 use super::bodies::profile;
-use super::column::{BedFacts, Column, TOL};
+use super::column::{Column, TOL};
 use super::params::RuleParams;
 use super::types::{Element, GrainProfile, Storey};
 use crate::model::{BaseRank, Bed, Contact, LithologyFamily, Section, Structure};
@@ -27,12 +27,6 @@ fn first_reading(family: LithologyFamily, in_profile: bool) -> Element {
         LithologyFamily::Fines => Element::OverbankFines,
         LithologyFamily::Sand | LithologyFamily::Gravel => Element::SplaySand,
     }
-}
-
-/// A basal lag: a gravel bed, or one logged with a basal-lag structure, thinner than the limit.
-/// (The rule itself is [`BedFacts::is_lag`]; the rules' passes read it from the column's table.)
-pub(crate) fn is_lag(bed: &Bed, params: &RuleParams) -> bool {
-    BedFacts::of(bed).is_lag(params)
 }
 
 /// True when the geologist ranked this bed's base a storey surface or a body base.
@@ -61,7 +55,7 @@ pub(crate) fn channel_and_splay_signs(
     } else {
         splay += 1;
     }
-    if is_lag(base, params) || base.structures.contains(&Structure::BasalLag) {
+    if column.facts[first].is_lag(params) || base.structures.contains(&Structure::BasalLag) {
         channel += 1;
     }
     if any(Structure::TroughCrossBedding) || any(Structure::PlanarCrossBedding) {
